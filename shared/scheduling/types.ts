@@ -30,7 +30,8 @@ const clockTime = z.string().regex(CLOCK, 'must be a local clock time "HH:mm" (0
 
 const hoursInterval = z
   .object({ open: clockTime, close: clockTime })
-  .refine((h) => clockMinutes(h.open) < clockMinutes(h.close), {
+  // A malformed time is already reported on its own field.
+  .refine((h) => !CLOCK.test(h.open) || !CLOCK.test(h.close) || clockMinutes(h.open) < clockMinutes(h.close), {
     message: 'open must be before close',
     path: ['close'],
   });
