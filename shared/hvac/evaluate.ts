@@ -370,7 +370,13 @@ export function evaluateReadings(input: VisitReadings): ReadingCheck[] {
   const parsed = visitReadingsSchema.safeParse(input);
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!;
-    throw new ReadingInputError(issue.path.map(String).join('.') || 'readings', issue.message);
+    const path = issue.path.map(String);
+    // A misspelt field name is reported under that name.
+    if (issue.code === 'unrecognized_keys') {
+      const key = issue.keys[0] ?? '';
+      throw new ReadingInputError([...path, key].join('.'), `unknown field "${key}"; field names carry their units, e.g. returnDryBulbF`);
+    }
+    throw new ReadingInputError(path.join('.') || 'readings', issue.message);
   }
   const r = parsed.data;
   const checks: (ReadingCheck | null)[] = [
