@@ -1,0 +1,10 @@
+export function findPgBin(): string | null;
+export function ensurePostgresInstalled(): string;
+export function clusterHome(projectRoot: string, name: string): string;
+export function isReady(bin: string, port: number): boolean;
+export function ensureCluster(o: { home: string; port: number; durable?: boolean }): Promise<{ started: boolean; dataDir: string; bin: string }>;
+export function stopCluster(o: { home: string }): void;
+export function psql(bin: string, port: number, sql: string, db?: string): string;
+export function createDatabase(bin: string, port: number, name: string): void;
+export function dropDatabase(bin: string, port: number, name: string): void;
+export function databaseUrl(port: number, name: string): string;

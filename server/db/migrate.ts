@@ -1,0 +1,53 @@
+import { migrate } from 'drizzle-orm/node-postgres/migrator';
+import pg from 'pg';
+import { fileURLToPath } from 'node:url';
+import { createDatabase } from './client';
+
+const MIGRATIONS = fileURLToPath(new URL('../../migrations', import.meta.url));
+// Any fixed number: every process migrating this database takes the same lock.
+const MIGRATION_LOCK = 7_311_204;
+
+/** Creates the database named in the URL when it does not exist yet. */
+export async function ensureDatabaseExists(url: string): Promise<void> {
+  const target = new URL(url);
+  const name = decodeURIComponent(target.pathname.slice(1));
+  const admin = new URL(url);
+  admin.pathname = '/postgres';
+  const client = new pg.Client({ connectionString: admin.toString() });
+  await client.connect();
+  try {
+    const found = await client.query('select 1 from pg_database where datname = $1', [name]);
+    if (found.rowCount === 0) {
+      try {
+        await client.query(`create database "${name.replace(/"/g, '""')}"`);
+      } catch (err) {
+        // Another process created it first.
+        if ((err as { code?: string }).code !== '42P04') throw err;
+      }
+    }
+  } finally {
+    await client.end();
+  }
+}
+
+/** Runs pending migrations. migrate() takes no lock of its own, so we hold an advisory lock. */
+export async function runMigrations(url: string): Promise<void> {
+  await ensureDatabaseExists(url);
+  const database = createDatabase(url, 2);
+  const lockClient = await database.pool.connect();
+  try {
+    await lockClient.query('select pg_advisory_lock($1)', [MIGRATION_LOCK]);
+    await migrate(database.db, { migrationsFolder: MIGRATIONS });
+  } finally {
+    await lockClient.query('select pg_advisory_unlock($1)', [MIGRATION_LOCK]).catch(() => {});
+    lockClient.release();
+    await database.close();
+  }
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error('DATABASE_URL is required');
+  await runMigrations(url);
+  console.log('[migrate] database is up to date');
+}

@@ -1,0 +1,7 @@
+export * from './company';
+export * from './customers';
+export * from './equipment';
+export * from './plans';
+export * from './technicians';
+export * from './users';
+export * from './visits';

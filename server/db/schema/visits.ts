@@ -1,0 +1,49 @@
+import { sql } from 'drizzle-orm';
+import { check, index, pgTable, text, uuid } from 'drizzle-orm/pg-core';
+import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES } from '../../../shared/visits';
+import { createdAt, id, inList, tstz, updatedAt } from './columns';
+import { customers, properties } from './customers';
+import { agreements } from './plans';
+import { technicians } from './technicians';
+
+// A visit: a tune-up or a service call at a property. Overlap per technician is refused by an
+// EXCLUDE constraint written in a custom migration.
+export const visits = pgTable(
+  'visits',
+  {
+    id: id(),
+    customerId: uuid()
+      .notNull()
+      .references(() => customers.id, { onDelete: 'restrict' }),
+    propertyId: uuid()
+      .notNull()
+      .references(() => properties.id, { onDelete: 'restrict' }),
+    agreementId: uuid().references(() => agreements.id, { onDelete: 'restrict' }),
+    technicianId: uuid().references(() => technicians.id, { onDelete: 'restrict' }),
+    kind: text({ enum: VISIT_KINDS }).notNull(),
+    reason: text({ enum: VISIT_REASONS }).notNull(),
+    status: text({ enum: VISIT_STATUSES }).notNull(),
+    windowStart: tstz().notNull(),
+    windowEnd: tstz().notNull(),
+    startsAt: tstz().notNull(),
+    endsAt: tstz().notNull(),
+    symptoms: text().array().notNull().default([]),
+    notes: text().notNull().default(''),
+    findings: text().notNull().default(''),
+    recommendations: text().notNull().default(''),
+    completedAt: tstz(),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index('visits_technician_starts_idx').on(t.technicianId, t.startsAt),
+    index('visits_property_idx').on(t.propertyId),
+    index('visits_customer_idx').on(t.customerId),
+    index('visits_starts_idx').on(t.startsAt),
+    check('visits_kind', sql.raw(`kind in (${inList(VISIT_KINDS)})`)),
+    check('visits_reason', sql.raw(`reason in (${inList(VISIT_REASONS)})`)),
+    check('visits_status', sql.raw(`status in (${inList(VISIT_STATUSES)})`)),
+    check('visits_window', sql`${t.windowEnd} > ${t.windowStart}`),
+    check('visits_work', sql`${t.endsAt} > ${t.startsAt}`),
+  ],
+);

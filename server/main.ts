@@ -1,0 +1,33 @@
+import { pino } from 'pino';
+import { createApp } from './app';
+import { loadConfig } from './config';
+import { createDatabase } from './db/client';
+import { runMigrations } from './db/migrate';
+
+const config = loadConfig();
+const logger = pino({ level: config.LOG_LEVEL, redact: ['password', 'token', '*.password', '*.token'] });
+
+await runMigrations(config.DATABASE_URL);
+const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
+const app = createApp({ config, database, clock: () => new Date(), logger });
+
+const server = app.listen(config.PORT, config.HOST, () => {
+  logger.info({ url: config.publicUrl }, 'Seasonwell API listening');
+});
+server.on('error', (err) => {
+  logger.fatal({ err }, 'could not start the HTTP server');
+  process.exit(1);
+});
+
+let stopping = false;
+async function stop(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  logger.info({ signal }, 'stopping');
+  server.close();
+  server.closeAllConnections();
+  await database.close().catch(() => {});
+  process.exit(0);
+}
+process.on('SIGINT', () => void stop('SIGINT'));
+process.on('SIGTERM', () => void stop('SIGTERM'));

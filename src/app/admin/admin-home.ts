@@ -1,0 +1,18 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { AreaLanding, type AreaTile } from '../ui/area-landing';
+
+@Component({
+  selector: 'sw-admin-home',
+  imports: [AreaLanding],
+  host: { class: 'sw-dense' },
+  template: `<sw-area-landing heading="Settings" lead="Plans, prices, hours, staff and company details." [tiles]="tiles" />`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class AdminHome {
+  protected readonly tiles: AreaTile[] = [
+    { title: 'Plans and prices', text: 'Tiers, what each covers, and what they cost.', icon: 'shield' },
+    { title: 'Hours and booking rules', text: 'Business hours, arrival windows, lead time and cut-offs.', icon: 'calendar' },
+    { title: 'Staff', text: 'Invite technicians and office staff; disable accounts.', icon: 'people' },
+    { title: 'Company', text: 'Name, address, phone and sales tax rate.', icon: 'settings' },
+  ];
+}

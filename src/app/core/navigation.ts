@@ -1,0 +1,30 @@
+import type { Role } from '../../../shared/roles';
+
+export interface NavLink {
+  label: string;
+  path: string;
+  icon: string;
+}
+
+// Navigation mirrors the server's access rules; the server still checks every request.
+const PORTAL: NavLink[] = [
+  { label: 'My home', path: '/portal', icon: 'home' },
+];
+const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'handyman' }];
+const OFFICE: NavLink[] = [{ label: 'Office', path: '/office', icon: 'dashboard' }];
+const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'tune' }];
+
+export function navigationFor(role: Role | null): NavLink[] {
+  switch (role) {
+    case 'homeowner':
+      return PORTAL;
+    case 'technician':
+      return FIELD;
+    case 'office':
+      return OFFICE;
+    case 'owner':
+      return [...OFFICE, ...FIELD, ...ADMIN];
+    default:
+      return [];
+  }
+}

@@ -1,0 +1,17 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { RouterLink } from '@angular/router';
+
+@Component({
+  selector: 'sw-not-found',
+  imports: [MatButtonModule, RouterLink],
+  template: `
+    <section class="sw-page">
+      <h1>We could not find that page</h1>
+      <p class="sw-lead">The link may be old, or the page has moved.</p>
+      <a mat-flat-button routerLink="/">Go to the start page</a>
+    </section>
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class NotFound {}

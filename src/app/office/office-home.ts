@@ -1,0 +1,18 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { AreaLanding, type AreaTile } from '../ui/area-landing';
+
+@Component({
+  selector: 'sw-office-home',
+  imports: [AreaLanding],
+  host: { class: 'sw-dense' },
+  template: `<sw-area-landing heading="Office" lead="Customers, visits, renewals and reminders." [tiles]="tiles" />`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class OfficeHome {
+  protected readonly tiles: AreaTile[] = [
+    { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people' },
+    { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch' },
+    { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield' },
+    { title: 'Reminders', text: 'Seasonal tune-up, filter and coil-cleaning reminders.', icon: 'bell' },
+  ];
+}

@@ -1,0 +1,4 @@
+import { Routes } from '@angular/router';
+import { OfficeHome } from './office-home';
+
+export const OFFICE_ROUTES: Routes = [{ path: '', component: OfficeHome, title: 'Office · Seasonwell' }];

@@ -1,0 +1,17 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { AreaLanding, type AreaTile } from '../ui/area-landing';
+
+@Component({
+  selector: 'sw-portal-home',
+  imports: [AreaLanding],
+  template: `<sw-area-landing heading="Your home" lead="Everything about your heating and cooling, in one place." [tiles]="tiles" />`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PortalHome {
+  protected readonly tiles: AreaTile[] = [
+    { title: 'Book a visit', text: 'No cooling, no heat, or time for a tune-up: pick a time that suits you.', icon: 'calendar' },
+    { title: 'My equipment', text: 'Your systems, their age and warranty, and everything done to them.', icon: 'home' },
+    { title: 'My plan', text: 'What your maintenance plan covers, and renewing it online.', icon: 'shield' },
+    { title: 'Invoices', text: 'See and pay your invoices.', icon: 'receipt' },
+  ];
+}
