@@ -1,0 +1,198 @@
+import express, { type Request, type Response } from 'express';
+import { randomBytes } from 'node:crypto';
+import { Engine, FAKE_API_VERSION, type Obj, type RequestInfo } from './engine';
+import { errorTypeForStatus, FakeStripeError } from './errors';
+import { fingerprint, IdempotencyStore } from './idempotency';
+import { asParams, type Params } from './params';
+
+export interface Fault {
+  /** Path prefix, e.g. `/v1/payment_intents`. */
+  path: string;
+  method?: string;
+  status: number;
+  /** How many matching requests to fail; they store nothing. */
+  times: number;
+}
+
+export interface ApiDeps {
+  engine: Engine;
+  idempotency: IdempotencyStore;
+  faults: Fault[];
+  apiKeys?: readonly string[];
+  publicUrl: (req: Request) => string;
+}
+
+type Handler = (req: Request, info: RequestInfo, p: Params) => Obj;
+
+const TEST_KEY = /^(sk|rk)_test_[A-Za-z0-9_]{4,}$/;
+
+function sendError(res: Response, err: FakeStripeError): void {
+  res.status(err.status).json({ error: err.body });
+}
+
+function apiKeyOf(req: Request, deps: ApiDeps): string {
+  const header = req.get('authorization') ?? '';
+  const m = /^Bearer\s+(\S+)$/i.exec(header);
+  const basic = /^Basic\s+(\S+)$/i.exec(header);
+  const key = m ? m[1]! : basic ? Buffer.from(basic[1]!, 'base64').toString('utf8').split(':')[0]! : '';
+  if (!key) {
+    throw new FakeStripeError(401, {
+      type: 'authentication_error',
+      message: 'You did not provide an API key. Provide it in the Authorization header as "Bearer sk_test_...".',
+    });
+  }
+  if (!TEST_KEY.test(key) || (deps.apiKeys && !deps.apiKeys.includes(key))) {
+    throw new FakeStripeError(401, {
+      type: 'authentication_error',
+      code: 'api_key_invalid',
+      message: `Invalid API Key provided: ${key.slice(0, 8)}${'*'.repeat(Math.max(0, key.length - 12))}${key.slice(-4)}`,
+    });
+  }
+  return key;
+}
+
+function takeFault(req: Request, faults: Fault[]): Fault | undefined {
+  const i = faults.findIndex(
+    (f) => f.times > 0 && req.originalUrl.split('?')[0]!.startsWith(f.path) && (!f.method || f.method.toUpperCase() === req.method),
+  );
+  if (i < 0) return undefined;
+  const f = faults[i]!;
+  f.times--;
+  if (f.times <= 0) faults.splice(i, 1);
+  return f;
+}
+
+/** The `/v1` API: auth, fault switch, idempotency, then the handler. */
+export function createApiRouter(deps: ApiDeps): express.Router {
+  const { engine } = deps;
+  const router = express.Router();
+  router.use(express.urlencoded({ extended: true, limit: '1mb' }));
+
+  const run =
+    (handler: Handler) =>
+    (req: Request, res: Response): void => {
+      const requestId = `req_${randomBytes(7).toString('hex')}`;
+      res.set('Request-Id', requestId);
+      let apiKey: string;
+      try {
+        apiKey = apiKeyOf(req, deps);
+      } catch (e) {
+        sendError(res, e as FakeStripeError);
+        return;
+      }
+      const fault = takeFault(req, deps.faults);
+      if (fault) {
+        sendError(
+          res,
+          new FakeStripeError(fault.status, {
+            type: errorTypeForStatus(fault.status),
+            ...(fault.status === 429 ? { code: 'rate_limit' } : {}),
+            message: `Injected fault: this request failed with ${fault.status} and stored nothing.`,
+          }),
+        );
+        return;
+      }
+      const params = asParams(req.method === 'GET' || req.method === 'DELETE' ? req.query : req.body);
+      const apiVersion = req.get('stripe-version') ?? FAKE_API_VERSION;
+      res.set('Stripe-Version', apiVersion);
+      const key = req.method === 'POST' ? (req.get('idempotency-key') ?? null) : null;
+      const path = req.baseUrl + req.path;
+      const print = key ? fingerprint(req.method, path, params) : '';
+      if (key) {
+        res.set('Idempotency-Key', key);
+        if (key.length > 255) {
+          sendError(res, new FakeStripeError(400, { type: 'invalid_request_error', message: 'Idempotency keys can be at most 255 characters long.' }));
+          return;
+        }
+        const prior = deps.idempotency.get(apiKey, key);
+        if (prior) {
+          if (prior.fingerprint !== print) {
+            const samePath = prior.method === req.method && prior.path === path;
+            sendError(
+              res,
+              new FakeStripeError(400, {
+                type: 'idempotency_error',
+                message: samePath
+                  ? `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${key}' if you meant to execute a different request.`
+                  : `Keys for idempotent requests can only be used for the same endpoint they were first used for ('${prior.method} ${prior.path}'). Try using a key other than '${key}' if you meant to execute a different request.`,
+              }),
+            );
+            return;
+          }
+          res.set('Idempotent-Replayed', 'true');
+          res.status(prior.status).json(prior.body);
+          return;
+        }
+      }
+      const info: RequestInfo = { requestId, idempotencyKey: key, apiVersion, publicUrl: deps.publicUrl(req) };
+      let status = 200;
+      let body: unknown;
+      try {
+        body = handler(req, info, params);
+      } catch (e) {
+        if (!(e instanceof FakeStripeError)) throw e;
+        status = e.status;
+        body = { error: e.body };
+      }
+      // As with Stripe, a result is kept once the endpoint ran: successes and
+      // card declines. Requests refused by validation are not kept.
+      if (key && (status === 200 || status === 402)) {
+        deps.idempotency.put(apiKey, key, { fingerprint: print, method: req.method, path, status, body });
+      }
+      res.status(status).json(body);
+    };
+
+  const id = (req: Request, name = 'id') => String(req.params[name]);
+
+  router.post('/customers', run((_r, _i, p) => engine.createCustomer(p)));
+  router.get('/customers', run((_r, _i, p) => engine.listCustomers(p)));
+  router.get('/customers/:id', run((r, _i, p) => engine.retrieveCustomer(id(r), p)));
+  router.post('/customers/:id', run((r, _i, p) => engine.updateCustomer(id(r), p)));
+  router.delete('/customers/:id', run((r) => engine.deleteCustomer(id(r))));
+  router.get('/customers/:id/payment_methods', run((r, _i, p) => engine.listPaymentMethods(p, id(r))));
+
+  router.post('/payment_methods', run((_r, _i, p) => engine.createPaymentMethod(p)));
+  router.get('/payment_methods', run((_r, _i, p) => engine.listPaymentMethods(p)));
+  router.get('/payment_methods/:id', run((r) => engine.retrievePaymentMethod(id(r))));
+  router.post('/payment_methods/:id/attach', run((r, _i, p) => engine.attachPaymentMethod(id(r), p)));
+  router.post('/payment_methods/:id/detach', run((r) => engine.detachPaymentMethod(id(r))));
+
+  router.post('/setup_intents', run((_r, i, p) => engine.createSetupIntent(p, i)));
+  router.get('/setup_intents/:id', run((r, _i, p) => engine.retrieveSetupIntent(id(r), p)));
+  router.post('/setup_intents/:id/confirm', run((r, i, p) => engine.confirmSetupIntent(id(r), p, i)));
+  router.post('/setup_intents/:id/cancel', run((r, _i, p) => engine.cancelSetupIntent(id(r), p)));
+
+  router.post('/payment_intents', run((_r, i, p) => engine.createPaymentIntent(p, i)));
+  router.get('/payment_intents', run((_r, _i, p) => engine.listPaymentIntents(p)));
+  router.get('/payment_intents/:id', run((r, _i, p) => engine.retrievePaymentIntent(id(r), p)));
+  router.post('/payment_intents/:id', run((r, _i, p) => engine.updatePaymentIntent(id(r), p)));
+  router.post('/payment_intents/:id/confirm', run((r, i, p) => engine.confirmPaymentIntent(id(r), p, i)));
+  router.post('/payment_intents/:id/capture', run((r, i, p) => engine.capturePaymentIntent(id(r), p, i)));
+  router.post('/payment_intents/:id/cancel', run((r, i, p) => engine.cancelPaymentIntent(id(r), p, i)));
+
+  router.get('/charges', run((_r, _i, p) => engine.listCharges(p)));
+  router.get('/charges/:id', run((r, _i, p) => engine.retrieveCharge(id(r), p)));
+
+  router.post('/refunds', run((_r, i, p) => engine.createRefund(p, i)));
+  router.get('/refunds', run((_r, _i, p) => engine.listRefunds(p)));
+  router.get('/refunds/:id', run((r, _i, p) => engine.retrieveRefund(id(r), p)));
+
+  router.post('/checkout/sessions', run((_r, i, p) => engine.createCheckoutSession(p, i)));
+  router.get('/checkout/sessions', run((_r, _i, p) => engine.listCheckoutSessions(p)));
+  router.get('/checkout/sessions/:id', run((r, _i, p) => engine.retrieveCheckoutSession(id(r), p)));
+  router.get('/checkout/sessions/:id/line_items', run((r, _i, p) => engine.listCheckoutLineItems(id(r), p)));
+  router.post('/checkout/sessions/:id/expire', run((r, i) => engine.expireCheckoutSession(id(r), i)));
+
+  router.get('/events', run((_r, _i, p) => engine.listEvents(p)));
+  router.get('/events/:id', run((r) => engine.retrieveEvent(id(r))));
+
+  router.use(
+    run((req) => {
+      throw new FakeStripeError(404, {
+        type: 'invalid_request_error',
+        message: `Unrecognized request URL (${req.method}: ${req.originalUrl.split('?')[0]}). This test tool covers only part of the API.`,
+      });
+    }),
+  );
+  return router;
+}
