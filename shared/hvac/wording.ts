@@ -42,7 +42,7 @@ function describe(c: ReadingCheck): { topic: string; reading: string } {
     case 'sensible_capacity':
       return {
         topic: 'Cooling output check',
-        reading: `your system is removing about ${Math.round(c.value / 100) * 100} Btu of heat per hour from the air, which is`,
+        reading: `your system is removing about ${(Math.round(c.value / 100) * 100).toLocaleString('en-US')} Btu of heat per hour from the air, which is`,
       };
     case 'airflow_per_ton':
       return { topic: 'Airflow check', reading: 'the amount of air moving through your system is' };
@@ -55,9 +55,9 @@ function describe(c: ReadingCheck): { topic: string; reading: string } {
 export function homeownerWording(check: ReadingCheck): string {
   const { topic, reading } = describe(check);
   const e = check.expected;
-  // A check with no band is waiting on equipment details, not failing.
+  // No band means the check is waiting on a label detail or another method, not failing.
   if (e.min === undefined && e.max === undefined && e.target === undefined) {
-    return `${topic}: your technician took this reading and needs a detail from the equipment's label to finish judging it.`;
+    return `${topic}: your technician recorded this reading and needs more to judge it, such as a detail from the equipment's label or a different test.`;
   }
   // Readings that end in "is" read on straight into the verdict; the others need a comma.
   const joiner = reading.endsWith(' is') ? ' ' : ', ';
