@@ -1,3 +1,4 @@
+export * from './auth';
 export * from './company';
 export * from './customers';
 export * from './equipment';
