@@ -13,10 +13,11 @@ import { createMailer, MailDeliveryError, renderEmail, type Mailer } from '../..
 const FROM = 'Seasonwell Office <office@seasonwell.example.test>';
 
 // superagent only buffers text types by default; collect the raw bytes of any response.
-function binary(res: NodeJS.ReadableStream, done: (err: Error | null, body: Buffer) => void): void {
+function binary(res: object, done: (err: Error | null, body: Buffer) => void): void {
+  const stream = res as NodeJS.ReadableStream;
   const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer | string) => chunks.push(Buffer.from(c)));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
+  stream.on('data', (c: Buffer | string) => chunks.push(Buffer.from(c)));
+  stream.on('end', () => done(null, Buffer.concat(chunks)));
 }
 
 const sha256 = (b: Buffer): string => createHash('sha256').update(b).digest('hex');

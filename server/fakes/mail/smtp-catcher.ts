@@ -127,6 +127,8 @@ export function startSmtpCatcher(options: SmtpCatcherOptions): Promise<SmtpCatch
     },
     size: sizeLimit,
     logger: false,
+    // No DNS on a loopback catcher; a reverse lookup only slows every connection down offline.
+    disableReverseLookup: true,
     closeTimeout: 2000,
     onData(stream, session, callback) {
       readLimited(stream, sizeLimit)
