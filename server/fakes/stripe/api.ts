@@ -14,7 +14,17 @@ export interface Fault {
   times: number;
 }
 
+export interface LoggedRequest {
+  method: string;
+  path: string;
+  idempotencyKey: string | null;
+  status: number;
+  replayed: boolean;
+}
+
 export interface ApiDeps {
+  /** Every API request and the status it got, oldest first (no bodies: they may hold card data). */
+  log: LoggedRequest[];
   engine: Engine;
   idempotency: IdempotencyStore;
   faults: Fault[];
@@ -73,6 +83,15 @@ export function createApiRouter(deps: ApiDeps): express.Router {
     (req: Request, res: Response): void => {
       const requestId = `req_${randomBytes(7).toString('hex')}`;
       res.set('Request-Id', requestId);
+      res.on('finish', () => {
+        deps.log.push({
+          method: req.method,
+          path: req.baseUrl + req.path,
+          idempotencyKey: req.get('idempotency-key') ?? null,
+          status: res.statusCode,
+          replayed: res.get('Idempotent-Replayed') === 'true',
+        });
+      });
       let apiKey: string;
       try {
         apiKey = apiKeyOf(req, deps);

@@ -1,7 +1,7 @@
 import express, { type NextFunction, type Request, type Response } from 'express';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
-import { createApiRouter, type Fault } from './api';
+import { createApiRouter, type Fault, type LoggedRequest } from './api';
 import { Engine } from './engine';
 import { createHostedPageRouter } from './hosted-page';
 import { IdempotencyStore } from './idempotency';
@@ -9,7 +9,7 @@ import { WebhookSender, type DeliveryAttempt, type DeliveryBehaviour, type WireE
 
 export { TEST_CARDS, TEST_PAYMENT_METHODS } from './cards';
 export { signPayload } from './webhooks';
-export type { DeliveryAttempt, Fault, WireEvent };
+export type { DeliveryAttempt, Fault, LoggedRequest, WireEvent };
 
 export interface FakeStripeOptions {
   webhookUrl?: string;
@@ -37,6 +37,8 @@ export interface FakeStripe {
   webhooksIdle(): Promise<void>;
   /** Every delivery attempt so far, oldest first. */
   deliveries(): readonly DeliveryAttempt[];
+  /** API requests received and their statuses, oldest first. */
+  requests(): readonly LoggedRequest[];
   /** Events, newest first. */
   events(): readonly WireEvent[];
   engine: Engine;
@@ -60,6 +62,7 @@ export function createFakeStripe(opts: FakeStripeOptions): FakeStripe {
   const engine = new Engine(clock, (e) => webhooks.enqueue(e));
   const idempotency = new IdempotencyStore(clock);
   const faults: Fault[] = [];
+  const log: LoggedRequest[] = [];
   const publicUrl = (req: Request) => publicUrlOverride ?? `${req.protocol}://${req.get('host')}`;
 
   const addFault = (f: Fault) => {
@@ -74,6 +77,7 @@ export function createFakeStripe(opts: FakeStripeOptions): FakeStripe {
     engine.reset();
     idempotency.clear();
     faults.length = 0;
+    log.length = 0;
     webhooks.reset();
   };
 
@@ -121,7 +125,7 @@ export function createFakeStripe(opts: FakeStripeOptions): FakeStripe {
   app.use('/_test', test);
 
   app.use('/checkout', createHostedPageRouter(engine, publicUrl));
-  app.use('/v1', createApiRouter({ engine, idempotency, faults, apiKeys: opts.apiKeys, publicUrl }));
+  app.use('/v1', createApiRouter({ engine, idempotency, faults, log, apiKeys: opts.apiKeys, publicUrl }));
 
   app.use((_req: Request, res: Response) => {
     res.status(404).json({ error: { type: 'invalid_request_error', message: 'Unrecognized request URL.' } });
@@ -147,6 +151,7 @@ export function createFakeStripe(opts: FakeStripeOptions): FakeStripe {
     addFault,
     webhooksIdle: () => webhooks.idle(),
     deliveries: () => webhooks.attempts,
+    requests: () => log,
     events: () => engine.events,
     engine,
     stop: () => webhooks.reset(),

@@ -59,6 +59,7 @@ export class WebhookSender {
   private readonly timers = new Set<ReturnType<typeof setTimeout>>();
   private waiters: (() => void)[] = [];
   private generation = 0;
+  private chain: Promise<void> = Promise.resolve();
 
   constructor(private readonly opts: WebhookOptions) {
     this.url = opts.url;
@@ -79,16 +80,16 @@ export class WebhookSender {
       const timer = setTimeout(() => {
         this.timers.delete(timer);
         this.flushScheduled = false;
-        void this.flush().finally(() => this.done(gen));
+        const batch = this.pending.splice(0);
+        if (this.behaviour.outOfOrder) batch.reverse();
+        // One batch after another, so without the switch events arrive in order.
+        this.chain = this.chain.then(() => this.deliverBatch(batch, gen)).finally(() => this.done(gen));
       }, 0);
       this.timers.add(timer);
     }
   }
 
-  private async flush(): Promise<void> {
-    const gen = this.generation;
-    const batch = this.pending.splice(0);
-    if (this.behaviour.outOfOrder) batch.reverse();
+  private async deliverBatch(batch: WireEvent[], gen: number): Promise<void> {
     for (const event of batch) {
       const copies = this.behaviour.duplicate ? 2 : 1;
       for (let i = 0; i < copies; i++) {
@@ -152,6 +153,7 @@ export class WebhookSender {
   /** Drops everything queued or scheduled and forgets past attempts. */
   reset(): void {
     this.generation++;
+    this.chain = Promise.resolve();
     for (const t of this.timers) clearTimeout(t);
     this.timers.clear();
     this.pending = [];
