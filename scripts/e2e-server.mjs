@@ -1,0 +1,63 @@
+// The app as the browser journeys see it: a fresh seeded database, the local fakes and the API
+// serving the built client. Started by Playwright's webServer; `npm test` passes its database.
+import { join } from 'node:path';
+import { clusterHome, createDatabase, databaseUrl, dropDatabase, ensureCluster } from './lib/pg.mjs';
+import { BIN, ROOT, run, startService, stopChild, waitForHttp } from './lib/proc.mjs';
+
+const PORT = Number(process.env.E2E_PORT ?? 3200);
+const SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2527);
+const MAILBOX_PORT = Number(process.env.E2E_MAILBOX_PORT ?? 3201);
+const STRIPE_PORT = Number(process.env.E2E_STRIPE_PORT ?? 3202);
+
+let url = process.env.E2E_DATABASE_URL;
+let drop = null;
+if (!url) {
+  const port = Number(process.env.TEST_PG_PORT ?? 55433);
+  const { bin } = await ensureCluster({ home: clusterHome(ROOT, 'test-pg'), port, durable: false });
+  const name = `sw_e2e_${process.pid}`;
+  createDatabase(bin, port, name);
+  url = databaseUrl(port, name);
+  drop = () => dropDatabase(bin, port, name);
+}
+
+const env = {
+  NODE_ENV: 'test',
+  LOG_LEVEL: 'warn',
+  PORT: String(PORT),
+  PUBLIC_URL: `http://localhost:${PORT}`,
+  DATABASE_URL: url,
+  SMTP_URL: `smtp://127.0.0.1:${SMTP_PORT}`,
+  MAILBOX_URL: `http://127.0.0.1:${MAILBOX_PORT}`,
+  STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
+  STORAGE_DIR: join(ROOT, '.data', `e2e-uploads-${process.pid}`),
+};
+const tsx = join(BIN, 'tsx');
+const children = [];
+async function stop(code) {
+  await Promise.all(children.map((c) => stopChild(c)));
+  drop?.();
+  process.exit(code);
+}
+process.on('SIGINT', () => void stop(0));
+process.on('SIGTERM', () => void stop(0));
+
+try {
+  if ((await run(tsx, ['server/db/migrate.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
+  if ((await run(tsx, ['server/db/seed/seed.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('seed failed');
+  const fakes = startService('fakes', tsx, ['server/fakes/main.ts'], {
+    ...env,
+    SMTP_PORT: String(SMTP_PORT),
+    MAILBOX_PORT: String(MAILBOX_PORT),
+    STRIPE_PORT: String(STRIPE_PORT),
+    STRIPE_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/stripe`,
+  });
+  children.push(fakes);
+  await waitForHttp(`http://127.0.0.1:${MAILBOX_PORT}/api/messages`, { child: fakes });
+  const api = startService('api', tsx, ['server/main.ts'], env);
+  children.push(api);
+  await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { child: api });
+  console.log(`[e2e] app ready on ${env.PUBLIC_URL}`);
+} catch (err) {
+  console.error(`[e2e] ${err instanceof Error ? err.message : err}`);
+  await stop(1);
+}
