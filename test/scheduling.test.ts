@@ -206,6 +206,14 @@ describe('held-back capacity for plan members and urgent calls', () => {
     expect(starts(input({ booked }))).toEqual([at('14:00')]);
   });
 
+  it('time off entered twice is only taken out of the day once', () => {
+    // 540 − 120 min off = 420; ordinary 75 % = 315 → 2 tune-ups of 120. Physically 10:00, 12:00, 14:00 → 3.
+    const off = { start: at('08:00'), end: at('10:00') };
+    const day = { technicians: [tech('ana', { timeOff: [off, { ...off }] })], settings: { windowMinutes: 540 } };
+    expect(availableWindows(input(day))[0]!.capacity).toBe(2);
+    expect(availableWindows(input({ ...day, request: { member: true } }))[0]!.capacity).toBe(3);
+  });
+
   it('holding nothing back gives ordinary callers the full day', () => {
     const day = { technicians: [tech('ana'), tech('ben')], settings: { windowMinutes: 540, heldBackShare: 0 } };
     expect(availableWindows(input(day))[0]!.capacity).toBe(8);

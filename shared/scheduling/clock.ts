@@ -57,6 +57,29 @@ export function closingInstant(zone: IANAZone, date: LocalDate, minutes: number)
   return all[all.length - 1]!;
 }
 
+/** Same answers as the functions above, remembered per local date and clock time for one search. */
+export class WallClock {
+  private readonly cache = new Map<string, number[]>();
+  constructor(readonly zone: IANAZone) {}
+
+  boundaries(date: LocalDate, minutes: number): number[] {
+    const key = `${date.year}-${date.month}-${date.day}|${minutes}`;
+    let hit = this.cache.get(key);
+    if (!hit) {
+      hit = boundaryInstants(this.zone, date, minutes);
+      this.cache.set(key, hit);
+    }
+    return hit;
+  }
+  opening(date: LocalDate, minutes: number): number {
+    return this.boundaries(date, minutes)[0]!;
+  }
+  closing(date: LocalDate, minutes: number): number {
+    const all = this.boundaries(date, minutes);
+    return all[all.length - 1]!;
+  }
+}
+
 /** Whether the UTC offset changes at any point of this local date. */
 export function clocksChangeOn(zone: IANAZone, date: LocalDate): boolean {
   const start = openingInstant(zone, date, 0);

@@ -1,13 +1,5 @@
 import { DateTime, IANAZone } from 'luxon';
-import {
-  boundaryInstants,
-  closingInstant,
-  clocksChangeOn,
-  openingInstant,
-  toIso,
-  windowLabel,
-  type LocalDate,
-} from './clock';
+import { toIso, WallClock, windowLabel, type LocalDate } from './clock';
 import {
   clockMinutes,
   parseAvailabilityInput,
@@ -49,10 +41,13 @@ interface DayPlan {
 interface Context {
   input: ParsedAvailabilityInput;
   zone: IANAZone;
+  clock: WallClock;
   visitMs: number;
   bufferMs: number;
   earliestWindowStart: number;
   priority: boolean;
+  bookedByTech: Map<string, Span[]>;
+  ordinaryBooked: Span[];
 }
 
 function weekdayOf(date: LocalDate): (typeof WEEKDAYS)[number] {
@@ -64,21 +59,21 @@ function intervalsOn(hours: WeeklyHours, date: LocalDate): HoursInterval[] {
   return hours[weekdayOf(date)] ?? [];
 }
 
-function resolveInterval(zone: IANAZone, date: LocalDate, h: HoursInterval): Span | null {
-  const start = openingInstant(zone, date, clockMinutes(h.open));
-  const end = closingInstant(zone, date, clockMinutes(h.close));
+function resolveInterval(clock: WallClock, date: LocalDate, h: HoursInterval): Span | null {
+  const start = clock.opening(date, clockMinutes(h.open));
+  const end = clock.closing(date, clockMinutes(h.close));
   return start < end ? { start, end } : null;
 }
 
 /** Arrival windows for one business-hours interval: consecutive spans between wall-clock boundaries. */
-function windowsFor(zone: IANAZone, date: LocalDate, h: HoursInterval, windowMinutes: number): Span[] {
+function windowsFor(clock: WallClock, date: LocalDate, h: HoursInterval, windowMinutes: number): Span[] {
   const open = clockMinutes(h.open);
   const close = clockMinutes(h.close);
   const marks = new Set<number>();
   for (let m = open; m < close; m += windowMinutes) {
-    for (const t of boundaryInstants(zone, date, m)) marks.add(t);
+    for (const t of clock.boundaries(date, m)) marks.add(t);
   }
-  for (const t of boundaryInstants(zone, date, close)) marks.add(t);
+  for (const t of clock.boundaries(date, close)) marks.add(t);
   const sorted = [...marks].sort((a, b) => a - b);
   const spans: Span[] = [];
   for (let i = 0; i + 1 < sorted.length; i++) spans.push({ start: sorted[i]!, end: sorted[i + 1]! });
@@ -91,6 +86,17 @@ function overlaps(a: Span, b: Span): boolean {
 
 function overlapMs(a: Span, b: Span): number {
   return Math.max(0, Math.min(a.end, b.end) - Math.max(a.start, b.start));
+}
+
+/** Merges overlapping spans so time off entered twice is not subtracted twice. */
+function merged(spans: Span[]): Span[] {
+  const out: Span[] = [];
+  for (const s of [...spans].sort((a, b) => a.start - b.start)) {
+    const last = out[out.length - 1];
+    if (last && s.start <= last.end) last.end = Math.max(last.end, s.end);
+    else out.push({ ...s });
+  }
+  return out;
 }
 
 function localDates(from: string, to: string): LocalDate[] {
@@ -111,44 +117,49 @@ function buildContext(raw: AvailabilityInput): Context {
   return {
     input,
     zone,
+    clock: new WallClock(zone),
     visitMs: settings.visitMinutes[request.visitKind]! * MINUTE,
     bufferMs: settings.travelBufferMinutes * MINUTE,
     earliestWindowStart: Date.parse(request.now) + settings.leadTimeMinutes * MINUTE,
     priority: request.member || request.urgent,
+    bookedByTech: input.booked.reduce((map, v) => {
+      const list = map.get(v.technicianId) ?? [];
+      list.push({ start: Date.parse(v.start), end: Date.parse(v.end) });
+      return map.set(v.technicianId, list);
+    }, new Map<string, Span[]>()),
+    ordinaryBooked: input.booked
+      .filter((v) => !v.priority)
+      .map((v) => ({ start: Date.parse(v.start), end: Date.parse(v.end) })),
   };
 }
 
 function planDay(ctx: Context, date: LocalDate): DayPlan {
-  const { settings, technicians, booked } = ctx.input;
+  const { settings, technicians } = ctx.input;
   const windows = intervalsOn(settings.businessHours, date)
-    .flatMap((h) => windowsFor(ctx.zone, date, h, settings.windowMinutes))
+    .flatMap((h) => windowsFor(ctx.clock, date, h, settings.windowMinutes))
     .sort((a, b) => a.start - b.start);
-  const day: Span = { start: openingInstant(ctx.zone, date, 0), end: closingInstant(ctx.zone, date, 1440) };
+  const day: Span = { start: ctx.clock.opening(date, 0), end: ctx.clock.closing(date, 1440) };
+  // Anything that can touch a visit starting today: the day itself plus a visit length and buffer either side.
+  const reach = ctx.visitMs + ctx.bufferMs;
+  const near = (s: Span) => s.start < day.end + reach && day.start - reach < s.end;
 
   let capacityMinutes = 0;
   const techs: TechDay[] = technicians.map((t) => {
     const shifts = intervalsOn(t.weeklyHours, date)
-      .map((h) => resolveInterval(ctx.zone, date, h))
+      .map((h) => resolveInterval(ctx.clock, date, h))
       .filter((s): s is Span => s !== null);
-    const off = t.timeOff.map((r) => ({ start: Date.parse(r.start), end: Date.parse(r.end) }));
+    const off = merged(t.timeOff.map((r) => ({ start: Date.parse(r.start), end: Date.parse(r.end) })).filter(near));
     for (const s of shifts) {
       capacityMinutes += (s.end - s.start - off.reduce((sum, o) => sum + overlapMs(s, o), 0)) / MINUTE;
     }
-    const mine = booked.filter((v) => v.technicianId === t.id);
-    const blocked = [
-      ...off,
-      ...mine.map((v) => ({ start: Date.parse(v.start) - ctx.bufferMs, end: Date.parse(v.end) + ctx.bufferMs })),
-    ];
-    const bookedMinutes = mine
-      .map((v) => ({ start: Date.parse(v.start), end: Date.parse(v.end) }))
-      .reduce((sum, v) => sum + overlapMs(v, day), 0) / MINUTE;
+    const mine = (ctx.bookedByTech.get(t.id) ?? []).filter(near);
+    const blocked = [...off, ...mine.map((v) => ({ start: v.start - ctx.bufferMs, end: v.end + ctx.bufferMs }))];
+    const bookedMinutes = mine.reduce((sum, v) => sum + overlapMs(v, day), 0) / MINUTE;
     return { id: t.id, shifts, blocked, bookedMinutes };
   });
 
   // Each visit costs its time on site plus the drive to it.
-  const ordinaryUsedMinutes = booked
-    .filter((v) => !v.priority)
-    .map((v) => ({ start: Date.parse(v.start), end: Date.parse(v.end) }))
+  const ordinaryUsedMinutes = ctx.ordinaryBooked
     .filter((v) => v.start >= day.start && v.start < day.end)
     .reduce((sum, v) => sum + (v.end - v.start) / MINUTE + settings.travelBufferMinutes, 0);
 
@@ -158,7 +169,7 @@ function planDay(ctx: Context, date: LocalDate): DayPlan {
     techs,
     capacityMinutes,
     ordinaryUsedMinutes,
-    showZone: clocksChangeOn(ctx.zone, date),
+    showZone: ctx.zone.offset(day.start) !== ctx.zone.offset(day.end - 1),
   };
 }
 
