@@ -46,7 +46,7 @@ describe('idempotency keys', () => {
     expect(e2).toBeInstanceOf(Stripe.errors.StripeCardError);
     expect(e2.statusCode).toBe(402);
     expect(e2.payment_intent?.id).toBe(e1.payment_intent?.id);
-    expect(e2.headers['idempotent-replayed']).toBe('true');
+    expect(e2.headers?.['idempotent-replayed']).toBe('true');
     expect((await stripe.paymentIntents.list()).data).toHaveLength(1);
   });
 

@@ -24,7 +24,7 @@ describe('authentication', () => {
     await expect(bad.customers.create({})).rejects.toBeInstanceOf(Stripe.errors.StripeAuthenticationError);
     const res = await fetch(`${started.url}/v1/customers`);
     expect(res.status).toBe(401);
-    expect((await res.json()).error.type).toBe('authentication_error');
+    expect(((await res.json()) as { error: { type: string } }).error.type).toBe('authentication_error');
   });
 });
 

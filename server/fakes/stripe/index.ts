@@ -1,3 +1,11 @@
+// A fake of the card processor's API for tests and local runs, spoken in the
+// real SDK's wire format so production switches over by keys alone.
+//   /v1/...                 the API subset (auth: Bearer sk_test_...)
+//   GET|POST /checkout/:id  hosted test payment page
+//   POST /_test/reset       clear all state
+//   POST /_test/webhooks    { url?, duplicate?, outOfOrder? }
+//   POST /_test/faults      { path, status, times, method? }; DELETE clears them
+//   GET /_test/webhooks/deliveries  delivery attempts so far
 import express, { type NextFunction, type Request, type Response } from 'express';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
@@ -16,7 +24,11 @@ export interface FakeStripeOptions {
   webhookSecret: string;
   /** Base of the hosted page links; defaults to the address the request came in on. */
   publicUrl?: string;
-  /** Milliseconds since the epoch; drives `created`, signatures and idempotency expiry. */
+  /**
+   * Milliseconds since the epoch; drives `created`, signatures and idempotency expiry.
+   * Webhook receivers check signature timestamps (300 s by default), so a clock far
+   * from real time suits API-only tests.
+   */
   clock?: () => number;
   /** Only these keys are accepted; by default any `sk_test_…` key is. */
   apiKeys?: readonly string[];
