@@ -7,16 +7,18 @@ import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Database } from './db/client';
+import { authMiddleware } from './auth/session';
 import { apiNotFound, errorHandler } from './http/errors';
 import { apiRouters } from './routes';
+import type { Services } from './services';
 
 export interface AppDeps {
   config: Config;
   database: Database;
   clock: () => Date;
   logger: Logger;
-  /** Optional services later features attach; tests pass fakes. */
-  services?: Record<string, unknown>;
+  /** Mail, jobs, payments, storage: real in main.ts, local fakes in tests. */
+  services: Services;
 }
 
 /** Builds the Express app from explicit dependencies; nothing is read from globals. */
@@ -57,6 +59,8 @@ export function createApp(deps: AppDeps): Express {
       autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
     }),
   );
+  // Sessions, passport and CSRF; raw-body webhook routes carry their own signature.
+  app.use(authMiddleware(deps, apiRouters.filter((r) => r.rawBody).map((r) => r.path)));
 
   for (const { path, build, rawBody } of apiRouters) {
     if (rawBody) app.use(path, build(deps));

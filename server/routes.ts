@@ -1,5 +1,6 @@
 import type { Router } from 'express';
 import type { AppDeps } from './app';
+import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
 import { healthRoutes } from './health/health.routes';
 
@@ -14,4 +15,5 @@ export interface ApiRouter {
 export const apiRouters: ApiRouter[] = [
   { path: '/api/health', build: healthRoutes },
   { path: '/api/session', build: sessionRoutes },
+  { path: '/api/auth', build: authRoutes },
 ];

@@ -1,12 +1,16 @@
 import type {} from '../auth/access';
 import { Router } from 'express';
 import type { AppDeps } from '../app';
+import { issueCsrf } from './csrf';
 
-// Who is signed in, for the client's navigation. Sign-in itself lives in auth.routes.ts.
-export function sessionRoutes(_deps: AppDeps): Router {
+// Who is signed in, for the client's navigation; also hands out the CSRF token cookie.
+// Sign-in itself lives in auth.routes.ts.
+export function sessionRoutes(deps: AppDeps): Router {
   const router = Router();
   router.get('/', (req, res) => {
-    res.json({ user: req.user ?? null });
+    const csrfToken = issueCsrf(req, res, deps.config);
+    res.setHeader('Cache-Control', 'no-store');
+    res.json({ user: req.user ?? null, csrfToken });
   });
   return router;
 }
