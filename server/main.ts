@@ -3,13 +3,25 @@ import { createApp } from './app';
 import { loadConfig } from './config';
 import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
+import { createMailer } from './integrations/mail';
+import { Jobs } from './jobs/queue';
+import { registerJobs } from './jobs/register';
+import type { Services } from './services';
 
 const config = loadConfig();
 const logger = pino({ level: config.LOG_LEVEL, redact: ['password', 'token', '*.password', '*.token'] });
 
 await runMigrations(config.DATABASE_URL);
 const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
-const app = createApp({ config, database, clock: () => new Date(), logger });
+const jobs = new Jobs(config.DATABASE_URL, logger);
+const services: Services = {
+  mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
+  jobs,
+};
+const deps = { config, database, clock: () => new Date(), logger, services };
+registerJobs(deps);
+await jobs.start({ work: config.RUN_JOBS });
+const app = createApp(deps);
 
 const server = app.listen(config.PORT, config.HOST, () => {
   logger.info({ url: config.publicUrl }, 'Seasonwell API listening');
@@ -26,6 +38,7 @@ async function stop(signal: string) {
   logger.info({ signal }, 'stopping');
   server.close();
   server.closeAllConnections();
+  await jobs.stop().catch(() => {});
   await database.close().catch(() => {});
   process.exit(0);
 }

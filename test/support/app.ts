@@ -21,6 +21,7 @@ export function testApp(overrides: Partial<AppDeps> & { env?: Record<string, str
     database,
     clock: () => new Date(),
     logger: pino({ level: 'silent' }),
+    services: {},
     ...overrides,
   };
   const app = createApp(deps);

@@ -1,0 +1,65 @@
+import PgBoss from 'pg-boss';
+import type { Logger } from 'pino';
+
+export type JobHandler<T extends object> = (data: T, job: { id: string; name: string }) => Promise<void>;
+
+interface Registration {
+  name: string;
+  handler: JobHandler<object>;
+  cron?: string;
+  options?: PgBoss.Queue;
+}
+
+/**
+ * Long work (renewals, campaigns, webhook processing, e-mail) runs as pg-boss jobs in PostgreSQL,
+ * so several API and worker processes can share one database. Features register their queues
+ * before start(); send() works once started.
+ */
+export class Jobs {
+  private boss: PgBoss | null = null;
+  private readonly registrations: Registration[] = [];
+
+  constructor(
+    private readonly connectionString: string,
+    private readonly logger: Logger,
+    private readonly timeZone = 'America/Chicago',
+  ) {}
+
+  /** Register a queue and its handler; `cron` schedules it (in the company's time zone). */
+  register<T extends object>(name: string, handler: JobHandler<T>, opts: { cron?: string; queue?: PgBoss.Queue } = {}): void {
+    this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue });
+  }
+
+  async start({ work = true }: { work?: boolean } = {}): Promise<void> {
+    const boss = new PgBoss({ connectionString: this.connectionString, schema: 'pgboss', max: 4 });
+    boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
+    await boss.start();
+    for (const r of this.registrations) {
+      await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
+      if (r.cron) await boss.schedule(r.name, r.cron, {}, { tz: this.timeZone });
+      if (work) {
+        await boss.work<object>(r.name, async (jobs) => {
+          for (const job of jobs) await r.handler(job.data ?? {}, { id: job.id, name: job.name });
+        });
+      }
+    }
+    this.boss = boss;
+  }
+
+  async send<T extends object>(name: string, data: T, options: PgBoss.SendOptions = {}): Promise<string | null> {
+    if (!this.boss) throw new Error(`job queue not started: cannot send ${name}`);
+    return this.boss.send(name, data, options);
+  }
+
+  /** Runs a registered handler directly, for tests and one-off runs. */
+  async runNow<T extends object>(name: string, data: T): Promise<void> {
+    const r = this.registrations.find((x) => x.name === name);
+    if (!r) throw new Error(`no job named ${name}`);
+    await r.handler(data, { id: 'direct', name });
+  }
+
+  async stop(): Promise<void> {
+    await this.boss?.stop({ graceful: true, timeout: 5000 });
+    this.boss = null;
+  }
+}

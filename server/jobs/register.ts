@@ -1,0 +1,7 @@
+import type { AppDeps } from '../app';
+
+/**
+ * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
+ * register function calls deps.services.jobs.register(name, handler, { cron }).
+ */
+export function registerJobs(_deps: AppDeps): void {}
