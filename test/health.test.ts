@@ -2,6 +2,7 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { createDatabase } from '../server/db/client';
 import { testApp } from './support/app';
+import { anonymous, CSRF_HEADER_NAME } from './support/auth';
 
 describe('GET /api/health', () => {
   const ctx = testApp();
@@ -34,7 +35,8 @@ describe('API errors', () => {
   });
 
   it('answers malformed JSON with 400, not 500', async () => {
-    const res = await request(ctx.app).post('/api/health').set('content-type', 'application/json').send('{"broken"');
+    const { agent, csrf } = await anonymous(ctx);
+    const res = await agent.post('/api/health').set(CSRF_HEADER_NAME, csrf).set('content-type', 'application/json').send('{"broken"');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('bad_json');
   });
