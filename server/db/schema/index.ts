@@ -6,3 +6,4 @@ export * from './plans';
 export * from './technicians';
 export * from './users';
 export * from './visits';
+export * from './booking';

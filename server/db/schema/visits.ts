@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { check, index, pgTable, text, uuid } from 'drizzle-orm/pg-core';
+import { boolean, check, index, integer, pgTable, text, uuid } from 'drizzle-orm/pg-core';
 import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES } from '../../../shared/visits';
 import { createdAt, id, inList, tstz, updatedAt } from './columns';
 import { customers, properties } from './customers';
@@ -32,6 +32,13 @@ export const visits = pgTable(
     findings: text().notNull().default(''),
     recommendations: text().notNull().default(''),
     completedAt: tstz(),
+    // Booked for a plan member or an urgent no-cooling/no-heat call: uses the held-back share.
+    priority: boolean().notNull().default(false),
+    // iCalendar SEQUENCE: raised on every change so calendars replace the earlier invitation.
+    sequence: integer().notNull().default(0),
+    // Upload ids of the homeowner's photos, from the upload service.
+    photoIds: text().array().notNull().default([]),
+    reminderSentAt: tstz(),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
@@ -45,5 +52,6 @@ export const visits = pgTable(
     check('visits_status', sql.raw(`status in (${inList(VISIT_STATUSES)})`)),
     check('visits_window', sql`${t.windowEnd} > ${t.windowStart}`),
     check('visits_work', sql`${t.endsAt} > ${t.startsAt}`),
+    check('visits_sequence', sql`${t.sequence} >= 0`),
   ],
 );
