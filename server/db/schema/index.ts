@@ -7,3 +7,4 @@ export * from './technicians';
 export * from './users';
 export * from './visits';
 export * from './booking';
+export * from './billing';

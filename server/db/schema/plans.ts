@@ -65,6 +65,16 @@ export const agreements = pgTable(
     systemsCount: smallint().notNull().default(1),
     priceCents: integer().notNull(),
     autoRenew: boolean().notNull().default(false),
+    // Saved card for off-session renewal charges (ids only; card data stays with the processor).
+    stripePaymentMethodId: text(),
+    cardBrand: text(),
+    cardLast4: text(),
+    // Dunning: the day the renewal charge first failed and how many retries have run since.
+    chargeFailedOn: date({ mode: 'string' }),
+    dunningRetries: smallint().notNull().default(0),
+    lastChargeError: text(),
+    // Credit from a move to a cheaper tier, taken off the next renewal.
+    creditCents: integer().notNull().default(0),
     canceledAt: tstz(),
     createdAt: createdAt(),
   },
@@ -76,5 +86,7 @@ export const agreements = pgTable(
     check('agreements_term', sql`${t.endsOn} > ${t.startsOn}`),
     check('agreements_systems', sql`${t.systemsCount} between 1 and 20`),
     check('agreements_price', sql`${t.priceCents} >= 0`),
+    check('agreements_credit', sql`${t.creditCents} >= 0`),
+    check('agreements_dunning', sql`${t.dunningRetries} between 0 and 10`),
   ],
 );

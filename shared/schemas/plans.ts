@@ -1,0 +1,125 @@
+import { z } from 'zod';
+import type { AgreementStatus } from '../agreements';
+
+const cents = (what: string) =>
+  z
+    .number({ error: `${what} must be a number of cents.` })
+    .int(`${what} must be whole cents.`)
+    .min(0, `${what} must not be negative.`)
+    .max(10_000_000, `${what} is too large.`);
+
+/** A tier's terms. Saving them writes a new version; agreements keep the version they were sold under. */
+export const planTermsSchema = z.object({
+  name: z.string().trim().min(2, 'Name the plan.').max(80, 'Keep the name under 80 characters.'),
+  description: z.string().trim().max(500, 'Keep the description under 500 characters.').default(''),
+  yearlyPriceCents: cents('Yearly price').min(100, 'Yearly price must be at least $1.00.'),
+  additionalSystemCents: cents('Price per additional system'),
+  coolingVisits: z.number().int('Cooling visits is a whole number.').min(0, 'At least 0.').max(12, 'At most 12.'),
+  heatingVisits: z.number().int('Heating visits is a whole number.').min(0, 'At least 0.').max(12, 'At most 12.'),
+  repairDiscountBps: z.number().int('Discount is whole basis points.').min(0, 'Discount must not be negative.').max(10_000, 'Discount is at most 100 %.'),
+  diagnosticFeeWaived: z.boolean(),
+  priorityWindowHours: z.number().int('Priority window is whole hours.').min(1, 'At least 1 hour.').max(720, 'At most 720 hours.'),
+  extras: z.array(z.string().trim().min(1, 'An extra cannot be empty.').max(120, 'Keep each extra under 120 characters.')).max(12, 'At most 12 extras.').default([]),
+});
+export type PlanTerms = z.infer<typeof planTermsSchema>;
+
+export const createPlanSchema = planTermsSchema.extend({
+  code: z
+    .string()
+    .trim()
+    .regex(/^[a-z0-9][a-z0-9-]{1,39}$/, 'Code is 2–40 lower-case letters, digits or dashes.'),
+});
+export const planActiveSchema = z.object({ active: z.boolean({ error: 'Say whether the plan is offered.' }) });
+
+export interface PlanView extends PlanTerms {
+  id: string;
+  code: string;
+  active: boolean;
+  sortOrder: number;
+  versionId: string;
+  version: number;
+  agreementsCount?: number;
+}
+
+export const enrollSchema = z.object({
+  propertyId: z.uuid('Choose a property.'),
+  planId: z.uuid('Choose a plan.'),
+  systemsCount: z.number().int('Systems is a whole number.').min(1, 'At least one system.').max(20, 'At most 20 systems.').default(1),
+  autoRenew: z.boolean().default(false),
+});
+export type EnrollInput = z.infer<typeof enrollSchema>;
+
+export const renewSchema = z.object({ autoRenew: z.boolean().default(false) });
+export const autoRenewSchema = z.object({ enabled: z.boolean({ error: 'Say whether to renew automatically.' }) });
+export const manualRenewalSchema = z.object({
+  method: z.enum(['check', 'cash'], { error: 'Method is check or cash.' }),
+  reference: z.string().trim().max(100, 'Keep the reference under 100 characters.').default(''),
+});
+export const changeTierSchema = z.object({
+  planId: z.uuid('Choose a plan.'),
+  changeDate: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, 'Change date is YYYY-MM-DD.')
+    .optional(),
+});
+export const cancelAgreementSchema = z.object({ reason: z.string().trim().max(300).default('') });
+
+export interface AgreementView {
+  id: string;
+  customerId: string;
+  customerName: string;
+  propertyId: string;
+  propertyLabel: string;
+  propertyAddress: string;
+  status: AgreementStatus;
+  startsOn: string;
+  endsOn: string;
+  /** Last day covered (the day before the exclusive end). */
+  lastCoveredDay: string;
+  daysLeft: number;
+  systemsCount: number;
+  priceCents: number;
+  renewalPriceCents: number;
+  autoRenew: boolean;
+  card: { brand: string; last4: string } | null;
+  canRenew: boolean;
+  renewalOpensOn: string;
+  lapsesOn: string | null;
+  creditCents: number;
+  lastChargeError: string | null;
+  plan: PlanView;
+  openInvoiceId: string | null;
+}
+
+export const RENEWAL_VIEWS = ['due30', 'due60', 'due90', 'past_due', 'lapsed', 'renewed'] as const;
+export type RenewalView = (typeof RENEWAL_VIEWS)[number];
+export const RENEWAL_VIEW_LABELS: Record<RenewalView, string> = {
+  due30: 'Due in 30 days',
+  due60: 'Due in 60 days',
+  due90: 'Due in 90 days',
+  past_due: 'Past due',
+  lapsed: 'Lapsed',
+  renewed: 'Recently renewed',
+};
+export const renewalQuerySchema = z.object({ view: z.enum(RENEWAL_VIEWS).default('due30') });
+export const sendNoticesSchema = z.object({
+  agreementIds: z.array(z.uuid('Each agreement id must be a UUID.')).min(1, 'Choose at least one agreement.').max(500, 'At most 500 at once.'),
+});
+
+export interface RenewalRow {
+  agreementId: string;
+  customerName: string;
+  email: string | null;
+  planName: string;
+  status: AgreementStatus;
+  endsOn: string;
+  daysLeft: number;
+  priceCents: number;
+  autoRenew: boolean;
+  lastNoticeAt: string | null;
+}
+export interface RenewalBoard {
+  view: RenewalView;
+  counts: Record<RenewalView, { count: number; totalCents: number }>;
+  rows: RenewalRow[];
+}
