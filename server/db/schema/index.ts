@@ -8,3 +8,4 @@ export * from './users';
 export * from './visits';
 export * from './booking';
 export * from './billing';
+export * from './field';

@@ -1,0 +1,195 @@
+import { z } from 'zod';
+import type { Coverage } from '../coverage';
+import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hvac';
+import { visitReadingsSchema } from '../hvac/readings';
+import type { VisitKind, VisitReason, VisitStatus } from '../visits';
+
+export const READING_STATUSES = ['ok', 'watch', 'alert'] as const;
+export type ReadingStatus = (typeof READING_STATUSES)[number];
+
+export const CHECKLIST_RESULTS = ['done', 'needs_attention', 'not_applicable'] as const;
+export type ChecklistResult = (typeof CHECKLIST_RESULTS)[number];
+export const CHECKLIST_RESULT_LABELS: Record<ChecklistResult, string> = {
+  done: 'Done',
+  needs_attention: 'Needs attention',
+  not_applicable: 'Not applicable',
+};
+
+const longText = (label: string, max = 4000) => z.string({ error: `${label} must be text` }).trim().max(max, `${label} must be at most ${max} characters`);
+
+// ---- Requests ----
+
+export const saveReadingsSchema = z.strictObject({
+  equipmentId: z.uuid({ error: 'Choose the system these readings are for' }),
+  readings: visitReadingsSchema,
+});
+export type SaveReadings = z.infer<typeof saveReadingsSchema>;
+
+export const saveChecklistSchema = z.strictObject({
+  season: z.enum(['cooling', 'heating'], { error: 'Season must be cooling or heating' }),
+  items: z
+    .array(
+      z.strictObject({
+        equipmentId: z.uuid({ error: 'Equipment id is not valid' }),
+        itemId: z.string().min(1, 'Item id is needed').max(80),
+        result: z.enum(CHECKLIST_RESULTS, { error: `Result must be one of ${CHECKLIST_RESULTS.join(', ')}` }),
+        note: longText('Note', 500).default(''),
+      }),
+    )
+    .max(400, 'Too many checklist items'),
+});
+export type SaveChecklist = z.infer<typeof saveChecklistSchema>;
+
+const answer = z.boolean({ error: 'Answer yes, no, or leave it unchecked' }).nullable().default(null);
+export const troubleshootingSchema = z.strictObject({
+  thermostatCalling: answer,
+  controlVoltageAtRC: answer,
+  callVoltageAtYCOutdoor: answer,
+  callVoltageAtWC: answer,
+  condensateSwitchTripped: answer,
+  breakerTripped: answer,
+  disconnectOff: answer,
+  fuseBlown: answer,
+  causeFound: longText('Cause found', 2000).default(''),
+  fixMade: longText('Fix made', 2000).default(''),
+});
+export type Troubleshooting = z.infer<typeof troubleshootingSchema>;
+
+export const visitNotesSchema = z.strictObject({
+  findings: longText('Findings').default(''),
+  recommendations: longText('Recommendations').default(''),
+});
+export type VisitNotes = z.infer<typeof visitNotesSchema>;
+
+export const completeVisitSchema = z.strictObject({
+  findings: longText('Findings').min(1, 'Findings are needed to complete the visit'),
+  recommendations: longText('Recommendations').default(''),
+});
+export type CompleteVisit = z.infer<typeof completeVisitSchema>;
+
+// ---- Responses ----
+
+export interface TodayVisit {
+  id: string;
+  kind: VisitKind;
+  reason: VisitReason;
+  reasonLabel: string;
+  status: VisitStatus;
+  statusLabel: string;
+  windowStart: string;
+  windowEnd: string;
+  /** "9:00–11:00 AM" in the company's time zone. */
+  windowLabel: string;
+  customerName: string;
+  address: string;
+  planStatus: { covered: boolean; label: string };
+  technicianName: string | null;
+}
+
+export interface FieldEquipment {
+  id: string;
+  kind: string;
+  kindLabel: string;
+  make: string;
+  model: string;
+  serial: string;
+  installedOn: string | null;
+  ageYears: number | null;
+  refrigerant: string | null;
+  meteringDevice: string | null;
+  capacityBtuh: number | null;
+  nominalTons: number | null;
+  volts: number | null;
+  ratedAmps: number | null;
+  warrantyEndsOn: string | null;
+  underWarranty: boolean | null;
+  filterSize: string;
+  location: string;
+}
+
+export interface PastVisit {
+  id: string;
+  onDate: string;
+  reasonLabel: string;
+  findings: string;
+  recommendations: string;
+}
+
+export interface ChecklistSection {
+  equipmentId: string;
+  equipmentLabel: string;
+  items: (ChecklistItem & { result: ChecklistResult | null; note: string })[];
+}
+
+export interface SavedReadings {
+  equipmentId: string;
+  readings: VisitReadings;
+  checks: ReadingCheck[];
+  worstStatus: ReadingStatus | null;
+  recordedAt: string;
+}
+
+export interface FieldVisit {
+  visit: TodayVisit & { notes: string; symptoms: string[]; findings: string; recommendations: string; completedAt: string | null; onDate: string };
+  customer: { id: string; name: string; phone: string | null };
+  property: { id: string; address: string; accessNotes: string; elevationFt: number | null };
+  equipment: FieldEquipment[];
+  pastVisits: PastVisit[];
+  coverage: Coverage;
+  season: 'cooling' | 'heating';
+  checklist: ChecklistSection[];
+  troubleshooting: Troubleshooting | null;
+  /** Set for no-cooling and no-heat calls: show the structured troubleshooting record. */
+  troubleshootingKind: 'no_cooling' | 'no_heat' | null;
+  readings: SavedReadings[];
+  cautions: Caution[];
+}
+
+export interface CompletedVisit {
+  id: string;
+  status: VisitStatus;
+  completedAt: string;
+  summaryEmailed: boolean;
+}
+
+// ---- Homeowner side ----
+
+export interface ReadingPoint {
+  visitId: string;
+  recordedAt: string;
+  value: number;
+  status: ReadingStatus;
+  expected: { min?: number; max?: number; target?: number };
+}
+
+export interface ReadingSeries {
+  check: string;
+  label: string;
+  unit: string;
+  points: ReadingPoint[];
+}
+
+export interface SystemReadings {
+  equipmentId: string;
+  label: string;
+  series: ReadingSeries[];
+}
+
+export interface PropertyReadings {
+  propertyId: string;
+  systems: SystemReadings[];
+}
+
+export interface VisitSummary {
+  id: string;
+  propertyId: string;
+  onDate: string;
+  reasonLabel: string;
+  statusLabel: string;
+  technicianName: string | null;
+  findings: string;
+  recommendations: string;
+  /** Plain-words lines, one per reading check. */
+  readings: { system: string; lines: { text: string; status: ReadingStatus }[] }[];
+  cautions: Caution[];
+}
