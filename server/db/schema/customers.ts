@@ -13,12 +13,17 @@ export const customers = pgTable(
     notes: text().notNull().default(''),
     archivedAt: tstz(),
     mergedIntoId: uuid().references((): AnyPgColumn => customers.id),
+    // Name, e-mail, phone (with and without +1) and every street of the household, lower-cased;
+    // kept current by triggers (custom migration) so search is one trigram-indexed column.
+    searchText: text().notNull().default(''),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
   (t) => [
     index('customers_email_idx').on(sql`lower(${t.email})`),
     index('customers_name_idx').on(t.name),
+    index('customers_search_trgm_idx').using('gin', sql`${t.searchText} gin_trgm_ops`),
+    index('customers_created_idx').on(t.createdAt),
     check('customers_phone_e164', sql`${t.phone} is null or ${t.phone} ~ '^\\+[1-9][0-9]{6,14}$'`),
   ],
 );
@@ -40,6 +45,9 @@ export const properties = pgTable(
     area: text().notNull().default(''),
     elevationFt: integer(),
     accessNotes: text().notNull().default(''),
+    // What the technician needs at the door; kept apart from free notes so the visit screen can show them.
+    gateCode: text().notNull().default(''),
+    pets: text().notNull().default(''),
     archivedAt: tstz(),
     createdAt: createdAt(),
   },

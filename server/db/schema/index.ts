@@ -9,3 +9,4 @@ export * from './visits';
 export * from './booking';
 export * from './billing';
 export * from './field';
+export * from './records';

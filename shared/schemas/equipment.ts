@@ -1,0 +1,154 @@
+import { z } from 'zod';
+import { EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
+import { isCalendarDate } from '../service-life';
+
+// The API contract for equipment at a property. Capacity is stored in Btu/h; tons are accepted.
+
+/** One ton of refrigeration is 12,000 Btu/h by definition. */
+export const BTUH_PER_TON = 12_000;
+
+export const REFRIGERANT_CHOICES = [...REFRIGERANTS, 'none'] as const;
+export type RefrigerantChoice = (typeof REFRIGERANT_CHOICES)[number];
+
+const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' && v.trim() === '') ? null : v);
+const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+const numberish = (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? Number(v.trim().replace(/,/g, '')) : v);
+
+const text = (label: string, max: number) =>
+  z.preprocess(blankToUndefined, z.string({ error: `${label} must be text.` }).trim().max(max, `Keep ${label.toLowerCase()} under ${max} characters.`).default(''));
+
+const isoDate = (label: string) =>
+  z.preprocess(
+    blankToNull,
+    z
+      .string({ error: `${label} is a date like 2019-06-30.` })
+      .trim()
+      .regex(/^\d{4}-\d{2}-\d{2}$/, `${label} is a date like 2019-06-30.`)
+      .refine(isCalendarDate, `${label} is not a real calendar date.`)
+      .refine((d) => d >= '1950-01-01' && d <= '2100-12-31', `${label} must be between 1950 and 2100.`)
+      .nullable(),
+  );
+
+const optionalInt = (label: string, min: number, max: number) =>
+  z.preprocess(
+    (v) => numberish(blankToNull(v)),
+    z
+      .number({ error: `${label} is a number.` })
+      .int(`${label} is a whole number.`)
+      .min(min, `${label} is at least ${min}.`)
+      .max(max, `${label} is at most ${max}.`)
+      .nullable(),
+  );
+
+/** "16 x 25 x 1" and "16X25X1" become "16x25x1"; fractional depths like 4.5 are allowed. */
+export const filterSizeSchema = z.preprocess(
+  (v) => (typeof v === 'string' ? v.trim().replace(/\s*[xX×]\s*/g, 'x').replace(/"/g, '') : v),
+  z.union([z.literal(''), z.string().regex(/^\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?$/, 'Filter size is width x height x depth in inches, like 16x25x1.')]),
+);
+
+const equipmentFields = {
+  kind: z.enum(EQUIPMENT_KINDS, { error: 'Choose the kind of equipment.' }),
+  make: text('Make', 60),
+  model: text('Model', 60),
+  serial: text('Serial', 60),
+  installedOn: isoDate('Install date'),
+  refrigerant: z.preprocess(
+    (v) => (typeof v === 'string' ? (v.trim() === '' ? 'none' : v.trim().toUpperCase()) : v ?? 'none'),
+    z.enum(REFRIGERANT_CHOICES, { error: `Refrigerant is one of ${REFRIGERANT_CHOICES.join(', ')}.` }),
+  ),
+  capacity: z.preprocess(
+    (v) => numberish(blankToNull(v)),
+    z.number({ error: 'Capacity is a number.' }).positive('Capacity is more than 0.').nullable(),
+  ),
+  capacityUnit: z.enum(['tons', 'btuh'], { error: 'Capacity unit is tons or btuh.' }).default('btuh'),
+  volts: optionalInt('Volts', 12, 600),
+  phase: z.preprocess((v) => numberish(blankToNull(v)), z.union([z.literal(1), z.literal(3), z.null()], { error: 'Phase is 1 or 3.' })),
+  ratedAmps: z.preprocess(
+    (v) => numberish(blankToNull(v)),
+    z.number({ error: 'Rated amps is a number.' }).positive('Rated amps is more than 0.').max(400, 'Rated amps is at most 400.').nullable(),
+  ),
+  filterSize: filterSizeSchema.default(''),
+  filterType: text('Filter type', 60),
+  merv: optionalInt('MERV', 1, 16),
+  warrantyEndsOn: isoDate('Warranty end'),
+  location: text('Location', 120),
+  notes: text('Notes', 2000),
+};
+
+type CapacityIn = { capacity?: number | null; capacityUnit?: 'tons' | 'btuh' };
+
+function capacityToBtuh<T extends CapacityIn>(v: T, ctx: z.RefinementCtx): number | null | undefined {
+  if (v.capacity === undefined) return undefined;
+  if (v.capacity === null) return null;
+  const btuh = Math.round(v.capacityUnit === 'tons' ? v.capacity * BTUH_PER_TON : v.capacity);
+  if (btuh < 1000 || btuh > 600_000) {
+    ctx.addIssue({ code: 'custom', path: ['capacity'], message: 'Capacity is between 1,000 and 600,000 Btu/h (about 0.1 to 50 tons).' });
+    return z.NEVER;
+  }
+  return btuh;
+}
+
+const withCapacity = <T extends CapacityIn & { refrigerant?: RefrigerantChoice }>(v: T, ctx: z.RefinementCtx) => {
+  const capacityBtuh = capacityToBtuh(v, ctx);
+  const { capacity: _c, capacityUnit: _u, refrigerant, ...rest } = v;
+  return {
+    ...rest,
+    ...(capacityBtuh !== undefined ? { capacityBtuh } : {}),
+    ...(refrigerant !== undefined ? { refrigerant: refrigerant === 'none' ? null : refrigerant } : {}),
+  };
+};
+
+export const equipmentInputSchema = z
+  .object({
+    ...equipmentFields,
+    installedOn: equipmentFields.installedOn.default(null),
+    refrigerant: equipmentFields.refrigerant.default('none'),
+    capacity: equipmentFields.capacity.default(null),
+    volts: equipmentFields.volts.default(null),
+    phase: equipmentFields.phase.default(null),
+    ratedAmps: equipmentFields.ratedAmps.default(null),
+    merv: equipmentFields.merv.default(null),
+    warrantyEndsOn: equipmentFields.warrantyEndsOn.default(null),
+  })
+  .superRefine((v, ctx) => {
+    if (v.installedOn && v.warrantyEndsOn && v.warrantyEndsOn < v.installedOn) ctx.addIssue({ code: 'custom', path: ['warrantyEndsOn'], message: 'Warranty end is after the install date.' });
+  })
+  .transform(withCapacity);
+export type EquipmentInput = z.infer<typeof equipmentInputSchema>;
+
+export const equipmentUpdateSchema = z
+  .object(equipmentFields)
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, { error: 'Send at least one field to change.' })
+  .transform(withCapacity);
+export type EquipmentUpdate = z.infer<typeof equipmentUpdateSchema>;
+
+export const equipmentSchema = z.object({
+  id: z.uuid(),
+  propertyId: z.uuid(),
+  kind: z.enum(EQUIPMENT_KINDS),
+  kindLabel: z.string(),
+  make: z.string(),
+  model: z.string(),
+  serial: z.string(),
+  installedOn: z.string().nullable(),
+  refrigerant: z.string().nullable(),
+  capacityBtuh: z.number().nullable(),
+  capacityTons: z.number().nullable(),
+  volts: z.number().nullable(),
+  phase: z.number().nullable(),
+  ratedAmps: z.number().nullable(),
+  filterSize: z.string(),
+  filterType: z.string(),
+  merv: z.number().nullable(),
+  warrantyEndsOn: z.string().nullable(),
+  warranty: z.enum(['unknown', 'active', 'ending_soon', 'expired']),
+  warrantyLabel: z.string(),
+  location: z.string(),
+  notes: z.string(),
+  ageText: z.string().nullable(),
+  ageYears: z.number().nullable(),
+  life: z.object({ status: z.enum(['unknown', 'ok', 'nearing', 'past']), label: z.string(), typicalYears: z.number(), source: z.string() }),
+  archived: z.boolean(),
+});
+export type Equipment = z.infer<typeof equipmentSchema>;
