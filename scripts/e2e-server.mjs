@@ -2,7 +2,7 @@
 // serving the built client. Started by Playwright's webServer; `npm test` passes its database.
 import { join } from 'node:path';
 import { clusterHome, createDatabase, databaseUrl, dropDatabase, ensureCluster } from './lib/pg.mjs';
-import { BIN, ROOT, run, startService, stopChild, waitForHttp } from './lib/proc.mjs';
+import { ROOT, run, startService, stopChild, waitForHttp } from './lib/proc.mjs';
 
 const PORT = Number(process.env.E2E_PORT ?? 3200);
 const SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2527);
@@ -31,7 +31,9 @@ const env = {
   STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
   STORAGE_DIR: join(ROOT, '.data', `e2e-uploads-${process.pid}`),
 };
-const tsx = join(BIN, 'tsx');
+// One process per service (no tsx wrapper), so a killed service leaves nothing behind.
+const node = process.execPath;
+const ts = (file) => ['--import', 'tsx', file];
 const children = [];
 async function stop(code) {
   await Promise.all(children.map((c) => stopChild(c)));
@@ -42,9 +44,9 @@ process.on('SIGINT', () => void stop(0));
 process.on('SIGTERM', () => void stop(0));
 
 try {
-  if ((await run(tsx, ['server/db/migrate.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
-  if ((await run(tsx, ['server/db/seed/seed.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('seed failed');
-  const fakes = startService('fakes', tsx, ['server/fakes/main.ts'], {
+  if ((await run(node, ts('server/db/migrate.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
+  if ((await run(node, ts('server/db/seed/seed.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('seed failed');
+  const fakes = startService('fakes', node, ts('server/fakes/main.ts'), {
     ...env,
     SMTP_PORT: String(SMTP_PORT),
     MAILBOX_PORT: String(MAILBOX_PORT),
@@ -53,7 +55,7 @@ try {
   });
   children.push(fakes);
   await waitForHttp(`http://127.0.0.1:${MAILBOX_PORT}/api/messages`, { child: fakes });
-  const api = startService('api', tsx, ['server/main.ts'], env);
+  const api = startService('api', node, ts('server/main.ts'), env);
   children.push(api);
   await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { child: api });
   console.log(`[e2e] app ready on ${env.PUBLIC_URL}`);

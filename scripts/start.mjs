@@ -2,7 +2,7 @@
 // Plain Node with built-ins only, because it runs before node_modules exists.
 import { join } from 'node:path';
 import { clusterHome, databaseUrl, ensureCluster, stopCluster } from './lib/pg.mjs';
-import { BIN, ROOT, buildClient, ensureDependencies, run, say, startService, stopChild, waitForHttp } from './lib/proc.mjs';
+import { ROOT, buildClient, ensureDependencies, run, say, startService, stopChild, waitForHttp } from './lib/proc.mjs';
 
 const PORT = Number(process.env.PORT ?? 3100);
 const PG_PORT = Number(process.env.SW_PG_PORT ?? 55432);
@@ -45,12 +45,14 @@ try {
     STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
     STORAGE_DIR: join(ROOT, '.data', 'uploads'),
   };
-  const tsx = join(BIN, 'tsx');
-  if ((await run(tsx, ['server/db/migrate.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
-  if ((await run(tsx, ['server/db/seed/seed.ts'], { env: { ...process.env, ...env } })) !== 0) throw new Error('seeding the demo failed');
+  // One process per service (no tsx wrapper), so a killed service leaves nothing behind.
+  const node = process.execPath;
+  const ts = (file) => ['--import', 'tsx', file];
+  if ((await run(node, ts('server/db/migrate.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
+  if ((await run(node, ts('server/db/seed/seed.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('seeding the demo failed');
   await buildClient();
 
-  const fakes = startService('fakes', tsx, ['server/fakes/main.ts'], {
+  const fakes = startService('fakes', node, ts('server/fakes/main.ts'), {
     ...env,
     SMTP_PORT: String(SMTP_PORT),
     MAILBOX_PORT: String(MAILBOX_PORT),
@@ -60,7 +62,7 @@ try {
   children.push(fakes);
   await waitForHttp(`http://127.0.0.1:${MAILBOX_PORT}/api/messages`, { child: fakes });
 
-  const api = startService('api', tsx, ['server/main.ts'], env);
+  const api = startService('api', node, ts('server/main.ts'), env);
   children.push(api);
   await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { child: api });
   for (const child of children) {

@@ -57,6 +57,11 @@ export function createApp(deps: AppDeps): Express {
       logger: deps.logger,
       redact: ['req.headers.cookie', 'req.headers.authorization', 'req.headers["x-xsrf-token"]', 'res.headers["set-cookie"]'],
       autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+      // One short line per request: method, path and status, never headers or bodies.
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url.split('?')[0] }),
+        res: (res: { statusCode: number }) => ({ status: res.statusCode }),
+      },
     }),
   );
   // Sessions, passport and CSRF; raw-body webhook routes carry their own signature.

@@ -75,7 +75,7 @@ export function startService(name, cmd, args, env) {
 export async function waitForHttp(url, { timeoutMs = 60_000, child } = {}) {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
-    if (child && child.exitCode !== null) throw new Error(`${url}: the process exited with code ${child.exitCode}`);
+    if (child && (child.exitCode !== null || child.signalCode !== null)) throw new Error(`${url}: the process exited with code ${child.exitCode}`);
     try {
       const res = await fetch(url);
       if (res.ok) return;
@@ -88,7 +88,7 @@ export async function waitForHttp(url, { timeoutMs = 60_000, child } = {}) {
 }
 
 export function stopChild(child, signal = 'SIGTERM') {
-  if (!child || child.exitCode !== null) return Promise.resolve();
+  if (!child || child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
   return new Promise((resolve) => {
     const timer = setTimeout(() => child.kill('SIGKILL'), 8000);
     child.once('exit', () => {
