@@ -1,5 +1,6 @@
 import type { Router } from 'express';
 import type { AppDeps } from './app';
+import { auditRoutes } from './audit/audit.routes';
 import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
 import { healthRoutes } from './health/health.routes';
@@ -16,4 +17,5 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/health', build: healthRoutes },
   { path: '/api/session', build: sessionRoutes },
   { path: '/api/auth', build: authRoutes },
+  { path: '/api/audit', build: auditRoutes },
 ];

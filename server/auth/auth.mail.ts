@@ -26,3 +26,30 @@ export function sendSignInLink(deps: AppDeps, to: { email: string; token: string
     text: `Open this link to sign in to your home comfort portal:\n\n${url}\n\nIt works once, for 10 minutes. If you did not ask for it, you can ignore this e-mail.`,
   });
 }
+
+export function sendHouseholdInvitation(deps: AppDeps, to: { email: string; name: string; token: string }, log?: Logger): void {
+  const url = linkUrl(deps, '/sign-in/confirm', to.token);
+  deliver(deps, log, {
+    to: to.email,
+    subject: 'Your home comfort portal is ready',
+    text: `Hello ${to.name},\n\nYour heating and cooling company has opened a portal for your household: your service agreement, tune-up visits and invoices in one place.\n\nOpen this link to sign in (no password needed):\n\n${url}\n\nThe link works once within 3 days. Later, sign in any time by asking for a new link with this e-mail address.`,
+  });
+}
+
+export function sendStaffInvitation(deps: AppDeps, to: { email: string; name: string; token: string }, log?: Logger): void {
+  const url = linkUrl(deps, '/set-password', to.token);
+  deliver(deps, log, {
+    to: to.email,
+    subject: 'Set your staff password',
+    text: `Hello ${to.name},\n\nYou have been added as staff. Open this link to choose your password (at least 12 characters):\n\n${url}\n\nThe link works once within 3 days.`,
+  });
+}
+
+export function sendPasswordReset(deps: AppDeps, to: { email: string; token: string }, log?: Logger): void {
+  const url = linkUrl(deps, '/set-password', to.token);
+  deliver(deps, log, {
+    to: to.email,
+    subject: 'Set a new password',
+    text: `Open this link to set a new password:\n\n${url}\n\nIt works once, for 30 minutes. If you did not ask for it, you can ignore this e-mail; your password has not changed.`,
+  });
+}

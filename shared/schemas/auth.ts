@@ -44,6 +44,7 @@ export const staffInviteSchema = z.object({
 export type StaffInvite = z.infer<typeof staffInviteSchema>;
 
 export const householdInviteSchema = z.object({
+  customerId: z.uuid({ error: 'That is not a customer number we know.' }).optional(),
   email: email.optional(),
   name: z.string().trim().min(1, 'Enter a name.').max(120, 'Keep the name under 120 characters.').optional(),
 });

@@ -7,6 +7,8 @@ import { normaliseEmail } from '../../server/auth/auth.service';
 import { users } from '../../server/db/schema';
 import { eq } from 'drizzle-orm';
 import { DEMO_STAFF_PASSWORD } from '../../server/db/seed/scenario';
+import { startSmtpCatcher, type SmtpCatcher } from '../../server/fakes/mail';
+import { createMailer, type Mailer } from '../../server/integrations/mail';
 
 export type Agent = ReturnType<typeof request.agent>;
 export interface Signed {
@@ -71,3 +73,27 @@ export async function signInHomeowner(app: AppLike, email: string): Promise<Sign
   if (!fresh) throw new Error('link sign-in set no new XSRF-TOKEN cookie');
   return { agent, csrf: fresh };
 }
+
+/** A local SMTP catcher and a mailer pointed at it, for tests that read the e-mailed links. */
+export async function mailCatcher(): Promise<{ mailer: Mailer; catcher: SmtpCatcher; linkFor(to: string, after?: Date): Promise<string>; close(): Promise<void> }> {
+  const catcher = await startSmtpCatcher({ port: 0, host: '127.0.0.1' });
+  const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Seasonwell <hello@seasonwell.test>' });
+  return {
+    mailer,
+    catcher,
+    async linkFor(to, after) {
+      const message = await catcher.store.waitForLatest({ to, after }, 5000);
+      if (!message) throw new Error(`no e-mail arrived for ${to}`);
+      const link = message.links.find((l) => l.includes('token='));
+      if (!link) throw new Error(`the e-mail to ${to} has no link with a token`);
+      return link;
+    },
+    async close() {
+      mailer.close();
+      await catcher.close();
+    },
+  };
+}
+
+/** The token carried by an e-mailed link. */
+export const tokenOf = (link: string) => new URL(link).searchParams.get('token') ?? '';

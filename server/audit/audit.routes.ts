@@ -1,0 +1,16 @@
+import { Router } from 'express';
+import type { AppDeps } from '../app';
+import { requireRole } from '../auth/access';
+import { parse } from '../http/errors';
+import { auditQuerySchema } from '../../shared/schemas/auth';
+import { listAuditEvents } from './audit.query';
+
+// The owner reads who signed in, who failed, and who changed whose access.
+export function auditRoutes(deps: AppDeps): Router {
+  const router = Router();
+  router.get('/', requireRole('owner'), async (req, res) => {
+    const q = parse(auditQuerySchema, req.query);
+    res.json(await listAuditEvents(deps.database.db, q));
+  });
+  return router;
+}
