@@ -10,3 +10,4 @@ export * from './booking';
 export * from './billing';
 export * from './field';
 export * from './records';
+export * from './reminders';
