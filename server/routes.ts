@@ -3,7 +3,10 @@ import type { AppDeps } from './app';
 import { auditRoutes } from './audit/audit.routes';
 import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
+import { fieldRoutes } from './field/field.routes';
 import { healthRoutes } from './health/health.routes';
+import { reminderRoutes } from './reminders/reminders.routes';
+import { portalReadingsRoutes, visitSummaryRoutes } from './portal-readings/portal-readings.routes';
 
 export interface ApiRouter {
   path: string;
@@ -15,7 +18,11 @@ export interface ApiRouter {
 // Every API router, one line each. The access-control test walks all of them.
 export const apiRouters: ApiRouter[] = [
   { path: '/api/health', build: healthRoutes },
+  { path: '/api/reminders', build: reminderRoutes },
   { path: '/api/session', build: sessionRoutes },
   { path: '/api/auth', build: authRoutes },
   { path: '/api/audit', build: auditRoutes },
+  { path: '/api/field', build: fieldRoutes },
+  { path: '/api/portal/readings', build: portalReadingsRoutes },
+  { path: '/api/portal/visit-summaries', build: visitSummaryRoutes },
 ];

@@ -1,7 +1,10 @@
 import type { AppDeps } from '../app';
+import { registerReminderJobs } from '../reminders/reminders.service';
 
 /**
  * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
  * register function calls deps.services.jobs.register(name, handler, { cron }).
  */
-export function registerJobs(_deps: AppDeps): void {}
+export function registerJobs(deps: AppDeps): void {
+  registerReminderJobs(deps);
+}

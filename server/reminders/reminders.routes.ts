@@ -1,0 +1,35 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/reminders';
+import type { AppDeps } from '../app';
+import { currentUser, requireRole } from '../auth/access';
+import { parse } from '../http/errors';
+import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './reminders.service';
+
+// Seasonal reminders are office work: office staff and the owner only.
+export function reminderRoutes(deps: AppDeps): Router {
+  const router = Router();
+  const db = deps.database.db;
+  router.use(requireRole('office', 'owner'));
+
+  router.get('/preview', async (req, res) => {
+    const { kind } = parse(reminderPreviewQuerySchema, req.query);
+    res.json(await previewReminders(db, kind, deps.clock()));
+  });
+
+  router.get('/campaigns', async (_req, res) => {
+    res.json({ campaigns: await listCampaigns(db) });
+  });
+
+  router.post('/campaigns', async (req, res) => {
+    const { kind, expectedCount } = parse(createCampaignSchema, req.body);
+    res.status(201).json(await createCampaign(deps, currentUser(req), kind, expectedCount));
+  });
+
+  router.get('/campaigns/:id', async (req, res) => {
+    const { id } = parse(z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) }), req.params);
+    res.json(await campaignSummary(db, id));
+  });
+
+  return router;
+}

@@ -1,0 +1,167 @@
+import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/reminders';
+import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/reminders';
+import type { SessionUser } from '../../shared/schemas/session';
+import type { AppDeps } from '../app';
+import type { Db } from '../db/client';
+import { agreements, company, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
+import { AppError, notFound } from '../http/errors';
+import { renderEmail } from '../integrations/mail';
+
+export const REMINDER_QUEUE = 'reminders.send';
+const BATCH = 25;
+
+async function companyInfo(db: Db) {
+  const [c] = await db.select({ name: company.name, timeZone: company.timeZone }).from(company).limit(1);
+  return c ?? { name: 'Seasonwell', timeZone: 'America/Chicago' };
+}
+
+/** Every live household with what the rules need, in five queries (no per-household queries). */
+async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: string })[]> {
+  const rows = await db
+    .select({ id: customers.id, name: customers.name, email: customers.email })
+    .from(customers)
+    .where(and(isNull(customers.archivedAt), isNull(customers.mergedIntoId)))
+    .orderBy(asc(customers.name));
+  const ids = rows.map((r) => r.id);
+  if (!ids.length) return [];
+  const [agreementRows, visitRows, equipmentRows, sentRows] = await Promise.all([
+    db
+      .select({ customerId: agreements.customerId, status: agreements.status, coolingVisits: planVersions.coolingVisits, heatingVisits: planVersions.heatingVisits, extras: planVersions.extras, endsOn: agreements.endsOn })
+      .from(agreements)
+      .innerJoin(planVersions, eq(planVersions.id, agreements.planVersionId))
+      .where(inArray(agreements.customerId, ids))
+      .orderBy(desc(agreements.endsOn)),
+    db
+      .select({ customerId: visits.customerId, kind: visits.kind, status: visits.status, startsAt: visits.startsAt, recommendations: visits.recommendations })
+      .from(visits)
+      .where(and(inArray(visits.customerId, ids), sql`${visits.startsAt} > now() - interval '400 days'`)),
+    db
+      .select({ customerId: properties.customerId, kind: equipment.kind, filterSize: equipment.filterSize })
+      .from(equipment)
+      .innerJoin(properties, eq(properties.id, equipment.propertyId))
+      .where(and(inArray(properties.customerId, ids), isNull(equipment.archivedAt), isNull(properties.archivedAt))),
+    db
+      .select({ customerId: reminderSends.customerId, kind: reminderSends.kind, last: sql<Date>`max(${reminderSends.sentAt})` })
+      .from(reminderSends)
+      .where(and(inArray(reminderSends.customerId, ids), isNotNull(reminderSends.sentAt)))
+      .groupBy(reminderSends.customerId, reminderSends.kind),
+  ]);
+  const byCustomer = new Map(rows.map((r) => [r.id, { customerId: r.id, name: r.name, email: r.email, agreement: null, visits: [], equipment: [], lastSent: {} } as ReminderHousehold & { name: string }]));
+  for (const a of agreementRows) {
+    const h = byCustomer.get(a.customerId)!;
+    // Rows come newest term first: the first live one is the agreement in force.
+    if (!h.agreement || (h.agreement.status !== 'active' && h.agreement.status !== 'renewal_due')) h.agreement = a;
+  }
+  for (const v of visitRows) byCustomer.get(v.customerId)!.visits.push({ ...v, startsAt: v.startsAt.toISOString() });
+  for (const e of equipmentRows) byCustomer.get(e.customerId)!.equipment.push(e);
+  for (const s of sentRows) byCustomer.get(s.customerId)!.lastSent[s.kind] = new Date(s.last).toISOString();
+  return [...byCustomer.values()];
+}
+
+export async function previewReminders(db: Db, kind: ReminderKind, now: Date): Promise<ReminderPreview> {
+  const info = await companyInfo(db);
+  const today = DateTime.fromJSDate(now).setZone(info.timeZone);
+  const households = await loadHouseholds(db);
+  const audience: ReminderRecipient[] = [];
+  for (const h of households) {
+    const d = reminderDecision(kind, h, today);
+    if (d.due && h.email) audience.push({ customerId: h.customerId, name: h.name, email: h.email, reason: d.reason });
+  }
+  return { kind, label: REMINDER_LABELS[kind], subject: reminderWording(kind, info.name).subject, audience, skipped: households.length - audience.length };
+}
+
+/**
+ * Creates a campaign and its sends in one transaction, then queues the sending. If the audience
+ * changed since the office looked, nothing is created and the new count is reported.
+ */
+export async function createCampaign(deps: AppDeps, user: SessionUser, kind: ReminderKind, expectedCount: number): Promise<ReminderCampaignSummary> {
+  const db = deps.database.db;
+  const preview = await previewReminders(db, kind, deps.clock());
+  if (preview.audience.length !== expectedCount) {
+    throw new AppError(409, 'audience_changed', `The audience changed: ${preview.audience.length} households are due now, not ${expectedCount}. Review the list and send again.`, { expectedCount: `Now ${preview.audience.length}` });
+  }
+  if (!preview.audience.length) throw new AppError(422, 'empty_audience', 'Nobody is due for this reminder right now.', { kind: 'No households are due.' });
+  const campaignId = await db.transaction(async (tx) => {
+    const [campaign] = await tx.insert(reminderCampaigns).values({ kind, createdById: user.id, audienceCount: preview.audience.length }).returning({ id: reminderCampaigns.id });
+    await tx.insert(reminderSends).values(preview.audience.map((r) => ({ campaignId: campaign!.id, customerId: r.customerId, kind, email: r.email, reason: r.reason })));
+    return campaign!.id;
+  });
+  const jobs = deps.services.jobs;
+  if (jobs) await jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
+  else await sendCampaign(deps, campaignId);
+  return campaignSummary(db, campaignId);
+}
+
+/**
+ * Sends a campaign's pending reminders in batches. Rows are claimed with SKIP LOCKED, so two
+ * workers never send the same one, and each message carries a stable Message-ID per send.
+ */
+export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<void> {
+  const { mailer } = deps.services;
+  if (!mailer) throw new Error('no mailer configured: cannot send reminders');
+  const db = deps.database.db;
+  const info = await companyInfo(db);
+  for (;;) {
+    const claimed = await db.transaction(async (tx) => {
+      const batch = await tx.execute<{ id: string; email: string; kind: ReminderKind }>(
+        sql`select id, email, kind from reminder_sends where campaign_id = ${campaignId} and status = 'pending' order by created_at limit ${BATCH} for update skip locked`,
+      );
+      for (const row of batch.rows) {
+        const words = reminderWording(row.kind, info.name);
+        const { html, text } = renderEmail({
+          title: words.subject,
+          paragraphs: words.paragraphs,
+          action: { label: words.action, url: `${deps.config.publicUrl}/portal` },
+          footer: `${info.name}. You get this because your home is on one of our maintenance plans or its equipment record suggests it is due.`,
+        });
+        try {
+          await mailer.send({ to: row.email, subject: words.subject, text, html, idempotencyKey: `reminder-${row.id}` });
+          await tx.update(reminderSends).set({ status: 'sent', sentAt: deps.clock(), error: null }).where(eq(reminderSends.id, row.id));
+        } catch (err) {
+          await tx.update(reminderSends).set({ status: 'failed', error: err instanceof Error ? err.message.slice(0, 300) : 'send failed' }).where(eq(reminderSends.id, row.id));
+        }
+      }
+      return batch.rows.length;
+    });
+    if (claimed === 0) break;
+  }
+  const [left] = await db.select({ n: sql<number>`count(*)::int` }).from(reminderSends).where(and(eq(reminderSends.campaignId, campaignId), eq(reminderSends.status, 'pending')));
+  if (left!.n === 0) await db.update(reminderCampaigns).set({ finishedAt: deps.clock() }).where(and(eq(reminderCampaigns.id, campaignId), isNull(reminderCampaigns.finishedAt)));
+}
+
+export async function campaignSummary(db: Db, campaignId: string): Promise<ReminderCampaignSummary> {
+  const list = await listCampaigns(db, campaignId);
+  if (!list.length) throw notFound('That reminder campaign');
+  return list[0]!;
+}
+
+export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCampaignSummary[]> {
+  const rows = await db
+    .select({
+      id: reminderCampaigns.id,
+      kind: reminderCampaigns.kind,
+      audienceCount: reminderCampaigns.audienceCount,
+      createdAt: reminderCampaigns.createdAt,
+      finishedAt: reminderCampaigns.finishedAt,
+      createdBy: users.name,
+      sent: sql<number>`count(*) filter (where ${reminderSends.status} = 'sent')::int`,
+      failed: sql<number>`count(*) filter (where ${reminderSends.status} = 'failed')::int`,
+      pending: sql<number>`count(*) filter (where ${reminderSends.status} = 'pending')::int`,
+    })
+    .from(reminderCampaigns)
+    .innerJoin(users, eq(users.id, reminderCampaigns.createdById))
+    .leftJoin(reminderSends, eq(reminderSends.campaignId, reminderCampaigns.id))
+    .where(onlyId ? eq(reminderCampaigns.id, onlyId) : undefined)
+    .groupBy(reminderCampaigns.id, users.name)
+    .orderBy(desc(reminderCampaigns.createdAt))
+    .limit(50);
+  return rows.map((r) => ({ ...r, label: REMINDER_LABELS[r.kind], createdAt: r.createdAt.toISOString(), finishedAt: r.finishedAt?.toISOString() ?? null }));
+}
+
+export function registerReminderJobs(deps: AppDeps): void {
+  deps.services.jobs?.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
+}
+
+export { REMINDER_KINDS };
