@@ -1,0 +1,197 @@
+/**
+ * Who may call which /api route. Every route the routers in server/routes.ts declare must have a
+ * row in ROUTES below; the first test fails and lists any route without one (and any row whose
+ * route is gone).
+ *
+ * To add a row: copy the route's "METHOD /api/full/:path" as the key, list the roles that may
+ * call it in `allow` (or 'public'), and say how to fill its path parameters:
+ *   'GET /api/customers/:customerId': { allow: ['homeowner', 'technician', 'office', 'owner'], owned: true },
+ * `owned: true` means the parameters point at homeowner A's records, so homeowner B must get
+ * 404/403 even when homeowners are allowed. Parameters named in FILL (customerId, …) fill
+ * themselves with homeowner A's ids; give others with `params: { id: (f) => f.someId }`
+ * (add what you need to Fixtures/loadFixtures). Bodies default to {}: an allowed role then gets
+ * a 422 from the route's own validation, which still proves it passed authorisation. Mark rows
+ * that sign the caller out with `throwaway: true` so they run on spare accounts.
+ *
+ * Not allowed: anonymous must get 401; any other role 403 or 404. Allowed: never 401/403, and
+ * never 404 for homeowner A's own records.
+ */
+import { randomUUID } from 'node:crypto';
+import { hash } from '@node-rs/argon2';
+import { and, eq } from 'drizzle-orm';
+import type { Router } from 'express';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { apiRouters } from '../server/routes';
+import { customers, technicians, users, visits } from '../server/db/schema';
+import type { Role } from '../shared/roles';
+import { testApp } from './support/app';
+import { anonymous, signInHomeowner, signInStaff, type Signed } from './support/auth';
+
+const STAFF_PASSWORD = 'matrix-spare-lantern-42';
+
+interface Fixtures {
+  customerA: string;
+  customerB: string;
+  /** A spare office member the owner may change; never one of the sessions below. */
+  spareStaffId: string;
+}
+
+type Allow = 'public' | Role[];
+interface Row {
+  allow: Allow;
+  owned?: boolean;
+  body?: unknown;
+  throwaway?: boolean;
+  params?: Record<string, (f: Fixtures) => string>;
+}
+
+// Parameters that fill themselves with homeowner A's records.
+const FILL: Record<string, (f: Fixtures) => string> = {
+  customerId: (f) => f.customerA,
+};
+
+const SIGNED_IN: Role[] = ['homeowner', 'technician', 'office', 'owner'];
+
+const ROUTES: Record<string, Row> = {
+  'GET /api/health': { allow: 'public' },
+  'GET /api/session': { allow: 'public' },
+  'POST /api/auth/staff/sign-in': { allow: 'public' },
+  'POST /api/auth/link': { allow: 'public' },
+  'POST /api/auth/link/confirm': { allow: 'public' },
+  'POST /api/auth/password/forgot': { allow: 'public' },
+  'POST /api/auth/password/set': { allow: 'public' },
+  'POST /api/auth/sign-out': { allow: SIGNED_IN, throwaway: true },
+  'POST /api/auth/sign-out-everywhere': { allow: SIGNED_IN, throwaway: true },
+  'POST /api/auth/household-invitations': { allow: ['office', 'owner'] },
+  'GET /api/auth/staff': { allow: ['owner'] },
+  'POST /api/auth/staff/invite': { allow: ['owner'] },
+  'PATCH /api/auth/staff/:id': { allow: ['owner'], params: { id: (f) => f.spareStaffId } },
+  'POST /api/auth/staff/:id/sign-out-everywhere': { allow: ['owner'], params: { id: (f) => f.spareStaffId } },
+  'GET /api/audit': { allow: ['owner'] },
+};
+
+type Who = 'anonymous' | 'homeownerA' | 'homeownerB' | 'technician' | 'office' | 'owner';
+const WHO: Who[] = ['anonymous', 'homeownerA', 'homeownerB', 'technician', 'office', 'owner'];
+const roleOf = (w: Who): Role | null => (w === 'anonymous' ? null : w.startsWith('homeowner') ? 'homeowner' : (w as Role));
+
+interface Layer {
+  route?: { path: string; methods: Record<string, boolean> };
+  handle: { stack?: Layer[] };
+  rawPath?: string | string[];
+  name: string;
+}
+
+/** Every METHOD + full path the routers declare, nested routers included. */
+function declaredRoutes(ctx: ReturnType<typeof testApp>): string[] {
+  const out = new Set<string>();
+  const join = (a: string, b: string) => (`${a}/${b}`.replace(/\/+/g, '/').replace(/(.)\/$/, '$1'));
+  const walk = (stack: Layer[], prefix: string) => {
+    for (const layer of stack) {
+      if (layer.route) {
+        for (const [m, on] of Object.entries(layer.route.methods)) if (on && m !== '_all') out.add(`${m.toUpperCase()} ${join(prefix, layer.route.path)}`);
+      } else if (layer.handle?.stack) {
+        const raw = Array.isArray(layer.rawPath) ? layer.rawPath[0] : layer.rawPath;
+        walk(layer.handle.stack, join(prefix, typeof raw === 'string' ? raw : '/'));
+      }
+    }
+  };
+  for (const r of apiRouters) walk((r.build(ctx.deps) as unknown as Router & { stack: Layer[] }).stack, r.path);
+  return [...out].sort();
+}
+
+const ctx = testApp();
+const sessions = {} as Record<Who, Signed>;
+const spare = {} as Record<Who, () => Promise<Signed>>;
+let fixtures: Fixtures;
+let ip = 0;
+
+async function spareStaff(role: 'technician' | 'office' | 'owner'): Promise<string> {
+  const email = `matrix-${role}-${randomUUID().slice(0, 8)}@bluestem-comfort.test`;
+  await ctx.database.db.insert(users).values({ email, name: `Matrix ${role}`, role, passwordHash: await hash(STAFF_PASSWORD) });
+  return email;
+}
+async function spareHomeowner(): Promise<string> {
+  const email = `matrix-home-${randomUUID().slice(0, 8)}@example.test`;
+  const [c] = await ctx.database.db.insert(customers).values({ name: 'Matrix household', email }).returning();
+  await ctx.database.db.insert(users).values({ email, name: 'Matrix homeowner', role: 'homeowner', customerId: c.id });
+  return email;
+}
+
+beforeAll(async () => {
+  const db = ctx.database.db;
+  const [a] = await db.select().from(users).where(eq(users.email, 'dana.whitfield@example.test'));
+  const [b] = await db.select().from(users).where(eq(users.email, 'sam.oduya@example.test'));
+  // The technician session is one with a visit at household A, so "their" records exist.
+  const [tech] = await db
+    .select({ email: users.email })
+    .from(visits)
+    .innerJoin(technicians, eq(technicians.id, visits.technicianId))
+    .innerJoin(users, eq(users.id, technicians.userId))
+    .where(and(eq(visits.customerId, a.customerId!)))
+    .limit(1);
+  const spareOffice = await spareStaff('office');
+  const [spareRow] = await db.select({ id: users.id }).from(users).where(eq(users.email, spareOffice));
+  fixtures = { customerA: a.customerId!, customerB: b.customerId!, spareStaffId: spareRow.id };
+
+  sessions.anonymous = await anonymous(ctx);
+  sessions.homeownerA = await signInHomeowner(ctx, a.email);
+  sessions.homeownerB = await signInHomeowner(ctx, b.email);
+  sessions.technician = await signInStaff(ctx, tech?.email ?? 'marcus.bellweather@bluestem-comfort.test');
+  sessions.office = await signInStaff(ctx, 'teo.marchetti@bluestem-comfort.test');
+  sessions.owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
+
+  spare.anonymous = () => anonymous(ctx);
+  spare.homeownerA = async () => signInHomeowner(ctx, await spareHomeowner());
+  spare.homeownerB = spare.homeownerA;
+  spare.technician = async () => signInStaff(ctx, await spareStaff('technician'), STAFF_PASSWORD);
+  spare.office = async () => signInStaff(ctx, await spareStaff('office'), STAFF_PASSWORD);
+  spare.owner = async () => signInStaff(ctx, await spareStaff('owner'), STAFF_PASSWORD);
+});
+afterAll(() => ctx.close());
+
+function fillPath(path: string, row: Row): string {
+  return path.replace(/:(\w+)/g, (_m, name: string) => {
+    const fill = row.params?.[name] ?? FILL[name];
+    if (!fill) throw new Error(`No value for :${name} in ${path}: add params: { ${name}: (f) => … } to its row`);
+    return encodeURIComponent(fill(fixtures));
+  });
+}
+
+async function call(s: Signed, method: string, path: string, body: unknown) {
+  const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
+  // Distinct documentation-range addresses (RFC 5737) keep per-address limits out of the way.
+  const req = s.agent[m](path).set('X-XSRF-TOKEN', s.csrf).set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
+  return m === 'get' ? req : req.send((body ?? {}) as object);
+}
+
+describe('access matrix', () => {
+  it('has a row for every /api route, and no row for a route that is gone', () => {
+    const declared = declaredRoutes(ctx);
+    const missing = declared.filter((k) => !(k in ROUTES));
+    const stale = Object.keys(ROUTES).filter((k) => !declared.includes(k));
+    expect(missing, 'add a row to ROUTES in test/access-matrix.test.ts for each of these').toEqual([]);
+    expect(stale, 'these rows have no route any more').toEqual([]);
+  });
+
+  const rows = Object.entries(ROUTES);
+  it.each(rows)('%s', async (key, row) => {
+    const [method, path] = key.split(' ');
+    const url = fillPath(path, row);
+    for (const who of WHO) {
+      const s = row.throwaway && who !== 'anonymous' ? await spare[who]() : sessions[who];
+      const res = await call(s, method, url, row.body);
+      const label = `${key} as ${who} answered ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+      expect(res.status, label).toBeLessThan(500);
+      const role = roleOf(who);
+      if (row.allow === 'public') continue;
+      const allowed = role !== null && row.allow.includes(role) && !(row.owned && who === 'homeownerB');
+      if (!allowed) {
+        if (who === 'anonymous') expect(res.status, label).toBe(401);
+        else expect([403, 404], label).toContain(res.status);
+      } else {
+        expect([401, 403], label).not.toContain(res.status);
+        if (row.owned) expect(res.status, label).not.toBe(404);
+      }
+    }
+  });
+});
