@@ -193,3 +193,27 @@ export interface VisitSummary {
   readings: { system: string; lines: { text: string; status: ReadingStatus }[] }[];
   cautions: Caution[];
 }
+
+/** Short names for each reading check, for charts and lists. */
+export const CHECK_LABELS: Record<string, string> = {
+  temperature_split: 'Temperature split',
+  temperature_rise: 'Temperature rise',
+  superheat: 'Superheat',
+  subcooling: 'Subcooling',
+  capacitor_compressor: 'Compressor capacitor',
+  capacitor_outdoor_fan: 'Outdoor fan capacitor',
+  capacitor_blower: 'Blower capacitor',
+  amps_compressor: 'Compressor amps',
+  amps_outdoor_fan: 'Outdoor fan amps',
+  amps_blower: 'Blower amps',
+  control_voltage: 'Control voltage',
+  sensible_capacity: 'Sensible capacity',
+  airflow_per_ton: 'Airflow per ton',
+};
+
+/** The worst status among checks: alert over watch over ok; null when nothing was checked. */
+export function worstStatus(checks: readonly { status: ReadingStatus }[]): ReadingStatus | null {
+  if (checks.some((c) => c.status === 'alert')) return 'alert';
+  if (checks.some((c) => c.status === 'watch')) return 'watch';
+  return checks.length ? 'ok' : null;
+}

@@ -1,0 +1,69 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { completeVisitSchema, saveChecklistSchema, saveReadingsSchema, troubleshootingSchema, visitNotesSchema } from '../../shared/schemas/field';
+import type { AppDeps } from '../app';
+import { currentUser, requireRole } from '../auth/access';
+import { notFound, parse } from '../http/errors';
+import { completeVisit, fieldVisit, saveChecklist, saveNotes, saveReadings, saveTroubleshooting, todayVisits } from './field.service';
+
+const visitId = (raw: unknown): string => {
+  const r = z.uuid().safeParse(raw);
+  if (!r.success) throw notFound('That visit');
+  return r.data;
+};
+const seasonQuery = z.object({ season: z.enum(['cooling', 'heating']).optional() });
+
+/** The technician's visit screen: today's list, one visit's page, and what is recorded on site. */
+export function fieldRoutes(deps: AppDeps): Router {
+  const router = Router();
+  const db = deps.database.db;
+  router.use(requireRole('technician', 'owner'));
+
+  router.get('/visits/today', async (req, res) => {
+    res.json(await todayVisits(db, currentUser(req), deps.clock()));
+  });
+
+  router.get('/visits/:id', async (req, res) => {
+    const { season } = parse(seasonQuery, req.query);
+    res.json(await fieldVisit(db, currentUser(req), visitId(req.params.id), deps.clock(), season));
+  });
+
+  router.put('/visits/:id/readings', async (req, res) => {
+    const id = visitId(req.params.id);
+    const body = parse(saveReadingsSchema, req.body);
+    res.json(await saveReadings(db, currentUser(req), id, body, deps.clock()));
+  });
+
+  router.put('/visits/:id/checklist', async (req, res) => {
+    const id = visitId(req.params.id);
+    const body = parse(saveChecklistSchema, req.body);
+    res.json({ checklist: await saveChecklist(db, currentUser(req), id, body) });
+  });
+
+  router.put('/visits/:id/troubleshooting', async (req, res) => {
+    const id = visitId(req.params.id);
+    const body = parse(troubleshootingSchema, req.body);
+    res.json(await saveTroubleshooting(db, currentUser(req), id, body));
+  });
+
+  router.put('/visits/:id/notes', async (req, res) => {
+    const id = visitId(req.params.id);
+    const body = parse(visitNotesSchema, req.body);
+    res.json(await saveNotes(db, currentUser(req), id, body));
+  });
+
+  router.post('/visits/:id/complete', async (req, res) => {
+    const id = visitId(req.params.id);
+    const body = parse(completeVisitSchema, req.body);
+    res.json(
+      await completeVisit(db, currentUser(req), id, body, {
+        now: deps.clock(),
+        mailer: deps.services?.mailer,
+        publicUrl: deps.config.publicUrl,
+        log: req.log ?? deps.logger,
+      }),
+    );
+  });
+
+  return router;
+}

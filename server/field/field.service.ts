@@ -1,0 +1,268 @@
+import { and, asc, desc, eq, gte, lt, ne, notInArray } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import type { Logger } from 'pino';
+import { tuneUpSeasonOf } from '../../shared/coverage';
+import { evaluateReadings, ReadingInputError, tuneUpChecklist, type EquipmentKind, type Season } from '../../shared/hvac';
+import {
+  worstStatus,
+  type ChecklistSection,
+  type CompletedVisit,
+  type CompleteVisit,
+  type FieldVisit,
+  type SaveChecklist,
+  type SavedReadings,
+  type SaveReadings,
+  type TodayVisit,
+  type Troubleshooting,
+  type VisitNotes,
+} from '../../shared/schemas/field';
+import type { SessionUser } from '../../shared/schemas/session';
+import { VISIT_REASON_LABELS } from '../../shared/visits';
+import type { Db } from '../db/client';
+import { customers, properties, technicians, visitChecklistItems, visitEvents, visitReadings, visitTroubleshooting, visits } from '../db/schema';
+import { AppError, conflict } from '../http/errors';
+import type { Mailer } from '../integrations/mail';
+import { summaryEmail, technicianCautions, visitSummary } from './summary';
+import {
+  addressOf,
+  companyInfo,
+  equipmentLabel,
+  fieldEquipment,
+  localDate,
+  propertyEquipment,
+  visitCoverage,
+  visitForStaff,
+  visitListRows,
+  type EquipmentRow,
+  type VisitRow,
+} from './visit-data';
+
+/** The signed-in technician's visits today (the owner sees every technician's), in time order. */
+export async function todayVisits(db: Db, user: SessionUser, now: Date): Promise<{ date: string; visits: TodayVisit[] }> {
+  const info = await companyInfo(db);
+  const day = DateTime.fromJSDate(now, { zone: info.timeZone }).startOf('day');
+  const inDay = and(gte(visits.startsAt, day.toJSDate()), lt(visits.startsAt, day.plus({ days: 1 }).toJSDate()), notInArray(visits.status, ['canceled']));
+  let where = inDay;
+  if (user.role === 'technician') {
+    const [tech] = await db.select({ id: technicians.id }).from(technicians).where(eq(technicians.userId, user.id)).limit(1);
+    if (!tech) return { date: day.toISODate()!, visits: [] };
+    where = and(inDay, eq(visits.technicianId, tech.id));
+  } else {
+    where = and(inDay, ne(visits.status, 'requested'));
+  }
+  return { date: day.toISODate()!, visits: await visitListRows(db, where, info) };
+}
+
+const TROUBLESHOOTING_REASONS = new Set(['no_cooling', 'no_heat']);
+
+function seasonFor(visit: VisitRow, onDate: string): Season {
+  if (visit.reason === 'no_cooling') return 'cooling';
+  if (visit.reason === 'no_heat') return 'heating';
+  return tuneUpSeasonOf(onDate);
+}
+
+async function checklistSections(db: Db, visitId: string, items: EquipmentRow[], season: Season): Promise<ChecklistSection[]> {
+  const saved = await db.select().from(visitChecklistItems).where(eq(visitChecklistItems.visitId, visitId));
+  const key = (e: string, i: string) => `${e}/${i}`;
+  const byKey = new Map(saved.map((s) => [key(s.equipmentId, s.itemId), s]));
+  return items.map((e) => ({
+    equipmentId: e.id,
+    equipmentLabel: equipmentLabel(e),
+    items: tuneUpChecklist(e.kind as EquipmentKind, season).map((item) => {
+      const s = byKey.get(key(e.id, item.id));
+      return { ...item, result: s?.result ?? null, note: s?.note ?? '' };
+    }),
+  }));
+}
+
+function savedReadings(r: typeof visitReadings.$inferSelect): SavedReadings {
+  return { equipmentId: r.equipmentId, readings: r.readings, checks: r.checks, worstStatus: r.worstStatus, recordedAt: r.recordedAt.toISOString() };
+}
+
+/** Everything the visit screen shows: header, coverage, checklist, troubleshooting, readings, cautions. */
+export async function fieldVisit(db: Db, user: SessionUser, visitId: string, now: Date, seasonOverride?: Season): Promise<FieldVisit> {
+  const visit = await visitForStaff(db, user, visitId);
+  const info = await companyInfo(db);
+  const [header] = await visitListRows(db, eq(visits.id, visit.id), info);
+  const [customer] = await db.select({ id: customers.id, name: customers.name, phone: customers.phone }).from(customers).where(eq(customers.id, visit.customerId));
+  const [property] = await db.select().from(properties).where(eq(properties.id, visit.propertyId));
+  const onDate = localDate(visit.startsAt, info.timeZone);
+  const today = localDate(now, info.timeZone);
+  const items = await propertyEquipment(db, visit.propertyId);
+  const season = seasonOverride ?? seasonFor(visit, onDate);
+  const past = await db
+    .select({ id: visits.id, startsAt: visits.startsAt, reason: visits.reason, findings: visits.findings, recommendations: visits.recommendations })
+    .from(visits)
+    .where(and(eq(visits.propertyId, visit.propertyId), eq(visits.status, 'done'), ne(visits.id, visit.id), lt(visits.startsAt, visit.startsAt)))
+    .orderBy(desc(visits.startsAt))
+    .limit(6);
+  const [trouble] = await db.select().from(visitTroubleshooting).where(eq(visitTroubleshooting.visitId, visit.id));
+  const readings = await db.select().from(visitReadings).where(eq(visitReadings.visitId, visit.id)).orderBy(asc(visitReadings.recordedAt));
+  const { visitId: _v, updatedAt: _u, ...troubleshooting } = trouble ?? { visitId: '', updatedAt: null };
+
+  return {
+    visit: {
+      ...header!,
+      notes: visit.notes,
+      symptoms: visit.symptoms,
+      findings: visit.findings,
+      recommendations: visit.recommendations,
+      completedAt: visit.completedAt?.toISOString() ?? null,
+      onDate,
+    },
+    customer: customer!,
+    property: { id: property!.id, address: addressOf(property!), accessNotes: property!.accessNotes, elevationFt: property!.elevationFt },
+    equipment: items.map((e) => fieldEquipment(e, today)),
+    pastVisits: past.map((p) => ({
+      id: p.id,
+      onDate: localDate(p.startsAt, info.timeZone),
+      reasonLabel: VISIT_REASON_LABELS[p.reason],
+      findings: p.findings,
+      recommendations: p.recommendations,
+    })),
+    coverage: await visitCoverage(db, visit, info),
+    season,
+    checklist: await checklistSections(db, visit.id, items, season),
+    troubleshooting: trouble ? (troubleshooting as Troubleshooting) : null,
+    troubleshootingKind: TROUBLESHOOTING_REASONS.has(visit.reason) ? (visit.reason as 'no_cooling' | 'no_heat') : null,
+    readings: readings.map(savedReadings),
+    cautions: technicianCautions(
+      items.map((e) => e.kind),
+      items.some((e) => e.refrigerant !== null),
+    ),
+  };
+}
+
+function assertOpen(visit: VisitRow): void {
+  if (visit.status === 'done') throw conflict('This visit is already completed; its record can no longer be changed.');
+  if (visit.status === 'canceled' || visit.status === 'no_show') throw conflict('This visit was canceled; nothing can be recorded on it.');
+}
+
+async function equipmentOnVisit(db: Db, visit: VisitRow, equipmentId: string, field: string): Promise<EquipmentRow> {
+  const items = await propertyEquipment(db, visit.propertyId);
+  const found = items.find((e) => e.id === equipmentId);
+  if (!found) throw new AppError(422, 'validation_failed', 'That equipment is not at this property.', { [field]: 'Choose equipment at this property' });
+  return found;
+}
+
+/**
+ * Saves one system's readings. The server evaluates them again with the same engine and stores
+ * what it computed; saving twice (a retry after a dropped signal) replaces the first copy.
+ */
+export async function saveReadings(db: Db, user: SessionUser, visitId: string, body: SaveReadings, now: Date): Promise<SavedReadings> {
+  const visit = await visitForStaff(db, user, visitId);
+  assertOpen(visit);
+  await equipmentOnVisit(db, visit, body.equipmentId, 'equipmentId');
+  const readings = { ...body.readings };
+  if (readings.altitudeFt === undefined) {
+    const [p] = await db.select({ elevationFt: properties.elevationFt }).from(properties).where(eq(properties.id, visit.propertyId));
+    if (p?.elevationFt !== null && p?.elevationFt !== undefined) readings.altitudeFt = p.elevationFt;
+  }
+  let checks;
+  try {
+    checks = evaluateReadings(readings);
+  } catch (err) {
+    if (err instanceof ReadingInputError) {
+      throw new AppError(422, 'validation_failed', `Please check readings.${err.field}.`, { [`readings.${err.field}`]: err.message.replace(/^[^:]+: /, '') });
+    }
+    throw err;
+  }
+  const values = { visitId, propertyId: visit.propertyId, equipmentId: body.equipmentId, readings, checks, worstStatus: worstStatus(checks), recordedAt: now, recordedBy: user.id };
+  const [row] = await db
+    .insert(visitReadings)
+    .values(values)
+    .onConflictDoUpdate({ target: [visitReadings.visitId, visitReadings.equipmentId], set: { readings, checks, worstStatus: values.worstStatus, recordedAt: now, recordedBy: user.id } })
+    .returning();
+  return savedReadings(row!);
+}
+
+/** Replaces the visit's checklist results with the ones sent, each checked against the season's list. */
+export async function saveChecklist(db: Db, user: SessionUser, visitId: string, body: SaveChecklist): Promise<ChecklistSection[]> {
+  const visit = await visitForStaff(db, user, visitId);
+  assertOpen(visit);
+  const items = await propertyEquipment(db, visit.propertyId);
+  const byId = new Map(items.map((e) => [e.id, e]));
+  const seen = new Set<string>();
+  body.items.forEach((it, i) => {
+    const e = byId.get(it.equipmentId);
+    if (!e) throw new AppError(422, 'validation_failed', 'That equipment is not at this property.', { [`items.${i}.equipmentId`]: 'Choose equipment at this property' });
+    const known = tuneUpChecklist(e.kind as EquipmentKind, body.season).some((c) => c.id === it.itemId);
+    if (!known) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: `Not a ${body.season} checklist item for this equipment` });
+    const k = `${it.equipmentId}/${it.itemId}`;
+    if (seen.has(k)) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: 'This item appears twice' });
+    seen.add(k);
+  });
+  await db.transaction(async (tx) => {
+    await tx.delete(visitChecklistItems).where(eq(visitChecklistItems.visitId, visitId));
+    if (body.items.length) await tx.insert(visitChecklistItems).values(body.items.map((it) => ({ visitId, ...it })));
+  });
+  return checklistSections(db, visitId, items, body.season);
+}
+
+export async function saveTroubleshooting(db: Db, user: SessionUser, visitId: string, body: Troubleshooting): Promise<Troubleshooting> {
+  const visit = await visitForStaff(db, user, visitId);
+  assertOpen(visit);
+  await db
+    .insert(visitTroubleshooting)
+    .values({ visitId, ...body })
+    .onConflictDoUpdate({ target: visitTroubleshooting.visitId, set: { ...body, updatedAt: new Date() } });
+  return body;
+}
+
+export async function saveNotes(db: Db, user: SessionUser, visitId: string, body: VisitNotes): Promise<VisitNotes> {
+  const visit = await visitForStaff(db, user, visitId);
+  assertOpen(visit);
+  await db.update(visits).set({ findings: body.findings, recommendations: body.recommendations, updatedAt: new Date() }).where(eq(visits.id, visitId));
+  return body;
+}
+
+/**
+ * Completes the visit and e-mails the homeowner the plain-words summary. Completing again (a
+ * retry after a dropped signal) answers with the visit as it is and sends nothing more.
+ */
+export async function completeVisit(
+  db: Db,
+  user: SessionUser,
+  visitId: string,
+  body: CompleteVisit,
+  ctx: { now: Date; mailer?: Mailer; publicUrl: string; log: Logger },
+): Promise<CompletedVisit> {
+  await visitForStaff(db, user, visitId);
+  const result = await db.transaction(async (tx) => {
+    const [locked] = await tx.select().from(visits).where(eq(visits.id, visitId)).for('update');
+    if (!locked) throw new AppError(404, 'not_found', 'That visit was not found.');
+    if (locked.status === 'done') return { visit: locked, fresh: false };
+    if (locked.status === 'canceled' || locked.status === 'no_show') throw conflict('This visit was canceled; it cannot be completed.');
+    const [done] = await tx
+      .update(visits)
+      .set({ status: 'done', completedAt: ctx.now, findings: body.findings, recommendations: body.recommendations, updatedAt: ctx.now })
+      .where(eq(visits.id, visitId))
+      .returning();
+    await tx.insert(visitEvents).values({ visitId, at: ctx.now, actorUserId: user.id, action: 'status', fromStatus: locked.status, toStatus: 'done', technicianId: locked.technicianId, note: 'Completed on site' });
+    return { visit: done!, fresh: true };
+  });
+  const { visit } = result;
+  let summaryEmailed = false;
+  if (result.fresh) summaryEmailed = await sendSummary(db, visit, ctx);
+  return { id: visit.id, status: visit.status, completedAt: visit.completedAt!.toISOString(), summaryEmailed };
+}
+
+async function sendSummary(db: Db, visit: VisitRow, ctx: { mailer?: Mailer; publicUrl: string; log: Logger }): Promise<boolean> {
+  const [c] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, visit.customerId));
+  if (!c?.email) return false;
+  if (!ctx.mailer) {
+    ctx.log.warn('no mailer configured; visit summary not e-mailed');
+    return false;
+  }
+  const info = await companyInfo(db);
+  const summary = await visitSummary(db, visit, info);
+  const mail = summaryEmail(summary, info, `${ctx.publicUrl}/portal/visits/${visit.id}`);
+  try {
+    await ctx.mailer.send({ to: c.email, ...mail, idempotencyKey: `visit-summary:${visit.id}` });
+    return true;
+  } catch (err) {
+    // The visit stays completed; the office can resend from the record.
+    ctx.log.error({ err: (err as Error).message, visitId: visit.id }, 'visit summary e-mail failed');
+    return false;
+  }
+}

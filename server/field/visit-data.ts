@@ -1,0 +1,209 @@
+import { and, asc, desc, eq, gte, isNull, lt, ne, type SQL } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import { EQUIPMENT_KIND_LABELS, type EquipmentKind } from '../../shared/equipment';
+import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
+import { COVERING_STATUSES, coverageFor, type Coverage, type CoverageVisit } from '../../shared/coverage';
+import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
+import type { SessionUser } from '../../shared/schemas/session';
+import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
+import type { Db, Tx } from '../db/client';
+import { agreements, company, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
+import { notFound } from '../http/errors';
+
+export type VisitRow = typeof visits.$inferSelect;
+export type PropertyRow = typeof properties.$inferSelect;
+export type EquipmentRow = typeof equipment.$inferSelect;
+
+export interface CompanyInfo {
+  name: string;
+  timeZone: string;
+  diagnosticFeeCents: number;
+  phone: string;
+}
+
+export async function companyInfo(db: Db | Tx): Promise<CompanyInfo> {
+  const [row] = await db
+    .select({ name: company.name, timeZone: company.timeZone, diagnosticFeeCents: company.diagnosticFeeCents, phone: company.phone })
+    .from(company)
+    .limit(1);
+  return row ?? { name: 'Seasonwell', timeZone: 'America/Chicago', diagnosticFeeCents: 0, phone: '' };
+}
+
+export const localDate = (at: Date, zone: string): string => DateTime.fromJSDate(at, { zone }).toISODate()!;
+
+/** "9:00–11:00 AM", or "11:00 AM–1:00 PM" across noon, in the company's zone. */
+export function windowLabel(start: Date, end: Date, zone: string): string {
+  const s = DateTime.fromJSDate(start, { zone });
+  const e = DateTime.fromJSDate(end, { zone });
+  const same = s.toFormat('a') === e.toFormat('a');
+  return `${s.toFormat(same ? 'h:mm' : 'h:mm a')}–${e.toFormat('h:mm a')}`;
+}
+
+export function addressOf(p: Pick<PropertyRow, 'street' | 'unit' | 'city' | 'state' | 'zip'>): string {
+  return `${p.street}${p.unit ? `, ${p.unit}` : ''}, ${p.city}, ${p.state} ${p.zip}`;
+}
+
+export function equipmentLabel(e: Pick<EquipmentRow, 'kind' | 'make' | 'model'>): string {
+  const name = [e.make, e.model].filter(Boolean).join(' ');
+  return `${EQUIPMENT_KIND_LABELS[e.kind as EquipmentKind] ?? e.kind}${name ? ` · ${name}` : ''}`;
+}
+
+export function fieldEquipment(e: EquipmentRow, today: string): FieldEquipment {
+  const age = e.installedOn ? Math.max(0, Math.floor(DateTime.fromISO(today).diff(DateTime.fromISO(e.installedOn), 'years').years)) : null;
+  return {
+    id: e.id,
+    kind: e.kind,
+    kindLabel: EQUIPMENT_KIND_LABELS[e.kind as EquipmentKind] ?? e.kind,
+    make: e.make,
+    model: e.model,
+    serial: e.serial,
+    installedOn: e.installedOn,
+    ageYears: age,
+    refrigerant: e.refrigerant,
+    meteringDevice: e.meteringDevice,
+    capacityBtuh: e.capacityBtuh,
+    nominalTons: e.capacityBtuh ? Math.round((e.capacityBtuh / 12000) * 10) / 10 : null,
+    volts: e.volts,
+    ratedAmps: e.ratedAmps,
+    warrantyEndsOn: e.warrantyEndsOn,
+    underWarranty: e.warrantyEndsOn ? e.warrantyEndsOn >= today : null,
+    filterSize: e.filterSize,
+    location: e.location,
+  };
+}
+
+/**
+ * The visit, if this user may work on it: a technician only their own assigned visits, the owner
+ * any. Anything else is 404 so visit ids are not confirmed to outsiders.
+ */
+export async function visitForStaff(db: Db | Tx, user: SessionUser, visitId: string): Promise<VisitRow> {
+  const [row] = await db.select().from(visits).where(eq(visits.id, visitId)).limit(1);
+  if (!row) throw notFound('That visit');
+  if (user.role === 'owner') return row;
+  if (user.role === 'technician' && row.technicianId) {
+    const [tech] = await db.select({ userId: technicians.userId }).from(technicians).where(eq(technicians.id, row.technicianId)).limit(1);
+    if (tech?.userId === user.id) return row;
+  }
+  throw notFound('That visit');
+}
+
+export async function propertyEquipment(db: Db | Tx, propertyId: string): Promise<EquipmentRow[]> {
+  return db
+    .select()
+    .from(equipment)
+    .where(and(eq(equipment.propertyId, propertyId), isNull(equipment.archivedAt)))
+    .orderBy(asc(equipment.createdAt), asc(equipment.id));
+}
+
+/** Coverage of one visit under the agreement it was booked on (or the property's current one). */
+export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyInfo): Promise<Coverage> {
+  const cols = {
+    id: agreements.id,
+    status: agreements.status,
+    startsOn: agreements.startsOn,
+    endsOn: agreements.endsOn,
+    planName: plans.name,
+    coolingVisits: planVersions.coolingVisits,
+    heatingVisits: planVersions.heatingVisits,
+    repairDiscountBps: planVersions.repairDiscountBps,
+    diagnosticFeeWaived: planVersions.diagnosticFeeWaived,
+    priorityWindowHours: planVersions.priorityWindowHours,
+  };
+  const base = () => db.select(cols).from(agreements).innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id)).innerJoin(plans, eq(planVersions.planId, plans.id));
+  const onDate = localDate(visit.startsAt, info.timeZone);
+  let [a] = visit.agreementId ? await base().where(eq(agreements.id, visit.agreementId)).limit(1) : [];
+  if (!a) {
+    // A visit booked without the agreement still counts under the one whose term holds its date.
+    [a] = await base()
+      .where(and(eq(agreements.propertyId, visit.propertyId), ne(agreements.status, 'canceled'), lt(agreements.startsOn, addDay(onDate)), gte(agreements.endsOn, onDate)))
+      .orderBy(desc(agreements.endsOn))
+      .limit(1);
+  }
+  const current: CoverageVisit = { id: visit.id, kind: visit.kind, status: visit.status, onDate };
+  if (!a) return coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents });
+
+  const zoneStart = DateTime.fromISO(a.startsOn, { zone: info.timeZone }).toJSDate();
+  const zoneEnd = DateTime.fromISO(a.endsOn, { zone: info.timeZone }).toJSDate();
+  const term = await db
+    .select({ id: visits.id, kind: visits.kind, status: visits.status, startsAt: visits.startsAt })
+    .from(visits)
+    .where(and(eq(visits.propertyId, visit.propertyId), gte(visits.startsAt, zoneStart), lt(visits.startsAt, zoneEnd)));
+  return coverageFor({
+    agreement: {
+      status: a.status,
+      startsOn: a.startsOn,
+      endsOn: a.endsOn,
+      plan: {
+        name: a.planName,
+        coolingVisits: a.coolingVisits,
+        heatingVisits: a.heatingVisits,
+        repairDiscountBps: a.repairDiscountBps,
+        diagnosticFeeWaived: a.diagnosticFeeWaived,
+        priorityWindowHours: a.priorityWindowHours,
+      },
+    },
+    visit: current,
+    termVisits: term.map((v) => ({ id: v.id, kind: v.kind, status: v.status, onDate: localDate(v.startsAt, info.timeZone) })),
+    diagnosticFeeCents: info.diagnosticFeeCents,
+  });
+}
+
+const addDay = (iso: string) => DateTime.fromISO(iso).plus({ days: 1 }).toISODate()!;
+
+/** Rows for the today list (and the visit header), joined the way the list shows them. */
+export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: CompanyInfo): Promise<TodayVisit[]> {
+  const rows = await db
+    .select({
+      id: visits.id,
+      kind: visits.kind,
+      reason: visits.reason,
+      status: visits.status,
+      windowStart: visits.windowStart,
+      windowEnd: visits.windowEnd,
+      startsAt: visits.startsAt,
+      customerName: customers.name,
+      street: properties.street,
+      unit: properties.unit,
+      city: properties.city,
+      state: properties.state,
+      zip: properties.zip,
+      agreementStatus: agreements.status,
+      agreementStartsOn: agreements.startsOn,
+      agreementEndsOn: agreements.endsOn,
+      planName: plans.name,
+      technicianName: users.name,
+    })
+    .from(visits)
+    .innerJoin(customers, eq(visits.customerId, customers.id))
+    .innerJoin(properties, eq(visits.propertyId, properties.id))
+    .leftJoin(agreements, eq(visits.agreementId, agreements.id))
+    .leftJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
+    .leftJoin(plans, eq(planVersions.planId, plans.id))
+    .leftJoin(technicians, eq(visits.technicianId, technicians.id))
+    .leftJoin(users, eq(technicians.userId, users.id))
+    .where(where)
+    .orderBy(asc(visits.windowStart), asc(visits.startsAt), asc(visits.id));
+  return rows.map((r) => {
+    const onDate = localDate(r.startsAt, info.timeZone);
+    const inTerm = r.agreementStartsOn !== null && r.agreementEndsOn !== null && onDate >= r.agreementStartsOn && onDate < r.agreementEndsOn;
+    const covered = inTerm && r.agreementStatus !== null && COVERING_STATUSES.includes(r.agreementStatus);
+    const label = r.agreementStatus
+      ? `${r.planName ?? 'Plan'} · ${inTerm ? AGREEMENT_STATUS_LABELS[r.agreementStatus] : 'Term ended'}`
+      : 'No plan';
+    return {
+      id: r.id,
+      kind: r.kind,
+      reason: r.reason,
+      reasonLabel: VISIT_REASON_LABELS[r.reason],
+      status: r.status,
+      statusLabel: VISIT_STATUS_LABELS[r.status],
+      windowStart: r.windowStart.toISOString(),
+      windowEnd: r.windowEnd.toISOString(),
+      windowLabel: windowLabel(r.windowStart, r.windowEnd, info.timeZone),
+      customerName: r.customerName,
+      address: addressOf(r),
+      planStatus: { covered, label },
+      technicianName: r.technicianName,
+    };
+  });
+}
