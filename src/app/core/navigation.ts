@@ -10,9 +10,12 @@ export interface NavLink {
 const PORTAL: NavLink[] = [
   { label: 'My home', path: '/portal', icon: 'home' },
 ];
-const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'handyman' }];
-const OFFICE: NavLink[] = [{ label: 'Office', path: '/office', icon: 'dashboard' }];
-const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'tune' }];
+const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }];
+const OFFICE: NavLink[] = [
+  { label: 'Office', path: '/office', icon: 'dispatch' },
+  { label: 'Reminders', path: '/office/reminders', icon: 'bell' },
+];
+const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }];
 
 export function navigationFor(role: Role | null): NavLink[] {
   switch (role) {

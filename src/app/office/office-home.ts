@@ -13,6 +13,6 @@ export class OfficeHome {
     { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people' },
     { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch' },
     { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield' },
-    { title: 'Reminders', text: 'Seasonal tune-up, filter and coil-cleaning reminders.', icon: 'bell' },
+    { title: 'Reminders', text: 'Seasonal tune-up, filter and coil-cleaning reminders.', icon: 'bell', path: '/office/reminders' },
   ];
 }

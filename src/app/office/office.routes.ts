@@ -1,4 +1,7 @@
 import { Routes } from '@angular/router';
 import { OfficeHome } from './office-home';
 
-export const OFFICE_ROUTES: Routes = [{ path: '', component: OfficeHome, title: 'Office · Seasonwell' }];
+export const OFFICE_ROUTES: Routes = [
+  { path: '', component: OfficeHome, title: 'Office · Seasonwell' },
+  { path: 'reminders', loadComponent: () => import('./reminders/reminders').then((m) => m.Reminders), title: 'Reminders · Seasonwell' },
+];
