@@ -1,0 +1,33 @@
+import { expect, test } from '@playwright/test';
+import { DEMO, latestMail } from './support/env';
+
+test('the office sends seasonal tune-up reminders and each household gets one e-mail', async ({ page }) => {
+  await page.goto('/staff/sign-in');
+  await page.getByLabel('E-mail').fill(DEMO.office);
+  await page.getByLabel('Password').fill(DEMO.staffPassword);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await expect(page).toHaveURL(/\/office/);
+
+  await page.getByRole('link', { name: 'Reminders' }).first().click();
+  await expect(page.getByRole('heading', { name: 'Seasonal reminders' })).toBeVisible();
+  await page.getByRole('button', { name: /Spring cooling tune-up/ }).click();
+
+  // The audience is listed, with why each household is due, before anything is sent.
+  const row = page.getByRole('row').filter({ hasText: DEMO.homeownerA });
+  await expect(row).toContainText('cooling tune-up');
+  const startedAt = Date.now();
+  const send = page.getByRole('button', { name: /^Send to \d+ households/ });
+  const count = Number((await send.innerText()).match(/\d+/)![0]);
+  expect(count).toBeGreaterThan(0);
+  await send.click();
+  await expect(page.getByRole('group')).toContainText(`${count} households`);
+  await page.getByRole('button', { name: 'Send now' }).click();
+
+  await expect(page.getByText(`${count} sent`).first()).toBeVisible({ timeout: 30_000 });
+  const mail = await latestMail(DEMO.homeownerA, { after: startedAt - 1000 });
+  expect(mail.subject).toBe('Time to book your spring cooling tune-up');
+  expect(mail.links.some((l) => l.endsWith('/portal'))).toBe(true);
+
+  // Sent once: the household is no longer in the list of who is due.
+  await expect(page.getByRole('row').filter({ hasText: DEMO.homeownerA })).toHaveCount(0);
+});
