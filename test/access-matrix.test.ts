@@ -34,6 +34,9 @@ interface Fixtures {
   customerB: string;
   /** A spare office member the owner may change; never one of the sessions below. */
   spareStaffId: string;
+  /** Household A's home, and a completed visit there assigned to the technician session. */
+  propertyA: string;
+  visitA: string;
 }
 
 type Allow = 'public' | Role[];
@@ -68,6 +71,15 @@ const ROUTES: Record<string, Row> = {
   'PATCH /api/auth/staff/:id': { allow: ['owner'], params: { id: (f) => f.spareStaffId } },
   'POST /api/auth/staff/:id/sign-out-everywhere': { allow: ['owner'], params: { id: (f) => f.spareStaffId } },
   'GET /api/audit': { allow: ['owner'] },
+  'GET /api/field/visits/today': { allow: ['technician', 'owner'] },
+  'GET /api/field/visits/:id': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'PUT /api/field/visits/:id/readings': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'PUT /api/field/visits/:id/checklist': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'PUT /api/field/visits/:id/troubleshooting': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'PUT /api/field/visits/:id/notes': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'POST /api/field/visits/:id/complete': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
+  'GET /api/portal/readings/properties/:propertyId': { allow: SIGNED_IN, owned: true, params: { propertyId: (f) => f.propertyA } },
+  'GET /api/portal/visit-summaries/:id': { allow: SIGNED_IN, owned: true, params: { id: (f) => f.visitA } },
 };
 
 type Who = 'anonymous' | 'homeownerA' | 'homeownerB' | 'technician' | 'office' | 'owner';
@@ -123,15 +135,15 @@ beforeAll(async () => {
   const [b] = await db.select().from(users).where(eq(users.email, 'sam.oduya@example.test'));
   // The technician session is one with a visit at household A, so "their" records exist.
   const [tech] = await db
-    .select({ email: users.email })
+    .select({ email: users.email, visitId: visits.id, propertyId: visits.propertyId })
     .from(visits)
     .innerJoin(technicians, eq(technicians.id, visits.technicianId))
     .innerJoin(users, eq(users.id, technicians.userId))
-    .where(and(eq(visits.customerId, a.customerId!)))
+    .where(and(eq(visits.customerId, a.customerId!), eq(visits.status, 'done')))
     .limit(1);
   const spareOffice = await spareStaff('office');
   const [spareRow] = await db.select({ id: users.id }).from(users).where(eq(users.email, spareOffice));
-  fixtures = { customerA: a.customerId!, customerB: b.customerId!, spareStaffId: spareRow.id };
+  fixtures = { customerA: a.customerId!, customerB: b.customerId!, spareStaffId: spareRow.id, propertyA: tech.propertyId, visitA: tech.visitId };
 
   sessions.anonymous = await anonymous(ctx);
   sessions.homeownerA = await signInHomeowner(ctx, a.email);
