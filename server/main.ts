@@ -4,6 +4,7 @@ import { loadConfig } from './config';
 import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
 import { createMailer } from './integrations/mail';
+import { createStripe } from './integrations/stripe';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
 import type { Services } from './services';
@@ -17,6 +18,7 @@ const jobs = new Jobs(config.DATABASE_URL, logger);
 const services: Services = {
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
   jobs,
+  stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
 };
 const deps = { config, database, clock: () => new Date(), logger, services };
 registerJobs(deps);

@@ -1,5 +1,10 @@
 import type { Router } from 'express';
 import type { AppDeps } from './app';
+import { agreementRoutes } from './agreements/agreements.routes';
+import { billingRoutes } from './billing/billing.routes';
+import { planRoutes } from './plans/plans.routes';
+import { renewalRoutes } from './renewals/renewals.routes';
+import { webhookRoutes } from './webhooks/webhooks.routes';
 import { auditRoutes } from './audit/audit.routes';
 import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
@@ -18,6 +23,11 @@ export interface ApiRouter {
 // Every API router, one line each. The access-control test walks all of them.
 export const apiRouters: ApiRouter[] = [
   { path: '/api/health', build: healthRoutes },
+  { path: '/api/webhooks', build: webhookRoutes, rawBody: true },
+  { path: '/api/plans', build: planRoutes },
+  { path: '/api/agreements', build: agreementRoutes },
+  { path: '/api/invoices', build: billingRoutes },
+  { path: '/api/renewals', build: renewalRoutes },
   { path: '/api/reminders', build: reminderRoutes },
   { path: '/api/session', build: sessionRoutes },
   { path: '/api/auth', build: authRoutes },

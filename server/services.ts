@@ -1,5 +1,6 @@
 import type { Mailer } from './integrations/mail';
 import type { Jobs } from './jobs/queue';
+import type { Stripe } from './integrations/stripe';
 
 /**
  * Services the app talks to, passed in by main.ts (real ones) or by tests (fakes on loopback).
@@ -8,4 +9,5 @@ import type { Jobs } from './jobs/queue';
 export interface Services {
   mailer?: Mailer;
   jobs?: Jobs;
+  stripe?: Stripe;
 }

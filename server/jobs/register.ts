@@ -1,4 +1,6 @@
 import type { AppDeps } from '../app';
+import { registerBillingJobs } from '../billing/billing.jobs';
+import { registerRenewalJobs } from '../renewals/renewal.jobs';
 import { registerReminderJobs } from '../reminders/reminders.service';
 
 /**
@@ -6,5 +8,7 @@ import { registerReminderJobs } from '../reminders/reminders.service';
  * register function calls deps.services.jobs.register(name, handler, { cron }).
  */
 export function registerJobs(deps: AppDeps): void {
+  registerBillingJobs(deps);
+  registerRenewalJobs(deps);
   registerReminderJobs(deps);
 }

@@ -1,0 +1,35 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { createPlanSchema, planActiveSchema, planTermsSchema } from '../../shared/schemas/plans';
+import type { AppDeps } from '../app';
+import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';
+import { parse } from '../http/errors';
+import { createPlan, listPlans, planVersionsOf, setPlanActive, updatePlan } from './plans.service';
+
+const idParam = z.object({ id: z.uuid('That plan was not found.') });
+
+export function planRoutes(deps: AppDeps): Router {
+  const router = Router();
+  const { db } = deps.database;
+  router.get('/', requireUser, async (req, res) => {
+    const user = currentUser(req);
+    const all = req.query['all'] === '1' && isStaffOffice(user);
+    res.json({ plans: await listPlans(db, { includeInactive: all }) });
+  });
+  router.get('/:id/versions', requireRole('owner', 'office'), async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json({ versions: await planVersionsOf(db, id) });
+  });
+  router.post('/', requireRole('owner'), async (req, res) => {
+    res.status(201).json(await createPlan(db, parse(createPlanSchema, req.body)));
+  });
+  router.put('/:id', requireRole('owner'), async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json(await updatePlan(db, id, parse(planTermsSchema, req.body)));
+  });
+  router.patch('/:id', requireRole('owner'), async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json(await setPlanActive(db, id, parse(planActiveSchema, req.body).active));
+  });
+  return router;
+}

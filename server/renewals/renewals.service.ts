@@ -1,0 +1,95 @@
+import { and, desc, eq, gte, inArray, lte, max, sql, type SQL } from 'drizzle-orm';
+import Papa from 'papaparse';
+import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
+import { addDays, daysBetween } from '../../shared/renewals';
+import { RENEWAL_VIEWS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../shared/schemas/plans';
+import type { AppDeps } from '../app';
+import { agreements, agreementTerms, customers, invoices, plans, planVersions, renewalNotices } from '../db/schema';
+import { today as companyToday } from '../agreements/agreements.service';
+
+const RENEWED_LOOKBACK_DAYS = 30;
+
+function viewFilter(view: RenewalView, today: string): SQL {
+  switch (view) {
+    case 'due30':
+    case 'due60':
+    case 'due90': {
+      const days = Number(view.slice(3));
+      return and(inArray(agreements.status, ['active', 'renewal_due']), gte(agreements.endsOn, today), lte(agreements.endsOn, addDays(today, days)))!;
+    }
+    case 'past_due':
+      return eq(agreements.status, 'past_due');
+    case 'lapsed':
+      return eq(agreements.status, 'lapsed');
+    case 'renewed':
+      return sql`exists (select 1 from ${agreementTerms} t join ${invoices} i on i.id = t.invoice_id
+        where t.agreement_id = ${agreements.id} and i.purpose = 'renewal' and t.created_at >= now() - make_interval(days => ${RENEWED_LOOKBACK_DAYS}))`;
+  }
+}
+
+export async function renewalBoard(deps: AppDeps, view: RenewalView): Promise<RenewalBoard> {
+  const { db } = deps.database;
+  const today = await companyToday(deps);
+  const counts = {} as RenewalBoard['counts'];
+  for (const v of RENEWAL_VIEWS) {
+    const [row] = await db
+      .select({ count: sql<number>`count(*)::int`, total: sql<number>`coalesce(sum(${agreements.priceCents}), 0)::bigint` })
+      .from(agreements)
+      .where(viewFilter(v, today));
+    counts[v] = { count: row?.count ?? 0, totalCents: Number(row?.total ?? 0) };
+  }
+  return { view, counts, rows: await renewalRows(deps, view, today) };
+}
+
+async function renewalRows(deps: AppDeps, view: RenewalView, today: string): Promise<RenewalRow[]> {
+  const { db } = deps.database;
+  const lastNotice = db
+    .select({ agreementId: renewalNotices.agreementId, at: max(renewalNotices.sentAt).as('last_at') })
+    .from(renewalNotices)
+    .groupBy(renewalNotices.agreementId)
+    .as('last_notice');
+  const rows = await db
+    .select({ a: agreements, name: customers.name, email: customers.email, planName: plans.name, lastAt: lastNotice.at })
+    .from(agreements)
+    .innerJoin(customers, eq(agreements.customerId, customers.id))
+    .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
+    .innerJoin(plans, eq(planVersions.planId, plans.id))
+    .leftJoin(lastNotice, eq(lastNotice.agreementId, agreements.id))
+    .where(viewFilter(view, today))
+    .orderBy(view === 'renewed' ? desc(agreements.startsOn) : agreements.endsOn, customers.name)
+    .limit(1000);
+  return rows.map((r) => ({
+    agreementId: r.a.id,
+    customerName: r.name,
+    email: r.email,
+    planName: r.planName,
+    status: r.a.status,
+    endsOn: r.a.endsOn,
+    daysLeft: daysBetween(today, r.a.endsOn),
+    priceCents: r.a.priceCents,
+    autoRenew: r.a.autoRenew,
+    lastNoticeAt: r.lastAt ? new Date(r.lastAt as unknown as string).toISOString() : null,
+  }));
+}
+
+/** Cells that a spreadsheet would run as a formula get a leading apostrophe. */
+const safeCell = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
+
+export async function renewalCsv(deps: AppDeps, view: RenewalView): Promise<string> {
+  const today = await companyToday(deps);
+  const rows = await renewalRows(deps, view, today);
+  return Papa.unparse({
+    fields: ['Household', 'E-mail', 'Plan', 'Status', 'Ends on', 'Days left', 'Price (USD)', 'Automatic renewal', 'Last notice'],
+    data: rows.map((r) => [
+      safeCell(r.customerName),
+      safeCell(r.email ?? ''),
+      safeCell(r.planName),
+      AGREEMENT_STATUS_LABELS[r.status],
+      r.endsOn,
+      String(r.daysLeft),
+      (r.priceCents / 100).toFixed(2),
+      r.autoRenew ? 'yes' : 'no',
+      r.lastNoticeAt ?? '',
+    ]),
+  });
+}
