@@ -1,4 +1,8 @@
 import { Routes } from '@angular/router';
 import { AdminHome } from './admin-home';
 
-export const ADMIN_ROUTES: Routes = [{ path: '', component: AdminHome, title: 'Settings · Seasonwell' }];
+export const ADMIN_ROUTES: Routes = [
+  { path: '', component: AdminHome, title: 'Settings · Seasonwell' },
+  { path: 'staff', loadComponent: () => import('./staff/staff-list').then((m) => m.StaffList), title: 'Staff · Seasonwell' },
+  { path: 'audit', loadComponent: () => import('./audit/audit-log').then((m) => m.AuditLog), title: 'Access log · Seasonwell' },
+];

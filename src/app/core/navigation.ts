@@ -14,8 +14,9 @@ const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
   { label: 'Reminders', path: '/office/reminders', icon: 'bell' },
+  { label: 'Invite household', path: '/office/invite', icon: 'mail' },
 ];
-const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }];
+const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }, { label: 'Staff', path: '/admin/staff', icon: 'people' }, { label: 'Access log', path: '/admin/audit', icon: 'shield' }];
 
 export function navigationFor(role: Role | null): NavLink[] {
   switch (role) {
