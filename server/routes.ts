@@ -10,6 +10,9 @@ import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
 import { fieldRoutes } from './field/field.routes';
 import { healthRoutes } from './health/health.routes';
+import { bookingRoutes } from './booking/booking.routes';
+import { dispatchRoutes } from './dispatch/dispatch.routes';
+import { scheduleRoutes } from './schedule/schedule.routes';
 import { reminderRoutes } from './reminders/reminders.routes';
 import { portalReadingsRoutes, visitSummaryRoutes } from './portal-readings/portal-readings.routes';
 
@@ -33,6 +36,9 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/auth', build: authRoutes },
   { path: '/api/audit', build: auditRoutes },
   { path: '/api/field', build: fieldRoutes },
+  { path: '/api/booking', build: bookingRoutes },
+  { path: '/api/dispatch', build: dispatchRoutes },
+  { path: '/api/schedule', build: scheduleRoutes },
   { path: '/api/portal/readings', build: portalReadingsRoutes },
   { path: '/api/portal/visit-summaries', build: visitSummaryRoutes },
 ];

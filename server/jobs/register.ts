@@ -1,5 +1,6 @@
 import type { AppDeps } from '../app';
 import { registerBillingJobs } from '../billing/billing.jobs';
+import { registerBookingJobs } from '../booking/reminders';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
 import { registerReminderJobs } from '../reminders/reminders.service';
 
@@ -11,4 +12,5 @@ export function registerJobs(deps: AppDeps): void {
   registerBillingJobs(deps);
   registerRenewalJobs(deps);
   registerReminderJobs(deps);
+  registerBookingJobs(deps);
 }

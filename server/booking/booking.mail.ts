@@ -1,0 +1,89 @@
+import type { AppDeps } from '../app';
+import { VISIT_REASON_LABELS } from '../../shared/visits';
+import { visitInvitation, visitUid } from '../integrations/calendar';
+import { renderEmail, type MailAttachment } from '../integrations/mail';
+import type { CompanySettings } from './scheduling-input';
+import { addressOf, labelFor, type VisitRow } from './visit-views';
+
+export type VisitMailKind = 'confirmation' | 'assigned' | 'reschedule' | 'cancellation' | 'on_the_way' | 'reminder';
+
+const SUBJECTS: Record<VisitMailKind, string> = {
+  confirmation: 'Your visit request is booked',
+  assigned: 'Your technician is confirmed',
+  reschedule: 'Your visit has a new arrival window',
+  cancellation: 'Your visit is canceled',
+  on_the_way: 'Your technician is on the way',
+  reminder: 'Reminder: your visit is tomorrow',
+};
+
+const EXPECT =
+  'What to expect: the technician arrives within the window and calls if running late. Please clear a path to the indoor and outdoor units, put pets in another room, and have any error codes or thermostat readings handy.';
+
+function howToChange(c: CompanySettings, link: string): string {
+  return `Need a different time? Reschedule or cancel online at ${link} up to ${c.cancelCutoffHours} hours before the window starts, or call ${c.phone}.`;
+}
+
+/** The e-mail for a visit change, with the calendar invitation attached where the time is set or freed. */
+export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string) {
+  const window = labelFor(v.windowStart, v.windowEnd, c.timeZone);
+  const what = `${VISIT_REASON_LABELS[v.reason]} at ${addressOf(v)}`;
+  const link = `${publicUrl.replace(/\/$/, '')}/portal/booking/visits/${v.id}`;
+  const tech = v.technicianName ? `Your technician: ${v.technicianName}.` : '';
+  const paragraphs: Record<VisitMailKind, string[]> = {
+    confirmation: [`We have your request: ${what}.`, `Arrival window: ${window}.`, 'The office confirms your technician shortly.', EXPECT, howToChange(c, link)],
+    assigned: [`${what}.`, `Arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
+    reschedule: [`${what}.`, `New arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
+    cancellation: [`Your visit (${what}, ${window}) is canceled.`, `To book again, visit ${publicUrl.replace(/\/$/, '')}/portal/booking or call ${c.phone}.`],
+    on_the_way: [`${v.technicianName ?? 'Your technician'} is driving to you now for ${what}.`, `Arrival window: ${window}.`, 'Please make sure someone over 18 is home and the units can be reached.'],
+    reminder: [`A reminder of your visit tomorrow: ${what}.`, `Arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
+  };
+  const body = renderEmail({
+    title: SUBJECTS[kind],
+    paragraphs: paragraphs[kind].filter((p) => p !== ''),
+    ...(kind === 'cancellation' ? {} : { action: { label: 'See your visit', url: link } }),
+    footer: `${c.name} · ${c.phone}`,
+  });
+  const attachments: MailAttachment[] = [];
+  if (kind !== 'on_the_way' && v.customerEmail) {
+    const method = kind === 'cancellation' ? 'CANCEL' : 'REQUEST';
+    attachments.push({
+      filename: kind === 'cancellation' ? 'visit-canceled.ics' : 'visit.ics',
+      contentType: `text/calendar; method=${method}`,
+      content: visitInvitation({
+        uid: visitUid(v.id),
+        sequence: v.sequence,
+        method,
+        start: v.windowStart.toISOString(),
+        end: v.windowEnd.toISOString(),
+        timeZone: c.timeZone,
+        summary: `${c.name}: ${VISIT_REASON_LABELS[v.reason]}`,
+        description: `Arrival window ${window}. ${tech}`.trim(),
+        location: addressOf(v),
+        organizer: { name: c.name, email: c.email },
+        attendee: { name: v.customerName, email: v.customerEmail },
+      }),
+    });
+  }
+  return { subject: SUBJECTS[kind], ...body, attachments };
+}
+
+/** Sends the visit e-mail if a mailer is wired and the household has an address; a mail failure never undoes the booking. */
+export async function sendVisitMail(deps: AppDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
+  const mailer = deps.services.mailer;
+  if (!mailer || !v.customerEmail) return false;
+  try {
+    const mail = composeVisitMail(kind, v, c, deps.config.publicUrl);
+    await mailer.send({
+      to: v.customerEmail,
+      subject: mail.subject,
+      text: mail.text,
+      html: mail.html,
+      attachments: mail.attachments,
+      idempotencyKey: `visit:${v.id}:${kind}:${v.sequence}`,
+    });
+    return true;
+  } catch (err) {
+    deps.logger.error({ err, visitId: v.id, kind }, 'visit e-mail was not sent');
+    return false;
+  }
+}

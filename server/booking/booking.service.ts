@@ -1,0 +1,436 @@
+import { and, asc, eq, gte, inArray, isNull, sql } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import type { z } from 'zod';
+import {
+  availableWindows,
+  nextFreeWindows,
+  planBooking,
+  SchedulingInputError,
+  type ArrivalWindow,
+  type AvailabilityInput,
+} from '../../shared/scheduling';
+import {
+  URGENT_REASONS,
+  visitKindFor,
+  type ArrivalWindowView,
+  type bookVisitSchema,
+  type BookingOptions,
+  type BookingProperty,
+  type cancelSchema,
+  type rescheduleSchema,
+  type VisitView,
+  type windowsQuerySchema,
+  type WindowsResponse,
+} from '../../shared/schemas/booking';
+import type { SessionUser } from '../../shared/schemas/session';
+import type { VisitReason } from '../../shared/visits';
+import type { AppDeps } from '../app';
+import { assertCustomerAccess, isStaffOffice } from '../auth/access';
+import type { Db, Tx } from '../db/client';
+import { agreements, customers, equipment, plans, planVersions, properties, visitEvents, visits } from '../db/schema';
+import { AppError, notFound } from '../http/errors';
+import { sendVisitMail } from './booking.mail';
+import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
+import { toView, visitRows, type VisitRow } from './visit-views';
+
+const BOOKING_LOCK = 730_611;
+const MEMBER_STATUSES = ['active', 'renewal_due'] as const;
+
+/** "That window just filled": answered with the next free windows so the caller can pick again. */
+export class WindowFullError extends AppError {
+  constructor(readonly alternatives: ArrivalWindowView[]) {
+    super(409, 'window_full', 'That arrival window just filled. Please pick one of the next free windows.');
+  }
+}
+
+export function windowView(w: ArrivalWindow): ArrivalWindowView {
+  return { start: w.start, end: w.end, localLabel: w.localLabel, capacity: w.capacity, meetsPriorityPromise: w.meetsPriorityPromise };
+}
+
+function engineError(err: unknown): never {
+  if (err instanceof SchedulingInputError) {
+    throw new AppError(422, 'validation_failed', `Please check ${err.field}.`, { [err.field]: err.message });
+  }
+  throw err;
+}
+
+function isOverlap(err: unknown): boolean {
+  const e = err as { code?: string; cause?: { code?: string } };
+  return e?.code === '23P01' || e?.cause?.code === '23P01';
+}
+
+interface PropertyContext extends BookingProperty {
+  requiredSkill: string | undefined;
+}
+
+async function memberPlans(db: Db | Tx, propertyIds: string[]) {
+  if (!propertyIds.length) return new Map<string, { planName: string; hours: number }>();
+  const rows = await db
+    .select({ propertyId: agreements.propertyId, planName: plans.name, hours: planVersions.priorityWindowHours, endsOn: agreements.endsOn })
+    .from(agreements)
+    .innerJoin(planVersions, eq(planVersions.id, agreements.planVersionId))
+    .innerJoin(plans, eq(plans.id, planVersions.planId))
+    .where(and(inArray(agreements.propertyId, propertyIds), inArray(agreements.status, [...MEMBER_STATUSES])))
+    .orderBy(asc(agreements.endsOn));
+  // Later-ending agreement wins if a property has two.
+  return new Map(rows.map((r) => [r.propertyId, { planName: r.planName, hours: r.hours }]));
+}
+
+/** The skill a technician needs for this property and reason, read from its equipment. */
+export function requiredSkillFor(kinds: string[], reason: VisitReason): string | undefined {
+  if (kinds.includes('geothermal_heat_pump')) return 'geothermal';
+  if (reason === 'no_heat' && kinds.includes('gas_furnace') && !kinds.includes('heat_pump')) return 'gas_furnace';
+  const coolingOnlyDuctless = kinds.includes('ductless') && !kinds.includes('condensing_unit') && !kinds.includes('heat_pump');
+  if (coolingOnlyDuctless && reason !== 'thermostat') return 'ductless';
+  return undefined;
+}
+
+async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
+  const [p] = await db
+    .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area, archivedAt: properties.archivedAt })
+    .from(properties)
+    .innerJoin(customers, eq(customers.id, properties.customerId))
+    .where(eq(properties.id, propertyId))
+    .limit(1);
+  if (!p || p.archivedAt) throw new AppError(404, 'not_found', 'That property was not found.', { propertyId: 'not found' });
+  await assertCustomerAccess(db, user, p.customerId);
+  const plan = (await memberPlans(db, [p.id])).get(p.id);
+  const kinds = await db
+    .select({ kind: equipment.kind })
+    .from(equipment)
+    .where(and(eq(equipment.propertyId, p.id), isNull(equipment.archivedAt)));
+  return {
+    id: p.id,
+    customerId: p.customerId,
+    customerName: p.customerName,
+    label: p.label,
+    address: `${p.street}${p.unit ? `, ${p.unit}` : ''}, ${p.city}, ${p.state} ${p.zip}`,
+    area: p.area,
+    member: !!plan,
+    planName: plan?.planName ?? null,
+    priorityWindowHours: plan?.hours ?? null,
+    requiredSkill: requiredSkillFor(
+      kinds.map((k) => k.kind),
+      reason,
+    ),
+  };
+}
+
+export async function bookingOptions(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<BookingOptions> {
+  const { db } = deps.database;
+  const c = await loadCompanySettings(db);
+  const target = user.role === 'homeowner' ? user.customerId : customerId;
+  if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
+  await assertCustomerAccess(db, user, target);
+  const rows = await db
+    .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area })
+    .from(properties)
+    .innerJoin(customers, eq(customers.id, properties.customerId))
+    .where(and(eq(properties.customerId, target), isNull(properties.archivedAt)))
+    .orderBy(asc(properties.label));
+  const plansBy = await memberPlans(
+    db,
+    rows.map((r) => r.id),
+  );
+  return {
+    cancelCutoffHours: c.cancelCutoffHours,
+    companyPhone: c.phone,
+    timeZone: c.timeZone,
+    properties: rows.map((r) => {
+      const plan = plansBy.get(r.id);
+      return {
+        id: r.id,
+        customerId: r.customerId,
+        customerName: r.customerName,
+        label: r.label,
+        address: `${r.street}${r.unit ? `, ${r.unit}` : ''}, ${r.city}, ${r.state} ${r.zip}`,
+        area: r.area,
+        member: !!plan,
+        planName: plan?.planName ?? null,
+        priorityWindowHours: plan?.hours ?? null,
+      };
+    }),
+  };
+}
+
+interface EngineCall {
+  input: AvailabilityInput;
+  property: PropertyContext;
+  company: CompanySettings;
+  reason: VisitReason;
+  urgent: boolean;
+}
+
+/** Reads everything the engine needs for this caller over local dates [from, from + days]. */
+async function engineInput(
+  db: Db | Tx,
+  now: Date,
+  property: PropertyContext,
+  reason: VisitReason,
+  from: string | undefined,
+  days: number,
+  excludeVisitId?: string,
+): Promise<EngineCall> {
+  const company = await loadCompanySettings(db);
+  const tz = company.timeZone;
+  const nowLocal = DateTime.fromJSDate(now, { zone: tz });
+  const start = from ? DateTime.fromISO(from, { zone: tz }) : nowLocal;
+  const first = start < nowLocal.startOf('day') ? nowLocal : start;
+  const last = first.plus({ days });
+  // Widened by a day each side (visits straddling midnight), and by the 14-day look-ahead for alternatives.
+  const data = await loadSchedulingData(
+    db,
+    { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 15 }).toJSDate() },
+    { excludeVisitId },
+  );
+  const urgent = URGENT_REASONS.includes(reason);
+  return {
+    company,
+    property,
+    reason,
+    urgent,
+    input: {
+      settings: company.settings,
+      technicians: data.technicians,
+      booked: data.booked,
+      request: {
+        visitKind: visitKindFor(reason),
+        ...(property.requiredSkill ? { requiredSkill: property.requiredSkill } : {}),
+        member: property.member,
+        urgent,
+        from: first.toISODate()!,
+        to: last.toISODate()!,
+        now: DateTime.fromJSDate(now, { zone: 'UTC' }).toISO()!,
+        ...(property.priorityWindowHours ? { priorityPromiseHours: property.priorityWindowHours } : {}),
+      },
+    },
+  };
+}
+
+export async function windowsFor(deps: AppDeps, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
+  const { db } = deps.database;
+  const property = await propertyContext(db, user, q.propertyId, q.reason);
+  if (q.visitId) await visitForChange(db, user, q.visitId, deps.clock());
+  const call = await engineInput(db, deps.clock(), property, q.reason, q.from, q.days, q.visitId);
+  let windows: ArrivalWindow[];
+  try {
+    windows = availableWindows(call.input);
+  } catch (err) {
+    engineError(err);
+  }
+  return {
+    windows: windows.map(windowView),
+    member: property.member,
+    urgent: call.urgent,
+    priorityWindowHours: property.priorityWindowHours,
+    timeZone: call.company.timeZone,
+  };
+}
+
+/** Serialises bookings per local day so the held-back share is counted once; the EXCLUDE stays the last line. */
+async function lockDays(tx: Tx, instants: Date[], timeZone: string): Promise<void> {
+  const days = [...new Set(instants.map((d) => Math.floor(DateTime.fromJSDate(d, { zone: timeZone }).startOf('day').toSeconds() / 86_400)))].sort(
+    (a, b) => a - b,
+  );
+  for (const day of days) await tx.execute(sql`select pg_advisory_xact_lock(${BOOKING_LOCK}, ${day})`);
+}
+
+async function alternativesAfter(db: Db | Tx, call: EngineCall, after: string, excludeVisitId?: string): Promise<ArrivalWindowView[]> {
+  // Fresh read: the data inside the losing transaction may predate the winner.
+  const fresh = await engineInput(db, new Date(Date.parse(call.input.request.now)), call.property, call.reason, call.input.request.from, 14, excludeVisitId);
+  return nextFreeWindows(fresh.input, { after, count: 3 }).map(windowView);
+}
+
+export async function loadVisitRow(db: Db | Tx, id: string): Promise<VisitRow> {
+  const [row] = await visitRows(db, eq(visits.id, id));
+  if (!row) throw notFound('That visit');
+  return row;
+}
+
+export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const property = await propertyContext(db, user, body.propertyId, body.reason);
+  const windowStart = new Date(body.windowStart);
+  let call: EngineCall | undefined;
+  let id: string;
+  try {
+    id = await db.transaction(async (tx) => {
+      const company = await loadCompanySettings(tx);
+      await lockDays(tx, [windowStart], company.timeZone);
+      call = await engineInput(tx, now, property, body.reason, DateTime.fromJSDate(windowStart, { zone: company.timeZone }).toISODate()!, 1);
+      let plan;
+      try {
+        plan = planBooking(call.input, body.windowStart);
+      } catch (err) {
+        engineError(err);
+      }
+      if (!plan.ok) throw new WindowFullError(plan.alternatives.map(windowView));
+      const [row] = await tx
+        .insert(visits)
+        .values({
+          customerId: property.customerId,
+          propertyId: property.id,
+          agreementId: await memberAgreementId(tx, property.id),
+          technicianId: plan.visit.technicianId,
+          kind: visitKindFor(body.reason),
+          reason: body.reason,
+          status: 'requested',
+          windowStart: new Date(plan.visit.window.start),
+          windowEnd: new Date(plan.visit.window.end),
+          startsAt: new Date(plan.visit.start),
+          endsAt: new Date(plan.visit.end),
+          symptoms: body.symptoms,
+          notes: body.notes,
+          photoIds: body.photoIds,
+          priority: property.member || call.urgent,
+        })
+        .returning({ id: visits.id });
+      await tx.insert(visitEvents).values({
+        visitId: row!.id,
+        actorUserId: user.id,
+        action: 'booked',
+        toStatus: 'requested',
+        technicianId: plan.visit.technicianId,
+        note: isStaffOffice(user) ? 'Booked by the office for a caller' : 'Booked online',
+      });
+      return row!.id;
+    });
+  } catch (err) {
+    if (isOverlap(err) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart));
+    throw err;
+  }
+  const row = await loadVisitRow(db, id);
+  const company = await loadCompanySettings(db);
+  await sendVisitMail(deps, 'confirmation', row, company);
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+}
+
+async function memberAgreementId(db: Db | Tx, propertyId: string): Promise<string | null> {
+  const [a] = await db
+    .select({ id: agreements.id })
+    .from(agreements)
+    .where(and(eq(agreements.propertyId, propertyId), inArray(agreements.status, [...MEMBER_STATUSES])))
+    .orderBy(sql`${agreements.endsOn} desc`)
+    .limit(1);
+  return a?.id ?? null;
+}
+
+/** A visit the user may see; homeowners only their household's, technicians only their own. */
+export async function visitFor(db: Db | Tx, user: SessionUser, id: string): Promise<VisitRow> {
+  const row = await loadVisitRow(db, id);
+  await assertCustomerAccess(db, user, row.customerId);
+  return row;
+}
+
+/** A visit the user may move or cancel now: open, and before the cut-off for homeowners. */
+async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: Date): Promise<VisitRow> {
+  const row = await visitFor(db, user, id);
+  if (user.role === 'technician') throw new AppError(403, 'forbidden', 'Technicians change visits from the dispatch board through the office.');
+  if (row.status !== 'requested' && row.status !== 'scheduled') {
+    throw new AppError(409, 'not_changeable', 'This visit can no longer be changed online.');
+  }
+  if (user.role === 'homeowner') {
+    const c = await loadCompanySettings(db);
+    const until = row.windowStart.getTime() - c.cancelCutoffHours * 3_600_000;
+    if (now.getTime() >= until) {
+      throw new AppError(409, 'past_cutoff', `Changes online close ${c.cancelCutoffHours} hours before the arrival window. Please call ${c.phone}.`);
+    }
+  }
+  return row;
+}
+
+export async function myVisits(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
+  const { db } = deps.database;
+  const target = user.role === 'homeowner' ? user.customerId : customerId;
+  if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
+  await assertCustomerAccess(db, user, target);
+  const c = await loadCompanySettings(db);
+  const now = deps.clock();
+  const since = new Date(now.getTime() - 90 * 86_400_000);
+  const rows = await visitRows(db, and(eq(visits.customerId, target), gte(visits.windowEnd, since)), 'desc');
+  return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now }));
+}
+
+export async function visitDetail(deps: AppDeps, user: SessionUser, id: string): Promise<VisitView> {
+  const { db } = deps.database;
+  const row = await visitFor(db, user, id);
+  const c = await loadCompanySettings(db);
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() });
+}
+
+export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof rescheduleSchema>): Promise<VisitView> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const before = await visitForChange(db, user, id, now);
+  const property = await propertyContext(db, user, before.propertyId, before.reason);
+  let call: EngineCall | undefined;
+  try {
+    await db.transaction(async (tx) => {
+      const company = await loadCompanySettings(tx);
+      await lockDays(tx, [before.windowStart, new Date(body.windowStart)], company.timeZone);
+      const current = await visitForChange(tx, user, id, now);
+      call = await engineInput(tx, now, property, current.reason, DateTime.fromISO(body.windowStart, { zone: company.timeZone }).toISODate()!, 1, id);
+      let plan;
+      try {
+        plan = planBooking(call.input, body.windowStart);
+      } catch (err) {
+        engineError(err);
+      }
+      if (!plan.ok) throw new WindowFullError(plan.alternatives.map(windowView));
+      await tx
+        .update(visits)
+        .set({
+          technicianId: plan.visit.technicianId,
+          windowStart: new Date(plan.visit.window.start),
+          windowEnd: new Date(plan.visit.window.end),
+          startsAt: new Date(plan.visit.start),
+          endsAt: new Date(plan.visit.end),
+          // A different technician must be confirmed again by the office.
+          status: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
+          sequence: sql`${visits.sequence} + 1`,
+          reminderSentAt: null,
+          updatedAt: now,
+        })
+        .where(eq(visits.id, id));
+      await tx.insert(visitEvents).values({
+        visitId: id,
+        actorUserId: user.id,
+        action: 'rescheduled',
+        fromStatus: current.status,
+        toStatus: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
+        technicianId: plan.visit.technicianId,
+        note: `Moved to ${plan.visit.window.localLabel}`,
+      });
+    });
+  } catch (err) {
+    if (isOverlap(err) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart, id));
+    throw err;
+  }
+  const row = await loadVisitRow(db, id);
+  const company = await loadCompanySettings(db);
+  await sendVisitMail(deps, 'reschedule', row, company);
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+}
+
+export async function cancelVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  await db.transaction(async (tx) => {
+    const current = await visitForChange(tx, user, id, now);
+    await tx.update(visits).set({ status: 'canceled', sequence: sql`${visits.sequence} + 1`, updatedAt: now }).where(eq(visits.id, id));
+    await tx.insert(visitEvents).values({
+      visitId: id,
+      actorUserId: user.id,
+      action: 'canceled',
+      fromStatus: current.status,
+      toStatus: 'canceled',
+      technicianId: current.technicianId,
+      note: body.reason || (user.role === 'homeowner' ? 'Canceled online by the homeowner' : 'Canceled by the office'),
+    });
+  });
+  const row = await loadVisitRow(db, id);
+  const company = await loadCompanySettings(db);
+  await sendVisitMail(deps, 'cancellation', row, company);
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+}

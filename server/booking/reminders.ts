@@ -1,0 +1,38 @@
+import { and, gt, inArray, isNull, lte } from 'drizzle-orm';
+import type { AppDeps } from '../app';
+import { visits } from '../db/schema';
+import { sendVisitMail } from './booking.mail';
+import { loadCompanySettings } from './scheduling-input';
+import { loadVisitRow } from './booking.service';
+
+export const REMINDER_JOB = 'booking.day-before-reminders';
+
+/**
+ * Claims visits whose window opens within the next 24 hours and mails each homeowner once.
+ * The claim comes first, so a second worker or a retried run never sends twice.
+ */
+export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const until = new Date(now.getTime() + 24 * 3_600_000);
+  const claimed = await db
+    .update(visits)
+    .set({ reminderSentAt: now })
+    .where(and(inArray(visits.status, ['requested', 'scheduled']), isNull(visits.reminderSentAt), gt(visits.windowStart, now), lte(visits.windowStart, until)))
+    .returning({ id: visits.id });
+  if (!claimed.length) return 0;
+  const c = await loadCompanySettings(db);
+  let sent = 0;
+  for (const { id } of claimed) {
+    const row = await loadVisitRow(db, id);
+    if (await sendVisitMail(deps, 'reminder', row, c)) sent++;
+  }
+  return sent;
+}
+
+export function registerBookingJobs(deps: AppDeps): void {
+  deps.services.jobs?.register(REMINDER_JOB, async () => {
+    await sendDayBeforeReminders(deps);
+  }, { cron: '15 * * * *' });
+}
+

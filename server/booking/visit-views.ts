@@ -1,0 +1,122 @@
+import { eq, sql, type SQL } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import type { VisitView } from '../../shared/schemas/booking';
+import { windowLabel } from '../../shared/scheduling/clock';
+import type { Db, Tx } from '../db/client';
+import { customers, properties, technicians, users, visits } from '../db/schema';
+
+// The plan behind a property: an agreement that is active or due for renewal.
+const memberPlan = sql<string | null>`(
+  select p.name from agreements a
+  join plan_versions pv on pv.id = a.plan_version_id
+  join plans p on p.id = pv.plan_id
+  where a.property_id = ${visits.propertyId} and a.status in ('active', 'renewal_due')
+  order by a.ends_on desc limit 1)`;
+
+export interface VisitRow {
+  id: string;
+  customerId: string;
+  customerName: string;
+  customerEmail: string | null;
+  propertyId: string;
+  street: string;
+  unit: string | null;
+  city: string;
+  state: string;
+  zip: string;
+  area: string;
+  kind: VisitView['kind'];
+  reason: VisitView['reason'];
+  status: VisitView['status'];
+  windowStart: Date;
+  windowEnd: Date;
+  startsAt: Date;
+  endsAt: Date;
+  technicianId: string | null;
+  technicianName: string | null;
+  planName: string | null;
+  priority: boolean;
+  symptoms: string[];
+  notes: string;
+  sequence: number;
+}
+
+export async function visitRows(db: Db | Tx, where: SQL | undefined, order: 'asc' | 'desc' = 'asc'): Promise<VisitRow[]> {
+  return db
+    .select({
+      id: visits.id,
+      customerId: visits.customerId,
+      customerName: customers.name,
+      customerEmail: customers.email,
+      propertyId: visits.propertyId,
+      street: properties.street,
+      unit: properties.unit,
+      city: properties.city,
+      state: properties.state,
+      zip: properties.zip,
+      area: properties.area,
+      kind: visits.kind,
+      reason: visits.reason,
+      status: visits.status,
+      windowStart: visits.windowStart,
+      windowEnd: visits.windowEnd,
+      startsAt: visits.startsAt,
+      endsAt: visits.endsAt,
+      technicianId: visits.technicianId,
+      technicianName: users.name,
+      planName: memberPlan,
+      priority: visits.priority,
+      symptoms: visits.symptoms,
+      notes: visits.notes,
+      sequence: visits.sequence,
+    })
+    .from(visits)
+    .innerJoin(customers, eq(customers.id, visits.customerId))
+    .innerJoin(properties, eq(properties.id, visits.propertyId))
+    .leftJoin(technicians, eq(technicians.id, visits.technicianId))
+    .leftJoin(users, eq(users.id, technicians.userId))
+    .where(where)
+    .orderBy(order === 'asc' ? visits.windowStart : sql`${visits.windowStart} desc`);
+}
+
+export function addressOf(r: Pick<VisitRow, 'street' | 'unit' | 'city' | 'state' | 'zip'>): string {
+  return `${r.street}${r.unit ? `, ${r.unit}` : ''}, ${r.city}, ${r.state} ${r.zip}`;
+}
+
+/** The window as the homeowner reads it, with the zone named on days the clocks change. */
+export function labelFor(start: Date, end: Date, timeZone: string): string {
+  const s = DateTime.fromJSDate(start, { zone: timeZone });
+  const showZone = s.startOf('day').offset !== s.endOf('day').offset;
+  return windowLabel(start.getTime(), end.getTime(), timeZone, showZone);
+}
+
+export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; now: Date }): VisitView {
+  const until = new Date(r.windowStart.getTime() - ctx.cancelCutoffHours * 3_600_000);
+  const open = r.status === 'requested' || r.status === 'scheduled';
+  return {
+    id: r.id,
+    customerId: r.customerId,
+    customerName: r.customerName,
+    propertyId: r.propertyId,
+    address: addressOf(r),
+    area: r.area,
+    kind: r.kind,
+    reason: r.reason,
+    status: r.status,
+    windowStart: DateTime.fromJSDate(r.windowStart, { zone: ctx.timeZone }).toISO()!,
+    windowEnd: DateTime.fromJSDate(r.windowEnd, { zone: ctx.timeZone }).toISO()!,
+    windowLabel: labelFor(r.windowStart, r.windowEnd, ctx.timeZone),
+    startsAt: DateTime.fromJSDate(r.startsAt, { zone: ctx.timeZone }).toISO()!,
+    endsAt: DateTime.fromJSDate(r.endsAt, { zone: ctx.timeZone }).toISO()!,
+    technicianId: r.technicianId,
+    technicianName: r.technicianName,
+    member: r.planName !== null,
+    planName: r.planName,
+    priority: r.priority,
+    symptoms: r.symptoms,
+    notes: r.notes,
+    sequence: r.sequence,
+    changeableUntil: DateTime.fromJSDate(until, { zone: ctx.timeZone }).toISO()!,
+    canChange: open && ctx.now < until,
+  };
+}

@@ -1,0 +1,54 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { assignSchema, boardQuerySchema, statusChangeSchema, timeOffSchema } from '../../shared/schemas/booking';
+import type { AppDeps } from '../app';
+import { currentUser, requireRole } from '../auth/access';
+import { parse } from '../http/errors';
+import { addTimeOff, assignVisit, board, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
+
+const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
+const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 characters').max(80) });
+
+// The office's dispatch board: visits by technician, the unassigned queue, assignments and statuses.
+export function dispatchRoutes(deps: AppDeps): Router {
+  const router = Router();
+  const office = requireRole('office', 'owner');
+
+  router.get('/board', office, async (req, res) => {
+    res.setHeader('Cache-Control', 'no-store');
+    res.json(await board(deps, parse(boardQuerySchema, req.query)));
+  });
+
+  router.get('/households', office, async (req, res) => {
+    const { q } = parse(householdQuery, req.query);
+    res.json({ households: await findHouseholds(deps, q) });
+  });
+
+  router.post('/visits/:id/assign', office, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json({ visit: await assignVisit(deps, currentUser(req), id, parse(assignSchema, req.body)) });
+  });
+
+  // Technicians mark their own visits on the way, on site, done or no-show.
+  router.post('/visits/:id/status', requireRole('technician', 'office', 'owner'), async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json({ visit: await changeStatus(deps, currentUser(req), id, parse(statusChangeSchema, req.body)) });
+  });
+
+  router.get('/visits/:id/events', office, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    res.json({ events: await visitHistory(deps, id) });
+  });
+
+  router.post('/time-off', office, async (req, res) => {
+    res.status(201).json(await addTimeOff(deps, parse(timeOffSchema, req.body)));
+  });
+
+  router.delete('/time-off/:id', office, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    await removeTimeOff(deps, id);
+    res.status(204).end();
+  });
+
+  return router;
+}

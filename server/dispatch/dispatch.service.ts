@@ -1,0 +1,319 @@
+import { and, asc, eq, gt, ilike, inArray, isNull, lt, ne, or, sql } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import type { z } from 'zod';
+import {
+  STATUS_TRANSITIONS,
+  type assignSchema,
+  type boardQuerySchema,
+  type BoardResponse,
+  type statusChangeSchema,
+  type timeOffSchema,
+  type VisitEventView,
+  type VisitView,
+} from '../../shared/schemas/booking';
+import type { SessionUser } from '../../shared/schemas/session';
+import { VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
+import type { AppDeps } from '../app';
+import { sendVisitMail } from '../booking/booking.mail';
+import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
+import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
+import { toView, visitRows } from '../booking/visit-views';
+import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
+import { AppError, notFound } from '../http/errors';
+
+const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
+
+export async function board(deps: AppDeps, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
+  const { db } = deps.database;
+  const c = await loadCompanySettings(db);
+  const start = DateTime.fromISO(q.from, { zone: c.timeZone }).startOf('day');
+  const end = start.plus({ days: q.days });
+  const techRows = await db
+    .select({ id: technicians.id, name: users.name, skills: technicians.skills, truck: technicians.truck })
+    .from(technicians)
+    .innerJoin(users, eq(users.id, technicians.userId))
+    .where(and(eq(technicians.active, true), q.technicianId ? eq(technicians.id, q.technicianId) : undefined))
+    .orderBy(asc(users.name));
+  const off = techRows.length
+    ? await db
+        .select()
+        .from(technicianTimeOff)
+        .where(
+          and(
+            inArray(
+              technicianTimeOff.technicianId,
+              techRows.map((t) => t.id),
+            ),
+            lt(technicianTimeOff.startsAt, end.toJSDate()),
+            gt(technicianTimeOff.endsAt, start.toJSDate()),
+          ),
+        )
+    : [];
+  const rows = await visitRows(
+    db,
+    and(
+      lt(visits.windowStart, end.toJSDate()),
+      gt(visits.windowEnd, start.toJSDate()),
+      q.kind ? eq(visits.kind, q.kind) : undefined,
+      q.area ? eq(properties.area, q.area) : undefined,
+    ),
+  );
+  const now = deps.clock();
+  const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now };
+  const views = rows.map((r) => toView(r, ctx));
+  const queued = (v: VisitView) => v.status === 'requested' || (v.technicianId === null && v.status !== 'canceled' && v.status !== 'done');
+  const areaRows = await db.selectDistinct({ area: properties.area }).from(properties).where(ne(properties.area, '')).orderBy(asc(properties.area));
+  return {
+    from: start.toISODate()!,
+    days: q.days,
+    timeZone: c.timeZone,
+    technicians: techRows.map((t) => ({
+      ...t,
+      timeOff: off
+        .filter((o) => o.technicianId === t.id)
+        .map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
+    })),
+    // The queue ignores the technician filter: unassigned work belongs to no one yet.
+    unassigned: views.filter(queued),
+    visits: views.filter((v) => !queued(v) && (!q.technicianId || v.technicianId === q.technicianId)),
+    areas: areaRows.map((a) => a.area),
+  };
+}
+
+function isOverlap(err: unknown): boolean {
+  const e = err as { code?: string; cause?: { code?: string } };
+  return e?.code === '23P01' || e?.cause?.code === '23P01';
+}
+
+/** Skills, time off and working hours: the reasons a technician cannot take this visit. */
+async function checkTechnicianFits(
+  deps: AppDeps,
+  technicianId: string,
+  visit: { propertyId: string; reason: Parameters<typeof requiredSkillFor>[1]; startsAt: Date; endsAt: Date },
+  timeZone: string,
+): Promise<string> {
+  const { db } = deps.database;
+  const [tech] = await db
+    .select({ id: technicians.id, name: users.name, skills: technicians.skills, weeklyHours: technicians.weeklyHours, active: technicians.active })
+    .from(technicians)
+    .innerJoin(users, eq(users.id, technicians.userId))
+    .where(eq(technicians.id, technicianId))
+    .limit(1);
+  if (!tech || !tech.active) throw new AppError(422, 'validation_failed', 'That technician was not found.', { technicianId: 'not an active technician' });
+  const kinds = await db
+    .select({ kind: equipment.kind })
+    .from(equipment)
+    .where(and(eq(equipment.propertyId, visit.propertyId), isNull(equipment.archivedAt)));
+  const skill = requiredSkillFor(
+    kinds.map((k) => k.kind),
+    visit.reason,
+  );
+  if (skill && !tech.skills.includes(skill)) {
+    const label = SKILL_LABELS[skill] ?? skill;
+    throw new AppError(422, 'skill_missing', `${tech.name} is not set up for ${label} work, which this visit needs.`, { technicianId: `needs the ${label} skill` });
+  }
+  const [away] = await db
+    .select({ id: technicianTimeOff.id, reason: technicianTimeOff.reason })
+    .from(technicianTimeOff)
+    .where(and(eq(technicianTimeOff.technicianId, technicianId), lt(technicianTimeOff.startsAt, visit.endsAt), gt(technicianTimeOff.endsAt, visit.startsAt)))
+    .limit(1);
+  if (away) {
+    throw new AppError(422, 'time_off', `${tech.name} is off at that time${away.reason ? ` (${away.reason})` : ''}.`, { technicianId: 'is off at that time' });
+  }
+  const start = DateTime.fromJSDate(visit.startsAt, { zone: timeZone });
+  const end = DateTime.fromJSDate(visit.endsAt, { zone: timeZone });
+  const day = technicianHoursToWeekly(tech.weeklyHours)[(['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const)[start.weekday - 1]!];
+  const minutes = (d: DateTime) => d.hour * 60 + d.minute;
+  const toMin = (t: string) => Number(t.slice(0, 2)) * 60 + Number(t.slice(3, 5));
+  const inShift = day?.some((h) => start.hasSame(end, 'day') && toMin(h.open) <= minutes(start) && minutes(end) <= toMin(h.close));
+  if (!inShift) {
+    throw new AppError(422, 'outside_hours', `That visit falls outside ${tech.name}'s working hours.`, { technicianId: 'outside working hours' });
+  }
+  return tech.name;
+}
+
+export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
+  const { db } = deps.database;
+  const c = await loadCompanySettings(db);
+  const now = deps.clock();
+  const before = await loadVisitRow(db, id);
+  if (!['requested', 'scheduled', 'on_the_way', 'no_show'].includes(before.status)) {
+    throw new AppError(409, 'not_changeable', `A visit that is ${VISIT_STATUS_LABELS[before.status].toLowerCase()} cannot be reassigned.`);
+  }
+  const length = before.endsAt.getTime() - before.startsAt.getTime();
+  const startsAt = body.startsAt ? new Date(body.startsAt) : before.startsAt;
+  const endsAt = new Date(startsAt.getTime() + length);
+  const moved = startsAt.getTime() !== before.startsAt.getTime();
+  // Moving the work moves the arrival window with it, keeping its length.
+  const windowStart = moved ? startsAt : before.windowStart;
+  const windowEnd = moved ? new Date(startsAt.getTime() + (before.windowEnd.getTime() - before.windowStart.getTime())) : before.windowEnd;
+  let techName: string | null = null;
+  if (body.technicianId) techName = await checkTechnicianFits(deps, body.technicianId, { propertyId: before.propertyId, reason: before.reason, startsAt, endsAt }, c.timeZone);
+  const status: VisitStatus = body.technicianId ? (before.status === 'requested' || before.status === 'no_show' ? 'scheduled' : before.status) : 'requested';
+  const changedForHomeowner = moved || body.technicianId !== before.technicianId || status !== before.status;
+  try {
+    await db.transaction(async (tx) => {
+      await tx
+        .update(visits)
+        .set({
+          technicianId: body.technicianId,
+          status,
+          startsAt,
+          endsAt,
+          windowStart,
+          windowEnd,
+          ...(changedForHomeowner ? { sequence: sql`${visits.sequence} + 1` } : {}),
+          ...(moved ? { reminderSentAt: null } : {}),
+          updatedAt: now,
+        })
+        .where(eq(visits.id, id));
+      await tx.insert(visitEvents).values({
+        visitId: id,
+        actorUserId: user.id,
+        action: moved ? 'rescheduled' : 'assigned',
+        fromStatus: before.status,
+        toStatus: status,
+        technicianId: body.technicianId,
+        note: body.technicianId ? `Assigned to ${techName}` : 'Returned to the unassigned queue',
+      });
+    });
+  } catch (err) {
+    if (isOverlap(err)) {
+      throw new AppError(409, 'overlap', `${techName ?? 'That technician'} already has a visit at that time. Pick another technician or time.`, {
+        technicianId: 'already booked at that time',
+      });
+    }
+    throw err;
+  }
+  const row = await loadVisitRow(db, id);
+  if (body.technicianId && changedForHomeowner) await sendVisitMail(deps, moved ? 'reschedule' : 'assigned', row, c);
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+}
+
+const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
+
+export async function changeStatus(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
+  const { db } = deps.database;
+  const c = await loadCompanySettings(db);
+  const now = deps.clock();
+  const before = await loadVisitRow(db, id);
+  if (user.role === 'technician') {
+    const [mine] = await db.select({ id: technicians.id }).from(technicians).where(eq(technicians.userId, user.id)).limit(1);
+    if (!mine || before.technicianId !== mine.id) throw notFound('That visit');
+    if (!TECHNICIAN_MAY_SET.includes(body.status)) throw new AppError(403, 'forbidden', 'Only the office can make that change.');
+  }
+  if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  if (!STATUS_TRANSITIONS[before.status].includes(body.status)) {
+    throw new AppError(
+      422,
+      'bad_transition',
+      `A visit that is ${VISIT_STATUS_LABELS[before.status].toLowerCase()} cannot become ${VISIT_STATUS_LABELS[body.status].toLowerCase()}.`,
+      { status: `not allowed after ${VISIT_STATUS_LABELS[before.status].toLowerCase()}` },
+    );
+  }
+  if (body.status === 'scheduled' && !before.technicianId) {
+    throw new AppError(422, 'validation_failed', 'Assign a technician before scheduling.', { status: 'needs a technician first' });
+  }
+  try {
+    await db.transaction(async (tx) => {
+      await tx
+        .update(visits)
+        .set({
+          status: body.status,
+          ...(body.status === 'done' ? { completedAt: now } : {}),
+          ...(body.status === 'canceled' ? { sequence: sql`${visits.sequence} + 1` } : {}),
+          updatedAt: now,
+        })
+        .where(eq(visits.id, id));
+      await tx.insert(visitEvents).values({
+        visitId: id,
+        actorUserId: user.id,
+        action: body.status === 'canceled' ? 'canceled' : 'status',
+        fromStatus: before.status,
+        toStatus: body.status,
+        technicianId: before.technicianId,
+        note: body.note,
+      });
+    });
+  } catch (err) {
+    // A no-show brought back may now collide with a visit booked into the freed time.
+    if (isOverlap(err)) throw new AppError(409, 'overlap', 'That time has since been given to another visit. Reassign it instead.');
+    throw err;
+  }
+  const row = await loadVisitRow(db, id);
+  if (body.status === 'on_the_way') await sendVisitMail(deps, 'on_the_way', row, c);
+  if (body.status === 'canceled') await sendVisitMail(deps, 'cancellation', row, c);
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+}
+
+export async function visitHistory(deps: AppDeps, id: string): Promise<VisitEventView[]> {
+  const { db } = deps.database;
+  await loadVisitRow(db, id);
+  const techUsers = db.$with('tech_users').as(
+    db.select({ techId: technicians.id, techName: sql<string>`${users.name}`.as('tech_name') }).from(technicians).innerJoin(users, eq(users.id, technicians.userId)),
+  );
+  const rows = await db
+    .with(techUsers)
+    .select({
+      at: visitEvents.at,
+      action: visitEvents.action,
+      fromStatus: visitEvents.fromStatus,
+      toStatus: visitEvents.toStatus,
+      actorName: users.name,
+      technicianName: techUsers.techName,
+      note: visitEvents.note,
+    })
+    .from(visitEvents)
+    .leftJoin(users, eq(users.id, visitEvents.actorUserId))
+    .leftJoin(techUsers, eq(techUsers.techId, visitEvents.technicianId))
+    .where(eq(visitEvents.visitId, id))
+    .orderBy(asc(visitEvents.at));
+  return rows.map((r) => ({ ...r, at: r.at.toISOString(), actorName: r.actorName ?? null, technicianName: r.technicianName ?? null }));
+}
+
+export async function addTimeOff(deps: AppDeps, body: z.output<typeof timeOffSchema>) {
+  const { db } = deps.database;
+  const [tech] = await db.select({ id: technicians.id }).from(technicians).where(eq(technicians.id, body.technicianId)).limit(1);
+  if (!tech) throw new AppError(422, 'validation_failed', 'That technician was not found.', { technicianId: 'not a technician' });
+  const startsAt = new Date(body.startsAt);
+  const endsAt = new Date(body.endsAt);
+  const [row] = await db.insert(technicianTimeOff).values({ technicianId: body.technicianId, startsAt, endsAt, reason: body.reason }).returning();
+  // Visits already in that time stay put; the office sees them and moves them.
+  const c = await loadCompanySettings(db);
+  const clashes = await visitRows(
+    db,
+    and(eq(visits.technicianId, body.technicianId), inArray(visits.status, ['requested', 'scheduled']), lt(visits.startsAt, endsAt), gt(visits.endsAt, startsAt)),
+  );
+  return {
+    timeOff: { id: row!.id, startsAt: row!.startsAt.toISOString(), endsAt: row!.endsAt.toISOString(), reason: row!.reason },
+    conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() })),
+  };
+}
+
+export async function removeTimeOff(deps: AppDeps, id: string): Promise<void> {
+  const rows = await deps.database.db.delete(technicianTimeOff).where(eq(technicianTimeOff.id, id)).returning({ id: technicianTimeOff.id });
+  if (!rows.length) throw notFound('That time off');
+}
+
+/** Households for the office booking a caller: by name, e-mail, phone or street. */
+export async function findHouseholds(deps: AppDeps, q: string) {
+  const term = `%${q.replace(/[\\%_]/g, (m) => `\\${m}`)}%`;
+  const digits = q.replace(/\D/g, '');
+  return deps.database.db
+    .selectDistinct({ id: customers.id, name: customers.name, email: customers.email, phone: customers.phone })
+    .from(customers)
+    .leftJoin(properties, eq(properties.customerId, customers.id))
+    .where(
+      and(
+        isNull(customers.archivedAt),
+        or(
+          ilike(customers.name, term),
+          ilike(customers.email, term),
+          ilike(properties.street, term),
+          digits.length >= 4 ? ilike(customers.phone, `%${digits}%`) : undefined,
+        ),
+      ),
+    )
+    .orderBy(asc(customers.name))
+    .limit(20);
+}

@@ -1,0 +1,213 @@
+import { z } from 'zod';
+import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, type VisitKind, type VisitReason } from '../visits';
+
+// The booking and dispatch API contract: requests parsed on the server, types used by the client.
+
+export const EMERGENCY_SIGNS = ['gas_smell', 'co_alarm', 'burning_smoke', 'sparking'] as const;
+export type EmergencySign = (typeof EMERGENCY_SIGNS)[number];
+export const EMERGENCY_SIGN_LABELS: Record<EmergencySign, string> = {
+  gas_smell: 'I smell gas (rotten eggs)',
+  co_alarm: 'A carbon monoxide alarm is sounding',
+  burning_smoke: 'I smell burning or see smoke',
+  sparking: 'I see sparks or hear arcing at the equipment',
+};
+
+/** Symptoms a homeowner can tick, per reason; "other" takes free notes only. */
+export const SYMPTOMS: Record<VisitReason, readonly string[]> = {
+  no_cooling: ['Outdoor unit is not running', 'Fan runs but air is warm', 'Ice on the copper lines', 'Breaker tripped', 'Thermostat screen is blank'],
+  no_heat: ['Furnace does not start', 'Blower runs but air is cold', 'Pilot or burner will not light', 'Short cycles on and off', 'Breaker tripped'],
+  tune_up: ['Just the seasonal tune-up', 'Filter is overdue', 'System is older than 10 years'],
+  noise: ['Rattling', 'Squealing', 'Banging when it starts', 'Humming or buzzing', 'Clicking without starting'],
+  water_leak: ['Water around the indoor unit', 'Drain pan is full', 'Ceiling stain under the attic unit', 'Condensate pump keeps running'],
+  thermostat: ['Screen is blank', 'Does not reach the set temperature', 'Runs without being called', 'Wi-Fi or schedule problem'],
+  other: [],
+};
+
+/** No cooling and no heat are urgent: they may use the held-back share like plan members. */
+export const URGENT_REASONS: readonly VisitReason[] = ['no_cooling', 'no_heat'];
+
+export function visitKindFor(reason: VisitReason): VisitKind {
+  return reason === 'tune_up' ? 'tune_up' : 'service_call';
+}
+
+const uuid = z.uuid({ message: 'must be an id' });
+const localDate = z.iso.date({ message: 'must be a date "YYYY-MM-DD"' });
+const instant = z.iso.datetime({ offset: true, message: 'must be an ISO date-time with offset' });
+
+export const windowsQuerySchema = z.object({
+  propertyId: uuid,
+  reason: z.enum(VISIT_REASONS, { message: 'choose a reason from the list' }),
+  from: localDate.optional(),
+  days: z.coerce.number().int('must be whole days').min(1).max(31).default(14),
+  /** The visit being moved, when rescheduling: its own time does not count as taken. */
+  visitId: uuid.optional(),
+});
+export type WindowsQuery = z.input<typeof windowsQuerySchema>;
+
+export const bookVisitSchema = z.object({
+  propertyId: uuid,
+  reason: z.enum(VISIT_REASONS, { message: 'choose a reason from the list' }),
+  symptoms: z.array(z.string().trim().min(1).max(120)).max(12, 'at most 12 symptoms').default([]),
+  notes: z.string().trim().max(2000, 'keep notes under 2,000 characters').default(''),
+  photoIds: z.array(uuid).max(6, 'at most 6 photos').default([]),
+  windowStart: instant,
+  /** The caller saw the emergency message and none of the danger signs apply. */
+  noEmergency: z.literal(true, { message: 'please confirm there is no gas smell, CO alarm, smoke or sparking' }),
+});
+export type BookVisitRequest = z.input<typeof bookVisitSchema>;
+
+export const rescheduleSchema = z.object({ windowStart: instant });
+export const cancelSchema = z.object({ reason: z.string().trim().max(500).default('') });
+
+export const assignSchema = z.object({
+  /** null sends the visit back to the unassigned queue. */
+  technicianId: uuid.nullable(),
+  /** New start for the work (keeps the length); defaults to the current start. */
+  startsAt: instant.optional(),
+});
+
+export const statusChangeSchema = z.object({
+  status: z.enum(VISIT_STATUSES, { message: 'choose a status from the list' }),
+  note: z.string().trim().max(500).default(''),
+});
+
+export const boardQuerySchema = z.object({
+  from: localDate,
+  days: z.coerce.number().int().refine((d) => d === 1 || d === 7, 'must be 1 (day) or 7 (week)').default(1),
+  technicianId: uuid.optional(),
+  kind: z.enum(VISIT_KINDS).optional(),
+  area: z.string().trim().max(80).optional(),
+});
+
+export const timeOffSchema = z
+  .object({
+    technicianId: uuid,
+    startsAt: instant,
+    endsAt: instant,
+    reason: z.string().trim().max(200).default(''),
+  })
+  .refine((t) => Date.parse(t.startsAt) < Date.parse(t.endsAt), { message: 'must be after the start', path: ['endsAt'] });
+
+export const weekQuerySchema = z.object({ start: localDate.optional() });
+
+// ---- Responses ----
+
+export interface ArrivalWindowView {
+  start: string;
+  end: string;
+  localLabel: string;
+  capacity: number;
+  meetsPriorityPromise: boolean;
+}
+
+export interface BookingProperty {
+  id: string;
+  customerId: string;
+  customerName: string;
+  label: string;
+  address: string;
+  area: string;
+  member: boolean;
+  planName: string | null;
+  priorityWindowHours: number | null;
+}
+
+export interface BookingOptions {
+  properties: BookingProperty[];
+  cancelCutoffHours: number;
+  companyPhone: string;
+  timeZone: string;
+}
+
+export interface WindowsResponse {
+  windows: ArrivalWindowView[];
+  member: boolean;
+  urgent: boolean;
+  priorityWindowHours: number | null;
+  timeZone: string;
+}
+
+export interface VisitView {
+  id: string;
+  customerId: string;
+  customerName: string;
+  propertyId: string;
+  address: string;
+  area: string;
+  kind: VisitKind;
+  reason: VisitReason;
+  status: (typeof VISIT_STATUSES)[number];
+  windowStart: string;
+  windowEnd: string;
+  windowLabel: string;
+  startsAt: string;
+  endsAt: string;
+  technicianId: string | null;
+  technicianName: string | null;
+  member: boolean;
+  planName: string | null;
+  priority: boolean;
+  symptoms: string[];
+  notes: string;
+  sequence: number;
+  /** The homeowner may still reschedule or cancel online (before the cut-off). */
+  changeableUntil: string;
+  canChange: boolean;
+}
+
+export interface WindowFullBody {
+  error: { code: 'window_full'; message: string };
+  alternatives: ArrivalWindowView[];
+}
+
+export interface BoardTechnician {
+  id: string;
+  name: string;
+  skills: string[];
+  truck: string;
+  timeOff: { id: string; startsAt: string; endsAt: string; reason: string }[];
+}
+
+export interface BoardResponse {
+  from: string;
+  days: number;
+  timeZone: string;
+  technicians: BoardTechnician[];
+  visits: VisitView[];
+  unassigned: VisitView[];
+  areas: string[];
+}
+
+export interface VisitEventView {
+  at: string;
+  action: string;
+  fromStatus: string | null;
+  toStatus: string;
+  actorName: string | null;
+  technicianName: string | null;
+  note: string;
+}
+
+export interface WeekResponse {
+  start: string;
+  end: string;
+  timeZone: string;
+  technician: { id: string; name: string };
+  visits: VisitView[];
+  feed: { active: boolean; createdAt: string | null };
+}
+
+type Status = (typeof VISIT_STATUSES)[number];
+/** Which status may follow which; anything else is refused. */
+export const STATUS_TRANSITIONS: Record<Status, readonly Status[]> = {
+  requested: ['scheduled', 'canceled'],
+  scheduled: ['requested', 'on_the_way', 'on_site', 'canceled', 'no_show'],
+  on_the_way: ['scheduled', 'on_site', 'canceled', 'no_show'],
+  on_site: ['done'],
+  done: [],
+  canceled: [],
+  no_show: ['scheduled'],
+};
+
+/** Statuses that still hold the technician's time. */
+export const ACTIVE_STATUSES: readonly Status[] = ['requested', 'scheduled', 'on_the_way', 'on_site'];
