@@ -5,6 +5,7 @@ import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
 import { createMailer } from './integrations/mail';
 import { createStripe } from './integrations/stripe';
+import { createStorage } from './integrations/storage';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
 import type { Services } from './services';
@@ -19,6 +20,7 @@ const services: Services = {
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
   jobs,
   stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
+  storage: createStorage({ dir: config.STORAGE_DIR }),
 };
 const deps = { config, database, clock: () => new Date(), logger, services };
 registerJobs(deps);

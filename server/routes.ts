@@ -14,6 +14,11 @@ import { bookingRoutes } from './booking/booking.routes';
 import { dispatchRoutes } from './dispatch/dispatch.routes';
 import { scheduleRoutes } from './schedule/schedule.routes';
 import { reminderRoutes } from './reminders/reminders.routes';
+import { customerRoutes, propertyRoutes } from './customers/customers.routes';
+import { myHomeRoutes } from './customers/my-home.routes';
+import { equipmentRoutes } from './equipment/equipment.routes';
+import { uploadRoutes } from './uploads/uploads.routes';
+import { importRoutes } from './imports/imports.routes';
 import { portalReadingsRoutes, visitSummaryRoutes } from './portal-readings/portal-readings.routes';
 
 export interface ApiRouter {
@@ -41,4 +46,10 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/schedule', build: scheduleRoutes },
   { path: '/api/portal/readings', build: portalReadingsRoutes },
   { path: '/api/portal/visit-summaries', build: visitSummaryRoutes },
+  { path: '/api/customers', build: customerRoutes },
+  { path: '/api/properties', build: propertyRoutes },
+  { path: '/api/equipment', build: equipmentRoutes },
+  { path: '/api/files', build: uploadRoutes },
+  { path: '/api/imports', build: importRoutes },
+  { path: '/api/my-home', build: myHomeRoutes },
 ];

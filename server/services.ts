@@ -1,6 +1,7 @@
 import type { Mailer } from './integrations/mail';
 import type { Jobs } from './jobs/queue';
 import type { Stripe } from './integrations/stripe';
+import type { Storage } from './integrations/storage';
 
 /**
  * Services the app talks to, passed in by main.ts (real ones) or by tests (fakes on loopback).
@@ -10,4 +11,5 @@ export interface Services {
   mailer?: Mailer;
   jobs?: Jobs;
   stripe?: Stripe;
+  storage?: Storage;
 }

@@ -1,5 +1,6 @@
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
 import { z } from 'zod';
+import type { Equipment } from './equipment';
 
 // The API contract for households, properties, contacts, notes and files. The server parses every
 // request with these schemas; the client uses the same ones for instant feedback.
@@ -234,3 +235,128 @@ export const noteSchema = z.object({
   createdAt: z.string(),
 });
 export type Note = z.infer<typeof noteSchema>;
+
+/** One household with everything recorded about it, and one timeline across those records. */
+export interface CustomerDetail {
+  id: string;
+  name: string;
+  email: string | null;
+  phone: string | null;
+  notes: string;
+  archived: boolean;
+  mergedIntoId: string | null;
+  createdAt: string;
+  contacts: Contact[];
+  properties: (Property & { equipment: Equipment[] })[];
+  agreements: { id: string; propertyId: string; plan: string; status: string; statusLabel: string; startsOn: string; endsOn: string; priceCents: number }[];
+  visits: { id: string; propertyId: string; kind: string; reason: string; reasonLabel: string; status: string; statusLabel: string; startsAt: string; findings: string; recommendations: string; technicianName: string | null }[];
+  invoices: { id: string; number: number | null; status: string; totalCents: number; paidCents: number; issuedAt: string | null; createdAt: string }[];
+  householdNotes: Note[];
+  files: StoredFile[];
+  timeline: TimelineEntry[];
+}
+
+/** What a homeowner may change about their own household. */
+export const homeContactSchema = z
+  .object({ name: nameSchema, email: optionalEmail, phone: optionalPhone })
+  .partial()
+  .refine((c) => Object.keys(c).length > 0, { error: 'Send at least one field to change.' });
+export type HomeContact = z.infer<typeof homeContactSchema>;
+
+/** What the technician should know at the door, kept by the homeowner. */
+export const homeAccessSchema = z
+  .object({
+    accessNotes: text('Access notes', 1000),
+    gateCode: text('Gate code', 40),
+    pets: text('Pets', 200),
+  })
+  .partial()
+  .refine((c) => Object.keys(c).length > 0, { error: 'Send at least one field to change.' });
+export type HomeAccess = z.infer<typeof homeAccessSchema>;
+
+export const homeNoteSchema = z.object({
+  body: z.string({ error: 'Write the note.' }).trim().min(1, 'Write the note.').max(2000, 'Keep the note under 2000 characters.'),
+  propertyId: z.uuid({ error: 'Choose which home the note is about.' }),
+});
+
+export interface MyHome {
+  household: { id: string; name: string; email: string | null; phone: string | null };
+  properties: (Property & { equipment: Equipment[] })[];
+  visits: { id: string; propertyId: string; reasonLabel: string; statusLabel: string; status: string; startsAt: string; findings: string; recommendations: string; technicianName: string | null }[];
+  files: StoredFile[];
+  notes: Note[];
+}
+
+// ---- CSV import and export: one row per piece of equipment, with its household and property ----
+
+export const IMPORT_FIELDS = [
+  { key: 'customer_name', label: 'Household name', part: 'customer', required: true, aliases: ['name', 'household', 'customer', 'full name'] },
+  { key: 'customer_email', label: 'E-mail', part: 'customer', required: false, aliases: ['email', 'e-mail', 'email address'] },
+  { key: 'customer_phone', label: 'Phone', part: 'customer', required: false, aliases: ['phone', 'phone number', 'telephone', 'mobile'] },
+  { key: 'property_label', label: 'Property label', part: 'property', required: false, aliases: ['label', 'property'] },
+  { key: 'street', label: 'Street', part: 'property', required: true, aliases: ['address', 'street address', 'address 1', 'address1'] },
+  { key: 'unit', label: 'Unit', part: 'property', required: false, aliases: ['apt', 'suite', 'address 2', 'address2'] },
+  { key: 'city', label: 'City', part: 'property', required: true, aliases: ['town'] },
+  { key: 'state', label: 'State', part: 'property', required: true, aliases: ['st', 'province'] },
+  { key: 'zip', label: 'ZIP', part: 'property', required: true, aliases: ['zip code', 'zipcode', 'postal code'] },
+  { key: 'equipment_kind', label: 'Equipment kind', part: 'equipment', required: false, aliases: ['kind', 'equipment', 'type', 'equipment type'] },
+  { key: 'make', label: 'Make', part: 'equipment', required: false, aliases: ['brand', 'manufacturer'] },
+  { key: 'model', label: 'Model', part: 'equipment', required: false, aliases: ['model number'] },
+  { key: 'serial', label: 'Serial', part: 'equipment', required: false, aliases: ['serial number', 'serial no'] },
+  { key: 'installed_on', label: 'Install date', part: 'equipment', required: false, aliases: ['installed', 'install date', 'installation date'] },
+  { key: 'refrigerant', label: 'Refrigerant', part: 'equipment', required: false, aliases: [] },
+  { key: 'capacity_btuh', label: 'Capacity (Btu/h)', part: 'equipment', required: false, aliases: ['btuh', 'btu/h', 'capacity'] },
+  { key: 'capacity_tons', label: 'Capacity (tons)', part: 'equipment', required: false, aliases: ['tons', 'tonnage'] },
+  { key: 'volts', label: 'Volts', part: 'equipment', required: false, aliases: ['voltage'] },
+  { key: 'phase', label: 'Phase', part: 'equipment', required: false, aliases: [] },
+  { key: 'rated_amps', label: 'Rated amps', part: 'equipment', required: false, aliases: ['amps', 'rla', 'fla'] },
+  { key: 'filter_size', label: 'Filter size', part: 'equipment', required: false, aliases: ['filter'] },
+  { key: 'filter_type', label: 'Filter type', part: 'equipment', required: false, aliases: [] },
+  { key: 'merv', label: 'MERV', part: 'equipment', required: false, aliases: [] },
+  { key: 'warranty_ends_on', label: 'Warranty end', part: 'equipment', required: false, aliases: ['warranty', 'warranty end', 'warranty expires'] },
+  { key: 'location', label: 'Location', part: 'equipment', required: false, aliases: [] },
+] as const;
+export type ImportFieldKey = (typeof IMPORT_FIELDS)[number]['key'];
+export const IMPORT_FIELD_KEYS = IMPORT_FIELDS.map((f) => f.key) as ImportFieldKey[];
+
+/** For each of our fields, the CSV column it reads from (or null to leave it out). */
+export const importMappingSchema = z
+  .record(z.string(), z.string().nullable())
+  .superRefine((m, ctx) => {
+    for (const key of Object.keys(m)) {
+      if (!(IMPORT_FIELD_KEYS as string[]).includes(key)) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is not an import field.` });
+    }
+    for (const f of IMPORT_FIELDS) {
+      if (f.required && !m[f.key]) ctx.addIssue({ code: 'custom', path: [f.key], message: `Choose the column that holds ${f.label.toLowerCase()}.` });
+    }
+  });
+export type ImportMapping = Record<string, string | null>;
+
+export interface ImportPreview {
+  headers: string[];
+  sample: Record<string, string>[];
+  rowCount: number;
+  mapping: ImportMapping;
+}
+
+export interface ImportProblem {
+  /** Spreadsheet row number: the header is row 1, the first household row 2. */
+  row: number;
+  /** The CSV column as the file names it (or our field name when it is not mapped). */
+  column: string;
+  field: ImportFieldKey | '_';
+  message: string;
+}
+
+export interface ImportCounts {
+  customers: { created: number; matched: number };
+  properties: { created: number; matched: number };
+  equipment: { created: number; matched: number };
+}
+
+export interface ImportCheck {
+  valid: boolean;
+  rowCount: number;
+  problems: ImportProblem[];
+  counts: ImportCounts | null;
+}

@@ -1,0 +1,33 @@
+import { Router } from 'express';
+import { homeAccessSchema, homeContactSchema, homeNoteSchema } from '../../shared/schemas/customers';
+import type { AppDeps } from '../app';
+import { currentUser, requireRole } from '../auth/access';
+import { parse } from '../http/errors';
+import { addMyNote, myHome, updateMyAccess, updateMyContact } from './my-home.service';
+
+/** The homeowner's "My home": only ever their own household, taken from the session. */
+export function myHomeRoutes(deps: AppDeps): Router {
+  const r = Router();
+  const { db } = deps.database;
+  r.use(requireRole('homeowner'));
+
+  r.get('/', async (req, res) => {
+    res.json(await myHome(db, currentUser(req), deps.clock()));
+  });
+
+  r.patch('/contact', async (req, res) => {
+    const user = currentUser(req);
+    await updateMyContact(db, user, parse(homeContactSchema, req.body));
+    res.json((await myHome(db, user, deps.clock())).household);
+  });
+
+  r.patch('/properties/:id', async (req, res) => {
+    res.json(await updateMyAccess(db, currentUser(req), String(req.params.id), parse(homeAccessSchema, req.body)));
+  });
+
+  r.post('/notes', async (req, res) => {
+    res.status(201).json(await addMyNote(db, currentUser(req), parse(homeNoteSchema, req.body)));
+  });
+
+  return r;
+}

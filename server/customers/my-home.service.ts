@@ -1,0 +1,85 @@
+import { and, asc, desc, eq, isNull } from 'drizzle-orm';
+import type { HomeAccess, HomeContact, MyHome, Note } from '../../shared/schemas/customers';
+import type { SessionUser } from '../../shared/schemas/session';
+import type { Db } from '../db/client';
+import { customerNotes, customers, files, properties, users } from '../db/schema';
+import { equipmentForProperties } from '../equipment/equipment.service';
+import { AppError, notFound } from '../http/errors';
+import { getCustomer, toFile, toProperty, updateCustomer } from './customers.service';
+import { companyToday } from './today';
+
+function household(user: SessionUser): string {
+  if (!user.customerId) throw notFound('Your household');
+  return user.customerId;
+}
+
+/** The homeowner's own homes, equipment, visit history, photos and documents. */
+export async function myHome(db: Db, user: SessionUser, now: Date): Promise<MyHome> {
+  const customerId = household(user);
+  const [c] = await db.select().from(customers).where(eq(customers.id, customerId)).limit(1);
+  if (!c) throw notFound('Your household');
+  const today = await companyToday(db, now);
+  const props = await db
+    .select()
+    .from(properties)
+    .where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt)))
+    .orderBy(asc(properties.createdAt));
+  const equipment = await equipmentForProperties(
+    db,
+    props.map((p) => p.id),
+    today,
+  );
+  const detail = await getCustomer(db, customerId, now);
+  const fileRows = await db
+    .select()
+    .from(files)
+    .where(and(eq(files.customerId, customerId), isNull(files.archivedAt)))
+    .orderBy(desc(files.createdAt));
+  const noteRows = await db
+    .select({ n: customerNotes, author: users.name })
+    .from(customerNotes)
+    .leftJoin(users, eq(customerNotes.authorUserId, users.id))
+    .where(and(eq(customerNotes.customerId, customerId), eq(customerNotes.audience, 'technician')))
+    .orderBy(desc(customerNotes.createdAt));
+  return {
+    household: { id: c.id, name: c.name, email: c.email, phone: c.phone },
+    properties: props.map((p) => ({ ...toProperty(p), equipment: equipment.filter((e) => e.propertyId === p.id) })),
+    // Canceled visits are noise in a service history.
+    visits: detail.visits
+      .filter((v) => v.status !== 'canceled')
+      .map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName })),
+    files: fileRows.map(toFile),
+    notes: noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() })),
+  };
+}
+
+export async function updateMyContact(db: Db, user: SessionUser, input: HomeContact): Promise<void> {
+  await updateCustomer(db, household(user), input);
+}
+
+async function ownProperty(db: Db, user: SessionUser, propertyId: string) {
+  const [p] = await db
+    .select()
+    .from(properties)
+    .where(and(eq(properties.id, propertyId), eq(properties.customerId, household(user))))
+    .limit(1);
+  if (!p) throw notFound('That home');
+  return p;
+}
+
+export async function updateMyAccess(db: Db, user: SessionUser, propertyId: string, input: HomeAccess) {
+  await ownProperty(db, user, propertyId);
+  const [row] = await db.update(properties).set(input).where(eq(properties.id, propertyId)).returning();
+  return toProperty(row!);
+}
+
+export async function addMyNote(db: Db, user: SessionUser, input: { body: string; propertyId: string }): Promise<Note> {
+  await ownProperty(db, user, input.propertyId).catch(() => {
+    throw new AppError(422, 'validation_failed', 'Please check propertyId.', { propertyId: 'Choose one of your homes.' });
+  });
+  const [row] = await db
+    .insert(customerNotes)
+    .values({ customerId: household(user), propertyId: input.propertyId, audience: 'technician', body: input.body, authorUserId: user.id })
+    .returning();
+  return { id: row!.id, body: row!.body, audience: row!.audience, propertyId: row!.propertyId, authorName: user.name, createdAt: row!.createdAt.toISOString() };
+}
