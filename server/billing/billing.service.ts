@@ -31,6 +31,15 @@ export function stripeOf(deps: AppDeps): Stripe {
   return stripe;
 }
 
+/** Processor outages and refusals become clear API errors; card declines are handled by the caller. */
+export function providerError(e: unknown): unknown {
+  if (e instanceof Stripe.errors.StripeCardError) return new AppError(402, 'card_declined', paymentErrorMessage(e));
+  if (e instanceof Stripe.errors.StripeIdempotencyError) return new AppError(409, 'payment_conflict', 'This payment was already started with other details. Please reload and try again.');
+  if (e instanceof Stripe.errors.StripeInvalidRequestError) return new AppError(409, 'payment_refused', e.message);
+  if (e instanceof Stripe.errors.StripeError) return new AppError(502, 'payment_provider_unavailable', 'The card processor is not answering. Nothing was recorded; please try again shortly.');
+  return e;
+}
+
 // ---------- Invoice numbers and creation ----------
 
 /** The next number, taken inside the caller's transaction: a rollback returns it, so there are no gaps. */
@@ -318,6 +327,14 @@ function returnUrls(deps: AppDeps, returnPath: string) {
  * open gets the same page, so one invoice never has two live payment pages at once.
  */
 export async function startInvoiceCheckout(deps: AppDeps, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
+  try {
+    return await openCheckout(deps, invoiceId, opts);
+  } catch (e) {
+    throw providerError(e);
+  }
+}
+
+async function openCheckout(deps: AppDeps, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
   const stripe = stripeOf(deps);
   const urls = returnUrls(deps, opts.returnPath);
   const { db } = deps.database;
@@ -570,8 +587,7 @@ export async function refundInvoice(deps: AppDeps, user: SessionUser, invoiceId:
       );
       stripeRefundId = r.id;
     } catch (e) {
-      if (e instanceof Stripe.errors.StripeInvalidRequestError) throw new AppError(409, 'refund_refused', e.message);
-      throw e;
+      throw providerError(e);
     }
   }
   await applyRefund(deps, { paymentId: payment.id, amountCents: input.amountCents, stripeRefundId, reason: input.reason, actorId: user.id });

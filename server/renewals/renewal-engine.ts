@@ -28,6 +28,8 @@ export interface RenewalRunOptions {
   /** The local date to run for; defaults to today where the company works. */
   today?: string;
   graceDays?: number;
+  /** Limit the pass to these agreements (one household's re-run, or a test's own rows). */
+  only?: string[];
   /** Test hook: runs right after a charge succeeded at the processor, before it is recorded. */
   afterCharge?: (agreementId: string) => void | Promise<void>;
 }
@@ -58,7 +60,13 @@ export async function runRenewals(deps: AppDeps, opts: RenewalRunOptions = {}): 
   const candidates = await db
     .select({ id: agreements.id })
     .from(agreements)
-    .where(and(inArray(agreements.status, ['active', 'renewal_due', 'past_due']), sql`${agreements.endsOn} <= (${today}::date + 60)`));
+    .where(
+      and(
+        inArray(agreements.status, ['active', 'renewal_due', 'past_due']),
+        sql`${agreements.endsOn} <= (${today}::date + 60)`,
+        opts.only ? inArray(agreements.id, opts.only.length ? opts.only : ['00000000-0000-0000-0000-000000000000']) : undefined,
+      ),
+    );
   for (const { id } of candidates) {
     try {
       await renewOne(deps, id, today, grace, report, opts);
