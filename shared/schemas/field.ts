@@ -195,7 +195,7 @@ export interface VisitSummary {
 }
 
 /** Short names for each reading check, for charts and lists. */
-export const CHECK_LABELS: Record<string, string> = {
+export const CHECK_LABELS: Readonly<Record<string, string | undefined>> = {
   temperature_split: 'Temperature split',
   temperature_rise: 'Temperature rise',
   superheat: 'Superheat',

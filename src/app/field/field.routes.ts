@@ -1,4 +1,8 @@
 import { Routes } from '@angular/router';
-import { FieldHome } from './field-home';
+import { TodayVisits } from './today/today-visits';
+import { VisitPage } from './visit/visit-page';
 
-export const FIELD_ROUTES: Routes = [{ path: '', component: FieldHome, title: 'Today · Seasonwell' }];
+export const FIELD_ROUTES: Routes = [
+  { path: '', component: TodayVisits, title: "Today's visits · Seasonwell" },
+  { path: 'visits/:id', component: VisitPage, title: 'Visit · Seasonwell' },
+];

@@ -1,0 +1,130 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import type { ChartConfiguration, PointStyle } from 'chart.js';
+import { BaseChartDirective } from 'ng2-charts';
+import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } from '../../../../shared/schemas/field';
+import { toApiError } from '../../core/api-errors';
+import { bandPlugin, type Band } from './band-plugin';
+import { ReadingsApi } from './readings-api';
+import { StatusMark } from './status-mark';
+
+const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
+const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
+const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth watching', alert: 'out of range' };
+
+const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 'short', day: 'numeric', year: 'numeric' });
+
+/** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
+@Component({
+  selector: 'sw-readings-chart',
+  imports: [BaseChartDirective, MatButtonToggleModule, StatusMark],
+  templateUrl: './readings-chart.html',
+  styleUrl: './readings-chart.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ReadingsChart {
+  private readonly api = inject(ReadingsApi);
+  readonly propertyId = input.required<string>();
+
+  protected readonly data = signal<PropertyReadings | null>(null);
+  protected readonly error = signal<string | null>(null);
+  /** Chosen check per system. */
+  protected readonly chosen = signal<Record<string, string>>({});
+  protected readonly day = day;
+
+  constructor() {
+    effect(() => {
+      const id = this.propertyId();
+      untracked(() => void this.load(id));
+    });
+  }
+
+  private async load(id: string): Promise<void> {
+    this.error.set(null);
+    try {
+      this.data.set(await this.api.property(id));
+    } catch (err) {
+      this.error.set(toApiError(err).message);
+    }
+  }
+
+  protected readonly systems = computed(() => (this.data()?.systems ?? []).filter((s) => s.series.length > 0));
+
+  protected seriesOf(system: SystemReadings): ReadingSeries {
+    const pick = this.chosen()[system.equipmentId];
+    return system.series.find((s) => s.check === pick) ?? system.series.find((s) => s.check === 'temperature_split') ?? system.series[0]!;
+  }
+
+  protected choose(system: SystemReadings, check: string): void {
+    this.chosen.set({ ...this.chosen(), [system.equipmentId]: check });
+  }
+
+  protected band(p: { expected: { min?: number; max?: number; target?: number } }): string {
+    const { min, max } = p.expected;
+    if (min !== undefined && max !== undefined) return `${min}–${max}`;
+    if (max !== undefined) return `up to ${max}`;
+    return '—';
+  }
+
+  protected summary(series: ReadingSeries): string {
+    const last = series.points[series.points.length - 1]!;
+    return `${series.label} over ${series.points.length} visit${series.points.length === 1 ? '' : 's'}; latest ${last.value} ${series.unit} on ${day(last.recordedAt)}, ${WORDS[last.status]}${last.expected.min !== undefined && last.expected.max !== undefined ? ` (normal ${last.expected.min}–${last.expected.max} ${series.unit})` : ''}.`;
+  }
+
+  // One config object per series, cached so change detection does not rebuild the chart.
+  private readonly configs = new Map<ReadingSeries, { config: ChartConfiguration<'line'>; plugins: ReturnType<typeof bandPlugin>[] }>();
+
+  protected chart(series: ReadingSeries) {
+    let c = this.configs.get(series);
+    if (c) return c;
+    const bands: Band[] = series.points.map((p) => ({ min: p.expected.min, max: p.expected.max }));
+    const all = series.points.flatMap((p) => [p.value, p.expected.min, p.expected.max].filter((v): v is number => v !== undefined));
+    const lo = Math.min(...all);
+    const hi = Math.max(...all);
+    const pad = Math.max(1, (hi - lo) * 0.15);
+    c = {
+      config: {
+        type: 'line',
+        data: {
+          labels: series.points.map((p) => day(p.recordedAt)),
+          datasets: [
+            {
+              label: `${series.label} (${series.unit})`,
+              data: series.points.map((p) => p.value),
+              borderColor: '#1d4e5f',
+              borderWidth: 3,
+              pointRadius: 7,
+              pointHoverRadius: 9,
+              pointStyle: series.points.map((p) => POINT_STYLE[p.status]),
+              pointBackgroundColor: series.points.map((p) => POINT_COLOUR[p.status]),
+              tension: 0,
+            },
+          ],
+        },
+        options: {
+          responsive: true,
+          maintainAspectRatio: false,
+          animation: false,
+          scales: {
+            y: { suggestedMin: lo - pad, suggestedMax: hi + pad, title: { display: true, text: series.unit } },
+            x: { offset: true },
+          },
+          plugins: {
+            legend: { display: false },
+            tooltip: {
+              callbacks: {
+                label: (item) => {
+                  const p = series.points[item.dataIndex]!;
+                  return `${p.value} ${series.unit}, ${WORDS[p.status]} (normal ${this.band(p)})`;
+                },
+              },
+            },
+          },
+        },
+      },
+      plugins: [bandPlugin(() => bands)],
+    };
+    this.configs.set(series, c);
+    return c;
+  }
+}
