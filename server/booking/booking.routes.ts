@@ -4,7 +4,7 @@ import { bookVisitSchema, cancelSchema, rescheduleSchema, windowsQuerySchema, ty
 import type { AppDeps } from '../app';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { bookingOptions, bookVisit, cancelVisit, myVisits, rescheduleVisit, visitDetail, windowsFor, WindowFullError } from './booking.service';
+import { authoriseVisit, bookingOptions, bookVisit, cancelVisit, myVisits, rescheduleVisit, visitDetail, windowsFor, WindowFullError } from './booking.service';
 
 const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });
 const customerQuery = z.object({ customerId: z.uuid({ message: 'must be a household id' }).optional() });
@@ -53,12 +53,14 @@ export function bookingRoutes(deps: AppDeps): Router {
 
   router.post('/visits/:id/reschedule', bookers, async (req, res) => {
     const { id } = parse(idParam, req.params);
+    await authoriseVisit(deps, currentUser(req), id);
     const body = parse(rescheduleSchema, req.body);
     await orNextWindows(res, async () => ({ visit: await rescheduleVisit(deps, currentUser(req), id, body) }));
   });
 
   router.post('/visits/:id/cancel', bookers, async (req, res) => {
     const { id } = parse(idParam, req.params);
+    await authoriseVisit(deps, currentUser(req), id);
     const body = parse(cancelSchema, req.body ?? {});
     res.json({ visit: await cancelVisit(deps, currentUser(req), id, body) });
   });

@@ -323,6 +323,11 @@ export async function visitFor(db: Db | Tx, user: SessionUser, id: string): Prom
   return row;
 }
 
+/** Authorisation for a visit route before its body is read: someone else's visit is a 404. */
+export async function authoriseVisit(deps: AppDeps, user: SessionUser, id: string): Promise<void> {
+  await visitFor(deps.database.db, user, id);
+}
+
 /** A visit the user may move or cancel now: open, and before the cut-off for homeowners. */
 async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: Date): Promise<VisitRow> {
   const row = await visitFor(db, user, id);
