@@ -68,8 +68,43 @@ function must(v: string | null, name: string): string {
 
 const SIGNED_IN: Role[] = ['homeowner', 'technician', 'office', 'owner'];
 
+// Billing routes take a well-formed id that matches no record: the row checks roles; household ownership is tested in test/agreements.test.ts and test/billing.test.ts.
+const NO_SUCH_ID = '00000000-0000-4000-8000-000000000000';
+
 const ROUTES: Record<string, Row> = {
+  'POST /api/webhooks/stripe': { allow: 'public' },
+  'GET /api/plans': { allow: SIGNED_IN },
+  'GET /api/plans/:id/versions': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/plans': { allow: ['owner'] },
+  'PUT /api/plans/:id': { allow: ['owner'], params: { id: () => NO_SUCH_ID } },
+  'PATCH /api/plans/:id': { allow: ['owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/agreements/mine': { allow: ['homeowner'] },
+  'POST /api/agreements/enroll': { allow: ['homeowner', 'office', 'owner'] },
+  'GET /api/agreements/:id': { allow: SIGNED_IN, params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/renew': { allow: ['homeowner', 'office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/auto-renew': { allow: ['homeowner', 'office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/card': { allow: ['homeowner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/manual-renewal': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/change-tier': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/agreements/:id/cancel': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/invoices': { allow: ['homeowner', 'office', 'owner'] },
+  'POST /api/invoices': { allow: ['office', 'owner'] },
+  'POST /api/invoices/checkout-return': { allow: SIGNED_IN },
+  'GET /api/invoices/:id': { allow: SIGNED_IN, params: { id: () => NO_SUCH_ID } },
+  'GET /api/invoices/:id/pdf': { allow: SIGNED_IN, params: { id: () => NO_SUCH_ID } },
+  'POST /api/invoices/:id/checkout': { allow: ['homeowner', 'office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/invoices/:id/issue': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/invoices/:id/void': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/invoices/:id/payments': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'POST /api/invoices/:id/refunds': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/renewals': { allow: ['office', 'owner'] },
+  'GET /api/renewals/export.csv': { allow: ['office', 'owner'] },
+  'POST /api/renewals/notices': { allow: ['office', 'owner'] },
   'GET /api/health': { allow: 'public' },
+  'GET /api/reminders/preview': { allow: ['office', 'owner'] },
+  'GET /api/reminders/campaigns': { allow: ['office', 'owner'] },
+  'POST /api/reminders/campaigns': { allow: ['office', 'owner'] },
+  'GET /api/reminders/campaigns/:id': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
   'GET /api/session': { allow: 'public' },
   'POST /api/auth/staff/sign-in': { allow: 'public' },
   'POST /api/auth/link': { allow: 'public' },
