@@ -7,9 +7,10 @@
  * call it in `allow` (or 'public'), and say how to fill its path parameters:
  *   'GET /api/customers/:customerId': { allow: ['homeowner', 'technician', 'office', 'owner'], owned: true },
  * `owned: true` means the parameters point at homeowner A's records, so homeowner B must get
- * 404/403 even when homeowners are allowed. Parameters named in FILL (customerId, …) fill
- * themselves with homeowner A's ids; give others with `params: { id: (f) => f.someId }`
- * (add what you need to Fixtures/loadFixtures). Bodies default to {}: an allowed role then gets
+ * 404/403 even when homeowners are allowed. Parameters named in FILL (customerId, propertyId,
+ * visitId, equipmentId, agreementId) fill themselves with homeowner A's ids; give others with
+ * `params: { id: (f) => f.visitA }` (add what you need to Fixtures and the beforeAll). The
+ * technician session is the one assigned to visitA. Bodies default to {}: an allowed role then gets
  * a 422 from the route's own validation, which still proves it passed authorisation. Mark rows
  * that sign the caller out with `throwaway: true` so they run on spare accounts.
  *
@@ -22,7 +23,7 @@ import { and, eq } from 'drizzle-orm';
 import type { Router } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiRouters } from '../server/routes';
-import { customers, technicians, users, visits } from '../server/db/schema';
+import { agreements, customers, equipment, technicians, users, visits } from '../server/db/schema';
 import type { Role } from '../shared/roles';
 import { testApp } from './support/app';
 import { anonymous, signInHomeowner, signInStaff, type Signed } from './support/auth';
@@ -32,6 +33,9 @@ const STAFF_PASSWORD = 'matrix-spare-lantern-42';
 interface Fixtures {
   customerA: string;
   customerB: string;
+  /** A unit at propertyA and household A's agreement, where the seed has them. */
+  equipmentA: string | null;
+  agreementA: string | null;
   /** A spare office member the owner may change; never one of the sessions below. */
   spareStaffId: string;
   /** Household A's home, and a completed visit there assigned to the technician session. */
@@ -51,7 +55,16 @@ interface Row {
 // Parameters that fill themselves with homeowner A's records.
 const FILL: Record<string, (f: Fixtures) => string> = {
   customerId: (f) => f.customerA,
+  propertyId: (f) => f.propertyA,
+  visitId: (f) => f.visitA,
+  equipmentId: (f) => must(f.equipmentA, 'equipmentA'),
+  agreementId: (f) => must(f.agreementA, 'agreementA'),
 };
+
+function must(v: string | null, name: string): string {
+  if (!v) throw new Error(`the seed has no ${name} for homeowner A`);
+  return v;
+}
 
 const SIGNED_IN: Role[] = ['homeowner', 'technician', 'office', 'owner'];
 
@@ -88,6 +101,10 @@ const ROUTES: Record<string, Row> = {
   'GET /api/renewals/export.csv': { allow: ['office', 'owner'] },
   'POST /api/renewals/notices': { allow: ['office', 'owner'] },
   'GET /api/health': { allow: 'public' },
+  'GET /api/reminders/preview': { allow: ['office', 'owner'] },
+  'GET /api/reminders/campaigns': { allow: ['office', 'owner'] },
+  'POST /api/reminders/campaigns': { allow: ['office', 'owner'] },
+  'GET /api/reminders/campaigns/:id': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
   'GET /api/session': { allow: 'public' },
   'POST /api/auth/staff/sign-in': { allow: 'public' },
   'POST /api/auth/link': { allow: 'public' },
@@ -111,6 +128,24 @@ const ROUTES: Record<string, Row> = {
   'POST /api/field/visits/:id/complete': { allow: ['technician', 'owner'], params: { id: (f) => f.visitA } },
   'GET /api/portal/readings/properties/:propertyId': { allow: SIGNED_IN, owned: true, params: { propertyId: (f) => f.propertyA } },
   'GET /api/portal/visit-summaries/:id': { allow: SIGNED_IN, owned: true, params: { id: (f) => f.visitA } },
+  'GET /api/booking/options': { allow: ['homeowner', 'office', 'owner'] },
+  'GET /api/booking/windows': { allow: ['homeowner', 'office', 'owner'] },
+  'GET /api/booking/visits': { allow: ['homeowner', 'office', 'owner'] },
+  'POST /api/booking/visits': { allow: ['homeowner', 'office', 'owner'] },
+  'GET /api/booking/visits/:id': { allow: SIGNED_IN, owned: true, params: { id: (f) => f.visitA } },
+  'POST /api/booking/visits/:id/reschedule': { allow: ['homeowner', 'office', 'owner'], owned: true, params: { id: (f) => f.visitA } },
+  'POST /api/booking/visits/:id/cancel': { allow: ['homeowner', 'office', 'owner'], owned: true, params: { id: (f) => f.visitA } },
+  'GET /api/dispatch/board': { allow: ['office', 'owner'] },
+  'GET /api/dispatch/households': { allow: ['office', 'owner'] },
+  'POST /api/dispatch/visits/:id/assign': { allow: ['office', 'owner'], params: { id: (f) => f.visitA } },
+  'POST /api/dispatch/visits/:id/status': { allow: ['technician', 'office', 'owner'], params: { id: (f) => f.visitA } },
+  'GET /api/dispatch/visits/:id/events': { allow: ['office', 'owner'], params: { id: (f) => f.visitA } },
+  'POST /api/dispatch/time-off': { allow: ['office', 'owner'] },
+  'DELETE /api/dispatch/time-off/:id': { allow: ['office', 'owner'], params: { id: (f) => f.visitA } },
+  'GET /api/schedule/week': { allow: ['technician', 'office', 'owner'] },
+  'POST /api/schedule/feed-token': { allow: ['technician'] },
+  'DELETE /api/schedule/feed-token': { allow: ['technician'] },
+  'GET /api/schedule/feed/:file': { allow: 'public', params: { file: () => `${'a'.repeat(32)}.ics` } },
 };
 
 type Who = 'anonymous' | 'homeownerA' | 'homeownerB' | 'technician' | 'office' | 'owner';
@@ -174,12 +209,22 @@ beforeAll(async () => {
     .limit(1);
   const spareOffice = await spareStaff('office');
   const [spareRow] = await db.select({ id: users.id }).from(users).where(eq(users.email, spareOffice));
-  fixtures = { customerA: a.customerId!, customerB: b.customerId!, spareStaffId: spareRow.id, propertyA: tech.propertyId, visitA: tech.visitId };
+  const [unit] = await db.select({ id: equipment.id }).from(equipment).where(eq(equipment.propertyId, tech.propertyId)).limit(1);
+  const [agr] = await db.select({ id: agreements.id }).from(agreements).where(eq(agreements.customerId, a.customerId!)).limit(1);
+  fixtures = {
+    customerA: a.customerId!,
+    customerB: b.customerId!,
+    spareStaffId: spareRow.id,
+    propertyA: tech.propertyId,
+    visitA: tech.visitId,
+    equipmentA: unit?.id ?? null,
+    agreementA: agr?.id ?? null,
+  };
 
   sessions.anonymous = await anonymous(ctx);
   sessions.homeownerA = await signInHomeowner(ctx, a.email);
   sessions.homeownerB = await signInHomeowner(ctx, b.email);
-  sessions.technician = await signInStaff(ctx, tech?.email ?? 'marcus.bellweather@bluestem-comfort.test');
+  sessions.technician = await signInStaff(ctx, tech.email);
   sessions.office = await signInStaff(ctx, 'teo.marchetti@bluestem-comfort.test');
   sessions.owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
 
