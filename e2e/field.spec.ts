@@ -1,0 +1,77 @@
+import { expect, test } from '@playwright/test';
+import { DEMO, latestMail } from './support/env';
+
+test('a technician records a tune-up with an out-of-range reading and completes it; the homeowner sees the summary and chart', async ({ page, browser }) => {
+  // Phone-sized, as on site.
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.goto('/staff/sign-in');
+  await page.getByLabel('E-mail address').fill(DEMO.technician);
+  await page.getByLabel('Password').fill(DEMO.staffPassword);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await expect(page).toHaveURL(/\/field$/);
+
+  await expect(page.getByRole('heading', { name: "Today's visits" })).toBeVisible();
+  await page.getByRole('link', { name: /Tune-up, Whitfield household/ }).click();
+  await expect(page.getByRole('heading', { name: /Tune-up · Whitfield household/ })).toBeVisible();
+
+  // The household's agreement as it applies today.
+  await expect(page.getByRole('heading', { name: /Covered: Priority Comfort/ })).toBeVisible();
+  await expect(page.getByText('Repair discount')).toBeVisible();
+
+  // Readings, checked as they are typed.
+  await page.getByRole('radiogroup', { name: 'Operating mode' }).getByText('Cooling').click();
+  await page.getByLabel('Return air dry bulb').fill('75');
+  await page.getByLabel('Supply air dry bulb').fill('55');
+  const air = page.getByRole('list', { name: 'Air temperatures results' });
+  await expect(air.getByText('Temperature split')).toBeVisible();
+  await expect(air.getByText('In range')).toBeVisible();
+
+  await expect(page.getByRole('note', { name: /Disconnect power and discharge capacitors/ })).toBeVisible();
+  await page.getByLabel('Compressor capacitor rating').fill('7.5');
+  await page.getByLabel('Compressor capacitor measured').fill('6.9');
+  const electrical = page.getByRole('list', { name: 'Electrical results' });
+  await expect(electrical.getByText('Out of range')).toBeVisible();
+  await expect(page.getByRole('alert').filter({ hasText: '1 reading out of range.' })).toBeVisible();
+
+  await page.getByRole('button', { name: 'Save readings' }).click();
+  await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
+
+  const completedAt = Date.now();
+  await page.getByLabel('Findings', { exact: true }).fill('Cleaned the condensate drain and tightened connections. Compressor run capacitor is weak.');
+  await page.getByLabel('Recommendations', { exact: true }).fill('Replace the compressor run capacitor. Coil cleaning recommended.');
+  await page.getByRole('button', { name: 'Complete visit' }).click();
+  await expect(page.getByText('Visit completed. The homeowner has been sent a summary.')).toBeVisible();
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+  expect(overflow, 'no sideways scrolling on a phone').toBeLessThanOrEqual(0);
+
+  // The plain-words summary reaches the homeowner.
+  const summaryMail = await latestMail(DEMO.homeownerA, { after: completedAt - 1000 });
+  expect(summaryMail.subject).toMatch(/tune-up visit summary/i);
+  expect(summaryMail.text).toContain('Coil cleaning recommended.');
+  const summaryLink = summaryMail.links.find((l) => /\/portal\/visits\/[0-9a-f-]{36}$/.test(l));
+  expect(summaryLink, 'the e-mail links to the summary page').toBeTruthy();
+
+  // The homeowner signs in with a link and opens the summary.
+  const home = await browser.newContext({ viewport: { width: 390, height: 844 } });
+  const hp = await home.newPage();
+  await hp.goto('/sign-in');
+  const asked = Date.now();
+  await hp.getByLabel('E-mail address').fill(DEMO.homeownerA);
+  await hp.getByRole('button', { name: 'Send me a sign-in link' }).click();
+  const signIn = await latestMail(DEMO.homeownerA, { after: asked - 500 });
+  const link = signIn.links.find((l) => l.includes('/sign-in/confirm?token='));
+  await hp.goto(link!);
+  await hp.getByRole('button', { name: 'Sign me in' }).click();
+  await expect(hp).toHaveURL(/\/portal$/);
+
+  await hp.goto(new URL(summaryLink!).pathname);
+  await expect(hp.getByRole('heading', { name: 'Your tune-up visit' })).toBeVisible();
+  await expect(hp.getByText('Replace the compressor run capacitor. Coil cleaning recommended.')).toBeVisible();
+  await expect(hp.getByText(/Cooling check: the air leaving your system is 20 °F cooler than the air going in, in the normal range\./)).toBeVisible();
+  await expect(hp.getByText(/capacitor that helps the compressor start and run is outside the normal range/)).toBeVisible();
+
+  await expect(hp.getByRole('heading', { name: 'Your system readings' })).toBeVisible();
+  await expect(hp.getByRole('img', { name: /Temperature split over 1 visit; latest 20 °F/ })).toBeVisible();
+  await expect(hp.getByRole('cell', { name: '16–22' })).toBeVisible();
+  await home.close();
+});
