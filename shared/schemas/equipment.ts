@@ -46,6 +46,13 @@ export const filterSizeSchema = z.preprocess(
   z.union([z.literal(''), z.string().regex(/^\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?$/, 'Filter size is width x height x depth in inches, like 16x25x1.')]),
 );
 
+/** "r410a", "R 410A" and "R-410A" name the same refrigerant; blank or "none" means none. */
+function refrigerantWord(v: string): string {
+  const t = v.trim().toUpperCase().replace(/\s+/g, '');
+  if (t === '' || t === 'NONE') return 'none';
+  return t.replace(/^R-?(\d)/, 'R-$1');
+}
+
 const equipmentFields = {
   kind: z.enum(EQUIPMENT_KINDS, { error: 'Choose the kind of equipment.' }),
   make: text('Make', 60),
@@ -53,7 +60,7 @@ const equipmentFields = {
   serial: text('Serial', 60),
   installedOn: isoDate('Install date'),
   refrigerant: z.preprocess(
-    (v) => (typeof v === 'string' ? (v.trim() === '' ? 'none' : v.trim().toUpperCase()) : v ?? 'none'),
+    (v) => (typeof v === 'string' ? refrigerantWord(v) : (v ?? 'none')),
     z.enum(REFRIGERANT_CHOICES, { error: `Refrigerant is one of ${REFRIGERANT_CHOICES.join(', ')}.` }),
   ),
   capacity: z.preprocess(
