@@ -2,9 +2,7 @@ import type { Logger } from 'pino';
 import type { AppDeps } from '../app';
 import type { Mailer } from '../integrations/mail';
 
-function mailerOf(deps: AppDeps): Mailer | undefined {
-  return (deps.services as { mailer?: Mailer } | undefined)?.mailer;
-}
+const mailerOf = (deps: AppDeps): Mailer | undefined => deps.services?.mailer;
 
 export const linkUrl = (deps: AppDeps, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
 
