@@ -1,4 +1,8 @@
 import { hash } from '@node-rs/argon2';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import sharp from 'sharp';
 import { and, eq } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -150,7 +154,7 @@ let tech: Signed;
 beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0 });
   mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Bluestem Comfort <office@bluestem-comfort.test>' });
-  ctx = testApp({ services: { mailer } });
+  ctx = testApp({ services: { mailer }, env: { STORAGE_DIR: mkdtempSync(join(tmpdir(), 'sw-field-')) } });
   f = await fixture(ctx);
   tech = await signInStaff(ctx, f.techEmail);
 });
@@ -327,6 +331,24 @@ describe('checklist and troubleshooting', () => {
   });
 });
 
+describe('photos', () => {
+  it('shows photos uploaded against the visit on the visit page', async () => {
+    const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: { r: 120, g: 140, b: 90 } } }).png().toBuffer();
+    await tech.agent
+      .post('/api/files')
+      .set('X-XSRF-TOKEN', tech.csrf)
+      .field('visitId', f.callId)
+      .field('category', 'problem')
+      .field('caption', 'Clogged drain pan')
+      .attach('files', png, { filename: 'drain-pan.png', contentType: 'image/png' })
+      .expect(201);
+    const page = (await tech.agent.get(`/api/field/visits/${f.callId}`).expect(200)).body;
+    expect(page.photos).toHaveLength(1);
+    expect(page.photos[0]).toMatchObject({ caption: 'Clogged drain pan', visitId: f.callId, category: 'problem' });
+    await tech.agent.get(page.photos[0].thumbUrl).expect(200).expect('Content-Type', 'image/webp');
+  });
+});
+
 describe('completing the visit', () => {
   it('needs findings', async () => {
     const res = await post(tech, `/api/field/visits/${f.callId}/complete`, { findings: '  ' }).expect(422);
@@ -370,6 +392,7 @@ describe('homeowner readings history and visit summary', () => {
     expect(summary.findings).toMatch(/Clogged condensate drain/);
     expect(summary.readings[0].lines.map((l: { status: string }) => l.status)).toContain('alert');
     expect(summary.cautions.map((c: { id: string }) => c.id)).toContain('co_alarms');
+    expect(summary.photos.map((p: { caption: string }) => p.caption)).toEqual(['Clogged drain pan']);
 
     const history = (await home.agent.get(`/api/portal/readings/properties/${f.propertyId}`).expect(200)).body;
     const system = history.systems.find((s: { equipmentId: string }) => s.equipmentId === f.condenserId);

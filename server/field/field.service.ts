@@ -22,7 +22,7 @@ import type { Db } from '../db/client';
 import { customers, properties, technicians, visitChecklistItems, visitEvents, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
 import type { Mailer } from '../integrations/mail';
-import { summaryEmail, technicianCautions, visitSummary } from './summary';
+import { summaryEmail, technicianCautions, visitPhotos, visitSummary } from './summary';
 import {
   addressOf,
   companyInfo,
@@ -126,6 +126,7 @@ export async function fieldVisit(db: Db, user: SessionUser, visitId: string, now
     troubleshooting: trouble ? (troubleshooting as Troubleshooting) : null,
     troubleshootingKind: TROUBLESHOOTING_REASONS.has(visit.reason) ? (visit.reason as 'no_cooling' | 'no_heat') : null,
     readings: readings.map(savedReadings),
+    photos: await visitPhotos(db, visit.id),
     cautions: technicianCautions(
       items.map((e) => e.kind),
       items.some((e) => e.refrigerant !== null),

@@ -1,10 +1,11 @@
-import { asc, eq } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { cautions, homeownerWording, type Caution } from '../../shared/hvac';
 import type { VisitSummary } from '../../shared/schemas/field';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
-import { equipment, technicians, users, visitReadings } from '../db/schema';
+import { equipment, files, technicians, users, visitReadings } from '../db/schema';
+import { toFile } from '../customers/customers.service';
 import { renderEmail } from '../integrations/mail';
 import { equipmentLabel, localDate, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
 
@@ -25,6 +26,12 @@ export function technicianCautions(kinds: readonly string[], hasRefrigerant: boo
     if (c.id === 'fuel_burning_equipment') return fuel;
     return true;
   });
+}
+
+/** Photos filed against the visit, oldest first. */
+export async function visitPhotos(db: Db | Tx, visitId: string) {
+  const rows = await db.select().from(files).where(and(eq(files.visitId, visitId), isNull(files.archivedAt))).orderBy(asc(files.createdAt));
+  return rows.filter((f) => f.contentType.startsWith('image/')).map(toFile);
 }
 
 /** The visit in plain words for the homeowner: what was found, what is recommended, each reading's verdict. */
@@ -54,6 +61,7 @@ export async function visitSummary(db: Db | Tx, visit: VisitRow, info: CompanyIn
       system: equipmentLabel(r),
       lines: r.checks.map((c) => ({ text: homeownerWording(c), status: c.status })),
     })),
+    photos: await visitPhotos(db, visit.id),
     cautions: homeownerCautions(kinds),
   };
 }

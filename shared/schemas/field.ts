@@ -3,6 +3,7 @@ import type { Coverage } from '../coverage';
 import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hvac';
 import { visitReadingsSchema } from '../hvac/readings';
 import type { VisitKind, VisitReason, VisitStatus } from '../visits';
+import type { StoredFile } from './customers';
 
 export const READING_STATUSES = ['ok', 'watch', 'alert'] as const;
 export type ReadingStatus = (typeof READING_STATUSES)[number];
@@ -142,6 +143,8 @@ export interface FieldVisit {
   /** Set for no-cooling and no-heat calls: show the structured troubleshooting record. */
   troubleshootingKind: 'no_cooling' | 'no_heat' | null;
   readings: SavedReadings[];
+  /** Photos taken on this visit, through the uploads API with the visit id. */
+  photos: StoredFile[];
   cautions: Caution[];
 }
 
@@ -191,6 +194,7 @@ export interface VisitSummary {
   recommendations: string;
   /** Plain-words lines, one per reading check. */
   readings: { system: string; lines: { text: string; status: ReadingStatus }[] }[];
+  photos: StoredFile[];
   cautions: Caution[];
 }
 
