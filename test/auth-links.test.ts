@@ -1,7 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import jwt from 'jsonwebtoken';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { customers, users } from '../server/db/schema';
+import { eq, inArray } from 'drizzle-orm';
+import { auditEvents, customers, signInLinks, users } from '../server/db/schema';
 import { testApp, type TestContext } from './support/app';
 import { anonymous, csrfFrom, mailCatcher, tokenOf } from './support/auth';
 
@@ -190,6 +191,10 @@ describe('no account enumeration on link requests', () => {
     expect(b.body).toEqual(a.body);
     expect(comparable(b.headers)).toEqual(comparable(a.headers));
     expect(Object.keys(b.headers).sort()).toEqual(Object.keys(a.headers).sort());
+    // Only the known address leaves a stored link and an audit row.
+    const logged = await ctx.database.db.select().from(auditEvents).where(inArray(auditEvents.subject, [known, unknown]));
+    expect(logged.map((e) => [e.subject, e.action])).toEqual([[known, 'link_requested']]);
+    expect(await ctx.database.db.select().from(signInLinks).where(eq(signInLinks.email, unknown))).toEqual([]);
   });
 
   it('takes about the same time for known and unknown addresses', async () => {

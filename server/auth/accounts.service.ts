@@ -77,9 +77,8 @@ export async function requestPasswordReset(deps: AppDeps, rawEmail: string, ip: 
   const email = normaliseEmail(rawEmail);
   const now = deps.clock();
   const link = signLinkToken(deps.config.JWT_SECRET, now, email, 'set_password', RESET_LINK_MINUTES);
-  const stored = await storeLinkForAddress(db, link, email, 'set_password', sql`u.role in ('technician', 'office', 'owner')`);
+  const stored = await storeLinkForAddress(db, link, email, 'set_password', sql`u.role in ('technician', 'office', 'owner')`, { action: 'password_reset_requested', ip, at: now });
   if (!stored) return null;
-  await recordAudit(db, { action: 'password_reset_requested', actorUserId: stored.userId, subject: email, ip, at: now });
   return { email, name: '', token: link.token };
 }
 

@@ -66,9 +66,8 @@ export async function requestSignInLink(deps: AppDeps, rawEmail: string, ip: str
   const email = normaliseEmail(rawEmail);
   const now = deps.clock();
   const link = signLinkToken(deps.config.JWT_SECRET, now, email, 'sign_in', SIGN_IN_LINK_MINUTES);
-  const stored = await storeLinkForAddress(db, link, email, 'sign_in', sql`u.role = 'homeowner'`);
+  const stored = await storeLinkForAddress(db, link, email, 'sign_in', sql`u.role = 'homeowner'`, { action: 'link_requested', ip, at: now });
   if (!stored) return { delivery: null };
-  await recordAudit(db, { action: 'link_requested', actorUserId: stored.userId, subject: email, ip, at: now });
   return { delivery: { email, token: link.token } };
 }
 

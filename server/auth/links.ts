@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { and, eq, gt, isNull, sql } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
 import type { Db, Tx } from '../db/client';
-import { signInLinks, users, type LinkPurpose } from '../db/schema';
+import { auditEvents, signInLinks, users, type LinkPurpose } from '../db/schema';
 import { AppError } from '../http/errors';
 
 export const SIGN_IN_LINK_MINUTES = 10;
@@ -35,8 +35,9 @@ export function signLinkToken(secret: string, now: Date, email: string, purpose:
 }
 
 /**
- * Stores a link for the user with this address in one statement: for an unknown address the
- * insert finds no user and stores nothing, so both cases cost the same round trip.
+ * Stores a link (and its audit row) for the user with this address in one statement: for an
+ * unknown address the insert finds no user and stores nothing, so both cases cost the same
+ * single round trip.
  */
 export async function storeLinkForAddress(
   db: Db | Tx,
@@ -44,14 +45,21 @@ export async function storeLinkForAddress(
   email: string,
   purpose: LinkPurpose,
   userFilter: ReturnType<typeof sql>,
+  audit: { action: string; ip: string; at: Date },
 ): Promise<{ userId: string } | null> {
   const rows = await db.execute<{ user_id: string }>(sql`
-    insert into ${signInLinks} (jti_hash, email, user_id, purpose, expires_at)
-    select ${link.jtiHash}, ${email}, u.id, ${purpose}, ${link.expiresAt.toISOString()}::timestamptz
-    from ${users} u
-    where u.email = ${email} and u.disabled_at is null and (${userFilter})
-    limit 1
-    returning user_id`);
+    with link as (
+      insert into ${signInLinks} (jti_hash, email, user_id, purpose, expires_at)
+      select ${link.jtiHash}, ${email}, u.id, ${purpose}, ${link.expiresAt.toISOString()}::timestamptz
+      from ${users} u
+      where u.email = ${email} and u.disabled_at is null and (${userFilter})
+      limit 1
+      returning user_id
+    ), logged as (
+      insert into ${auditEvents} (action, actor_user_id, subject, ip, at)
+      select ${audit.action}, user_id, ${email}, ${audit.ip}, ${audit.at.toISOString()}::timestamptz from link
+    )
+    select user_id from link`);
   const row = rows.rows[0];
   return row ? { userId: row.user_id } : null;
 }

@@ -1,0 +1,95 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { RouterLink } from '@angular/router';
+import { DateTime } from 'luxon';
+import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
+import { VISIT_REASON_LABELS } from '../../../../shared/visits';
+import { toApiError } from '../../core/api-errors';
+import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { ScheduleApi } from './schedule-api';
+
+/** The technician's week, day by day, and the private calendar link for their phone. */
+@Component({
+  selector: 'sw-week-schedule',
+  imports: [MatButtonModule, MatIconModule, RouterLink, VisitStatusMark],
+  templateUrl: './week-schedule.html',
+  styleUrl: './week-schedule.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class WeekSchedule {
+  private readonly api = inject(ScheduleApi);
+  private readonly snack = inject(MatSnackBar);
+  protected readonly reasons = VISIT_REASON_LABELS;
+  protected readonly week = signal<WeekResponse | null>(null);
+  protected readonly error = signal<string | null>(null);
+  protected readonly feedUrl = signal<string | null>(null);
+  private readonly start = signal<string | undefined>(undefined);
+
+  protected readonly days = computed(() => {
+    const w = this.week();
+    if (!w) return [];
+    return Array.from({ length: 7 }, (_, i) => {
+      const d = DateTime.fromISO(w.start, { zone: w.timeZone }).plus({ days: i });
+      const iso = d.toISODate()!;
+      return { iso, label: d.toFormat('cccc d LLL'), visits: w.visits.filter((v) => v.startsAt.slice(0, 10) === iso) };
+    });
+  });
+
+  constructor() {
+    void this.load();
+  }
+
+  private async load(): Promise<void> {
+    try {
+      this.week.set(await this.api.week(this.start()));
+    } catch (err) {
+      this.error.set(toApiError(err).message);
+    }
+  }
+
+  protected shift(weeks: number): void {
+    const w = this.week();
+    if (!w) return;
+    this.start.set(DateTime.fromISO(w.start).plus({ weeks }).toISODate()!);
+    void this.load();
+  }
+
+  protected time(v: VisitView): string {
+    const a = DateTime.fromISO(v.startsAt, { setZone: true });
+    const b = DateTime.fromISO(v.endsAt, { setZone: true });
+    return `${a.toFormat('h:mm')}–${b.toFormat('h:mm a')}`;
+  }
+
+  protected async newFeed(): Promise<void> {
+    try {
+      const { url } = await this.api.issueFeed();
+      this.feedUrl.set(url);
+      await this.load();
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
+    }
+  }
+
+  protected async revokeFeed(): Promise<void> {
+    try {
+      await this.api.revokeFeed();
+      this.feedUrl.set(null);
+      this.snack.open('Calendar link turned off. Calendars using it stop updating.', 'OK', { duration: 6000 });
+      await this.load();
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
+    }
+  }
+
+  protected async onTheWay(v: VisitView): Promise<void> {
+    try {
+      await this.api.setStatus(v.id, 'on_the_way');
+      this.snack.open('Homeowner told you are on the way.', 'OK', { duration: 4000 });
+      await this.load();
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
+    }
+  }
+}

@@ -1,0 +1,200 @@
+import { CdkDrag, CdkDragDrop, CdkDropList, CdkDropListGroup } from '@angular/cdk/drag-drop';
+import { NgTemplateOutlet } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatMenuModule } from '@angular/material/menu';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { RouterLink } from '@angular/router';
+import { DateTime } from 'luxon';
+import { STATUS_TRANSITIONS, type BoardResponse, type BoardTechnician, type VisitEventView, type VisitView } from '../../../../shared/schemas/booking';
+import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
+import { toApiError } from '../../core/api-errors';
+import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { DispatchApi } from './dispatch-api';
+
+const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
+const QUEUE = 'queue';
+
+interface Column {
+  id: string;
+  tech: BoardTechnician | null;
+  days: { date: string; label: string; visits: VisitView[]; off: boolean }[];
+}
+
+/** Day or week board: a column per technician, the unassigned queue, drag or menu to assign. */
+@Component({
+  selector: 'sw-dispatch-board',
+  imports: [
+    CdkDrag,
+    CdkDropList,
+    CdkDropListGroup,
+    FormsModule,
+    NgTemplateOutlet,
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatMenuModule,
+    MatSelectModule,
+    VisitStatusMark,
+  ],
+  templateUrl: './dispatch-board.html',
+  styleUrl: './dispatch-board.scss',
+  host: { class: 'sw-dense' },
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class DispatchBoard {
+  private readonly api = inject(DispatchApi);
+  private readonly snack = inject(MatSnackBar);
+
+  protected readonly kinds = VISIT_KINDS.map((k) => ({ id: k, label: KIND_LABELS[k] }));
+  protected readonly kindLabels = KIND_LABELS;
+  protected readonly reasonLabels = VISIT_REASON_LABELS;
+  protected readonly statusLabels = VISIT_STATUS_LABELS;
+
+  protected readonly from = signal(DateTime.now().setZone('America/Chicago').toISODate()!);
+  protected readonly days = signal<1 | 7>(1);
+  protected readonly technicianId = signal<string>('');
+  protected readonly kind = signal<VisitKind | ''>('');
+  protected readonly area = signal<string>('');
+  protected readonly data = signal<BoardResponse | null>(null);
+  protected readonly error = signal<string | null>(null);
+  protected readonly history = signal<{ visit: VisitView; events: VisitEventView[] } | null>(null);
+  protected readonly busy = signal(false);
+
+  protected readonly title = computed(() => {
+    const start = DateTime.fromISO(this.from());
+    if (this.days() === 1) return start.toFormat('cccc d LLLL yyyy');
+    return `Week of ${start.startOf('week').toFormat('d LLLL yyyy')}`;
+  });
+
+  protected readonly columns = computed<Column[]>(() => {
+    const d = this.data();
+    if (!d) return [];
+    const dates = Array.from({ length: d.days }, (_, i) => DateTime.fromISO(d.from, { zone: d.timeZone }).plus({ days: i }));
+    return d.technicians.map((t) => ({
+      id: t.id,
+      tech: t,
+      days: dates.map((day) => {
+        const iso = day.toISODate()!;
+        const start = day.startOf('day').toMillis();
+        const end = day.endOf('day').toMillis();
+        return {
+          date: iso,
+          label: day.toFormat('ccc d LLL'),
+          visits: d.visits.filter((v) => v.technicianId === t.id && v.windowStart.slice(0, 10) === iso),
+          off: t.timeOff.some((o) => Date.parse(o.startsAt) < end && Date.parse(o.endsAt) > start),
+        };
+      }),
+    }));
+  });
+
+  constructor() {
+    void this.load();
+  }
+
+  protected async load(): Promise<void> {
+    this.error.set(null);
+    const from = this.days() === 7 ? DateTime.fromISO(this.from()).startOf('week').toISODate()! : this.from();
+    try {
+      this.data.set(
+        await this.api.board({
+          from,
+          days: this.days(),
+          technicianId: this.technicianId() || undefined,
+          kind: this.kind() || undefined,
+          area: this.area() || undefined,
+        }),
+      );
+    } catch (err) {
+      this.error.set(toApiError(err).message);
+    }
+  }
+
+  protected shift(step: number): void {
+    this.from.set(DateTime.fromISO(this.from()).plus({ days: step * this.days() }).toISODate()!);
+    void this.load();
+  }
+
+  protected today(): void {
+    this.from.set(DateTime.now().setZone('America/Chicago').toISODate()!);
+    void this.load();
+  }
+
+  protected setView(days: 1 | 7): void {
+    this.days.set(days);
+    void this.load();
+  }
+
+  protected dropId(techId: string | null, date?: string): string {
+    return techId ? `${techId}|${date}` : QUEUE;
+  }
+
+  protected time(iso: string): string {
+    return DateTime.fromISO(iso, { setZone: true }).toFormat('h:mm a');
+  }
+
+  protected nextStatuses(v: VisitView): VisitStatus[] {
+    return STATUS_TRANSITIONS[v.status].filter((s) => s !== 'requested');
+  }
+
+  protected eligible(v: VisitView): BoardTechnician[] {
+    return this.data()?.technicians.filter((t) => t.id !== v.technicianId || v.status === 'requested') ?? [];
+  }
+
+  /** A drop on a technician's day assigns; on another day it also moves the visit, keeping its clock time. */
+  protected async dropped(ev: CdkDragDrop<string, string, VisitView>): Promise<void> {
+    if (ev.previousContainer === ev.container) return;
+    const v = ev.item.data;
+    if (ev.container.data === QUEUE) return this.assign(v, null);
+    const [techId, date] = ev.container.data.split('|');
+    let startsAt: string | undefined;
+    if (date && v.startsAt.slice(0, 10) !== date) {
+      const s = DateTime.fromISO(v.startsAt, { setZone: true });
+      startsAt = DateTime.fromISO(date, { zone: this.data()!.timeZone }).set({ hour: s.hour, minute: s.minute }).toISO()!;
+    }
+    await this.assign(v, techId!, startsAt);
+  }
+
+  protected async assign(v: VisitView, techId: string | null, startsAt?: string): Promise<void> {
+    if (this.busy()) return;
+    this.busy.set(true);
+    try {
+      const done = await this.api.assign(v.id, techId, startsAt);
+      this.snack.open(techId ? `Assigned to ${done.technicianName}.` : 'Back in the unassigned queue.', 'OK', { duration: 4000 });
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
+    } finally {
+      this.busy.set(false);
+      await this.load();
+    }
+  }
+
+  protected async setStatus(v: VisitView, status: VisitStatus): Promise<void> {
+    try {
+      await this.api.setStatus(v.id, status);
+      this.snack.open(`Marked ${VISIT_STATUS_LABELS[status].toLowerCase()}.`, 'OK', { duration: 4000 });
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
+    }
+    await this.load();
+  }
+
+  protected async showHistory(v: VisitView): Promise<void> {
+    try {
+      this.history.set({ visit: v, events: await this.api.history(v.id) });
+    } catch (err) {
+      this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
+    }
+  }
+
+  protected stamp(iso: string): string {
+    return DateTime.fromISO(iso).setZone(this.data()?.timeZone ?? 'America/Chicago').toFormat('ccc d LLL, h:mm a');
+  }
+}

@@ -1,0 +1,54 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import type { VisitView } from '../../../../shared/schemas/booking';
+import { VISIT_REASON_LABELS } from '../../../../shared/visits';
+import { toApiError } from '../../core/api-errors';
+import { BookingApi } from './booking-api';
+import { VisitStatusMark } from './visit-status';
+
+/** The household's upcoming and recent visits, newest first. */
+@Component({
+  selector: 'sw-my-visits',
+  imports: [MatButtonModule, MatIconModule, RouterLink, VisitStatusMark],
+  template: `
+    <h1>Your visits</h1>
+    <a mat-flat-button routerLink="/portal/booking"><mat-icon svgIcon="add" aria-hidden="true" /> Request a visit</a>
+    @if (error(); as e) {
+      <p role="alert">{{ e }}</p>
+    }
+    <ul class="list">
+      @for (v of visits(); track v.id) {
+        <li>
+          <a [routerLink]="['/portal/booking/visits', v.id]">
+            <span class="title">{{ reasons[v.reason] }} · {{ v.windowLabel }}</span>
+            <sw-visit-status [status]="v.status" />
+          </a>
+        </li>
+      } @empty {
+        <li>No visits yet.</li>
+      }
+    </ul>
+  `,
+  styles: `
+    :host { display: block; max-width: 720px; margin: 0 auto; padding: 16px; }
+    .list { list-style: none; padding: 0; margin: 16px 0; display: flex; flex-direction: column; gap: 8px; }
+    .list a { display: flex; flex-direction: column; gap: 2px; padding: 12px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; color: inherit; text-decoration: none; }
+    .title { font-weight: 600; }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class MyVisits {
+  private readonly api = inject(BookingApi);
+  protected readonly reasons = VISIT_REASON_LABELS;
+  protected readonly visits = signal<VisitView[]>([]);
+  protected readonly error = signal<string | null>(null);
+
+  constructor() {
+    this.api.visits().then(
+      (v) => this.visits.set(v),
+      (err) => this.error.set(toApiError(err).message),
+    );
+  }
+}

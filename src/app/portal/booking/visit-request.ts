@@ -1,0 +1,199 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
+import { MatRadioModule } from '@angular/material/radio';
+import { MatStepperModule, type MatStepper } from '@angular/material/stepper';
+import { RouterLink } from '@angular/router';
+import {
+  EMERGENCY_SIGN_LABELS,
+  EMERGENCY_SIGNS,
+  SYMPTOMS,
+  URGENT_REASONS,
+  type ArrivalWindowView,
+  type BookingOptions,
+  type VisitView,
+} from '../../../../shared/schemas/booking';
+import { VISIT_REASON_LABELS, VISIT_REASONS, type VisitReason } from '../../../../shared/visits';
+import { toApiError } from '../../core/api-errors';
+import { BookingApi } from './booking-api';
+import { groupByDay } from './window-days';
+
+const REASON_ICONS: Record<VisitReason, string> = {
+  no_cooling: 'snowflake',
+  no_heat: 'flame',
+  tune_up: 'wrench',
+  noise: 'bell',
+  water_leak: 'warning',
+  thermostat: 'gauge',
+  other: 'info',
+};
+
+/** The visit request stepper: safety check first, then property, reason, details, window, review. */
+@Component({
+  selector: 'sw-visit-request',
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressSpinnerModule,
+    MatRadioModule,
+    MatStepperModule,
+  ],
+  templateUrl: './visit-request.html',
+  styleUrl: './visit-request.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class VisitRequest {
+  private readonly api = inject(BookingApi);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  /** Set by the office when booking for a caller on the phone. */
+  readonly customerId = input<string | undefined>(undefined);
+  readonly forCaller = input(false);
+
+  protected readonly signs = EMERGENCY_SIGNS.map((s) => ({ id: s, label: EMERGENCY_SIGN_LABELS[s] }));
+  protected readonly reasons = VISIT_REASONS.map((r) => ({ id: r, label: VISIT_REASON_LABELS[r], icon: REASON_ICONS[r], urgent: URGENT_REASONS.includes(r) }));
+
+  protected readonly options = signal<BookingOptions | null>(null);
+  protected readonly loadError = signal<string | null>(null);
+  protected readonly emergency = signal<'unknown' | 'yes' | 'no'>('unknown');
+  protected readonly windows = signal<ArrivalWindowView[]>([]);
+  protected readonly windowsLoading = signal(false);
+  protected readonly windowsNote = signal<string | null>(null);
+  protected readonly member = signal(false);
+  protected readonly promiseHours = signal<number | null>(null);
+  protected readonly filled = signal<string | null>(null);
+  protected readonly busy = signal(false);
+  protected readonly submitError = signal<string | null>(null);
+  protected readonly booked = signal<VisitView | null>(null);
+  protected readonly photos = signal<File[]>([]);
+
+  protected readonly propertyForm = this.fb.group({ propertyId: ['', Validators.required] });
+  protected readonly reasonForm = this.fb.group({ reason: this.fb.control<VisitReason | ''>('', Validators.required) });
+  protected readonly detailsForm = new FormGroup({
+    symptoms: new FormControl<string[]>([], { nonNullable: true }),
+    notes: new FormControl('', { nonNullable: true, validators: [Validators.maxLength(2000)] }),
+  });
+  protected readonly windowForm = this.fb.group({ windowStart: ['', Validators.required] });
+
+  private readonly reason = signal<VisitReason | ''>('');
+  private readonly propertyId = signal('');
+  protected readonly symptomChoices = computed(() => {
+    const r = this.reason();
+    return r ? SYMPTOMS[r] : [];
+  });
+  protected readonly days = computed(() => groupByDay(this.windows()));
+  protected readonly chosenProperty = computed(() => this.options()?.properties.find((p) => p.id === this.propertyId()) ?? null);
+  protected readonly chosenWindow = computed(() => this.windows().find((w) => w.start === this.windowForm.controls.windowStart.value) ?? null);
+  protected readonly reasonLabel = computed(() => {
+    const r = this.reason();
+    return r ? VISIT_REASON_LABELS[r] : '';
+  });
+
+  constructor() {
+    effect(() => {
+      const id = this.customerId();
+      untracked(() => void this.loadOptions(id));
+    });
+    this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => this.propertyId.set(v));
+    this.reasonForm.controls.reason.valueChanges.subscribe((v) => {
+      this.reason.set(v);
+      this.detailsForm.controls.symptoms.setValue([]);
+    });
+  }
+
+  private async loadOptions(customerId: string | undefined): Promise<void> {
+    this.loadError.set(null);
+    try {
+      const o = await this.api.options(customerId);
+      this.options.set(o);
+      if (o.properties.length === 1) this.propertyForm.controls.propertyId.setValue(o.properties[0]!.id);
+    } catch (err) {
+      this.loadError.set(toApiError(err).message);
+    }
+  }
+
+  protected answerEmergency(answer: 'yes' | 'no', stepper: MatStepper): void {
+    this.emergency.set(answer);
+    if (answer === 'no') setTimeout(() => stepper.next());
+  }
+
+  protected toggleSymptom(s: string, on: boolean): void {
+    const c = this.detailsForm.controls.symptoms;
+    c.setValue(on ? [...c.value, s] : c.value.filter((x) => x !== s));
+  }
+
+  protected pickPhotos(ev: Event): void {
+    const files = Array.from((ev.target as HTMLInputElement).files ?? []).slice(0, 6);
+    this.photos.set(files);
+  }
+
+  protected async loadWindows(from?: string): Promise<void> {
+    const propertyId = this.propertyId();
+    const reason = this.reason();
+    if (!propertyId || !reason) return;
+    this.windowsLoading.set(true);
+    this.windowsNote.set(null);
+    try {
+      const res = await this.api.windows({ propertyId, reason, from, days: 14 });
+      this.member.set(res.member);
+      this.promiseHours.set(res.priorityWindowHours);
+      this.windows.set(from ? [...this.windows(), ...res.windows.filter((w) => !this.windows().some((x) => x.start === w.start))] : res.windows);
+      if (!res.windows.length) this.windowsNote.set('No arrival windows are open in these two weeks. Please call us and we will find a time.');
+    } catch (err) {
+      this.windowsNote.set(toApiError(err).message);
+    } finally {
+      this.windowsLoading.set(false);
+    }
+  }
+
+  protected moreWindows(): void {
+    const last = this.windows().at(-1);
+    if (last) void this.loadWindows(last.start.slice(0, 10));
+  }
+
+  protected async confirm(stepper: MatStepper): Promise<void> {
+    const reason = this.reason();
+    if (!reason || this.busy()) return;
+    this.busy.set(true);
+    this.submitError.set(null);
+    this.filled.set(null);
+    try {
+      const photoIds = this.photos().length ? (await this.api.uploadPhotos(this.propertyId(), this.photos())).map((f) => f.id) : [];
+      const visit = await this.api.book({
+        propertyId: this.propertyId(),
+        reason,
+        symptoms: this.detailsForm.controls.symptoms.value,
+        notes: this.detailsForm.controls.notes.value,
+        photoIds,
+        windowStart: this.windowForm.controls.windowStart.value,
+        noEmergency: true,
+      });
+      this.booked.set(visit);
+    } catch (err) {
+      const e = toApiError(err);
+      if (e.code === 'window_full') {
+        // The answer carries the next free windows; a fresh list shows them with everything else still open.
+        this.filled.set(e.message);
+        this.windowForm.controls.windowStart.setValue('');
+        await this.loadWindows();
+        stepper.previous();
+      } else {
+        this.submitError.set(e.message);
+        if (e.fields['notes']) this.detailsForm.controls.notes.setErrors({ server: e.fields['notes'] });
+        if (e.fields['windowStart']) this.windowForm.controls.windowStart.setErrors({ server: e.fields['windowStart'] });
+      }
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
