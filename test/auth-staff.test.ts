@@ -127,7 +127,7 @@ describe('password attempts', () => {
       for (let i = 0; i < 5; i++) expect((await attempt(s.email, 'wrong-password-123', ip)).status).toBe(401);
       const slowed = await attempt(s.email, PASSWORD, ip);
       expect(slowed.status).toBe(429);
-      expect(slowed.body.error.message).toMatch(/wait 1 seconds/);
+      expect(slowed.body.error.message).toMatch(/wait 1 second and/);
       // Failures 6–10, each after the growing wait (1, 2, 4, 8, 16 s).
       for (const wait of [1, 2, 4, 8, 16]) {
         now += wait * 1000;

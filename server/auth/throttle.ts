@@ -23,7 +23,7 @@ export function delayAfter(failures: number): number {
 
 const tooMany = (ms: number) => {
   const seconds = Math.max(1, Math.ceil(ms / 1000));
-  const wait = seconds >= 120 ? `${Math.ceil(seconds / 60)} minutes` : `${seconds} seconds`;
+  const wait = seconds >= 120 ? `${Math.ceil(seconds / 60)} minutes` : seconds === 1 ? '1 second' : `${seconds} seconds`;
   return new AppError(429, 'too_many_attempts', `Too many sign-in attempts. Please wait ${wait} and try again.`);
 };
 
