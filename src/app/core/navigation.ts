@@ -9,14 +9,20 @@ export interface NavLink {
 // Navigation mirrors the server's access rules; the server still checks every request.
 const PORTAL: NavLink[] = [
   { label: 'My home', path: '/portal', icon: 'home' },
+  { label: 'My plan', path: '/portal/plan', icon: 'shield' },
+  { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
+  { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
 ];
-const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }];
+const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
+  { label: 'Renewals', path: '/office/renewals', icon: 'calendar' },
+  { label: 'Invoices', path: '/office/invoices', icon: 'receipt' },
+  { label: 'Dispatch', path: '/office/dispatch', icon: 'truck' },
   { label: 'Reminders', path: '/office/reminders', icon: 'bell' },
   { label: 'Invite household', path: '/office/invite', icon: 'mail' },
 ];
-const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }, { label: 'Staff', path: '/admin/staff', icon: 'people' }, { label: 'Access log', path: '/admin/audit', icon: 'shield' }];
+const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }, { label: 'Plans', path: '/admin/plans', icon: 'receipt' }, { label: 'Staff', path: '/admin/staff', icon: 'people' }, { label: 'Access log', path: '/admin/audit', icon: 'shield' }];
 
 export function navigationFor(role: Role | null): NavLink[] {
   switch (role) {

@@ -5,4 +5,5 @@ import { VisitPage } from './visit/visit-page';
 export const FIELD_ROUTES: Routes = [
   { path: '', component: TodayVisits, title: "Today's visits · Seasonwell" },
   { path: 'visits/:id', component: VisitPage, title: 'Visit · Seasonwell' },
+  { path: 'week', loadComponent: () => import('./schedule/week-schedule').then((m) => m.WeekSchedule), title: 'My week · Seasonwell' },
 ];

@@ -3,6 +3,11 @@ import { OfficeHome } from './office-home';
 
 export const OFFICE_ROUTES: Routes = [
   { path: '', component: OfficeHome, title: 'Office · Seasonwell' },
+  { path: 'renewals', loadComponent: () => import('./renewals/renewals').then((m) => m.Renewals), title: 'Renewals · Seasonwell' },
+  { path: 'invoices', loadComponent: () => import('./invoices/office-invoices').then((m) => m.OfficeInvoices), title: 'Invoices · Seasonwell' },
+  { path: 'invoices/:id', loadComponent: () => import('./invoices/office-invoice').then((m) => m.OfficeInvoice), title: 'Invoice · Seasonwell' },
   { path: 'invite', loadComponent: () => import('../core/auth/household-invite').then((m) => m.HouseholdInvite), title: 'Invite a household · Seasonwell' },
+  { path: 'dispatch', loadComponent: () => import('./dispatch/dispatch-board').then((m) => m.DispatchBoard), title: 'Dispatch · Seasonwell' },
+  { path: 'dispatch/book', loadComponent: () => import('./dispatch/caller-booking').then((m) => m.CallerBooking), title: 'Book for a caller · Seasonwell' },
   { path: 'reminders', loadComponent: () => import('./reminders/reminders').then((m) => m.Reminders), title: 'Reminders · Seasonwell' },
 ];

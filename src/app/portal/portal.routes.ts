@@ -4,5 +4,11 @@ import { PortalHome } from './portal-home';
 
 export const PORTAL_ROUTES: Routes = [
   { path: '', component: PortalHome, title: 'Your home · Seasonwell' },
+  { path: 'plan', loadComponent: () => import('./plan/my-plan').then((m) => m.MyPlan), title: 'My plan · Seasonwell' },
+  { path: 'invoices', loadComponent: () => import('./invoices/my-invoices').then((m) => m.MyInvoices), title: 'Invoices · Seasonwell' },
+  { path: 'invoices/:id', loadComponent: () => import('./invoices/invoice-detail').then((m) => m.InvoiceDetail), title: 'Invoice · Seasonwell' },
+  { path: 'booking', loadComponent: () => import('./booking/visit-request').then((m) => m.VisitRequest), title: 'Request a visit · Seasonwell' },
+  { path: 'booking/visits', loadComponent: () => import('./booking/my-visits').then((m) => m.MyVisits), title: 'Your visits · Seasonwell' },
+  { path: 'booking/visits/:id', loadComponent: () => import('./booking/visit-detail').then((m) => m.VisitDetail), title: 'Your visit · Seasonwell' },
   { path: 'visits/:id', loadComponent: () => import('./visit-summary/visit-summary').then((m) => m.VisitSummary), providers: [provideCharts(withDefaultRegisterables())], title: 'Visit summary · Seasonwell' },
 ];

@@ -54,9 +54,6 @@ export class DispatchBoard {
   private readonly snack = inject(MatSnackBar);
 
   protected readonly kinds = VISIT_KINDS.map((k) => ({ id: k, label: KIND_LABELS[k] }));
-  protected readonly kindLabels = KIND_LABELS;
-  protected readonly reasonLabels = VISIT_REASON_LABELS;
-  protected readonly statusLabels = VISIT_STATUS_LABELS;
 
   protected readonly from = signal(DateTime.now().setZone('America/Chicago').toISODate()!);
   protected readonly days = signal<1 | 7>(1);
@@ -192,6 +189,18 @@ export class DispatchBoard {
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
     }
+  }
+
+  protected reasonLabel(v: VisitView): string {
+    return VISIT_REASON_LABELS[v.reason];
+  }
+
+  protected kindLabel(v: VisitView): string {
+    return KIND_LABELS[v.kind];
+  }
+
+  protected statusLabel(s: string): string {
+    return VISIT_STATUS_LABELS[s as VisitStatus] ?? s;
   }
 
   protected stamp(iso: string): string {
