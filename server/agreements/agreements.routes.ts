@@ -4,14 +4,15 @@ import { autoRenewSchema, cancelAgreementSchema, changeTierSchema, enrollSchema,
 import type { AppDeps } from '../app';
 import { currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
-import { cancelAgreement, changeTier, enroll, manualRenewal, myAgreements, readAgreement, renewOnline, setAutoRenew, updateCard } from './agreements.service';
+import { cancelAgreement, changeTier, enroll, manualRenewal, myAgreements, myProperties, readAgreement, renewOnline, setAutoRenew, updateCard } from './agreements.service';
 
 const idParam = z.object({ id: z.uuid('That agreement was not found.') });
 
 export function agreementRoutes(deps: AppDeps): Router {
   const router = Router();
   router.get('/mine', requireRole('homeowner'), async (req, res) => {
-    res.json({ agreements: await myAgreements(deps, currentUser(req)) });
+    const user = currentUser(req);
+    res.json({ agreements: await myAgreements(deps, user), properties: await myProperties(deps, user) });
   });
   router.post('/enroll', requireRole('homeowner', 'office', 'owner'), async (req, res) => {
     res.status(201).json(await enroll(deps, currentUser(req), parse(enrollSchema, req.body)));

@@ -1,4 +1,4 @@
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray, isNull } from 'drizzle-orm';
 import type { InvoiceLine } from '../../shared/money';
 import { formatUsd } from '../../shared/money';
 import { addDays, daysBetween, DEFAULT_GRACE_DAYS, lapseDate, lastCoveredDay, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
@@ -100,7 +100,24 @@ export async function myAgreements(deps: AppDeps, user: SessionUser): Promise<Ag
   if (!user.customerId) return [];
   const rows = await db.select().from(agreements).where(eq(agreements.customerId, user.customerId)).orderBy(desc(agreements.createdAt));
   const t = await today(deps);
-  return Promise.all(rows.filter((r) => r.status !== 'pending' || true).map((r) => agreementView(deps, db, r, t)));
+  return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(deps, db, r, t)));
+}
+
+/** The household's homes, for choosing where a new agreement applies. */
+export async function myProperties(deps: AppDeps, user: SessionUser) {
+  if (!user.customerId) return [];
+  const { db } = deps.database;
+  const rows = await db.select().from(properties).where(and(eq(properties.customerId, user.customerId), isNull(properties.archivedAt)));
+  const held = await db
+    .select({ propertyId: agreements.propertyId })
+    .from(agreements)
+    .where(and(eq(agreements.customerId, user.customerId), inArray(agreements.status, ['active', 'renewal_due', 'past_due'])));
+  return rows.map((p) => ({
+    id: p.id,
+    label: p.label,
+    address: `${p.street}${p.unit ? ` ${p.unit}` : ''}, ${p.city}, ${p.state} ${p.zip}`,
+    covered: held.some((h) => h.propertyId === p.id),
+  }));
 }
 
 export async function readAgreement(deps: AppDeps, user: SessionUser, id: string): Promise<AgreementView> {

@@ -1,0 +1,72 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, inject, input, signal, effect } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { ActivatedRoute, Router, RouterLink } from '@angular/router';
+import { formatUsd } from '../../../../shared/money';
+import type { InvoiceView } from '../../../../shared/schemas/billing';
+import { toApiError } from '../../core/api-errors';
+import { InvoicesApi } from './invoices-api';
+import { InvoiceStatusBadge } from './invoice-status';
+
+/** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
+@Component({
+  selector: 'sw-invoice-detail',
+  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, InvoiceStatusBadge],
+  templateUrl: './invoice-detail.html',
+  styleUrl: './invoice-detail.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class InvoiceDetail {
+  private readonly api = inject(InvoicesApi);
+  private readonly route = inject(ActivatedRoute);
+  private readonly router = inject(Router);
+  readonly id = input.required<string>();
+  protected readonly usd = formatUsd;
+  protected readonly invoice = signal<InvoiceView | null>(null);
+  protected readonly error = signal<string | null>(null);
+  protected readonly notice = signal<string | null>(null);
+  protected readonly paying = signal(false);
+
+  constructor() {
+    effect(() => {
+      const id = this.id();
+      const checkout = this.route.snapshot.queryParamMap.get('checkout');
+      if (checkout?.startsWith('cs_')) {
+        this.api.checkoutReturn(checkout).subscribe({
+          next: (r) => {
+            this.notice.set(r.state === 'paid' ? 'Payment received. Thank you! A receipt is on its way to your e-mail.' : 'The payment was not completed. Nothing was charged.');
+            void this.router.navigate([], { queryParams: {}, replaceUrl: true });
+            this.load(id);
+          },
+          error: (e: unknown) => this.error.set(toApiError(e).message),
+        });
+      } else if (checkout === 'canceled') {
+        this.notice.set('Payment canceled. Nothing was charged.');
+      }
+      this.load(id);
+    });
+  }
+
+  private load(id: string) {
+    this.api.get(id).subscribe({ next: (v) => this.invoice.set(v), error: (e: unknown) => this.error.set(toApiError(e).message) });
+  }
+
+  protected pay() {
+    const inv = this.invoice();
+    if (!inv || this.paying()) return;
+    this.paying.set(true);
+    this.api.pay(inv.id).subscribe({
+      next: (r) => window.location.assign(r.checkoutUrl),
+      error: (e: unknown) => {
+        this.paying.set(false);
+        this.error.set(toApiError(e).message);
+      },
+    });
+  }
+
+  protected rate(bps: number) {
+    return (bps / 100).toLocaleString('en-US', { maximumFractionDigits: 3 });
+  }
+}

@@ -1,0 +1,54 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { MatListModule } from '@angular/material/list';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
+import { formatUsd } from '../../../../shared/money';
+import type { InvoiceSummary } from '../../../../shared/schemas/billing';
+import { toApiError } from '../../core/api-errors';
+import { InvoicesApi } from './invoices-api';
+import { InvoiceStatusBadge } from './invoice-status';
+
+const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_change: 'Plan change', service: 'Service' } as const;
+
+@Component({
+  selector: 'sw-my-invoices',
+  imports: [DatePipe, RouterLink, MatListModule, MatProgressBarModule, InvoiceStatusBadge],
+  template: `
+    <h1>Invoices</h1>
+    @if (loading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading invoices" /> }
+    @if (error()) { <p role="alert">{{ error() }}</p> }
+    @if (!loading() && rows().length === 0) { <p>No invoices yet.</p> }
+    <mat-nav-list aria-label="Invoices">
+      @for (r of rows(); track r.id) {
+        <a mat-list-item [routerLink]="['/portal/invoices', r.id]">
+          <span matListItemTitle>Invoice {{ r.number }} · {{ purpose[r.purpose] }} · {{ usd(r.totalCents) }}</span>
+          <span matListItemLine><sw-invoice-status [status]="r.status" /> · {{ r.issuedAt | date: 'mediumDate' }}@if (r.balanceCents) { · {{ usd(r.balanceCents) }} due }</span>
+        </a>
+      }
+    </mat-nav-list>
+  `,
+  styles: `:host { display: block; max-width: 760px; margin: 0 auto; padding: 16px; }`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class MyInvoices {
+  private readonly api = inject(InvoicesApi);
+  protected readonly usd = formatUsd;
+  protected readonly purpose = PURPOSE;
+  protected readonly rows = signal<InvoiceSummary[]>([]);
+  protected readonly loading = signal(true);
+  protected readonly error = signal<string | null>(null);
+
+  constructor() {
+    this.api.list().subscribe({
+      next: (r) => {
+        this.rows.set(r.rows);
+        this.loading.set(false);
+      },
+      error: (e: unknown) => {
+        this.error.set(toApiError(e).message);
+        this.loading.set(false);
+      },
+    });
+  }
+}
