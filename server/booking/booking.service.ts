@@ -170,6 +170,7 @@ async function engineInput(
   from: string | undefined,
   days: number,
   excludeVisitId?: string,
+  lookAheadDays = 0,
 ): Promise<EngineCall> {
   const company = await loadCompanySettings(db);
   const tz = company.timeZone;
@@ -177,10 +178,10 @@ async function engineInput(
   const start = from ? DateTime.fromISO(from, { zone: tz }) : nowLocal;
   const first = start < nowLocal.startOf('day') ? nowLocal : start;
   const last = first.plus({ days });
-  // Widened by a day each side (visits straddling midnight), and by the 14-day look-ahead for alternatives.
+  // Widened by a day each side (visits straddling midnight), plus any look-ahead the next free windows need.
   const data = await loadSchedulingData(
     db,
-    { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 15 }).toJSDate() },
+    { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 1 + lookAheadDays }).toJSDate() },
     { excludeVisitId },
   );
   const urgent = URGENT_REASONS.includes(reason);
@@ -237,7 +238,7 @@ async function lockDays(tx: Tx, instants: Date[], timeZone: string): Promise<voi
 
 async function alternativesAfter(db: Db | Tx, call: EngineCall, after: string, excludeVisitId?: string): Promise<ArrivalWindowView[]> {
   // Fresh read: the data inside the losing transaction may predate the winner.
-  const fresh = await engineInput(db, new Date(Date.parse(call.input.request.now)), call.property, call.reason, call.input.request.from, 14, excludeVisitId);
+  const fresh = await engineInput(db, new Date(Date.parse(call.input.request.now)), call.property, call.reason, call.input.request.from, 1, excludeVisitId, 15);
   return nextFreeWindows(fresh.input, { after, count: 3 }).map(windowView);
 }
 
@@ -261,11 +262,14 @@ export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output
       call = await engineInput(tx, now, property, body.reason, DateTime.fromJSDate(windowStart, { zone: company.timeZone }).toISODate()!, 1);
       let plan;
       try {
+        // A cheap one-day check first: planBooking would search two weeks ahead for alternatives inside the lock.
+        if (!availableWindows(call.input).some((w) => Date.parse(w.start) === Date.parse(body.windowStart))) throw new WindowFullError([]);
         plan = planBooking(call.input, body.windowStart);
       } catch (err) {
         engineError(err);
       }
-      if (!plan.ok) throw new WindowFullError(plan.alternatives.map(windowView));
+      // The next free windows are worked out after the lock is released, from a wider read.
+      if (!plan.ok) throw new WindowFullError([]);
       const [row] = await tx
         .insert(visits)
         .values({
@@ -297,7 +301,7 @@ export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output
       return row!.id;
     });
   } catch (err) {
-    if (isOverlap(err) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart));
+    if ((isOverlap(err) || err instanceof WindowFullError) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart));
     throw err;
   }
   const row = await loadVisitRow(db, id);
@@ -378,11 +382,13 @@ export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: stri
       call = await engineInput(tx, now, property, current.reason, DateTime.fromISO(body.windowStart, { zone: company.timeZone }).toISODate()!, 1, id);
       let plan;
       try {
+        // A cheap one-day check first: planBooking would search two weeks ahead for alternatives inside the lock.
+        if (!availableWindows(call.input).some((w) => Date.parse(w.start) === Date.parse(body.windowStart))) throw new WindowFullError([]);
         plan = planBooking(call.input, body.windowStart);
       } catch (err) {
         engineError(err);
       }
-      if (!plan.ok) throw new WindowFullError(plan.alternatives.map(windowView));
+      if (!plan.ok) throw new WindowFullError([]);
       await tx
         .update(visits)
         .set({
@@ -409,7 +415,7 @@ export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: stri
       });
     });
   } catch (err) {
-    if (isOverlap(err) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart, id));
+    if ((isOverlap(err) || err instanceof WindowFullError) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart, id));
     throw err;
   }
   const row = await loadVisitRow(db, id);
