@@ -1,4 +1,5 @@
 import { expect, test } from '@playwright/test';
+import sharp from 'sharp';
 import { DEMO, latestMail } from './support/env';
 
 test('a technician records a tune-up with an out-of-range reading and completes it; the homeowner sees the summary and chart', async ({ page, browser }) => {
@@ -36,6 +37,13 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await page.getByRole('button', { name: 'Save readings' }).click();
   await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
 
+  // A photo of what was found, filed against the visit.
+  const photo = await sharp({ create: { width: 80, height: 60, channels: 3, background: { r: 90, g: 110, b: 70 } } }).png().toBuffer();
+  await page.getByLabel('Caption').fill('Weak run capacitor');
+  await page.getByLabel('Take or add photos').setInputFiles({ name: 'capacitor.png', mimeType: 'image/png', buffer: photo });
+  await expect(page.getByText('1 photo added.')).toBeVisible();
+  await expect(page.getByRole('img', { name: 'Weak run capacitor' })).toBeVisible();
+
   const completedAt = Date.now();
   await page.getByLabel('Findings', { exact: true }).fill('Cleaned the condensate drain and tightened connections. Compressor run capacitor is weak.');
   await page.getByLabel('Recommendations', { exact: true }).fill('Replace the compressor run capacitor. Coil cleaning recommended.');
@@ -69,6 +77,8 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await expect(hp.getByText('Replace the compressor run capacitor. Coil cleaning recommended.')).toBeVisible();
   await expect(hp.getByText(/Cooling check: the air leaving your system is 20 °F cooler than the air going in, in the normal range\./)).toBeVisible();
   await expect(hp.getByText(/capacitor that helps the compressor start and run is outside the normal range/)).toBeVisible();
+
+  await expect(hp.getByRole('img', { name: 'Weak run capacitor' })).toBeVisible();
 
   await expect(hp.getByRole('heading', { name: 'Your system readings' })).toBeVisible();
   await expect(hp.getByRole('img', { name: /Temperature split over 1 visit; latest 20 °F/ })).toBeVisible();

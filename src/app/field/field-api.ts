@@ -13,6 +13,7 @@ import type {
   Troubleshooting,
   VisitNotes,
 } from '../../../shared/schemas/field';
+import type { StoredFile } from '../../../shared/schemas/customers';
 
 /** The technician's visit API. Writes are PUTs of the whole record, so a retry is always safe. */
 @Injectable({ providedIn: 'root' })
@@ -42,6 +43,16 @@ export class FieldApi {
 
   saveNotes(id: string, body: VisitNotes): Promise<VisitNotes> {
     return firstValueFrom(this.http.put<VisitNotes>(`${this.base}/${id}/notes`, body));
+  }
+
+  /** Photos go through the shared uploads API, filed against the visit. */
+  uploadPhotos(visitId: string, photos: File[], category: 'problem' | 'nameplate', caption: string): Promise<StoredFile[]> {
+    const form = new FormData();
+    form.append('visitId', visitId);
+    form.append('category', category);
+    if (caption) form.append('caption', caption);
+    for (const p of photos) form.append('files', p, p.name);
+    return firstValueFrom(this.http.post<StoredFile[]>('/api/files', form));
   }
 
   complete(id: string, body: CompleteVisit): Promise<CompletedVisit> {

@@ -233,6 +233,24 @@ export class VisitPage {
     }
   }
 
+  protected readonly photoCategory = new FormControl<'problem' | 'nameplate'>('problem', { nonNullable: true });
+  protected readonly photoCaption = new FormControl('', { nonNullable: true, validators: [Validators.maxLength(200)] });
+
+  protected async addPhotos(input: HTMLInputElement): Promise<void> {
+    const p = this.page();
+    const chosen = [...(input.files ?? [])];
+    if (!p || !chosen.length) return;
+    const ok = await this.run('photos', async () => {
+      const stored = await this.api.uploadPhotos(p.visit.id, chosen, this.photoCategory.value, this.photoCaption.value.trim());
+      const current = this.page()!;
+      this.page.set({ ...current, photos: [...current.photos, ...stored.filter((s) => s.contentType.startsWith('image/'))] });
+    }, `${chosen.length} photo${chosen.length === 1 ? '' : 's'} added.`);
+    if (ok) {
+      input.value = '';
+      this.photoCaption.setValue('');
+    }
+  }
+
   protected onReadingsSaved(saved: SavedReadings): void {
     const p = this.page();
     if (!p) return;
