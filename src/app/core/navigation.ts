@@ -8,7 +8,7 @@ export interface NavLink {
 
 // Navigation mirrors the server's access rules; the server still checks every request.
 const PORTAL: NavLink[] = [
-  { label: 'My home', path: '/portal', icon: 'home' },
+  { label: 'My home', path: '/portal/home', icon: 'home' },
   { label: 'My plan', path: '/portal/plan', icon: 'shield' },
   { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
   { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
@@ -16,6 +16,7 @@ const PORTAL: NavLink[] = [
 const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
+  { label: 'Households', path: '/office/customers', icon: 'people' },
   { label: 'Renewals', path: '/office/renewals', icon: 'calendar' },
   { label: 'Invoices', path: '/office/invoices', icon: 'receipt' },
   { label: 'Dispatch', path: '/office/dispatch', icon: 'truck' },

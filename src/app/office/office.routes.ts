@@ -10,4 +10,8 @@ export const OFFICE_ROUTES: Routes = [
   { path: 'dispatch', loadComponent: () => import('./dispatch/dispatch-board').then((m) => m.DispatchBoard), title: 'Dispatch · Seasonwell' },
   { path: 'dispatch/book', loadComponent: () => import('./dispatch/caller-booking').then((m) => m.CallerBooking), title: 'Book for a caller · Seasonwell' },
   { path: 'reminders', loadComponent: () => import('./reminders/reminders').then((m) => m.Reminders), title: 'Reminders · Seasonwell' },
+  { path: 'customers', loadComponent: () => import('./customers/customer-list').then((m) => m.CustomerList), title: 'Households · Seasonwell' },
+  { path: 'customers/new', loadComponent: () => import('./customers/customer-form').then((m) => m.CustomerForm), title: 'New household · Seasonwell' },
+  { path: 'customers/:id', loadComponent: () => import('./customers/customer-page').then((m) => m.CustomerPage), title: 'Household · Seasonwell' },
+  { path: 'imports', loadComponent: () => import('./imports/customer-import').then((m) => m.CustomerImport), title: 'Import households · Seasonwell' },
 ];

@@ -11,4 +11,5 @@ export const PORTAL_ROUTES: Routes = [
   { path: 'booking/visits', loadComponent: () => import('./booking/my-visits').then((m) => m.MyVisits), title: 'Your visits · Seasonwell' },
   { path: 'booking/visits/:id', loadComponent: () => import('./booking/visit-detail').then((m) => m.VisitDetail), title: 'Your visit · Seasonwell' },
   { path: 'visits/:id', loadComponent: () => import('./visit-summary/visit-summary').then((m) => m.VisitSummary), providers: [provideCharts(withDefaultRegisterables())], title: 'Visit summary · Seasonwell' },
+  { path: 'home', loadComponent: () => import('./home/my-home').then((m) => m.MyHome), providers: [provideCharts(withDefaultRegisterables())], title: 'My home · Seasonwell' },
 ];

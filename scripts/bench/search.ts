@@ -1,0 +1,133 @@
+// Customer search over 100,000 generated households: median and p95 of GET /api/customers?q=…
+// with the trigram index, then the same requests with the index dropped, and the ratio.
+// Run through `npm run bench` (scripts/bench.mjs gives a fresh migrated database).
+import { hash } from '@node-rs/argon2';
+import { performance } from 'node:perf_hooks';
+import { pino } from 'pino';
+import { createApp } from '../../server/app';
+import { loadConfig } from '../../server/config';
+import { createDatabase } from '../../server/db/client';
+import { signInStaff } from '../../test/support/auth';
+
+const URL_ = process.env.BENCH_DATABASE_URL;
+if (!URL_) throw new Error('BENCH_DATABASE_URL is not set; run this through npm run bench');
+const N = Number(process.env.BENCH_CUSTOMERS ?? 100_000);
+const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 300);
+const PASSWORD = 'bench-office-password-2026';
+
+const database = createDatabase(URL_, 4);
+const { pool } = database;
+const q = (text: string) => pool.query(text);
+
+async function generate() {
+  const t0 = performance.now();
+  await q(`insert into company (name, phone, email, street, city, state, zip, business_hours)
+           values ('Bench Heating', '+18165550100', 'bench@example.test', '1 Main St', 'Larkspur Bend', 'MO', '64790', '{}'::jsonb)
+           on conflict do nothing`);
+  await q(`insert into users (email, name, role, password_hash) values ('bench.office@example.test', 'Bench Office', 'office', '${await hash(PASSWORD)}')`);
+  // Bulk load without per-row triggers or index upkeep; both are rebuilt once afterwards.
+  await q(`drop index if exists customers_search_trgm_idx`);
+  await q(`alter table customers disable trigger user`);
+  await q(`alter table properties disable trigger user`);
+  // Invented names from syllables: 40 x 40 surnames, 30 given names, 60 street names.
+  await q(`
+    with s as (
+      select array['ash','bram','cor','dun','el','fen','gal','har','ivy','jor','kel','lin','mor','nor','ol','pem','quin','ros','sel','tor',
+                   'ul','van','wex','yar','zel','brin','cal','dor','ev','fal','gre','hol','isl','jes','kest','lor','mar','ned','orr','pry'] as a,
+             array['wood','stead','croft','more','ley','ton','brook','field','well','ridge','hurst','by','wick','ford','gate','holm',
+                   'dale','mere','thorne','worth','shaw','cote','den','fold','garth','haven','ing','lake','mont','port','rick','side',
+                   'stone','vale','wyn','bury','combe','hill','land','mark'] as b,
+             array['Avery','Blair','Corin','Delia','Emmett','Farrah','Gideon','Harlow','Ines','Jasper','Kenna','Lionel','Maren','Nico',
+                   'Odette','Percy','Quilla','Rafe','Selma','Tobias','Ulla','Vaughn','Wren','Yusuf','Zora','Aldo','Bea','Cyrus','Dov','Esme'] as f,
+             array['Sorghum','Meadowlark','Old Mill','Bluff View','Cottonwood','Prairie Smoke','Kestrel','Tallgrass','Hickory','Limestone',
+                   'Switchgrass','Quarry Hill','Sumac','Bur Oak','Redbud','Sycamore','Pawpaw','Chinkapin','Ironweed','Coneflower',
+                   'Foxtail','Bluestem','Sideoats','Indiangrass','Wild Plum','Chokecherry','Elderberry','Persimmon','Hackberry','Osage',
+                   'Ridgeway','Hollow Creek','Stony Point','Millrace','Ferry','Granary','Depot','Orchard','Vineyard','Spring Branch',
+                   'Heron','Plover','Bobwhite','Dickcissel','Bunting','Kingbird','Swallow','Nuthatch','Thrasher','Vireo',
+                   'Basswood','Buckeye','Catalpa','Hawthorn','Linden','Locust','Mulberry','Tupelo','Willow','Yellowwood'] as st,
+             array['Street','Avenue','Drive','Road','Lane','Court','Way','Circle','Terrace','Place'] as sfx
+    ), g as (
+      select i, s.*, initcap(a[1 + (i * 7) % 40] || b[1 + (i / 40) % 40]) as last, f[1 + (i / 1600) % 30] as first from s, generate_series(1, ${N}) as i
+    )
+    insert into customers (name, email, phone, created_at)
+    select first || ' ' || last, lower(first || '.' || last || '.' || i || '@example.test'),
+           '+1816' || lpad(((2000000 + i * 37) % 8000000 + 2000000)::text, 7, '0'),
+           now() - (i || ' minutes')::interval
+    from g`);
+  await q(`
+    with s as (select array['Sorghum','Meadowlark','Old Mill','Bluff View','Cottonwood','Prairie Smoke','Kestrel','Tallgrass','Hickory','Limestone',
+                   'Switchgrass','Quarry Hill','Sumac','Bur Oak','Redbud','Sycamore','Pawpaw','Chinkapin','Ironweed','Coneflower',
+                   'Foxtail','Bluestem','Sideoats','Indiangrass','Wild Plum','Chokecherry','Elderberry','Persimmon','Hackberry','Osage',
+                   'Ridgeway','Hollow Creek','Stony Point','Millrace','Ferry','Granary','Depot','Orchard','Vineyard','Spring Branch',
+                   'Heron','Plover','Bobwhite','Dickcissel','Bunting','Kingbird','Swallow','Nuthatch','Thrasher','Vireo',
+                   'Basswood','Buckeye','Catalpa','Hawthorn','Linden','Locust','Mulberry','Tupelo','Willow','Yellowwood'] as st,
+             array['Street','Avenue','Drive','Road','Lane','Court','Way','Circle','Terrace','Place'] as sfx)
+    insert into properties (customer_id, street, city, state, zip)
+    select c.id, (100 + (row_number() over (order by c.id)) % 9800) || ' ' || st[1 + (abs(hashtext(c.id::text)) % 60)] || ' ' || sfx[1 + (abs(hashtext(c.email)) % 10)],
+           'Larkspur Bend', 'MO', case when abs(hashtext(c.name)) % 2 = 0 then '64790' else '64791' end
+    from customers c, s`);
+  await q(`alter table customers enable trigger user`);
+  await q(`alter table properties enable trigger user`);
+  await q(`update customers c set search_text = customers_search_doc(c.id, c.name, c.email, c.phone)`);
+  const t1 = performance.now();
+  await q(`create index customers_search_trgm_idx on customers using gin (search_text gin_trgm_ops)`);
+  await q(`vacuum analyze customers`);
+  await q(`vacuum analyze properties`);
+  const t2 = performance.now();
+  console.log(`generated ${N} households with a property each in ${((t1 - t0) / 1000).toFixed(1)} s; trigram index built in ${((t2 - t1) / 1000).toFixed(1)} s`);
+}
+
+/** What people type: part of a surname, an e-mail, a phone number with punctuation, a street. */
+async function searchTerms(): Promise<string[]> {
+  const res = await pool.query<{ name: string; email: string; phone: string; street: string }>(
+    `select c.name, c.email, c.phone, p.street from customers c join properties p on p.customer_id = c.id order by c.id limit 25 offset 1000`,
+  );
+  const terms: string[] = [];
+  for (const r of res.rows) {
+    const last = r.name.split(' ')[1]!;
+    terms.push(last.slice(0, 6).toLowerCase());
+    terms.push(r.email.split('@')[0]!);
+    terms.push(`(${r.phone.slice(2, 5)}) ${r.phone.slice(5, 8)}-${r.phone.slice(8)}`);
+    terms.push(r.street.split(' ').slice(0, 2).join(' '));
+  }
+  return terms;
+}
+
+function stats(ms: number[]) {
+  const s = [...ms].sort((a, b) => a - b);
+  const at = (p: number) => s[Math.min(s.length - 1, Math.ceil(p * s.length) - 1)]!;
+  return { median: at(0.5), p95: at(0.95) };
+}
+
+async function measure(label: string, agent: Awaited<ReturnType<typeof signInStaff>>['agent'], terms: string[]) {
+  for (const t of terms.slice(0, 10)) await agent.get('/api/customers').query({ q: t }).expect(200);
+  const times: number[] = [];
+  let hits = 0;
+  for (let i = 0; i < REQUESTS; i++) {
+    const t = terms[i % terms.length]!;
+    const start = performance.now();
+    const res = await agent.get('/api/customers').query({ q: t, pageSize: 25 });
+    times.push(performance.now() - start);
+    if (res.status !== 200) throw new Error(`search for ${t} answered ${res.status}`);
+    if (res.body.total > 0) hits++;
+  }
+  const s = stats(times);
+  console.log(`${label.padEnd(24)} median ${s.median.toFixed(1).padStart(7)} ms   p95 ${s.p95.toFixed(1).padStart(7)} ms   (${REQUESTS} requests, ${hits} with matches)`);
+  return s;
+}
+
+try {
+  await generate();
+  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: URL_, LOG_LEVEL: 'silent' });
+  const app = createApp({ config, database, clock: () => new Date(), logger: pino({ level: 'silent' }), services: {} });
+  const { agent } = await signInStaff(app, 'bench.office@example.test', PASSWORD);
+  const terms = await searchTerms();
+  const withIndex = await measure('with trigram index', agent, terms);
+  await q(`drop index customers_search_trgm_idx`);
+  await q(`analyze customers`);
+  const without = await measure('without the index', agent, terms);
+  await q(`create index customers_search_trgm_idx on customers using gin (search_text gin_trgm_ops)`);
+  console.log(`without / with: median ${(without.median / withIndex.median).toFixed(1)}x, p95 ${(without.p95 / withIndex.p95).toFixed(1)}x`);
+} finally {
+  await database.close();
+}

@@ -1,0 +1,83 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
+import { customerCreateSchema, toE164, US_STATES } from '../../../../shared/schemas/customers';
+import { applyServerErrors, serverError } from './field-errors';
+import { CustomersApi } from './customers-api';
+
+/** New household with its first property. The shared schema checks here and again on the server. */
+@Component({
+  selector: 'sw-customer-form',
+  imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
+  templateUrl: './customer-form.html',
+  styles: `
+    :host { display: block; padding: 16px; max-width: 760px; margin: 0 auto; }
+    form { display: grid; gap: 4px 12px; grid-template-columns: repeat(auto-fit, minmax(220px, 1fr)); }
+    h2, .wide, .buttons, .error { grid-column: 1 / -1; }
+    .buttons { display: flex; gap: 8px; margin-top: 8px; }
+    .error { color: var(--mat-sys-error); display: flex; gap: 6px; align-items: center; }
+  `,
+  host: { class: 'sw-dense' },
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class CustomerForm {
+  private readonly api = inject(CustomersApi);
+  private readonly router = inject(Router);
+  private readonly snack = inject(MatSnackBar);
+  protected readonly states = US_STATES;
+  protected readonly saving = signal(false);
+  protected readonly error = signal<string | null>(null);
+  protected readonly serverError = serverError;
+  protected readonly phonePreview = signal<string | null>(null);
+
+  protected readonly form = new FormGroup({
+    name: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.maxLength(120)] }),
+    email: new FormControl('', { nonNullable: true, validators: [Validators.email] }),
+    phone: new FormControl('', { nonNullable: true }),
+    notes: new FormControl('', { nonNullable: true }),
+    property: new FormGroup({
+      label: new FormControl('Home', { nonNullable: true }),
+      street: new FormControl('', { nonNullable: true, validators: [Validators.required] }),
+      unit: new FormControl('', { nonNullable: true }),
+      city: new FormControl('', { nonNullable: true, validators: [Validators.required] }),
+      state: new FormControl('MO', { nonNullable: true, validators: [Validators.required] }),
+      zip: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.pattern(/^[0-9]{5}(-[0-9]{4})?$/)] }),
+      accessNotes: new FormControl('', { nonNullable: true }),
+    }),
+  });
+
+  constructor() {
+    this.form.controls.phone.valueChanges.subscribe((v) => this.phonePreview.set(v.trim() ? toE164(v) : null));
+  }
+
+  protected async save(): Promise<void> {
+    this.error.set(null);
+    const value = this.form.getRawValue();
+    // Same schema as the server: errors show at once, under their fields.
+    const check = customerCreateSchema.safeParse(value);
+    if (!check.success) {
+      for (const issue of check.error.issues) {
+        const c = this.form.get(issue.path.join('.'));
+        c?.setErrors({ server: issue.message });
+        c?.markAsTouched();
+      }
+      return;
+    }
+    this.saving.set(true);
+    try {
+      const { id } = await this.api.create(value);
+      this.snack.open('Household added.', 'OK', { duration: 3000 });
+      await this.router.navigate(['/office/customers', id]);
+    } catch (err) {
+      this.error.set(applyServerErrors(this.form, err));
+    } finally {
+      this.saving.set(false);
+    }
+  }
+}

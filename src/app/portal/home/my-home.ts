@@ -1,0 +1,113 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import type { MyHome as MyHomeData, Property } from '../../../../shared/schemas/customers';
+import type { Equipment } from '../../../../shared/schemas/equipment';
+import { ApiError, toApiError } from '../../core/api-errors';
+import { FileUpload } from '../../ui/upload/file-upload';
+import { ReadingsChart } from '../readings-chart/readings-chart';
+import { MyHomeApi } from './my-home-api';
+
+const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
+const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
+
+/** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
+@Component({
+  selector: 'sw-my-home',
+  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, FileUpload, ReadingsChart],
+  templateUrl: './my-home.html',
+  styleUrl: './my-home.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class MyHome {
+  private readonly api = inject(MyHomeApi);
+  private readonly snack = inject(MatSnackBar);
+  protected readonly home = signal<MyHomeData | null>(null);
+  protected readonly error = signal<string | null>(null);
+  protected readonly editingContact = signal(false);
+  protected readonly editingDoor = signal<string | null>(null);
+  protected readonly saving = signal(false);
+  protected readonly lifeIcon = LIFE_ICON;
+  protected readonly warrantyIcon = WARRANTY_ICON;
+  protected readonly photos = computed(() => (this.home()?.files ?? []).filter((f) => f.contentType.startsWith('image/')));
+  protected readonly documents = computed(() => (this.home()?.files ?? []).filter((f) => f.contentType === 'application/pdf'));
+  protected readonly history = computed(() => (this.home()?.visits ?? []).filter((v) => v.status === 'done'));
+  protected readonly upcoming = computed(() => (this.home()?.visits ?? []).filter((v) => v.status !== 'done' && v.status !== 'no_show'));
+
+  protected readonly contact = new FormGroup({
+    name: new FormControl('', { nonNullable: true }),
+    email: new FormControl('', { nonNullable: true }),
+    phone: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly door = new FormGroup({
+    accessNotes: new FormControl('', { nonNullable: true }),
+    gateCode: new FormControl('', { nonNullable: true }),
+    pets: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly note = new FormControl('', { nonNullable: true });
+  protected readonly contactErrors = signal<Record<string, string>>({});
+  protected readonly doorErrors = signal<Record<string, string>>({});
+
+  constructor() {
+    void this.load();
+  }
+
+  protected async load(): Promise<void> {
+    try {
+      this.home.set(await this.api.load());
+    } catch (err) {
+      this.error.set(toApiError(err).message);
+    }
+  }
+
+  protected startContact(): void {
+    const h = this.home()?.household;
+    if (!h) return;
+    this.contact.setValue({ name: h.name, email: h.email ?? '', phone: h.phone ?? '' });
+    this.contactErrors.set({});
+    this.editingContact.set(true);
+  }
+
+  protected async saveContact(): Promise<void> {
+    this.saving.set(true);
+    try {
+      const household = await this.api.updateContact(this.contact.getRawValue());
+      this.home.update((h) => (h ? { ...h, household } : h));
+      this.editingContact.set(false);
+      this.snack.open('Contact details saved.', 'OK', { duration: 3000 });
+    } catch (err) {
+      this.contactErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  protected startDoor(p: Property): void {
+    this.door.setValue({ accessNotes: p.accessNotes, gateCode: p.gateCode, pets: p.pets });
+    this.doorErrors.set({});
+    this.editingDoor.set(p.id);
+  }
+
+  protected async saveDoor(p: Property): Promise<void> {
+    this.saving.set(true);
+    try {
+      await this.api.updateAccess(p.id, this.door.getRawValue());
+      const text = this.note.value.trim();
+      if (text) await this.api.addNote(p.id, text);
+      this.note.reset();
+      this.editingDoor.set(null);
+      this.snack.open('Saved. Your technician will see this before the visit.', 'OK', { duration: 4000 });
+      await this.load();
+    } catch (err) {
+      this.doorErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+    } finally {
+      this.saving.set(false);
+    }
+  }
+}
