@@ -1,0 +1,73 @@
+import { expect, test, type Page } from '@playwright/test';
+import { DEMO, latestMail, STRIPE_URL } from './support/env';
+
+// Dana's Priority Comfort agreement ends in 20 days (demo data): the renewal window is open.
+test.describe.configure({ mode: 'serial' });
+
+const nextYear = String((new Date().getFullYear() + 2) % 100).padStart(2, '0');
+
+async function signInAsDana(page: Page) {
+  await page.goto('/sign-in');
+  const asked = Date.now();
+  await page.getByLabel('E-mail address').fill(DEMO.homeownerA);
+  await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
+  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 });
+  const link = mail.links.find((l) => l.includes('/sign-in/confirm?token='));
+  expect(link, 'the e-mail carries a sign-in link').toBeTruthy();
+  await page.goto(link!);
+  await page.getByRole('button', { name: 'Sign me in' }).click();
+  await expect(page).toHaveURL(/\/portal/);
+  await page.getByRole('link', { name: 'My plan' }).first().click();
+  await expect(page).toHaveURL(/\/portal\/plan$/);
+}
+
+async function payOnHostedPage(page: Page, card: string) {
+  await expect(page).toHaveURL(new RegExp(`^${STRIPE_URL.replace(/[.]/g, '\\.')}/checkout/cs_`));
+  await page.getByLabel('Card number').fill(card);
+  await page.getByLabel('Expiry (MM/YY)').fill(`12/${nextYear}`);
+  await page.getByLabel('CVC').fill('123');
+  await page.getByRole('button', { name: 'Pay' }).click();
+}
+
+const coveredThrough = (page: Page) => page.getByTestId('covered-through').first();
+
+test('a declined card shows a clear message and leaves the agreement as it was', async ({ page }) => {
+  await signInAsDana(page);
+  await expect(page.getByText('Renewal due')).toBeVisible();
+  const before = (await coveredThrough(page).textContent())!.trim();
+
+  await page.getByRole('button', { name: 'Renew' }).click();
+  // 4000 0000 0000 0002: Stripe's documented generic decline test card
+  await payOnHostedPage(page, '4000 0000 0000 0002');
+  await expect(page.getByRole('alert')).toContainText('Your card was declined.');
+  await page.getByRole('link', { name: 'Cancel' }).click();
+
+  await expect(page.getByRole('status')).toContainText('Nothing was charged and your agreement is unchanged');
+  await expect(page.getByText('Renewal due')).toBeVisible();
+  await expect(coveredThrough(page)).toHaveText(before);
+});
+
+test('renewing online with 4242 extends the agreement a year and e-mails the receipt', async ({ page }) => {
+  await signInAsDana(page);
+  const before = (await coveredThrough(page).textContent())!.trim();
+  const year = Number(/(\d{4})$/.exec(before)![1]);
+  const paidAt = Date.now();
+
+  await page.getByRole('button', { name: 'Renew' }).click();
+  // 4242 4242 4242 4242: Stripe's documented test card that succeeds
+  await payOnHostedPage(page, '4242 4242 4242 4242');
+
+  await expect(page).toHaveURL(/\/portal\/plan/);
+  await expect(page.getByRole('status')).toContainText('Payment received');
+  // A 12-month term: the last covered day moves to the same date next year (shared/renewals.ts termEnd).
+  await expect(coveredThrough(page)).toHaveText(before.replace(String(year), String(year + 1)));
+  await expect(page.getByText('Active', { exact: true })).toBeVisible();
+  await expect(page.getByRole('button', { name: 'Renew' })).toHaveCount(0);
+
+  const receipt = await latestMail(DEMO.homeownerA, { after: paidAt });
+  expect(receipt.subject).toMatch(/^Receipt for invoice \d+/);
+  expect(receipt.attachments.some((a) => a.contentType === 'application/pdf')).toBe(true);
+
+  await page.getByRole('link', { name: 'Invoices' }).first().click();
+  await expect(page.getByRole('link', { name: /Plan renewal/ })).toBeVisible();
+});
