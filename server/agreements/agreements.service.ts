@@ -9,7 +9,7 @@ import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
-import { ensureStripeCustomer, insertInvoice, invoiceView, recordOfflinePayment, startInvoiceCheckout, stripeOf } from '../billing/billing.service';
+import { ensureStripeCustomer, insertInvoice, invoiceView, providerError, recordOfflinePayment, startInvoiceCheckout, stripeOf } from '../billing/billing.service';
 import { companySettings, localDate } from '../billing/today';
 import { currentVersion, planViewOf } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from './terms';
@@ -280,6 +280,14 @@ export async function updateCard(deps: AppDeps, user: SessionUser, id: string): 
 }
 
 async function startCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
+  try {
+    return await openCardSetup(deps, a, enableAutoRenew);
+  } catch (e) {
+    throw providerError(e);
+  }
+}
+
+async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
   const customer = await ensureStripeCustomer(deps, a.customerId);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const metadata = { agreementId: a.id, enableAutoRenew: String(enableAutoRenew) };
