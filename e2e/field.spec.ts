@@ -85,3 +85,42 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await expect(hp.getByRole('cell', { name: '16–22' })).toBeVisible();
   await home.close();
 });
+
+test('readings typed on a no-cooling call survive a reload and a dropped signal until the server has them', async ({ page, context }) => {
+  await page.setViewportSize({ width: 360, height: 740 });
+  await page.goto('/staff/sign-in');
+  await page.getByLabel('E-mail address').fill(DEMO.technician);
+  await page.getByLabel('Password').fill(DEMO.staffPassword);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await page.getByRole('link', { name: /No cooling, Oduya household/ }).click();
+  await expect(page.getByRole('heading', { name: 'No cooling: troubleshooting' })).toBeVisible();
+
+  await page.getByRole('button', { name: 'On my way' }).click();
+  await expect(page.getByText('Status: On the way.')).toBeVisible();
+
+  // The structured record of the call.
+  await page.getByRole('radiogroup', { name: 'Did a condensate overflow switch trip?' }).getByText('Yes').click();
+  await page.getByLabel('Cause found').fill('Clogged condensate line tripped the overflow switch.');
+  await page.getByRole('button', { name: 'Save troubleshooting' }).click();
+  await expect(page.getByText('Troubleshooting saved.')).toBeVisible();
+
+  await page.getByLabel('Control voltage R–C').fill('18');
+  await expect(page.getByRole('list', { name: 'Electrical results' }).getByText('Out of range')).toBeVisible();
+
+  // Not saved yet: a reload keeps it on the phone.
+  await page.reload();
+  await expect(page.getByText('Unsaved readings restored from this phone.')).toBeVisible();
+  await expect(page.getByLabel('Control voltage R–C')).toHaveValue('18');
+
+  // The signal drops mid-save: the readings stay on the phone and go when it is back.
+  await context.setOffline(true);
+  await page.getByRole('button', { name: 'Save readings' }).click();
+  await expect(page.getByText(/No connection: the readings are kept on this phone/)).toBeVisible();
+  await context.setOffline(false);
+  await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
+
+  await page.reload();
+  await expect(page.getByLabel('Control voltage R–C')).toHaveValue('18');
+  await expect(page.getByText('Unsaved readings restored from this phone.')).toHaveCount(0);
+  await expect(page.getByLabel('Cause found')).toHaveValue('Clogged condensate line tripped the overflow switch.');
+});

@@ -45,6 +45,11 @@ export class FieldApi {
     return firstValueFrom(this.http.put<VisitNotes>(`${this.base}/${id}/notes`, body));
   }
 
+  /** Status changes go through dispatch, which keeps the history and tells the homeowner. */
+  setStatus(visitId: string, status: 'on_the_way' | 'on_site'): Promise<unknown> {
+    return firstValueFrom(this.http.post(`/api/dispatch/visits/${visitId}/status`, { status }));
+  }
+
   /** Photos go through the shared uploads API, filed against the visit. */
   uploadPhotos(visitId: string, photos: File[], category: 'problem' | 'nameplate', caption: string): Promise<StoredFile[]> {
     const form = new FormData();

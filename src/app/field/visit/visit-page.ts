@@ -251,6 +251,21 @@ export class VisitPage {
     }
   }
 
+  protected readonly nextStep = computed(() => {
+    const s = this.page()?.visit.status;
+    if (s === 'scheduled') return { status: 'on_the_way' as const, label: 'On my way', done: 'On the way' };
+    if (s === 'on_the_way') return { status: 'on_site' as const, label: 'Arrived on site', done: 'On site' };
+    return null;
+  });
+
+  protected async advance(): Promise<void> {
+    const p = this.page();
+    const step = this.nextStep();
+    if (!p || !step) return;
+    const ok = await this.run('status', () => this.api.setStatus(p.visit.id, step.status), `Status: ${step.done}.`);
+    if (ok) this.page.set({ ...this.page()!, visit: { ...this.page()!.visit, status: step.status, statusLabel: step.done } });
+  }
+
   protected onReadingsSaved(saved: SavedReadings): void {
     const p = this.page();
     if (!p) return;
