@@ -1,10 +1,10 @@
 import { and, asc, desc, eq, isNull } from 'drizzle-orm';
-import type { HomeAccess, HomeContact, MyHome, Note } from '../../shared/schemas/customers';
+import { homeAccessSchema, type HomeContact, type MyHome, type Note } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
-import { AppError, notFound } from '../http/errors';
+import { AppError, notFound, parse } from '../http/errors';
 import { getCustomer, toFile, toProperty, updateCustomer } from './customers.service';
 import { companyToday } from './today';
 
@@ -67,8 +67,10 @@ async function ownProperty(db: Db, user: SessionUser, propertyId: string) {
   return p;
 }
 
-export async function updateMyAccess(db: Db, user: SessionUser, propertyId: string, input: HomeAccess) {
+/** Ownership first, then the body: another household's home answers 404 whatever is sent. */
+export async function updateMyAccess(db: Db, user: SessionUser, propertyId: string, body: unknown) {
   await ownProperty(db, user, propertyId);
+  const input = parse(homeAccessSchema, body);
   const [row] = await db.update(properties).set(input).where(eq(properties.id, propertyId)).returning();
   return toProperty(row!);
 }

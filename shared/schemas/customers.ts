@@ -89,7 +89,22 @@ export const propertyInputSchema = z.object({
   pets: z.preprocess(blankToUndefined, text('Pets', 200).default('')),
 });
 export type PropertyInput = z.infer<typeof propertyInputSchema>;
-export const propertyUpdateSchema = propertyInputSchema.partial();
+// No defaults on update: a field left out keeps its value.
+export const propertyUpdateSchema = z
+  .object({
+    label: text('Label', 60).min(1, 'Give the property a label, like Home.'),
+    street: propertyInputSchema.shape.street,
+    unit: z.preprocess(blankToNull, text('Unit', 30).nullable()),
+    city: propertyInputSchema.shape.city,
+    state: stateSchema,
+    zip: zipSchema,
+    area: text('Service area', 60),
+    accessNotes: text('Access notes', 1000),
+    gateCode: text('Gate code', 40),
+    pets: text('Pets', 200),
+  })
+  .partial()
+  .refine((c) => Object.keys(c).length > 0, { error: 'Send at least one field to change.' });
 export type PropertyUpdate = z.infer<typeof propertyUpdateSchema>;
 
 const customerFields = {
