@@ -4,7 +4,7 @@ import { addDays, idempotencyKeyForRenewal, termEnd } from '../shared/renewals';
 import { agreements, invoices, payments, renewalNotices } from '../server/db/schema';
 import { localDate } from '../server/billing/today';
 import { runRenewals } from '../server/renewals/renewal-engine';
-import { newHousehold, seedAgreement, startHarness, type Harness } from './billing-harness';
+import { newHousehold, payOnHostedPage, seedAgreement, startHarness, type Harness } from './billing-harness';
 
 // Webhooks off: every state change here comes from the engine's own processor calls.
 let h: Harness;
@@ -111,6 +111,21 @@ describe('dunning', () => {
 
     await runRenewals(h.ctx.deps, { only: [agreement.id], today: addDays(endsOn, 30) });
     expect((await row(agreement.id)).status).toBe('lapsed');
+  });
+});
+
+describe('no double payment', () => {
+  it('an automatic charge closes a payment page the homeowner left open for the same renewal', async () => {
+    const hh = await newHousehold(h, 'open-tab');
+    const endsOn = addDays(today, 0);
+    const { agreement } = await seedAgreement(h, hh, { endsOn, status: 'renewal_due', card: 'pm_card_visa' });
+    const start = await hh.homeowner.agent.post(`/api/agreements/${agreement.id}/renew`).set('X-XSRF-TOKEN', hh.homeowner.csrf).send({}).expect(200);
+    const report = await runRenewals(h.ctx.deps, { only: [agreement.id], today: endsOn });
+    expect(report.charged).toBe(1);
+    const late = await payOnHostedPage(start.body.checkoutUrl, '4242424242424242');
+    expect(late.status).toBe(410);
+    const [inv] = await h.ctx.database.db.select().from(invoices).where(and(eq(invoices.agreementId, agreement.id), eq(invoices.purpose, 'renewal')));
+    expect(inv).toMatchObject({ status: 'paid', paidCents: inv!.totalCents });
   });
 });
 

@@ -410,7 +410,7 @@ export async function recordCardPayment(deps: AppDeps, p: CardPayment): Promise<
   const result = await db.transaction(async (tx) => {
     const inv = await lockInvoice(tx, p.invoiceId);
     const [already] = await tx.select().from(payments).where(eq(payments.stripePaymentIntentId, p.paymentIntentId));
-    if (already?.status === 'succeeded') return { recorded: false, paymentId: already.id };
+    if (already?.status === 'succeeded') return { recorded: false, paymentId: already.id, paid: false };
     const reference = p.card ? `${p.card.brand} ending ${p.card.last4}` : 'Card';
     let paymentId: string;
     const candidate =
@@ -439,21 +439,22 @@ export async function recordCardPayment(deps: AppDeps, p: CardPayment): Promise<
         .returning({ id: payments.id });
       paymentId = row!.id;
     }
-    await settleInvoice(tx, inv, p.amountCents, now, p.source ?? 'card', null);
+    const paid = await settleInvoice(tx, inv, p.amountCents, now, p.source ?? 'card', null);
     if (p.saveCard && p.card && inv.agreementId) {
       await tx
         .update(agreements)
         .set({ stripePaymentMethodId: p.card.paymentMethodId, cardBrand: p.card.brand, cardLast4: p.card.last4, autoRenew: true })
         .where(eq(agreements.id, inv.agreementId));
     }
-    return { recorded: true, paymentId };
+    return { recorded: true, paymentId, paid };
   });
+  if (result.paid) await closeOpenCheckouts(deps, p.invoiceId);
   if (result.recorded) await queueReceipt(deps, result.paymentId);
-  return result;
+  return { recorded: result.recorded, paymentId: result.paymentId };
 }
 
 /** Adds a payment to the invoice; when it is paid in full the agreement takes effect. */
-async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: Date, source: string, actorId: string | null): Promise<void> {
+async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: Date, source: string, actorId: string | null): Promise<boolean> {
   const paidCents = inv.paidCents + amountCents;
   const nowPaid = inv.status === 'open' && paidCents >= inv.totalCents;
   await tx
@@ -463,6 +464,23 @@ async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: 
   if (nowPaid) {
     const settings = await companySettings(tx);
     await applyPaidAgreementInvoice(tx, { ...inv, paidCents, status: 'paid' }, localDate(now, settings.timeZone), source, actorId);
+  }
+  return nowPaid;
+}
+
+/**
+ * Once an invoice is paid, any payment page still open for it is closed at the processor, so
+ * nobody pays twice (for example a renewal charged automatically while a Checkout tab was open).
+ */
+async function closeOpenCheckouts(deps: AppDeps, invoiceId: string): Promise<void> {
+  const stripe = deps.services.stripe;
+  if (!stripe) return;
+  const open = await deps.database.db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'pending')));
+  for (const p of open) {
+    if (p.stripeCheckoutSessionId) {
+      await stripe.checkout.sessions.expire(p.stripeCheckoutSessionId).catch(() => undefined);
+    }
+    await deps.database.db.update(payments).set({ status: 'canceled' }).where(and(eq(payments.id, p.id), eq(payments.status, 'pending')));
   }
 }
 
@@ -549,10 +567,11 @@ export async function recordOfflinePayment(deps: AppDeps, user: SessionUser, inv
       .insert(payments)
       .values({ invoiceId, method: input.method, status: 'succeeded', amountCents: input.amountCents, reference: input.reference, recordedById: user.id, succeededAt: now })
       .returning({ id: payments.id });
-    await settleInvoice(tx, inv, input.amountCents, now, input.method, user.id);
-    return row!.id;
+    const paid = await settleInvoice(tx, inv, input.amountCents, now, input.method, user.id);
+    return { id: row!.id, paid };
   });
-  await queueReceipt(deps, paymentId);
+  if (paymentId.paid) await closeOpenCheckouts(deps, invoiceId);
+  await queueReceipt(deps, paymentId.id);
   return invoiceView(db, invoiceId);
 }
 
