@@ -68,6 +68,25 @@ describe('create, read and update a household', () => {
   });
 });
 
+describe('properties', () => {
+  it('edits one field of a property and leaves the others as they were', async () => {
+    const { id, propertyId } = await household(`Partial Edit ${tag}`);
+    await patch(office, `/api/properties/${propertyId}`, { accessNotes: 'Attic unit; ladder in garage.', label: 'Lake house' }).expect(200);
+    const res = await patch(office, `/api/properties/${propertyId}`, { zip: '64791-0007' }).expect(200);
+    expect(res.body).toMatchObject({ zip: '64791-0007', label: 'Lake house', accessNotes: 'Attic unit; ladder in garage.', state: 'MO' });
+    const bad = await patch(office, `/api/properties/${propertyId}`, { state: 'XX', zip: 'abc' }).expect(422);
+    expect(Object.keys(bad.body.error.fields).sort()).toEqual(['state', 'zip']);
+    await patch(office, `/api/properties/${propertyId}`, {}).expect(422);
+    const second = await post(office, `/api/customers/${id}/properties`, { label: 'Rental', street: '14 Linden Court', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).expect(201);
+    // The new street is searchable at once: the search column follows the household's properties.
+    const found = await office.agent.get('/api/customers').query({ q: `14 linden court` }).expect(200);
+    expect(found.body.items.map((i: { id: string }) => i.id)).toContain(id);
+    await post(office, `/api/properties/${second.body.id}/archive`, {}).expect(200);
+    const detail = await office.agent.get(`/api/customers/${id}`).expect(200);
+    expect(detail.body.properties.map((p: { id: string }) => p.id)).toEqual([propertyId]);
+  });
+});
+
 describe('search, paging and sort', () => {
   it('finds a household by part of its name, its e-mail, its phone typed with punctuation, and its street', async () => {
     const { id } = await household(`Marrowdale ${tag}`, { phone: '816-555-0177', email: `mdale.${tag}@example.test`, property: home(`4411 Saltgrass ${tag} Lane`) });

@@ -132,7 +132,7 @@ export async function listCustomers(db: Db, q: CustomerListQuery): Promise<Custo
     db.select({ n: sql<number>`count(*)::int` }).from(customers).where(where),
   ]);
   return {
-    items: rows.map((r) => ({ ...r, archived: r.archivedAt !== null, archivedAt: undefined, createdAt: r.createdAt.toISOString() })).map(({ archivedAt: _a, ...r }) => r),
+    items: rows.map(({ archivedAt, createdAt, ...r }) => ({ ...r, archived: archivedAt !== null, createdAt: createdAt.toISOString() })),
     total: count?.n ?? 0,
     page: q.page,
     pageSize: q.pageSize,
