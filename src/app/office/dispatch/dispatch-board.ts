@@ -6,6 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -40,6 +41,7 @@ interface Column {
     MatButtonToggleModule,
     MatFormFieldModule,
     MatIconModule,
+    MatInputModule,
     MatMenuModule,
     MatSelectModule,
     VisitStatusMark,
@@ -121,6 +123,12 @@ export class DispatchBoard {
 
   protected today(): void {
     this.from.set(DateTime.now().setZone('America/Chicago').toISODate()!);
+    void this.load();
+  }
+
+  protected pickDate(value: string): void {
+    if (!/^\d{4}-\d{2}-\d{2}$/.test(value)) return;
+    this.from.set(value);
     void this.load();
   }
 

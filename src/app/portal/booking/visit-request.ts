@@ -93,7 +93,8 @@ export class VisitRequest {
   });
   protected readonly days = computed(() => groupByDay(this.windows()));
   protected readonly chosenProperty = computed(() => this.options()?.properties.find((p) => p.id === this.propertyId()) ?? null);
-  protected readonly chosenWindow = computed(() => this.windows().find((w) => w.start === this.windowForm.controls.windowStart.value) ?? null);
+  private readonly windowStart = signal('');
+  protected readonly chosenWindow = computed(() => this.windows().find((w) => w.start === this.windowStart()) ?? null);
   protected readonly reasonLabel = computed(() => {
     const r = this.reason();
     return r ? VISIT_REASON_LABELS[r] : '';
@@ -105,6 +106,7 @@ export class VisitRequest {
       untracked(() => void this.loadOptions(id));
     });
     this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => this.propertyId.set(v));
+    this.windowForm.controls.windowStart.valueChanges.subscribe((v) => this.windowStart.set(v));
     this.reasonForm.controls.reason.valueChanges.subscribe((v) => {
       this.reason.set(v);
       this.detailsForm.controls.symptoms.setValue([]);
