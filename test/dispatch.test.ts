@@ -101,7 +101,7 @@ describe('dispatch board', () => {
     const mail = await waitForMail(h.email, 'Your technician is confirmed');
     expect(mail.text).toMatch(/Priya Dunmore/);
     const ics = mail.attachments.find((a) => a.contentType.startsWith('text/calendar'))!.content.toString('utf8');
-    const parsed = Object.values(nodeIcal.sync.parseICS(ics)).find((c) => c.type === 'VEVENT') as nodeIcal.VEvent;
+    const parsed = Object.values(nodeIcal.sync.parseICS(ics)).find((c) => c?.type === 'VEVENT') as nodeIcal.VEvent;
     expect(Number(parsed.sequence)).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
   });
 
@@ -194,7 +194,7 @@ describe('technician week and calendar feed', () => {
     const anon = await anonymous(ctx);
     const feed = await anon.agent.get(path).expect(200);
     expect(feed.headers['content-type']).toMatch(/^text\/calendar/);
-    const events = Object.values(nodeIcal.sync.parseICS(feed.text)).filter((c) => c.type === 'VEVENT') as nodeIcal.VEvent[];
+    const events = Object.values(nodeIcal.sync.parseICS(feed.text)).filter((c) => c?.type === 'VEVENT') as nodeIcal.VEvent[];
     const ev = events.find((e) => e.uid === `visit-${visit.id}@seasonwell.local`);
     expect(ev).toBeDefined();
     expect(ev!.start.toISOString()).toBe(new Date(visit.startsAt).toISOString());
