@@ -170,6 +170,7 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
   }
 
   await seedVisits(tx, rnd, today, households, technicianIds);
+  await (await import('./field')).seedFieldReadings(tx, COMPANY.timeZone);
 }
 
 /** A year of past visits plus a few upcoming ones, one technician slot at a time so none overlap. */
