@@ -197,6 +197,17 @@ describe("today's visits", () => {
     expect(first.planStatus).toEqual({ covered: true, label: 'Priority Comfort · Active' });
   });
 
+  it('lets the owner open any technician\'s visit and see every assigned visit today', async () => {
+    const owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
+    const list = await owner.agent.get('/api/field/visits/today').expect(200);
+    const ids = list.body.visits.map((v: { id: string }) => v.id);
+    expect(ids).toEqual(expect.arrayContaining([f.tuneUpId, f.callId, f.otherTechVisitId]));
+    const page = await owner.agent.get(`/api/field/visits/${f.otherTechVisitId}`).expect(200);
+    expect(page.body.visit.technicianName).toBe('Pella Test-Tech');
+    const office = await signInStaff(ctx, 'teo.marchetti@bluestem-comfort.test');
+    await office.agent.get(`/api/field/visits/${f.callId}`).expect(403);
+  });
+
   it("gives the seeded technician the demo day's two visits, earliest first", async () => {
     const marcus = await signInStaff(ctx, 'marcus.bellweather@bluestem-comfort.test');
     const res = await marcus.agent.get('/api/field/visits/today').expect(200);
