@@ -42,6 +42,8 @@ describe('renewal notices', () => {
     expect(mails).toHaveLength(3);
     expect(mails[0]!.subject).toMatch(/Time to renew/);
     expect(mails[0]!.text).toContain('/portal/plan');
+    // Two-Season Care is $179.00 a year in the demo price list
+    expect(mails[0]!.text).toContain('$179.00 for the next 12 months');
   });
 });
 

@@ -18,7 +18,8 @@ import { ensureStripeCustomer, recordFromPaymentIntent, stripeOf } from '../bill
 import { companySettings } from '../billing/today';
 import { renderEmail } from '../integrations/mail';
 import { paymentErrorMessage } from '../integrations/stripe';
-import { ensureRenewalInvoice, today as companyToday } from '../agreements/agreements.service';
+import { ensureRenewalInvoice, termPriceCents, today as companyToday } from '../agreements/agreements.service';
+import { currentVersion } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from '../agreements/terms';
 
 export const RENEWAL_DAILY_JOB = 'renewals-daily';
@@ -206,7 +207,7 @@ async function chargeFailed(deps: AppDeps, id: string, today: string, attempt: n
 
 async function householdOf(deps: AppDeps, agreementId: string) {
   const [row] = await deps.database.db
-    .select({ agreement: agreements, email: customers.email, name: customers.name, planName: plans.name, yearly: planVersions.yearlyPriceCents })
+    .select({ agreement: agreements, email: customers.email, name: customers.name, planName: plans.name })
     .from(agreements)
     .innerJoin(customers, eq(agreements.customerId, customers.id))
     .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
@@ -242,7 +243,7 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
       auto
         ? `Your maintenance agreement renews automatically on ${lastDay}. We will charge the card ending ${a.cardLast4}. You can switch automatic renewal off in your portal at any time before then.`
         : `Your maintenance agreement ends on ${lastDay}. Renew online to keep your two tune-ups a year, priority service and your repair discount.`,
-      `The renewal price is ${formatUsd(h.yearly + 0)} a year${a.systemsCount > 1 ? ' plus your additional systems' : ''}.`,
+      `The renewal price is ${formatUsd(await renewalPrice(deps, a))} for the next 12 months.`,
     ],
     action: { label: auto ? 'Review your agreement' : 'Renew online', url: `${base}/portal/plan` },
     footer: `${company.name} · ${company.phone}`,
@@ -260,6 +261,14 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
     throw err;
   }
   return true;
+}
+
+/** What the next term costs: the plan's current terms, extra systems, less any credit. */
+async function renewalPrice(deps: AppDeps, a: typeof agreements.$inferSelect): Promise<number> {
+  const [sold] = await deps.database.db.select().from(planVersions).where(eq(planVersions.id, a.planVersionId));
+  const latest = (sold && (await currentVersion(deps.database.db, sold.planId))) ?? sold;
+  if (!latest) return a.priceCents;
+  return Math.max(termPriceCents(latest, a.systemsCount) - Math.min(a.creditCents, latest.yearlyPriceCents), 0);
 }
 
 async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: number, message: string) {
