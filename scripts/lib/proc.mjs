@@ -31,17 +31,22 @@ export function ensureChromium() {
   execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env });
 }
 
-/** A TCP port nobody listens on right now. */
-export function freePort() {
-  return new Promise((resolve, reject) => {
-    const srv = createServer();
-    srv.unref();
-    srv.on('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const { port } = srv.address();
-      srv.close(() => resolve(port));
+/**
+ * A TCP port nobody listens on right now, below the kernel's ephemeral range (32768 and up), so a
+ * test's own short-lived listeners cannot take it between the choice and its use.
+ */
+export async function freePort() {
+  for (let attempt = 0; attempt < 200; attempt++) {
+    const port = 20000 + Math.floor(Math.random() * 10000);
+    const ok = await new Promise((resolve) => {
+      const srv = createServer();
+      srv.unref();
+      srv.once('error', () => resolve(false));
+      srv.listen(port, '127.0.0.1', () => srv.close(() => resolve(true)));
     });
-  });
+    if (ok) return port;
+  }
+  throw new Error('no free TCP port found between 20000 and 29999');
 }
 
 /** Runs a command to completion, inheriting output. Resolves with the exit code. */
