@@ -95,6 +95,9 @@ describe('search, paging and sort', () => {
     expect(await find(`mdale.${tag}`)).toContain(id);
     expect(await find(`saltgrass ${tag}`)).toContain(id);
     expect(await find(`4411 saltgrass`)).toContain(id);
+    // The row shows the household's own first address and how many homes it has.
+    const row = (await office.agent.get('/api/customers').query({ q: `mdale.${tag}` }).expect(200)).body.items[0];
+    expect(row).toMatchObject({ id, street: `4411 Saltgrass ${tag} Lane`, city: 'Larkspur Bend', propertyCount: 1 });
     const byPhone = await office.agent.get('/api/customers').query({ q: '(816) 555-0177' }).expect(200);
     expect(byPhone.body.items.map((i: { id: string }) => i.id)).toContain(id);
   });

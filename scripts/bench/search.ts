@@ -7,6 +7,8 @@ import { pino } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { createDatabase } from '../../server/db/client';
+import { listCustomers } from '../../server/customers/customers.service';
+import { customerListQuerySchema } from '../../shared/schemas/customers';
 import { signInStaff } from '../../test/support/auth';
 
 const URL_ = process.env.BENCH_DATABASE_URL;
@@ -123,6 +125,28 @@ try {
   const { agent } = await signInStaff(app, 'bench.office@example.test', PASSWORD);
   const terms = await searchTerms();
   const withIndex = await measure('with trigram index', agent, terms);
+  // The same searches without HTTP, session and JSON: how much of the route time is the database.
+  const sqlTimes: number[] = [];
+  for (let i = 0; i < REQUESTS; i++) {
+    const start = performance.now();
+    await listCustomers(database.db, customerListQuerySchema.parse({ q: terms[i % terms.length], pageSize: 25 }));
+    sqlTimes.push(performance.now() - start);
+  }
+  const sqlOnly = stats(sqlTimes);
+  console.log(`${'  of which the queries'.padEnd(24)} median ${sqlOnly.median.toFixed(1).padStart(7)} ms   p95 ${sqlOnly.p95.toFixed(1).padStart(7)} ms`);
+  if (process.env.BENCH_EXPLAIN) {
+    // Plans of the route's own statements, through auto_explain on a one-connection pool.
+    const one = createDatabase(URL_, 1);
+    const client = await one.pool.connect();
+    client.on('notice', (n) => console.log(String(n.message).split('\n').slice(0, 40).join('\n')));
+    await client.query(`load 'auto_explain'; set auto_explain.log_min_duration = 0; set auto_explain.log_analyze = on; set client_min_messages = log`);
+    client.release();
+    for (const t of [terms[0]!, terms[2]!, terms[3]!]) {
+      console.log(`--- ${t}`);
+      await listCustomers(one.db, customerListQuerySchema.parse({ q: t, pageSize: 25 }));
+    }
+    await one.close();
+  }
   await q(`drop index customers_search_trgm_idx`);
   await q(`analyze customers`);
   const without = await measure('without the index', agent, terms);

@@ -99,8 +99,9 @@ export function searchWhere(q: string | undefined): SQL | undefined {
   return and(...terms.map((t) => sql`${customers.searchText} ilike ${`%${escapeLike(t)}%`}`));
 }
 
+// Written out in full: drizzle renders ${'$'}{customers.id} unqualified in a select list, where "id" would mean p.id.
 const firstProperty = (col: 'street' | 'city') =>
-  sql<string | null>`(select p.${sql.raw(col)} from properties p where p.customer_id = ${customers.id} and p.archived_at is null order by p.created_at, p.id limit 1)`;
+  sql<string | null>`(select p.${sql.raw(col)} from properties p where p.customer_id = "customers"."id" and p.archived_at is null order by p.created_at, p.id limit 1)`;
 
 export async function listCustomers(db: Db, q: CustomerListQuery): Promise<CustomerPage> {
   const where = and(
@@ -120,7 +121,7 @@ export async function listCustomers(db: Db, q: CustomerListQuery): Promise<Custo
         phone: customers.phone,
         street,
         city,
-        propertyCount: sql<number>`(select count(*)::int from properties p where p.customer_id = ${customers.id} and p.archived_at is null)`,
+        propertyCount: sql<number>`(select count(*)::int from properties p where p.customer_id = "customers"."id" and p.archived_at is null)`,
         archivedAt: customers.archivedAt,
         createdAt: customers.createdAt,
       })
