@@ -1,5 +1,6 @@
 // The app as the browser journeys see it: a fresh seeded database, the local fakes and the API
 // serving the built client. Started by Playwright's webServer; `npm test` passes its database.
+import { rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { clusterHome, createDatabase, databaseUrl, dropDatabase, ensureCluster } from './lib/pg.mjs';
 import { ROOT, run, startService, stopChild, waitForHttp } from './lib/proc.mjs';
@@ -37,6 +38,7 @@ const ts = (file) => ['--import', 'tsx', file];
 const children = [];
 async function stop(code) {
   await Promise.all(children.map((c) => stopChild(c)));
+  rmSync(env.STORAGE_DIR, { recursive: true, force: true });
   drop?.();
   process.exit(code);
 }

@@ -17,6 +17,12 @@ const schema = z.object({
   STRIPE_WEBHOOK_SECRET: z.string().default('whsec_seasonwell_local'),
   STRIPE_API_URL: z.url().optional(),
   STORAGE_DIR: z.string().default('.data/uploads'),
+  // Any S3-compatible store; when the bucket is unset, files go to STORAGE_DIR.
+  STORAGE_S3_BUCKET: z.string().optional(),
+  STORAGE_S3_ENDPOINT: z.url().optional(),
+  STORAGE_S3_REGION: z.string().default('us-east-1'),
+  STORAGE_S3_ACCESS_KEY_ID: z.string().optional(),
+  STORAGE_S3_SECRET_ACCESS_KEY: z.string().optional(),
   CLIENT_DIST: z.string().default('dist/seasonwell/browser'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   RUN_JOBS: z

@@ -20,7 +20,19 @@ const services: Services = {
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
   jobs,
   stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
-  storage: createStorage({ dir: config.STORAGE_DIR }),
+  storage: createStorage({
+    dir: config.STORAGE_DIR,
+    s3: config.STORAGE_S3_BUCKET
+      ? {
+          bucket: config.STORAGE_S3_BUCKET,
+          endpoint: config.STORAGE_S3_ENDPOINT,
+          region: config.STORAGE_S3_REGION,
+          accessKeyId: config.STORAGE_S3_ACCESS_KEY_ID,
+          secretAccessKey: config.STORAGE_S3_SECRET_ACCESS_KEY,
+          forcePathStyle: Boolean(config.STORAGE_S3_ENDPOINT),
+        }
+      : undefined,
+  }),
 };
 const deps = { config, database, clock: () => new Date(), logger, services };
 registerJobs(deps);
