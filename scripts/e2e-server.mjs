@@ -3,7 +3,8 @@
 import { rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { clusterHome, createDatabase, databaseUrl, dropDatabase, ensureCluster } from './lib/pg.mjs';
-import { ROOT, run, startService, stopChild, waitForHttp } from './lib/proc.mjs';
+import { ROOT, stopChild } from './lib/proc.mjs';
+import { prepareDatabase, startStack } from './lib/stack.mjs';
 
 const PORT = Number(process.env.E2E_PORT ?? 3200);
 const SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2527);
@@ -32,9 +33,6 @@ const env = {
   STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
   STORAGE_DIR: join(ROOT, '.data', `e2e-uploads-${process.pid}`),
 };
-// One process per service (no tsx wrapper), so a killed service leaves nothing behind.
-const node = process.execPath;
-const ts = (file) => ['--import', 'tsx', file];
 const children = [];
 async function stop(code) {
   await Promise.all(children.map((c) => stopChild(c)));
@@ -46,20 +44,8 @@ process.on('SIGINT', () => void stop(0));
 process.on('SIGTERM', () => void stop(0));
 
 try {
-  if ((await run(node, ts('server/db/migrate.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
-  if ((await run(node, ts('server/db/seed/seed.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('seed failed');
-  const fakes = startService('fakes', node, ts('server/fakes/main.ts'), {
-    ...env,
-    SMTP_PORT: String(SMTP_PORT),
-    MAILBOX_PORT: String(MAILBOX_PORT),
-    STRIPE_PORT: String(STRIPE_PORT),
-    STRIPE_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/stripe`,
-  });
-  children.push(fakes);
-  await waitForHttp(`http://127.0.0.1:${MAILBOX_PORT}/api/messages`, { child: fakes });
-  const api = startService('api', node, ts('server/main.ts'), env);
-  children.push(api);
-  await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { child: api });
+  await prepareDatabase(env);
+  await startStack({ env, port: PORT, smtpPort: SMTP_PORT, mailboxPort: MAILBOX_PORT, stripePort: STRIPE_PORT, children });
   console.log(`[e2e] app ready on ${env.PUBLIC_URL}`);
 } catch (err) {
   console.error(`[e2e] ${err instanceof Error ? err.message : err}`);

@@ -2,7 +2,8 @@
 // Plain Node with built-ins only, because it runs before node_modules exists.
 import { join } from 'node:path';
 import { clusterHome, databaseUrl, ensureCluster, stopCluster } from './lib/pg.mjs';
-import { ROOT, buildClient, ensureDependencies, run, say, startService, stopChild, waitForHttp } from './lib/proc.mjs';
+import { ROOT, buildClient, ensureDependencies, say, stopChild } from './lib/proc.mjs';
+import { prepareDatabase, startStack } from './lib/stack.mjs';
 
 const PORT = Number(process.env.PORT ?? 3100);
 const PG_PORT = Number(process.env.SW_PG_PORT ?? 55432);
@@ -45,26 +46,9 @@ try {
     STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
     STORAGE_DIR: join(ROOT, '.data', 'uploads'),
   };
-  // One process per service (no tsx wrapper), so a killed service leaves nothing behind.
-  const node = process.execPath;
-  const ts = (file) => ['--import', 'tsx', file];
-  if ((await run(node, ts('server/db/migrate.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('migrations failed');
-  if ((await run(node, ts('server/db/seed/seed.ts'), { env: { ...process.env, ...env } })) !== 0) throw new Error('seeding the demo failed');
+  await prepareDatabase(env);
   await buildClient();
-
-  const fakes = startService('fakes', node, ts('server/fakes/main.ts'), {
-    ...env,
-    SMTP_PORT: String(SMTP_PORT),
-    MAILBOX_PORT: String(MAILBOX_PORT),
-    STRIPE_PORT: String(STRIPE_PORT),
-    STRIPE_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/stripe`,
-  });
-  children.push(fakes);
-  await waitForHttp(`http://127.0.0.1:${MAILBOX_PORT}/api/messages`, { child: fakes });
-
-  const api = startService('api', node, ts('server/main.ts'), env);
-  children.push(api);
-  await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { child: api });
+  await startStack({ env, port: PORT, smtpPort: SMTP_PORT, mailboxPort: MAILBOX_PORT, stripePort: STRIPE_PORT, children });
   for (const child of children) {
     child.on('exit', (code) => {
       if (!stopping) {
@@ -86,6 +70,7 @@ try {
   say('    Owner:       rosalind.okafor@bluestem-comfort.test');
   say('    Office:      teo.marchetti@bluestem-comfort.test');
   say('    Technician:  marcus.bellweather@bluestem-comfort.test   (has visits today)');
+  say('    Technicians: priya.dunmore@bluestem-comfort.test, eli.castellan@bluestem-comfort.test');
   say('');
   say('Press Ctrl-C to stop.');
 } catch (err) {

@@ -1,18 +1,8 @@
+import { EQUIPMENT_KINDS, type EquipmentKind } from '../equipment';
 import { ReadingInputError } from './errors';
 
-export const EQUIPMENT_KINDS = [
-  'condensing_unit',
-  'heat_pump',
-  'air_handler',
-  'gas_furnace',
-  'geothermal_heat_pump',
-  'ductless',
-  'thermostat',
-  'condensate_pump',
-  'humidifier',
-  'air_cleaner',
-] as const;
-export type EquipmentKind = (typeof EQUIPMENT_KINDS)[number];
+// One list of equipment kinds for the whole product.
+export { EQUIPMENT_KINDS, type EquipmentKind };
 export type Season = 'cooling' | 'heating';
 
 export interface ChecklistItem {

@@ -10,9 +10,9 @@ import { AreaLanding, type AreaTile } from '../ui/area-landing';
 })
 export class OfficeHome {
   protected readonly tiles: AreaTile[] = [
-    { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people' },
-    { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch' },
-    { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield' },
+    { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people', path: '/office/customers' },
+    { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch', path: '/office/dispatch' },
+    { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield', path: '/office/renewals' },
     { title: 'Reminders', text: 'Seasonal tune-up, filter and coil-cleaning reminders.', icon: 'bell', path: '/office/reminders' },
   ];
 }

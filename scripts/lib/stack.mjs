@@ -1,0 +1,33 @@
+// The app's processes, shared by npm start and the browser tests: migrate and seed, then the local
+// fakes (SMTP catcher, mailbox, fake Stripe) and the API. Built-ins only.
+import { run, startService, waitForHttp } from './proc.mjs';
+
+// One process per service (no tsx wrapper), so a killed service leaves nothing behind.
+const node = process.execPath;
+const ts = (file) => ['--import', 'tsx', file];
+
+/** Runs pending migrations and seeds the demo scenario once. */
+export async function prepareDatabase(env) {
+  const full = { ...process.env, ...env };
+  if ((await run(node, ts('server/db/migrate.ts'), { env: full })) !== 0) throw new Error('migrations failed');
+  if ((await run(node, ts('server/db/seed/seed.ts'), { env: full })) !== 0) throw new Error('seeding the demo failed');
+}
+
+/**
+ * Starts the fakes and the API, waiting for each to answer. Pushes each child onto `children` as
+ * soon as it starts, so a caller stopping half-way stops what did start.
+ */
+export async function startStack({ env, port, smtpPort, mailboxPort, stripePort, children }) {
+  const fakes = startService('fakes', node, ts('server/fakes/main.ts'), {
+    ...env,
+    SMTP_PORT: String(smtpPort),
+    MAILBOX_PORT: String(mailboxPort),
+    STRIPE_PORT: String(stripePort),
+    STRIPE_WEBHOOK_URL: `http://127.0.0.1:${port}/api/webhooks/stripe`,
+  });
+  children.push(fakes);
+  await waitForHttp(`http://127.0.0.1:${mailboxPort}/api/messages`, { child: fakes });
+  const api = startService('api', node, ts('server/main.ts'), env);
+  children.push(api);
+  await waitForHttp(`http://127.0.0.1:${port}/api/health`, { child: api });
+}
