@@ -14,6 +14,7 @@ import { bookingRoutes } from './booking/booking.routes';
 import { dispatchRoutes } from './dispatch/dispatch.routes';
 import { scheduleRoutes } from './schedule/schedule.routes';
 import { reminderRoutes } from './reminders/reminders.routes';
+import { settingsRoutes } from './settings/settings.routes';
 import { customerRoutes, propertyRoutes } from './customers/customers.routes';
 import { myHomeRoutes } from './customers/my-home.routes';
 import { equipmentRoutes } from './equipment/equipment.routes';
@@ -37,6 +38,7 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/invoices', build: billingRoutes },
   { path: '/api/renewals', build: renewalRoutes },
   { path: '/api/reminders', build: reminderRoutes },
+  { path: '/api/settings', build: settingsRoutes },
   { path: '/api/session', build: sessionRoutes },
   { path: '/api/auth', build: authRoutes },
   { path: '/api/audit', build: auditRoutes },

@@ -102,6 +102,8 @@ const ROUTES: Record<string, Row> = {
   'POST /api/renewals/notices': { allow: ['office', 'owner'] },
   'GET /api/health': { allow: 'public' },
   'GET /api/reminders/preview': { allow: ['office', 'owner'] },
+  'GET /api/settings/company': { allow: ['owner'] },
+  'PUT /api/settings/company': { allow: ['owner'] },
   'GET /api/reminders/campaigns': { allow: ['office', 'owner'] },
   'POST /api/reminders/campaigns': { allow: ['office', 'owner'] },
   'GET /api/reminders/campaigns/:id': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },

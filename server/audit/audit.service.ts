@@ -15,6 +15,7 @@ export const AUDIT_ACTIONS = [
   'role_changed',
   'user_disabled',
   'user_enabled',
+  'settings_changed',
 ] as const;
 export type AuditAction = (typeof AUDIT_ACTIONS)[number];
 

@@ -21,6 +21,7 @@ const ACTION_WORDS: Record<string, string> = {
   role_changed: 'Role changed',
   user_disabled: 'Account turned off',
   user_enabled: 'Account turned on',
+  settings_changed: 'Company settings changed',
 };
 
 /** Who signed in, who failed, who changed whose access: newest first, paged by the server. */

@@ -1,0 +1,21 @@
+import { Router } from 'express';
+import { companySettingsSchema } from '../../shared/schemas/settings';
+import type { AppDeps } from '../app';
+import { currentUser, requireRole } from '../auth/access';
+import { parse } from '../http/errors';
+import { getCompanySettings, updateCompanySettings } from './settings.service';
+
+// Company details, hours and booking rules: the owner's alone.
+export function settingsRoutes(deps: AppDeps): Router {
+  const router = Router();
+  const db = deps.database.db;
+  router.use(requireRole('owner'));
+  router.get('/company', async (_req, res) => {
+    res.json(await getCompanySettings(db));
+  });
+  router.put('/company', async (req, res) => {
+    const next = parse(companySettingsSchema, req.body);
+    res.json(await updateCompanySettings(db, currentUser(req).id, next, deps.clock()));
+  });
+  return router;
+}

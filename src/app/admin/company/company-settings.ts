@@ -1,0 +1,129 @@
+import { HttpClient } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { companySettingsSchema, type CompanySettings } from '../../../../shared/schemas/settings';
+import { toApiError } from '../../core/api-errors';
+
+const DAYS = [
+  { key: '1', label: 'Monday' },
+  { key: '2', label: 'Tuesday' },
+  { key: '3', label: 'Wednesday' },
+  { key: '4', label: 'Thursday' },
+  { key: '5', label: 'Friday' },
+  { key: '6', label: 'Saturday' },
+  { key: '7', label: 'Sunday' },
+] as const;
+type DayKey = (typeof DAYS)[number]['key'];
+type DayGroup = FormGroup<{ closed: FormControl<boolean>; open: FormControl<string>; close: FormControl<string> }>;
+
+/** The owner's page for the company's details, hours and booking rules. */
+@Component({
+  selector: 'sw-company-settings',
+  imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule],
+  templateUrl: './company-settings.html',
+  styleUrl: './company-settings.scss',
+  host: { class: 'sw-dense' },
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class CompanySettingsPage {
+  private readonly http = inject(HttpClient);
+  private readonly snack = inject(MatSnackBar);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  protected readonly days = DAYS;
+  protected readonly saving = signal(false);
+  protected readonly loaded = signal(false);
+  protected readonly errors = signal<Record<string, string>>({});
+
+  protected readonly form = this.fb.group({
+    name: ['', Validators.required],
+    phone: ['', Validators.required],
+    email: ['', [Validators.required, Validators.email]],
+    street: ['', Validators.required],
+    city: ['', Validators.required],
+    state: ['', Validators.required],
+    zip: ['', Validators.required],
+    timeZone: ['America/Chicago', Validators.required],
+    taxRatePct: [0, [Validators.required, Validators.min(0), Validators.max(50)]],
+    diagnosticFee: [0, [Validators.required, Validators.min(0)]],
+    arrivalWindowMinutes: [120, Validators.required],
+    leadTimeMinutes: [120, Validators.required],
+    heldBackPct: [25, Validators.required],
+    cancelCutoffHours: [24, Validators.required],
+    hours: this.fb.group(Object.fromEntries(DAYS.map((d) => [d.key, this.dayGroup()])) as Record<DayKey, DayGroup>),
+  });
+
+  constructor() {
+    this.http.get<CompanySettings>('/api/settings/company').subscribe({
+      next: (s) => {
+        this.form.patchValue({
+          ...s,
+          taxRatePct: s.taxRateBps / 100,
+          diagnosticFee: s.diagnosticFeeCents / 100,
+          hours: Object.fromEntries(DAYS.map((d) => [d.key, s.businessHours[d.key] ? { closed: false, ...s.businessHours[d.key]! } : { closed: true, open: '08:00', close: '17:00' }])),
+        });
+        this.loaded.set(true);
+      },
+      error: (err: unknown) => this.snack.open(toApiError(err).message, 'Dismiss'),
+    });
+  }
+
+  private dayGroup(): DayGroup {
+    return this.fb.group({ closed: this.fb.control(false), open: this.fb.control('08:00'), close: this.fb.control('17:00') });
+  }
+
+  protected hoursOf(key: DayKey): DayGroup {
+    return this.form.controls.hours.controls[key];
+  }
+
+  protected error(field: string): string | null {
+    return this.errors()[field] ?? null;
+  }
+
+  protected save(): void {
+    if (this.saving()) return;
+    const v = this.form.getRawValue();
+    const body = {
+      name: v.name,
+      phone: v.phone,
+      email: v.email,
+      street: v.street,
+      city: v.city,
+      state: v.state,
+      zip: v.zip,
+      timeZone: v.timeZone,
+      taxRateBps: Math.round(Number(v.taxRatePct) * 100),
+      diagnosticFeeCents: Math.round(Number(v.diagnosticFee) * 100),
+      arrivalWindowMinutes: Number(v.arrivalWindowMinutes),
+      leadTimeMinutes: Number(v.leadTimeMinutes),
+      heldBackPct: Number(v.heldBackPct),
+      cancelCutoffHours: Number(v.cancelCutoffHours),
+      businessHours: Object.fromEntries(DAYS.map((d) => [d.key, v.hours[d.key].closed ? null : { open: v.hours[d.key].open, close: v.hours[d.key].close }])),
+    };
+    // The same schema the server uses: errors show next to their fields before a round trip.
+    const checked = companySettingsSchema.safeParse(body);
+    if (!checked.success) {
+      this.errors.set(Object.fromEntries(checked.error.issues.map((i) => [i.path.join('.'), i.message])));
+      return;
+    }
+    this.errors.set({});
+    this.saving.set(true);
+    this.http.put<CompanySettings>('/api/settings/company', checked.data).subscribe({
+      next: () => {
+        this.saving.set(false);
+        this.snack.open('Saved. New bookings use these hours and rules from now on.', 'OK', { duration: 5000 });
+      },
+      error: (err: unknown) => {
+        this.saving.set(false);
+        const e = toApiError(err);
+        this.errors.set(e.fields);
+        this.snack.open(e.message, 'Dismiss');
+      },
+    });
+  }
+}

@@ -1,0 +1,47 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { testApp } from './support/app';
+import { CSRF_HEADER_NAME, signInStaff } from './support/auth';
+
+const OWNER = 'rosalind.okafor@bluestem-comfort.test';
+const OFFICE = 'teo.marchetti@bluestem-comfort.test';
+
+describe('company settings', () => {
+  const ctx = testApp();
+  afterAll(() => ctx.close());
+
+  it('are the owner’s alone: office staff reach no settings', async () => {
+    const office = await signInStaff(ctx, OFFICE);
+    expect((await office.agent.get('/api/settings/company')).status).toBe(403);
+  });
+
+  it('name every field that is wrong and change nothing', async () => {
+    const owner = await signInStaff(ctx, OWNER);
+    const before = (await owner.agent.get('/api/settings/company')).body;
+    const res = await owner.agent
+      .put('/api/settings/company')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...before, zip: '6479', state: 'Missouri', timeZone: 'Mars/Olympus', businessHours: { ...before.businessHours, '1': { open: '18:00', close: '07:30' } }, arrivalWindowMinutes: 45 });
+    expect(res.status).toBe(422);
+    expect(res.body.error.fields).toMatchObject({
+      zip: 'ZIP code has 5 digits (or ZIP+4).',
+      state: expect.stringContaining('two-letter'),
+      timeZone: expect.stringContaining('America/Chicago'),
+      'businessHours.1': 'Opening time must be before closing time.',
+      arrivalWindowMinutes: expect.stringContaining('30 minutes'),
+    });
+    expect((await owner.agent.get('/api/settings/company')).body).toEqual(before);
+  });
+
+  it('save a change, record it in the access log, and keep the rest', async () => {
+    const owner = await signInStaff(ctx, OWNER);
+    const before = (await owner.agent.get('/api/settings/company')).body;
+    const changed = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, phone: '+18165550199' });
+    expect(changed.status).toBe(200);
+    expect(changed.body).toEqual({ ...before, phone: '+18165550199' });
+    const restored = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send(before);
+    expect(restored.body).toEqual(before);
+    const audit = await owner.agent.get('/api/audit?action=settings_changed');
+    expect(audit.status).toBe(200);
+    expect(JSON.stringify(audit.body)).toContain('settings_changed');
+  });
+});
