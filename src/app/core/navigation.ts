@@ -34,7 +34,8 @@ export function navigationFor(role: Role | null): NavLink[] {
     case 'office':
       return OFFICE;
     case 'owner':
-      return [...OFFICE, ...FIELD, ...ADMIN];
+      // The owner's settings pages hang off the Settings landing, keeping the bar to one row.
+      return [...OFFICE, FIELD[0]!, ADMIN[0]!];
     default:
       return [];
   }
