@@ -3,7 +3,7 @@ import { and, eq } from 'drizzle-orm';
 import { addDays, idempotencyKeyForRenewal, termEnd } from '../shared/renewals';
 import { agreements, invoices, payments, renewalNotices } from '../server/db/schema';
 import { localDate } from '../server/billing/today';
-import { runRenewals } from '../server/renewals/renewal-engine';
+import { chargeRenewal, runRenewals } from '../server/renewals/renewal-engine';
 import { newHousehold, payOnHostedPage, seedAgreement, startHarness, type Harness } from './billing-harness';
 
 // Webhooks off: every state change here comes from the engine's own processor calls.
@@ -165,6 +165,17 @@ describe('crash safety', () => {
     const endsOn = addDays(today, 0);
     const { agreement } = await seedAgreement(h, hh, { endsOn, status: 'renewal_due', card: 'pm_card_visa' });
     await Promise.all([runRenewals(h.ctx.deps, { only: [agreement.id], today: endsOn }), runRenewals(h.ctx.deps, { only: [agreement.id], today: endsOn })]);
+    expect((await intentsFor(agreement.id)).filter((p) => p.status === 'succeeded')).toHaveLength(1);
+    expect(await row(agreement.id)).toMatchObject({ status: 'active', endsOn: termEnd(endsOn) });
+  });
+
+  it('a worker that read the agreement before another renewed it does not bill the next term early', async () => {
+    const hh = await newHousehold(h, 'late-worker');
+    const endsOn = addDays(today, 0);
+    const { agreement } = await seedAgreement(h, hh, { endsOn, status: 'renewal_due', card: 'pm_card_visa' });
+    await runRenewals(h.ctx.deps, { only: [agreement.id], today: endsOn });
+    // The slower worker still believes the term ends today.
+    expect(await chargeRenewal(h.ctx.deps, agreement.id, endsOn, 0)).toBe(true);
     expect((await intentsFor(agreement.id)).filter((p) => p.status === 'succeeded')).toHaveLength(1);
     expect(await row(agreement.id)).toMatchObject({ status: 'active', endsOn: termEnd(endsOn) });
   });

@@ -149,7 +149,15 @@ async function renewOne(deps: AppDeps, id: string, today: string, grace: number,
  */
 export async function chargeRenewal(deps: AppDeps, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
   const { db } = deps.database;
-  const { invoice, agreement } = await db.transaction((tx) => ensureRenewalInvoice(deps, tx, id, today));
+  const prepared = await db.transaction(async (tx) => {
+    const current = await lockAgreement(tx, id);
+    // Another worker may have renewed it since this run looked: then the next term is not due
+    // yet, and charging for it now would bill the homeowner a year early.
+    if (today < current.endsOn || !['active', 'renewal_due', 'past_due'].includes(current.status)) return null;
+    return ensureRenewalInvoice(deps, tx, id, today);
+  });
+  if (!prepared) return true;
+  const { invoice, agreement } = prepared;
   if (invoice.status !== 'open') return true;
   const stripe = stripeOf(deps);
   const customer = await ensureStripeCustomer(deps, agreement.customerId);
