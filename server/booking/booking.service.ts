@@ -85,6 +85,24 @@ export function requiredSkillFor(kinds: string[], reason: VisitReason): string |
   return undefined;
 }
 
+/** Where a property is and what plan covers it, as the booking screens show it. */
+function propertyView(
+  p: { id: string; customerId: string; customerName: string; label: string; street: string; unit: string | null; city: string; state: string; zip: string; area: string },
+  plan: { planName: string; hours: number } | undefined,
+) {
+  return {
+    id: p.id,
+    customerId: p.customerId,
+    customerName: p.customerName,
+    label: p.label,
+    address: `${p.street}${p.unit ? `, ${p.unit}` : ''}, ${p.city}, ${p.state} ${p.zip}`,
+    area: p.area,
+    member: !!plan,
+    planName: plan?.planName ?? null,
+    priorityWindowHours: plan?.hours ?? null,
+  };
+}
+
 async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
   const [p] = await db
     .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area, archivedAt: properties.archivedAt })
@@ -100,15 +118,7 @@ async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: strin
     .from(equipment)
     .where(and(eq(equipment.propertyId, p.id), isNull(equipment.archivedAt)));
   return {
-    id: p.id,
-    customerId: p.customerId,
-    customerName: p.customerName,
-    label: p.label,
-    address: `${p.street}${p.unit ? `, ${p.unit}` : ''}, ${p.city}, ${p.state} ${p.zip}`,
-    area: p.area,
-    member: !!plan,
-    planName: plan?.planName ?? null,
-    priorityWindowHours: plan?.hours ?? null,
+    ...propertyView(p, plan),
     requiredSkill: requiredSkillFor(
       kinds.map((k) => k.kind),
       reason,
@@ -136,20 +146,7 @@ export async function bookingOptions(deps: AppDeps, user: SessionUser, customerI
     cancelCutoffHours: c.cancelCutoffHours,
     companyPhone: c.phone,
     timeZone: c.timeZone,
-    properties: rows.map((r) => {
-      const plan = plansBy.get(r.id);
-      return {
-        id: r.id,
-        customerId: r.customerId,
-        customerName: r.customerName,
-        label: r.label,
-        address: `${r.street}${r.unit ? `, ${r.unit}` : ''}, ${r.city}, ${r.state} ${r.zip}`,
-        area: r.area,
-        member: !!plan,
-        planName: plan?.planName ?? null,
-        priorityWindowHours: plan?.hours ?? null,
-      };
-    }),
+    properties: rows.map((r) => propertyView(r, plansBy.get(r.id))),
   };
 }
 
