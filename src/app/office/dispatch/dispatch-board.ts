@@ -56,6 +56,10 @@ export class DispatchBoard {
   private readonly snack = inject(MatSnackBar);
 
   protected readonly kinds = VISIT_KINDS.map((k) => ({ id: k, label: KIND_LABELS[k] }));
+  /** Skills in words: "gas_furnace" reads as "gas furnace". */
+  protected skillWords(skills: readonly string[] | undefined): string {
+    return (skills ?? []).map((s) => s.replace(/_/g, ' ')).join(', ');
+  }
 
   protected readonly from = signal(DateTime.now().setZone('America/Chicago').toISODate()!);
   protected readonly days = signal<1 | 7>(1);
