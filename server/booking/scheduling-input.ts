@@ -1,4 +1,4 @@
-import { and, eq, gt, inArray, isNotNull, lt, ne } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNotNull, isNull, lt, ne } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { BookedVisit, SchedulingSettings, Technician, WeeklyHours } from '../../shared/scheduling';
 import { ACTIVE_STATUSES } from '../../shared/schemas/booking';
@@ -84,7 +84,8 @@ export async function loadSchedulingData(
     .select({ id: technicians.id, weeklyHours: technicians.weeklyHours, skills: technicians.skills, name: users.name })
     .from(technicians)
     .innerJoin(users, eq(users.id, technicians.userId))
-    .where(and(eq(technicians.active, true)));
+    // A turned-off account takes no new work.
+    .where(and(eq(technicians.active, true), isNull(users.disabledAt)));
   const ids = techRows.map((t) => t.id);
   const offRows = ids.length
     ? await db
