@@ -1,26 +1,9 @@
-import { createRequire } from 'node:module';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer, MailInputError, renderEmail, type Mailer, type OutgoingMail } from '../server/integrations/mail';
+import { parse } from './support/jsdom';
 
 const FROM = 'Seasonwell Office <office@seasonwell.example.test>';
-// jsdom is the reference HTML parser (parsed the way a browser would). The project has no
-// @types/jsdom and the server tsconfig has no DOM lib, so describe just what these tests read.
-interface Node_ {
-  textContent: string | null;
-  value?: string;
-  style: { fontFamily: string };
-  nextElementSibling: Node_ | null;
-  getAttribute(name: string): string | null;
-  querySelector(selector: string): Node_ | null;
-  querySelectorAll(selector: string): ArrayLike<Node_> & Iterable<Node_> & { length: number };
-}
-interface Doc extends Node_ {
-  title: string;
-  body: Node_;
-}
-const { JSDOM } = createRequire(import.meta.url)('jsdom') as { JSDOM: new (html: string) => { window: { document: Doc } } };
-const parse = (html: string): Doc => new JSDOM(html).window.document;
 
 function fieldOf(fn: () => unknown): string | undefined {
   try {
