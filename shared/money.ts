@@ -45,17 +45,30 @@ export function divRoundHalfUp(numerator: number | bigint, denominator: number |
   return result;
 }
 
-/** "$1,234.56"; negative amounts as "-$12.00". */
-export function formatUsd(cents: number): string {
+const moneyFormats = new Map<string, Intl.NumberFormat>();
+
+/**
+ * Cents (two decimal places, as every currency the product and its fakes use) in the currency's
+ * en-US form ("$1,234.56", "-$12.00"), by ICU through `Intl.NumberFormat`. Every amount put into
+ * words on the server (mail, receipts, messages) goes through here.
+ */
+export function formatMoney(cents: number, currency = 'USD'): string {
   assertCents(cents, 'cents', true);
-  const sign = cents < 0 ? '-' : '';
-  const abs = Math.abs(cents);
-  const dollars = Math.floor(abs / 100)
-    .toString()
-    .replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  const rest = (abs % 100).toString().padStart(2, '0');
-  return `${sign}$${dollars}.${rest}`;
+  const code = currency.toUpperCase();
+  let format = moneyFormats.get(code);
+  if (!format) {
+    format = new Intl.NumberFormat('en-US', { style: 'currency', currency: code });
+    moneyFormats.set(code, format);
+  }
+  // Handed over as a decimal string, which Intl formats exactly (ECMA-402, Intl.NumberFormat
+  // v3); cents / 100 as a double can be a cent off past about $35 trillion (2^45 dollars).
+  const digits = String(Math.abs(cents)).padStart(3, '0');
+  const decimal = `${cents < 0 ? '-' : ''}${digits.slice(0, -2)}.${digits.slice(-2)}` as `${number}`;
+  return format.format(decimal);
 }
+
+/** US dollars, as everywhere in the product. */
+export const formatUsd = (cents: number): string => formatMoney(cents, 'USD');
 
 // Quantities (hours of labour, feet of line set) allow up to 3 decimals so the
 // product with a cent price is computed exactly in thousandths.

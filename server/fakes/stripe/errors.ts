@@ -1,3 +1,5 @@
+import type { CardFailure } from './cards';
+
 // Errors in the wire shape the Stripe SDK reads: `{ error: { type, code, decline_code, message, param } }`.
 // The HTTP status is what picks the SDK's error class.
 
@@ -49,3 +51,15 @@ export const noSuch = (kind: string, id: string, param = 'id') =>
 
 export const unexpectedState = (kind: 'payment_intent' | 'setup_intent' | 'checkout_session', message: string) =>
   invalidRequest(message, undefined, `${kind}_unexpected_state`);
+
+/** A refused card, with the objects the SDK attaches to the error (`payment_intent`, `setup_intent`, ...). */
+export function cardError(f: CardFailure, param?: string, extra: Partial<WireError> = {}): FakeStripeError {
+  return new FakeStripeError(402, {
+    type: 'card_error',
+    code: f.code,
+    ...(f.decline_code ? { decline_code: f.decline_code } : {}),
+    message: f.message,
+    ...(param ? { param } : {}),
+    ...extra,
+  });
+}

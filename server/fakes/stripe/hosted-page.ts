@@ -1,16 +1,14 @@
 import express, { type Request, type Response } from 'express';
 import { randomBytes } from 'node:crypto';
-import { Engine, FAKE_API_VERSION, type Obj } from './engine';
+import { escapeHtml as esc } from '../../../shared/html';
+import { formatMoney } from '../../../shared/money';
+import { completeCheckout, sessionNow } from './checkout-sessions';
+import { FAKE_API_VERSION, type Engine } from './engine';
 import { FakeStripeError } from './errors';
+import type { WireCheckoutSession, WireLineItem } from './wire-types';
 
 // The hosted payment page: plain server-rendered HTML, no script. Card data is
 // typed here, on the fake's own port, and never reaches our app server.
-
-const esc = (s: unknown): string =>
-  String(s ?? '').replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
-
-const usd = (cents: number, currency: string) =>
-  currency === 'usd' ? `$${(cents / 100).toFixed(2).replace(/\B(?=(\d{3})+(?!\d))/g, ',')}` : `${(cents / 100).toFixed(2)} ${currency.toUpperCase()}`;
 
 const CARDS_HELP: [string, string][] = [
   ['4242 4242 4242 4242', 'succeeds'],
@@ -50,21 +48,21 @@ interface FormValues {
   cvc?: string;
 }
 
-function checkoutForm(s: Obj, lines: Obj[], error?: string, values: FormValues = {}): string {
-  const setup = s['mode'] === 'setup';
+function checkoutForm(s: WireCheckoutSession, lines: WireLineItem[], error?: string, values: FormValues = {}): string {
+  const setup = s.mode === 'setup';
   const rows = lines
-    .map((l) => `<tr><td>${esc(l['description'])} × ${esc(l['quantity'])}</td><td class="amt">${esc(usd(l['amount_total'], l['currency']))}</td></tr>`)
+    .map((l) => `<tr><td>${esc(l.description)} × ${esc(l.quantity)}</td><td class="amt">${esc(formatMoney(l.amount_total, l.currency))}</td></tr>`)
     .join('');
   const summary = setup
     ? '<p>Save a card for future charges. Nothing is charged now.</p>'
-    : `<table aria-label="Order summary">${rows}<tr class="total"><td>Total</td><td class="amt">${esc(usd(s['amount_total'], s['currency']))}</td></tr></table>`;
-  const cancel = s['cancel_url'] ? `<p><a href="${esc(s['cancel_url'])}">Cancel</a></p>` : '';
+    : `<table aria-label="Order summary">${rows}<tr class="total"><td>Total</td><td class="amt">${esc(formatMoney(s.amount_total ?? 0, s.currency ?? 'usd'))}</td></tr></table>`;
+  const cancel = s.cancel_url ? `<p><a href="${esc(s.cancel_url)}">Cancel</a></p>` : '';
   return page(
     'Test payment page',
     `<h1>Test payment page</h1>
 ${summary}
 ${error ? `<p class="error" role="alert">${esc(error)}</p>` : ''}
-<form method="post" action="/checkout/${esc(s['id'])}">
+<form method="post" action="/checkout/${esc(s.id)}">
   <label for="card_number">Card number</label>
   <input id="card_number" name="card_number" inputmode="numeric" autocomplete="cc-number" required value="${esc(values.card_number)}">
   <div class="row">
@@ -92,38 +90,38 @@ export function createHostedPageRouter(engine: Engine, publicUrl: (req: Request)
   const router = express.Router();
   router.use(express.urlencoded({ extended: false, limit: '16kb' }));
 
-  const sessionOr404 = (req: Request, res: Response): Obj | undefined => {
+  const sessionOr404 = (req: Request, res: Response): WireCheckoutSession | undefined => {
     const s = engine.sessions.get(String(req.params['id']));
     if (!s) {
       res.status(404).type('html').send(page('Test payment page', '<h1>Payment page not found</h1><p>This payment link is not valid.</p>'));
       return undefined;
     }
-    return engine.sessionNow(s['id']);
+    return sessionNow(engine, s.id);
   };
 
-  const closed = (res: Response, s: Obj) => {
-    const text = s['status'] === 'complete' ? 'This payment is already complete.' : 'This payment page has expired.';
+  const closed = (res: Response, s: WireCheckoutSession) => {
+    const text = s.status === 'complete' ? 'This payment is already complete.' : 'This payment page has expired.';
     res.status(410).type('html').send(page('Test payment page', `<h1>Test payment page</h1><p role="status">${esc(text)}</p>`));
   };
 
   router.get('/:id', (req, res) => {
     const s = sessionOr404(req, res);
     if (!s) return;
-    if (s['status'] !== 'open') return closed(res, s);
-    res.type('html').send(checkoutForm(s, engine.sessionLines.get(s['id']) ?? []));
+    if (s.status !== 'open') return closed(res, s);
+    res.type('html').send(checkoutForm(s, engine.sessionLines.get(s.id) ?? []));
   });
 
   router.post('/:id', (req, res) => {
     const s = sessionOr404(req, res);
     if (!s) return;
-    if (s['status'] !== 'open') return closed(res, s);
+    if (s.status !== 'open') return closed(res, s);
     const body = (req.body ?? {}) as Record<string, unknown>;
     const values: FormValues = {
       card_number: typeof body['card_number'] === 'string' ? body['card_number'] : '',
       expiry: typeof body['expiry'] === 'string' ? body['expiry'] : '',
       cvc: typeof body['cvc'] === 'string' ? body['cvc'] : '',
     };
-    const lines = engine.sessionLines.get(s['id']) ?? [];
+    const lines = engine.sessionLines.get(s.id) ?? [];
     const again = (status: number, message: string) =>
       // The card number is never echoed back into the page.
       res.status(status).type('html').send(checkoutForm(s, lines, message, { expiry: values.expiry }));
@@ -136,12 +134,12 @@ export function createHostedPageRouter(engine: Engine, publicUrl: (req: Request)
         apiVersion: FAKE_API_VERSION,
         publicUrl: publicUrl(req),
       };
-      engine.completeCheckout(s['id'], { number: values.card_number ?? '', ...exp, cvc: values.cvc }, info);
+      completeCheckout(engine, s.id, { number: values.card_number ?? '', ...exp, cvc: values.cvc }, info);
     } catch (e) {
       if (e instanceof FakeStripeError) return again(e.status === 402 ? 402 : 400, e.body.message);
       throw e;
     }
-    res.redirect(303, String(s['success_url']).replaceAll('{CHECKOUT_SESSION_ID}', s['id']));
+    res.redirect(303, s.success_url.replaceAll('{CHECKOUT_SESSION_ID}', s.id));
   });
 
   return router;

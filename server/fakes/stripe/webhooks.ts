@@ -1,17 +1,12 @@
 import { createHmac } from 'node:crypto';
+import type { WireEvent } from './wire-types';
 
 // Delivery of events to one endpoint, signed the way Stripe signs them:
 // `Stripe-Signature: t=<unix seconds>,v1=<hex HMAC-SHA256 of "t.body">`.
 // Failed deliveries are retried with exponential backoff until a 2xx or the
 // attempt limit (real Stripe keeps trying for up to 3 days; tests want ms).
 
-export interface WireEvent {
-  id: string;
-  object: 'event';
-  type: string;
-  created: number;
-  [k: string]: unknown;
-}
+export type { WireEvent };
 
 export function signPayload(payload: string, secret: string, timestampSec: number): string {
   const v1 = createHmac('sha256', secret).update(`${timestampSec}.${payload}`, 'utf8').digest('hex');
