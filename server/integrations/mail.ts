@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import nodemailer from 'nodemailer';
+import { escapeHtml } from '../../shared/html';
 
 /** Bad input to the mailer or the e-mail layout; `field` names what to fix. */
 export class MailInputError extends Error {
@@ -266,15 +267,6 @@ export function createMailer(config: { smtpUrl: string; from: string }): Mailer 
 }
 
 // ---- E-mail layout ----
-
-export function escapeHtml(value: string): string {
-  return value
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&#39;');
-}
 
 export interface EmailContent {
   title: string;

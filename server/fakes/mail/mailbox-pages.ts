@@ -1,15 +1,7 @@
+import { escapeHtml } from '../../../shared/html';
 import type { CapturedMessage } from './mail-store';
 
 const TITLE = 'Seasonwell test mailbox';
-
-export function escapeHtml(value: unknown): string {
-  return String(value)
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&#39;');
-}
 
 const when = (d: Date): string => `${d.toISOString().slice(0, 19).replace('T', ' ')} UTC`;
 
