@@ -3,7 +3,8 @@ import { eq, sql } from 'drizzle-orm';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { customers, equipment, properties } from '../server/db/schema';
-import { addressKey, guard, suggestMapping } from '../server/imports/csv.service';
+import { toCsv } from '../server/http/csv';
+import { addressKey, suggestMapping } from '../server/imports/csv.service';
 import { testApp, type TestContext } from './support/app';
 import { signInStaff, type Signed } from './support/auth';
 
@@ -131,8 +132,9 @@ describe('CSV helpers', () => {
 
   it('guards cells a spreadsheet would run as a formula', () => {
     // OWASP CSV Injection: prefix cells starting with = + - @ with a single quote.
-    expect(guard('=HYPERLINK("x")')).toBe(`'=HYPERLINK("x")`);
-    expect(guard('@SUM(A1)')).toBe(`'@SUM(A1)`);
-    expect(guard('Hollis household')).toBe('Hollis household');
+    const cells = (values: (string | number)[]) => Papa.parse<string[]>(toCsv(['cell'], values.map((v) => [v])).trim()).data.slice(1).map((r) => r[0]);
+    expect(cells(['=HYPERLINK("x")', '@SUM(A1)', '+1 816', '-2+3', 'Hollis household'])).toEqual([`'=HYPERLINK("x")`, `'@SUM(A1)`, `'+1 816`, `'-2+3`, 'Hollis household']);
+    // A line break later in the cell does not let a formula through; a number is written as it is.
+    expect(cells(['=1+1\nsecond line', -3])).toEqual([`'=1+1\nsecond line`, '-3']);
   });
 });

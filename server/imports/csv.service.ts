@@ -20,6 +20,7 @@ import { BTUH_PER_TON, equipmentInputSchema, type EquipmentInput } from '../../s
 import type { Db, Tx } from '../db/client';
 import { customers, equipment, properties } from '../db/schema';
 import { searchWhere } from '../customers/customers.service';
+import { toCsv } from '../http/csv';
 import { AppError } from '../http/errors';
 
 export const MAX_IMPORT_ROWS = 20_000;
@@ -355,8 +356,7 @@ export async function runImport(db: Db, buf: Buffer, mapping: ImportMapping, tod
 
 export const EXPORT_LIMIT = 50_000;
 
-/** Spreadsheets run cells starting with = + - @ as formulas; a leading apostrophe stops that (OWASP CSV injection). */
-export const guard = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
+/** Undoes the export's formula escaping (server/http/csv.ts), so an exported file imports back as it was. */
 const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
 
 /** The households of the current list view (search and sort), one row per piece of equipment. */
@@ -400,7 +400,7 @@ export async function exportCustomersCsv(db: Db, q: CustomerListQuery): Promise<
       warranty_ends_on: e?.warrantyEndsOn ?? '',
       location: e?.location ?? '',
     };
-    return fields.map((f) => guard(cell[f]));
+    return fields.map((f) => cell[f]);
   });
-  return Papa.unparse({ fields, data }, { newline: '\r\n' });
+  return toCsv(fields, data);
 }

@@ -1,10 +1,10 @@
 import { and, desc, eq, gte, inArray, lte, max, sql, type SQL } from 'drizzle-orm';
-import Papa from 'papaparse';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { addDays, daysBetween } from '../../shared/renewals';
 import { RENEWAL_VIEWS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../shared/schemas/plans';
 import type { AppDeps } from '../app';
 import { agreements, agreementTerms, customers, invoices, plans, planVersions, renewalNotices } from '../db/schema';
+import { toCsv } from '../http/csv';
 import { today as companyToday } from '../agreements/agreements.service';
 
 const RENEWED_LOOKBACK_DAYS = 30;
@@ -72,24 +72,21 @@ async function renewalRows(deps: AppDeps, view: RenewalView, today: string): Pro
   }));
 }
 
-/** Cells that a spreadsheet would run as a formula get a leading apostrophe. */
-const safeCell = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
-
 export async function renewalCsv(deps: AppDeps, view: RenewalView): Promise<string> {
   const today = await companyToday(deps);
   const rows = await renewalRows(deps, view, today);
-  return Papa.unparse({
-    fields: ['Household', 'E-mail', 'Plan', 'Status', 'Ends on', 'Days left', 'Price (USD)', 'Automatic renewal', 'Last notice'],
-    data: rows.map((r) => [
-      safeCell(r.customerName),
-      safeCell(r.email ?? ''),
-      safeCell(r.planName),
+  return toCsv(
+    ['Household', 'E-mail', 'Plan', 'Status', 'Ends on', 'Days left', 'Price (USD)', 'Automatic renewal', 'Last notice'],
+    rows.map((r) => [
+      r.customerName,
+      r.email ?? '',
+      r.planName,
       AGREEMENT_STATUS_LABELS[r.status],
       r.endsOn,
-      String(r.daysLeft),
+      r.daysLeft,
       (r.priceCents / 100).toFixed(2),
       r.autoRenew ? 'yes' : 'no',
       r.lastNoticeAt ?? '',
     ]),
-  });
+  );
 }
