@@ -3,6 +3,7 @@ import {
   applyDiscountBps,
   discountCents,
   divRoundHalfUp,
+  formatMoney,
   formatUsd,
   invoiceTotals,
   lineTotalCents,
@@ -19,6 +20,15 @@ describe('formatUsd', () => {
       expect(formatUsd(cents)).toBe(icu.format(cents / 100));
     },
   );
+
+  it('stays exact past the point where cents / 100 as a double loses the last cent', () => {
+    expect(formatUsd(9_007_199_254_740_899)).toBe('$90,071,992,547,408.99');
+  });
+
+  it('takes the lower-case currency code the card processor sends', () => {
+    expect(formatMoney(123_456, 'usd')).toBe('$1,234.56');
+    expect(formatMoney(-5, 'usd')).toBe('-$0.05');
+  });
 
   it('refuses fractions of a cent and non-numbers, naming the field', () => {
     expect(() => formatUsd(10.5)).toThrow(/cents/);

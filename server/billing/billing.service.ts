@@ -1,6 +1,6 @@
 import { and, desc, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
 import Stripe from 'stripe';
-import { invoiceTotals, MoneyError, type InvoiceLine } from '../../shared/money';
+import { formatUsd, invoiceTotals, MoneyError, type InvoiceLine } from '../../shared/money';
 import type {
   CreateInvoiceInput,
   InvoicePurpose,
@@ -561,7 +561,7 @@ export async function recordOfflinePayment(deps: AppDeps, user: SessionUser, inv
     if (inv.status !== 'open') throw conflict('Payments can only be recorded on an open invoice.');
     const due = inv.totalCents - inv.paidCents;
     if (input.amountCents > due) {
-      throw new AppError(422, 'validation_failed', `The amount is more than the balance of ${(due / 100).toFixed(2)}.`, { amountCents: 'More than the balance due.' });
+      throw new AppError(422, 'validation_failed', `The amount is more than the balance of ${formatUsd(due)}.`, { amountCents: 'More than the balance due.' });
     }
     const [row] = await tx
       .insert(payments)
@@ -594,7 +594,7 @@ export async function refundInvoice(deps: AppDeps, user: SessionUser, invoiceId:
   }
   const left = payment.amountCents - payment.refundedCents;
   if (input.amountCents > left) {
-    throw new AppError(422, 'validation_failed', `At most ${(left / 100).toFixed(2)} can be refunded on that payment.`, { amountCents: 'More than is left to refund.' });
+    throw new AppError(422, 'validation_failed', `At most ${formatUsd(left)} can be refunded on that payment.`, { amountCents: 'More than is left to refund.' });
   }
   let stripeRefundId: string | null = null;
   if (payment.method === 'card') {

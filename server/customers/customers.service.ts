@@ -1,6 +1,7 @@
 import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, sql, type SQL } from 'drizzle-orm';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
+import { formatUsd } from '../../shared/money';
 import type {
   Contact,
   ContactInput,
@@ -238,7 +239,7 @@ export async function getCustomer(db: Db, id: string, now: Date, opts: { include
     })),
     ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${a.startsOn} to ${a.endsOn}`, refId: a.id })),
     ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
-    ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${(i.totalCents / 100).toFixed(2)} USD, ${i.status}`, refId: i.id })),
+    ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${formatUsd(i.totalCents)}, ${i.status}`, refId: i.id })),
     ...noteOut.map((n) => ({ at: n.createdAt, kind: 'note' as const, title: n.audience === 'technician' ? 'Note for the technician' : 'Office note', detail: n.body, refId: n.id })),
     ...fileOut.map((f) => ({ at: f.createdAt, kind: 'file' as const, title: `${f.contentType === 'application/pdf' ? 'Document' : 'Photo'} added`, detail: f.originalName, refId: f.id })),
     ...(c.archivedAt ? [{ at: c.archivedAt.toISOString(), kind: (c.mergedIntoId ? 'merged' : 'archived') as TimelineEntry['kind'], title: c.mergedIntoId ? 'Merged into another household' : 'Archived', detail: '', refId: c.mergedIntoId }] : []),
