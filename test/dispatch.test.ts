@@ -1,5 +1,4 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import nodeIcal from 'node-ical';
 import { and, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { testApp, type TestContext } from './support/app';
@@ -7,6 +6,7 @@ import { anonymous, signInStaff, type Signed } from './support/auth';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
+import { parseCalendar } from './support/calendar';
 
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';
 const PRIYA = 'priya.dunmore@bluestem-comfort.test';
@@ -102,8 +102,8 @@ describe('dispatch board', () => {
     const mail = await waitForMail(h.email, 'Your technician is confirmed');
     expect(mail.text).toMatch(/Priya Dunmore/);
     const ics = mail.attachments.find((a) => a.contentType.startsWith('text/calendar'))!.content.toString('utf8');
-    const parsed = Object.values(nodeIcal.sync.parseICS(ics)).find((c) => c?.type === 'VEVENT') as nodeIcal.VEvent;
-    expect(Number(parsed.sequence)).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
+    const parsed = parseCalendar(ics).events[0]!;
+    expect(parsed.sequence).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
   });
 
   it('respects skills, time off and existing visits when assigning', async () => {
@@ -201,11 +201,11 @@ describe('technician week and calendar feed', () => {
     const anon = await anonymous(ctx);
     const feed = await anon.agent.get(path).expect(200);
     expect(feed.headers['content-type']).toMatch(/^text\/calendar/);
-    const events = Object.values(nodeIcal.sync.parseICS(feed.text)).filter((c) => c?.type === 'VEVENT') as nodeIcal.VEvent[];
+    const { events } = parseCalendar(feed.text);
     const ev = events.find((e) => e.uid === `visit-${visit.id}@seasonwell.local`);
     expect(ev).toBeDefined();
-    expect(ev!.start.toISOString()).toBe(new Date(visit.startsAt).toISOString());
-    expect((ev!.start as Date & { tz?: string }).tz).toBe('America/Chicago'); // node-ical keeps the TZID it resolved
+    expect(ev!.startDate.toJSDate().toISOString()).toBe(new Date(visit.startsAt).toISOString());
+    expect(ev!.startDate.zone.tzid).toBe('America/Chicago'); // resolved from the feed's own VTIMEZONE
 
     // A new link replaces the old one; revoking ends it.
     const again = await tech.agent.post('/api/schedule/feed-token').set(XSRF, tech.csrf).expect(201);
