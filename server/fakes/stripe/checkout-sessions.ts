@@ -122,6 +122,7 @@ export function createCheckoutSession(e: Engine, p: Params, req: RequestInfo): W
     customer_email: customerEmail ?? null,
     expires_at: expiresAt,
     livemode: false,
+    // Passed through as given, as the fake always has: it checks neither against the API's lists.
     locale: (str(p, 'locale') ?? null) as Stripe.Checkout.Session.Locale | null,
     metadata,
     mode,
