@@ -95,7 +95,8 @@ const voltRanges = (label: string) =>
   z.preprocess(
     (v) => {
       if (Array.isArray(v)) return v.flatMap((x) => (typeof x === 'object' && x !== null ? [x] : (parseVoltRanges(x) ?? [x])));
-      return parseVoltRanges(v) ?? v;
+      // Unreadable text becomes "missing", so the one message says what a rating looks like.
+      return typeof v === 'string' ? (parseVoltRanges(v) ?? undefined) : (parseVoltRanges(v) ?? v);
     },
     z
       .array(
@@ -170,7 +171,7 @@ export const motorSpecSchema = z
   .superRefine((m, ctx) => {
     if (m.rotation !== 'reversible' && !m.rotationViewedFrom) ctx.addIssue({ code: 'custom', path: ['rotationViewedFrom'], message: 'Say whether rotation is seen from the shaft end or the lead end.' });
     m.taps.forEach((t, i) => {
-      if (t.horsepower < m.horsepower.min - 0.002 || t.horsepower > m.horsepower.max + 0.002) {
+      if (m.horsepower.max >= m.horsepower.min && (t.horsepower < m.horsepower.min - 0.002 || t.horsepower > m.horsepower.max + 0.002)) {
         ctx.addIssue({ code: 'custom', path: ['taps', i, 'horsepower'], message: `Tap ${formatHorsepower(t.horsepower)} is outside the motor's horsepower.` });
       }
       if (m.taps.findIndex((o) => Math.abs(o.horsepower - t.horsepower) < 0.002) !== i) ctx.addIssue({ code: 'custom', path: ['taps', i, 'horsepower'], message: `Tap ${formatHorsepower(t.horsepower)} is listed twice.` });
