@@ -291,7 +291,7 @@ export type PriceBookItemUpdate = z.infer<typeof priceBookItemUpdateSchema>;
 
 export const ITEM_SORTS = ['sku', 'name', 'category', 'unitCents'] as const;
 export const priceBookListQuerySchema = z.object({
-  q: z.preprocess(blankToUndefined, z.string().trim().max(100, 'Keep the search under 100 characters.').optional()),
+  q: z.preprocess(blankToUndefined, z.string({ error: 'Search is text.' }).trim().max(100, 'Keep the search under 100 characters.').optional()),
   kind: z.preprocess(blankToUndefined, kindSchema.optional()),
   category: z.preprocess(blankToUndefined, categorySchema.optional()),
   status: z.enum(['active', 'inactive', 'all'], { error: 'Status is active, inactive or all.' }).default('active'),
@@ -620,7 +620,7 @@ export type Transfer = z.infer<typeof transferSchema>;
 export const stockListQuerySchema = z.object({
   locationId: z.preprocess(blankToUndefined, id('Choose a truck or the shop.').optional()),
   belowMinimum: z.preprocess((v) => (v === 'true' ? true : v === 'false' ? false : v), z.boolean({ error: 'Below minimum is true or false.' }).default(false)),
-  q: z.preprocess(blankToUndefined, z.string().trim().max(100, 'Keep the search under 100 characters.').optional()),
+  q: z.preprocess(blankToUndefined, z.string({ error: 'Search is text.' }).trim().max(100, 'Keep the search under 100 characters.').optional()),
 });
 export type StockListQuery = z.infer<typeof stockListQuerySchema>;
 
@@ -665,7 +665,7 @@ export const failedMotorSchema = z
     speeds: wholeNumber('Speeds', 1, 5),
     speedsUsed: wholeNumber('Speeds used', 1, 5),
     /** Which taps were wired, when the technician noted them. */
-    tapsInUse: z.array(z.enum(SPEED_TAPS, { error: `A speed tap is one of ${SPEED_TAPS.join(', ')}.` })).max(5).default([]),
+    tapsInUse: z.array(z.enum(SPEED_TAPS, { error: `A speed tap is one of ${SPEED_TAPS.join(', ')}.` })).max(5, 'List at most 5 speed taps.').default([]),
     amps: amount('Rated amps', 0.1, 60, ' A'),
     /** The direction it turned in the unit; "unknown" when the nameplate said reversible and nobody checked. */
     rotation: z.preprocess(lowerWord, z.enum(['cw', 'ccw', 'unknown'], { error: 'Rotation is CW, CCW or unknown.' })),
