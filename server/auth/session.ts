@@ -98,7 +98,7 @@ export function authMiddleware(deps: AppDeps, csrfExemptPaths: string[]): Router
   const PgStore = connectPgSimple(session);
   const auth = authenticatorFor(deps);
 
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.use((req, res, next) => {
     if (TOKEN_PAGES.some((p) => req.path === p)) res.setHeader('Referrer-Policy', 'no-referrer');
     next();
