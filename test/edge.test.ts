@@ -274,6 +274,18 @@ describe('NUL and lone surrogates are refused at the edge, naming the field', ()
     expectError(notes, 400, 'bad_text');
   });
 
+  it('in a header value the app keeps', async () => {
+    const { storableTextOnly } = await import('../server/http/edge');
+    const req = { query: {}, body: undefined, headers: { 'x-forwarded-for': '203.0.113.9\u0000' } } as never;
+    let failed: unknown;
+    try {
+      storableTextOnly(req, {} as never, () => undefined);
+    } catch (err) {
+      failed = err;
+    }
+    expect(failed).toMatchObject({ status: 400, code: 'bad_text', fields: { 'x-forwarded-for': expect.any(String) } });
+  });
+
   it('in a multipart field', async () => {
     const res = await dana.agent.post('/api/files').set(CSRF_HEADER_NAME, dana.csrf).field('propertyId', danaPropertyId).field('category', 'problem').field('caption', 'a\u0000b');
     expectError(res, 400, 'bad_text');

@@ -109,8 +109,9 @@ export function assertStorableText(value: unknown, prefix: string[] = []): void 
   }
 }
 
-// Headers whose values the app keeps (audit trail, sessions): the address and the browser name.
-const STORED_HEADERS = ['user-agent', 'x-forwarded-for'] as const;
+// Headers whose values the app keeps: the forwarded address becomes req.ip in the audit trail.
+// Node's HTTP parser already refuses NUL in any header (llhttp); this holds if that ever changes.
+const STORED_HEADERS = ['x-forwarded-for'] as const;
 
 /** The one check for unstorable text in the JSON body, the query string and kept headers. */
 export const storableTextOnly: RequestHandler = (req, _res, next) => {
