@@ -51,13 +51,17 @@ const countRows = async (table: string) => Number((await ctx.database.db.execute
 const rateKeys = async (fragment: string) => (await ctx.database.db.select({ key: t.rateLimitHits.key }).from(t.rateLimitHits).where(like(t.rateLimitHits.key, `%${fragment}%`))).length;
 
 describe('CSRF on every spelling of a path', () => {
-  const spellings = ['/Api/customers', '/api/Customers', '/api/customers/', '/%61pi/customers', '/api/%63ustomers', '/api//customers', '/API/webhooks/stripe-not', '/api/Webhooks/stripe'];
+  const spellings = ['/API/invoices', '/api/Invoices/', '/%61pi/invoices', '/Api/customers', '/api/Customers', '/api/customers/', '/%61pi/customers', '/api/%63ustomers', '/api//customers', '/API/webhooks/stripe-not', '/api/Webhooks/stripe'];
 
   it.each(spellings)('refuses POST %s without the token, before anything is written', async (path) => {
     const before = await countRows('customers');
     const res = await office.agent.post(path).send({ name: 'Spelled household', email: 'spelled@example.test' });
     expectError(res, 403, 'csrf_failed');
     expect(await countRows('customers')).toBe(before);
+  });
+
+  it.each(['put', 'patch', 'delete'] as const)('refuses %s on another spelling without the token', async (method) => {
+    expectError(await office.agent[method]('/API/settings/company').send({ name: 'Spelled' }), 403, 'csrf_failed');
   });
 
   it('still signs nobody out through an upper-case path', async () => {
@@ -284,6 +288,13 @@ describe('NUL and lone surrogates are refused at the edge, naming the field', ()
       failed = err;
     }
     expect(failed).toMatchObject({ status: 400, code: 'bad_text', fields: { 'x-forwarded-for': expect.any(String) } });
+  });
+
+  it('UTF-8 that encodes a surrogate is a 400 in a path and harmless in a query', async () => {
+    // ED A0 80 would be U+D800, which UTF-8 may not encode (RFC 3629 §3).
+    expectError(await office.agent.get('/api/customers/%ED%A0%80'), 400, 'bad_uri');
+    const res = await office.agent.get('/api/customers?q=%ED%A0%80');
+    expect(res.status).toBe(200);
   });
 
   it('in a multipart field', async () => {
