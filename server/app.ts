@@ -8,7 +8,8 @@ import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Database } from './db/client';
 import { authMiddleware } from './auth/session';
-import { apiNotFound, errorHandler } from './http/errors';
+import { guardParams, jsonBodiesOnly, sameOriginWrites, storableTextOnly } from './http/edge';
+import { apiNotFound, errorHandler, notFoundAnywhere } from './http/errors';
 import { apiRouters } from './routes';
 import type { Services } from './services';
 
@@ -27,6 +28,9 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  // Paths match exactly as written, so every guard below sees the same path the router routes.
+  app.set('case sensitive routing', true);
+  app.set('strict routing', true);
 
   app.use(
     helmet({
@@ -48,7 +52,11 @@ export function createApp(deps: AppDeps): Express {
         },
       },
       crossOriginEmbedderPolicy: false,
-      hsts: config.production,
+      // Older browsers read X-Frame-Options; DENY says the same as frame-ancestors 'none'.
+      frameguard: { action: 'deny' },
+      referrerPolicy: { policy: 'no-referrer' },
+      // A year, subdomains included (RFC 6797; common practice). Only over HTTPS, in production.
+      hsts: config.production ? { maxAge: 31_536_000, includeSubDomains: true } : false,
     }),
   );
   app.use(compression());
@@ -64,20 +72,27 @@ export function createApp(deps: AppDeps): Express {
       },
     }),
   );
+  const rawMounts = apiRouters.filter((r) => r.rawBody).map((r) => r.path);
+  const multipartMounts = apiRouters.filter((r) => r.multipart).map((r) => r.path);
+  // Refusals that need no session or body come first: another site's writes, then non-JSON bodies.
+  app.use(sameOriginWrites(config));
+  app.use(jsonBodiesOnly({ rawMounts, multipartMounts }));
   // Sessions, passport and CSRF; raw-body webhook routes carry their own signature.
-  app.use(authMiddleware(deps, apiRouters.filter((r) => r.rawBody).map((r) => r.path)));
+  app.use(authMiddleware(deps, rawMounts));
 
   for (const { path, build, rawBody } of apiRouters) {
-    if (rawBody) app.use(path, build(deps));
+    if (rawBody) app.use(path, guardParams(build(deps)));
   }
   app.use('/api', express.json({ limit: '1mb' }));
-  app.use('/api', express.urlencoded({ extended: false, limit: '1mb' }));
+  app.use(storableTextOnly);
   for (const { path, build, rawBody } of apiRouters) {
-    if (!rawBody) app.use(path, build(deps));
+    if (!rawBody) app.use(path, guardParams(build(deps)));
   }
-  app.use('/api', apiNotFound);
+  // Any other spelling of /api is an API path too: a JSON 404, never the client's page.
+  app.use((req, res, next) => (/^\/api(\/|$)/i.test(req.path) ? apiNotFound(req, res, next) : next()));
 
   serveClient(app, config);
+  app.use(notFoundAnywhere);
   app.use(errorHandler);
   return app;
 }

@@ -27,6 +27,8 @@ export interface ApiRouter {
   build: (deps: AppDeps) => Router;
   /** Mounted before the JSON body parser (webhooks need the raw body). */
   rawBody?: boolean;
+  /** Takes multipart/form-data uploads besides JSON. */
+  multipart?: boolean;
 }
 
 // Every API router, one line each. The access-control test walks all of them.
@@ -51,7 +53,7 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/customers', build: customerRoutes },
   { path: '/api/properties', build: propertyRoutes },
   { path: '/api/equipment', build: equipmentRoutes },
-  { path: '/api/files', build: uploadRoutes },
-  { path: '/api/imports', build: importRoutes },
+  { path: '/api/files', build: uploadRoutes, multipart: true },
+  { path: '/api/imports', build: importRoutes, multipart: true },
   { path: '/api/my-home', build: myHomeRoutes },
 ];

@@ -1,6 +1,14 @@
 // Money is integer cents (USD) everywhere. Rates are integer basis points
 // (1 bp = 0.01 %, so 825 bp = 8.25 %). No floating-point amounts leave this file.
 
+/**
+ * Stated maxima. The cents columns are PostgreSQL `integer` (at most 2^31 − 1 = 2,147,483,647,
+ * PostgreSQL manual "Numeric Types"); an invoice total, tax included, stays well below it.
+ */
+export const MAX_LINE_CENTS = 99_999_999; // $999,999.99 a line
+export const MAX_INVOICE_CENTS = 999_999_999; // $9,999,999.99 an invoice
+export const MAX_INVOICE_LINES = 100;
+
 export class MoneyError extends Error {
   constructor(
     readonly field: string,
@@ -153,6 +161,7 @@ export interface InvoiceTotals {
  */
 export function invoiceTotals(input: { lines: InvoiceLine[]; discountBps?: number; taxRateBps: number }): InvoiceTotals {
   if (!input || !Array.isArray(input.lines)) throw new MoneyError('lines', 'must be a list of invoice lines');
+  if (input.lines.length > MAX_INVOICE_LINES) throw new MoneyError('lines', `must be at most ${MAX_INVOICE_LINES} lines`);
   const discountBps = input.discountBps ?? 0;
   assertBps(discountBps, 'discountBps');
   assertBps(input.taxRateBps, 'taxRateBps');
@@ -167,6 +176,7 @@ export function invoiceTotals(input: { lines: InvoiceLine[]; discountBps?: numbe
     const scaled = scaledQuantity(line.quantity, `${at}.quantity`);
     assertCents(line.unitCents, `${at}.unitCents`);
     const grossCents = divRoundHalfUp(BigInt(scaled) * BigInt(line.unitCents), QTY_SCALE);
+    if (grossCents > MAX_LINE_CENTS) throw new MoneyError(`${at}.unitCents`, `the line total must be at most ${formatUsd(MAX_LINE_CENTS)}`);
     const lineDiscount = DISCOUNTABLE_KINDS.includes(line.kind) ? discountCents(grossCents, discountBps) : 0;
     return { ...line, grossCents, discountCents: lineDiscount, netCents: grossCents - lineDiscount };
   });
@@ -175,12 +185,16 @@ export function invoiceTotals(input: { lines: InvoiceLine[]; discountBps?: numbe
   const totalDiscount = lines.reduce((s, l) => s + l.discountCents, 0);
   const taxableCents = lines.filter((l) => l.taxable).reduce((s, l) => s + l.netCents, 0);
   const tax = taxCents(taxableCents, input.taxRateBps);
+  // Each line is at most MAX_LINE_CENTS and there are at most MAX_INVOICE_LINES, so these sums
+  // stay far inside Number.MAX_SAFE_INTEGER; only the total needs its own bound.
+  const totalCents = subtotalCents - totalDiscount + tax;
+  if (totalCents > MAX_INVOICE_CENTS) throw new MoneyError('lines', `the invoice total must be at most ${formatUsd(MAX_INVOICE_CENTS)}`);
   return {
     lines,
     subtotalCents,
     discountCents: totalDiscount,
     taxableCents,
     taxCents: tax,
-    totalCents: subtotalCents - totalDiscount + tax,
+    totalCents,
   };
 }

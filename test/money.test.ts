@@ -7,6 +7,9 @@ import {
   formatUsd,
   invoiceTotals,
   lineTotalCents,
+  MAX_INVOICE_CENTS,
+  MAX_LINE_CENTS,
+  MoneyError,
   taxCents,
   type InvoiceLine,
 } from '../shared/money';
@@ -159,5 +162,20 @@ describe('invoiceTotals', () => {
     expect(bad({ taxable: 'yes' as never })).toThrow(/lines\[1\]\.taxable/);
     expect(() => invoiceTotals({ lines: [], taxRateBps: -1 })).toThrow(/taxRateBps/);
     expect(() => invoiceTotals({ lines: null as never, taxRateBps: 825 })).toThrow(/lines/);
+  });
+
+  it('states a maximum per line and per invoice, and never sums past it', () => {
+    const line = (unitCents: number, quantity = 1): InvoiceLine => ({ description: 'Condenser', kind: 'parts', quantity, unitCents, taxable: true });
+    expect(invoiceTotals({ lines: [line(MAX_LINE_CENTS)], taxRateBps: 0 }).totalCents).toBe(MAX_LINE_CENTS);
+    expect(() => invoiceTotals({ lines: [line(MAX_LINE_CENTS + 1)], taxRateBps: 0 })).toThrow(/lines\[0\]\.unitCents/);
+    // 100 000 × $1,000,000.00 would be 10^13 cents: refused as a line, not stored as an overflow.
+    expect(() => invoiceTotals({ lines: [line(100_000_000, 100_000)], taxRateBps: 0 })).toThrow(MoneyError);
+    // Ten full lines are within the invoice maximum; tax on them takes the total past it.
+    const ten = Array.from({ length: 10 }, () => line(MAX_LINE_CENTS));
+    expect(invoiceTotals({ lines: ten, taxRateBps: 0 }).totalCents).toBeLessThanOrEqual(MAX_INVOICE_CENTS);
+    expect(() => invoiceTotals({ lines: [...ten, line(MAX_LINE_CENTS)], taxRateBps: 0 })).toThrow(/invoice total/);
+    expect(() => invoiceTotals({ lines: ten, taxRateBps: 825 })).toThrow(/invoice total/);
+    // The hard limit is the integer column (PostgreSQL manual, "Numeric Types"): 2^31 − 1.
+    expect(MAX_INVOICE_CENTS).toBeLessThan(2 ** 31 - 1);
   });
 });

@@ -9,7 +9,7 @@ import { cancelAgreement, changeTier, enroll, manualRenewal, myAgreements, myPro
 const idParam = z.object({ id: z.uuid('That agreement was not found.') });
 
 export function agreementRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.get('/mine', requireRole('homeowner'), async (req, res) => {
     const user = currentUser(req);
     res.json({ agreements: await myAgreements(deps, user), properties: await myProperties(deps, user) });

@@ -45,7 +45,7 @@ function passwordSignIn(deps: AppDeps, req: Request): Promise<SessionUser> {
 
 // Sign-in and sign-out for homeowners (e-mailed link) and staff (password), invitations and staff access.
 export function authRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const limits = authLimits(deps);
 
   router.post('/staff/sign-in', limits.passwordByIp, async (req, res) => {

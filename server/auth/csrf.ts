@@ -2,11 +2,11 @@ import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
 import type { Config } from '../config';
 import { AppError } from '../http/errors';
+import { SAFE_METHODS, underMount } from '../http/edge';
 
 // Angular's HttpClient reads this cookie and echoes it in the header on its own.
 export const CSRF_COOKIE = 'XSRF-TOKEN';
 export const CSRF_HEADER = 'x-xsrf-token';
-const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
 function mac(secret: string, sessionId: string, nonce: string): string {
   return createHmac('sha256', secret).update(`${sessionId}.${nonce}`).digest('base64url');
@@ -58,25 +58,16 @@ export function issueCsrf(req: Request, res: Response, config: Config): string {
 
 const csrfError = (message: string) => new AppError(403, 'csrf_failed', message);
 
-function ownOrigins(req: Request, config: Config): Set<string> {
-  const origins = new Set([new URL(config.publicUrl).origin]);
-  const host = req.get('host');
-  if (host) origins.add(`${req.protocol}://${host}`);
-  return origins;
-}
-
 /**
- * Every state-changing /api request must come from our own origin (when the browser says) and
- * carry the token from the cookie in the header, signed for this session.
+ * Every state-changing request, on any path and in any spelling, must carry the token from the
+ * cookie in the header, signed for this session. The only exceptions are the raw-body mounts
+ * (signed webhooks), matched exactly as the case-sensitive router matches them. Foreign origins
+ * were already refused by sameOriginWrites, before the session was read.
  */
-export function csrfProtection(config: Config, exemptPaths: string[]): RequestHandler {
+export function csrfProtection(config: Config, exemptMounts: string[]): RequestHandler {
   return (req, _res, next) => {
-    if (!UNSAFE.has(req.method) || !req.path.startsWith('/api/')) return next();
-    if (exemptPaths.some((p) => req.path === p || req.path.startsWith(`${p}/`))) return next();
-    const origin = req.get('origin');
-    if (origin !== undefined && !ownOrigins(req, config).has(origin)) {
-      throw csrfError('This request came from another site and was refused.');
-    }
+    if (SAFE_METHODS.has(req.method)) return next();
+    if (exemptMounts.some((m) => underMount(req.path, m))) return next();
     const header = req.get(CSRF_HEADER);
     const cookie = readCookie(req, CSRF_COOKIE);
     if (!header || !cookie) throw csrfError('The security token is missing. Please reload the page and try again.');

@@ -91,14 +91,14 @@ export async function endAllSessions(db: Db, userId: string): Promise<number> {
 
 /**
  * Sessions in PostgreSQL, passport on top, role timeouts on the injected clock, then CSRF on
- * every state-changing /api request except the raw-body webhook paths.
+ * every state-changing request, whatever its path, except inside the raw-body webhook mounts.
  */
-export function authMiddleware(deps: AppDeps, csrfExemptPaths: string[]): Router {
+export function authMiddleware(deps: AppDeps, csrfExemptMounts: string[]): Router {
   const { config, database } = deps;
   const PgStore = connectPgSimple(session);
   const auth = authenticatorFor(deps);
 
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.use((req, res, next) => {
     if (TOKEN_PAGES.some((p) => req.path === p)) res.setHeader('Referrer-Policy', 'no-referrer');
     next();
@@ -143,6 +143,6 @@ export function authMiddleware(deps: AppDeps, csrfExemptPaths: string[]): Router
     }
     next();
   });
-  router.use(csrfProtection(config, csrfExemptPaths));
+  router.use(csrfProtection(config, csrfExemptMounts));
   return router;
 }

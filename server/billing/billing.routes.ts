@@ -24,7 +24,7 @@ const checkoutReturnSchema = z.object({ sessionId: z.string().regex(/^cs_[A-Za-z
 const checkoutSchema = z.object({ returnPath: z.string().max(200).default('/portal/invoices') });
 
 export function billingRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
   router.get('/', requireRole('homeowner', 'office', 'owner'), async (req, res) => {
     res.json(await listInvoices(deps, currentUser(req), parse(invoiceListQuerySchema, req.query)));

@@ -4,6 +4,7 @@ import { bookVisitSchema, cancelSchema, rescheduleSchema, windowsQuerySchema, ty
 import type { AppDeps } from '../app';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
+import { assertDatesWithin, BOOKING_RANGE } from '../http/ranges';
 import { authoriseVisit, bookingOptions, bookVisit, cancelVisit, myVisits, rescheduleVisit, visitDetail, windowsFor, WindowFullError } from './booking.service';
 
 const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });
@@ -22,7 +23,7 @@ async function orNextWindows(res: Response, work: () => Promise<unknown>, status
 
 // Visit requests from the portal, and the office booking for a caller on the phone.
 export function bookingRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const bookers = requireRole('homeowner', 'office', 'owner');
 
   router.get('/options', bookers, async (req, res) => {
@@ -32,6 +33,7 @@ export function bookingRoutes(deps: AppDeps): Router {
 
   router.get('/windows', bookers, async (req, res) => {
     const q = parse(windowsQuerySchema, req.query);
+    assertDatesWithin(deps.clock(), BOOKING_RANGE, { from: q.from });
     res.setHeader('Cache-Control', 'no-store');
     res.json(await windowsFor(deps, currentUser(req), q));
   });
@@ -43,6 +45,7 @@ export function bookingRoutes(deps: AppDeps): Router {
 
   router.post('/visits', bookers, async (req, res) => {
     const body = parse(bookVisitSchema, req.body);
+    assertDatesWithin(deps.clock(), BOOKING_RANGE, { windowStart: body.windowStart });
     await orNextWindows(res, async () => ({ visit: await bookVisit(deps, currentUser(req), body) }), 201);
   });
 
@@ -55,6 +58,7 @@ export function bookingRoutes(deps: AppDeps): Router {
     const { id } = parse(idParam, req.params);
     await authoriseVisit(deps, currentUser(req), id);
     const body = parse(rescheduleSchema, req.body);
+    assertDatesWithin(deps.clock(), BOOKING_RANGE, { windowStart: body.windowStart });
     await orNextWindows(res, async () => ({ visit: await rescheduleVisit(deps, currentUser(req), id, body) }));
   });
 

@@ -36,7 +36,7 @@ const staff = requireRole('technician', 'office', 'owner');
 
 /** Households: list and search, records, archive and merge. */
 export function customerRoutes(deps: AppDeps): Router {
-  const r = Router();
+  const r = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
 
   r.get('/', office, async (req, res) => {
@@ -108,7 +108,7 @@ export function customerRoutes(deps: AppDeps): Router {
 
 /** Properties: edit and archive. Equipment under a property lives in the equipment router. */
 export function propertyRoutes(deps: AppDeps): Router {
-  const r = Router();
+  const r = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
 
   r.get('/:id', staff, async (req, res) => {

@@ -4,6 +4,7 @@ import { assignSchema, boardQuerySchema, statusChangeSchema, timeOffSchema } fro
 import type { AppDeps } from '../app';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
+import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
 import { addTimeOff, assignVisit, board, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
 
 const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
@@ -11,12 +12,14 @@ const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 c
 
 // The office's dispatch board: visits by technician, the unassigned queue, assignments and statuses.
 export function dispatchRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const office = requireRole('office', 'owner');
 
   router.get('/board', office, async (req, res) => {
     res.setHeader('Cache-Control', 'no-store');
-    res.json(await board(deps, parse(boardQuerySchema, req.query)));
+    const q = parse(boardQuerySchema, req.query);
+    assertDatesWithin(deps.clock(), OFFICE_RANGE, { from: q.from });
+    res.json(await board(deps, q));
   });
 
   router.get('/households', office, async (req, res) => {
@@ -26,7 +29,9 @@ export function dispatchRoutes(deps: AppDeps): Router {
 
   router.post('/visits/:id/assign', office, async (req, res) => {
     const { id } = parse(idParam, req.params);
-    res.json({ visit: await assignVisit(deps, currentUser(req), id, parse(assignSchema, req.body)) });
+    const body = parse(assignSchema, req.body);
+    assertDatesWithin(deps.clock(), OFFICE_RANGE, { startsAt: body.startsAt });
+    res.json({ visit: await assignVisit(deps, currentUser(req), id, body) });
   });
 
   // Technicians mark their own visits on the way, on site, done or no-show.
@@ -41,7 +46,9 @@ export function dispatchRoutes(deps: AppDeps): Router {
   });
 
   router.post('/time-off', office, async (req, res) => {
-    res.status(201).json(await addTimeOff(deps, parse(timeOffSchema, req.body)));
+    const body = parse(timeOffSchema, req.body);
+    assertDatesWithin(deps.clock(), OFFICE_RANGE, { startsAt: body.startsAt, endsAt: body.endsAt });
+    res.status(201).json(await addTimeOff(deps, body));
   });
 
   router.delete('/time-off/:id', office, async (req, res) => {

@@ -15,7 +15,7 @@ const propertyRef = z.object({ propertyId: z.uuid({ error: 'Choose the property 
  * visit); archiving is for the office.
  */
 export function equipmentRoutes(deps: AppDeps): Router {
-  const r = Router();
+  const r = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
 
   r.get('/', staff, async (req, res) => {

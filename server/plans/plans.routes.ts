@@ -9,7 +9,7 @@ import { createPlan, listPlans, planVersionsOf, setPlanActive, updatePlan } from
 const idParam = z.object({ id: z.uuid('That plan was not found.') });
 
 export function planRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
   router.get('/', requireUser, async (req, res) => {
     const user = currentUser(req);

@@ -13,7 +13,7 @@ const uuidOr404 = (raw: unknown, what: string): string => {
 
 /** A home's readings history, for the chart on "My home". Ownership is checked in the service. */
 export function portalReadingsRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.use(requireUser);
   router.get('/properties/:propertyId', async (req, res) => {
     res.json(await propertyReadings(deps.database.db, currentUser(req), uuidOr404(req.params.propertyId, 'That home')));
@@ -23,7 +23,7 @@ export function portalReadingsRoutes(deps: AppDeps): Router {
 
 /** A completed visit in plain words for its household. */
 export function visitSummaryRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.use(requireUser);
   router.get('/:id', async (req, res) => {
     res.json(await homeownerVisitSummary(deps.database.db, currentUser(req), uuidOr404(req.params.id, 'That visit')));

@@ -8,7 +8,7 @@ import { campaignSummary, createCampaign, listCampaigns, previewReminders } from
 
 // Seasonal reminders are office work: office staff and the owner only.
 export function reminderRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   const db = deps.database.db;
   router.use(requireRole('office', 'owner'));
 

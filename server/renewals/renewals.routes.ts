@@ -7,7 +7,7 @@ import { queueRenewalNotices } from './renewal-engine';
 import { renewalBoard, renewalCsv } from './renewals.service';
 
 export function renewalRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.use(requireRole('office', 'owner'));
   router.get('/', async (req, res) => {
     res.json(await renewalBoard(deps, parse(renewalQuerySchema, req.query).view));

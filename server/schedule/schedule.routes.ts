@@ -4,6 +4,7 @@ import { weekQuerySchema } from '../../shared/schemas/booking';
 import type { AppDeps } from '../app';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
+import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
 import { feedFor, issueFeedToken, revokeFeedToken, weekSchedule } from './schedule.service';
 
 const weekQuery = weekQuerySchema.extend({ technicianId: z.uuid({ message: 'must be a technician id' }).optional() });
@@ -11,10 +12,11 @@ const feedParam = z.object({ file: z.string().regex(/^[A-Za-z0-9_-]{20,64}\.ics$
 
 // The technician's week, and the private .ics feed their phone calendar subscribes to.
 export function scheduleRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
 
   router.get('/week', requireRole('technician', 'office', 'owner'), async (req, res) => {
     const { start, technicianId } = parse(weekQuery, req.query);
+    assertDatesWithin(deps.clock(), OFFICE_RANGE, { start });
     res.json(await weekSchedule(deps, currentUser(req), start, technicianId));
   });
 

@@ -1,6 +1,19 @@
 import type { RequestHandler } from 'express';
 import multer from 'multer';
+import { assertStorableText } from '../http/edge';
 import { AppError } from '../http/errors';
+
+/** Multipart fields and file names get the same storable-text check as JSON bodies. */
+function storableFields(req: Parameters<RequestHandler>[0], field: string, next: (err?: unknown) => void): void {
+  try {
+    assertStorableText(req.body ?? {});
+    const names = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => f.originalname);
+    assertStorableText({ [field]: names.join('/') });
+  } catch (err) {
+    return next(err);
+  }
+  next();
+}
 
 export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
 export const MAX_UPLOAD_FILES = 10;
@@ -19,7 +32,7 @@ export function multipart(field: string, o: { maxFiles?: number; maxBytes?: numb
   return (req, res, next) => {
     if (!req.is('multipart/form-data')) return next(new AppError(415, 'not_multipart', 'Send the files as multipart/form-data.'));
     upload(req, res, (err: unknown) => {
-      if (!err) return next();
+      if (!err) return storableFields(req, field, next);
       if (err instanceof multer.MulterError) {
         switch (err.code) {
           case 'LIMIT_FILE_SIZE':
@@ -31,11 +44,15 @@ export function multipart(field: string, o: { maxFiles?: number; maxBytes?: numb
                 ? new AppError(413, 'too_many_files', `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.`, { [field]: `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.` })
                 : new AppError(422, 'validation_failed', `Please check ${err.field}.`, { [err.field ?? field]: `Send files in the "${field}" field.` }),
             );
+          case 'LIMIT_FIELD_COUNT':
+          case 'LIMIT_PART_COUNT':
+            return next(new AppError(400, 'too_many_fields', 'The upload has too many fields.'));
           default:
             return next(new AppError(413, 'too_large', 'The upload is too large.'));
         }
       }
-      next(err);
+      // busboy's own errors are malformed bodies (truncated, no boundary): the sender's fault.
+      next(err instanceof Error && !('status' in err) ? new AppError(400, 'bad_multipart', 'The upload is not a complete multipart/form-data body.') : err);
     });
   };
 }

@@ -14,7 +14,7 @@ export function contentDisposition(kind: 'inline' | 'attachment', name: string):
 
 /** Photos and documents: upload, and download only through this authorised route. */
 export function uploadRoutes(deps: AppDeps): Router {
-  const r = Router();
+  const r = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
   const storage: Storage = deps.services.storage ?? createLocalStorage(deps.config.STORAGE_DIR);
 

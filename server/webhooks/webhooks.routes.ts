@@ -6,7 +6,7 @@ import { dispatchEvent, storeEvent } from './webhooks.service';
 
 /** Mounted before the JSON parser: the signature covers the exact bytes sent. */
 export function webhookRoutes(deps: AppDeps): Router {
-  const router = Router();
+  const router = Router({ caseSensitive: true, strict: true });
   router.post('/stripe', express.raw({ type: () => true, limit: '1mb' }), async (req, res) => {
     const signature = req.get('stripe-signature');
     const body = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);

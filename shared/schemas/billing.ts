@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { formatUsd, lineTotalCents, MAX_INVOICE_CENTS, MAX_INVOICE_LINES, MAX_LINE_CENTS } from '../money';
 
 export const INVOICE_STATUSES = ['draft', 'open', 'paid', 'void', 'refunded', 'partially_refunded'] as const;
 export type InvoiceStatus = (typeof INVOICE_STATUSES)[number];
@@ -26,6 +27,15 @@ const cents = (what: string) =>
     .min(0, `${what} must not be negative.`)
     .max(100_000_000, `${what} is too large.`);
 
+/** A line's total for the bounds below; a line that fails its own checks counts as zero here. */
+function lineCents(l: { quantity: unknown; unitCents: unknown }): number {
+  try {
+    return lineTotalCents(l.quantity as number, l.unitCents as number);
+  } catch {
+    return 0;
+  }
+}
+
 export const invoiceLineInputSchema = z.object({
   description: z.string().trim().min(1, 'Describe the line.').max(200, 'Keep the description under 200 characters.'),
   kind: z.enum(['labor', 'parts', 'plan_fee', 'other'], { error: 'Kind is labor, parts, plan_fee or other.' }),
@@ -36,12 +46,17 @@ export const invoiceLineInputSchema = z.object({
     .refine((q) => Math.abs(Math.round(q * 1000) - q * 1000) < 1e-6, 'Quantity allows at most 3 decimals.'),
   unitCents: cents('Unit price'),
   taxable: z.boolean({ error: 'Say whether the line is taxable.' }),
-});
+}).refine((l) => lineCents(l) <= MAX_LINE_CENTS, { message: `A line can be at most ${formatUsd(MAX_LINE_CENTS)}.`, path: ['unitCents'] });
 export type InvoiceLineInput = z.infer<typeof invoiceLineInputSchema>;
 
 export const createInvoiceSchema = z.object({
   customerId: z.uuid('Choose a household.'),
-  lines: z.array(invoiceLineInputSchema).min(1, 'Add at least one line.').max(100, 'At most 100 lines.'),
+  lines: z
+    .array(invoiceLineInputSchema)
+    .min(1, 'Add at least one line.')
+    .max(MAX_INVOICE_LINES, `At most ${MAX_INVOICE_LINES} lines.`)
+    // Before discount and tax; the money rules check the total again once tax is known.
+    .refine((lines) => lines.reduce((sum, l) => sum + lineCents(l), 0) <= MAX_INVOICE_CENTS, `An invoice can be at most ${formatUsd(MAX_INVOICE_CENTS)}.`),
   notes: z.string().max(2000).default(''),
   issue: z.boolean().default(true),
 });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoDate, isoInstant } from './dates';
 import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, type VisitKind, type VisitReason } from '../visits';
 
 // The booking and dispatch API contract: requests parsed on the server, types used by the client.
@@ -30,9 +31,14 @@ export function visitKindFor(reason: VisitReason): VisitKind {
   return reason === 'tune_up' ? 'tune_up' : 'service_call';
 }
 
+/** Homeowners and the office book at most this far ahead (months). */
+export const BOOKING_HORIZON_MONTHS = 12;
+/** The dispatch board and schedules show at most this far from today, either way (years). */
+export const BOARD_RANGE_YEARS = 2;
+
 const uuid = z.uuid({ message: 'must be an id' });
-const localDate = z.iso.date({ message: 'must be a date "YYYY-MM-DD"' });
-const instant = z.iso.datetime({ offset: true, message: 'must be an ISO date-time with offset' });
+const localDate = isoDate('must be a date "YYYY-MM-DD"');
+const instant = isoInstant('must be an ISO date-time with offset');
 
 export const windowsQuerySchema = z.object({
   propertyId: uuid,

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
-import { isCalendarDate } from '../service-life';
+import { isIsoDate } from './dates';
 
 // The API contract for equipment at a property. Capacity is stored in Btu/h; tons are accepted.
 
@@ -24,7 +24,7 @@ const isoDate = (label: string) =>
       .string({ error: `${label} is a date like 2019-06-30.` })
       .trim()
       .regex(/^\d{4}-\d{2}-\d{2}$/, `${label} is a date like 2019-06-30.`)
-      .refine(isCalendarDate, `${label} is not a real calendar date.`)
+      .refine(isIsoDate, `${label} is not a real calendar date.`)
       .refine((d) => d >= '1950-01-01' && d <= '2100-12-31', `${label} must be between 1950 and 2100.`)
       .nullable(),
   );

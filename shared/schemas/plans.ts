@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { AgreementStatus } from '../agreements';
+import { isoDate } from './dates';
 
 const cents = (what: string) =>
   z
@@ -57,10 +58,7 @@ export const manualRenewalSchema = z.object({
 });
 export const changeTierSchema = z.object({
   planId: z.uuid('Choose a plan.'),
-  changeDate: z
-    .string()
-    .regex(/^\d{4}-\d{2}-\d{2}$/, 'Change date is YYYY-MM-DD.')
-    .optional(),
+  changeDate: isoDate('Change date is a real date, YYYY-MM-DD.').optional(),
 });
 export const cancelAgreementSchema = z.object({ reason: z.string().trim().max(300).default('') });
 
