@@ -130,3 +130,16 @@ export async function buildClient({ force = false } = {}) {
   const code = await run(join(BIN, 'ng'), ['build'], { env: { ...process.env, NG_CLI_ANALYTICS: 'false' } });
   if (code !== 0) throw new Error('the client build failed');
 }
+
+/** Compiles the server into dist/server when any server source is newer than the last build. */
+export async function buildServer({ force = false } = {}) {
+  const entry = join(ROOT, 'dist', 'server', 'main.js');
+  const sources = ['server', 'shared', 'migrations', 'scripts/build-server.mjs', 'tsconfig.json', 'package-lock.json'].map((p) => join(ROOT, p));
+  if (!force && existsSync(entry) && statSync(entry).mtimeMs >= newestMtime(sources)) {
+    say('server build is up to date');
+    return;
+  }
+  say('compiling the server…');
+  const code = await run(process.execPath, [join(ROOT, 'scripts', 'build-server.mjs')]);
+  if (code !== 0) throw new Error('the server build failed');
+}
