@@ -95,7 +95,8 @@ export async function waitForHttp(url, { timeoutMs = 60_000, child } = {}) {
 export function stopChild(child, signal = 'SIGTERM') {
   if (!child || child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
   return new Promise((resolve) => {
-    const timer = setTimeout(() => child.kill('SIGKILL'), 8000);
+    // Longer than the API's own 10 s drain of requests in flight.
+    const timer = setTimeout(() => child.kill('SIGKILL'), 15_000);
     child.once('exit', () => {
       clearTimeout(timer);
       resolve();
