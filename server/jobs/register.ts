@@ -1,4 +1,5 @@
 import type { AppDeps } from '../app';
+import { registerAuthJobs } from '../auth/prune';
 import { registerBillingJobs } from '../billing/billing.jobs';
 import { registerBookingJobs } from '../booking/reminders';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
@@ -13,4 +14,5 @@ export function registerJobs(deps: AppDeps): void {
   registerRenewalJobs(deps);
   registerReminderJobs(deps);
   registerBookingJobs(deps);
+  registerAuthJobs(deps);
 }
