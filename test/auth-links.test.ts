@@ -5,17 +5,22 @@ import { eq, inArray } from 'drizzle-orm';
 import { auditEvents, customers, signInLinks, users } from '../server/db/schema';
 import { testApp, type TestContext } from './support/app';
 import { anonymous, csrfFrom, mailCatcher, tokenOf } from './support/auth';
+import { startTestJobs } from './support/jobs';
 
 let mail: Awaited<ReturnType<typeof mailCatcher>>;
 let ctx: TestContext;
+let queue: Awaited<ReturnType<typeof startTestJobs>>;
 let now = Date.now();
 const clock = () => new Date(now);
 
 beforeAll(async () => {
   mail = await mailCatcher();
   ctx = testApp({ clock, services: { mailer: mail.mailer } });
+  // Links go out through the mail queue, as in production.
+  queue = await startTestJobs(ctx.deps);
 });
 afterAll(async () => {
+  await queue.stop();
   await mail.close();
   await ctx.close();
 });

@@ -1,5 +1,6 @@
 import type { AppDeps } from '../app';
 import { registerAuthJobs } from '../auth/prune';
+import { registerMailJobs } from '../mail/mail.jobs';
 import { registerBillingJobs } from '../billing/billing.jobs';
 import { registerBookingJobs } from '../booking/reminders';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
@@ -15,4 +16,5 @@ export function registerJobs(deps: AppDeps): void {
   registerReminderJobs(deps);
   registerBookingJobs(deps);
   registerAuthJobs(deps);
+  registerMailJobs(deps);
 }

@@ -1,0 +1,36 @@
+import { randomUUID } from 'node:crypto';
+import pg from 'pg';
+import { pino } from 'pino';
+import { inject } from 'vitest';
+import type { AppDeps } from '../../server/app';
+import { Jobs } from '../../server/jobs/queue';
+import { registerMailJobs } from '../../server/mail/mail.jobs';
+
+/**
+ * A real pg-boss queue with workers, in a pg-boss schema of its own so no other test file's worker
+ * takes its jobs. Registers the mail queue (retried after 1 s instead of 30 s) plus whatever
+ * `register` adds, puts the queue into deps.services and starts it.
+ */
+export async function startTestJobs(deps: AppDeps, register: (jobs: Jobs) => void = () => {}): Promise<{ jobs: Jobs; stop(): Promise<void> }> {
+  const url = inject('databaseUrl');
+  const schema = `pgboss_t_${randomUUID().replace(/-/g, '').slice(0, 12)}`;
+  const jobs = new Jobs(url, pino({ level: 'silent' }), 'America/Chicago', schema);
+  deps.services.jobs = jobs;
+  registerMailJobs(deps, { retryDelay: 1, retryBackoff: false });
+  register(jobs);
+  await jobs.start();
+  return {
+    jobs,
+    async stop() {
+      await jobs.stop();
+      if (deps.services.jobs === jobs) delete deps.services.jobs;
+      const client = new pg.Client({ connectionString: url });
+      await client.connect();
+      try {
+        await client.query(`drop schema if exists "${schema}" cascade`);
+      } finally {
+        await client.end();
+      }
+    },
+  };
+}
