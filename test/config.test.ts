@@ -1,6 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../server/config';
+import { testApp } from './support/app';
 
 const secret = () => randomBytes(24).toString('base64url');
 /** A production environment that passes; each test breaks one thing. */
@@ -80,5 +81,13 @@ describe('loadConfig', () => {
     expect(loadConfig({ TRUST_PROXY: 'false' }).TRUST_PROXY).toBe(false);
     expect(loadConfig({ TRUST_PROXY: 'true' }).TRUST_PROXY).toBe(true);
     expect(loadConfig({ TRUST_PROXY: '10.0.0.0/8, loopback' }).TRUST_PROXY).toBe('10.0.0.0/8, loopback');
+  });
+
+  it('hands the proxy trust setting to the app', async () => {
+    for (const [value, expected] of [['false', false], ['2', 2], ['loopback', 'loopback']] as const) {
+      const ctx = testApp({ env: { TRUST_PROXY: value } });
+      expect(ctx.app.get('trust proxy')).toBe(expected);
+      await ctx.close();
+    }
   });
 });
