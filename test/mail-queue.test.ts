@@ -89,6 +89,20 @@ describe('the mail queue', () => {
     expect(store.list({ to })).toHaveLength(1);
   });
 
+  it('leaves a mail claimed by a live worker to it, and takes over a claim gone stale', async () => {
+    const to = address('claimed');
+    const id = await recordMail(ctx.deps, { kind: 'test_notice', message: { to, subject: 'Claimed', text: 'Hello.' } });
+    await ctx.database.db.update(t.mailSends).set({ status: 'sending', attempts: 1, claimedAt: new Date(now.getTime() - 10_000) }).where(eq(t.mailSends.id, id!));
+    // Thrown, so the job is retried later rather than finished with the mail unsent.
+    await expect(deliverMail(ctx.deps, id!)).rejects.toThrow(/another worker/);
+    expect(store.list({ to })).toHaveLength(0);
+    await ctx.database.db.update(t.mailSends).set({ claimedAt: new Date(now.getTime() - 3 * 60_000) }).where(eq(t.mailSends.id, id!));
+    expect(await deliverMail(ctx.deps, id!)).toBe('sent');
+    const [row] = await rowsFor(to);
+    expect(row).toMatchObject({ status: 'sent', attempts: 2 });
+    expect(store.list({ to })).toHaveLength(1);
+  });
+
   it('queues a keyed message once, however often it is asked for', async () => {
     const to = address('keyed');
     const key = `test-keyed:${randomUUID()}`;

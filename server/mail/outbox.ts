@@ -131,7 +131,13 @@ export async function deliverMail(deps: OutboxDeps, id: string, log: Pick<Logger
       ),
     )
     .returning();
-  if (!row) return 'skipped';
+  if (!row) {
+    const [current] = await db.select({ status: mailSends.status }).from(mailSends).where(eq(mailSends.id, id));
+    // Claimed by a worker that may have stopped mid-send: try again later, when the claim has gone
+    // stale, rather than drop the mail.
+    if (current?.status === 'sending') throw new Error('the e-mail is being sent by another worker; trying again later');
+    return 'skipped';
+  }
   const mailer = deps.services.mailer;
   if (!row.message || !mailer) {
     await db.update(mailSends).set({ status: 'failed', lastError: row.message ? 'no mailer configured' : 'the message is missing', updatedAt: now }).where(eq(mailSends.id, id));
@@ -159,16 +165,16 @@ export async function deliverMail(deps: OutboxDeps, id: string, log: Pick<Logger
 }
 
 /**
- * Queues again what is stuck: a row still queued or retrying long after its last change (its job
- * was lost, say the queue was down at the moment of queueing). A job that is merely waiting finds
- * the row taken and skips.
+ * Queues again what is stuck: a row still queued, retrying or sending long after its last change
+ * (its job was lost: the queue was down at the moment of queueing, or a worker died mid-send and
+ * its job ran out of retries). A job that is merely waiting finds the row taken and skips.
  */
 export async function requeueStuckMail(deps: OutboxDeps, olderThanMs = 30 * 60_000): Promise<number> {
   const before = new Date(deps.clock().getTime() - olderThanMs);
   const rows = await deps.database.db
     .select({ id: mailSends.id })
     .from(mailSends)
-    .where(and(inArray(mailSends.status, ['queued', 'retrying']), lt(mailSends.updatedAt, before), lt(mailSends.attempts, MAIL_MAX_ATTEMPTS)))
+    .where(and(inArray(mailSends.status, ['queued', 'retrying', 'sending']), lt(mailSends.updatedAt, before), lt(mailSends.attempts, MAIL_MAX_ATTEMPTS)))
     .limit(500);
   await startSending(deps, rows.map((r) => r.id));
   return rows.length;
