@@ -24,7 +24,7 @@ try {
     createDatabase(bin, port, name);
     say(`— ${file} —`);
     const url = databaseUrl(port, name);
-    if ((await run(process.execPath, ['--import', 'tsx', 'server/db/migrate.ts'], { env: { ...process.env, DATABASE_URL: url } })) !== 0) throw new Error('migrations failed');
+    if ((await run(process.execPath, ['--import', 'tsx', 'server/cli/migrate.ts'], { env: { ...process.env, DATABASE_URL: url } })) !== 0) throw new Error('migrations failed');
     const c = await run(process.execPath, ['--import', 'tsx', join('scripts', 'bench', file)], { env: { ...process.env, BENCH_DATABASE_URL: url, LOG_LEVEL: 'silent' } });
     if (c !== 0) code = c;
   }

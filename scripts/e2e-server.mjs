@@ -3,7 +3,7 @@
 import { rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { clusterHome, createDatabase, databaseUrl, dropDatabase, ensureCluster } from './lib/pg.mjs';
-import { ROOT, stopChild } from './lib/proc.mjs';
+import { ROOT, buildServer, stopChild } from './lib/proc.mjs';
 import { prepareDatabase, startStack } from './lib/stack.mjs';
 
 const PORT = Number(process.env.E2E_PORT ?? 3200);
@@ -44,6 +44,8 @@ process.on('SIGINT', () => void stop(0));
 process.on('SIGTERM', () => void stop(0));
 
 try {
+  // Journeys run the compiled server, as production does.
+  await buildServer();
   await prepareDatabase(env);
   await startStack({ env, port: PORT, smtpPort: SMTP_PORT, mailboxPort: MAILBOX_PORT, stripePort: STRIPE_PORT, children });
   console.log(`[e2e] app ready on ${env.PUBLIC_URL}`);

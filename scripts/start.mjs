@@ -2,7 +2,7 @@
 // Plain Node with built-ins only, because it runs before node_modules exists.
 import { join } from 'node:path';
 import { clusterHome, databaseUrl, ensureCluster, stopCluster } from './lib/pg.mjs';
-import { ROOT, buildClient, ensureDependencies, say, stopChild } from './lib/proc.mjs';
+import { ROOT, buildClient, buildServer, ensureDependencies, say, stopChild } from './lib/proc.mjs';
 import { prepareDatabase, startStack } from './lib/stack.mjs';
 
 const PORT = Number(process.env.PORT ?? 3100);
@@ -46,6 +46,7 @@ try {
     STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
     STORAGE_DIR: join(ROOT, '.data', 'uploads'),
   };
+  await buildServer();
   await prepareDatabase(env);
   await buildClient();
   await startStack({ env, port: PORT, smtpPort: SMTP_PORT, mailboxPort: MAILBOX_PORT, stripePort: STRIPE_PORT, children });

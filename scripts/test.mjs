@@ -3,7 +3,7 @@
 import { mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { clusterHome, createDatabase, databaseUrl, ensureCluster, stopCluster } from './lib/pg.mjs';
-import { BIN, ROOT, buildClient, ensureChromium, ensureDependencies, freePort, run, say } from './lib/proc.mjs';
+import { BIN, ROOT, buildClient, buildServer, ensureChromium, ensureDependencies, freePort, run, say } from './lib/proc.mjs';
 
 const started = Date.now();
 const reports = join(ROOT, '.test-runs', String(process.pid));
@@ -64,6 +64,7 @@ try {
   createDatabase(bin, pgPort, 'sw_e2e');
 
   await buildClient({ force: true });
+  await buildServer({ force: true });
 
   await layer(
     'server and shared (vitest)',

@@ -27,7 +27,7 @@ export function createApp(deps: AppDeps): Express {
   const { config } = deps;
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', config.TRUST_PROXY);
   // Paths match exactly as written, so every guard below sees the same path the router routes.
   app.set('case sensitive routing', true);
   app.set('strict routing', true);

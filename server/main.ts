@@ -1,6 +1,6 @@
 import { pino } from 'pino';
 import { createApp } from './app';
-import { loadConfig } from './config';
+import { loadConfig, type Config } from './config';
 import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
 import { createMailer } from './integrations/mail';
@@ -8,13 +8,22 @@ import { createStripe } from './integrations/stripe';
 import { createStorage } from './integrations/storage';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
+import { closeHttpServer, logProcessFaults } from './runtime/shutdown';
 import type { Services } from './services';
 
-const config = loadConfig();
+let config: Config;
+try {
+  config = loadConfig();
+} catch (err) {
+  // A refusal names each variable to fix; a stack trace would only bury it.
+  process.stderr.write(`[seasonwell] ${(err as Error).message}\n`);
+  process.exit(1);
+}
 const logger = pino({ level: config.LOG_LEVEL, redact: ['password', 'token', '*.password', '*.token'] });
+logProcessFaults(logger);
 
 await runMigrations(config.DATABASE_URL);
-const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
+const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX, logger);
 const jobs = new Jobs(config.DATABASE_URL, logger);
 const services: Services = {
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
@@ -47,15 +56,18 @@ server.on('error', (err) => {
   process.exit(1);
 });
 
+// In this order: no new connections, requests in flight finish, the job workers finish their
+// current jobs, and only then the pool closes, so nothing still running loses its database.
 let stopping = false;
-async function stop(signal: string) {
+async function stop(signal: NodeJS.Signals) {
   if (stopping) return;
   stopping = true;
-  logger.info({ signal }, 'stopping');
-  server.close();
-  server.closeAllConnections();
-  await jobs.stop().catch(() => {});
-  await database.close().catch(() => {});
+  logger.info({ signal }, 'stopping: finishing requests in flight');
+  await closeHttpServer(server, logger);
+  await jobs.stop().catch((err: unknown) => logger.error({ err }, 'job workers did not stop cleanly'));
+  services.mailer?.close();
+  await database.close().catch((err: unknown) => logger.error({ err }, 'closing the database pool failed'));
+  logger.info('stopped');
   process.exit(0);
 }
 process.on('SIGINT', () => void stop('SIGINT'));

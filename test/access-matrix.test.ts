@@ -101,6 +101,7 @@ const ROUTES: Record<string, Row> = {
   'GET /api/renewals/export.csv': { allow: ['office', 'owner'] },
   'POST /api/renewals/notices': { allow: ['office', 'owner'] },
   'GET /api/health': { allow: 'public' },
+  'GET /api/health/slow': { allow: 'public' },
   'GET /api/reminders/preview': { allow: ['office', 'owner'] },
   'GET /api/settings/company': { allow: ['owner'] },
   'PUT /api/settings/company': { allow: ['owner'] },

@@ -6,7 +6,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { authMiddleware } from '../server/auth/session';
 import { auditEvents, technicians, users } from '../server/db/schema';
-import { testApp, type TestContext } from './support/app';
+import { productionEnv, testApp, type TestContext } from './support/app';
 import { anonymous, csrfFrom, mailCatcher, signInHomeowner, signInStaff, tokenOf } from './support/auth';
 
 const OWNER = 'rosalind.okafor@bluestem-comfort.test';
@@ -56,7 +56,7 @@ describe('session cookie', () => {
   });
 
   it('in production is __Host-sw.sid, Secure, no Domain, over HTTPS behind the proxy', async () => {
-    const prod = testApp({ env: { NODE_ENV: 'production', SESSION_SECRET: 'prod-test-session-secret-0123456789', JWT_SECRET: 'prod-test-jwt-secret-0123456789ab' } });
+    const prod = testApp({ env: productionEnv() });
     try {
       const agent = request.agent(prod.app);
       const s = await agent.get('/api/session').set('X-Forwarded-Proto', 'https').expect(200);

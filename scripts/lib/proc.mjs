@@ -95,7 +95,8 @@ export async function waitForHttp(url, { timeoutMs = 60_000, child } = {}) {
 export function stopChild(child, signal = 'SIGTERM') {
   if (!child || child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
   return new Promise((resolve) => {
-    const timer = setTimeout(() => child.kill('SIGKILL'), 8000);
+    // Longer than the API's own 10 s drain of requests in flight.
+    const timer = setTimeout(() => child.kill('SIGKILL'), 15_000);
     child.once('exit', () => {
       clearTimeout(timer);
       resolve();
@@ -129,4 +130,17 @@ export async function buildClient({ force = false } = {}) {
   say('building the client…');
   const code = await run(join(BIN, 'ng'), ['build'], { env: { ...process.env, NG_CLI_ANALYTICS: 'false' } });
   if (code !== 0) throw new Error('the client build failed');
+}
+
+/** Compiles the server into dist/server when any server source is newer than the last build. */
+export async function buildServer({ force = false } = {}) {
+  const entry = join(ROOT, 'dist', 'server', 'main.js');
+  const sources = ['server', 'shared', 'migrations', 'scripts/build-server.mjs', 'tsconfig.json', 'package-lock.json'].map((p) => join(ROOT, p));
+  if (!force && existsSync(entry) && statSync(entry).mtimeMs >= newestMtime(sources)) {
+    say('server build is up to date');
+    return;
+  }
+  say('compiling the server…');
+  const code = await run(process.execPath, [join(ROOT, 'scripts', 'build-server.mjs')]);
+  if (code !== 0) throw new Error('the server build failed');
 }

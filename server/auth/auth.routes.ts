@@ -58,8 +58,8 @@ export function authRoutes(deps: AppDeps): Router {
   router.post('/link', limits.linkByIp, limits.linkByEmail, async (req, res) => {
     const { email } = parse(linkRequestSchema, req.body);
     const { delivery } = await requestSignInLink(deps, email, ipOf(req));
-    // Sent after answering, so a known address does not answer slower than an unknown one.
-    if (delivery) sendSignInLink(deps, delivery, req.log);
+    // Queued, never sent in the request: known and unknown addresses answer alike.
+    await sendSignInLink(deps, delivery);
     res.status(202).json({ message: LINK_SENT_MESSAGE });
   });
 
@@ -73,7 +73,7 @@ export function authRoutes(deps: AppDeps): Router {
   router.post('/password/forgot', limits.resetByIp, limits.resetByEmail, async (req, res) => {
     const { email } = parse(forgotPasswordSchema, req.body);
     const delivery = await requestPasswordReset(deps, email, ipOf(req));
-    if (delivery) sendPasswordReset(deps, delivery, req.log);
+    await sendPasswordReset(deps, delivery);
     res.status(202).json({ message: RESET_SENT_MESSAGE });
   });
 
@@ -102,7 +102,7 @@ export function authRoutes(deps: AppDeps): Router {
   router.post('/household-invitations', requireRole('office', 'owner'), async (req, res) => {
     const input = parse(householdInviteSchema, req.body);
     const invite = await inviteHousehold(deps, currentUser(req), input.customerId, input, ipOf(req));
-    sendHouseholdInvitation(deps, invite, req.log);
+    await sendHouseholdInvitation(deps, invite);
     res.status(201).json({ customerId: invite.customerId, userId: invite.userId, email: invite.email });
   });
 
@@ -113,7 +113,7 @@ export function authRoutes(deps: AppDeps): Router {
   router.post('/staff/invite', requireRole('owner'), async (req, res) => {
     const input = parse(staffInviteSchema, req.body);
     const invite = await inviteStaff(deps, currentUser(req), input, ipOf(req));
-    sendStaffInvitation(deps, invite, req.log);
+    await sendStaffInvitation(deps, invite);
     res.status(201).json({ userId: invite.userId, email: invite.email });
   });
 

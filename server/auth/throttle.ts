@@ -9,7 +9,7 @@ export const ACCOUNT_SLOWDOWN_AFTER = 5;
 export const ACCOUNT_LOCK_AFTER = 10;
 export const IP_LOCK_AFTER = 50;
 export const LOCK_MS = 15 * 60_000;
-const WINDOW_MS = 15 * 60_000;
+export const WINDOW_MS = 15 * 60_000;
 const MAX_DELAY_MS = 60_000;
 
 export const accountKey = (email: string) => `acct:${email}`;

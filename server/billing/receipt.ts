@@ -6,6 +6,7 @@ import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../..
 import type { AppDeps } from '../app';
 import { customers, payments } from '../db/schema';
 import { renderEmail } from '../integrations/mail';
+import { queueMail } from '../mail/outbox';
 import { invoiceView } from './billing.service';
 import { companySettings, type CompanySettings } from './today';
 
@@ -93,8 +94,7 @@ export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, fo
 
 /** E-mails the receipt with the invoice PDF. The Message-ID is fixed per payment, so a retried job is recognisable. */
 export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<void> {
-  const mailer = deps.services.mailer;
-  if (!mailer) return;
+  if (!deps.services.mailer) return;
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.id, paymentId));
   if (!pay || pay.status !== 'succeeded') return;
@@ -117,12 +117,16 @@ export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<voi
     action: { label: 'View your invoices', url: `${base}/portal/invoices/${view.id}` },
     footer: `${company.name} · ${company.phone}`,
   });
-  await mailer.send({
-    to: cust.email,
-    subject: `Receipt for invoice ${view.number} from ${company.name}`,
-    text: body.text,
-    html: body.html,
-    attachments: [{ filename: `invoice-${view.number}.pdf`, content: pdf, contentType: 'application/pdf' }],
-    idempotencyKey: `receipt-${paymentId}`,
+  // The mail queue sends it and retries; the key stops a second copy when this job runs again.
+  await queueMail(deps, {
+    kind: 'receipt',
+    key: `receipt-${paymentId}`,
+    message: {
+      to: cust.email,
+      subject: `Receipt for invoice ${view.number} from ${company.name}`,
+      text: body.text,
+      html: body.html,
+      attachments: [{ filename: `invoice-${view.number}.pdf`, content: pdf, contentType: 'application/pdf' }],
+    },
   });
 }

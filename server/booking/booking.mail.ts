@@ -2,6 +2,7 @@ import type { AppDeps } from '../app';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
 import { renderEmail, type MailAttachment } from '../integrations/mail';
+import { queueMail, type MailToQueue } from '../mail/outbox';
 import type { CompanySettings } from './scheduling-input';
 import { addressOf, labelFor, type VisitRow } from './visit-views';
 
@@ -67,23 +68,27 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
   return { subject: SUBJECTS[kind], ...body, attachments };
 }
 
-/** Sends the visit e-mail if a mailer is wired and the household has an address; a mail failure never undoes the booking. */
+/** The visit e-mail ready for the mail queue, or null when the household has no address. */
+export function visitMailToQueue(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string, key?: string): MailToQueue | null {
+  if (!v.customerEmail) return null;
+  const mail = composeVisitMail(kind, v, c, publicUrl);
+  return {
+    kind: `visit_${kind}`,
+    key,
+    message: { to: v.customerEmail, subject: mail.subject, text: mail.text, html: mail.html, attachments: mail.attachments },
+  };
+}
+
+/**
+ * Queues the visit e-mail when the household has an address; the mail queue sends and retries it.
+ * A mail problem never undoes the booking. True when queued.
+ */
 export async function sendVisitMail(deps: AppDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
-  const mailer = deps.services.mailer;
-  if (!mailer || !v.customerEmail) return false;
   try {
-    const mail = composeVisitMail(kind, v, c, deps.config.publicUrl);
-    await mailer.send({
-      to: v.customerEmail,
-      subject: mail.subject,
-      text: mail.text,
-      html: mail.html,
-      attachments: mail.attachments,
-      idempotencyKey: `visit:${v.id}:${kind}:${v.sequence}`,
-    });
-    return true;
+    const mail = visitMailToQueue(kind, v, c, deps.config.publicUrl);
+    return mail ? await queueMail(deps, mail) : false;
   } catch (err) {
-    deps.logger.error({ err, visitId: v.id, kind }, 'visit e-mail was not sent');
+    deps.logger.error({ err, visitId: v.id, kind }, 'visit e-mail was not queued');
     return false;
   }
 }

@@ -1,33 +1,40 @@
-import { and, gt, inArray, isNull, lte } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNull, lte } from 'drizzle-orm';
 import type { AppDeps } from '../app';
 import { visits } from '../db/schema';
-import { sendVisitMail } from './booking.mail';
+import { recordMail, startSending } from '../mail/outbox';
+import { visitMailToQueue } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
 import { loadVisitRow } from './booking.service';
 
 export const REMINDER_JOB = 'booking.day-before-reminders';
 
 /**
- * Claims visits whose window opens within the next 24 hours and mails each homeowner once.
- * The claim comes first, so a second worker or a retried run never sends twice.
+ * Mails each homeowner whose visit window opens within the next 24 hours, once. Per visit, the claim
+ * (reminderSentAt, "handed to the mail queue") and the queued mail commit together, so a crash never
+ * leaves a claim without its mail; the mail queue then retries the sending until the SMTP server
+ * takes it. A second worker or a rerun finds the visit claimed, and the mail's key stops a duplicate.
  */
 export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
   const { db } = deps.database;
   const now = deps.clock();
   const until = new Date(now.getTime() + 24 * 3_600_000);
-  const claimed = await db
-    .update(visits)
-    .set({ reminderSentAt: now })
-    .where(and(inArray(visits.status, ['requested', 'scheduled']), isNull(visits.reminderSentAt), gt(visits.windowStart, now), lte(visits.windowStart, until)))
-    .returning({ id: visits.id });
-  if (!claimed.length) return 0;
+  const due = and(inArray(visits.status, ['requested', 'scheduled']), isNull(visits.reminderSentAt), gt(visits.windowStart, now), lte(visits.windowStart, until));
+  const candidates = await db.select({ id: visits.id }).from(visits).where(due);
+  if (!candidates.length) return 0;
   const c = await loadCompanySettings(db);
-  let sent = 0;
-  for (const { id } of claimed) {
+  const queued: string[] = [];
+  for (const { id } of candidates) {
     const row = await loadVisitRow(db, id);
-    if (await sendVisitMail(deps, 'reminder', row, c)) sent++;
+    const mail = visitMailToQueue('reminder', row, c, deps.config.publicUrl, `visit:${id}:reminder:${row.sequence}`);
+    const mailId = await db.transaction(async (tx) => {
+      const [claimed] = await tx.update(visits).set({ reminderSentAt: now }).where(and(eq(visits.id, id), due)).returning({ id: visits.id });
+      if (!claimed || !mail) return null;
+      return recordMail(deps, mail, tx);
+    });
+    if (mailId) queued.push(mailId);
   }
-  return sent;
+  await startSending(deps, queued);
+  return queued.length;
 }
 
 export function registerBookingJobs(deps: AppDeps): void {
@@ -35,4 +42,3 @@ export function registerBookingJobs(deps: AppDeps): void {
     await sendDayBeforeReminders(deps);
   }, { cron: '15 * * * *' });
 }
-

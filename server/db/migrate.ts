@@ -1,9 +1,18 @@
 import { migrate } from 'drizzle-orm/node-postgres/migrator';
 import pg from 'pg';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createDatabase } from './client';
 
-const MIGRATIONS = fileURLToPath(new URL('../../migrations', import.meta.url));
+// From the source (server/db/) the folder is ../../migrations; compiled, every entry is a file in
+// dist/server/ and the build copies the folder to dist/migrations, which is ../migrations.
+function migrationsFolder(): string {
+  const candidates = [new URL('../migrations', import.meta.url), new URL('../../migrations', import.meta.url)].map((u) => fileURLToPath(u));
+  const found = candidates.find((dir) => existsSync(join(dir, 'meta', '_journal.json')));
+  if (!found) throw new Error(`no migrations folder found (looked in ${candidates.join(', ')})`);
+  return found;
+}
 // Any fixed number: every process migrating this database takes the same lock.
 const MIGRATION_LOCK = 7_311_204;
 
@@ -37,17 +46,10 @@ export async function runMigrations(url: string): Promise<void> {
   const lockClient = await database.pool.connect();
   try {
     await lockClient.query('select pg_advisory_lock($1)', [MIGRATION_LOCK]);
-    await migrate(database.db, { migrationsFolder: MIGRATIONS });
+    await migrate(database.db, { migrationsFolder: migrationsFolder() });
   } finally {
     await lockClient.query('select pg_advisory_unlock($1)', [MIGRATION_LOCK]).catch(() => {});
     lockClient.release();
     await database.close();
   }
-}
-
-if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const url = process.env.DATABASE_URL;
-  if (!url) throw new Error('DATABASE_URL is required');
-  await runMigrations(url);
-  console.log('[migrate] database is up to date');
 }

@@ -58,7 +58,7 @@ export function fieldRoutes(deps: AppDeps): Router {
     res.json(
       await completeVisit(db, currentUser(req), id, body, {
         now: deps.clock(),
-        mailer: deps.services?.mailer,
+        mail: deps,
         publicUrl: deps.config.publicUrl,
         log: req.log ?? deps.logger,
       }),

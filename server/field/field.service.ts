@@ -21,7 +21,7 @@ import { VISIT_REASON_LABELS } from '../../shared/visits';
 import type { Db } from '../db/client';
 import { customers, properties, technicians, visitChecklistItems, visitEvents, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
-import type { Mailer } from '../integrations/mail';
+import { queueMail, type OutboxDeps } from '../mail/outbox';
 import { summaryEmail, technicianCautions, visitPhotos, visitSummary } from './summary';
 import {
   addressOf,
@@ -226,7 +226,7 @@ export async function completeVisit(
   user: SessionUser,
   visitId: string,
   body: CompleteVisit,
-  ctx: { now: Date; mailer?: Mailer; publicUrl: string; log: Logger },
+  ctx: { now: Date; mail: OutboxDeps; publicUrl: string; log: Logger },
 ): Promise<CompletedVisit> {
   await visitForStaff(db, user, visitId);
   const result = await db.transaction(async (tx) => {
@@ -248,22 +248,18 @@ export async function completeVisit(
   return { id: visit.id, status: visit.status, completedAt: visit.completedAt!.toISOString(), summaryEmailed };
 }
 
-async function sendSummary(db: Db, visit: VisitRow, ctx: { mailer?: Mailer; publicUrl: string; log: Logger }): Promise<boolean> {
+/** Queues the summary e-mail (the mail queue sends and retries it); true when queued. */
+async function sendSummary(db: Db, visit: VisitRow, ctx: { mail: OutboxDeps; publicUrl: string; log: Logger }): Promise<boolean> {
   const [c] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, visit.customerId));
   if (!c?.email) return false;
-  if (!ctx.mailer) {
-    ctx.log.warn('no mailer configured; visit summary not e-mailed');
-    return false;
-  }
   const info = await companyInfo(db);
   const summary = await visitSummary(db, visit, info);
   const mail = summaryEmail(summary, info, `${ctx.publicUrl}/portal/visits/${visit.id}`);
   try {
-    await ctx.mailer.send({ to: c.email, ...mail, idempotencyKey: `visit-summary:${visit.id}` });
-    return true;
+    return await queueMail(ctx.mail, { kind: 'visit_summary', key: `visit-summary:${visit.id}`, message: { to: c.email, ...mail } });
   } catch (err) {
     // The visit stays completed; the office can resend from the record.
-    ctx.log.error({ err: (err as Error).message, visitId: visit.id }, 'visit summary e-mail failed');
+    ctx.log.error({ err: (err as Error).message, visitId: visit.id }, 'visit summary e-mail was not queued');
     return false;
   }
 }

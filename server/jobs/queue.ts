@@ -8,6 +8,7 @@ interface Registration {
   handler: JobHandler<object>;
   cron?: string;
   options?: PgBoss.Queue;
+  work?: PgBoss.WorkOptions;
 }
 
 /**
@@ -18,29 +19,34 @@ interface Registration {
 export class Jobs {
   private boss: PgBoss | null = null;
   private readonly registrations: Registration[] = [];
+  /** This process's worker per queue, woken at once when this process queues a job for it. */
+  private readonly workers = new Map<string, string>();
 
   constructor(
     private readonly connectionString: string,
     private readonly logger: Logger,
     private readonly timeZone = 'America/Chicago',
+    /** pg-boss's schema; tests that run workers use one of their own. */
+    private readonly schema = 'pgboss',
   ) {}
 
   /** Register a queue and its handler; `cron` schedules it (in the company's time zone). */
-  register<T extends object>(name: string, handler: JobHandler<T>, opts: { cron?: string; queue?: PgBoss.Queue } = {}): void {
-    this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue });
+  register<T extends object>(name: string, handler: JobHandler<T>, opts: { cron?: string; queue?: PgBoss.Queue; work?: PgBoss.WorkOptions } = {}): void {
+    this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue, work: opts.work });
   }
 
   async start({ work = true }: { work?: boolean } = {}): Promise<void> {
-    const boss = new PgBoss({ connectionString: this.connectionString, schema: 'pgboss', max: 4 });
+    const boss = new PgBoss({ connectionString: this.connectionString, schema: this.schema, max: 4 });
     boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
     await boss.start();
     for (const r of this.registrations) {
       await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
       if (r.cron) await boss.schedule(r.name, r.cron, {}, { tz: this.timeZone });
       if (work) {
-        await boss.work<object>(r.name, async (jobs) => {
+        const workerId = await boss.work<object>(r.name, r.work ?? {}, async (jobs) => {
           for (const job of jobs) await r.handler(job.data ?? {}, { id: job.id, name: job.name });
         });
+        this.workers.set(r.name, workerId);
       }
     }
     this.boss = boss;
@@ -48,7 +54,11 @@ export class Jobs {
 
   async send<T extends object>(name: string, data: T, options: PgBoss.SendOptions = {}): Promise<string | null> {
     if (!this.boss) throw new Error(`job queue not started: cannot send ${name}`);
-    return this.boss.send(name, data, options);
+    const id = await this.boss.send(name, data, options);
+    // Skip the wait for the next poll when this process works the queue and the job is due now.
+    const workerId = this.workers.get(name);
+    if (id && workerId && options.startAfter === undefined) this.boss.notifyWorker(workerId);
+    return id;
   }
 
   /** Runs a registered handler directly, for tests and one-off runs. */
@@ -59,7 +69,10 @@ export class Jobs {
   }
 
   async stop(): Promise<void> {
-    await this.boss?.stop({ graceful: true, timeout: 5000 });
+    // Graceful: workers take no new jobs and finish the current ones (up to 5 s; pg-boss fails what
+    // is left, so it is retried), then pg-boss closes its own pool.
+    await this.boss?.stop({ graceful: true, wait: true, timeout: 5000 });
     this.boss = null;
+    this.workers.clear();
   }
 }

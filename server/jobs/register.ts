@@ -1,4 +1,6 @@
 import type { AppDeps } from '../app';
+import { registerAuthJobs } from '../auth/prune';
+import { registerMailJobs } from '../mail/mail.jobs';
 import { registerBillingJobs } from '../billing/billing.jobs';
 import { registerBookingJobs } from '../booking/reminders';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
@@ -13,4 +15,6 @@ export function registerJobs(deps: AppDeps): void {
   registerRenewalJobs(deps);
   registerReminderJobs(deps);
   registerBookingJobs(deps);
+  registerAuthJobs(deps);
+  registerMailJobs(deps);
 }

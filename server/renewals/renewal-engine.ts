@@ -21,6 +21,7 @@ import { paymentErrorMessage } from '../integrations/stripe';
 import { ensureRenewalInvoice, termPriceCents, today as companyToday } from '../agreements/agreements.service';
 import { currentVersion } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from '../agreements/terms';
+import { queueMail } from '../mail/outbox';
 
 export const RENEWAL_DAILY_JOB = 'renewals-daily';
 export const RENEWAL_NOTICE_JOB = 'renewal-notice';
@@ -257,12 +258,16 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
     footer: `${company.name} · ${company.phone}`,
   });
   try {
-    await deps.services.mailer.send({
-      to: h.email,
-      subject: auto ? `Your agreement renews automatically on ${lastDay}` : `Time to renew: your agreement ends on ${lastDay}`,
-      text: body.text,
-      html: body.html,
-      idempotencyKey: `renewal-notice-${agreementId}-${a.endsOn}-${opts.daysBefore ?? claim[0]!.id}`,
+    // The mail queue sends and retries it; should queueing itself fail, the claim goes so a rerun tries again.
+    await queueMail(deps, {
+      kind: 'renewal_notice',
+      key: `renewal-notice-${agreementId}-${a.endsOn}-${opts.daysBefore ?? claim[0]!.id}`,
+      message: {
+        to: h.email,
+        subject: auto ? `Your agreement renews automatically on ${lastDay}` : `Time to renew: your agreement ends on ${lastDay}`,
+        text: body.text,
+        html: body.html,
+      },
     });
   } catch (err) {
     await db.delete(renewalNotices).where(eq(renewalNotices.id, claim[0]!.id));
@@ -299,15 +304,13 @@ async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: numb
     footer: `${company.name} · ${company.phone}`,
   });
   try {
-    await deps.services.mailer.send({
-      to: h.email,
-      subject: 'Action needed: your agreement renewal payment was declined',
-      text: body.text,
-      html: body.html,
-      idempotencyKey: `dunning-${agreementId}-${a.endsOn}-${attempt}`,
+    await queueMail(deps, {
+      kind: 'renewal_declined',
+      key: `dunning-${agreementId}-${a.endsOn}-${attempt}`,
+      message: { to: h.email, subject: 'Action needed: your agreement renewal payment was declined', text: body.text, html: body.html },
     });
   } catch (err) {
-    deps.logger.error({ err, agreementId }, 'dunning e-mail failed');
+    deps.logger.error({ err, agreementId }, 'dunning e-mail was not queued');
   }
 }
 

@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import { pino } from 'pino';
 import { inject } from 'vitest';
 import { createApp, type AppDeps } from '../../server/app';
@@ -26,4 +27,17 @@ export function testApp(overrides: Partial<AppDeps> & { env?: Record<string, str
   };
   const app = createApp(deps);
   return { app, deps, database, close: () => database.close() };
+}
+
+/** Settings production requires, each a fresh random value (none may be one from the repository). */
+export function productionEnv(): Record<string, string> {
+  const secret = () => randomBytes(24).toString('base64url');
+  return {
+    NODE_ENV: 'production',
+    SESSION_SECRET: secret(),
+    JWT_SECRET: secret(),
+    STRIPE_SECRET_KEY: `sk_test_${secret()}`,
+    STRIPE_WEBHOOK_SECRET: `whsec_${secret()}`,
+    SMTP_URL: 'smtp://127.0.0.1:9',
+  };
 }

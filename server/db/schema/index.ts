@@ -11,3 +11,4 @@ export * from './billing';
 export * from './field';
 export * from './records';
 export * from './reminders';
+export * from './mail';

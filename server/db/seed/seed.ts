@@ -1,9 +1,8 @@
 import { hash } from '@node-rs/argon2';
 import { DateTime } from 'luxon';
-import { fileURLToPath } from 'node:url';
 import type { EquipmentKind, RefrigerantName } from '../../../shared/equipment';
 import type { VisitReason } from '../../../shared/visits';
-import { createDatabase, type Db, type Tx } from '../client';
+import type { Db, Tx } from '../client';
 import * as t from '../schema';
 import { seededRandom, type Random } from './random';
 import { AREAS, COMPANY, DEMO_HOMEOWNERS, DEMO_STAFF_PASSWORD, FIRST_NAMES, LAST_NAMES, MAKES, STAFF, STREETS } from './scenario';
@@ -279,13 +278,4 @@ async function seedVisits(tx: Tx, rnd: Random, today: DateTime, households: { cu
     });
   }
   for (let i = 0; i < rows.length; i += 200) await tx.insert(t.visits).values(rows.slice(i, i + 200));
-}
-
-if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const url = process.env.DATABASE_URL;
-  if (!url) throw new Error('DATABASE_URL is required');
-  const database = createDatabase(url, 2);
-  const result = await seedDemo(database.db);
-  await database.close();
-  console.log(result.seeded ? `[seed] demo scenario loaded: ${result.households} households` : '[seed] demo scenario already present');
 }

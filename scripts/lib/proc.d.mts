@@ -1,0 +1,3 @@
+export const ROOT: string;
+export function freePort(): Promise<number>;
+export function buildServer(o?: { force?: boolean }): Promise<void>;
