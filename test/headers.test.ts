@@ -1,28 +1,18 @@
-import { randomBytes } from 'node:crypto';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
-import { testApp } from './support/app';
+import { productionEnv, testApp } from './support/app';
 
 // The security headers every answer carries: pages, API answers and errors alike.
 
 const dist = mkdtempSync(join(tmpdir(), 'sw-headers-'));
 writeFileSync(join(dist, 'index.html'), '<!doctype html><title>Seasonwell</title>');
-const secret = () => randomBytes(24).toString('base64url');
 
 const dev = testApp({ env: { CLIENT_DIST: dist } });
 const prod = testApp({
-  env: {
-    NODE_ENV: 'production',
-    CLIENT_DIST: dist,
-    PUBLIC_URL: 'https://comfort.example',
-    SESSION_SECRET: secret(),
-    JWT_SECRET: secret(),
-    STRIPE_SECRET_KEY: `sk_live_${secret()}`,
-    STRIPE_WEBHOOK_SECRET: `whsec_${secret()}`,
-  },
+  env: { ...productionEnv(), CLIENT_DIST: dist, PUBLIC_URL: 'https://comfort.example' },
 });
 afterAll(async () => {
   await dev.close();
