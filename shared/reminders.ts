@@ -127,7 +127,8 @@ export function reminderWording(kind: ReminderKind, companyName: string): { subj
         subject: `Time to book your fall heating tune-up`,
         paragraphs: [
           'Your maintenance plan includes a heating tune-up before the cold weather. The technician checks the burners, the flame sensor, the heat exchanger and the safety controls.',
-          'A working carbon monoxide alarm near the bedrooms matters too: test it when you change your clocks.',
+          // Monthly alarm test: U.S. Consumer Product Safety Commission advice.
+          'A working carbon monoxide alarm near the bedrooms matters too: press its test button once a month.',
         ],
         action: 'Book my tune-up',
       };

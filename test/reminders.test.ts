@@ -16,16 +16,23 @@ const household = (over: Partial<ReminderHousehold> = {}): ReminderHousehold => 
 });
 
 describe('seasons', () => {
-  // Common practice in the central US: cooling tune-ups Feb–Jun, heating tune-ups Aug–Nov.
+  // The one season table (shared/seasons.ts): by default cooling March–August, heating September–February
+  // (common practice: cool in spring, heat in fall), the same months coverage and checklists use.
   it('points at the coming cooling season once this year’s has ended', () => {
     const s = seasonOf('cooling', day('2026-12-01'));
-    expect(s.start.toISODate()).toBe('2027-02-01');
-    expect(s.end.toISODate()).toBe('2027-06-30');
+    expect(s.start.toISODate()).toBe('2027-03-01');
+    expect(s.end.toISODate()).toBe('2027-08-31');
   });
-  it('stays in the current heating season while it runs', () => {
+  it('stays in the current heating season while it runs, over New Year', () => {
     const s = seasonOf('heating', day('2026-09-15'));
-    expect(s.start.toISODate()).toBe('2026-08-01');
-    expect(s.end.toISODate()).toBe('2026-11-30');
+    expect(s.start.toISODate()).toBe('2026-09-01');
+    expect(s.end.toISODate()).toBe('2027-02-28');
+    expect(seasonOf('heating', day('2027-01-20')).start.toISODate()).toBe('2026-09-01');
+  });
+  it('follows the owner’s months', () => {
+    const s = seasonOf('cooling', day('2026-04-10'), { coolingStartMonth: 5, heatingStartMonth: 10 });
+    expect(s.start.toISODate()).toBe('2026-05-01');
+    expect(s.end.toISODate()).toBe('2026-09-30');
   });
 });
 
