@@ -68,6 +68,16 @@ describe('filter and coil reminders', () => {
     expect(reminderDecision('filter', media, day('2026-08-15')).due).toBe(false);
     expect(reminderDecision('filter', media, day('2026-11-15')).due).toBe(true);
   });
+  it('go by filter type, and read a size written with its unit', () => {
+    // 1-inch fiberglass monthly (common practice); "16x25x4 in" is a 4-inch media filter, every 180 days (common practice).
+    const visit = [{ kind: 'tune_up', status: 'done', startsAt: '2026-05-01T15:00:00Z' }];
+    const fiberglass = household({ visits: visit, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x1', filterType: 'Fiberglass' }] });
+    expect(reminderDecision('filter', fiberglass, day('2026-05-20')).due).toBe(false);
+    expect(reminderDecision('filter', fiberglass, day('2026-06-05')).due).toBe(true);
+    const media = household({ visits: visit, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x4 in' }] });
+    expect(reminderDecision('filter', media, day('2026-08-15')).due).toBe(false);
+    expect(reminderDecision('filter', media, day('2026-11-15')).due).toBe(true);
+  });
   it('need a filter size on file', () => {
     expect(reminderDecision('filter', household({ equipment: [{ kind: 'thermostat', filterSize: '' }] }), day('2026-08-15')).due).toBe(false);
   });

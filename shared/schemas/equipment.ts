@@ -153,8 +153,9 @@ export const equipmentInputSchema = z
   .transform(withCapacity);
 export type EquipmentInput = z.infer<typeof equipmentInputSchema>;
 
+// No default for the filter size here: a change to one field must not blank it.
 export const equipmentUpdateSchema = z
-  .object(equipmentFields)
+  .object({ ...equipmentFields, filterSize: filterSizeSchema })
   .partial()
   .refine((v) => Object.keys(v).length > 0, { error: 'Send at least one field to change.' })
   .superRefine(variableSpeedFields)
