@@ -33,3 +33,11 @@ describe('equipment update', () => {
     expect(equipmentUpdateSchema.parse({ filterSize: '16x25x1' })).toEqual({ filterSize: '16x25x1' });
   });
 });
+
+describe('an empty equipment update', () => {
+  it('is refused rather than sent to the database with nothing to set', () => {
+    const r = equipmentUpdateSchema.safeParse({});
+    expect(r.success).toBe(false);
+    expect(r.error?.issues[0]?.message).toBe('Send at least one field to change.');
+  });
+});

@@ -60,6 +60,8 @@ function refrigerantWord(v: string): string {
   return t.replace(/^R-?(\d)/, 'R-$1');
 }
 
+const capacityUnitSchema = z.enum(['tons', 'btuh'], { error: 'Capacity unit is tons or btuh.' });
+
 const equipmentFields = {
   kind: z.enum(EQUIPMENT_KINDS, { error: 'Choose the kind of equipment.' }),
   make: text('Make', 60),
@@ -74,7 +76,7 @@ const equipmentFields = {
     (v) => numberish(blankToNull(v)),
     z.number({ error: 'Capacity is a number.' }).positive('Capacity is more than 0.').nullable(),
   ),
-  capacityUnit: z.enum(['tons', 'btuh'], { error: 'Capacity unit is tons or btuh.' }).default('btuh'),
+  capacityUnit: capacityUnitSchema.default('btuh'),
   volts: optionalInt('Volts', 12, 600),
   phase: z.preprocess((v) => numberish(blankToNull(v)), z.union([z.literal(1), z.literal(3), z.null()], { error: 'Phase is 1 or 3.' })),
   ratedAmps: z.preprocess(
@@ -153,11 +155,11 @@ export const equipmentInputSchema = z
   .transform(withCapacity);
 export type EquipmentInput = z.infer<typeof equipmentInputSchema>;
 
-// No default for the filter size here: a change to one field must not blank it.
+// No defaults here: a change to one field must not blank the filter size, and an empty change is refused.
 export const equipmentUpdateSchema = z
-  .object({ ...equipmentFields, filterSize: filterSizeSchema })
+  .object({ ...equipmentFields, filterSize: filterSizeSchema, capacityUnit: capacityUnitSchema })
   .partial()
-  .refine((v) => Object.keys(v).length > 0, { error: 'Send at least one field to change.' })
+  .refine((v) => Object.values(v).some((x) => x !== undefined), { error: 'Send at least one field to change.' })
   .superRefine(variableSpeedFields)
   .transform(withCapacity);
 export type EquipmentUpdate = z.infer<typeof equipmentUpdateSchema>;
