@@ -2,6 +2,7 @@
 // agreement, its plan version and the term's visits, and this decides from them.
 import { AGREEMENT_STATUSES, AGREEMENT_STATUS_LABELS, type AgreementStatus } from './agreements';
 import { assertBps, assertCents, formatUsd } from './money';
+import { SeasonInputError, seasonOf, type Season, type SeasonSettings } from './seasons';
 
 export class CoverageInputError extends Error {
   constructor(
@@ -13,7 +14,7 @@ export class CoverageInputError extends Error {
   }
 }
 
-export type TuneUpSeason = 'cooling' | 'heating';
+export type TuneUpSeason = Season;
 export const TUNE_UP_SEASONS: readonly TuneUpSeason[] = ['cooling', 'heating'];
 
 /** Statuses under which the plan's benefits apply (past due and later pause them until paid). */
@@ -93,12 +94,17 @@ function count(value: unknown, field: string): number {
 }
 
 /**
- * The tune-up season a date falls in: March through August is the cooling tune-up, September
- * through February the heating one (common practice: cool in spring, heat in fall).
+ * The tune-up season a date falls in, from the owner's season months (by default March through
+ * August is the cooling tune-up and September through February the heating one).
  */
-export function tuneUpSeasonOf(onDate: string): TuneUpSeason {
-  const month = Number(isoDate(onDate, 'onDate').slice(5, 7));
-  return month >= 3 && month <= 8 ? 'cooling' : 'heating';
+export function tuneUpSeasonOf(onDate: string, seasons?: Partial<SeasonSettings> | null): TuneUpSeason {
+  const date = isoDate(onDate, 'onDate');
+  try {
+    return seasonOf(date, seasons);
+  } catch (err) {
+    if (err instanceof SeasonInputError) throw new CoverageInputError(`seasons.${err.field}`, err.message.replace(/^[^:]+: /, ''));
+    throw err;
+  }
 }
 
 const COUNTED_OUT = new Set(['canceled', 'no_show']);
@@ -125,13 +131,15 @@ export function coverageFor(input: {
   /** Every visit at the property in the agreement's term; this visit may be among them. */
   termVisits: CoverageVisit[];
   diagnosticFeeCents: number;
+  /** The owner's season months; the defaults apply when left out. */
+  seasons?: Partial<SeasonSettings> | null;
 }): Coverage {
   if (!input || typeof input !== 'object') throw new CoverageInputError('input', 'must be an object');
   const visit = checkVisit(input.visit, 'visit');
   assertCentsField(input.diagnosticFeeCents, 'diagnosticFeeCents');
   if (!Array.isArray(input.termVisits)) throw new CoverageInputError('termVisits', 'must be a list of visits');
   const others = input.termVisits.map((v, i) => checkVisit(v, `termVisits[${i}]`)).filter((v) => v.id !== visit.id);
-  const tuneUpSeason = visit.kind === 'tune_up' ? tuneUpSeasonOf(visit.onDate) : null;
+  const tuneUpSeason = visit.kind === 'tune_up' ? tuneUpSeasonOf(visit.onDate, input.seasons) : null;
   const feeCents = input.diagnosticFeeCents;
   const isCall = visit.kind === 'service_call';
 
@@ -179,7 +187,7 @@ export function coverageFor(input: {
   const covered = dated && COVERING_STATUSES.includes(a.status);
 
   const allowances: SeasonAllowance[] = TUNE_UP_SEASONS.map((season) => {
-    const same = others.filter((v) => v.kind === 'tune_up' && inTerm(v.onDate) && !COUNTED_OUT.has(v.status) && tuneUpSeasonOf(v.onDate) === season);
+    const same = others.filter((v) => v.kind === 'tune_up' && inTerm(v.onDate) && !COUNTED_OUT.has(v.status) && tuneUpSeasonOf(v.onDate, input.seasons) === season);
     const used = same.filter((v) => v.status === 'done').length;
     const booked = same.length - used;
     return { season, included: included[season], used, booked, left: Math.max(0, included[season] - used) };

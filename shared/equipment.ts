@@ -25,8 +25,17 @@ export const EQUIPMENT_KIND_LABELS: Record<EquipmentKind, string> = {
   air_cleaner: 'Air cleaner',
 };
 
-export const REFRIGERANTS = ['R-410A', 'R-22', 'R-32', 'R-454B'] as const;
+export const REFRIGERANTS = ['R-410A', 'R-22', 'R-32', 'R-454B', 'R-407C'] as const;
 export type RefrigerantName = (typeof REFRIGERANTS)[number];
 
 export const METERING_DEVICES = ['fixed', 'txv', 'eev'] as const;
 export type MeteringDevice = (typeof METERING_DEVICES)[number];
+
+/** How the compressor's capacity is controlled. */
+export const COMPRESSOR_TYPES = ['fixed_speed', 'two_stage', 'variable_speed'] as const;
+export type CompressorType = (typeof COMPRESSOR_TYPES)[number];
+export const COMPRESSOR_TYPE_LABELS: Record<CompressorType, string> = {
+  fixed_speed: 'Fixed-speed',
+  two_stage: 'Two-stage',
+  variable_speed: 'Variable-speed (inverter)',
+};

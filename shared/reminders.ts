@@ -1,12 +1,13 @@
 import { DateTime } from 'luxon';
+import { seasonMonths, seasonOfMonth, type Season, type SeasonSettings } from './seasons';
+import { FILTER_INTERVAL_DAYS, filterCategory, filterIntervalDays } from './service-life';
 
 /**
  * Who is due for a seasonal reminder. Pure: the server loads households, this decides.
  *
- * Seasons (common practice for the central US): the cooling tune-up is done before the cooling
- * season, February through June; the heating tune-up before the heating season, August through
- * November. A household on a plan that includes that tune-up, with none done or booked in the
- * current season, is due.
+ * Seasons come from the one season table in seasons.ts (the owner's months, or the defaults), the
+ * same table coverage and the checklists use. A household on a plan that includes that tune-up,
+ * with none done or booked in the current or coming season of that kind, is due.
  */
 export const REMINDER_KINDS = ['cooling_tune_up', 'heating_tune_up', 'filter', 'coil_cleaning'] as const;
 export type ReminderKind = (typeof REMINDER_KINDS)[number];
@@ -18,16 +19,10 @@ export const REMINDER_LABELS: Record<ReminderKind, string> = {
   coil_cleaning: 'Outdoor coil cleaning',
 };
 
-// Months are 1–12, inclusive.
-const SEASONS: Record<'cooling' | 'heating', { from: number; to: number }> = {
-  cooling: { from: 2, to: 6 },
-  heating: { from: 8, to: 11 },
-};
-
-/** Days between filter changes for a 1-inch filter (common practice: every 1–3 months). */
-export const FILTER_INTERVAL_DAYS_THIN = 90;
-/** Days between changes for a 4- or 5-inch media filter (common practice: every 6–12 months). */
-export const FILTER_INTERVAL_DAYS_MEDIA = 180;
+/** Days between changes for a 1-inch pleated filter (see FILTER_INTERVAL_DAYS for each filter type and its source). */
+export const FILTER_INTERVAL_DAYS_THIN = FILTER_INTERVAL_DAYS.one_inch_pleated;
+/** Days between changes for a 4- or 5-inch media filter. */
+export const FILTER_INTERVAL_DAYS_MEDIA = FILTER_INTERVAL_DAYS.media_4_5_inch;
 /** Outdoor coil cleaning once a year (common practice; coil fouling cuts capacity and efficiency). */
 export const COIL_CLEANING_INTERVAL_DAYS = 365;
 /** The same household is not sent the same kind of reminder twice within this many days. */
@@ -40,7 +35,7 @@ export interface ReminderHousehold {
   agreement: { status: string; coolingVisits: number; heatingVisits: number; extras: string[] } | null;
   /** Tune-ups and other visits, any status; dates as ISO strings. */
   visits: { kind: string; status: string; startsAt: string; recommendations?: string }[];
-  equipment: { kind: string; filterSize: string }[];
+  equipment: { kind: string; filterSize: string; filterType?: string }[];
   /** The last time each kind of reminder went to this household. */
   lastSent: Partial<Record<ReminderKind, string>>;
 }
@@ -53,22 +48,26 @@ export interface ReminderDecision {
 const LIVE_AGREEMENT = new Set(['active', 'renewal_due']);
 const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'ductless']);
 
-/** The season a date falls in, and its bounds; null between seasons. */
-export function seasonOf(kind: 'cooling' | 'heating', today: DateTime): { start: DateTime; end: DateTime } {
-  const s = SEASONS[kind];
-  let year = today.year;
-  // After the season has ended, the next one is next year's.
-  if (today.month > s.to) year += 1;
-  const start = DateTime.fromObject({ year, month: s.from, day: 1 }, { zone: today.zone });
-  const end = start.set({ month: s.to }).endOf('month');
-  return { start, end };
+/**
+ * The bounds of the season of this kind that today is in, or else the next one to come
+ * (a heating season may run over New Year).
+ */
+export function seasonOf(kind: Season, today: DateTime, seasons?: Partial<SeasonSettings> | null): { start: DateTime; end: DateTime } {
+  const { first, last } = seasonMonths(kind, seasons);
+  const length = ((last - first + 12) % 12) + 1;
+  const month = today.startOf('month');
+  const start =
+    seasonOfMonth(today.month, seasons) === kind
+      ? month.minus({ months: (today.month - first + 12) % 12 })
+      : month.plus({ months: (first - today.month + 12) % 12 });
+  return { start, end: start.plus({ months: length - 1 }).endOf('month') };
 }
 
 function daysSince(iso: string, today: DateTime): number {
   return Math.floor(today.diff(DateTime.fromISO(iso, { zone: today.zone }), 'days').days);
 }
 
-export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today: DateTime): ReminderDecision {
+export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today: DateTime, seasons?: Partial<SeasonSettings> | null): ReminderDecision {
   if (!h.email) return { due: false, reason: 'No e-mail address on file' };
   const last = h.lastSent[kind];
   if (last && daysSince(last, today) < RESEND_GUARD_DAYS) return { due: false, reason: `Already reminded ${daysSince(last, today)} days ago` };
@@ -79,7 +78,7 @@ export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today
     const a = h.agreement;
     if (!a || !LIVE_AGREEMENT.has(a.status)) return { due: false, reason: 'No plan in force' };
     if ((season === 'cooling' ? a.coolingVisits : a.heatingVisits) < 1) return { due: false, reason: `Plan has no ${season} tune-up` };
-    const { start, end } = seasonOf(season, today);
+    const { start, end } = seasonOf(season, today, seasons);
     const booked = liveVisits.some((v) => {
       if (v.kind !== 'tune_up') return false;
       const at = DateTime.fromISO(v.startsAt, { zone: today.zone });
@@ -92,8 +91,8 @@ export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today
   if (kind === 'filter') {
     const filters = h.equipment.filter((e) => e.filterSize.trim() !== '');
     if (!filters.length) return { due: false, reason: 'No filter size on file' };
-    const media = filters.every((e) => /x\s*[45](\.\d+)?\s*$/i.test(e.filterSize));
-    const interval = media ? FILTER_INTERVAL_DAYS_MEDIA : FILTER_INTERVAL_DAYS_THIN;
+    // The filter that loads up first sets the pace.
+    const interval = Math.min(...filters.map((e) => filterIntervalDays(filterCategory(e.filterSize, e.filterType))));
     const lastVisit = liveVisits.filter((v) => v.status === 'done').map((v) => v.startsAt).sort().at(-1);
     const lastFilterReminder = h.lastSent.filter;
     const since = [lastVisit, lastFilterReminder].filter((x): x is string => !!x).sort().at(-1);
@@ -128,7 +127,8 @@ export function reminderWording(kind: ReminderKind, companyName: string): { subj
         subject: `Time to book your fall heating tune-up`,
         paragraphs: [
           'Your maintenance plan includes a heating tune-up before the cold weather. The technician checks the burners, the flame sensor, the heat exchanger and the safety controls.',
-          'A working carbon monoxide alarm near the bedrooms matters too: test it when you change your clocks.',
+          // Monthly alarm test: U.S. Consumer Product Safety Commission advice.
+          'A working carbon monoxide alarm near the bedrooms matters too: press its test button once a month.',
         ],
         action: 'Book my tune-up',
       };

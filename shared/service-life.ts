@@ -7,24 +7,87 @@ import type { EquipmentKind } from './equipment';
 export interface ServiceLife {
   years: number;
   source: string;
+  /** A second published figure to compare with, where one exists. */
+  secondReference?: string;
 }
 
-// ASHRAE HVAC Applications Handbook, "Owning and Operating Costs" chapter, median service life
-// table (figures recalled, not re-checked against the current edition: from memory).
-const ASHRAE = 'ASHRAE HVAC Applications Handbook, Owning and Operating Costs, median service life (from memory)';
+// ASHRAE Handbook, HVAC Applications volume, chapter "Owning and Operating Costs", table "Comparison
+// of Service Life Estimates": median years in service of each kind of equipment.
+const ASHRAE = 'ASHRAE Handbook—HVAC Applications, Owning and Operating Costs, Comparison of Service Life Estimates (median years)';
+// National Association of Home Builders with Bank of America Home Equity, "Study of Life Expectancy
+// of Home Components" (2007): ranges for house components, the second reference.
+const NAHB = 'NAHB Study of Life Expectancy of Home Components (2007)';
 
 export const SERVICE_LIFE: Record<EquipmentKind, ServiceLife> = {
-  condensing_unit: { years: 15, source: `${ASHRAE}: residential single or split package air conditioner` },
-  heat_pump: { years: 15, source: `${ASHRAE}: residential air-to-air heat pump` },
-  gas_furnace: { years: 18, source: `${ASHRAE}: furnace, gas or oil` },
-  thermostat: { years: 15, source: `${ASHRAE}: electronic controls` },
-  geothermal_heat_pump: { years: 24, source: 'US Department of Energy, Energy Saver: geothermal heat pump indoor components up to 24 years, ground loop 50+ (from memory)' },
-  air_handler: { years: 18, source: 'Common practice: an indoor air handler or fan coil lasts about as long as the furnace it replaces' },
-  ductless: { years: 15, source: 'Common practice: same as a residential split heat pump' },
-  condensate_pump: { years: 6, source: 'Common practice: small residential condensate pumps are replaced every 5 to 7 years' },
-  humidifier: { years: 10, source: 'Common practice: whole-house humidifier body; pads are yearly' },
+  condensing_unit: { years: 15, source: `${ASHRAE}: air conditioners, residential single or split package, 15`, secondReference: `${NAHB}: air conditioners 10–15 years (from memory)` },
+  heat_pump: { years: 15, source: `${ASHRAE}: heat pumps, residential air-to-air, 15`, secondReference: `${NAHB}: heat pumps 16 years (from memory)` },
+  gas_furnace: { years: 18, source: `${ASHRAE}: furnaces, gas or oil, 18`, secondReference: `${NAHB}: furnaces 15–20 years (from memory)` },
+  thermostat: { years: 15, source: `${ASHRAE}: controls, electronic, 15` },
+  // The median for a water-to-air heat pump, not the "up to 24 years" often quoted for indoor parts.
+  geothermal_heat_pump: { years: 19, source: `${ASHRAE}: heat pumps, commercial water-to-air, 19 (the ground loop itself lasts far longer)` },
+  air_handler: { years: 20, source: `${ASHRAE}: air terminals, induction and fan-coil units, 20` },
+  ductless: { years: 15, source: `${ASHRAE}: heat pumps, residential air-to-air, 15 (a ductless split is one)` },
+  condensate_pump: { years: 6, source: "Common practice: small residential condensate pumps are replaced every 5 to 7 years (ASHRAE's 15-year condensate pump is a steam condensate return pump)" },
+  humidifier: { years: 8, source: `${NAHB}: humidifiers 8 years (from memory); common practice: pads are yearly` },
   air_cleaner: { years: 10, source: 'Common practice: whole-house electronic or media air cleaner cabinet' },
 };
+
+/**
+ * Filter types with their own change interval. A filter's depth, read from its size, and the
+ * type on file decide which one it is.
+ */
+export const FILTER_CATEGORIES = ['one_inch_fiberglass', 'one_inch_pleated', 'two_inch', 'media_4_5_inch'] as const;
+export type FilterCategory = (typeof FILTER_CATEGORIES)[number];
+
+export const FILTER_CATEGORY_LABELS: Record<FilterCategory, string> = {
+  one_inch_fiberglass: '1-inch fiberglass',
+  one_inch_pleated: '1-inch pleated',
+  two_inch: '2-inch',
+  media_4_5_inch: '4–5-inch media',
+};
+
+/** Days between filter changes, by filter type. A dusty home or pets call for sooner. */
+export const FILTER_INTERVAL_DAYS: Record<FilterCategory, number> = {
+  // Common practice (filter makers' packaging): flat fiberglass panels load up in about a month.
+  one_inch_fiberglass: 30,
+  // ENERGY STAR heating and cooling maintenance checklist: check monthly, change at least every 3 months.
+  one_inch_pleated: 90,
+  // Common practice: a 2-inch pleated filter holds more dust but is still changed about every 3 months.
+  two_inch: 90,
+  // Common practice (media cabinet makers' instructions): every 6 to 12 months; we remind at 6.
+  media_4_5_inch: 180,
+};
+
+/**
+ * Width, height and depth in inches from a size like "16x25x4", "16 x 25 x 4 in" or "20X25X4.5 inches";
+ * null when it does not read as a size.
+ */
+export function filterDimensionsIn(size: string): { width: number; height: number; depth: number } | null {
+  if (typeof size !== 'string') return null;
+  const m = /^\s*(\d{1,2}(?:\.\d{1,3})?)\s*[x×]\s*(\d{1,2}(?:\.\d{1,3})?)\s*[x×]\s*(\d{1,2}(?:\.\d{1,3})?)\s*(?:"|in(?:ch(?:es)?)?\.?)?\s*$/i.exec(size);
+  if (!m) return null;
+  return { width: Number(m[1]), height: Number(m[2]), depth: Number(m[3]) };
+}
+
+/**
+ * The filter type for the change interval. Nominal depths: 1 inch (actual about 3/4), 2 inches,
+ * and 4 or 5 inches for media cabinets (actual about 3 5/8 to 4 7/8). A 1-inch filter is pleated
+ * unless its type on file says fiberglass, the usual 1-inch filter sold today (common practice).
+ */
+export function filterCategory(size: string, type = ''): FilterCategory {
+  const depth = filterDimensionsIn(size)?.depth;
+  const t = typeof type === 'string' ? type.toLowerCase() : '';
+  if ((depth !== undefined && depth >= 3) || /\bmedia\b/.test(t)) return 'media_4_5_inch';
+  if (depth !== undefined && depth >= 1.5) return 'two_inch';
+  if (/fib(er|re) ?glass|spun ?glass/.test(t)) return 'one_inch_fiberglass';
+  return 'one_inch_pleated';
+}
+
+export function filterIntervalDays(category: FilterCategory): number {
+  const days = FILTER_INTERVAL_DAYS[category];
+  if (days === undefined) throw new RangeError(`filter: unknown filter type "${String(category)}"`);
+  return days;
+}
 
 /** Share of the typical life after which we flag a system as nearing the end of its service life. */
 export const NEARING_SHARE = 0.8;

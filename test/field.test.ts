@@ -257,6 +257,7 @@ describe('readings', () => {
     mode: 'cooling',
     returnDryBulbF: 75,
     supplyDryBulbF: 55,
+    indoorWetBulbF: 61,
     capacitors: { compressor: { ratedUf: 7.5, measuredUf: 6.9 } },
     controlVoltageVac: 24.6,
   };
@@ -264,7 +265,7 @@ describe('readings', () => {
   it('re-evaluates on the server and stores what it computed, with the altitude from the property', async () => {
     const res = await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings }).expect(200);
     const split = res.body.checks.find((c: { check: string }) => c.check === 'temperature_split');
-    // 75 °F return, 55 °F supply: a 20 °F split, in range (common practice).
+    // 75 °F return, 55 °F supply at 61 °F wet bulb: a 20 °F split against 19.9 ± 3 °F (Title 24 RA3.2 table, from memory).
     expect(split).toMatchObject({ value: 20, status: 'ok' });
     const cap = res.body.checks.find((c: { check: string }) => c.check === 'capacitor_compressor');
     // 6.9 µF on a 7.5 µF part is outside ±6 % (7.05–7.95 µF) (common practice).
@@ -393,7 +394,7 @@ describe('completing the visit', () => {
     expect(locked.body.error.code).toBe('conflict');
   });
 
-  const readings = { returnDryBulbF: 75, supplyDryBulbF: 55 };
+  const readings = { returnDryBulbF: 75, supplyDryBulbF: 55, indoorWetBulbF: 61 };
 });
 
 describe('homeowner readings history and visit summary', () => {
@@ -409,8 +410,8 @@ describe('homeowner readings history and visit summary', () => {
     const system = history.systems.find((s: { equipmentId: string }) => s.equipmentId === f.condenserId);
     const split = system.series.find((s: { check: string }) => s.check === 'temperature_split');
     expect(split.points).toHaveLength(1);
-    // The common 16–22 °F split band (common practice).
-    expect(split.points[0]).toMatchObject({ value: 20, status: 'ok', expected: { min: 16, max: 22, target: 20 } });
+    // Target split 19.9 ± 3 °F at 75 °F DB / 61 °F WB (Title 24 RA3.2 table, from memory).
+    expect(split.points[0]).toMatchObject({ value: 20, status: 'ok', expected: { min: 16.9, max: 22.9, target: 19.9 } });
 
     // A visit not yet done has no summary for the homeowner.
     await home.agent.get(`/api/portal/visit-summaries/${f.tuneUpId}`).expect(404);

@@ -16,16 +16,23 @@ const household = (over: Partial<ReminderHousehold> = {}): ReminderHousehold => 
 });
 
 describe('seasons', () => {
-  // Common practice in the central US: cooling tune-ups Feb–Jun, heating tune-ups Aug–Nov.
+  // The one season table (shared/seasons.ts): by default cooling March–August, heating September–February
+  // (common practice: cool in spring, heat in fall), the same months coverage and checklists use.
   it('points at the coming cooling season once this year’s has ended', () => {
     const s = seasonOf('cooling', day('2026-12-01'));
-    expect(s.start.toISODate()).toBe('2027-02-01');
-    expect(s.end.toISODate()).toBe('2027-06-30');
+    expect(s.start.toISODate()).toBe('2027-03-01');
+    expect(s.end.toISODate()).toBe('2027-08-31');
   });
-  it('stays in the current heating season while it runs', () => {
+  it('stays in the current heating season while it runs, over New Year', () => {
     const s = seasonOf('heating', day('2026-09-15'));
-    expect(s.start.toISODate()).toBe('2026-08-01');
-    expect(s.end.toISODate()).toBe('2026-11-30');
+    expect(s.start.toISODate()).toBe('2026-09-01');
+    expect(s.end.toISODate()).toBe('2027-02-28');
+    expect(seasonOf('heating', day('2027-01-20')).start.toISODate()).toBe('2026-09-01');
+  });
+  it('follows the owner’s months', () => {
+    const s = seasonOf('cooling', day('2026-04-10'), { coolingStartMonth: 5, heatingStartMonth: 10 });
+    expect(s.start.toISODate()).toBe('2026-05-01');
+    expect(s.end.toISODate()).toBe('2026-09-30');
   });
 });
 
@@ -58,6 +65,16 @@ describe('filter and coil reminders', () => {
     expect(reminderDecision('filter', household({ visits: visit }), day('2026-07-01')).due).toBe(false);
     expect(reminderDecision('filter', household({ visits: visit }), day('2026-08-15')).due).toBe(true);
     const media = household({ visits: visit, equipment: [{ kind: 'gas_furnace', filterSize: '20x25x4' }] });
+    expect(reminderDecision('filter', media, day('2026-08-15')).due).toBe(false);
+    expect(reminderDecision('filter', media, day('2026-11-15')).due).toBe(true);
+  });
+  it('go by filter type, and read a size written with its unit', () => {
+    // 1-inch fiberglass monthly (common practice); "16x25x4 in" is a 4-inch media filter, every 180 days (common practice).
+    const visit = [{ kind: 'tune_up', status: 'done', startsAt: '2026-05-01T15:00:00Z' }];
+    const fiberglass = household({ visits: visit, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x1', filterType: 'Fiberglass' }] });
+    expect(reminderDecision('filter', fiberglass, day('2026-05-20')).due).toBe(false);
+    expect(reminderDecision('filter', fiberglass, day('2026-06-05')).due).toBe(true);
+    const media = household({ visits: visit, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x4 in' }] });
     expect(reminderDecision('filter', media, day('2026-08-15')).due).toBe(false);
     expect(reminderDecision('filter', media, day('2026-11-15')).due).toBe(true);
   });

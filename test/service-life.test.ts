@@ -1,26 +1,49 @@
 import { describe, expect, it } from 'vitest';
 import { EQUIPMENT_KINDS } from '../shared/equipment';
-import { ageText, assessServiceLife, equipmentAge, SERVICE_LIFE, warrantyStatus } from '../shared/service-life';
+import {
+  FILTER_CATEGORIES,
+  FILTER_CATEGORY_LABELS,
+  SERVICE_LIFE,
+  ageText,
+  assessServiceLife,
+  equipmentAge,
+  filterCategory,
+  filterDimensionsIn,
+  filterIntervalDays,
+  warrantyStatus,
+} from '../shared/service-life';
 
 describe('typical service lives', () => {
   it('has a figure and a named source for every kind of equipment', () => {
     for (const kind of EQUIPMENT_KINDS) {
       const life = SERVICE_LIFE[kind];
       expect(life.years, kind).toBeGreaterThan(0);
-      expect(life.source, kind).toMatch(/ASHRAE|Department of Energy|Common practice/);
+      expect(life.source, kind).toMatch(/ASHRAE|NAHB|Common practice/);
+      expect(life.source, kind).not.toMatch(/ASHRAE[^;]*from memory/);
     }
   });
 
   it('matches the handbook medians for split air conditioners, heat pumps and furnaces', () => {
-    // ASHRAE HVAC Applications Handbook, Owning and Operating Costs, median service life table (from memory).
+    // ASHRAE Handbook—HVAC Applications, Owning and Operating Costs, Comparison of Service Life Estimates (median years).
     expect(SERVICE_LIFE.condensing_unit.years).toBe(15);
     expect(SERVICE_LIFE.heat_pump.years).toBe(15);
     expect(SERVICE_LIFE.gas_furnace.years).toBe(18);
   });
 
-  it('gives geothermal indoor units the longer life the DOE states', () => {
-    // US DOE Energy Saver, geothermal heat pumps: indoor components up to 24 years (from memory).
-    expect(SERVICE_LIFE.geothermal_heat_pump.years).toBe(24);
+  it('gives geothermal heat pumps the median life, not the "up to" figure', () => {
+    // ASHRAE HVAC Applications, Comparison of Service Life Estimates: water-to-air heat pump median 19 years
+    // (the DOE's "up to 24 years" for indoor parts is a best case, not a median).
+    expect(SERVICE_LIFE.geothermal_heat_pump.years).toBe(19);
+    expect(SERVICE_LIFE.geothermal_heat_pump.source).toMatch(/median/);
+  });
+
+  it('checks the other figures against the handbook and the NAHB study', () => {
+    // ASHRAE HVAC Applications, Comparison of Service Life Estimates: electronic controls 15, fan-coil units 20.
+    expect(SERVICE_LIFE.thermostat.years).toBe(15);
+    expect(SERVICE_LIFE.air_handler.years).toBe(20);
+    // NAHB Study of Life Expectancy of Home Components (2007): humidifiers 8 years (from memory).
+    expect(SERVICE_LIFE.humidifier.years).toBe(8);
+    for (const kind of ['condensing_unit', 'heat_pump', 'gas_furnace'] as const) expect(SERVICE_LIFE[kind].secondReference, kind).toMatch(/NAHB/);
   });
 });
 
@@ -85,5 +108,31 @@ describe('warranty', () => {
     expect(warrantyStatus('2026-08-30', '2026-06-01')).toBe('ending_soon');
     expect(warrantyStatus('2026-06-01', '2026-06-01')).toBe('ending_soon');
     expect(warrantyStatus('2026-05-31', '2026-06-01')).toBe('expired');
+  });
+});
+
+describe('filter change intervals', () => {
+  it('go by filter type', () => {
+    // 1-inch fiberglass monthly (common practice, filter packaging); 1-inch pleated every 3 months (ENERGY STAR
+    // maintenance checklist); 2-inch about every 3 months; 4–5-inch media every 6–12 months (common practice).
+    expect(filterIntervalDays(filterCategory('16x25x1', 'Fiberglass'))).toBe(30);
+    expect(filterIntervalDays(filterCategory('16x25x1', 'Pleated MERV 8'))).toBe(90);
+    expect(filterIntervalDays(filterCategory('16x25x1'))).toBe(90);
+    expect(filterIntervalDays(filterCategory('16x25x2'))).toBe(90);
+    expect(filterIntervalDays(filterCategory('20x25x4'))).toBe(180);
+    expect(filterIntervalDays(filterCategory('20x25x5'))).toBe(180);
+    expect(filterCategory('', 'Media cabinet')).toBe('media_4_5_inch');
+    expect(FILTER_CATEGORIES.map((c) => FILTER_CATEGORY_LABELS[c])).toEqual(['1-inch fiberglass', '1-inch pleated', '2-inch', '4–5-inch media']);
+  });
+
+  it('read sizes written with units and actual depths', () => {
+    expect(filterDimensionsIn('16x25x4 in')).toEqual({ width: 16, height: 25, depth: 4 });
+    expect(filterDimensionsIn('16 x 25 x 4 inches')).toEqual({ width: 16, height: 25, depth: 4 });
+    expect(filterDimensionsIn('20X25X4.5"')).toEqual({ width: 20, height: 25, depth: 4.5 });
+    expect(filterDimensionsIn('16x25')).toBeNull();
+    expect(filterCategory('16x25x4 in')).toBe('media_4_5_inch');
+    // Actual depths: a nominal 1-inch filter is about 3/4 inch, a 4-inch media filter about 3 5/8 inches (common practice).
+    expect(filterCategory('15.75x24.75x0.75')).toBe('one_inch_pleated');
+    expect(filterCategory('19.75x24.75x3.625')).toBe('media_4_5_inch');
   });
 });

@@ -1,3 +1,5 @@
+import { A2L_REFRIGERANTS } from './refrigerants';
+
 export interface Caution {
   id: string;
   title: string;
@@ -33,9 +35,24 @@ export const cautions: readonly Caution[] = [
     audience: ['technician'],
   },
   {
+    // Hazard levels: ANSI Z21.47 flue limit and the EPA's ambient CO standard (see evaluate.ts).
+    id: 'co_hazard',
+    title: 'Hazardous carbon monoxide reading',
+    text: 'Stop. Shut the appliance off and make it safe before anything else: ventilate, get people out of the affected space if the living-space reading is high, and do not leave the appliance running until the cause is found and fixed. Tell the homeowner in writing. Follow local codes and licensed practice, and call the gas utility or emergency services where they require it.',
+    audience: ['technician'],
+  },
+  {
+    // ASHRAE Standard 34 safety class A2L (lower flammability); UL 60335-2-40 for equipment using them.
+    id: 'a2l_refrigerants',
+    title: 'A2L refrigerant (R-32, R-454B)',
+    text: 'R-32 and R-454B are mildly flammable, safety class A2L in ASHRAE Standard 34. Use recovery machines, vacuum pumps and leak detectors rated for A2L refrigerants, keep ignition sources away from the work and ventilate, and follow the equipment\'s UL 60335-2-40 markings and the manufacturer\'s instructions. Local codes and licensed practice apply.',
+    audience: ['technician'],
+  },
+  {
+    // U.S. Consumer Product Safety Commission: test CO alarms monthly.
     id: 'co_alarms',
     title: 'Carbon monoxide alarms',
-    text: 'Keep working carbon monoxide alarms near sleeping areas and on each level of a home with fuel-burning equipment, as local codes require.',
+    text: 'Keep working carbon monoxide alarms near sleeping areas and on each level of a home with fuel-burning equipment, as local codes require. Test them once a month and replace the batteries as the maker says (U.S. Consumer Product Safety Commission advice).',
     audience: ['homeowner'],
   },
   {
@@ -45,3 +62,20 @@ export const cautions: readonly Caution[] = [
     audience: ['homeowner'],
   },
 ];
+
+/**
+ * The technician's cautions for a visit, by what the equipment involves: refrigerant work,
+ * A2L refrigerants, fuel-burning equipment. The hazardous-CO caution is shown by the reading
+ * that calls for it.
+ */
+export function technicianCautionsFor(i: { fuelBurning: boolean; hasRefrigerant: boolean; refrigerants?: readonly string[] }): Caution[] {
+  const a2l = (i.refrigerants ?? []).some((r) => (A2L_REFRIGERANTS as readonly string[]).includes(r));
+  return cautions.filter((c) => {
+    if (!c.audience.includes('technician')) return false;
+    if (c.id === 'refrigerant_certification') return i.hasRefrigerant;
+    if (c.id === 'fuel_burning_equipment') return i.fuelBurning;
+    if (c.id === 'a2l_refrigerants') return a2l;
+    if (c.id === 'co_hazard') return i.fuelBurning;
+    return true;
+  });
+}

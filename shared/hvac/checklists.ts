@@ -1,9 +1,9 @@
 import { EQUIPMENT_KINDS, type EquipmentKind } from '../equipment';
+import { SeasonInputError, seasonOf, type Season, type SeasonSettings } from '../seasons';
 import { ReadingInputError } from './errors';
 
-// One list of equipment kinds for the whole product.
-export { EQUIPMENT_KINDS, type EquipmentKind };
-export type Season = 'cooling' | 'heating';
+// One list of equipment kinds and one season table for the whole product.
+export { EQUIPMENT_KINDS, type EquipmentKind, type Season };
 
 export interface ChecklistItem {
   /** Stable across releases: saved visit results refer to it. */
@@ -19,6 +19,7 @@ const HEAT: readonly Season[] = ['heating'];
 
 // Written from common practice within the scope of residential maintenance
 // inspection in ANSI/ACCA 4 QM; local codes and the manufacturer's instructions come first.
+// Every appliance that is opened starts with power off and locked out, in every season.
 const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
   condensing_unit: [
     { id: 'cu.power_off_verified', text: 'Lock out the outdoor disconnect and prove power is off before opening panels', seasons: BOTH },
@@ -48,11 +49,12 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'hp.drainage', text: 'Check that defrost water drains away and the unit is raised above snow line', seasons: HEAT },
   ],
   air_handler: [
-    { id: 'ah.power_off_verified', text: 'Turn off and prove power off at the air handler before opening panels', seasons: BOTH },
+    { id: 'ah.power_off_verified', text: 'Turn off and lock out power at the air handler and prove it is off before opening panels', seasons: BOTH },
     { id: 'ah.filter', text: 'Replace or clean the air filter; note its size and rating', seasons: BOTH },
     { id: 'ah.blower', text: 'Inspect the blower wheel for dirt build-up; measure blower motor amps', seasons: BOTH },
     { id: 'ah.evaporator', text: 'Inspect the indoor coil face for dirt and clean as needed', seasons: COOL },
     { id: 'ah.condensate_drain', text: 'Flush the condensate drain and trap; confirm flow to its outlet', seasons: COOL },
+    // Overflow protection for a cooling coil: IMC 307.2.3 (secondary pan, overflow line or water-level switch).
     { id: 'ah.condensate_switch', text: 'Test the condensate switch: it must stop cooling when tripped', seasons: COOL },
     { id: 'ah.drain_pan', text: 'Check the primary and secondary drain pans for rust and standing water', seasons: COOL },
     { id: 'ah.split', text: 'Measure return and supply temperatures for the temperature split', seasons: COOL },
@@ -61,8 +63,8 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'ah.heat_strips', text: 'Test electric heat strips and their limit switches', seasons: HEAT },
   ],
   gas_furnace: [
-    { id: 'gf.power_gas_off', text: 'Turn off power and the gas valve before opening the burner compartment', seasons: HEAT },
-    { id: 'gf.filter', text: 'Replace or clean the air filter', seasons: HEAT },
+    { id: 'gf.power_gas_off', text: 'Turn off and lock out power, and turn off the gas valve, before opening the furnace', seasons: BOTH },
+    { id: 'gf.filter', text: 'Replace or clean the air filter', seasons: BOTH },
     { id: 'gf.venting', text: 'Inspect the vent and combustion air pipes for damage, blockage and slope', seasons: HEAT },
     { id: 'gf.heat_exchanger', text: 'Inspect the heat exchanger for cracks, rust-through and flame disturbance', seasons: HEAT },
     { id: 'gf.burners', text: 'Clean burners and check for a steady, even flame', seasons: HEAT },
@@ -77,7 +79,7 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'gf.blower_cooling', text: 'Clean the blower and check its amps before the cooling season', seasons: COOL },
   ],
   geothermal_heat_pump: [
-    { id: 'gt.power_off_verified', text: 'Turn off and prove power off before opening panels', seasons: BOTH },
+    { id: 'gt.power_off_verified', text: 'Turn off and lock out power and prove it is off before opening panels', seasons: BOTH },
     { id: 'gt.filter', text: 'Replace or clean the air filter', seasons: BOTH },
     { id: 'gt.loop_temps', text: 'Record entering and leaving loop water temperatures', seasons: BOTH },
     { id: 'gt.loop_pressure', text: 'Check loop pressure and flow against the design values', seasons: BOTH },
@@ -89,16 +91,18 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'gt.desuperheater', text: 'Check the hot water desuperheater pump, if fitted', seasons: BOTH },
   ],
   ductless: [
-    { id: 'dl.power_off_verified', text: 'Turn off and prove power off at the outdoor disconnect', seasons: BOTH },
+    { id: 'dl.power_off_verified', text: 'Turn off and lock out power at the outdoor disconnect and prove it is off', seasons: BOTH },
     { id: 'dl.filters', text: 'Wash the indoor unit filters and let them dry before refitting', seasons: BOTH },
     { id: 'dl.indoor_coil', text: 'Clean the indoor coil and blower wheel', seasons: COOL },
     { id: 'dl.condensate', text: 'Flush the indoor unit drain and check the drain line outside', seasons: COOL },
+    { id: 'dl.condensate_pump', text: 'Where a pump lifts the indoor unit\'s water: unplug it, clean it, then test that it runs and its overflow switch stops cooling', seasons: COOL },
     { id: 'dl.outdoor_coil', text: 'Rinse the outdoor coil and clear debris, snow and ice', seasons: BOTH },
     { id: 'dl.line_set', text: 'Inspect line set insulation and the wall sleeve', seasons: BOTH },
     { id: 'dl.operation', text: 'Run each indoor head in the season mode and check the split', seasons: BOTH },
     { id: 'dl.remote', text: 'Check the remote or wall control and replace batteries', seasons: BOTH },
   ],
   thermostat: [
+    { id: 'ts.power_off', text: 'Switch the system off at its disconnect before taking the thermostat off its base; restore power for the voltage and cycle tests', seasons: BOTH },
     { id: 'ts.calibration', text: 'Compare the displayed temperature with a reference thermometer', seasons: BOTH },
     { id: 'ts.batteries', text: 'Replace batteries where used', seasons: BOTH },
     { id: 'ts.wiring', text: 'Check wiring at the base for loose or corroded terminals', seasons: BOTH },
@@ -108,14 +112,14 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'ts.schedule', text: 'Review the schedule and settings with the homeowner', seasons: BOTH },
   ],
   condensate_pump: [
-    { id: 'cp.power_off', text: 'Unplug the pump before cleaning', seasons: COOL },
+    { id: 'cp.power_off', text: 'Unplug the pump before cleaning', seasons: BOTH },
     { id: 'cp.reservoir', text: 'Clean the reservoir and float of sludge and algae', seasons: BOTH },
     { id: 'cp.float_switch', text: 'Lift the float: the pump must run and the overflow switch must stop the equipment', seasons: BOTH },
     { id: 'cp.check_valve', text: 'Confirm the check valve keeps water from running back', seasons: BOTH },
     { id: 'cp.discharge_line', text: 'Check the discharge line is clear and ends where water can drain', seasons: BOTH },
   ],
   humidifier: [
-    { id: 'hu.water_off', text: 'Turn off water and power to the humidifier before servicing', seasons: BOTH },
+    { id: 'hu.water_off', text: 'Turn off and lock out power, and turn off the water, before servicing the humidifier', seasons: BOTH },
     { id: 'hu.pad', text: 'Replace the water panel or pad and clean mineral build-up', seasons: HEAT },
     { id: 'hu.solenoid', text: 'Confirm the water valve opens on a call and closes after', seasons: HEAT },
     { id: 'hu.drain', text: 'Check the drain line runs freely', seasons: HEAT },
@@ -132,12 +136,65 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
   ],
 };
 
+/**
+ * A furnace's cased indoor coil, with an outdoor condensing unit: the commonest system. The coil
+ * sits on the furnace, so its cooling-season items go with the furnace.
+ */
+const CASED_COIL: readonly ChecklistItem[] = [
+  { id: 'gf.coil', text: 'Inspect the cased indoor coil on the furnace for dirt and clean as needed', seasons: COOL },
+  { id: 'gf.coil_drain', text: "Flush the coil's condensate drain and trap; confirm flow to its outlet", seasons: COOL },
+  // IMC 307.2.3: auxiliary drain pan, overflow drain line or water-level detection device for each cooling coil.
+  { id: 'gf.coil_overflow', text: 'Check the secondary drain pan or line, or test the overflow switch: it must stop cooling when water backs up (IMC 307.2.3)', seasons: COOL },
+];
+
+export interface ChecklistOptions {
+  /** The furnace carries a cased cooling coil (an outdoor condensing unit or heat pump, no separate air handler). */
+  casedCoil?: boolean;
+}
+
+/** Outdoor units that pair with a cased coil on a furnace. */
+const SPLIT_OUTDOOR: ReadonlySet<string> = new Set(['condensing_unit', 'heat_pump']);
+
+/** Whether a furnace at a home with these kinds of equipment carries a cased cooling coil. */
+export function furnaceHasCasedCoil(kinds: readonly string[]): boolean {
+  return kinds.includes('gas_furnace') && kinds.some((k) => SPLIT_OUTDOOR.has(k)) && !kinds.includes('air_handler');
+}
+
 /** Tune-up items for one kind of equipment in one season, in working order. */
-export function tuneUpChecklist(kind: EquipmentKind, season: Season): ChecklistItem[] {
+export function tuneUpChecklist(kind: EquipmentKind, season: Season, options: ChecklistOptions = {}): ChecklistItem[] {
   const items = (CHECKLISTS as Record<string, readonly ChecklistItem[] | undefined>)[kind];
   if (!items) throw new ReadingInputError('kind', `unknown equipment kind "${String(kind)}"; expected one of ${EQUIPMENT_KINDS.join(', ')}`);
   if (season !== 'cooling' && season !== 'heating') {
     throw new ReadingInputError('season', `must be "cooling" or "heating", got "${String(season)}"`);
   }
-  return items.filter((i) => i.seasons.includes(season));
+  let all = items;
+  if (kind === 'gas_furnace' && options.casedCoil) {
+    // Coil work follows the filter, before the burner-side items.
+    const at = items.findIndex((i) => i.id === 'gf.filter') + 1;
+    all = [...items.slice(0, at), ...CASED_COIL, ...items.slice(at)];
+  }
+  return all.filter((i) => i.seasons.includes(season));
+}
+
+/** The season of a visit date from the owner's season table (seasons.ts), as coverage and reminders use it. */
+export function checklistSeasonOf(onDate: string, seasons?: Partial<SeasonSettings> | null): Season {
+  try {
+    return seasonOf(onDate, seasons);
+  } catch (err) {
+    if (err instanceof SeasonInputError) throw new ReadingInputError(err.field === 'date' ? 'onDate' : `seasons.${err.field}`, err.message.replace(/^[^:]+: /, ''));
+    throw err;
+  }
+}
+
+/**
+ * The tune-up checklist for a visit date: its season from the one season table, and the items for
+ * this kind of equipment, knowing the rest of the home's equipment.
+ */
+export function tuneUpChecklistOn(
+  kind: EquipmentKind,
+  onDate: string,
+  context: { seasons?: Partial<SeasonSettings> | null; equipmentKinds?: readonly string[] } = {},
+): { season: Season; items: ChecklistItem[] } {
+  const season = checklistSeasonOf(onDate, context.seasons);
+  return { season, items: tuneUpChecklist(kind, season, { casedCoil: furnaceHasCasedCoil(context.equipmentKinds ?? []) }) };
 }

@@ -36,6 +36,17 @@ export function atmosphericPressurePsia(altitudeFt = 0, field = 'altitudeFt'): n
   return psy.GetStandardAtmPressure(z);
 }
 
+/** Sea-level standard atmosphere, psia (ASHRAE Fundamentals ch. 1). */
+const SEA_LEVEL_PSIA = 14.696;
+
+/**
+ * Air density at the elevation over sea-level density at the same temperature: the pressure
+ * ratio of the ASHRAE standard atmosphere (density is proportional to pressure, ideal gas).
+ */
+export function airDensityRatio(altitudeFt = 0): number {
+  return atmosphericPressurePsia(altitudeFt) / SEA_LEVEL_PSIA;
+}
+
 /** Thermodynamic wet bulb from dry bulb and relative humidity. */
 export function wetBulbF(i: { dryBulbF: number; relativeHumidityPct: number; altitudeFt?: number }): number {
   const t = dryBulb('dryBulbF', i.dryBulbF);

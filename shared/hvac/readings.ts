@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { COMPRESSOR_TYPES } from '../equipment';
+import { AIRFLOW_BASES } from './airflow';
 import { REFRIGERANTS, PERFECT_VACUUM_PSIG } from './refrigerants';
 
 const num = (label: string) => z.number({ error: `${label} must be a finite number` });
@@ -72,7 +74,30 @@ const shape = {
 
   controlVoltageVac: nonNegative('Control voltage').optional(),
   airflowCfm: nonNegative('Airflow').optional(),
+  /** Whether airflowCfm is standard CFM (blower tables) or actual CFM at the home's elevation (flow hood); standard when left out. */
+  airflowBasis: z.enum(AIRFLOW_BASES, { error: `Airflow basis must be one of ${AIRFLOW_BASES.join(', ')}` }).optional(),
   nominalTons: positive('Nominal tons').max(60, 'Nominal tons must be at most 60').optional(),
+
+  /** Total external static pressure across the blower cabinet, in. w.c. */
+  totalExternalStaticInWc: nonNegative('Total external static pressure').max(5, 'Total external static pressure must be at most 5 in. w.c.').optional(),
+  /** Nameplate or blower-table maximum external static pressure, in. w.c. */
+  maxExternalStaticInWc: positive('Maximum external static pressure').max(2, 'Maximum external static pressure must be at most 2 in. w.c.').optional(),
+
+  /** Carbon monoxide in the flue products, corrected to air-free, ppm. */
+  flueCoAirFreePpm: nonNegative('Flue CO air-free').max(20000, 'Flue CO air-free must be at most 20000 ppm').optional(),
+  /** Carbon monoxide in the living space, ppm. */
+  ambientCoPpm: nonNegative('Living-space CO').max(2000, 'Living-space CO must be at most 2000 ppm').optional(),
+
+  /** From the equipment record: how the compressor's capacity is controlled. */
+  compressorType: z.enum(COMPRESSOR_TYPES, { error: `Compressor type must be one of ${COMPRESSOR_TYPES.join(', ')}` }).optional(),
+  /** From the equipment record: a variable-speed unit's maximum compressor frequency, Hz. */
+  maxCompressorHz: positive('Maximum compressor frequency').max(300, 'Maximum compressor frequency must be at most 300 Hz').optional(),
+  /** Compressor frequency while the readings were taken, Hz. */
+  compressorHz: nonNegative('Compressor frequency').max(300, 'Compressor frequency must be at most 300 Hz').optional(),
+  /** Percent of full capacity while the readings were taken, as the unit's display or the maker's tool shows it. */
+  capacityPct: nonNegative('Percent of capacity').max(100, 'Percent of capacity must be at most 100 %').optional(),
+  /** The unit was forced to full capacity (its "test" or "charge" mode) for these readings. */
+  fullCapacityTest: z.boolean({ error: 'Full-capacity test must be true or false' }).optional(),
 
   /** Furnace rise; computed from supply minus return in heating when left out. */
   temperatureRiseF: nonNegative('Temperature rise').max(200, 'Temperature rise must be at most 200 °F').optional(),
@@ -114,6 +139,14 @@ export const visitReadingsSchema = z.strictObject(shape).superRefine((v, ctx) =>
   needs(ctx, r, 'liquidLineTempF', 'liquidPressurePsig', 'Liquid pressure');
   if ((v.suctionPressurePsig !== undefined || v.liquidPressurePsig !== undefined) && v.refrigerant === undefined) {
     ctx.addIssue({ code: 'custom', path: ['refrigerant'], message: 'Refrigerant is needed to read line pressures' });
+  }
+  if (v.compressorHz !== undefined && v.maxCompressorHz !== undefined && v.compressorHz > v.maxCompressorHz) {
+    ctx.addIssue({ code: 'custom', path: ['compressorHz'], message: `Compressor frequency cannot be above the model's maximum of ${v.maxCompressorHz} Hz` });
+  }
+  if (v.compressorType !== undefined && v.compressorType !== 'variable_speed') {
+    for (const key of ['maxCompressorHz', 'compressorHz'] as const) {
+      if (v[key] !== undefined) ctx.addIssue({ code: 'custom', path: [key], message: 'Compressor frequency is for a variable-speed compressor' });
+    }
   }
   for (const pos of ['compressor', 'outdoorFan', 'blower'] as const) {
     const c = v.capacitors?.[pos];

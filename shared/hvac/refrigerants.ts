@@ -1,14 +1,40 @@
 import { SATURATION_TABLE, type SaturationRows } from './data/saturation-table';
 import { ReadingInputError, requireFinite } from './errors';
+import { atmosphericPressurePsia } from './psychrometrics';
 
-export const REFRIGERANTS = ['R-410A', 'R-22', 'R-32', 'R-454B'] as const;
+export const REFRIGERANTS = ['R-410A', 'R-22', 'R-32', 'R-454B', 'R-407C'] as const;
 export type Refrigerant = (typeof REFRIGERANTS)[number];
+
+/**
+ * Mildly flammable refrigerants, safety class A2L in ASHRAE Standard 34: equipment, recovery
+ * machines and leak detectors must be rated for them (UL 60335-2-40).
+ */
+export const A2L_REFRIGERANTS: readonly Refrigerant[] = ['R-32', 'R-454B'];
+
+/**
+ * Blends whose bubble and dew points differ by several degrees (zeotropic glide): superheat is
+ * read from the dew point and subcooling from the bubble point (R-407C's glide is about 10 °F,
+ * see data/README.md).
+ */
+export const HIGH_GLIDE_REFRIGERANTS: readonly Refrigerant[] = ['R-407C'];
 
 /** Bubble point = saturated liquid (subcooling); dew point = saturated vapour (superheat). */
 export type SaturationPoint = 'bubble' | 'dew';
 
 /** Gauge pressure of a perfect vacuum against a 14.696 psia atmosphere. */
 export const PERFECT_VACUUM_PSIG = -14.696;
+/** Standard sea-level atmosphere, psia; the saturation table's gauge pressures are taken against it. */
+export const SEA_LEVEL_PSIA = 14.696;
+
+/**
+ * A gauge reading taken at an altitude, restated against the sea-level atmosphere the table uses:
+ * absolute = gauge + local atmosphere (ASHRAE standard atmosphere at the elevation).
+ */
+export function tableGaugePsig(gaugePsig: number, altitudeFt?: number, field = 'pressurePsig'): number {
+  const p = requireFinite(field, gaugePsig);
+  if (altitudeFt === undefined) return p;
+  return p + atmosphericPressurePsia(altitudeFt) - SEA_LEVEL_PSIA;
+}
 
 function rowsFor(refrigerant: unknown, field = 'refrigerant'): SaturationRows {
   const rows =
@@ -94,14 +120,19 @@ export function saturationTemperatureF(refrigerant: Refrigerant, pressurePsig: n
   return saturationTemperatureAt(refrigerant, pressurePsig, point);
 }
 
-/** Suction line temperature above the dew-point temperature at suction pressure. */
-export function superheatF(i: { refrigerant: Refrigerant; suctionPressurePsig: number; suctionLineTempF: number }): number {
+/**
+ * Suction line temperature above the dew-point temperature at suction pressure. With the
+ * elevation given, the gauge reading is first restated against the sea-level atmosphere.
+ */
+export function superheatF(i: { refrigerant: Refrigerant; suctionPressurePsig: number; suctionLineTempF: number; altitudeFt?: number }): number {
   const line = requireFinite('suctionLineTempF', i.suctionLineTempF);
-  return line - saturationTemperatureAt(i.refrigerant, i.suctionPressurePsig, 'dew', 'suctionPressurePsig');
+  const p = tableGaugePsig(i.suctionPressurePsig, i.altitudeFt, 'suctionPressurePsig');
+  return line - saturationTemperatureAt(i.refrigerant, p, 'dew', 'suctionPressurePsig');
 }
 
-/** Bubble-point temperature at liquid pressure above the liquid line temperature. */
-export function subcoolingF(i: { refrigerant: Refrigerant; liquidPressurePsig: number; liquidLineTempF: number }): number {
+/** Bubble-point temperature at liquid pressure above the liquid line temperature (elevation as for superheat). */
+export function subcoolingF(i: { refrigerant: Refrigerant; liquidPressurePsig: number; liquidLineTempF: number; altitudeFt?: number }): number {
   const line = requireFinite('liquidLineTempF', i.liquidLineTempF);
-  return saturationTemperatureAt(i.refrigerant, i.liquidPressurePsig, 'bubble', 'liquidPressurePsig') - line;
+  const p = tableGaugePsig(i.liquidPressurePsig, i.altitudeFt, 'liquidPressurePsig');
+  return saturationTemperatureAt(i.refrigerant, p, 'bubble', 'liquidPressurePsig') - line;
 }

@@ -46,6 +46,12 @@ function describe(c: ReadingCheck): { topic: string; reading: string } {
       };
     case 'airflow_per_ton':
       return { topic: 'Airflow check', reading: 'the amount of air moving through your system is' };
+    case 'external_static_pressure':
+      return { topic: 'Airflow check', reading: 'the resistance your ducts and filter put in the way of the air is' };
+    case 'co_flue_air_free':
+      return { topic: 'Combustion safety check', reading: 'the carbon monoxide in your furnace\'s exhaust is' };
+    case 'co_ambient':
+      return { topic: 'Carbon monoxide check', reading: 'the carbon monoxide in your living space is' };
     default:
       return { topic: 'System check', reading: 'this reading is' };
   }

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
+import { COMPRESSOR_TYPES, EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
 import { isIsoDate } from './dates';
 
 // The API contract for equipment at a property. Capacity is stored in Btu/h; tons are accepted.
@@ -40,9 +40,16 @@ const optionalInt = (label: string, min: number, max: number) =>
       .nullable(),
   );
 
-/** "16 x 25 x 1" and "16X25X1" become "16x25x1"; fractional depths like 4.5 are allowed. */
+/** "16 x 25 x 1", "16X25X1" and "16x25x1 in" become "16x25x1"; fractional depths like 4.5 are allowed. */
 export const filterSizeSchema = z.preprocess(
-  (v) => (typeof v === 'string' ? v.trim().replace(/\s*[xX×]\s*/g, 'x').replace(/"/g, '') : v),
+  (v) =>
+    typeof v === 'string'
+      ? v
+          .trim()
+          .replace(/\s*(in(ch(es)?)?\.?)$/i, '')
+          .replace(/\s*[xX×]\s*/g, 'x')
+          .replace(/"/g, '')
+      : v,
   z.union([z.literal(''), z.string().regex(/^\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?x\d{1,2}(\.\d{1,2})?$/, 'Filter size is width x height x depth in inches, like 16x25x1.')]),
 );
 
@@ -52,6 +59,8 @@ function refrigerantWord(v: string): string {
   if (t === '' || t === 'NONE') return 'none';
   return t.replace(/^R-?(\d)/, 'R-$1');
 }
+
+const capacityUnitSchema = z.enum(['tons', 'btuh'], { error: 'Capacity unit is tons or btuh.' });
 
 const equipmentFields = {
   kind: z.enum(EQUIPMENT_KINDS, { error: 'Choose the kind of equipment.' }),
@@ -67,7 +76,7 @@ const equipmentFields = {
     (v) => numberish(blankToNull(v)),
     z.number({ error: 'Capacity is a number.' }).positive('Capacity is more than 0.').nullable(),
   ),
-  capacityUnit: z.enum(['tons', 'btuh'], { error: 'Capacity unit is tons or btuh.' }).default('btuh'),
+  capacityUnit: capacityUnitSchema.default('btuh'),
   volts: optionalInt('Volts', 12, 600),
   phase: z.preprocess((v) => numberish(blankToNull(v)), z.union([z.literal(1), z.literal(3), z.null()], { error: 'Phase is 1 or 3.' })),
   ratedAmps: z.preprocess(
@@ -80,7 +89,29 @@ const equipmentFields = {
   warrantyEndsOn: isoDate('Warranty end'),
   location: text('Location', 120),
   notes: text('Notes', 2000),
+  /** Fixed-speed, two-stage or variable-speed (inverter) compressor; left out means not recorded. */
+  compressorType: z.preprocess(blankToNull, z.enum(COMPRESSOR_TYPES, { error: `Compressor type is one of ${COMPRESSOR_TYPES.join(', ')}.` }).nullable()).optional(),
+  /** A variable-speed unit's maximum compressor frequency, from the nameplate or the maker's data; it differs by model and size. */
+  maxCompressorHz: z
+    .preprocess(
+      (v) => numberish(blankToNull(v)),
+      z.number({ error: 'Maximum compressor frequency is a number.' }).positive('Maximum compressor frequency is more than 0 Hz.').max(300, 'Maximum compressor frequency is at most 300 Hz.').nullable(),
+    )
+    .optional(),
+  /** Maximum total external static pressure from the nameplate or blower table, in. w.c. */
+  maxExternalStaticInWc: z
+    .preprocess(
+      (v) => numberish(blankToNull(v)),
+      z.number({ error: 'Maximum external static pressure is a number.' }).positive('Maximum external static pressure is more than 0.').max(2, 'Maximum external static pressure is at most 2 in. w.c.').nullable(),
+    )
+    .optional(),
 };
+
+function variableSpeedFields(v: { compressorType?: string | null; maxCompressorHz?: number | null }, ctx: z.RefinementCtx): void {
+  if (v.maxCompressorHz != null && v.compressorType != null && v.compressorType !== 'variable_speed') {
+    ctx.addIssue({ code: 'custom', path: ['maxCompressorHz'], message: 'Maximum compressor frequency is for a variable-speed compressor.' });
+  }
+}
 
 type CapacityIn = { capacity?: number | null; capacityUnit?: 'tons' | 'btuh' };
 
@@ -119,14 +150,17 @@ export const equipmentInputSchema = z
   })
   .superRefine((v, ctx) => {
     if (v.installedOn && v.warrantyEndsOn && v.warrantyEndsOn < v.installedOn) ctx.addIssue({ code: 'custom', path: ['warrantyEndsOn'], message: 'Warranty end is after the install date.' });
+    variableSpeedFields(v, ctx);
   })
   .transform(withCapacity);
 export type EquipmentInput = z.infer<typeof equipmentInputSchema>;
 
+// No defaults here: a change to one field must not blank the filter size, and an empty change is refused.
 export const equipmentUpdateSchema = z
-  .object(equipmentFields)
+  .object({ ...equipmentFields, filterSize: filterSizeSchema, capacityUnit: capacityUnitSchema })
   .partial()
-  .refine((v) => Object.keys(v).length > 0, { error: 'Send at least one field to change.' })
+  .refine((v) => Object.values(v).some((x) => x !== undefined), { error: 'Send at least one field to change.' })
+  .superRefine(variableSpeedFields)
   .transform(withCapacity);
 export type EquipmentUpdate = z.infer<typeof equipmentUpdateSchema>;
 
@@ -153,6 +187,9 @@ export const equipmentSchema = z.object({
   warrantyLabel: z.string(),
   location: z.string(),
   notes: z.string(),
+  compressorType: z.enum(COMPRESSOR_TYPES).nullable().optional(),
+  maxCompressorHz: z.number().nullable().optional(),
+  maxExternalStaticInWc: z.number().nullable().optional(),
   ageText: z.string().nullable(),
   ageYears: z.number().nullable(),
   life: z.object({ status: z.enum(['unknown', 'ok', 'nearing', 'past']), label: z.string(), typicalYears: z.number(), source: z.string() }),

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { Coverage } from '../coverage';
+import type { CompressorType } from '../equipment';
 import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hvac';
 import { visitReadingsSchema } from '../hvac/readings';
 import type { VisitKind, VisitReason, VisitStatus } from '../visits';
@@ -106,6 +107,12 @@ export interface FieldEquipment {
   underWarranty: boolean | null;
   filterSize: string;
   location: string;
+  /** How the compressor's capacity is controlled; null when not recorded. */
+  compressorType?: CompressorType | null;
+  /** A variable-speed unit's maximum compressor frequency, Hz. */
+  maxCompressorHz?: number | null;
+  /** Nameplate or blower-table maximum external static pressure, in. w.c. */
+  maxExternalStaticInWc?: number | null;
 }
 
 export interface PastVisit {
@@ -213,6 +220,9 @@ export const CHECK_LABELS: Readonly<Record<string, string | undefined>> = {
   control_voltage: 'Control voltage',
   sensible_capacity: 'Sensible capacity',
   airflow_per_ton: 'Airflow per ton',
+  external_static_pressure: 'Total external static pressure',
+  co_flue_air_free: 'Flue CO (air-free)',
+  co_ambient: 'Living-space CO',
 };
 
 /** The worst status among checks: alert over watch over ok; null when nothing was checked. */

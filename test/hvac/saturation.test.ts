@@ -189,3 +189,28 @@ describe('superheat and subcooling', () => {
     );
   });
 });
+
+describe('R-407C', () => {
+  it.each([
+    [40, 81, 63],
+    [100, 226, 196],
+  ])('at %d °F is within 2 psi of a published chart: bubble %d, dew %d psig', (t, bubble, dew) => {
+    // A refrigerant maker's published R-407C pressure-temperature chart, liquid (bubble) and vapour (dew) columns,
+    // rounded to the psi (from memory).
+    expect(Math.abs(saturationPressurePsig('R-407C', t, 'bubble') - bubble)).toBeLessThanOrEqual(2);
+    expect(Math.abs(saturationPressurePsig('R-407C', t, 'dew') - dew)).toBeLessThanOrEqual(2);
+  });
+
+  it('has a glide of about 10 °F, so superheat and subcooling read different points', () => {
+    // R-407C glide is about 10 °F at evaporator and condenser pressures (ASHRAE 34 lists it as a zeotropic 400-series blend; data/README.md).
+    const p = saturationPressurePsig('R-407C', 40, 'bubble');
+    const glide = saturationTemperatureF('R-407C', p, 'dew') - 40;
+    expect(glide).toBeGreaterThan(8);
+    expect(glide).toBeLessThan(12);
+    // Suction at the 45 °F dew pressure and a 55 °F line is 10 °F superheat; read off the bubble column it would look like ~20 °F.
+    const suction = saturationPressurePsig('R-407C', 45, 'dew');
+    expect(superheatF({ refrigerant: 'R-407C', suctionPressurePsig: suction, suctionLineTempF: 55 })).toBeCloseTo(10, 6);
+    const liquid = saturationPressurePsig('R-407C', 105, 'bubble');
+    expect(subcoolingF({ refrigerant: 'R-407C', liquidPressurePsig: liquid, liquidLineTempF: 95 })).toBeCloseTo(10, 6);
+  });
+});

@@ -5,13 +5,13 @@ const one = (r: Parameters<typeof evaluateReadings>[0]): ReadingCheck => evaluat
 
 describe('homeowner wording', () => {
   it('puts the split in plain words', () => {
-    expect(homeownerWording(one({ returnDryBulbF: 75, supplyDryBulbF: 55 }))).toBe(
+    expect(homeownerWording(one({ returnDryBulbF: 75, supplyDryBulbF: 55, indoorWetBulbF: 61 }))).toBe(
       'Cooling check: the air leaving your system is 20 °F cooler than the air going in, in the normal range.',
     );
   });
 
   it('says when a reading is out of range and what happens next', () => {
-    const text = homeownerWording(one({ returnDryBulbF: 75, supplyDryBulbF: 63 }));
+    const text = homeownerWording(one({ returnDryBulbF: 75, supplyDryBulbF: 63, indoorWetBulbF: 61 }));
     expect(text).toMatch(/^Cooling check: .* 12 °F cooler/);
     expect(text).toMatch(/outside the normal range; your technician will recommend/);
   });
