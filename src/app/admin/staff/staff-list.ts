@@ -12,6 +12,7 @@ import type { StaffMember } from '../../../../shared/schemas/auth';
 import { toApiError } from '../../core/api-errors';
 import { applyServerErrors, messageFor } from '../../core/auth/form-errors';
 import { StaffApi } from './staff-api';
+import { firstValueFrom } from 'rxjs';
 
 const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technician', office: 'Office', owner: 'Owner' };
 
@@ -136,7 +137,7 @@ export class StaffList {
 
   private async reload(): Promise<void> {
     try {
-      this.staff.set(await this.api.list());
+      this.staff.set(await firstValueFrom(this.api.list()));
     } catch (err) {
       this.problem.set(toApiError(err).message);
     }
@@ -147,7 +148,7 @@ export class StaffList {
     if (this.form.invalid) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      const res = await this.api.invite(this.form.getRawValue());
+      const res = await firstValueFrom(this.api.invite(this.form.getRawValue()));
       this.snack.open(`Invitation sent to ${res.email}.`, 'OK', { duration: 4000 });
       this.form.reset();
       await this.reload();
@@ -170,12 +171,12 @@ export class StaffList {
   }
 
   protected setRole(m: StaffMember, role: 'technician' | 'office'): Promise<void> {
-    return this.change(m, () => this.api.update(m.id, { role }), `${m.name} is now ${ROLE_WORDS[role].toLowerCase()}.`);
+    return this.change(m, () => firstValueFrom(this.api.update(m.id, { role })), `${m.name} is now ${ROLE_WORDS[role].toLowerCase()}.`);
   }
   protected setDisabled(m: StaffMember, disabled: boolean): Promise<void> {
-    return this.change(m, () => this.api.update(m.id, { disabled }), disabled ? `${m.name} is turned off and signed out.` : `${m.name} can sign in again.`);
+    return this.change(m, () => firstValueFrom(this.api.update(m.id, { disabled })), disabled ? `${m.name} is turned off and signed out.` : `${m.name} can sign in again.`);
   }
   protected endSessions(m: StaffMember): Promise<void> {
-    return this.change(m, () => this.api.signOutEverywhere(m.id), `${m.name} is signed out everywhere.`);
+    return this.change(m, () => firstValueFrom(this.api.signOutEverywhere(m.id)), `${m.name} is signed out everywhere.`);
   }
 }

@@ -5,6 +5,7 @@ import { Router } from '@angular/router';
 import { toApiError } from '../api-errors';
 import { AuthApi } from '../auth/auth-api';
 import { Session } from '../session';
+import { firstValueFrom } from 'rxjs';
 
 const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: 'Office', owner: 'Owner' } as const;
 
@@ -53,7 +54,7 @@ export class Profile {
   protected async everywhere(): Promise<void> {
     this.busy.set(true);
     try {
-      await this.api.signOutEverywhere();
+      await firstValueFrom(this.api.signOutEverywhere());
       await this.router.navigateByUrl('/');
     } catch (err) {
       this.problem.set(toApiError(err).message);

@@ -9,6 +9,7 @@ import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { VisitStatusMark } from '../../portal/booking/visit-status';
 import { ScheduleApi } from './schedule-api';
+import { firstValueFrom } from 'rxjs';
 
 /** The technician's week, day by day, and the private calendar link for their phone. */
 @Component({
@@ -43,7 +44,7 @@ export class WeekSchedule {
 
   private async load(): Promise<void> {
     try {
-      this.week.set(await this.api.week(this.start()));
+      this.week.set(await firstValueFrom(this.api.week(this.start())));
     } catch (err) {
       this.error.set(toApiError(err).message);
     }
@@ -64,7 +65,7 @@ export class WeekSchedule {
 
   protected async newFeed(): Promise<void> {
     try {
-      const { url } = await this.api.issueFeed();
+      const { url } = await firstValueFrom(this.api.issueFeed());
       this.feedUrl.set(url);
       await this.load();
     } catch (err) {
@@ -74,7 +75,7 @@ export class WeekSchedule {
 
   protected async revokeFeed(): Promise<void> {
     try {
-      await this.api.revokeFeed();
+      await firstValueFrom(this.api.revokeFeed());
       this.feedUrl.set(null);
       this.snack.open('Calendar link turned off. Calendars using it stop updating.', 'OK', { duration: 6000 });
       await this.load();
@@ -85,7 +86,7 @@ export class WeekSchedule {
 
   protected async onTheWay(v: VisitView): Promise<void> {
     try {
-      await this.api.setStatus(v.id, 'on_the_way');
+      await firstValueFrom(this.api.setStatus(v.id, 'on_the_way'));
       this.snack.open('Homeowner told you are on the way.', 'OK', { duration: 4000 });
       await this.load();
     } catch (err) {

@@ -5,6 +5,7 @@ import { RouterLink } from '@angular/router';
 import type { TodayVisit } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
 import { FieldApi } from '../field-api';
+import { firstValueFrom } from 'rxjs';
 
 /** The technician's visits today, in time order, one big tap target each. */
 @Component({
@@ -33,7 +34,7 @@ export class TodayVisits {
     this.loading.set(true);
     this.error.set(null);
     try {
-      const res = await this.api.today();
+      const res = await firstValueFrom(this.api.today());
       this.visits.set(res.visits);
       this.date.set(res.date);
     } catch (err) {

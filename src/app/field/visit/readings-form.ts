@@ -25,6 +25,7 @@ import {
   type ReadingField,
   type ReadingGroup,
 } from './reading-fields';
+import { firstValueFrom } from 'rxjs';
 
 type Mode = 'cooling' | 'heating';
 interface Draft {
@@ -194,7 +195,7 @@ export class ReadingsForm {
     this.keepDraft();
     this.state.set({ kind: 'saving' });
     try {
-      const res = await this.api.saveReadings(this.visitId(), { equipmentId: v.equipmentId, readings: this.typed().readings });
+      const res = await firstValueFrom(this.api.saveReadings(this.visitId(), { equipmentId: v.equipmentId, readings: this.typed().readings }));
       this.drafts.clear(this.visitId(), this.draftPart(v.equipmentId));
       this.restored.set(false);
       this.state.set({ kind: 'saved', at: res.recordedAt });

@@ -21,6 +21,7 @@ import { VisitDrafts } from '../visit-drafts';
 import { CautionNote } from './caution-note';
 import { CoverageBanner } from './coverage-banner';
 import { ReadingsForm } from './readings-form';
+import { firstValueFrom } from 'rxjs';
 
 type Answer = 'yes' | 'no' | '';
 type TroubleKey = Exclude<keyof Troubleshooting, 'causeFound' | 'fixMade'>;
@@ -112,7 +113,7 @@ export class VisitPage {
   protected async load(id: string, season?: 'cooling' | 'heating'): Promise<void> {
     this.loadError.set(null);
     try {
-      const p = await this.api.visit(id, season);
+      const p = await firstValueFrom(this.api.visit(id, season));
       this.page.set(p);
       this.season.set(p.season);
       this.checklist.set(this.drafts.read<ChecklistSection[]>(id, `checklist.${p.season}`) ?? p.checklist);
@@ -191,7 +192,7 @@ export class VisitPage {
     if (!p) return;
     const items = this.checklist().flatMap((s) => s.items.filter((i) => i.result !== null).map((i) => ({ equipmentId: s.equipmentId, itemId: i.id, result: i.result!, note: i.note })));
     void this.run(`checklist.${this.season()}`, async () => {
-      const res = await this.api.saveChecklist(p.visit.id, { season: this.season(), items });
+      const res = await firstValueFrom(this.api.saveChecklist(p.visit.id, { season: this.season(), items }));
       this.checklist.set(res.checklist);
     }, 'Checklist saved.');
   }
@@ -205,13 +206,13 @@ export class VisitPage {
       causeFound: v.causeFound,
       fixMade: v.fixMade,
     };
-    void this.run('troubleshooting', () => this.api.saveTroubleshooting(p.visit.id, body), 'Troubleshooting saved.', (fields) => this.serverErrors(this.trouble, fields));
+    void this.run('troubleshooting', () => firstValueFrom(this.api.saveTroubleshooting(p.visit.id, body)), 'Troubleshooting saved.', (fields) => this.serverErrors(this.trouble, fields));
   }
 
   protected saveNotes(): void {
     const p = this.page();
     if (!p) return;
-    void this.run('notes', () => this.api.saveNotes(p.visit.id, this.notes.getRawValue()), 'Findings saved.', (fields) => this.serverErrors(this.notes, fields));
+    void this.run('notes', () => firstValueFrom(this.api.saveNotes(p.visit.id, this.notes.getRawValue())), 'Findings saved.', (fields) => this.serverErrors(this.notes, fields));
   }
 
   protected async complete(): Promise<void> {
@@ -220,7 +221,7 @@ export class VisitPage {
     const ok = await this.run(
       'notes',
       async () => {
-        const res = await this.api.complete(p.visit.id, this.notes.getRawValue());
+        const res = await firstValueFrom(this.api.complete(p.visit.id, this.notes.getRawValue()));
         this.page.set({ ...p, visit: { ...p.visit, status: res.status, statusLabel: 'Done', completedAt: res.completedAt } });
         for (const part of this.drafts.pending(p.visit.id)) this.drafts.clear(p.visit.id, part);
       },
@@ -241,7 +242,7 @@ export class VisitPage {
     const chosen = [...(input.files ?? [])];
     if (!p || !chosen.length) return;
     const ok = await this.run('photos', async () => {
-      const stored = await this.api.uploadPhotos(p.visit.id, chosen, this.photoCategory.value, this.photoCaption.value.trim());
+      const stored = await firstValueFrom(this.api.uploadPhotos(p.visit.id, chosen, this.photoCategory.value, this.photoCaption.value.trim()));
       const current = this.page()!;
       this.page.set({ ...current, photos: [...current.photos, ...stored.filter((s) => s.contentType.startsWith('image/'))] });
     }, `${chosen.length} photo${chosen.length === 1 ? '' : 's'} added.`);
@@ -262,7 +263,7 @@ export class VisitPage {
     const p = this.page();
     const step = this.nextStep();
     if (!p || !step) return;
-    const ok = await this.run('status', () => this.api.setStatus(p.visit.id, step.status), `Status: ${step.done}.`);
+    const ok = await this.run('status', () => firstValueFrom(this.api.setStatus(p.visit.id, step.status)), `Status: ${step.done}.`);
     if (ok) this.page.set({ ...this.page()!, visit: { ...this.page()!.visit, status: step.status, statusLabel: step.done } });
   }
 

@@ -10,6 +10,7 @@ import { Router, RouterLink } from '@angular/router';
 import { customerCreateSchema, toE164, US_STATES } from '../../../../shared/schemas/customers';
 import { applyServerErrors, serverError } from './field-errors';
 import { CustomersApi } from './customers-api';
+import { firstValueFrom } from 'rxjs';
 
 /** New household with its first property. The shared schema checks here and again on the server. */
 @Component({
@@ -71,7 +72,7 @@ export class CustomerForm {
     }
     this.saving.set(true);
     try {
-      const { id } = await this.api.create(value);
+      const { id } = await firstValueFrom(this.api.create(value));
       this.snack.open('Household added.', 'OK', { duration: 3000 });
       await this.router.navigate(['/office/customers', id]);
     } catch (err) {

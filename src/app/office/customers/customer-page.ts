@@ -16,6 +16,7 @@ import { FileUpload } from '../../ui/upload/file-upload';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
 import { applyServerErrors, serverError } from './field-errors';
+import { firstValueFrom } from 'rxjs';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
@@ -71,7 +72,7 @@ export class CustomerPage {
 
   protected async load(id = this.id()): Promise<void> {
     try {
-      this.c.set(await this.api.get(id));
+      this.c.set(await firstValueFrom(this.api.get(id)));
       this.error.set(null);
     } catch (err) {
       this.error.set(toApiError(err).message);
@@ -88,7 +89,7 @@ export class CustomerPage {
   protected async saveEdit(): Promise<void> {
     this.busy.set(true);
     try {
-      this.c.set(await this.api.update(this.id(), this.edit.getRawValue()));
+      this.c.set(await firstValueFrom(this.api.update(this.id(), this.edit.getRawValue())));
       this.editing.set(false);
       this.snack.open('Household saved.', 'OK', { duration: 3000 });
     } catch (err) {
@@ -103,7 +104,7 @@ export class CustomerPage {
     const c = this.c();
     if (!c) return;
     try {
-      await this.api.archive(c.id, !c.archived);
+      await firstValueFrom(this.api.archive(c.id, !c.archived));
       this.snack.open(c.archived ? 'Household restored.' : 'Household archived. Its history is kept.', 'OK', { duration: 4000 });
       await this.load();
     } catch (err) {
@@ -115,7 +116,7 @@ export class CustomerPage {
     const sourceId = this.mergeForm.controls.sourceId.value.trim().split('/').pop() ?? '';
     this.busy.set(true);
     try {
-      await this.api.merge(this.id(), sourceId);
+      await firstValueFrom(this.api.merge(this.id(), sourceId));
       this.merging.set(false);
       this.mergeForm.reset();
       this.snack.open('Records merged into this household.', 'OK', { duration: 4000 });
@@ -130,7 +131,7 @@ export class CustomerPage {
 
   protected async addNote(): Promise<void> {
     try {
-      await this.api.addNote(this.id(), this.note.getRawValue());
+      await firstValueFrom(this.api.addNote(this.id(), this.note.getRawValue()));
       this.note.reset();
       await this.load();
     } catch (err) {
@@ -146,7 +147,7 @@ export class CustomerPage {
   }
 
   protected async archiveEquipment(e: Equipment): Promise<void> {
-    await this.api.archiveEquipment(e.id);
+    await firstValueFrom(this.api.archiveEquipment(e.id));
     this.snack.open(`${e.kindLabel} archived.`, 'OK', { duration: 3000 });
     await this.load();
   }

@@ -8,6 +8,7 @@ import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equip
 import { equipmentInputSchema, REFRIGERANT_CHOICES, type Equipment } from '../../../../shared/schemas/equipment';
 import { applyServerErrors, serverError } from './field-errors';
 import { CustomersApi } from './customers-api';
+import { firstValueFrom } from 'rxjs';
 
 /** Adds a piece of equipment to a property, in the trade's own fields. */
 @Component({
@@ -68,7 +69,7 @@ export class EquipmentForm {
     }
     this.saving.set(true);
     try {
-      const saved = await this.api.addEquipment({ ...value, propertyId: this.propertyId() });
+      const saved = await firstValueFrom(this.api.addEquipment({ ...value, propertyId: this.propertyId() }));
       this.saved.emit(saved);
       this.form.reset();
     } catch (err) {

@@ -17,6 +17,7 @@ import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, 
 import { toApiError } from '../../core/api-errors';
 import { VisitStatusMark } from '../../portal/booking/visit-status';
 import { DispatchApi } from './dispatch-api';
+import { firstValueFrom } from 'rxjs';
 
 const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
 const QUEUE = 'queue';
@@ -107,13 +108,13 @@ export class DispatchBoard {
     const from = this.days() === 7 ? DateTime.fromISO(this.from()).startOf('week').toISODate()! : this.from();
     try {
       this.data.set(
-        await this.api.board({
+        await firstValueFrom(this.api.board({
           from,
           days: this.days(),
           technicianId: this.technicianId() || undefined,
           kind: this.kind() || undefined,
           area: this.area() || undefined,
-        }),
+        })),
       );
     } catch (err) {
       this.error.set(toApiError(err).message);
@@ -175,7 +176,7 @@ export class DispatchBoard {
     if (this.busy()) return;
     this.busy.set(true);
     try {
-      const done = await this.api.assign(v.id, techId, startsAt);
+      const done = await firstValueFrom(this.api.assign(v.id, techId, startsAt));
       this.snack.open(techId ? `Assigned to ${done.technicianName}.` : 'Back in the unassigned queue.', 'OK', { duration: 4000 });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
@@ -187,7 +188,7 @@ export class DispatchBoard {
 
   protected async setStatus(v: VisitView, status: VisitStatus): Promise<void> {
     try {
-      await this.api.setStatus(v.id, status);
+      await firstValueFrom(this.api.setStatus(v.id, status));
       this.snack.open(`Marked ${VISIT_STATUS_LABELS[status].toLowerCase()}.`, 'OK', { duration: 4000 });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
@@ -197,7 +198,7 @@ export class DispatchBoard {
 
   protected async showHistory(v: VisitView): Promise<void> {
     try {
-      this.history.set({ visit: v, events: await this.api.history(v.id) });
+      this.history.set({ visit: v, events: await firstValueFrom(this.api.history(v.id)) });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
     }

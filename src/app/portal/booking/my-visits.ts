@@ -7,6 +7,7 @@ import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { BookingApi } from './booking-api';
 import { VisitStatusMark } from './visit-status';
+import { firstValueFrom } from 'rxjs';
 
 /** The household's upcoming and recent visits, newest first. */
 @Component({
@@ -46,7 +47,7 @@ export class MyVisits {
   protected readonly error = signal<string | null>(null);
 
   constructor() {
-    this.api.visits().then(
+    firstValueFrom(this.api.visits()).then(
       (v) => this.visits.set(v),
       (err) => this.error.set(toApiError(err).message),
     );

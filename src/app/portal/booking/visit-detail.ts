@@ -12,6 +12,7 @@ import { toApiError } from '../../core/api-errors';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
 import { VisitStatusMark } from './visit-status';
+import { firstValueFrom } from 'rxjs';
 
 /** One visit: its window and status, with reschedule and cancel until the cut-off. */
 @Component({
@@ -47,7 +48,7 @@ export class VisitDetail {
 
   private async load(id: string): Promise<void> {
     try {
-      this.visit.set(await this.api.visit(id));
+      this.visit.set(await firstValueFrom(this.api.visit(id)));
     } catch (err) {
       this.error.set(toApiError(err).message);
     }
@@ -58,7 +59,7 @@ export class VisitDetail {
     if (!v) return;
     this.picking.set(true);
     try {
-      const res = await this.api.windows({ propertyId: v.propertyId, reason: v.reason, visitId: v.id, days: 14 });
+      const res = await firstValueFrom(this.api.windows({ propertyId: v.propertyId, reason: v.reason, visitId: v.id, days: 14 }));
       this.windows.set(res.windows);
     } catch (err) {
       this.error.set(toApiError(err).message);
@@ -70,7 +71,7 @@ export class VisitDetail {
     if (!v || this.windowStart.invalid || this.busy()) return;
     this.busy.set(true);
     try {
-      this.visit.set(await this.api.reschedule(v.id, this.windowStart.value));
+      this.visit.set(await firstValueFrom(this.api.reschedule(v.id, this.windowStart.value)));
       this.picking.set(false);
       this.snack.open('Visit moved. We sent you an updated invitation.', 'OK', { duration: 5000 });
     } catch (err) {
@@ -87,7 +88,7 @@ export class VisitDetail {
     if (!v || this.busy()) return;
     this.busy.set(true);
     try {
-      this.visit.set(await this.api.cancel(v.id));
+      this.visit.set(await firstValueFrom(this.api.cancel(v.id)));
       this.snack.open('Visit canceled.', 'OK', { duration: 5000 });
     } catch (err) {
       this.error.set(toApiError(err).message);

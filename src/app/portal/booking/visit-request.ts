@@ -22,6 +22,7 @@ import { VISIT_REASON_LABELS, VISIT_REASONS, type VisitReason } from '../../../.
 import { toApiError } from '../../core/api-errors';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
+import { firstValueFrom } from 'rxjs';
 
 const REASON_ICONS: Record<VisitReason, string> = {
   no_cooling: 'snowflake',
@@ -116,7 +117,7 @@ export class VisitRequest {
   private async loadOptions(customerId: string | undefined): Promise<void> {
     this.loadError.set(null);
     try {
-      const o = await this.api.options(customerId);
+      const o = await firstValueFrom(this.api.options(customerId));
       this.options.set(o);
       if (o.properties.length === 1) this.propertyForm.controls.propertyId.setValue(o.properties[0]!.id);
     } catch (err) {
@@ -146,7 +147,7 @@ export class VisitRequest {
     this.windowsLoading.set(true);
     this.windowsNote.set(null);
     try {
-      const res = await this.api.windows({ propertyId, reason, from, days: 14 });
+      const res = await firstValueFrom(this.api.windows({ propertyId, reason, from, days: 14 }));
       this.member.set(res.member);
       this.promiseHours.set(res.priorityWindowHours);
       this.windows.set(from ? [...this.windows(), ...res.windows.filter((w) => !this.windows().some((x) => x.start === w.start))] : res.windows);
@@ -170,8 +171,8 @@ export class VisitRequest {
     this.submitError.set(null);
     this.filled.set(null);
     try {
-      const photoIds = this.photos().length ? (await this.api.uploadPhotos(this.propertyId(), this.photos())).map((f) => f.id) : [];
-      const visit = await this.api.book({
+      const photoIds = this.photos().length ? (await firstValueFrom(this.api.uploadPhotos(this.propertyId(), this.photos()))).map((f) => f.id) : [];
+      const visit = await firstValueFrom(this.api.book({
         propertyId: this.propertyId(),
         reason,
         symptoms: this.detailsForm.controls.symptoms.value,
@@ -179,7 +180,7 @@ export class VisitRequest {
         photoIds,
         windowStart: this.windowForm.controls.windowStart.value,
         noEmergency: true,
-      });
+      }));
       this.booked.set(visit);
     } catch (err) {
       const e = toApiError(err);

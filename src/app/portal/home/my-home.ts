@@ -13,6 +13,7 @@ import { ApiError, toApiError } from '../../core/api-errors';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { MyHomeApi } from './my-home-api';
+import { firstValueFrom } from 'rxjs';
 
 const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
 const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
@@ -60,7 +61,7 @@ export class MyHome {
 
   protected async load(): Promise<void> {
     try {
-      this.home.set(await this.api.load());
+      this.home.set(await firstValueFrom(this.api.load()));
     } catch (err) {
       this.error.set(toApiError(err).message);
     }
@@ -77,7 +78,7 @@ export class MyHome {
   protected async saveContact(): Promise<void> {
     this.saving.set(true);
     try {
-      const household = await this.api.updateContact(this.contact.getRawValue());
+      const household = await firstValueFrom(this.api.updateContact(this.contact.getRawValue()));
       this.home.update((h) => (h ? { ...h, household } : h));
       this.editingContact.set(false);
       this.snack.open('Contact details saved.', 'OK', { duration: 3000 });
@@ -97,9 +98,9 @@ export class MyHome {
   protected async saveDoor(p: Property): Promise<void> {
     this.saving.set(true);
     try {
-      await this.api.updateAccess(p.id, this.door.getRawValue());
+      await firstValueFrom(this.api.updateAccess(p.id, this.door.getRawValue()));
       const text = this.note.value.trim();
-      if (text) await this.api.addNote(p.id, text);
+      if (text) await firstValueFrom(this.api.addNote(p.id, text));
       this.note.reset();
       this.editingDoor.set(null);
       this.snack.open('Saved. Your technician will see this before the visit.', 'OK', { duration: 4000 });

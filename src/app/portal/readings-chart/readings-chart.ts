@@ -7,6 +7,7 @@ import { toApiError } from '../../core/api-errors';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
 import { StatusMark } from './status-mark';
+import { firstValueFrom } from 'rxjs';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
 const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
@@ -42,7 +43,7 @@ export class ReadingsChart {
   private async load(id: string): Promise<void> {
     this.error.set(null);
     try {
-      this.data.set(await this.api.property(id));
+      this.data.set(await firstValueFrom(this.api.property(id)));
     } catch (err) {
       this.error.set(toApiError(err).message);
     }

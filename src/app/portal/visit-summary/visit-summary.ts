@@ -6,6 +6,7 @@ import { toApiError } from '../../core/api-errors';
 import { ReadingsApi } from '../readings-chart/readings-api';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { StatusMark } from '../readings-chart/status-mark';
+import { firstValueFrom } from 'rxjs';
 
 /** A completed visit in plain words, with the home's readings over time. */
 @Component({
@@ -32,7 +33,7 @@ export class VisitSummary {
   private async load(id: string): Promise<void> {
     this.error.set(null);
     try {
-      this.summary.set(await this.api.visitSummary(id));
+      this.summary.set(await firstValueFrom(this.api.visitSummary(id)));
     } catch (err) {
       const e = toApiError(err);
       this.error.set(e.status === 404 ? 'We could not find a finished visit with that link.' : e.message);
