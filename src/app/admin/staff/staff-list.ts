@@ -10,7 +10,7 @@ import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import type { StaffMember } from '../../../../shared/schemas/auth';
 import { toApiError } from '../../core/api-errors';
-import { applyServerErrors, messageFor } from '../../core/auth/form-errors';
+import { applyServerErrors, messageFor } from '../../core/form-errors';
 import { StaffApi } from './staff-api';
 import { firstValueFrom } from 'rxjs';
 

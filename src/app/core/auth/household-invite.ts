@@ -5,7 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
 import { firstValueFrom } from 'rxjs';
 
 /** The office opens a household's portal: by customer number, or by the e-mail on file. */

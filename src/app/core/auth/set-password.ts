@@ -6,7 +6,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
 import { homeFor } from './return-url';
 import { firstValueFrom } from 'rxjs';
 

@@ -8,7 +8,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { customerCreateSchema, toE164, US_STATES } from '../../../../shared/schemas/customers';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CustomersApi } from './customers-api';
 import { firstValueFrom } from 'rxjs';
 
@@ -63,11 +63,7 @@ export class CustomerForm {
     // Same schema as the server: errors show at once, under their fields.
     const check = customerCreateSchema.safeParse(value);
     if (!check.success) {
-      for (const issue of check.error.issues) {
-        const c = this.form.get(issue.path.join('.'));
-        c?.setErrors({ server: issue.message });
-        c?.markAsTouched();
-      }
+      applyFieldErrors(this.form, Object.fromEntries(check.error.issues.map((issue) => [issue.path.join('.'), issue.message])));
       return;
     }
     this.saving.set(true);

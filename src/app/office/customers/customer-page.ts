@@ -15,7 +15,7 @@ import { toApiError } from '../../core/api-errors';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyServerErrors, serverError } from '../../core/form-errors';
 import { firstValueFrom } from 'rxjs';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {

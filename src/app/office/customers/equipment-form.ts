@@ -6,7 +6,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
 import { equipmentInputSchema, REFRIGERANT_CHOICES, type Equipment } from '../../../../shared/schemas/equipment';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CustomersApi } from './customers-api';
 import { firstValueFrom } from 'rxjs';
 
@@ -60,11 +60,7 @@ export class EquipmentForm {
     const value = this.form.getRawValue();
     const check = equipmentInputSchema.safeParse(value);
     if (!check.success) {
-      for (const issue of check.error.issues) {
-        const c = this.form.get(String(issue.path[0] ?? ''));
-        c?.setErrors({ server: issue.message });
-        c?.markAsTouched();
-      }
+      applyFieldErrors(this.form, Object.fromEntries(check.error.issues.map((issue) => [String(issue.path[0] ?? ''), issue.message])));
       return;
     }
     this.saving.set(true);
