@@ -10,7 +10,7 @@ import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { formatUsd } from '../../../../shared/money';
 import type { PlanTerms, PlanView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
-import { dollarsToCents } from '../../office/invoices/office-invoice';
+import { dollarsToCents } from '../../../../shared/money';
 import { planFeatures } from '../../portal/plan/plan-features';
 import { PlanAdminApi } from './plan-admin-api';
 

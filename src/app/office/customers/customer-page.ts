@@ -1,5 +1,6 @@
 import { CurrencyPipe, DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -12,6 +13,7 @@ import { RouterLink } from '@angular/router';
 import type { CustomerDetail, TimelineKind } from '../../../../shared/schemas/customers';
 import type { Equipment } from '../../../../shared/schemas/equipment';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
@@ -38,8 +40,9 @@ export class CustomerPage {
   private readonly snack = inject(MatSnackBar);
   readonly id = input.required<string>();
 
-  protected readonly c = signal<CustomerDetail | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly customer = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
+  protected readonly c = localCopy<CustomerDetail>(this.customer);
+  protected readonly error = errorMessage(this.customer);
   protected readonly editing = signal(false);
   protected readonly addingEquipmentTo = signal<string | null>(null);
   protected readonly merging = signal(false);
@@ -63,20 +66,9 @@ export class CustomerPage {
   });
   protected readonly mergeForm = new FormGroup({ sourceId: new FormControl('', { nonNullable: true }) });
 
-  constructor() {
-    effect(() => {
-      const id = this.id();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  protected async load(id = this.id()): Promise<void> {
-    try {
-      this.c.set(await firstValueFrom(this.api.get(id)));
-      this.error.set(null);
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  /** Reads the household again after a change that touches several of its parts. */
+  protected load(): void {
+    this.customer.reload();
   }
 
   protected startEdit(): void {
@@ -106,7 +98,7 @@ export class CustomerPage {
     try {
       await firstValueFrom(this.api.archive(c.id, !c.archived));
       this.snack.open(c.archived ? 'Household restored.' : 'Household archived. Its history is kept.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 5000 });
     }
@@ -120,7 +112,7 @@ export class CustomerPage {
       this.merging.set(false);
       this.mergeForm.reset();
       this.snack.open('Records merged into this household.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       const rest = applyServerErrors(this.mergeForm, err);
       if (rest) this.snack.open(rest, 'OK', { duration: 5000 });
@@ -133,7 +125,7 @@ export class CustomerPage {
     try {
       await firstValueFrom(this.api.addNote(this.id(), this.note.getRawValue()));
       this.note.reset();
-      await this.load();
+      this.load();
     } catch (err) {
       const rest = applyServerErrors(this.note, err);
       if (rest) this.snack.open(rest, 'OK', { duration: 5000 });
@@ -143,12 +135,12 @@ export class CustomerPage {
   protected async equipmentSaved(): Promise<void> {
     this.addingEquipmentTo.set(null);
     this.snack.open('Equipment saved.', 'OK', { duration: 3000 });
-    await this.load();
+    this.load();
   }
 
   protected async archiveEquipment(e: Equipment): Promise<void> {
     await firstValueFrom(this.api.archiveEquipment(e.id));
     this.snack.open(`${e.kindLabel} archived.`, 'OK', { duration: 3000 });
-    await this.load();
+    this.load();
   }
 }
