@@ -1,13 +1,13 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import type { ChartConfiguration, PointStyle } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } from '../../../../shared/schemas/field';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
 import { StatusMark } from './status-mark';
-import { firstValueFrom } from 'rxjs';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
 const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
@@ -27,27 +27,12 @@ export class ReadingsChart {
   private readonly api = inject(ReadingsApi);
   readonly propertyId = input.required<string>();
 
-  protected readonly data = signal<PropertyReadings | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly read = rxResource({ params: () => this.propertyId(), stream: ({ params }) => this.api.property(params) });
+  protected readonly data = localCopy<PropertyReadings>(this.read);
+  protected readonly error = errorMessage(this.read);
   /** Chosen check per system. */
   protected readonly chosen = signal<Record<string, string>>({});
   protected readonly day = day;
-
-  constructor() {
-    effect(() => {
-      const id = this.propertyId();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  private async load(id: string): Promise<void> {
-    this.error.set(null);
-    try {
-      this.data.set(await firstValueFrom(this.api.property(id)));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
-  }
 
   protected readonly systems = computed(() => (this.data()?.systems ?? []).filter((s) => s.series.length > 0));
 
