@@ -12,8 +12,12 @@ export function errorMessage(r: Resource<unknown>, say: (e: ApiError) => string 
 /**
  * The read's answer as a signal the page may change after a write (a saved record, a new status);
  * each fresh answer from the server replaces it. Null while nothing has loaded or the read failed,
- * where `value()` itself would throw.
+ * where `value()` itself would throw. With `keep`, the last answer stays on screen while the read
+ * loads for new parameters (another week, another season), so the page does not jump.
  */
-export function localCopy<T>(r: Resource<T | undefined>): WritableSignal<T | null> {
-  return linkedSignal(() => (r.hasValue() ? (r.value() as T) : null));
+export function localCopy<T>(r: Resource<T | undefined>, keep = false): WritableSignal<T | null> {
+  return linkedSignal<T | undefined, T | null>({
+    source: () => (r.hasValue() ? (r.value() as T) : undefined),
+    computation: (v, prev) => v ?? (keep && !r.error() ? (prev?.value ?? null) : null),
+  });
 }

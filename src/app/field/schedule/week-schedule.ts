@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -7,6 +8,7 @@ import { DateTime } from 'luxon';
 import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { VisitStatusMark } from '../../portal/booking/visit-status';
 import { ScheduleApi } from './schedule-api';
 import { firstValueFrom } from 'rxjs';
@@ -23,10 +25,11 @@ export class WeekSchedule {
   private readonly api = inject(ScheduleApi);
   private readonly snack = inject(MatSnackBar);
   protected readonly reasons = VISIT_REASON_LABELS;
-  protected readonly week = signal<WeekResponse | null>(null);
-  protected readonly error = signal<string | null>(null);
-  protected readonly feedUrl = signal<string | null>(null);
   private readonly start = signal<string | undefined>(undefined);
+  private readonly read = rxResource({ params: () => ({ start: this.start() }), stream: ({ params }) => this.api.week(params.start) });
+  protected readonly week = localCopy<WeekResponse>(this.read, true);
+  protected readonly error = errorMessage(this.read);
+  protected readonly feedUrl = signal<string | null>(null);
 
   protected readonly days = computed(() => {
     const w = this.week();
@@ -38,23 +41,14 @@ export class WeekSchedule {
     });
   });
 
-  constructor() {
-    void this.load();
-  }
-
-  private async load(): Promise<void> {
-    try {
-      this.week.set(await firstValueFrom(this.api.week(this.start())));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  private load(): void {
+    this.read.reload();
   }
 
   protected shift(weeks: number): void {
     const w = this.week();
     if (!w) return;
     this.start.set(DateTime.fromISO(w.start).plus({ weeks }).toISODate()!);
-    void this.load();
   }
 
   protected time(v: VisitView): string {
@@ -67,7 +61,7 @@ export class WeekSchedule {
     try {
       const { url } = await firstValueFrom(this.api.issueFeed());
       this.feedUrl.set(url);
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }
@@ -78,7 +72,7 @@ export class WeekSchedule {
       await firstValueFrom(this.api.revokeFeed());
       this.feedUrl.set(null);
       this.snack.open('Calendar link turned off. Calendars using it stop updating.', 'OK', { duration: 6000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }
@@ -88,7 +82,7 @@ export class WeekSchedule {
     try {
       await firstValueFrom(this.api.setStatus(v.id, 'on_the_way'));
       this.snack.open('Homeowner told you are on the way.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }

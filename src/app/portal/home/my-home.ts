@@ -1,5 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -9,7 +10,8 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { MyHome as MyHomeData, Property } from '../../../../shared/schemas/customers';
 import type { Equipment } from '../../../../shared/schemas/equipment';
-import { ApiError, toApiError } from '../../core/api-errors';
+import { applyServerErrors, serverError } from '../../core/form-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { MyHomeApi } from './my-home-api';
@@ -29,8 +31,10 @@ const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', 
 export class MyHome {
   private readonly api = inject(MyHomeApi);
   private readonly snack = inject(MatSnackBar);
-  protected readonly home = signal<MyHomeData | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly read = rxResource({ stream: () => this.api.load() });
+  protected readonly home = localCopy<MyHomeData>(this.read);
+  protected readonly error = errorMessage(this.read);
+  protected readonly serverError = serverError;
   protected readonly editingContact = signal(false);
   protected readonly editingDoor = signal<string | null>(null);
   protected readonly saving = signal(false);
@@ -50,28 +54,22 @@ export class MyHome {
     accessNotes: new FormControl('', { nonNullable: true }),
     gateCode: new FormControl('', { nonNullable: true }),
     pets: new FormControl('', { nonNullable: true }),
+    /** Sent as a note of its own, not as part of the access details. */
+    note: new FormControl('', { nonNullable: true }),
   });
-  protected readonly note = new FormControl('', { nonNullable: true });
-  protected readonly contactErrors = signal<Record<string, string>>({});
-  protected readonly doorErrors = signal<Record<string, string>>({});
+  /** What belongs to no field of the form being saved. */
+  protected readonly contactError = signal<string | null>(null);
+  protected readonly doorError = signal<string | null>(null);
 
-  constructor() {
-    void this.load();
-  }
-
-  protected async load(): Promise<void> {
-    try {
-      this.home.set(await firstValueFrom(this.api.load()));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  protected load(): void {
+    this.read.reload();
   }
 
   protected startContact(): void {
     const h = this.home()?.household;
     if (!h) return;
     this.contact.setValue({ name: h.name, email: h.email ?? '', phone: h.phone ?? '' });
-    this.contactErrors.set({});
+    this.contactError.set(null);
     this.editingContact.set(true);
   }
 
@@ -83,30 +81,30 @@ export class MyHome {
       this.editingContact.set(false);
       this.snack.open('Contact details saved.', 'OK', { duration: 3000 });
     } catch (err) {
-      this.contactErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+      this.contactError.set(applyServerErrors(this.contact, err));
     } finally {
       this.saving.set(false);
     }
   }
 
   protected startDoor(p: Property): void {
-    this.door.setValue({ accessNotes: p.accessNotes, gateCode: p.gateCode, pets: p.pets });
-    this.doorErrors.set({});
+    this.door.setValue({ accessNotes: p.accessNotes, gateCode: p.gateCode, pets: p.pets, note: '' });
+    this.doorError.set(null);
     this.editingDoor.set(p.id);
   }
 
   protected async saveDoor(p: Property): Promise<void> {
     this.saving.set(true);
     try {
-      await firstValueFrom(this.api.updateAccess(p.id, this.door.getRawValue()));
-      const text = this.note.value.trim();
+      const { note, ...access } = this.door.getRawValue();
+      await firstValueFrom(this.api.updateAccess(p.id, access));
+      const text = note.trim();
       if (text) await firstValueFrom(this.api.addNote(p.id, text));
-      this.note.reset();
       this.editingDoor.set(null);
       this.snack.open('Saved. Your technician will see this before the visit.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
-      this.doorErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+      this.doorError.set(applyServerErrors(this.door, err, { body: 'note' }));
     } finally {
       this.saving.set(false);
     }
