@@ -9,7 +9,7 @@ import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
-import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 import { ScheduleApi } from './schedule-api';
 import { firstValueFrom } from 'rxjs';
 

@@ -14,6 +14,7 @@ import type { CustomerDetail, TimelineKind } from '../../../../shared/schemas/cu
 import type { Equipment } from '../../../../shared/schemas/equipment';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
+import { LIFE_ICON, WARRANTY_ICON } from '../../ui/status/equipment-icons';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
@@ -23,8 +24,6 @@ import { firstValueFrom } from 'rxjs';
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
 };
-export const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
-export const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
 
 /** One household: its people, homes, equipment, agreements, visits, invoices, notes and files. */
 @Component({

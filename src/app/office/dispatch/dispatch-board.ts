@@ -17,7 +17,7 @@ import { STATUS_TRANSITIONS, type BoardResponse, type BoardTechnician, type Visi
 import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
-import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
 import { firstValueFrom } from 'rxjs';
 

@@ -13,7 +13,7 @@ import type { InvoiceView } from '../../../../shared/schemas/billing';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
-import { InvoiceStatusBadge } from '../../portal/invoices/invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
 
 /** One invoice for the office: record a check or cash payment, refund all or part, void. */

@@ -16,7 +16,7 @@ import { RENEWAL_VIEWS, RENEWAL_VIEW_LABELS, type RenewalBoard, type RenewalRow,
 import { toApiError } from '../../core/api-errors';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { localCopy } from '../../core/resource-state';
-import { AgreementStatusBadge } from '../../portal/plan/agreement-status';
+import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { RenewalsApi } from './renewals-api';
 
 /** Renewals: who is due in 30/60/90 days, past due, lapsed or just renewed, with totals, CSV and notices. */

@@ -6,7 +6,7 @@ import { RouterLink } from '@angular/router';
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { errorMessage } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
-import { VisitStatusMark } from './visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 
 /** The household's upcoming and recent visits, newest first. */
 @Component({

@@ -13,7 +13,7 @@ import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
-import { VisitStatusMark } from './visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 import { firstValueFrom } from 'rxjs';
 
 /** One visit: its window and status, with reschedule and cancel until the cut-off. */

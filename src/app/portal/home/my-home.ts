@@ -9,16 +9,14 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { MyHome as MyHomeData, Property } from '../../../../shared/schemas/customers';
-import type { Equipment } from '../../../../shared/schemas/equipment';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
+import { LIFE_ICON, WARRANTY_ICON } from '../../ui/status/equipment-icons';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { MyHomeApi } from './my-home-api';
 import { firstValueFrom } from 'rxjs';
 
-const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
-const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
 
 /** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
 @Component({

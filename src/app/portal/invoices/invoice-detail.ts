@@ -10,7 +10,7 @@ import type { InvoiceView } from '../../../../shared/schemas/billing';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
-import { InvoiceStatusBadge } from './invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 
 /** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
 @Component({

@@ -7,7 +7,7 @@ import { RouterLink } from '@angular/router';
 import { formatUsd } from '../../../../shared/money';
 import { errorMessage } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
-import { InvoiceStatusBadge } from './invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 
 const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_change: 'Plan change', service: 'Service' } as const;
 

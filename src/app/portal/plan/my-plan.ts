@@ -16,7 +16,7 @@ import { formatUsd } from '../../../../shared/money';
 import type { AgreementView, PlanView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
 import { applyServerErrors, serverError } from '../../core/form-errors';
-import { AgreementStatusBadge } from './agreement-status';
+import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { planFeatures } from './plan-features';
 import { PlansApi, type HomeChoice } from './plans-api';
 

@@ -7,7 +7,7 @@ import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } f
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
-import { StatusMark } from './status-mark';
+import { ReadingStatusMark } from '../../ui/status/reading-status';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
 const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
@@ -18,7 +18,7 @@ const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 
 /** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
 @Component({
   selector: 'sw-readings-chart',
-  imports: [BaseChartDirective, MatButtonToggleModule, StatusMark],
+  imports: [BaseChartDirective, MatButtonToggleModule, ReadingStatusMark],
   templateUrl: './readings-chart.html',
   styleUrl: './readings-chart.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

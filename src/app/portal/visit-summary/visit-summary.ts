@@ -6,12 +6,12 @@ import type { VisitSummary as Summary } from '../../../../shared/schemas/field';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { ReadingsApi } from '../readings-chart/readings-api';
 import { ReadingsChart } from '../readings-chart/readings-chart';
-import { StatusMark } from '../readings-chart/status-mark';
+import { ReadingStatusMark } from '../../ui/status/reading-status';
 
 /** A completed visit in plain words, with the home's readings over time. */
 @Component({
   selector: 'sw-visit-summary',
-  imports: [MatIconModule, RouterLink, ReadingsChart, StatusMark],
+  imports: [MatIconModule, RouterLink, ReadingsChart, ReadingStatusMark],
   templateUrl: './visit-summary.html',
   styleUrl: './visit-summary.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
