@@ -110,7 +110,7 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
   styles: `
     .invite { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: flex-start; margin-bottom: 16px; }
     .status { display: inline-flex; gap: 4px; align-items: center; }
-    .problem { color: #6e1510; display: flex; gap: 8px; }
+    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
     table { width: 100%; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,

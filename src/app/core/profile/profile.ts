@@ -39,7 +39,7 @@ const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: '
     dt { font-weight: 700; }
     dd { margin: 0; overflow-wrap: anywhere; }
     h2 { font-size: 1.1rem; }
-    .problem { color: #6e1510; display: flex; gap: 8px; }
+    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -10,7 +10,18 @@ import { ReadingsApi } from './readings-api';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
-const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
+const POINT_TOKEN: Record<ReadingStatus, string> = { ok: '--sw-ok', watch: '--sw-watch', alert: '--sw-alert' };
+
+/** A theme colour by its custom property: the canvas cannot read CSS variables itself. */
+function token(name: string): string {
+  return getComputedStyle(document.documentElement).getPropertyValue(name).trim() || '#808080';
+}
+
+/** "#23744a" at 16 % opacity, for the band behind the line. */
+function translucent(hex: string, alpha: number): string {
+  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(hex);
+  return m ? `rgba(${parseInt(m[1]!, 16)}, ${parseInt(m[2]!, 16)}, ${parseInt(m[3]!, 16)}, ${alpha})` : hex;
+}
 const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth watching', alert: 'out of range' };
 
 const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 'short', day: 'numeric', year: 'numeric' });
@@ -77,12 +88,12 @@ export class ReadingsChart {
             {
               label: `${series.label} (${series.unit})`,
               data: series.points.map((p) => p.value),
-              borderColor: '#1d4e5f',
+              borderColor: token('--sw-teal'),
               borderWidth: 3,
               pointRadius: 7,
               pointHoverRadius: 9,
               pointStyle: series.points.map((p) => POINT_STYLE[p.status]),
-              pointBackgroundColor: series.points.map((p) => POINT_COLOUR[p.status]),
+              pointBackgroundColor: series.points.map((p) => token(POINT_TOKEN[p.status])),
               tension: 0,
             },
           ],
@@ -108,7 +119,7 @@ export class ReadingsChart {
           },
         },
       },
-      plugins: [bandPlugin(() => bands)],
+      plugins: [bandPlugin(() => bands, translucent(token('--sw-ok'), 0.16))],
     };
     this.configs.set(series, c);
     return c;
