@@ -198,3 +198,14 @@ export function invoiceTotals(input: { lines: InvoiceLine[]; discountBps?: numbe
     totalCents,
   };
 }
+
+/**
+ * Dollars as typed ("12.50", "$89", " 0.29 ") to integer cents, read digit by digit so no
+ * floating-point product is ever formed (0.29 × 100 is 28.999… in IEEE 754). Null when the text
+ * is not an amount: negative, more than two decimals, or over $9,999,999.99.
+ */
+export function dollarsToCents(text: string): number | null {
+  const m = /^\s*\$?(\d{1,7})(?:\.(\d{1,2}))?\s*$/.exec(text);
+  if (!m) return null;
+  return Number(m[1]) * 100 + Number((m[2] ?? '0').padEnd(2, '0'));
+}

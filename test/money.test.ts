@@ -3,6 +3,7 @@ import {
   applyDiscountBps,
   discountCents,
   divRoundHalfUp,
+  dollarsToCents,
   formatMoney,
   formatUsd,
   invoiceTotals,
@@ -177,5 +178,28 @@ describe('invoiceTotals', () => {
     expect(() => invoiceTotals({ lines: ten, taxRateBps: 825 })).toThrow(/invoice total/);
     // The hard limit is the integer column (PostgreSQL manual, "Numeric Types"): 2^31 − 1.
     expect(MAX_INVOICE_CENTS).toBeLessThan(2 ** 31 - 1);
+  });
+});
+
+describe('dollarsToCents', () => {
+  it('turns typed dollars into whole cents without floating point', () => {
+    // 0.29 × 100 is 28.999… in binary floating point (IEEE 754); the parser must give 29
+    expect(dollarsToCents('0.29')).toBe(29);
+    expect(dollarsToCents('$1,234.5'.replace(',', ''))).toBe(123450);
+    expect(dollarsToCents('  89 ')).toBe(8900);
+    expect(dollarsToCents('12.345')).toBeNull();
+    expect(dollarsToCents('-5')).toBeNull();
+    expect(dollarsToCents('abc')).toBeNull();
+  });
+
+  it('reads every cent from 0.00 to 9.99 exactly and stops at seven dollar digits', () => {
+    for (let c = 0; c < 1000; c++) {
+      const text = `${Math.floor(c / 100)}.${String(c % 100).padStart(2, '0')}`;
+      expect(dollarsToCents(text)).toBe(c);
+    }
+    expect(dollarsToCents('9999999.99')).toBe(999_999_999);
+    expect(dollarsToCents('10000000')).toBeNull();
+    expect(dollarsToCents('')).toBeNull();
+    expect(dollarsToCents('1.')).toBeNull();
   });
 });

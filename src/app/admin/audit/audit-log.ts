@@ -1,11 +1,11 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { DatePipe } from '@angular/common';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatSelectModule } from '@angular/material/select';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatTableModule } from '@angular/material/table';
-import type { AuditPage } from '../../../../shared/schemas/auth';
+import { AuditApi } from './audit-api';
 
 const ACTION_WORDS: Record<string, string> = {
   sign_in: 'Signed in',
@@ -80,12 +80,13 @@ export class AuditLog {
   protected readonly pageIndex = signal(0);
   protected readonly pageSize = signal(25);
   protected readonly action = signal('');
-  protected readonly page = httpResource<AuditPage>(() => ({
-    url: '/api/audit',
-    params: { page: this.pageIndex(), pageSize: this.pageSize(), ...(this.action() ? { action: this.action() } : {}) },
-  }));
-  protected readonly items = computed(() => this.page.value()?.items ?? []);
-  protected readonly total = computed(() => this.page.value()?.total ?? 0);
+  private readonly api = inject(AuditApi);
+  protected readonly page = rxResource({
+    params: () => ({ page: this.pageIndex(), pageSize: this.pageSize(), action: this.action() || undefined }),
+    stream: ({ params }) => this.api.page(params),
+  });
+  protected readonly items = computed(() => (this.page.hasValue() ? this.page.value().items : []));
+  protected readonly total = computed(() => (this.page.hasValue() ? this.page.value().total : 0));
   protected word = (a: string) => ACTION_WORDS[a] ?? a;
 
   protected turn(e: PageEvent): void {

@@ -1,5 +1,5 @@
-import { HttpClient } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -8,6 +8,11 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { companySettingsSchema, type CompanySettings } from '../../../../shared/schemas/settings';
 import { toApiError } from '../../core/api-errors';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
+import { CompanySettingsApi } from './company-settings-api';
+
+/** The server's names for the two fields the form holds in other units. */
+const FORM_NAMES: Record<string, string> = { taxRateBps: 'taxRatePct', diagnosticFeeCents: 'diagnosticFee' };
 
 const DAYS = [
   { key: '1', label: 'Monday' },
@@ -31,14 +36,14 @@ type DayGroup = FormGroup<{ closed: FormControl<boolean>; open: FormControl<stri
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CompanySettingsPage {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(CompanySettingsApi);
   private readonly snack = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
   protected readonly days = DAYS;
   protected readonly saving = signal(false);
-  protected readonly loaded = signal(false);
-  protected readonly errors = signal<Record<string, string>>({});
+  private readonly read = rxResource({ stream: () => this.api.get() });
+  protected readonly loaded = computed(() => this.read.hasValue());
 
   protected readonly form = this.fb.group({
     name: ['', Validators.required],
@@ -59,17 +64,21 @@ export class CompanySettingsPage {
   });
 
   constructor() {
-    this.http.get<CompanySettings>('/api/settings/company').subscribe({
-      next: (s) => {
+    effect(() => {
+      const e = this.read.error();
+      if (e) untracked(() => this.snack.open(toApiError(e).message, 'Dismiss'));
+    });
+    effect(() => {
+      if (!this.read.hasValue()) return;
+      const s: CompanySettings = this.read.value();
+      untracked(() =>
         this.form.patchValue({
           ...s,
           taxRatePct: s.taxRateBps / 100,
           diagnosticFee: s.diagnosticFeeCents / 100,
           hours: Object.fromEntries(DAYS.map((d) => [d.key, s.businessHours[d.key] ? { closed: false, ...s.businessHours[d.key]! } : { closed: true, open: '08:00', close: '17:00' }])),
-        });
-        this.loaded.set(true);
-      },
-      error: (err: unknown) => this.snack.open(toApiError(err).message, 'Dismiss'),
+        }),
+      );
     });
   }
 
@@ -81,8 +90,9 @@ export class CompanySettingsPage {
     return this.form.controls.hours.controls[key];
   }
 
+  /** The message under a field, named as the server names it. */
   protected error(field: string): string | null {
-    return this.errors()[field] ?? null;
+    return serverError(this.form.get(FORM_NAMES[field] ?? field));
   }
 
   protected save(): void {
@@ -108,21 +118,19 @@ export class CompanySettingsPage {
     // The same schema the server uses: errors show next to their fields before a round trip.
     const checked = companySettingsSchema.safeParse(body);
     if (!checked.success) {
-      this.errors.set(Object.fromEntries(checked.error.issues.map((i) => [i.path.join('.'), i.message])));
+      applyFieldErrors(this.form, Object.fromEntries(checked.error.issues.map((i) => [i.path.join('.'), i.message])), FORM_NAMES);
       return;
     }
-    this.errors.set({});
     this.saving.set(true);
-    this.http.put<CompanySettings>('/api/settings/company', checked.data).subscribe({
+    this.api.save(checked.data).subscribe({
       next: () => {
         this.saving.set(false);
         this.snack.open('Saved. New bookings use these hours and rules from now on.', 'OK', { duration: 5000 });
       },
       error: (err: unknown) => {
         this.saving.set(false);
-        const e = toApiError(err);
-        this.errors.set(e.fields);
-        this.snack.open(e.message, 'Dismiss');
+        applyServerErrors(this.form, err, FORM_NAMES);
+        this.snack.open(toApiError(err).message, 'Dismiss');
       },
     });
   }

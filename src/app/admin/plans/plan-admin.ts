@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, computed, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -10,7 +11,12 @@ import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { formatUsd } from '../../../../shared/money';
 import type { PlanTerms, PlanView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
-import { dollarsToCents } from '../../office/invoices/office-invoice';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
+import { errorMessage } from '../../core/resource-state';
+
+/** The server names amounts in cents and basis points; the form holds them as typed. */
+const FORM_NAMES = { yearlyPriceCents: 'yearlyPrice', additionalSystemCents: 'additionalSystem', repairDiscountBps: 'repairDiscountPct' };
+import { dollarsToCents } from '../../../../shared/money';
 import { planFeatures } from '../../portal/plan/plan-features';
 import { PlanAdminApi } from './plan-admin-api';
 
@@ -31,9 +37,11 @@ export class PlanAdmin {
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly usd = formatUsd;
   protected readonly features = planFeatures;
-  protected readonly plans = signal<PlanView[]>([]);
+  private readonly read = rxResource({ stream: () => this.api.list() });
+  protected readonly plans = computed<PlanView[]>(() => (this.read.hasValue() ? this.read.value().plans : []));
+  protected readonly loadError = errorMessage(this.read);
   protected readonly editing = signal<PlanView | 'new' | null>(null);
-  protected readonly errors = signal<Record<string, string>>({});
+  protected readonly err = (name: string) => serverError(this.form.get(name));
   protected readonly busy = signal(false);
   protected readonly form = this.fb.group({
     code: this.fb.control(''),
@@ -49,16 +57,11 @@ export class PlanAdmin {
     extras: this.fb.control(''),
   });
 
-  constructor() {
-    this.reload();
-  }
-
   private reload() {
-    this.api.list().subscribe({ next: (r) => this.plans.set(r.plans), error: (e: unknown) => this.snack.open(toApiError(e).message, 'Close') });
+    this.read.reload();
   }
 
   protected edit(p: PlanView | 'new') {
-    this.errors.set({});
     this.editing.set(p);
     if (p === 'new') {
       this.form.reset();
@@ -90,7 +93,7 @@ export class PlanAdmin {
     if (yearly === null) local['yearlyPriceCents'] = 'Enter a price such as 189.00.';
     if (extra === null) local['additionalSystemCents'] = 'Enter a price such as 89.00.';
     if (!Number.isFinite(pct) || Math.round(pct * 100) !== pct * 100) local['repairDiscountBps'] = 'Enter a percentage with at most 2 decimals.';
-    if (Object.keys(local).length) return this.errors.set(local);
+    if (Object.keys(local).length) return void applyFieldErrors(this.form, local, FORM_NAMES);
     const terms: PlanTerms = {
       name: v.name,
       description: v.description,
@@ -113,10 +116,9 @@ export class PlanAdmin {
         this.reload();
       },
       error: (e: unknown) => {
-        const err = toApiError(e);
         this.busy.set(false);
-        this.errors.set(err.fields);
-        this.snack.open(err.message, 'Close');
+        applyServerErrors(this.form, e, FORM_NAMES);
+        this.snack.open(toApiError(e).message, 'Close');
       },
     });
   }

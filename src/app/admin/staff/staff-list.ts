@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -10,8 +11,10 @@ import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import type { StaffMember } from '../../../../shared/schemas/auth';
 import { toApiError } from '../../core/api-errors';
-import { applyServerErrors, messageFor } from '../../core/auth/form-errors';
+import { applyServerErrors, messageFor } from '../../core/form-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { StaffApi } from './staff-api';
+import { firstValueFrom } from 'rxjs';
 
 const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technician', office: 'Office', owner: 'Owner' };
 
@@ -55,7 +58,7 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
         <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" />{{ p }}</p>
       }
 
-      <table mat-table [dataSource]="staff()" aria-label="Staff members">
+      <table mat-table [dataSource]="staff() ?? []" aria-label="Staff members">
         <ng-container matColumnDef="name">
           <th mat-header-cell *matHeaderCellDef>Name</th>
           <td mat-cell *matCellDef="let m">{{ m.name }}<br /><small>{{ m.email }}</small></td>
@@ -107,7 +110,7 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
   styles: `
     .invite { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: flex-start; margin-bottom: 16px; }
     .status { display: inline-flex; gap: 4px; align-items: center; }
-    .problem { color: #6e1510; display: flex; gap: 8px; }
+    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
     table { width: 100%; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -116,9 +119,12 @@ export class StaffList {
   private readonly api = inject(StaffApi);
   private readonly snack = inject(MatSnackBar);
   protected readonly columns = ['name', 'role', 'status', 'disabled', 'sessions'];
-  protected readonly staff = signal<StaffMember[]>([]);
+  private readonly read = rxResource({ stream: () => this.api.list() });
+  protected readonly staff = localCopy<StaffMember[]>(this.read, true);
   protected readonly busy = signal(false);
-  protected readonly problem = signal<string | null>(null);
+  private readonly inviteProblem = signal<string | null>(null);
+  private readonly loadError = errorMessage(this.read);
+  protected readonly problem = computed(() => this.inviteProblem() ?? this.loadError());
   protected readonly roleWords = ROLE_WORDS;
   protected readonly form = inject(NonNullableFormBuilder).group({
     name: ['', [Validators.required]],
@@ -126,33 +132,25 @@ export class StaffList {
     role: ['technician' as 'technician' | 'office', [Validators.required]],
   });
 
-  constructor() {
-    void this.reload();
-  }
-
   protected error(field: 'name' | 'email' | 'role'): string {
     return messageFor(this.form, field, { required: 'This is needed.', email: 'Enter a valid e-mail address.' });
   }
 
-  private async reload(): Promise<void> {
-    try {
-      this.staff.set(await this.api.list());
-    } catch (err) {
-      this.problem.set(toApiError(err).message);
-    }
+  private reload(): void {
+    this.read.reload();
   }
 
   protected async invite(): Promise<void> {
-    this.problem.set(null);
+    this.inviteProblem.set(null);
     if (this.form.invalid) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      const res = await this.api.invite(this.form.getRawValue());
+      const res = await firstValueFrom(this.api.invite(this.form.getRawValue()));
       this.snack.open(`Invitation sent to ${res.email}.`, 'OK', { duration: 4000 });
       this.form.reset();
-      await this.reload();
+      this.reload();
     } catch (err) {
-      this.problem.set(applyServerErrors(this.form, err));
+      this.inviteProblem.set(applyServerErrors(this.form, err));
     } finally {
       this.busy.set(false);
     }
@@ -165,17 +163,17 @@ export class StaffList {
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }
-    await this.reload();
+    this.reload();
     void m;
   }
 
   protected setRole(m: StaffMember, role: 'technician' | 'office'): Promise<void> {
-    return this.change(m, () => this.api.update(m.id, { role }), `${m.name} is now ${ROLE_WORDS[role].toLowerCase()}.`);
+    return this.change(m, () => firstValueFrom(this.api.update(m.id, { role })), `${m.name} is now ${ROLE_WORDS[role].toLowerCase()}.`);
   }
   protected setDisabled(m: StaffMember, disabled: boolean): Promise<void> {
-    return this.change(m, () => this.api.update(m.id, { disabled }), disabled ? `${m.name} is turned off and signed out.` : `${m.name} can sign in again.`);
+    return this.change(m, () => firstValueFrom(this.api.update(m.id, { disabled })), disabled ? `${m.name} is turned off and signed out.` : `${m.name} can sign in again.`);
   }
   protected endSessions(m: StaffMember): Promise<void> {
-    return this.change(m, () => this.api.signOutEverywhere(m.id), `${m.name} is signed out everywhere.`);
+    return this.change(m, () => firstValueFrom(this.api.signOutEverywhere(m.id)), `${m.name} is signed out everywhere.`);
   }
 }

@@ -1,6 +1,6 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { firstValueFrom } from 'rxjs';
+import { defer, map, switchMap, tap, type Observable } from 'rxjs';
 import type { SessionUser } from '../../../../shared/schemas/session';
 import { Session } from '../session';
 
@@ -17,37 +17,39 @@ export class AuthApi {
   private readonly http = inject(HttpClient);
   private readonly session = inject(Session);
 
-  private async post<T>(url: string, body: unknown): Promise<T> {
-    await this.session.load();
-    return firstValueFrom(this.http.post<T>(url, body));
+  private post<T>(url: string, body: unknown): Observable<T> {
+    return defer(() => this.session.load()).pipe(switchMap(() => this.http.post<T>(url, body)));
   }
 
-  private async signedIn(url: string, body: unknown): Promise<SessionUser> {
-    const { user } = await this.post<SignedIn>(url, body);
-    this.session.set(user);
-    return user;
+  private signedIn(url: string, body: unknown): Observable<SessionUser> {
+    return this.post<SignedIn>(url, body).pipe(
+      map(({ user }) => user),
+      tap((user) => this.session.set(user)),
+    );
   }
 
-  requestLink(email: string): Promise<Accepted> {
+  requestLink(email: string): Observable<Accepted> {
     return this.post('/api/auth/link', { email });
   }
-  confirmLink(token: string): Promise<SessionUser> {
+  confirmLink(token: string): Observable<SessionUser> {
     return this.signedIn('/api/auth/link/confirm', { token });
   }
-  staffSignIn(email: string, password: string): Promise<SessionUser> {
+  staffSignIn(email: string, password: string): Observable<SessionUser> {
     return this.signedIn('/api/auth/staff/sign-in', { email, password });
   }
-  forgotPassword(email: string): Promise<Accepted> {
+  forgotPassword(email: string): Observable<Accepted> {
     return this.post('/api/auth/password/forgot', { email });
   }
-  setPassword(token: string, password: string): Promise<SessionUser> {
+  setPassword(token: string, password: string): Observable<SessionUser> {
     return this.signedIn('/api/auth/password/set', { token, password });
   }
-  async signOutEverywhere(): Promise<void> {
-    await this.post('/api/auth/sign-out-everywhere', {});
-    this.session.set(null);
+  signOutEverywhere(): Observable<void> {
+    return this.post<unknown>('/api/auth/sign-out-everywhere', {}).pipe(
+      map(() => undefined),
+      tap(() => this.session.set(null)),
+    );
   }
-  inviteHousehold(input: { customerId?: string; email?: string }): Promise<{ email: string }> {
+  inviteHousehold(input: { customerId?: string; email?: string }): Observable<{ email: string }> {
     return this.post('/api/auth/household-invitations', input);
   }
 }

@@ -6,7 +6,8 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
+import { firstValueFrom } from 'rxjs';
 
 @Component({
   selector: 'sw-forgot-password',
@@ -54,7 +55,7 @@ export class ForgotPassword {
     if (this.form.invalid) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      this.message.set((await this.api.forgotPassword(this.form.controls.email.value.trim())).message);
+      this.message.set((await firstValueFrom(this.api.forgotPassword(this.form.controls.email.value.trim()))).message);
     } catch (err) {
       this.problem.set(applyServerErrors(this.form, err));
     } finally {

@@ -5,7 +5,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
+import { firstValueFrom } from 'rxjs';
 
 /** The office opens a household's portal: by customer number, or by the e-mail on file. */
 @Component({
@@ -66,7 +67,7 @@ export class HouseholdInvite {
     if (this.form.invalid) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      const res = await this.api.inviteHousehold({ ...(customerId.trim() ? { customerId: customerId.trim() } : {}), ...(email.trim() ? { email: email.trim() } : {}) });
+      const res = await firstValueFrom(this.api.inviteHousehold({ ...(customerId.trim() ? { customerId: customerId.trim() } : {}), ...(email.trim() ? { email: email.trim() } : {}) }));
       this.sent.set(res.email);
       this.form.reset();
     } catch (err) {

@@ -5,6 +5,7 @@ import { Router, RouterLink } from '@angular/router';
 import { toApiError } from '../api-errors';
 import { AuthApi } from './auth-api';
 import { afterSignIn } from './return-url';
+import { firstValueFrom } from 'rxjs';
 
 /**
  * The page the e-mailed link opens. It asks for one click, so mail scanners that fetch links
@@ -49,7 +50,7 @@ export class LinkConfirm {
     this.busy.set(true);
     this.problem.set(null);
     try {
-      const user = await this.api.confirmLink(token);
+      const user = await firstValueFrom(this.api.confirmLink(token));
       sessionStorage.removeItem('sw.returnUrl');
       await this.router.navigateByUrl(afterSignIn(user.role, this.returnUrl() ?? sessionStorage.getItem('sw.returnUrl')), { replaceUrl: true });
     } catch (err) {

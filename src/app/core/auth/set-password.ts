@@ -6,8 +6,9 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
 import { homeFor } from './return-url';
+import { firstValueFrom } from 'rxjs';
 
 /** From an invitation or a reset e-mail: choose a password (12+ characters, not a common one). */
 @Component({
@@ -54,7 +55,7 @@ export class SetPassword {
     if (this.form.invalid || !token) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      const user = await this.api.setPassword(token, this.form.controls.password.value);
+      const user = await firstValueFrom(this.api.setPassword(token, this.form.controls.password.value));
       await this.router.navigateByUrl(homeFor(user.role), { replaceUrl: true });
     } catch (err) {
       this.problem.set(applyServerErrors(this.form, err));

@@ -6,7 +6,8 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
+import { firstValueFrom } from 'rxjs';
 
 /** Homeowners sign in with their e-mail address; we mail them a one-time link. */
 @Component({
@@ -66,7 +67,7 @@ export class SignIn {
       const back = this.returnUrl();
       // The e-mailed link opens a new page; remember where the homeowner was going.
       if (back) sessionStorage.setItem('sw.returnUrl', back);
-      const res = await this.api.requestLink(email);
+      const res = await firstValueFrom(this.api.requestLink(email));
       this.message.set(res.message);
       this.sentTo.set(email);
     } catch (err) {

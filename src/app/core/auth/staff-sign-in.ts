@@ -6,8 +6,9 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { AuthApi } from './auth-api';
-import { applyServerErrors, messageFor } from './form-errors';
+import { applyServerErrors, messageFor } from '../form-errors';
 import { afterSignIn } from './return-url';
+import { firstValueFrom } from 'rxjs';
 
 @Component({
   selector: 'sw-staff-sign-in',
@@ -65,7 +66,7 @@ export class StaffSignIn {
     this.busy.set(true);
     try {
       const { email, password } = this.form.getRawValue();
-      const user = await this.api.staffSignIn(email.trim(), password);
+      const user = await firstValueFrom(this.api.staffSignIn(email.trim(), password));
       await this.router.navigateByUrl(afterSignIn(user.role, this.returnUrl()));
     } catch (err) {
       this.problem.set(applyServerErrors(this.form, err));

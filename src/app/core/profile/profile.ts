@@ -5,6 +5,7 @@ import { Router } from '@angular/router';
 import { toApiError } from '../api-errors';
 import { AuthApi } from '../auth/auth-api';
 import { Session } from '../session';
+import { firstValueFrom } from 'rxjs';
 
 const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: 'Office', owner: 'Owner' } as const;
 
@@ -38,7 +39,7 @@ const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: '
     dt { font-weight: 700; }
     dd { margin: 0; overflow-wrap: anywhere; }
     h2 { font-size: 1.1rem; }
-    .problem { color: #6e1510; display: flex; gap: 8px; }
+    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -53,7 +54,7 @@ export class Profile {
   protected async everywhere(): Promise<void> {
     this.busy.set(true);
     try {
-      await this.api.signOutEverywhere();
+      await firstValueFrom(this.api.signOutEverywhere());
       await this.router.navigateByUrl('/');
     } catch (err) {
       this.problem.set(toApiError(err).message);

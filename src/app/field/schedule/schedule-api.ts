@@ -1,6 +1,6 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { firstValueFrom } from 'rxjs';
+import { map, type Observable } from 'rxjs';
 import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
 import type { VisitStatus } from '../../../../shared/visits';
 
@@ -8,19 +8,19 @@ import type { VisitStatus } from '../../../../shared/visits';
 export class ScheduleApi {
   private readonly http = inject(HttpClient);
 
-  week(start?: string): Promise<WeekResponse> {
-    return firstValueFrom(this.http.get<WeekResponse>('/api/schedule/week', { params: start ? { start } : {} }));
+  week(start?: string): Observable<WeekResponse> {
+    return this.http.get<WeekResponse>('/api/schedule/week', { params: start ? { start } : {} });
   }
 
-  issueFeed(): Promise<{ url: string }> {
-    return firstValueFrom(this.http.post<{ url: string }>('/api/schedule/feed-token', {}));
+  issueFeed(): Observable<{ url: string }> {
+    return this.http.post<{ url: string }>('/api/schedule/feed-token', {});
   }
 
-  revokeFeed(): Promise<void> {
-    return firstValueFrom(this.http.delete<void>('/api/schedule/feed-token'));
+  revokeFeed(): Observable<void> {
+    return this.http.delete<void>('/api/schedule/feed-token');
   }
 
-  setStatus(id: string, status: VisitStatus): Promise<VisitView> {
-    return firstValueFrom(this.http.post<{ visit: VisitView }>(`/api/dispatch/visits/${id}/status`, { status })).then((r) => r.visit);
+  setStatus(id: string, status: VisitStatus): Observable<VisitView> {
+    return this.http.post<{ visit: VisitView }>(`/api/dispatch/visits/${id}/status`, { status }).pipe(map((r) => r.visit));
   }
 }

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -7,8 +8,10 @@ import { DateTime } from 'luxon';
 import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
-import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { errorMessage, localCopy } from '../../core/resource-state';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 import { ScheduleApi } from './schedule-api';
+import { firstValueFrom } from 'rxjs';
 
 /** The technician's week, day by day, and the private calendar link for their phone. */
 @Component({
@@ -22,10 +25,11 @@ export class WeekSchedule {
   private readonly api = inject(ScheduleApi);
   private readonly snack = inject(MatSnackBar);
   protected readonly reasons = VISIT_REASON_LABELS;
-  protected readonly week = signal<WeekResponse | null>(null);
-  protected readonly error = signal<string | null>(null);
-  protected readonly feedUrl = signal<string | null>(null);
   private readonly start = signal<string | undefined>(undefined);
+  private readonly read = rxResource({ params: () => ({ start: this.start() }), stream: ({ params }) => this.api.week(params.start) });
+  protected readonly week = localCopy<WeekResponse>(this.read, true);
+  protected readonly error = errorMessage(this.read);
+  protected readonly feedUrl = signal<string | null>(null);
 
   protected readonly days = computed(() => {
     const w = this.week();
@@ -37,23 +41,14 @@ export class WeekSchedule {
     });
   });
 
-  constructor() {
-    void this.load();
-  }
-
-  private async load(): Promise<void> {
-    try {
-      this.week.set(await this.api.week(this.start()));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  private load(): void {
+    this.read.reload();
   }
 
   protected shift(weeks: number): void {
     const w = this.week();
     if (!w) return;
     this.start.set(DateTime.fromISO(w.start).plus({ weeks }).toISODate()!);
-    void this.load();
   }
 
   protected time(v: VisitView): string {
@@ -64,9 +59,9 @@ export class WeekSchedule {
 
   protected async newFeed(): Promise<void> {
     try {
-      const { url } = await this.api.issueFeed();
+      const { url } = await firstValueFrom(this.api.issueFeed());
       this.feedUrl.set(url);
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }
@@ -74,10 +69,10 @@ export class WeekSchedule {
 
   protected async revokeFeed(): Promise<void> {
     try {
-      await this.api.revokeFeed();
+      await firstValueFrom(this.api.revokeFeed());
       this.feedUrl.set(null);
       this.snack.open('Calendar link turned off. Calendars using it stop updating.', 'OK', { duration: 6000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }
@@ -85,9 +80,9 @@ export class WeekSchedule {
 
   protected async onTheWay(v: VisitView): Promise<void> {
     try {
-      await this.api.setStatus(v.id, 'on_the_way');
+      await firstValueFrom(this.api.setStatus(v.id, 'on_the_way'));
       this.snack.open('Homeowner told you are on the way.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 6000 });
     }

@@ -1,9 +1,9 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import type { TodayVisit } from '../../../../shared/schemas/field';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage } from '../../core/resource-state';
 import { FieldApi } from '../field-api';
 
 /** The technician's visits today, in time order, one big tap target each. */
@@ -16,30 +16,17 @@ import { FieldApi } from '../field-api';
 })
 export class TodayVisits {
   private readonly api = inject(FieldApi);
-  protected readonly visits = signal<TodayVisit[]>([]);
-  protected readonly date = signal<string | null>(null);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
+  private readonly today = rxResource({ stream: () => this.api.today() });
+  protected readonly visits = computed(() => (this.today.hasValue() ? this.today.value().visits : []));
+  protected readonly date = computed(() => (this.today.hasValue() ? this.today.value().date : null));
+  protected readonly loading = this.today.isLoading;
+  protected readonly error = errorMessage(this.today);
   protected readonly heading = computed(() => {
     const d = this.date();
     return d ? new Date(`${d}T12:00:00`).toLocaleDateString('en-US', { weekday: 'long', month: 'long', day: 'numeric' }) : '';
   });
 
-  constructor() {
-    void this.load();
-  }
-
-  protected async load(): Promise<void> {
-    this.loading.set(true);
-    this.error.set(null);
-    try {
-      const res = await this.api.today();
-      this.visits.set(res.visits);
-      this.date.set(res.date);
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    } finally {
-      this.loading.set(false);
-    }
+  protected load(): void {
+    this.today.reload();
   }
 }

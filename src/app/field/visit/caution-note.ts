@@ -14,7 +14,7 @@ import type { Caution } from '../../../../shared/hvac';
   `,
   styles: `
     .caution { display: flex; gap: 8px; align-items: flex-start; background: var(--sw-ember-soft); border-left: 6px solid var(--sw-ember); padding: 8px 12px; border-radius: 8px; margin: 4px 0 12px; font-size: 0.95rem; }
-    mat-icon { flex: none; width: 22px; height: 22px; color: #7a3a0c; }
+    mat-icon { flex: none; width: 22px; height: 22px; color: var(--sw-on-ember-soft); }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -45,8 +45,8 @@ import { formatUsd } from '../../../../shared/money';
     </section>
   `,
   styles: `
-    .banner { border: 2px solid var(--sw-watch); background: #fdf7ea; border-radius: var(--sw-radius); padding: 12px 16px; margin: 0 0 16px; }
-    .banner.covered { border-color: var(--sw-ok); background: #eef7f1; }
+    .banner { border: 2px solid var(--sw-watch); background: var(--sw-watch-soft); border-radius: var(--sw-radius); padding: 12px 16px; margin: 0 0 16px; }
+    .banner.covered { border-color: var(--sw-ok); background: var(--sw-ok-soft); }
     h2 { display: flex; flex-wrap: wrap; align-items: center; gap: 6px; font-size: 1.2rem; font-weight: 800; margin: 0 0 4px; }
     h2 mat-icon { width: 24px; height: 24px; }
     .status { font-weight: 600; }

@@ -11,12 +11,12 @@ describe('readings as typed', () => {
   });
 
   it('sets a bad field aside and still rates the rest', () => {
-    const r: Record<string, unknown> = { mode: 'cooling', returnDryBulbF: 75, supplyDryBulbF: 55, returnRelativeHumidityPct: 140 };
+    const r: Record<string, unknown> = { mode: 'cooling', returnDryBulbF: 75, indoorWetBulbF: 61, supplyDryBulbF: 55, returnRelativeHumidityPct: 140 };
     setPath(r, 'capacitors.compressor.ratedUf', 7.5);
     setPath(r, 'capacitors.compressor.measuredUf', 6.9);
     const result = evaluateTyped(r as VisitReadings, evaluateReadings, isInputError);
     expect(Object.keys(result.errors)).toEqual(['returnRelativeHumidityPct']);
-    // 75 °F return and 55 °F supply: a 20 °F split, in range (common practice).
+    // 75 °F dry bulb / 61 °F wet bulb return and 55 °F supply: a 20 °F split against the table's 19.9 ± 3 °F target.
     expect(result.checks.find((c) => c.check === 'temperature_split')?.status).toBe('ok');
     // 6.9 µF on a 7.5 µF part is outside ±6 % (common practice).
     expect(result.checks.find((c) => c.check === 'capacitor_compressor')?.status).toBe('alert');

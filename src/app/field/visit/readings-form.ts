@@ -8,7 +8,7 @@ import { MatInputModule } from '@angular/material/input';
 import { evaluateReadings, ReadingInputError, REFRIGERANTS, type Caution, type VisitReadings } from '../../../../shared/hvac';
 import { CHECK_LABELS, type FieldEquipment, type SavedReadings } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
-import { StatusMark } from '../../portal/readings-chart/status-mark';
+import { ReadingStatusMark } from '../../ui/status/reading-status';
 import { FieldApi } from '../field-api';
 import { VisitDrafts } from '../visit-drafts';
 import { CautionNote } from './caution-note';
@@ -25,6 +25,7 @@ import {
   type ReadingField,
   type ReadingGroup,
 } from './reading-fields';
+import { firstValueFrom } from 'rxjs';
 
 type Mode = 'cooling' | 'heating';
 interface Draft {
@@ -41,7 +42,7 @@ const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'geothermal_heat_pump',
 /** Readings for one system, checked by the engine as each field is typed, saved with the visit. */
 @Component({
   selector: 'sw-readings-form',
-  imports: [ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, StatusMark, CautionNote],
+  imports: [ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, ReadingStatusMark, CautionNote],
   templateUrl: './readings-form.html',
   styleUrl: './readings-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -194,7 +195,7 @@ export class ReadingsForm {
     this.keepDraft();
     this.state.set({ kind: 'saving' });
     try {
-      const res = await this.api.saveReadings(this.visitId(), { equipmentId: v.equipmentId, readings: this.typed().readings });
+      const res = await firstValueFrom(this.api.saveReadings(this.visitId(), { equipmentId: v.equipmentId, readings: this.typed().readings }));
       this.drafts.clear(this.visitId(), this.draftPart(v.equipmentId));
       this.restored.set(false);
       this.state.set({ kind: 'saved', at: res.recordedAt });

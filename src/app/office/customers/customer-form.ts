@@ -8,8 +8,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { customerCreateSchema, toE164, US_STATES } from '../../../../shared/schemas/customers';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CustomersApi } from './customers-api';
+import { firstValueFrom } from 'rxjs';
 
 /** New household with its first property. The shared schema checks here and again on the server. */
 @Component({
@@ -62,16 +63,12 @@ export class CustomerForm {
     // Same schema as the server: errors show at once, under their fields.
     const check = customerCreateSchema.safeParse(value);
     if (!check.success) {
-      for (const issue of check.error.issues) {
-        const c = this.form.get(issue.path.join('.'));
-        c?.setErrors({ server: issue.message });
-        c?.markAsTouched();
-      }
+      applyFieldErrors(this.form, Object.fromEntries(check.error.issues.map((issue) => [issue.path.join('.'), issue.message])));
       return;
     }
     this.saving.set(true);
     try {
-      const { id } = await this.api.create(value);
+      const { id } = await firstValueFrom(this.api.create(value));
       this.snack.open('Household added.', 'OK', { duration: 3000 });
       await this.router.navigate(['/office/customers', id]);
     } catch (err) {

@@ -1,5 +1,6 @@
 import { CurrencyPipe, DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -12,16 +13,17 @@ import { RouterLink } from '@angular/router';
 import type { CustomerDetail, TimelineKind } from '../../../../shared/schemas/customers';
 import type { Equipment } from '../../../../shared/schemas/equipment';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
+import { LIFE_ICON, WARRANTY_ICON } from '../../ui/status/equipment-icons';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyServerErrors, serverError } from '../../core/form-errors';
+import { firstValueFrom } from 'rxjs';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
 };
-export const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
-export const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
 
 /** One household: its people, homes, equipment, agreements, visits, invoices, notes and files. */
 @Component({
@@ -37,8 +39,9 @@ export class CustomerPage {
   private readonly snack = inject(MatSnackBar);
   readonly id = input.required<string>();
 
-  protected readonly c = signal<CustomerDetail | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly customer = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
+  protected readonly c = localCopy<CustomerDetail>(this.customer);
+  protected readonly error = errorMessage(this.customer);
   protected readonly editing = signal(false);
   protected readonly addingEquipmentTo = signal<string | null>(null);
   protected readonly merging = signal(false);
@@ -62,20 +65,9 @@ export class CustomerPage {
   });
   protected readonly mergeForm = new FormGroup({ sourceId: new FormControl('', { nonNullable: true }) });
 
-  constructor() {
-    effect(() => {
-      const id = this.id();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  protected async load(id = this.id()): Promise<void> {
-    try {
-      this.c.set(await this.api.get(id));
-      this.error.set(null);
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  /** Reads the household again after a change that touches several of its parts. */
+  protected load(): void {
+    this.customer.reload();
   }
 
   protected startEdit(): void {
@@ -88,7 +80,7 @@ export class CustomerPage {
   protected async saveEdit(): Promise<void> {
     this.busy.set(true);
     try {
-      this.c.set(await this.api.update(this.id(), this.edit.getRawValue()));
+      this.c.set(await firstValueFrom(this.api.update(this.id(), this.edit.getRawValue())));
       this.editing.set(false);
       this.snack.open('Household saved.', 'OK', { duration: 3000 });
     } catch (err) {
@@ -103,9 +95,9 @@ export class CustomerPage {
     const c = this.c();
     if (!c) return;
     try {
-      await this.api.archive(c.id, !c.archived);
+      await firstValueFrom(this.api.archive(c.id, !c.archived));
       this.snack.open(c.archived ? 'Household restored.' : 'Household archived. Its history is kept.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 5000 });
     }
@@ -115,11 +107,11 @@ export class CustomerPage {
     const sourceId = this.mergeForm.controls.sourceId.value.trim().split('/').pop() ?? '';
     this.busy.set(true);
     try {
-      await this.api.merge(this.id(), sourceId);
+      await firstValueFrom(this.api.merge(this.id(), sourceId));
       this.merging.set(false);
       this.mergeForm.reset();
       this.snack.open('Records merged into this household.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
       const rest = applyServerErrors(this.mergeForm, err);
       if (rest) this.snack.open(rest, 'OK', { duration: 5000 });
@@ -130,9 +122,9 @@ export class CustomerPage {
 
   protected async addNote(): Promise<void> {
     try {
-      await this.api.addNote(this.id(), this.note.getRawValue());
+      await firstValueFrom(this.api.addNote(this.id(), this.note.getRawValue()));
       this.note.reset();
-      await this.load();
+      this.load();
     } catch (err) {
       const rest = applyServerErrors(this.note, err);
       if (rest) this.snack.open(rest, 'OK', { duration: 5000 });
@@ -142,12 +134,12 @@ export class CustomerPage {
   protected async equipmentSaved(): Promise<void> {
     this.addingEquipmentTo.set(null);
     this.snack.open('Equipment saved.', 'OK', { duration: 3000 });
-    await this.load();
+    this.load();
   }
 
   protected async archiveEquipment(e: Equipment): Promise<void> {
-    await this.api.archiveEquipment(e.id);
+    await firstValueFrom(this.api.archiveEquipment(e.id));
     this.snack.open(`${e.kindLabel} archived.`, 'OK', { duration: 3000 });
-    await this.load();
+    this.load();
   }
 }

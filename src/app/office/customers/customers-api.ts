@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { firstValueFrom, type Observable } from 'rxjs';
+import { type Observable } from 'rxjs';
 import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerListQuery, CustomerPage, CustomerUpdate, Note, Property, PropertyInput } from '../../../../shared/schemas/customers';
 import type { Equipment } from '../../../../shared/schemas/equipment';
 
@@ -27,43 +27,43 @@ export class CustomersApi {
     return `/api/customers/export.csv${qs ? `?${qs}` : ''}`;
   }
 
-  get(id: string): Promise<CustomerDetail> {
-    return firstValueFrom(this.http.get<CustomerDetail>(`/api/customers/${id}`));
+  get(id: string): Observable<CustomerDetail> {
+    return this.http.get<CustomerDetail>(`/api/customers/${id}`);
   }
 
-  create(body: CustomerCreate | Record<string, unknown>): Promise<{ id: string; propertyId: string | null }> {
-    return firstValueFrom(this.http.post<{ id: string; propertyId: string | null }>('/api/customers', body));
+  create(body: CustomerCreate | Record<string, unknown>): Observable<{ id: string; propertyId: string | null }> {
+    return this.http.post<{ id: string; propertyId: string | null }>('/api/customers', body);
   }
 
-  update(id: string, body: CustomerUpdate | Record<string, unknown>): Promise<CustomerDetail> {
-    return firstValueFrom(this.http.patch<CustomerDetail>(`/api/customers/${id}`, body));
+  update(id: string, body: CustomerUpdate | Record<string, unknown>): Observable<CustomerDetail> {
+    return this.http.patch<CustomerDetail>(`/api/customers/${id}`, body);
   }
 
-  archive(id: string, archived: boolean): Promise<unknown> {
-    return firstValueFrom(this.http.post(`/api/customers/${id}/${archived ? 'archive' : 'restore'}`, {}));
+  archive(id: string, archived: boolean): Observable<unknown> {
+    return this.http.post(`/api/customers/${id}/${archived ? 'archive' : 'restore'}`, {});
   }
 
-  merge(targetId: string, sourceId: string): Promise<unknown> {
-    return firstValueFrom(this.http.post(`/api/customers/${targetId}/merge`, { sourceId }));
+  merge(targetId: string, sourceId: string): Observable<unknown> {
+    return this.http.post(`/api/customers/${targetId}/merge`, { sourceId });
   }
 
-  addContact(id: string, body: ContactInput | Record<string, unknown>): Promise<Contact> {
-    return firstValueFrom(this.http.post<Contact>(`/api/customers/${id}/contacts`, body));
+  addContact(id: string, body: ContactInput | Record<string, unknown>): Observable<Contact> {
+    return this.http.post<Contact>(`/api/customers/${id}/contacts`, body);
   }
 
-  addNote(id: string, body: { body: string; audience: 'office' | 'technician'; propertyId?: string | null }): Promise<Note> {
-    return firstValueFrom(this.http.post<Note>(`/api/customers/${id}/notes`, body));
+  addNote(id: string, body: { body: string; audience: 'office' | 'technician'; propertyId?: string | null }): Observable<Note> {
+    return this.http.post<Note>(`/api/customers/${id}/notes`, body);
   }
 
-  addProperty(id: string, body: PropertyInput | Record<string, unknown>): Promise<Property> {
-    return firstValueFrom(this.http.post<Property>(`/api/customers/${id}/properties`, body));
+  addProperty(id: string, body: PropertyInput | Record<string, unknown>): Observable<Property> {
+    return this.http.post<Property>(`/api/customers/${id}/properties`, body);
   }
 
-  addEquipment(body: Record<string, unknown>): Promise<Equipment> {
-    return firstValueFrom(this.http.post<Equipment>('/api/equipment', body));
+  addEquipment(body: Record<string, unknown>): Observable<Equipment> {
+    return this.http.post<Equipment>('/api/equipment', body);
   }
 
-  archiveEquipment(id: string): Promise<unknown> {
-    return firstValueFrom(this.http.post(`/api/equipment/${id}/archive`, {}));
+  archiveEquipment(id: string): Observable<unknown> {
+    return this.http.post(`/api/equipment/${id}/archive`, {});
   }
 }

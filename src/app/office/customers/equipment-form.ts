@@ -6,8 +6,9 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
 import { equipmentInputSchema, REFRIGERANT_CHOICES, type Equipment } from '../../../../shared/schemas/equipment';
-import { applyServerErrors, serverError } from './field-errors';
+import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CustomersApi } from './customers-api';
+import { firstValueFrom } from 'rxjs';
 
 /** Adds a piece of equipment to a property, in the trade's own fields. */
 @Component({
@@ -59,16 +60,12 @@ export class EquipmentForm {
     const value = this.form.getRawValue();
     const check = equipmentInputSchema.safeParse(value);
     if (!check.success) {
-      for (const issue of check.error.issues) {
-        const c = this.form.get(String(issue.path[0] ?? ''));
-        c?.setErrors({ server: issue.message });
-        c?.markAsTouched();
-      }
+      applyFieldErrors(this.form, Object.fromEntries(check.error.issues.map((issue) => [String(issue.path[0] ?? ''), issue.message])));
       return;
     }
     this.saving.set(true);
     try {
-      const saved = await this.api.addEquipment({ ...value, propertyId: this.propertyId() });
+      const saved = await firstValueFrom(this.api.addEquipment({ ...value, propertyId: this.propertyId() }));
       this.saved.emit(saved);
       this.form.reset();
     } catch (err) {

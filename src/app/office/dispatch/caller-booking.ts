@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { debounceTime, distinctUntilChanged, from, of, switchMap, catchError } from 'rxjs';
+import { catchError, debounceTime, distinctUntilChanged, of, switchMap } from 'rxjs';
 import { VisitRequest } from '../../portal/booking/visit-request';
 import { DispatchApi, type Household } from './dispatch-api';
 
@@ -55,7 +55,7 @@ export class CallerBooking {
     this.query.valueChanges.pipe(
       debounceTime(250),
       distinctUntilChanged(),
-      switchMap((q) => (q.trim().length < 2 ? of([]) : from(this.api.households(q.trim())).pipe(catchError(() => of([] as Household[]))))),
+      switchMap((q) => (q.trim().length < 2 ? of([]) : this.api.households(q.trim()).pipe(catchError(() => of([] as Household[]))))),
     ),
     { initialValue: [] as Household[] },
   );

@@ -1,6 +1,7 @@
 import { CdkDrag, CdkDragDrop, CdkDropList, CdkDropListGroup } from '@angular/cdk/drag-drop';
 import { NgTemplateOutlet } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -15,8 +16,10 @@ import { DateTime } from 'luxon';
 import { STATUS_TRANSITIONS, type BoardResponse, type BoardTechnician, type VisitEventView, type VisitView } from '../../../../shared/schemas/booking';
 import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
-import { VisitStatusMark } from '../../portal/booking/visit-status';
+import { errorMessage, localCopy } from '../../core/resource-state';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
+import { firstValueFrom } from 'rxjs';
 
 const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
 const QUEUE = 'queue';
@@ -66,8 +69,19 @@ export class DispatchBoard {
   protected readonly technicianId = signal<string>('');
   protected readonly kind = signal<VisitKind | ''>('');
   protected readonly area = signal<string>('');
-  protected readonly data = signal<BoardResponse | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly board = rxResource({
+    params: () => ({
+      from: this.days() === 7 ? DateTime.fromISO(this.from()).startOf('week').toISODate()! : this.from(),
+      days: this.days(),
+      technicianId: this.technicianId() || undefined,
+      kind: this.kind() || undefined,
+      area: this.area() || undefined,
+    }),
+    stream: ({ params }) => this.api.board(params),
+  });
+  /** The board stays on screen while another day or filter loads. */
+  protected readonly data = localCopy<BoardResponse>(this.board, true);
+  protected readonly error = errorMessage(this.board);
   protected readonly history = signal<{ visit: VisitView; events: VisitEventView[] } | null>(null);
   protected readonly busy = signal(false);
 
@@ -98,47 +112,26 @@ export class DispatchBoard {
     }));
   });
 
-  constructor() {
-    void this.load();
-  }
-
-  protected async load(): Promise<void> {
-    this.error.set(null);
-    const from = this.days() === 7 ? DateTime.fromISO(this.from()).startOf('week').toISODate()! : this.from();
-    try {
-      this.data.set(
-        await this.api.board({
-          from,
-          days: this.days(),
-          technicianId: this.technicianId() || undefined,
-          kind: this.kind() || undefined,
-          area: this.area() || undefined,
-        }),
-      );
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  /** Reads the board again after a change made from it. */
+  protected load(): void {
+    this.board.reload();
   }
 
   protected shift(step: number): void {
     this.from.set(DateTime.fromISO(this.from()).plus({ days: step * this.days() }).toISODate()!);
-    void this.load();
   }
 
   protected today(): void {
     this.from.set(DateTime.now().setZone('America/Chicago').toISODate()!);
-    void this.load();
   }
 
   protected pickDate(value: string): void {
     if (!/^\d{4}-\d{2}-\d{2}$/.test(value)) return;
     this.from.set(value);
-    void this.load();
   }
 
   protected setView(days: 1 | 7): void {
     this.days.set(days);
-    void this.load();
   }
 
   protected dropId(techId: string | null, date?: string): string {
@@ -175,29 +168,29 @@ export class DispatchBoard {
     if (this.busy()) return;
     this.busy.set(true);
     try {
-      const done = await this.api.assign(v.id, techId, startsAt);
+      const done = await firstValueFrom(this.api.assign(v.id, techId, startsAt));
       this.snack.open(techId ? `Assigned to ${done.technicianName}.` : 'Back in the unassigned queue.', 'OK', { duration: 4000 });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
     } finally {
       this.busy.set(false);
-      await this.load();
+      this.load();
     }
   }
 
   protected async setStatus(v: VisitView, status: VisitStatus): Promise<void> {
     try {
-      await this.api.setStatus(v.id, status);
+      await firstValueFrom(this.api.setStatus(v.id, status));
       this.snack.open(`Marked ${VISIT_STATUS_LABELS[status].toLowerCase()}.`, 'OK', { duration: 4000 });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
     }
-    await this.load();
+    this.load();
   }
 
   protected async showHistory(v: VisitView): Promise<void> {
     try {
-      this.history.set({ visit: v, events: await this.api.history(v.id) });
+      this.history.set({ visit: v, events: await firstValueFrom(this.api.history(v.id)) });
     } catch (err) {
       this.snack.open(toApiError(err).message, 'OK', { duration: 8000 });
     }

@@ -11,7 +11,7 @@ import { RouterLink } from '@angular/router';
 import { debounceTime, merge, startWith, switchMap } from 'rxjs';
 import { formatUsd } from '../../../../shared/money';
 import { INVOICE_STATUSES, INVOICE_STATUS_LABELS, type InvoiceStatus, type InvoiceSummary } from '../../../../shared/schemas/billing';
-import { InvoiceStatusBadge } from '../../portal/invoices/invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
 
 /** Every invoice, searchable by household or number, filtered by status, paged on the server. */

@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
@@ -11,6 +11,7 @@ import { Subscription, switchMap, takeWhile, timer } from 'rxjs';
 import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/reminders';
 import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/reminders';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { RemindersApi } from './reminders-api';
 
 const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
@@ -39,13 +40,17 @@ export class Reminders {
   protected readonly kinds = REMINDER_KINDS.map((kind) => ({ kind, label: REMINDER_LABELS[kind], ...KIND_TEXT[kind] }));
   protected readonly columns = ['name', 'email', 'reason'];
   protected readonly selected = signal<ReminderKind | null>(null);
-  protected readonly preview = signal<ReminderPreview | null>(null);
-  protected readonly loading = signal(false);
+  private readonly previewRead = rxResource({ params: () => this.selected() ?? undefined, stream: ({ params }) => this.api.preview(params) });
+  private readonly historyRead = rxResource({ stream: () => this.api.campaigns() });
+  protected readonly preview = localCopy<ReminderPreview>(this.previewRead, true);
+  protected readonly loading = this.previewRead.isLoading;
   protected readonly confirming = signal(false);
   protected readonly sending = signal(false);
-  protected readonly error = signal<string | null>(null);
+  private readonly previewError = errorMessage(this.previewRead);
+  private readonly sendError = signal<string | null>(null);
+  protected readonly error = computed(() => this.sendError() ?? this.previewError());
   protected readonly campaign = signal<ReminderCampaignSummary | null>(null);
-  protected readonly history = signal<ReminderCampaignSummary[]>([]);
+  protected readonly history = computed<ReminderCampaignSummary[]>(() => (this.historyRead.hasValue() ? this.historyRead.value().campaigns : []));
   protected readonly audienceCount = computed(() => this.preview()?.audience.length ?? 0);
   protected readonly progressPct = computed(() => {
     const c = this.campaign();
@@ -58,7 +63,6 @@ export class Reminders {
       const kind = params.get('kind') as ReminderKind | null;
       if (kind && REMINDER_KINDS.includes(kind)) this.load(kind);
     });
-    this.loadHistory();
   }
 
   protected choose(kind: ReminderKind): void {
@@ -66,27 +70,17 @@ export class Reminders {
   }
 
   private load(kind: ReminderKind): void {
-    this.selected.set(kind);
     this.confirming.set(false);
-    this.error.set(null);
-    this.loading.set(true);
-    this.api.preview(kind).subscribe({
-      next: (p) => {
-        this.preview.set(p);
-        this.loading.set(false);
-      },
-      error: (err: unknown) => {
-        this.error.set(toApiError(err).message);
-        this.loading.set(false);
-      },
-    });
+    this.sendError.set(null);
+    if (kind === this.selected()) this.previewRead.reload();
+    else this.selected.set(kind);
   }
 
   protected send(): void {
     const p = this.preview();
     if (!p || this.sending()) return;
     this.sending.set(true);
-    this.error.set(null);
+    this.sendError.set(null);
     this.api.send(p.kind, p.audience.length).subscribe({
       next: (c) => {
         this.sending.set(false);
@@ -97,7 +91,7 @@ export class Reminders {
       error: (err: unknown) => {
         this.sending.set(false);
         const e = toApiError(err);
-        this.error.set(e.message);
+        this.sendError.set(e.message);
         // The audience moved under us: show the new list before anyone sends again.
         if (e.code === 'audience_changed') this.load(p.kind);
       },
@@ -123,6 +117,6 @@ export class Reminders {
   }
 
   private loadHistory(): void {
-    this.api.campaigns().subscribe({ next: (r) => this.history.set(r.campaigns), error: () => this.history.set([]) });
+    this.historyRead.reload();
   }
 }

@@ -1,5 +1,6 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -13,7 +14,9 @@ import { MatTableModule } from '@angular/material/table';
 import { formatUsd } from '../../../../shared/money';
 import { RENEWAL_VIEWS, RENEWAL_VIEW_LABELS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
-import { AgreementStatusBadge } from '../../portal/plan/agreement-status';
+import { applyServerErrors, serverError } from '../../core/form-errors';
+import { localCopy } from '../../core/resource-state';
+import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { RenewalsApi } from './renewals-api';
 
 /** Renewals: who is due in 30/60/90 days, past due, lapsed or just renewed, with totals, CSV and notices. */
@@ -46,35 +49,29 @@ export class Renewals {
   protected readonly views = RENEWAL_VIEWS.map((v) => ({ v, label: RENEWAL_VIEW_LABELS[v] }));
   protected readonly columns = ['select', 'customer', 'plan', 'status', 'ends', 'price', 'auto', 'notice', 'actions'];
   protected readonly view = signal<RenewalView>('due30');
-  protected readonly board = signal<RenewalBoard | null>(null);
-  protected readonly loading = signal(false);
+  private readonly read = rxResource({ params: () => this.view(), stream: ({ params }) => this.api.board(params) });
+  protected readonly board = localCopy<RenewalBoard>(this.read, true);
+  protected readonly loading = this.read.isLoading;
   protected readonly selected = signal<ReadonlySet<string>>(new Set());
   protected readonly sending = signal(false);
   protected readonly renewing = signal<RenewalRow | null>(null);
-  protected readonly renewErrors = signal<Record<string, string>>({});
+  protected readonly serverError = serverError;
   protected readonly rows = computed(() => this.board()?.rows ?? []);
   protected readonly allSelected = computed(() => this.rows().length > 0 && this.rows().every((r) => this.selected().has(r.agreementId)));
   protected readonly csvHref = computed(() => this.api.csvUrl(this.view()));
   protected readonly manualForm = this.fb.group({ method: this.fb.control<'check' | 'cash'>('check', Validators.required), reference: this.fb.control('') });
 
   constructor() {
-    this.load('due30');
+    effect(() => {
+      const e = this.read.error();
+      if (e) untracked(() => this.snack.open(toApiError(e).message, 'Close'));
+    });
   }
 
   protected load(view: RenewalView) {
-    this.view.set(view);
-    this.loading.set(true);
     this.selected.set(new Set());
-    this.api.board(view).subscribe({
-      next: (b) => {
-        this.board.set(b);
-        this.loading.set(false);
-      },
-      error: (e: unknown) => {
-        this.loading.set(false);
-        this.snack.open(toApiError(e).message, 'Close');
-      },
-    });
+    if (view === this.view()) this.read.reload();
+    else this.view.set(view);
   }
 
   protected toggle(id: string, on: boolean) {
@@ -110,7 +107,6 @@ export class Renewals {
 
   protected startManual(row: RenewalRow) {
     this.renewing.set(row);
-    this.renewErrors.set({});
     this.manualForm.reset({ method: 'check', reference: '' });
   }
 
@@ -127,10 +123,9 @@ export class Renewals {
         this.load(this.view());
       },
       error: (e: unknown) => {
-        const err = toApiError(e);
         this.sending.set(false);
-        this.renewErrors.set(err.fields);
-        this.snack.open(err.message, 'Close');
+        applyServerErrors(this.manualForm, e);
+        this.snack.open(toApiError(e).message, 'Close');
       },
     });
   }

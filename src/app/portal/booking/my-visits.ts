@@ -1,12 +1,12 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import type { VisitView } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
-import { VisitStatusMark } from './visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
 
 /** The household's upcoming and recent visits, newest first. */
 @Component({
@@ -42,13 +42,7 @@ import { VisitStatusMark } from './visit-status';
 export class MyVisits {
   private readonly api = inject(BookingApi);
   protected readonly reasons = VISIT_REASON_LABELS;
-  protected readonly visits = signal<VisitView[]>([]);
-  protected readonly error = signal<string | null>(null);
-
-  constructor() {
-    this.api.visits().then(
-      (v) => this.visits.set(v),
-      (err) => this.error.set(toApiError(err).message),
-    );
-  }
+  private readonly read = rxResource({ stream: () => this.api.visits() });
+  protected readonly visits = computed(() => (this.read.hasValue() ? this.read.value() : []));
+  protected readonly error = errorMessage(this.read);
 }

@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -6,12 +7,14 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import type { ArrivalWindowView, VisitView } from '../../../../shared/schemas/booking';
+import type { VisitView } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
-import { VisitStatusMark } from './visit-status';
+import { VisitStatusMark } from '../../ui/status/visit-status';
+import { firstValueFrom } from 'rxjs';
 
 /** One visit: its window and status, with reschedule and cancel until the cut-off. */
 @Component({
@@ -26,43 +29,32 @@ export class VisitDetail {
   private readonly snack = inject(MatSnackBar);
   readonly id = input.required<string>();
 
-  protected readonly visit = signal<VisitView | null>(null);
-  protected readonly error = signal<string | null>(null);
-  protected readonly windows = signal<ArrivalWindowView[]>([]);
+  private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.visit(params) });
+  protected readonly visit = localCopy<VisitView>(this.read);
   protected readonly picking = signal(false);
+  /** Open windows to move to, read while the homeowner is choosing one. */
+  private readonly windowsRead = rxResource({
+    params: () => {
+      const v = this.visit();
+      return this.picking() && v ? { propertyId: v.propertyId, reason: v.reason, visitId: v.id, days: 14 } : undefined;
+    },
+    stream: ({ params }) => this.api.windows(params),
+  });
+  private readonly loadError = errorMessage(this.read);
+  private readonly windowsError = errorMessage(this.windowsRead);
+  private readonly actionError = signal<string | null>(null);
+  protected readonly error = computed(() => this.actionError() ?? this.loadError() ?? this.windowsError());
   protected readonly busy = signal(false);
-  protected readonly days = computed(() => groupByDay(this.windows()));
+  protected readonly days = computed(() => groupByDay(this.windowsRead.hasValue() ? this.windowsRead.value().windows : []));
   protected readonly reasonLabel = computed(() => {
     const v = this.visit();
     return v ? VISIT_REASON_LABELS[v.reason] : '';
   });
   protected readonly windowStart = new FormControl('', { nonNullable: true, validators: [Validators.required] });
 
-  constructor() {
-    effect(() => {
-      const id = this.id();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  private async load(id: string): Promise<void> {
-    try {
-      this.visit.set(await this.api.visit(id));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
-  }
-
-  protected async startReschedule(): Promise<void> {
-    const v = this.visit();
-    if (!v) return;
-    this.picking.set(true);
-    try {
-      const res = await this.api.windows({ propertyId: v.propertyId, reason: v.reason, visitId: v.id, days: 14 });
-      this.windows.set(res.windows);
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  protected startReschedule(): void {
+    if (this.picking()) this.windowsRead.reload();
+    else this.picking.set(true);
   }
 
   protected async reschedule(): Promise<void> {
@@ -70,13 +62,13 @@ export class VisitDetail {
     if (!v || this.windowStart.invalid || this.busy()) return;
     this.busy.set(true);
     try {
-      this.visit.set(await this.api.reschedule(v.id, this.windowStart.value));
+      this.visit.set(await firstValueFrom(this.api.reschedule(v.id, this.windowStart.value)));
       this.picking.set(false);
       this.snack.open('Visit moved. We sent you an updated invitation.', 'OK', { duration: 5000 });
     } catch (err) {
       const e = toApiError(err);
       this.windowStart.setErrors({ server: e.message });
-      if (e.code === 'window_full') await this.startReschedule();
+      if (e.code === 'window_full') this.startReschedule();
     } finally {
       this.busy.set(false);
     }
@@ -87,10 +79,10 @@ export class VisitDetail {
     if (!v || this.busy()) return;
     this.busy.set(true);
     try {
-      this.visit.set(await this.api.cancel(v.id));
+      this.visit.set(await firstValueFrom(this.api.cancel(v.id)));
       this.snack.open('Visit canceled.', 'OK', { duration: 5000 });
     } catch (err) {
-      this.error.set(toApiError(err).message);
+      this.actionError.set(toApiError(err).message);
     } finally {
       this.busy.set(false);
     }

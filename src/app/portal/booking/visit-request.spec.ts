@@ -11,7 +11,8 @@ describe('VisitRequest', () => {
     TestBed.configureTestingModule({ imports: [VisitRequest], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), provideIcons()] });
     const fixture = TestBed.createComponent(VisitRequest);
     const http = TestBed.inject(HttpTestingController);
-    await fixture.whenStable();
+    // The options read is pending until answered, so the page is not stable yet: run its effects only.
+    TestBed.tick();
     http.expectOne('/api/booking/options').flush({ properties: [], cancelCutoffHours: 24, companyPhone: '+18165550142', timeZone: 'America/Chicago' });
     await fixture.whenStable();
     const el: HTMLElement = fixture.nativeElement;

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -20,8 +21,11 @@ import {
 } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS, VISIT_REASONS, type VisitReason } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
+import { applyFieldErrors } from '../../core/form-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
+import { firstValueFrom } from 'rxjs';
 
 const REASON_ICONS: Record<VisitReason, string> = {
   no_cooling: 'snowflake',
@@ -63,8 +67,9 @@ export class VisitRequest {
   protected readonly signs = EMERGENCY_SIGNS.map((s) => ({ id: s, label: EMERGENCY_SIGN_LABELS[s] }));
   protected readonly reasons = VISIT_REASONS.map((r) => ({ id: r, label: VISIT_REASON_LABELS[r], icon: REASON_ICONS[r], urgent: URGENT_REASONS.includes(r) }));
 
-  protected readonly options = signal<BookingOptions | null>(null);
-  protected readonly loadError = signal<string | null>(null);
+  private readonly optionsRead = rxResource({ params: () => ({ customerId: this.customerId() }), stream: ({ params }) => this.api.options(params.customerId) });
+  protected readonly options = localCopy<BookingOptions>(this.optionsRead);
+  protected readonly loadError = errorMessage(this.optionsRead);
   protected readonly emergency = signal<'unknown' | 'yes' | 'no'>('unknown');
   protected readonly windows = signal<ArrivalWindowView[]>([]);
   protected readonly windowsLoading = signal(false);
@@ -101,9 +106,10 @@ export class VisitRequest {
   });
 
   constructor() {
+    // A household with one home skips the choice.
     effect(() => {
-      const id = this.customerId();
-      untracked(() => void this.loadOptions(id));
+      const o = this.options();
+      if (o?.properties.length === 1) untracked(() => this.propertyForm.controls.propertyId.setValue(o.properties[0]!.id));
     });
     this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => this.propertyId.set(v));
     this.windowForm.controls.windowStart.valueChanges.subscribe((v) => this.windowStart.set(v));
@@ -111,17 +117,6 @@ export class VisitRequest {
       this.reason.set(v);
       this.detailsForm.controls.symptoms.setValue([]);
     });
-  }
-
-  private async loadOptions(customerId: string | undefined): Promise<void> {
-    this.loadError.set(null);
-    try {
-      const o = await this.api.options(customerId);
-      this.options.set(o);
-      if (o.properties.length === 1) this.propertyForm.controls.propertyId.setValue(o.properties[0]!.id);
-    } catch (err) {
-      this.loadError.set(toApiError(err).message);
-    }
   }
 
   protected answerEmergency(answer: 'yes' | 'no', stepper: MatStepper): void {
@@ -146,7 +141,7 @@ export class VisitRequest {
     this.windowsLoading.set(true);
     this.windowsNote.set(null);
     try {
-      const res = await this.api.windows({ propertyId, reason, from, days: 14 });
+      const res = await firstValueFrom(this.api.windows({ propertyId, reason, from, days: 14 }));
       this.member.set(res.member);
       this.promiseHours.set(res.priorityWindowHours);
       this.windows.set(from ? [...this.windows(), ...res.windows.filter((w) => !this.windows().some((x) => x.start === w.start))] : res.windows);
@@ -170,8 +165,8 @@ export class VisitRequest {
     this.submitError.set(null);
     this.filled.set(null);
     try {
-      const photoIds = this.photos().length ? (await this.api.uploadPhotos(this.propertyId(), this.photos())).map((f) => f.id) : [];
-      const visit = await this.api.book({
+      const photoIds = this.photos().length ? (await firstValueFrom(this.api.uploadPhotos(this.propertyId(), this.photos()))).map((f) => f.id) : [];
+      const visit = await firstValueFrom(this.api.book({
         propertyId: this.propertyId(),
         reason,
         symptoms: this.detailsForm.controls.symptoms.value,
@@ -179,7 +174,7 @@ export class VisitRequest {
         photoIds,
         windowStart: this.windowForm.controls.windowStart.value,
         noEmergency: true,
-      });
+      }));
       this.booked.set(visit);
     } catch (err) {
       const e = toApiError(err);
@@ -191,8 +186,8 @@ export class VisitRequest {
         stepper.previous();
       } else {
         this.submitError.set(e.message);
-        if (e.fields['notes']) this.detailsForm.controls.notes.setErrors({ server: e.fields['notes'] });
-        if (e.fields['windowStart']) this.windowForm.controls.windowStart.setErrors({ server: e.fields['windowStart'] });
+        applyFieldErrors(this.detailsForm, e.fields);
+        applyFieldErrors(this.windowForm, e.fields);
       }
     } finally {
       this.busy.set(false);

@@ -1,6 +1,6 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { firstValueFrom } from 'rxjs';
+import { type Observable } from 'rxjs';
 import type { HomeAccess, HomeContact, MyHome, Note, Property } from '../../../../shared/schemas/customers';
 
 /** The homeowner's own records; the server takes the household from the session. */
@@ -8,19 +8,19 @@ import type { HomeAccess, HomeContact, MyHome, Note, Property } from '../../../.
 export class MyHomeApi {
   private readonly http = inject(HttpClient);
 
-  load(): Promise<MyHome> {
-    return firstValueFrom(this.http.get<MyHome>('/api/my-home'));
+  load(): Observable<MyHome> {
+    return this.http.get<MyHome>('/api/my-home');
   }
 
-  updateContact(body: HomeContact | Record<string, string>): Promise<MyHome['household']> {
-    return firstValueFrom(this.http.patch<MyHome['household']>('/api/my-home/contact', body));
+  updateContact(body: HomeContact | Record<string, string>): Observable<MyHome['household']> {
+    return this.http.patch<MyHome['household']>('/api/my-home/contact', body);
   }
 
-  updateAccess(propertyId: string, body: HomeAccess): Promise<Property> {
-    return firstValueFrom(this.http.patch<Property>(`/api/my-home/properties/${propertyId}`, body));
+  updateAccess(propertyId: string, body: HomeAccess): Observable<Property> {
+    return this.http.patch<Property>(`/api/my-home/properties/${propertyId}`, body);
   }
 
-  addNote(propertyId: string, body: string): Promise<Note> {
-    return firstValueFrom(this.http.post<Note>('/api/my-home/notes', { propertyId, body }));
+  addNote(propertyId: string, body: string): Observable<Note> {
+    return this.http.post<Note>('/api/my-home/notes', { propertyId, body });
   }
 }

@@ -1,5 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -8,14 +9,14 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { MyHome as MyHomeData, Property } from '../../../../shared/schemas/customers';
-import type { Equipment } from '../../../../shared/schemas/equipment';
-import { ApiError, toApiError } from '../../core/api-errors';
+import { applyServerErrors, serverError } from '../../core/form-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
+import { LIFE_ICON, WARRANTY_ICON } from '../../ui/status/equipment-icons';
 import { FileUpload } from '../../ui/upload/file-upload';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { MyHomeApi } from './my-home-api';
+import { firstValueFrom } from 'rxjs';
 
-const LIFE_ICON: Record<Equipment['life']['status'], string> = { unknown: 'info', ok: 'status-ok', nearing: 'status-watch', past: 'status-alert' };
-const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', active: 'shield', ending_soon: 'status-watch', expired: 'status-alert' };
 
 /** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
 @Component({
@@ -28,8 +29,10 @@ const WARRANTY_ICON: Record<Equipment['warranty'], string> = { unknown: 'info', 
 export class MyHome {
   private readonly api = inject(MyHomeApi);
   private readonly snack = inject(MatSnackBar);
-  protected readonly home = signal<MyHomeData | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly read = rxResource({ stream: () => this.api.load() });
+  protected readonly home = localCopy<MyHomeData>(this.read);
+  protected readonly error = errorMessage(this.read);
+  protected readonly serverError = serverError;
   protected readonly editingContact = signal(false);
   protected readonly editingDoor = signal<string | null>(null);
   protected readonly saving = signal(false);
@@ -49,63 +52,57 @@ export class MyHome {
     accessNotes: new FormControl('', { nonNullable: true }),
     gateCode: new FormControl('', { nonNullable: true }),
     pets: new FormControl('', { nonNullable: true }),
+    /** Sent as a note of its own, not as part of the access details. */
+    note: new FormControl('', { nonNullable: true }),
   });
-  protected readonly note = new FormControl('', { nonNullable: true });
-  protected readonly contactErrors = signal<Record<string, string>>({});
-  protected readonly doorErrors = signal<Record<string, string>>({});
+  /** What belongs to no field of the form being saved. */
+  protected readonly contactError = signal<string | null>(null);
+  protected readonly doorError = signal<string | null>(null);
 
-  constructor() {
-    void this.load();
-  }
-
-  protected async load(): Promise<void> {
-    try {
-      this.home.set(await this.api.load());
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
+  protected load(): void {
+    this.read.reload();
   }
 
   protected startContact(): void {
     const h = this.home()?.household;
     if (!h) return;
     this.contact.setValue({ name: h.name, email: h.email ?? '', phone: h.phone ?? '' });
-    this.contactErrors.set({});
+    this.contactError.set(null);
     this.editingContact.set(true);
   }
 
   protected async saveContact(): Promise<void> {
     this.saving.set(true);
     try {
-      const household = await this.api.updateContact(this.contact.getRawValue());
+      const household = await firstValueFrom(this.api.updateContact(this.contact.getRawValue()));
       this.home.update((h) => (h ? { ...h, household } : h));
       this.editingContact.set(false);
       this.snack.open('Contact details saved.', 'OK', { duration: 3000 });
     } catch (err) {
-      this.contactErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+      this.contactError.set(applyServerErrors(this.contact, err));
     } finally {
       this.saving.set(false);
     }
   }
 
   protected startDoor(p: Property): void {
-    this.door.setValue({ accessNotes: p.accessNotes, gateCode: p.gateCode, pets: p.pets });
-    this.doorErrors.set({});
+    this.door.setValue({ accessNotes: p.accessNotes, gateCode: p.gateCode, pets: p.pets, note: '' });
+    this.doorError.set(null);
     this.editingDoor.set(p.id);
   }
 
   protected async saveDoor(p: Property): Promise<void> {
     this.saving.set(true);
     try {
-      await this.api.updateAccess(p.id, this.door.getRawValue());
-      const text = this.note.value.trim();
-      if (text) await this.api.addNote(p.id, text);
-      this.note.reset();
+      const { note, ...access } = this.door.getRawValue();
+      await firstValueFrom(this.api.updateAccess(p.id, access));
+      const text = note.trim();
+      if (text) await firstValueFrom(this.api.addNote(p.id, text));
       this.editingDoor.set(null);
       this.snack.open('Saved. Your technician will see this before the visit.', 'OK', { duration: 4000 });
-      await this.load();
+      this.load();
     } catch (err) {
-      this.doorErrors.set(err instanceof ApiError ? err.fields : { _: toApiError(err).message });
+      this.doorError.set(applyServerErrors(this.door, err, { body: 'note' }));
     } finally {
       this.saving.set(false);
     }

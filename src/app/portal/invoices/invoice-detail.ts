@@ -1,5 +1,6 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, input, signal, effect } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -7,8 +8,9 @@ import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { formatUsd } from '../../../../shared/money';
 import type { InvoiceView } from '../../../../shared/schemas/billing';
 import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
-import { InvoiceStatusBadge } from './invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 
 /** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
 @Component({
@@ -24,33 +26,29 @@ export class InvoiceDetail {
   private readonly router = inject(Router);
   readonly id = input.required<string>();
   protected readonly usd = formatUsd;
-  protected readonly invoice = signal<InvoiceView | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
+  protected readonly invoice = localCopy<InvoiceView>(this.read);
+  private readonly loadError = errorMessage(this.read);
+  private readonly actionError = signal<string | null>(null);
+  protected readonly error = computed(() => this.actionError() ?? this.loadError());
   protected readonly notice = signal<string | null>(null);
   protected readonly paying = signal(false);
 
   constructor() {
-    effect(() => {
-      const id = this.id();
-      const checkout = this.route.snapshot.queryParamMap.get('checkout');
-      if (checkout?.startsWith('cs_')) {
-        this.api.checkoutReturn(checkout).subscribe({
-          next: (r) => {
-            this.notice.set(r.state === 'paid' ? 'Payment received. Thank you! A receipt is on its way to your e-mail.' : 'The payment was not completed. Nothing was charged.');
-            void this.router.navigate([], { queryParams: {}, replaceUrl: true });
-            this.load(id);
-          },
-          error: (e: unknown) => this.error.set(toApiError(e).message),
-        });
-      } else if (checkout === 'canceled') {
-        this.notice.set('Payment canceled. Nothing was charged.');
-      }
-      this.load(id);
-    });
-  }
-
-  private load(id: string) {
-    this.api.get(id).subscribe({ next: (v) => this.invoice.set(v), error: (e: unknown) => this.error.set(toApiError(e).message) });
+    // Back from the payment page: settle what happened there, then read the invoice again.
+    const checkout = this.route.snapshot.queryParamMap.get('checkout');
+    if (checkout?.startsWith('cs_')) {
+      this.api.checkoutReturn(checkout).subscribe({
+        next: (r) => {
+          this.notice.set(r.state === 'paid' ? 'Payment received. Thank you! A receipt is on its way to your e-mail.' : 'The payment was not completed. Nothing was charged.');
+          void this.router.navigate([], { queryParams: {}, replaceUrl: true });
+          this.read.reload();
+        },
+        error: (e: unknown) => this.actionError.set(toApiError(e).message),
+      });
+    } else if (checkout === 'canceled') {
+      this.notice.set('Payment canceled. Nothing was charged.');
+    }
   }
 
   protected pay() {
@@ -61,7 +59,7 @@ export class InvoiceDetail {
       next: (r) => window.location.assign(r.checkoutUrl),
       error: (e: unknown) => {
         this.paying.set(false);
-        this.error.set(toApiError(e).message);
+        this.actionError.set(toApiError(e).message);
       },
     });
   }

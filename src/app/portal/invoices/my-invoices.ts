@@ -1,13 +1,13 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatListModule } from '@angular/material/list';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { formatUsd } from '../../../../shared/money';
-import type { InvoiceSummary } from '../../../../shared/schemas/billing';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
-import { InvoiceStatusBadge } from './invoice-status';
+import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 
 const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_change: 'Plan change', service: 'Service' } as const;
 
@@ -35,20 +35,8 @@ export class MyInvoices {
   private readonly api = inject(InvoicesApi);
   protected readonly usd = formatUsd;
   protected readonly purpose = PURPOSE;
-  protected readonly rows = signal<InvoiceSummary[]>([]);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
-
-  constructor() {
-    this.api.list().subscribe({
-      next: (r) => {
-        this.rows.set(r.rows);
-        this.loading.set(false);
-      },
-      error: (e: unknown) => {
-        this.error.set(toApiError(e).message);
-        this.loading.set(false);
-      },
-    });
-  }
+  private readonly read = rxResource({ stream: () => this.api.list() });
+  protected readonly rows = computed(() => (this.read.hasValue() ? this.read.value().rows : []));
+  protected readonly loading = this.read.isLoading;
+  protected readonly error = errorMessage(this.read);
 }

@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, linkedSignal, signal, untracked } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -14,7 +15,8 @@ import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { formatUsd } from '../../../../shared/money';
 import type { AgreementView, PlanView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
-import { AgreementStatusBadge } from './agreement-status';
+import { applyServerErrors, serverError } from '../../core/form-errors';
+import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { planFeatures } from './plan-features';
 import { PlansApi, type HomeChoice } from './plans-api';
 
@@ -51,10 +53,13 @@ export class MyPlan {
   protected readonly usd = formatUsd;
   protected readonly longDate = longDate;
   protected readonly features = planFeatures;
-  protected readonly loading = signal(true);
-  protected readonly agreements = signal<AgreementView[]>([]);
-  protected readonly homes = signal<HomeChoice[]>([]);
-  protected readonly plans = signal<PlanView[]>([]);
+  private readonly mine = rxResource({ stream: () => this.api.mine() });
+  private readonly plansRead = rxResource({ stream: () => this.api.plans() });
+  /** Only the first read shows as loading; a refresh after a payment keeps the page in place. */
+  protected readonly loading = computed(() => this.mine.status() === 'loading');
+  protected readonly agreements = linkedSignal<AgreementView[]>(() => (this.mine.hasValue() ? this.mine.value().agreements : []));
+  protected readonly homes = computed<HomeChoice[]>(() => (this.mine.hasValue() ? this.mine.value().properties : []));
+  protected readonly plans = computed<PlanView[]>(() => (this.plansRead.hasValue() ? this.plansRead.value().plans : []));
   protected readonly busy = signal<string | null>(null);
   protected readonly notice = signal<{ kind: 'ok' | 'info' | 'error'; text: string } | null>(null);
   protected readonly saveCardFor = signal<Record<string, boolean>>({});
@@ -67,13 +72,24 @@ export class MyPlan {
     systemsCount: this.fb.control(1, [Validators.required, Validators.min(1), Validators.max(20)]),
     autoRenew: this.fb.control(false),
   });
-  protected readonly enrollErrors = signal<Record<string, string>>({});
+  protected readonly serverError = serverError;
 
   constructor() {
     const params = this.route.snapshot.queryParamMap;
     const checkout = params.get('checkout');
     const updateCard = params.get('update-card');
     void this.start(checkout, updateCard);
+    // The first home without a plan is the one to enroll.
+    effect(() => {
+      const first = this.homes().find((p) => !p.covered);
+      untracked(() => {
+        if (first && !this.enrollForm.controls.propertyId.value) this.enrollForm.controls.propertyId.setValue(first.id);
+      });
+    });
+    effect(() => {
+      const e = this.mine.error();
+      if (e) untracked(() => this.notice.set({ kind: 'error', text: toApiError(e).message }));
+    });
   }
 
   private async start(checkout: string | null, updateCard: string | null) {
@@ -97,8 +113,6 @@ export class MyPlan {
       this.clearQuery();
       this.updateCard(updateCard);
     }
-    this.reload();
-    this.api.plans().subscribe({ next: (r) => this.plans.set(r.plans) });
   }
 
   private clearQuery() {
@@ -106,19 +120,7 @@ export class MyPlan {
   }
 
   private reload() {
-    this.api.mine().subscribe({
-      next: (r) => {
-        this.agreements.set(r.agreements);
-        this.homes.set(r.properties);
-        const first = r.properties.find((p) => !p.covered);
-        if (first && !this.enrollForm.controls.propertyId.value) this.enrollForm.controls.propertyId.setValue(first.id);
-        this.loading.set(false);
-      },
-      error: (e: unknown) => {
-        this.loading.set(false);
-        this.notice.set({ kind: 'error', text: toApiError(e).message });
-      },
-    });
+    this.mine.reload();
   }
 
   protected coveredThrough(a: AgreementView) {
@@ -180,7 +182,6 @@ export class MyPlan {
   }
 
   protected enroll() {
-    this.enrollErrors.set({});
     if (this.enrollForm.invalid || this.busy()) {
       this.enrollForm.markAllAsTouched();
       return;
@@ -189,10 +190,9 @@ export class MyPlan {
     this.api.enroll(this.enrollForm.getRawValue()).subscribe({
       next: (r) => window.location.assign(r.checkoutUrl),
       error: (e: unknown) => {
-        const err = toApiError(e);
         this.busy.set(null);
-        this.enrollErrors.set(err.fields);
-        this.notice.set({ kind: 'error', text: err.message });
+        applyServerErrors(this.enrollForm, e);
+        this.notice.set({ kind: 'error', text: toApiError(e).message });
       },
     });
   }

@@ -9,7 +9,7 @@ export interface Band {
  * Shades each reading's normal band behind the line, one column per visit, so a band that moved
  * (a superheat target follows the weather) is drawn as it was judged. Works for a single visit too.
  */
-export function bandPlugin(bands: () => Band[], colour = 'rgba(35, 116, 74, 0.16)'): Plugin<'line'> {
+export function bandPlugin(bands: () => Band[], colour: string): Plugin<'line'> {
   return {
     id: 'swBand',
     beforeDatasetsDraw(chart: Chart<'line'>) {

@@ -1,6 +1,6 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { firstValueFrom } from 'rxjs';
+import { type Observable } from 'rxjs';
 import type { PropertyReadings, VisitSummary } from '../../../../shared/schemas/field';
 
 /** The homeowner's readings history and visit summaries. */
@@ -8,11 +8,11 @@ import type { PropertyReadings, VisitSummary } from '../../../../shared/schemas/
 export class ReadingsApi {
   private readonly http = inject(HttpClient);
 
-  property(propertyId: string): Promise<PropertyReadings> {
-    return firstValueFrom(this.http.get<PropertyReadings>(`/api/portal/readings/properties/${encodeURIComponent(propertyId)}`));
+  property(propertyId: string): Observable<PropertyReadings> {
+    return this.http.get<PropertyReadings>(`/api/portal/readings/properties/${encodeURIComponent(propertyId)}`);
   }
 
-  visitSummary(visitId: string): Promise<VisitSummary> {
-    return firstValueFrom(this.http.get<VisitSummary>(`/api/portal/visit-summaries/${encodeURIComponent(visitId)}`));
+  visitSummary(visitId: string): Observable<VisitSummary> {
+    return this.http.get<VisitSummary>(`/api/portal/visit-summaries/${encodeURIComponent(visitId)}`);
   }
 }

@@ -1,15 +1,27 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import type { ChartConfiguration, PointStyle } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } from '../../../../shared/schemas/field';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
-import { StatusMark } from './status-mark';
+import { ReadingStatusMark } from '../../ui/status/reading-status';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
-const POINT_COLOUR: Record<ReadingStatus, string> = { ok: '#23744a', watch: '#8a5a00', alert: '#b3261e' };
+const POINT_TOKEN: Record<ReadingStatus, string> = { ok: '--sw-ok', watch: '--sw-watch', alert: '--sw-alert' };
+
+/** A theme colour by its custom property: the canvas cannot read CSS variables itself. */
+function token(name: string): string {
+  return getComputedStyle(document.documentElement).getPropertyValue(name).trim() || '#808080';
+}
+
+/** "#23744a" at 16 % opacity, for the band behind the line. */
+function translucent(hex: string, alpha: number): string {
+  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(hex);
+  return m ? `rgba(${parseInt(m[1]!, 16)}, ${parseInt(m[2]!, 16)}, ${parseInt(m[3]!, 16)}, ${alpha})` : hex;
+}
 const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth watching', alert: 'out of range' };
 
 const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 'short', day: 'numeric', year: 'numeric' });
@@ -17,7 +29,7 @@ const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 
 /** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
 @Component({
   selector: 'sw-readings-chart',
-  imports: [BaseChartDirective, MatButtonToggleModule, StatusMark],
+  imports: [BaseChartDirective, MatButtonToggleModule, ReadingStatusMark],
   templateUrl: './readings-chart.html',
   styleUrl: './readings-chart.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -26,27 +38,12 @@ export class ReadingsChart {
   private readonly api = inject(ReadingsApi);
   readonly propertyId = input.required<string>();
 
-  protected readonly data = signal<PropertyReadings | null>(null);
-  protected readonly error = signal<string | null>(null);
+  private readonly read = rxResource({ params: () => this.propertyId(), stream: ({ params }) => this.api.property(params) });
+  protected readonly data = localCopy<PropertyReadings>(this.read);
+  protected readonly error = errorMessage(this.read);
   /** Chosen check per system. */
   protected readonly chosen = signal<Record<string, string>>({});
   protected readonly day = day;
-
-  constructor() {
-    effect(() => {
-      const id = this.propertyId();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  private async load(id: string): Promise<void> {
-    this.error.set(null);
-    try {
-      this.data.set(await this.api.property(id));
-    } catch (err) {
-      this.error.set(toApiError(err).message);
-    }
-  }
 
   protected readonly systems = computed(() => (this.data()?.systems ?? []).filter((s) => s.series.length > 0));
 
@@ -91,12 +88,12 @@ export class ReadingsChart {
             {
               label: `${series.label} (${series.unit})`,
               data: series.points.map((p) => p.value),
-              borderColor: '#1d4e5f',
+              borderColor: token('--sw-teal'),
               borderWidth: 3,
               pointRadius: 7,
               pointHoverRadius: 9,
               pointStyle: series.points.map((p) => POINT_STYLE[p.status]),
-              pointBackgroundColor: series.points.map((p) => POINT_COLOUR[p.status]),
+              pointBackgroundColor: series.points.map((p) => token(POINT_TOKEN[p.status])),
               tension: 0,
             },
           ],
@@ -122,7 +119,7 @@ export class ReadingsChart {
           },
         },
       },
-      plugins: [bandPlugin(() => bands)],
+      plugins: [bandPlugin(() => bands, translucent(token('--sw-ok'), 0.16))],
     };
     this.configs.set(series, c);
     return c;

@@ -1,16 +1,17 @@
-import { ChangeDetectionStrategy, Component, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import type { VisitSummary as Summary } from '../../../../shared/schemas/field';
-import { toApiError } from '../../core/api-errors';
+import { errorMessage, localCopy } from '../../core/resource-state';
 import { ReadingsApi } from '../readings-chart/readings-api';
 import { ReadingsChart } from '../readings-chart/readings-chart';
-import { StatusMark } from '../readings-chart/status-mark';
+import { ReadingStatusMark } from '../../ui/status/reading-status';
 
 /** A completed visit in plain words, with the home's readings over time. */
 @Component({
   selector: 'sw-visit-summary',
-  imports: [MatIconModule, RouterLink, ReadingsChart, StatusMark],
+  imports: [MatIconModule, RouterLink, ReadingsChart, ReadingStatusMark],
   templateUrl: './visit-summary.html',
   styleUrl: './visit-summary.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -19,25 +20,9 @@ export class VisitSummary {
   private readonly api = inject(ReadingsApi);
   /** Route parameter. */
   readonly id = input.required<string>();
-  protected readonly summary = signal<Summary | null>(null);
-  protected readonly error = signal<string | null>(null);
-
-  constructor() {
-    effect(() => {
-      const id = this.id();
-      untracked(() => void this.load(id));
-    });
-  }
-
-  private async load(id: string): Promise<void> {
-    this.error.set(null);
-    try {
-      this.summary.set(await this.api.visitSummary(id));
-    } catch (err) {
-      const e = toApiError(err);
-      this.error.set(e.status === 404 ? 'We could not find a finished visit with that link.' : e.message);
-    }
-  }
+  private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.visitSummary(params) });
+  protected readonly summary = localCopy<Summary>(this.read);
+  protected readonly error = errorMessage(this.read, (e) => (e.status === 404 ? 'We could not find a finished visit with that link.' : e.message));
 
   protected longDay(iso: string): string {
     return new Date(`${iso}T12:00:00`).toLocaleDateString('en-US', { weekday: 'long', month: 'long', day: 'numeric', year: 'numeric' });

@@ -6,7 +6,7 @@ const WORDS: Record<ReadingStatus, string> = { ok: 'In range', watch: 'Check', a
 
 /** A reading's status as an icon and a word, never colour alone. */
 @Component({
-  selector: 'sw-status-mark',
+  selector: 'sw-reading-status',
   imports: [MatIconModule],
   template: `<mat-icon [svgIcon]="'status-' + status()" aria-hidden="true" /><span>{{ word() }}</span>`,
   styles: `
@@ -19,7 +19,7 @@ const WORDS: Record<ReadingStatus, string> = { ok: 'In range', watch: 'Check', a
   host: { '[class]': 'status()' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class StatusMark {
+export class ReadingStatusMark {
   readonly status = input.required<ReadingStatus>();
   readonly label = input<string>();
   protected readonly word = computed(() => this.label() ?? WORDS[this.status()]);

@@ -1,7 +1,7 @@
 import { TestBed } from '@angular/core/testing';
-import { provideIcons } from '../../ui/icons';
+import { provideIcons } from '../icons';
 import { provideHttpClient } from '@angular/common/http';
-import { AgreementStatusBadge } from './agreement-status';
+import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 
 describe('AgreementStatusBadge', () => {
   it('shows a word and an icon for every status, never colour alone', async () => {
