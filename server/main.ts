@@ -8,7 +8,7 @@ import { createStripe } from './integrations/stripe';
 import { createStorage } from './integrations/storage';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
-import type { Services } from './services';
+import type { AppDeps } from './deps';
 
 const config = loadConfig();
 const logger = pino({ level: config.LOG_LEVEL, redact: ['password', 'token', '*.password', '*.token'] });
@@ -16,7 +16,11 @@ const logger = pino({ level: config.LOG_LEVEL, redact: ['password', 'token', '*.
 await runMigrations(config.DATABASE_URL);
 const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
 const jobs = new Jobs(config.DATABASE_URL, logger);
-const services: Services = {
+const deps: AppDeps = {
+  config,
+  database,
+  clock: () => new Date(),
+  logger,
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
   jobs,
   stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
@@ -34,7 +38,6 @@ const services: Services = {
       : undefined,
   }),
 };
-const deps = { config, database, clock: () => new Date(), logger, services };
 registerJobs(deps);
 await jobs.start({ work: config.RUN_JOBS });
 const app = createApp(deps);

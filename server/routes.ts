@@ -1,5 +1,5 @@
 import type { Router } from 'express';
-import type { AppDeps } from './app';
+import type { AppDeps } from './deps';
 import { agreementRoutes } from './agreements/agreements.routes';
 import { billingRoutes } from './billing/billing.routes';
 import { planRoutes } from './plans/plans.routes';

@@ -154,7 +154,7 @@ let tech: Signed;
 beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0 });
   mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Bluestem Comfort <office@bluestem-comfort.test>' });
-  ctx = testApp({ services: { mailer }, env: { STORAGE_DIR: mkdtempSync(join(tmpdir(), 'sw-field-')) } });
+  ctx = testApp({ mailer, env: { STORAGE_DIR: mkdtempSync(join(tmpdir(), 'sw-field-')) } });
   f = await fixture(ctx);
   tech = await signInStaff(ctx, f.techEmail);
 });

@@ -15,7 +15,7 @@ describe('seasonal reminder campaigns', () => {
   beforeAll(async () => {
     smtp = await startSmtpCatcher({ port: 0 });
     const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${smtp.port}`, from: 'Bluestem <office@bluestem-comfort.test>' });
-    ctx = testApp({ services: { mailer } });
+    ctx = testApp({ mailer });
   });
   afterAll(async () => {
     await ctx.close();

@@ -5,6 +5,7 @@ import { hash } from '@node-rs/argon2';
 import { performance } from 'node:perf_hooks';
 import { pino } from 'pino';
 import { createApp } from '../../server/app';
+import { localFakes } from '../../test/support/fakes';
 import { loadConfig } from '../../server/config';
 import { createDatabase } from '../../server/db/client';
 import { listCustomers } from '../../server/customers/customers.service';
@@ -121,7 +122,7 @@ async function measure(label: string, agent: Awaited<ReturnType<typeof signInSta
 try {
   await generate();
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: URL_, LOG_LEVEL: 'silent' });
-  const app = createApp({ config, database, clock: () => new Date(), logger: pino({ level: 'silent' }), services: {} });
+  const app = createApp({ config, database, clock: () => new Date(), logger: pino({ level: 'silent' }), ...localFakes() });
   const { agent } = await signInStaff(app, 'bench.office@example.test', PASSWORD);
   const terms = await searchTerms();
   const withIndex = await measure('with trigram index', agent, terms);

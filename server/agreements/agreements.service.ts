@@ -4,12 +4,12 @@ import { formatUsd } from '../../shared/money';
 import { addDays, daysBetween, DEFAULT_GRACE_DAYS, lapseDate, lastCoveredDay, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
 import type { AgreementView, EnrollInput, PlanView } from '../../shared/schemas/plans';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
-import { ensureStripeCustomer, insertInvoice, invoiceView, providerError, recordOfflinePayment, startInvoiceCheckout, stripeOf } from '../billing/billing.service';
+import { ensureStripeCustomer, insertInvoice, invoiceView, providerError, recordOfflinePayment, startInvoiceCheckout } from '../billing/billing.service';
 import { companySettings, localDate } from '../billing/today';
 import { currentVersion, planViewOf } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from './terms';
@@ -291,7 +291,7 @@ async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: bo
   const customer = await ensureStripeCustomer(deps, a.customerId);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const metadata = { agreementId: a.id, enableAutoRenew: String(enableAutoRenew) };
-  const s = await stripeOf(deps).checkout.sessions.create({
+  const s = await deps.stripe.checkout.sessions.create({
     mode: 'setup',
     customer,
     metadata,

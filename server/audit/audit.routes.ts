@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { auditQuerySchema } from '../../shared/schemas/auth';

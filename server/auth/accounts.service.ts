@@ -1,5 +1,5 @@
 import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { recordAudit } from '../audit/audit.service';
 import { customers, signInLinks, technicians, users } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';

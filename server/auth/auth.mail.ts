@@ -1,19 +1,12 @@
 import type { Logger } from 'pino';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Mailer } from '../integrations/mail';
-
-const mailerOf = (deps: AppDeps): Mailer | undefined => deps.services?.mailer;
 
 export const linkUrl = (deps: AppDeps, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
 
 /** Fire-and-forget: the answer to the requester never waits on (or reveals) delivery. */
 function deliver(deps: AppDeps, log: Logger | undefined, message: Parameters<Mailer['send']>[0]): void {
-  const mailer = mailerOf(deps);
-  if (!mailer) {
-    (log ?? deps.logger).warn('no mailer configured; sign-in e-mail not sent');
-    return;
-  }
-  mailer.send(message).catch((err: unknown) => (log ?? deps.logger).error({ err: (err as Error).message }, 'sign-in e-mail failed'));
+  deps.mailer.send(message).catch((err: unknown) => (log ?? deps.logger).error({ err: (err as Error).message }, 'sign-in e-mail failed'));
 }
 
 export function sendSignInLink(deps: AppDeps, to: { email: string; token: string }, log?: Logger): void {

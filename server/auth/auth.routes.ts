@@ -1,6 +1,6 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { AppError, notFound, parse } from '../http/errors';
 import {
   forgotPasswordSchema,

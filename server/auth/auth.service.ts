@@ -1,5 +1,5 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { recordAudit } from '../audit/audit.service';
 import { users } from '../db/schema';
 import { AppError } from '../http/errors';

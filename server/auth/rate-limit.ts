@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import type { Request, RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit, type IncrementResponse, type Options, type Store } from 'express-rate-limit';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { rateLimitHits } from '../db/schema';
 import { AppError } from '../http/errors';
 

@@ -3,7 +3,7 @@ import { eq, sql } from 'drizzle-orm';
 import { Router, type Request, type Response } from 'express';
 import session from 'express-session';
 import passport from 'passport';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
 import { users } from '../db/schema';
 import { AppError } from '../http/errors';

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { Router } from 'express';
 import { z } from 'zod';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../../shared/schemas/billing';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
 import {

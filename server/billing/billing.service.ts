@@ -11,7 +11,7 @@ import type {
   RefundInput,
 } from '../../shared/schemas/billing';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, billingAccounts, customers, invoiceCounters, invoiceLines, invoices, payments, planVersions, refunds } from '../db/schema';
@@ -24,12 +24,6 @@ type InvoiceRow = typeof invoices.$inferSelect;
 type PaymentRow = typeof payments.$inferSelect;
 
 export const RECEIPT_JOB = 'billing-receipt';
-
-export function stripeOf(deps: AppDeps): Stripe {
-  const stripe = deps.services.stripe;
-  if (!stripe) throw new AppError(503, 'payments_unavailable', 'Card payments are not available right now. Please call the office.');
-  return stripe;
-}
 
 /** Processor outages and refusals become clear API errors; card declines are handled by the caller. */
 export function providerError(e: unknown): unknown {
@@ -293,7 +287,7 @@ export async function ensureStripeCustomer(deps: AppDeps, customerId: string): P
   if (existing) return existing.stripeCustomerId;
   const [c] = await db.select().from(customers).where(eq(customers.id, customerId));
   if (!c) throw notFound('That household');
-  const created = await stripeOf(deps).customers.create(
+  const created = await deps.stripe.customers.create(
     { name: c.name, ...(c.email ? { email: c.email } : {}), metadata: { customerId } },
     { idempotencyKey: `seasonwell-customer-${customerId}` },
   );
@@ -335,7 +329,7 @@ export async function startInvoiceCheckout(deps: AppDeps, invoiceId: string, opt
 }
 
 async function openCheckout(deps: AppDeps, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
-  const stripe = stripeOf(deps);
+  const stripe = deps.stripe;
   const urls = returnUrls(deps, opts.returnPath);
   const { db } = deps.database;
   const [pre] = await db.select().from(invoices).where(eq(invoices.id, invoiceId));
@@ -473,8 +467,7 @@ async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: 
  * nobody pays twice (for example a renewal charged automatically while a Checkout tab was open).
  */
 async function closeOpenCheckouts(deps: AppDeps, invoiceId: string): Promise<void> {
-  const stripe = deps.services.stripe;
-  if (!stripe) return;
+  const { stripe } = deps;
   const open = await deps.database.db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'pending')));
   for (const p of open) {
     if (p.stripeCheckoutSessionId) {
@@ -486,7 +479,7 @@ async function closeOpenCheckouts(deps: AppDeps, invoiceId: string): Promise<voi
 
 /** Reads a Checkout Session back from the processor and records what it says. */
 export async function syncCheckoutSession(deps: AppDeps, sessionId: string): Promise<{ state: 'paid' | 'open' | 'expired' | 'saved' | 'unknown'; invoiceId: string | null }> {
-  const stripe = stripeOf(deps);
+  const stripe = deps.stripe;
   let s: Stripe.Checkout.Session;
   try {
     s = await stripe.checkout.sessions.retrieve(sessionId);
@@ -517,7 +510,7 @@ export async function syncCheckoutSession(deps: AppDeps, sessionId: string): Pro
 }
 
 export async function syncPaymentIntent(deps: AppDeps, paymentIntentId: string): Promise<void> {
-  const pi = await stripeOf(deps).paymentIntents.retrieve(paymentIntentId, { expand: ['payment_method'] });
+  const pi = await deps.stripe.paymentIntents.retrieve(paymentIntentId, { expand: ['payment_method'] });
   if (pi.status === 'succeeded' && pi.metadata?.['invoiceId']) await recordFromPaymentIntent(deps, pi, null);
 }
 
@@ -538,7 +531,7 @@ export async function recordFromPaymentIntent(deps: AppDeps, pi: Stripe.PaymentI
 }
 
 export async function saveAgreementCard(deps: AppDeps, agreementId: string, pm: Stripe.PaymentMethod | string | null, enableAutoRenew: boolean) {
-  const method = typeof pm === 'string' ? await stripeOf(deps).paymentMethods.retrieve(pm) : pm;
+  const method = typeof pm === 'string' ? await deps.stripe.paymentMethods.retrieve(pm) : pm;
   if (!method?.card) return;
   await deps.database.db.transaction(async (tx) => {
     const [a] = await tx.select().from(agreements).where(eq(agreements.id, agreementId)).for('update');
@@ -600,7 +593,7 @@ export async function refundInvoice(deps: AppDeps, user: SessionUser, invoiceId:
   if (payment.method === 'card') {
     if (!payment.stripePaymentIntentId) throw conflict('That card payment has no processor record.');
     try {
-      const r = await stripeOf(deps).refunds.create(
+      const r = await deps.stripe.refunds.create(
         { payment_intent: payment.stripePaymentIntentId, amount: input.amountCents, metadata: { invoiceId, paymentId: payment.id } },
         { idempotencyKey: `seasonwell-refund-${payment.id}-${requestKey}` },
       );
@@ -649,7 +642,7 @@ export async function syncRefunds(deps: AppDeps, paymentIntentId: string): Promi
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.stripePaymentIntentId, paymentIntentId));
   if (!pay) return;
-  const list = await stripeOf(deps).refunds.list({ payment_intent: paymentIntentId, limit: 100 });
+  const list = await deps.stripe.refunds.list({ payment_intent: paymentIntentId, limit: 100 });
   for (const r of list.data) {
     if (r.status !== 'succeeded') continue;
     await applyRefund(deps, { paymentId: pay.id, amountCents: r.amount, stripeRefundId: r.id, reason: r.reason ?? '', actorId: null });
@@ -659,14 +652,8 @@ export async function syncRefunds(deps: AppDeps, paymentIntentId: string): Promi
 // ---------- Receipts ----------
 
 export async function queueReceipt(deps: AppDeps, paymentId: string): Promise<void> {
-  const jobs = deps.services.jobs;
   try {
-    if (jobs) {
-      const id = await jobs.send(RECEIPT_JOB, { paymentId }, { singletonKey: `receipt-${paymentId}` }).catch(() => undefined);
-      if (id !== undefined) return;
-    }
-    const { sendReceipt } = await import('./receipt');
-    await sendReceipt(deps, paymentId);
+    await deps.jobs.send(RECEIPT_JOB, { paymentId }, { singletonKey: `receipt-${paymentId}` });
   } catch (err) {
     // A receipt that fails to send never undoes a recorded payment.
     deps.logger.error({ err, paymentId }, 'receipt e-mail failed');

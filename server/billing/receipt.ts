@@ -3,7 +3,7 @@ import { createRequire } from 'node:module';
 import PDFDocument from 'pdfkit';
 import { formatUsd } from '../../shared/money';
 import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../../shared/schemas/billing';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { customers, payments } from '../db/schema';
 import { renderEmail } from '../integrations/mail';
 import { invoiceView } from './billing.service';
@@ -93,8 +93,7 @@ export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, fo
 
 /** E-mails the receipt with the invoice PDF. The Message-ID is fixed per payment, so a retried job is recognisable. */
 export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<void> {
-  const mailer = deps.services.mailer;
-  if (!mailer) return;
+  const { mailer } = deps;
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.id, paymentId));
   if (!pay || pay.status !== 'succeeded') return;

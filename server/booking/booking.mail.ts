@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
 import { renderEmail, type MailAttachment } from '../integrations/mail';
@@ -69,8 +69,8 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
 
 /** Sends the visit e-mail if a mailer is wired and the household has an address; a mail failure never undoes the booking. */
 export async function sendVisitMail(deps: AppDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
-  const mailer = deps.services.mailer;
-  if (!mailer || !v.customerEmail) return false;
+  const mailer = deps.mailer;
+  if (!v.customerEmail) return false;
   try {
     const mail = composeVisitMail(kind, v, c, deps.config.publicUrl);
     await mailer.send({

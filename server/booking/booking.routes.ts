@@ -1,7 +1,7 @@
 import { Router, type Response } from 'express';
 import { z } from 'zod';
 import { bookVisitSchema, cancelSchema, rescheduleSchema, windowsQuerySchema, type WindowFullBody } from '../../shared/schemas/booking';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { authoriseVisit, bookingOptions, bookVisit, cancelVisit, myVisits, rescheduleVisit, visitDetail, windowsFor, WindowFullError } from './booking.service';

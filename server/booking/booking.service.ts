@@ -24,7 +24,7 @@ import {
 } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { VisitReason } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, visitEvents, visits } from '../db/schema';

@@ -1,5 +1,5 @@
 import { and, gt, inArray, isNull, lte } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { visits } from '../db/schema';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
@@ -31,7 +31,7 @@ export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
 }
 
 export function registerBookingJobs(deps: AppDeps): void {
-  deps.services.jobs?.register(REMINDER_JOB, async () => {
+  deps.jobs.register(REMINDER_JOB, async () => {
     await sendDayBeforeReminders(deps);
   }, { cron: '15 * * * *' });
 }

@@ -9,7 +9,7 @@ import {
   propertyInputSchema,
   propertyUpdateSchema,
 } from '../../shared/schemas/customers';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { exportCustomersCsv } from '../imports/csv.service';

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { homeContactSchema, homeNoteSchema } from '../../shared/schemas/customers';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { addMyNote, myHome, updateMyAccess, updateMyContact } from './my-home.service';

@@ -13,7 +13,7 @@ import {
 } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { sendVisitMail } from '../booking/booking.mail';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';

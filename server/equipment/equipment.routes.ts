@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { equipmentInputSchema, equipmentUpdateSchema } from '../../shared/schemas/equipment';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { createEquipment, getEquipment, listPropertyEquipment, setEquipmentArchived, updateEquipment } from './equipment.service';

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { completeVisitSchema, saveChecklistSchema, saveReadingsSchema, troubleshootingSchema, visitNotesSchema } from '../../shared/schemas/field';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { notFound, parse } from '../http/errors';
 import { completeVisit, fieldVisit, saveChecklist, saveNotes, saveReadings, saveTroubleshooting, todayVisits } from './field.service';
@@ -58,7 +58,7 @@ export function fieldRoutes(deps: AppDeps): Router {
     res.json(
       await completeVisit(db, currentUser(req), id, body, {
         now: deps.clock(),
-        mailer: deps.services?.mailer,
+        mailer: deps.mailer,
         publicUrl: deps.config.publicUrl,
         log: req.log ?? deps.logger,
       }),

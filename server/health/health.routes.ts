@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { databaseIsUp } from './health.service';
 
 export function healthRoutes(deps: AppDeps): Router {

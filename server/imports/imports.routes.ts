@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { importMappingSchema } from '../../shared/schemas/customers';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';
 import { companyToday } from '../customers/today';
 import { AppError, parse } from '../http/errors';

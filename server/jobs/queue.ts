@@ -10,12 +10,22 @@ interface Registration {
   options?: PgBoss.Queue;
 }
 
+export type JobOptions = { cron?: string; queue?: PgBoss.Queue };
+
+/** What features need from the job queue: pg-boss in main.ts, run-at-once in tests (inline.ts). */
+export interface JobQueue {
+  /** Register a queue and its handler before start; `cron` schedules it. */
+  register<T extends object>(name: string, handler: JobHandler<T>, opts?: JobOptions): void;
+  /** Queue one job; resolves with its id, or null when a job with the same singletonKey is waiting. */
+  send<T extends object>(name: string, data: T, options?: PgBoss.SendOptions): Promise<string | null>;
+}
+
 /**
  * Long work (renewals, campaigns, webhook processing, e-mail) runs as pg-boss jobs in PostgreSQL,
  * so several API and worker processes can share one database. Features register their queues
  * before start(); send() works once started.
  */
-export class Jobs {
+export class Jobs implements JobQueue {
   private boss: PgBoss | null = null;
   private readonly registrations: Registration[] = [];
 
@@ -26,7 +36,7 @@ export class Jobs {
   ) {}
 
   /** Register a queue and its handler; `cron` schedules it (in the company's time zone). */
-  register<T extends object>(name: string, handler: JobHandler<T>, opts: { cron?: string; queue?: PgBoss.Queue } = {}): void {
+  register<T extends object>(name: string, handler: JobHandler<T>, opts: JobOptions = {}): void {
     this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue });
   }
 

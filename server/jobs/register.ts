@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { registerBillingJobs } from '../billing/billing.jobs';
 import { registerBookingJobs } from '../booking/reminders';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
@@ -6,7 +6,7 @@ import { registerReminderJobs } from '../reminders/reminders.service';
 
 /**
  * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
- * register function calls deps.services.jobs.register(name, handler, { cron }).
+ * register function calls deps.jobs.register(name, handler, { cron }).
  */
 export function registerJobs(deps: AppDeps): void {
   registerBillingJobs(deps);

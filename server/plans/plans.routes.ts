@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { createPlanSchema, planActiveSchema, planTermsSchema } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
 import { createPlan, listPlans, planVersionsOf, setPlanActive, updatePlan } from './plans.service';

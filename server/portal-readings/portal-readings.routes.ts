@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireUser } from '../auth/access';
 import { notFound } from '../http/errors';
 import { homeownerVisitSummary, propertyReadings } from './portal-readings.service';

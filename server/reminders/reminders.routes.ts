@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/reminders';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './reminders.service';

@@ -3,7 +3,7 @@ import { DateTime } from 'luxon';
 import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/reminders';
 import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/reminders';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
 import { agreements, company, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
@@ -88,9 +88,7 @@ export async function createCampaign(deps: AppDeps, user: SessionUser, kind: Rem
     await tx.insert(reminderSends).values(preview.audience.map((r) => ({ campaignId: campaign!.id, customerId: r.customerId, kind, email: r.email, reason: r.reason })));
     return campaign!.id;
   });
-  const jobs = deps.services.jobs;
-  if (jobs) await jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
-  else await sendCampaign(deps, campaignId);
+  await deps.jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
   return campaignSummary(db, campaignId);
 }
 
@@ -99,8 +97,7 @@ export async function createCampaign(deps: AppDeps, user: SessionUser, kind: Rem
  * workers never send the same one, and each message carries a stable Message-ID per send.
  */
 export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<void> {
-  const { mailer } = deps.services;
-  if (!mailer) throw new Error('no mailer configured: cannot send reminders');
+  const { mailer } = deps;
   const db = deps.database.db;
   const info = await companyInfo(db);
   for (;;) {
@@ -161,7 +158,7 @@ export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCa
 }
 
 export function registerReminderJobs(deps: AppDeps): void {
-  deps.services.jobs?.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
+  deps.jobs.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
 }
 
 export { REMINDER_KINDS };

@@ -12,9 +12,9 @@ import {
   renewalWindowOpens,
   type RenewalNotice,
 } from '../../shared/renewals';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { agreements, customers, plans, planVersions, renewalNotices } from '../db/schema';
-import { ensureStripeCustomer, recordFromPaymentIntent, stripeOf } from '../billing/billing.service';
+import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/billing.service';
 import { companySettings } from '../billing/today';
 import { renderEmail } from '../integrations/mail';
 import { paymentErrorMessage } from '../integrations/stripe';
@@ -159,7 +159,7 @@ export async function chargeRenewal(deps: AppDeps, id: string, today: string, at
   if (!prepared) return true;
   const { invoice, agreement } = prepared;
   if (invoice.status !== 'open') return true;
-  const stripe = stripeOf(deps);
+  const stripe = deps.stripe;
   const customer = await ensureStripeCustomer(deps, agreement.customerId);
   const key = `${idempotencyKeyForRenewal(agreement.id, invoice.termStartsOn ?? agreement.endsOn)}-attempt-${attempt}`;
   let pi: Stripe.PaymentIntent;
@@ -239,7 +239,7 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
     .onConflictDoNothing()
     .returning({ id: renewalNotices.id });
   if (claim.length === 0) return false;
-  if (!h.email || !deps.services.mailer) return true;
+  if (!h.email) return true;
   const company = await companySettings(db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const lastDay = new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${a.endsOn}T00:00:00Z`));
@@ -257,7 +257,7 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
     footer: `${company.name} · ${company.phone}`,
   });
   try {
-    await deps.services.mailer.send({
+    await deps.mailer.send({
       to: h.email,
       subject: auto ? `Your agreement renews automatically on ${lastDay}` : `Time to renew: your agreement ends on ${lastDay}`,
       text: body.text,
@@ -281,7 +281,7 @@ async function renewalPrice(deps: AppDeps, a: typeof agreements.$inferSelect): P
 
 async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: number, message: string) {
   const h = await householdOf(deps, agreementId);
-  if (!h?.email || !deps.services.mailer) return;
+  if (!h?.email) return;
   const a = h.agreement;
   const company = await companySettings(deps.database.db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
@@ -299,7 +299,7 @@ async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: numb
     footer: `${company.name} · ${company.phone}`,
   });
   try {
-    await deps.services.mailer.send({
+    await deps.mailer.send({
       to: h.email,
       subject: 'Action needed: your agreement renewal payment was declined',
       text: body.text,
@@ -315,17 +315,9 @@ async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: numb
 export async function queueRenewalNotices(deps: AppDeps, agreementIds: string[], sentById: string): Promise<{ queued: number }> {
   const { db } = deps.database;
   const found = await db.select({ id: agreements.id }).from(agreements).where(inArray(agreements.id, agreementIds));
-  const jobs = deps.services.jobs;
   let queued = 0;
   for (const { id } of found) {
-    let viaQueue = false;
-    if (jobs) {
-      viaQueue = await jobs
-        .send(RENEWAL_NOTICE_JOB, { agreementId: id, sentById })
-        .then(() => true)
-        .catch(() => false);
-    }
-    if (!viaQueue) await sendRenewalNotice(deps, id, { sentById });
+    await deps.jobs.send(RENEWAL_NOTICE_JOB, { agreementId: id, sentById });
     queued++;
   }
   await Promise.all(found.map(({ id }) => db.transaction((tx) => recordHistory(tx, { agreementId: id, event: 'notice_requested', actorId: sentById }))));

@@ -3,7 +3,7 @@ import Papa from 'papaparse';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { addDays, daysBetween } from '../../shared/renewals';
 import { RENEWAL_VIEWS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { agreements, agreementTerms, customers, invoices, plans, planVersions, renewalNotices } from '../db/schema';
 import { today as companyToday } from '../agreements/agreements.service';
 

@@ -4,7 +4,7 @@ import { DateTime } from 'luxon';
 import type { WeekResponse } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { loadCompanySettings } from '../booking/scheduling-input';
 import { addressOf, toView, visitRows } from '../booking/visit-views';
 import { technicianFeed } from '../integrations/calendar';

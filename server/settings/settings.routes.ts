@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { companySettingsSchema } from '../../shared/schemas/settings';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { getCompanySettings, updateCompanySettings } from './settings.service';

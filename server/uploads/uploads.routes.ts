@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';
 import { forbidden, notFound, parse } from '../http/errors';
-import { createLocalStorage, StoredObjectMissing, type Storage } from '../integrations/storage';
+import { StoredObjectMissing } from '../integrations/storage';
 import { multipart } from './multipart';
 import { archiveFile, fileFor, storeUploads, uploadTargetSchema } from './uploads.service';
 
@@ -16,7 +16,7 @@ export function contentDisposition(kind: 'inline' | 'attachment', name: string):
 export function uploadRoutes(deps: AppDeps): Router {
   const r = Router();
   const { db } = deps.database;
-  const storage: Storage = deps.services.storage ?? createLocalStorage(deps.config.STORAGE_DIR);
+  const { storage } = deps;
 
   r.post('/', requireUser, multipart('files'), async (req, res) => {
     const user = currentUser(req);

@@ -1,6 +1,6 @@
 import { eq } from 'drizzle-orm';
 import type Stripe from 'stripe';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { stripeEvents } from '../db/schema';
 import { syncCheckoutSession, syncPaymentIntent, syncRefunds } from '../billing/billing.service';
 
@@ -49,15 +49,7 @@ export async function processStoredEvent(deps: AppDeps, eventId: string): Promis
   await db.update(stripeEvents).set({ processedAt: deps.clock(), error: null }).where(eq(stripeEvents.id, eventId));
 }
 
-/** Hands a stored event to the job queue; without a running queue (tests, one-off tools) works it now. */
+/** Hands a stored event to the job queue, which retries it when processing fails. */
 export async function dispatchEvent(deps: AppDeps, eventId: string): Promise<void> {
-  const jobs = deps.services.jobs;
-  if (jobs) {
-    const sent = await jobs
-      .send(STRIPE_EVENT_JOB, { eventId }, { singletonKey: eventId })
-      .then(() => true)
-      .catch(() => false);
-    if (sent) return;
-  }
-  await processStoredEvent(deps, eventId);
+  await deps.jobs.send(STRIPE_EVENT_JOB, { eventId }, { singletonKey: eventId });
 }
