@@ -130,7 +130,7 @@ try {
   const sqlTimes: number[] = [];
   for (let i = 0; i < REQUESTS; i++) {
     const start = performance.now();
-    await listCustomers(database.db, customerListQuerySchema.parse({ q: terms[i % terms.length], pageSize: 25 }));
+    await listCustomers({ database }, customerListQuerySchema.parse({ q: terms[i % terms.length], pageSize: 25 }));
     sqlTimes.push(performance.now() - start);
   }
   const sqlOnly = stats(sqlTimes);
@@ -144,7 +144,7 @@ try {
     client.release();
     for (const t of [terms[0]!, terms[2]!, terms[3]!]) {
       console.log(`--- ${t}`);
-      await listCustomers(one.db, customerListQuerySchema.parse({ q: t, pageSize: 25 }));
+      await listCustomers({ database: one }, customerListQuerySchema.parse({ q: t, pageSize: 25 }));
     }
     await one.close();
   }

@@ -18,7 +18,7 @@ type AgreementRow = typeof agreements.$inferSelect;
 type PlanVersionRow = typeof planVersions.$inferSelect;
 type PlanRow = typeof plans.$inferSelect;
 
-export async function today(deps: AppDeps, db: Db | Tx = deps.database.db): Promise<string> {
+export async function today(deps: Pick<AppDeps, 'database' | 'clock'>, db: Db | Tx = deps.database.db): Promise<string> {
   const s = await companySettings(db);
   return localDate(deps.clock(), s.timeZone);
 }
@@ -54,7 +54,7 @@ async function planAndVersion(tx: Db | Tx, versionId: string) {
 
 // ---------- Views ----------
 
-export async function agreementView(deps: AppDeps, db: Db | Tx, a: AgreementRow, todayIso: string): Promise<AgreementView> {
+export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: string): Promise<AgreementView> {
   const [c] = await db.select({ name: customers.name }).from(customers).where(eq(customers.id, a.customerId));
   const [p] = await db.select().from(properties).where(eq(properties.id, a.propertyId));
   const sold = await planAndVersion(db, a.planVersionId);
@@ -95,16 +95,16 @@ export async function agreementView(deps: AppDeps, db: Db | Tx, a: AgreementRow,
   };
 }
 
-export async function myAgreements(deps: AppDeps, user: SessionUser): Promise<AgreementView[]> {
+export async function myAgreements(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<AgreementView[]> {
   const { db } = deps.database;
   if (!user.customerId) return [];
   const rows = await db.select().from(agreements).where(eq(agreements.customerId, user.customerId)).orderBy(desc(agreements.createdAt));
   const t = await today(deps);
-  return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(deps, db, r, t)));
+  return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(db, r, t)));
 }
 
 /** The household's homes, for choosing where a new agreement applies. */
-export async function myProperties(deps: AppDeps, user: SessionUser) {
+export async function myProperties(deps: Pick<AppDeps, 'database'>, user: SessionUser) {
   if (!user.customerId) return [];
   const { db } = deps.database;
   const rows = await db.select().from(properties).where(and(eq(properties.customerId, user.customerId), isNull(properties.archivedAt)));
@@ -120,15 +120,15 @@ export async function myProperties(deps: AppDeps, user: SessionUser) {
   }));
 }
 
-export async function readAgreement(deps: AppDeps, user: SessionUser, id: string): Promise<AgreementView> {
+export async function readAgreement(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<AgreementView> {
   const { db } = deps.database;
   const [a] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a) throw notFound('That agreement');
   await assertCustomerAccess(db, user, a.customerId);
-  return agreementView(deps, db, a, await today(deps));
+  return agreementView(db, a, await today(deps));
 }
 
-async function ownAgreement(deps: AppDeps, user: SessionUser, id: string): Promise<AgreementRow> {
+async function ownAgreement(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<AgreementRow> {
   const { db } = deps.database;
   const [a] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a) throw notFound('That agreement');
@@ -139,7 +139,7 @@ async function ownAgreement(deps: AppDeps, user: SessionUser, id: string): Promi
 // ---------- Enrolling ----------
 
 /** A pending agreement and its first invoice; the Checkout payment makes it active. */
-export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
+export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
   const { db } = deps.database;
   const [prop] = await db.select().from(properties).where(eq(properties.id, input.propertyId));
   if (!prop || prop.archivedAt) throw new AppError(422, 'validation_failed', 'That property was not found.', { propertyId: 'That property was not found.' });
@@ -196,7 +196,7 @@ export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInpu
  * The open renewal invoice for the agreement's next term, created once. Renewal is at the
  * plan's current price (a new term is a new sale); the term already sold is never repriced.
  */
-export async function ensureRenewalInvoice(deps: AppDeps, tx: Tx, agreementId: string, todayIso: string) {
+export async function ensureRenewalInvoice(deps: Pick<AppDeps, 'clock'>, tx: Tx, agreementId: string, todayIso: string) {
   const a = await lockAgreement(tx, agreementId);
   const [existing] = await tx
     .select()
@@ -233,7 +233,7 @@ function assertRenewable(a: AgreementRow, todayIso: string) {
   }
 }
 
-export async function renewOnline(deps: AppDeps, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
+export async function renewOnline(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
   const a0 = await ownAgreement(deps, user, id);
   const t = await today(deps);
   assertRenewable(a0, t);
@@ -243,7 +243,7 @@ export async function renewOnline(deps: AppDeps, user: SessionUser, id: string, 
 }
 
 /** The office records a check or cash renewal: renewal invoice, payment, new term, receipt. */
-export async function manualRenewal(deps: AppDeps, user: SessionUser, id: string, input: { method: 'check' | 'cash'; reference: string }) {
+export async function manualRenewal(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, user: SessionUser, id: string, input: { method: 'check' | 'cash'; reference: string }) {
   const { db } = deps.database;
   const [a0] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a0) throw notFound('That agreement');
@@ -256,7 +256,7 @@ export async function manualRenewal(deps: AppDeps, user: SessionUser, id: string
 
 // ---------- Automatic renewal and saved card ----------
 
-export async function setAutoRenew(deps: AppDeps, user: SessionUser, id: string, enabled: boolean): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
+export async function setAutoRenew(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, enabled: boolean): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled' || a.status === 'lapsed') throw conflict('Automatic renewal is only for a current agreement.');
   if (enabled && !a.stripePaymentMethodId) {
@@ -273,13 +273,13 @@ export async function setAutoRenew(deps: AppDeps, user: SessionUser, id: string,
   return { agreement: await readAgreement(deps, user, id) };
 }
 
-export async function updateCard(deps: AppDeps, user: SessionUser, id: string): Promise<{ checkoutUrl: string }> {
+export async function updateCard(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, user: SessionUser, id: string): Promise<{ checkoutUrl: string }> {
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled') throw conflict('This agreement is canceled.');
   return startCardSetup(deps, a, false);
 }
 
-async function startCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
+async function startCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
   try {
     return await openCardSetup(deps, a, enableAutoRenew);
   } catch (e) {
@@ -287,7 +287,7 @@ async function startCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: b
   }
 }
 
-async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
+async function openCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
   const customer = await ensureStripeCustomer(deps, a.customerId);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const metadata = { agreementId: a.id, enableAutoRenew: String(enableAutoRenew) };
@@ -310,7 +310,7 @@ async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: bo
  * tier takes effect when its invoice is paid; a cheaper one takes effect now and the difference is
  * credited against the next renewal.
  */
-export async function changeTier(deps: AppDeps, user: SessionUser, id: string, input: { planId: string; changeDate?: string }) {
+export async function changeTier(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: { planId: string; changeDate?: string }) {
   const { db } = deps.database;
   const t = await today(deps);
   const changeDate = input.changeDate ?? t;
@@ -355,7 +355,7 @@ export async function changeTier(deps: AppDeps, user: SessionUser, id: string, i
   return { ...result, agreement: await readAgreement(deps, user, id), invoice: result.invoiceId ? await invoiceView(db, result.invoiceId) : null };
 }
 
-export async function cancelAgreement(deps: AppDeps, user: SessionUser, id: string, reason: string) {
+export async function cancelAgreement(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, reason: string) {
   await deps.database.db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
     await transition(tx, a, 'canceled', { canceledAt: deps.clock(), autoRenew: false }, { note: reason, actorId: user.id });

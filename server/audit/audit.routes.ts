@@ -10,7 +10,7 @@ export function auditRoutes(deps: AppDeps): Router {
   const router = Router();
   router.get('/', requireRole('owner'), async (req, res) => {
     const q = parse(auditQuerySchema, req.query);
-    res.json(await listAuditEvents(deps.database.db, q));
+    res.json(await listAuditEvents(deps, q));
   });
   return router;
 }

@@ -2,14 +2,14 @@ import type { Logger } from 'pino';
 import type { AppDeps } from '../deps';
 import type { Mailer } from '../integrations/mail';
 
-export const linkUrl = (deps: AppDeps, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
+export const linkUrl = (deps: Pick<AppDeps, 'config'>, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
 
 /** Fire-and-forget: the answer to the requester never waits on (or reveals) delivery. */
-function deliver(deps: AppDeps, log: Logger | undefined, message: Parameters<Mailer['send']>[0]): void {
+function deliver(deps: Pick<AppDeps, 'logger' | 'mailer'>, log: Logger | undefined, message: Parameters<Mailer['send']>[0]): void {
   deps.mailer.send(message).catch((err: unknown) => (log ?? deps.logger).error({ err: (err as Error).message }, 'sign-in e-mail failed'));
 }
 
-export function sendSignInLink(deps: AppDeps, to: { email: string; token: string }, log?: Logger): void {
+export function sendSignInLink(deps: Pick<AppDeps, 'config' | 'logger' | 'mailer'>, to: { email: string; token: string }, log?: Logger): void {
   const url = linkUrl(deps, '/sign-in/confirm', to.token);
   deliver(deps, log, {
     to: to.email,
@@ -18,7 +18,7 @@ export function sendSignInLink(deps: AppDeps, to: { email: string; token: string
   });
 }
 
-export function sendHouseholdInvitation(deps: AppDeps, to: { email: string; name: string; token: string }, log?: Logger): void {
+export function sendHouseholdInvitation(deps: Pick<AppDeps, 'config' | 'logger' | 'mailer'>, to: { email: string; name: string; token: string }, log?: Logger): void {
   const url = linkUrl(deps, '/sign-in/confirm', to.token);
   deliver(deps, log, {
     to: to.email,
@@ -27,7 +27,7 @@ export function sendHouseholdInvitation(deps: AppDeps, to: { email: string; name
   });
 }
 
-export function sendStaffInvitation(deps: AppDeps, to: { email: string; name: string; token: string }, log?: Logger): void {
+export function sendStaffInvitation(deps: Pick<AppDeps, 'config' | 'logger' | 'mailer'>, to: { email: string; name: string; token: string }, log?: Logger): void {
   const url = linkUrl(deps, '/set-password', to.token);
   deliver(deps, log, {
     to: to.email,
@@ -36,7 +36,7 @@ export function sendStaffInvitation(deps: AppDeps, to: { email: string; name: st
   });
 }
 
-export function sendPasswordReset(deps: AppDeps, to: { email: string; token: string }, log?: Logger): void {
+export function sendPasswordReset(deps: Pick<AppDeps, 'config' | 'logger' | 'mailer'>, to: { email: string; token: string }, log?: Logger): void {
   const url = linkUrl(deps, '/set-password', to.token);
   deliver(deps, log, {
     to: to.email,

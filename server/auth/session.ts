@@ -84,7 +84,8 @@ export async function endSession(req: Request, res: Response, deps: AppDeps): Pr
 }
 
 /** Deletes every stored session of a user ("sign out everywhere", disabling). */
-export async function endAllSessions(db: Db, userId: string): Promise<number> {
+export async function endAllSessions(deps: Pick<AppDeps, 'database'>, userId: string): Promise<number> {
+  const { db } = deps.database;
   const result = await db.execute(sql`delete from ${sql.identifier(SESSION_TABLE)} where (sess::jsonb) -> 'passport' ->> 'user' = ${userId}`);
   return result.rowCount ?? 0;
 }

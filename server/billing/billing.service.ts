@@ -117,7 +117,7 @@ async function householdDiscountBps(tx: Tx, customerId: string): Promise<number>
   return rows.reduce((m, r) => Math.max(m, r.bps), 0);
 }
 
-export async function createServiceInvoice(deps: AppDeps, input: CreateInvoiceInput): Promise<InvoiceView> {
+export async function createServiceInvoice(deps: Pick<AppDeps, 'database' | 'clock'>, input: CreateInvoiceInput): Promise<InvoiceView> {
   const { db } = deps.database;
   const id = await db.transaction(async (tx) => {
     const [customer] = await tx.select({ id: customers.id }).from(customers).where(eq(customers.id, input.customerId));
@@ -129,7 +129,7 @@ export async function createServiceInvoice(deps: AppDeps, input: CreateInvoiceIn
   return invoiceView(db, id);
 }
 
-export async function issueInvoice(deps: AppDeps, id: string): Promise<InvoiceView> {
+export async function issueInvoice(deps: Pick<AppDeps, 'database' | 'clock'>, id: string): Promise<InvoiceView> {
   const { db } = deps.database;
   await db.transaction(async (tx) => {
     const inv = await lockInvoice(tx, id);
@@ -140,7 +140,7 @@ export async function issueInvoice(deps: AppDeps, id: string): Promise<InvoiceVi
   return invoiceView(db, id);
 }
 
-export async function voidInvoice(deps: AppDeps, id: string): Promise<InvoiceView> {
+export async function voidInvoice(deps: Pick<AppDeps, 'database' | 'clock'>, id: string): Promise<InvoiceView> {
   const { db } = deps.database;
   await db.transaction(async (tx) => {
     const inv = await lockInvoice(tx, id);
@@ -224,7 +224,7 @@ export const publicNotes = (notes: string) => notes.replace(/\s*\[credit:\d+\]/g
 
 const balanceOf = (inv: InvoiceRow) => (inv.status === 'open' ? Math.max(inv.totalCents - inv.paidCents, 0) : 0);
 
-export async function readInvoice(deps: AppDeps, user: SessionUser, id: string): Promise<InvoiceView> {
+export async function readInvoice(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<InvoiceView> {
   const view = await invoiceView(deps.database.db, id);
   await assertCustomerAccess(deps.database.db, user, view.customerId);
   if (user.role === 'homeowner' && view.status === 'draft') throw notFound('That invoice');
@@ -232,7 +232,7 @@ export async function readInvoice(deps: AppDeps, user: SessionUser, id: string):
 }
 
 export async function listInvoices(
-  deps: AppDeps,
+  deps: Pick<AppDeps, 'database'>,
   user: SessionUser,
   q: { status?: InvoiceStatus; customerId?: string; q?: string; limit: number; offset: number },
 ): Promise<{ total: number; rows: InvoiceSummary[] }> {
@@ -281,7 +281,7 @@ export async function listInvoices(
 
 // ---------- Processor customer ----------
 
-export async function ensureStripeCustomer(deps: AppDeps, customerId: string): Promise<string> {
+export async function ensureStripeCustomer(deps: Pick<AppDeps, 'database' | 'stripe'>, customerId: string): Promise<string> {
   const { db } = deps.database;
   const [existing] = await db.select().from(billingAccounts).where(eq(billingAccounts.customerId, customerId));
   if (existing) return existing.stripeCustomerId;
@@ -305,7 +305,7 @@ export interface CheckoutOptions {
   saveCard?: boolean;
 }
 
-function returnUrls(deps: AppDeps, returnPath: string) {
+function returnUrls(deps: Pick<AppDeps, 'config'>, returnPath: string) {
   if (!/^\/portal(\/[A-Za-z0-9/_-]*)?$/.test(returnPath)) {
     throw new AppError(422, 'validation_failed', 'The return page is not valid.', { returnPath: 'Must be a portal page.' });
   }
@@ -320,7 +320,7 @@ function returnUrls(deps: AppDeps, returnPath: string) {
  * A Checkout page for what is still owed. A second click (or a second tab) while a page is
  * open gets the same page, so one invoice never has two live payment pages at once.
  */
-export async function startInvoiceCheckout(deps: AppDeps, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
+export async function startInvoiceCheckout(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
   try {
     return await openCheckout(deps, invoiceId, opts);
   } catch (e) {
@@ -328,7 +328,7 @@ export async function startInvoiceCheckout(deps: AppDeps, invoiceId: string, opt
   }
 }
 
-async function openCheckout(deps: AppDeps, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
+async function openCheckout(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
   const stripe = deps.stripe;
   const urls = returnUrls(deps, opts.returnPath);
   const { db } = deps.database;
@@ -398,7 +398,7 @@ interface CardPayment {
  * processor (webhook or direct retrieve), never from the browser's redirect. Idempotent by the
  * PaymentIntent id; the invoice row lock orders concurrent calls.
  */
-export async function recordCardPayment(deps: AppDeps, p: CardPayment): Promise<{ recorded: boolean; paymentId: string }> {
+export async function recordCardPayment(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, p: CardPayment): Promise<{ recorded: boolean; paymentId: string }> {
   const { db } = deps.database;
   const now = deps.clock();
   const result = await db.transaction(async (tx) => {
@@ -466,7 +466,7 @@ async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: 
  * Once an invoice is paid, any payment page still open for it is closed at the processor, so
  * nobody pays twice (for example a renewal charged automatically while a Checkout tab was open).
  */
-async function closeOpenCheckouts(deps: AppDeps, invoiceId: string): Promise<void> {
+async function closeOpenCheckouts(deps: Pick<AppDeps, 'database' | 'stripe'>, invoiceId: string): Promise<void> {
   const { stripe } = deps;
   const open = await deps.database.db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'pending')));
   for (const p of open) {
@@ -478,7 +478,7 @@ async function closeOpenCheckouts(deps: AppDeps, invoiceId: string): Promise<voi
 }
 
 /** Reads a Checkout Session back from the processor and records what it says. */
-export async function syncCheckoutSession(deps: AppDeps, sessionId: string): Promise<{ state: 'paid' | 'open' | 'expired' | 'saved' | 'unknown'; invoiceId: string | null }> {
+export async function syncCheckoutSession(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, sessionId: string): Promise<{ state: 'paid' | 'open' | 'expired' | 'saved' | 'unknown'; invoiceId: string | null }> {
   const stripe = deps.stripe;
   let s: Stripe.Checkout.Session;
   try {
@@ -509,12 +509,12 @@ export async function syncCheckoutSession(deps: AppDeps, sessionId: string): Pro
   return { state: s.status === 'expired' ? 'expired' : 'open', invoiceId };
 }
 
-export async function syncPaymentIntent(deps: AppDeps, paymentIntentId: string): Promise<void> {
+export async function syncPaymentIntent(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, paymentIntentId: string): Promise<void> {
   const pi = await deps.stripe.paymentIntents.retrieve(paymentIntentId, { expand: ['payment_method'] });
   if (pi.status === 'succeeded' && pi.metadata?.['invoiceId']) await recordFromPaymentIntent(deps, pi, null);
 }
 
-export async function recordFromPaymentIntent(deps: AppDeps, pi: Stripe.PaymentIntent, sessionId: string | null, source = 'card') {
+export async function recordFromPaymentIntent(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, pi: Stripe.PaymentIntent, sessionId: string | null, source = 'card') {
   const invoiceId = pi.metadata?.['invoiceId'];
   if (!invoiceId) return null;
   const pm = pi.payment_method && typeof pi.payment_method === 'object' ? pi.payment_method : null;
@@ -530,7 +530,7 @@ export async function recordFromPaymentIntent(deps: AppDeps, pi: Stripe.PaymentI
   });
 }
 
-export async function saveAgreementCard(deps: AppDeps, agreementId: string, pm: Stripe.PaymentMethod | string | null, enableAutoRenew: boolean) {
+export async function saveAgreementCard(deps: Pick<AppDeps, 'database' | 'stripe'>, agreementId: string, pm: Stripe.PaymentMethod | string | null, enableAutoRenew: boolean) {
   const method = typeof pm === 'string' ? await deps.stripe.paymentMethods.retrieve(pm) : pm;
   if (!method?.card) return;
   await deps.database.db.transaction(async (tx) => {
@@ -546,7 +546,7 @@ export async function saveAgreementCard(deps: AppDeps, agreementId: string, pm: 
 
 // ---------- Offline payments and refunds ----------
 
-export async function recordOfflinePayment(deps: AppDeps, user: SessionUser, invoiceId: string, input: OfflinePaymentInput): Promise<InvoiceView> {
+export async function recordOfflinePayment(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, user: SessionUser, invoiceId: string, input: OfflinePaymentInput): Promise<InvoiceView> {
   const { db } = deps.database;
   const now = deps.clock();
   const paymentId = await db.transaction(async (tx) => {
@@ -569,7 +569,7 @@ export async function recordOfflinePayment(deps: AppDeps, user: SessionUser, inv
 }
 
 /** Full or partial refund: card payments through the processor, checks and cash recorded as paid back. */
-export async function refundInvoice(deps: AppDeps, user: SessionUser, invoiceId: string, input: RefundInput, requestKey: string): Promise<InvoiceView> {
+export async function refundInvoice(deps: Pick<AppDeps, 'database' | 'stripe'>, user: SessionUser, invoiceId: string, input: RefundInput, requestKey: string): Promise<InvoiceView> {
   const { db } = deps.database;
   const pays = await db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'succeeded')));
   if (pays.length === 0) {
@@ -608,7 +608,7 @@ export async function refundInvoice(deps: AppDeps, user: SessionUser, invoiceId:
 
 /** Records a refund once (by processor refund id) and moves the invoice to refunded or partly refunded. */
 export async function applyRefund(
-  deps: AppDeps,
+  deps: Pick<AppDeps, 'database'>,
   r: { paymentId: string; amountCents: number; stripeRefundId: string | null; reason: string; actorId: string | null },
 ): Promise<boolean> {
   return deps.database.db.transaction(async (tx) => {
@@ -638,7 +638,7 @@ export async function applyRefund(
 }
 
 /** A charge.refunded event: any refund made outside the app (the processor's dashboard) is recorded too. */
-export async function syncRefunds(deps: AppDeps, paymentIntentId: string): Promise<void> {
+export async function syncRefunds(deps: Pick<AppDeps, 'database' | 'stripe'>, paymentIntentId: string): Promise<void> {
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.stripePaymentIntentId, paymentIntentId));
   if (!pay) return;
@@ -651,7 +651,7 @@ export async function syncRefunds(deps: AppDeps, paymentIntentId: string): Promi
 
 // ---------- Receipts ----------
 
-export async function queueReceipt(deps: AppDeps, paymentId: string): Promise<void> {
+export async function queueReceipt(deps: Pick<AppDeps, 'logger' | 'jobs'>, paymentId: string): Promise<void> {
   try {
     await deps.jobs.send(RECEIPT_JOB, { paymentId }, { singletonKey: `receipt-${paymentId}` });
   } catch (err) {

@@ -92,7 +92,7 @@ export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, fo
 }
 
 /** E-mails the receipt with the invoice PDF. The Message-ID is fixed per payment, so a retried job is recognisable. */
-export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<void> {
+export async function sendReceipt(deps: Pick<AppDeps, 'config' | 'database' | 'mailer'>, paymentId: string): Promise<void> {
   const { mailer } = deps;
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.id, paymentId));

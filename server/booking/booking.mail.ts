@@ -68,7 +68,7 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
 }
 
 /** Sends the visit e-mail if a mailer is wired and the household has an address; a mail failure never undoes the booking. */
-export async function sendVisitMail(deps: AppDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
+export async function sendVisitMail(deps: Pick<AppDeps, 'config' | 'logger' | 'mailer'>, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
   const mailer = deps.mailer;
   if (!v.customerEmail) return false;
   try {

@@ -126,7 +126,7 @@ async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: strin
   };
 }
 
-export async function bookingOptions(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<BookingOptions> {
+export async function bookingOptions(deps: Pick<AppDeps, 'database'>, user: SessionUser, customerId: string | undefined): Promise<BookingOptions> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const target = user.role === 'homeowner' ? user.customerId : customerId;
@@ -205,7 +205,7 @@ async function engineInput(
   };
 }
 
-export async function windowsFor(deps: AppDeps, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
+export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
   const { db } = deps.database;
   const property = await propertyContext(db, user, q.propertyId, q.reason);
   if (q.visitId) await visitForChange(db, user, q.visitId, deps.clock());
@@ -245,7 +245,7 @@ export async function loadVisitRow(db: Db | Tx, id: string): Promise<VisitRow> {
   return row;
 }
 
-export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
+export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   const property = await propertyContext(db, user, body.propertyId, body.reason);
@@ -325,7 +325,7 @@ export async function visitFor(db: Db | Tx, user: SessionUser, id: string): Prom
 }
 
 /** Authorisation for a visit route before its body is read: someone else's visit is a 404. */
-export async function authoriseVisit(deps: AppDeps, user: SessionUser, id: string): Promise<void> {
+export async function authoriseVisit(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<void> {
   await visitFor(deps.database.db, user, id);
 }
 
@@ -346,7 +346,7 @@ async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: D
   return row;
 }
 
-export async function myVisits(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
+export async function myVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
   const { db } = deps.database;
   const target = user.role === 'homeowner' ? user.customerId : customerId;
   if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
@@ -358,14 +358,14 @@ export async function myVisits(deps: AppDeps, user: SessionUser, customerId: str
   return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now }));
 }
 
-export async function visitDetail(deps: AppDeps, user: SessionUser, id: string): Promise<VisitView> {
+export async function visitDetail(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<VisitView> {
   const { db } = deps.database;
   const row = await visitFor(db, user, id);
   const c = await loadCompanySettings(db);
   return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() });
 }
 
-export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof rescheduleSchema>): Promise<VisitView> {
+export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>, user: SessionUser, id: string, body: z.output<typeof rescheduleSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   const before = await visitForChange(db, user, id, now);
@@ -421,7 +421,7 @@ export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: stri
   return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
 }
 
-export async function cancelVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
+export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   await db.transaction(async (tx) => {

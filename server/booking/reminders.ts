@@ -11,7 +11,7 @@ export const REMINDER_JOB = 'booking.day-before-reminders';
  * Claims visits whose window opens within the next 24 hours and mails each homeowner once.
  * The claim comes first, so a second worker or a retried run never sends twice.
  */
-export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
+export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>): Promise<number> {
   const { db } = deps.database;
   const now = deps.clock();
   const until = new Date(now.getTime() + 24 * 3_600_000);
@@ -30,7 +30,7 @@ export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
   return sent;
 }
 
-export function registerBookingJobs(deps: AppDeps): void {
+export function registerBookingJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>): void {
   deps.jobs.register(REMINDER_JOB, async () => {
     await sendDayBeforeReminders(deps);
   }, { cron: '15 * * * *' });

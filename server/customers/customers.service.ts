@@ -24,6 +24,7 @@ import { agreements, contacts, customerNotes, customers, files, invoices, planVe
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { companyToday } from './today';
+import type { AppDeps } from '../deps';
 
 type CustomerRow = typeof customers.$inferSelect;
 type PropertyRow = typeof properties.$inferSelect;
@@ -103,7 +104,8 @@ export function searchWhere(q: string | undefined): SQL | undefined {
 const firstProperty = (col: 'street' | 'city') =>
   sql<string | null>`(select p.${sql.raw(col)} from properties p where p.customer_id = "customers"."id" and p.archived_at is null order by p.created_at, p.id limit 1)`;
 
-export async function listCustomers(db: Db, q: CustomerListQuery): Promise<CustomerPage> {
+export async function listCustomers(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<CustomerPage> {
+  const { db } = deps.database;
   const where = and(
     q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? isNotNull(customers.archivedAt) : undefined,
     searchWhere(q.q),
@@ -142,7 +144,8 @@ export async function listCustomers(db: Db, q: CustomerListQuery): Promise<Custo
 
 // ---- Create, read, update ----
 
-export async function createCustomer(db: Db, input: CustomerCreate): Promise<{ id: string; propertyId: string | null }> {
+export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: CustomerCreate): Promise<{ id: string; propertyId: string | null }> {
+  const { db } = deps.database;
   return db
     .transaction(async (tx) => {
       const [c] = await tx.insert(customers).values({ name: input.name, email: input.email, phone: input.phone, notes: input.notes }).returning({ id: customers.id });
@@ -167,7 +170,9 @@ async function customerRow(db: Db | Tx, id: string): Promise<CustomerRow> {
 
 
 /** Everything about one household, with one timeline across its records (newest first). */
-export async function getCustomer(db: Db, id: string, now: Date, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
+export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const c = await customerRow(db, id);
   const today = await companyToday(db, now);
   const [contactRows, propertyRows, agreementRows, visitRows, invoiceRows, noteRows, fileRows] = await Promise.all([
@@ -264,7 +269,8 @@ export async function getCustomer(db: Db, id: string, now: Date, opts: { include
   };
 }
 
-export async function updateCustomer(db: Db, id: string, input: CustomerUpdate): Promise<void> {
+export async function updateCustomer(deps: Pick<AppDeps, 'database'>, id: string, input: CustomerUpdate): Promise<void> {
+  const { db } = deps.database;
   const c = await customerRow(db, id);
   if (c.mergedIntoId) throw conflict('This household was merged into another; edit that one instead.');
   const email = input.email !== undefined ? input.email : c.email;
@@ -278,7 +284,9 @@ export async function updateCustomer(db: Db, id: string, input: CustomerUpdate):
 }
 
 /** Archive hides a household from lists and booking; nothing is deleted, so its history stays. */
-export async function setCustomerArchived(db: Db, id: string, archived: boolean, now: Date): Promise<void> {
+export async function setCustomerArchived(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, archived: boolean): Promise<void> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const c = await customerRow(db, id);
   if (c.mergedIntoId && !archived) throw conflict('This household was merged into another and stays archived.');
   await db
@@ -321,7 +329,9 @@ export interface MergeResult {
  * transaction: properties with their equipment, agreements, visits, invoices, contacts, notes,
  * files and portal sign-ins. The source is archived and points at the target.
  */
-export async function mergeCustomers(db: Db, targetId: string, sourceId: string, user: SessionUser, now: Date): Promise<MergeResult> {
+export async function mergeCustomers(deps: Pick<AppDeps, 'database' | 'clock'>, targetId: string, sourceId: string, user: SessionUser): Promise<MergeResult> {
+  const { db } = deps.database;
+  const now = deps.clock();
   if (targetId === sourceId) throw new AppError(422, 'validation_failed', 'Please check sourceId.', { sourceId: 'Choose a different household to merge in.' });
   return db.transaction(async (tx) => {
     // Lock both in a fixed order so two merges of the same pair cannot deadlock.
@@ -369,7 +379,8 @@ export async function mergeCustomers(db: Db, targetId: string, sourceId: string,
 
 // ---- Contacts and notes ----
 
-export async function addContact(db: Db, customerId: string, input: ContactInput): Promise<Contact> {
+export async function addContact(deps: Pick<AppDeps, 'database'>, customerId: string, input: ContactInput): Promise<Contact> {
+  const { db } = deps.database;
   await customerRow(db, customerId);
   return db.transaction(async (tx) => {
     if (input.isPrimary) await tx.update(contacts).set({ isPrimary: false }).where(eq(contacts.customerId, customerId));
@@ -381,7 +392,8 @@ export async function addContact(db: Db, customerId: string, input: ContactInput
   });
 }
 
-export async function updateContact(db: Db, customerId: string, contactId: string, input: ContactInput): Promise<Contact> {
+export async function updateContact(deps: Pick<AppDeps, 'database'>, customerId: string, contactId: string, input: ContactInput): Promise<Contact> {
+  const { db } = deps.database;
   return db.transaction(async (tx) => {
     if (input.isPrimary) await tx.update(contacts).set({ isPrimary: false }).where(and(eq(contacts.customerId, customerId), ne(contacts.id, contactId)));
     const [row] = await tx
@@ -395,7 +407,8 @@ export async function updateContact(db: Db, customerId: string, contactId: strin
 }
 
 /** A contact has no history of its own, so it may be removed outright. */
-export async function removeContact(db: Db, customerId: string, contactId: string): Promise<void> {
+export async function removeContact(deps: Pick<AppDeps, 'database'>, customerId: string, contactId: string): Promise<void> {
+  const { db } = deps.database;
   const rows = await db
     .delete(contacts)
     .where(and(eq(contacts.id, contactId), eq(contacts.customerId, customerId)))
@@ -403,7 +416,8 @@ export async function removeContact(db: Db, customerId: string, contactId: strin
   if (!rows.length) throw notFound('That contact');
 }
 
-export async function addNote(db: Db, customerId: string, user: SessionUser, input: NoteInput): Promise<Note> {
+export async function addNote(deps: Pick<AppDeps, 'database'>, customerId: string, user: SessionUser, input: NoteInput): Promise<Note> {
+  const { db } = deps.database;
   await customerRow(db, customerId);
   if (input.propertyId) {
     const [p] = await db
@@ -422,7 +436,8 @@ export async function addNote(db: Db, customerId: string, user: SessionUser, inp
 
 // ---- Properties ----
 
-export async function addProperty(db: Db, customerId: string, input: PropertyInput): Promise<Property> {
+export async function addProperty(deps: Pick<AppDeps, 'database'>, customerId: string, input: PropertyInput): Promise<Property> {
+  const { db } = deps.database;
   const c = await customerRow(db, customerId);
   if (c.archivedAt) throw conflict('This household is archived; restore it before adding a property.');
   const [row] = await db
@@ -438,13 +453,16 @@ export async function propertyRow(db: Db | Tx, id: string): Promise<PropertyRow>
   return p;
 }
 
-export async function updateProperty(db: Db, id: string, input: PropertyUpdate): Promise<Property> {
+export async function updateProperty(deps: Pick<AppDeps, 'database'>, id: string, input: PropertyUpdate): Promise<Property> {
+  const { db } = deps.database;
   const [row] = await db.update(properties).set(input).where(eq(properties.id, id)).returning();
   if (!row) throw notFound('That property');
   return toProperty(row);
 }
 
-export async function setPropertyArchived(db: Db, id: string, archived: boolean, now: Date): Promise<Property> {
+export async function setPropertyArchived(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, archived: boolean): Promise<Property> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const [row] = await db
     .update(properties)
     .set({ archivedAt: archived ? now : null })

@@ -23,7 +23,7 @@ import { AppError, notFound } from '../http/errors';
 
 const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
 
-export async function board(deps: AppDeps, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
+export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const start = DateTime.fromISO(q.from, { zone: c.timeZone }).startOf('day');
@@ -87,7 +87,7 @@ function isOverlap(err: unknown): boolean {
 
 /** Skills, time off and working hours: the reasons a technician cannot take this visit. */
 async function checkTechnicianFits(
-  deps: AppDeps,
+  deps: Pick<AppDeps, 'database'>,
   technicianId: string,
   visit: { propertyId: string; reason: Parameters<typeof requiredSkillFor>[1]; startsAt: Date; endsAt: Date },
   timeZone: string,
@@ -132,7 +132,7 @@ async function checkTechnicianFits(
   return tech.name;
 }
 
-export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
+export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -192,7 +192,7 @@ export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, 
 
 const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
 
-export async function changeStatus(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
+export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer'>, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -246,7 +246,7 @@ export async function changeStatus(deps: AppDeps, user: SessionUser, id: string,
   return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
 }
 
-export async function visitHistory(deps: AppDeps, id: string): Promise<VisitEventView[]> {
+export async function visitHistory(deps: Pick<AppDeps, 'database'>, id: string): Promise<VisitEventView[]> {
   const { db } = deps.database;
   await loadVisitRow(db, id);
   const techUsers = db.$with('tech_users').as(
@@ -271,7 +271,7 @@ export async function visitHistory(deps: AppDeps, id: string): Promise<VisitEven
   return rows.map((r) => ({ ...r, at: r.at.toISOString(), actorName: r.actorName ?? null, technicianName: r.technicianName ?? null }));
 }
 
-export async function addTimeOff(deps: AppDeps, body: z.output<typeof timeOffSchema>) {
+export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body: z.output<typeof timeOffSchema>) {
   const { db } = deps.database;
   const [tech] = await db.select({ id: technicians.id }).from(technicians).where(eq(technicians.id, body.technicianId)).limit(1);
   if (!tech) throw new AppError(422, 'validation_failed', 'That technician was not found.', { technicianId: 'not a technician' });
@@ -290,13 +290,13 @@ export async function addTimeOff(deps: AppDeps, body: z.output<typeof timeOffSch
   };
 }
 
-export async function removeTimeOff(deps: AppDeps, id: string): Promise<void> {
+export async function removeTimeOff(deps: Pick<AppDeps, 'database'>, id: string): Promise<void> {
   const rows = await deps.database.db.delete(technicianTimeOff).where(eq(technicianTimeOff.id, id)).returning({ id: technicianTimeOff.id });
   if (!rows.length) throw notFound('That time off');
 }
 
 /** Households for the office booking a caller: by name, e-mail, phone or street. */
-export async function findHouseholds(deps: AppDeps, q: string) {
+export async function findHouseholds(deps: Pick<AppDeps, 'database'>, q: string) {
   const term = `%${q.replace(/[\\%_]/g, (m) => `\\${m}`)}%`;
   const digits = q.replace(/\D/g, '');
   return deps.database.db

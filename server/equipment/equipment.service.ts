@@ -9,6 +9,7 @@ import type { Db, Tx } from '../db/client';
 import { equipment, properties } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { companyToday } from '../customers/today';
+import type { AppDeps } from '../deps';
 
 export type EquipmentRow = typeof equipment.$inferSelect;
 
@@ -75,7 +76,9 @@ async function equipmentFor(db: Db | Tx, user: SessionUser, id: string) {
   return row;
 }
 
-export async function listPropertyEquipment(db: Db, user: SessionUser, propertyId: string, now: Date, includeArchived = false): Promise<Equipment[]> {
+export async function listPropertyEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, includeArchived = false): Promise<Equipment[]> {
+  const { db } = deps.database;
+  const now = deps.clock();
   await propertyFor(db, user, propertyId);
   const rows = await db
     .select()
@@ -96,7 +99,9 @@ export async function equipmentForProperties(db: Db | Tx, propertyIds: string[],
   return rows.map((r) => toEquipment(r, today));
 }
 
-export async function createEquipment(db: Db, user: SessionUser, propertyId: string, input: EquipmentInput, now: Date): Promise<Equipment> {
+export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, input: EquipmentInput): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const p = await propertyFor(db, user, propertyId);
   if (p.archivedAt) throw new AppError(409, 'archived', 'That property is archived; restore it before adding equipment.');
   const today = await companyToday(db, now);
@@ -108,12 +113,16 @@ export async function createEquipment(db: Db, user: SessionUser, propertyId: str
   return toEquipment(row!, today);
 }
 
-export async function getEquipment(db: Db, user: SessionUser, id: string, now: Date): Promise<Equipment> {
+export async function getEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
   return toEquipment(e, await companyToday(db, now));
 }
 
-export async function updateEquipment(db: Db, user: SessionUser, id: string, input: EquipmentUpdate, now: Date): Promise<Equipment> {
+export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: EquipmentUpdate): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
   const today = await companyToday(db, now);
   assertNotFuture(input.installedOn, today);
@@ -125,7 +134,9 @@ export async function updateEquipment(db: Db, user: SessionUser, id: string, inp
 }
 
 /** Equipment is archived, never deleted: readings, photos and visits still point at it. */
-export async function setEquipmentArchived(db: Db, user: SessionUser, id: string, archived: boolean, now: Date): Promise<Equipment> {
+export async function setEquipmentArchived(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, archived: boolean): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   await equipmentFor(db, user, id);
   const [row] = await db
     .update(equipment)

@@ -17,10 +17,11 @@ import {
   type ImportProblem,
 } from '../../shared/schemas/customers';
 import { BTUH_PER_TON, equipmentInputSchema, type EquipmentInput } from '../../shared/schemas/equipment';
-import type { Db, Tx } from '../db/client';
+import type { Tx } from '../db/client';
 import { customers, equipment, properties } from '../db/schema';
 import { searchWhere } from '../customers/customers.service';
 import { AppError } from '../http/errors';
+import type { AppDeps } from '../deps';
 
 export const MAX_IMPORT_ROWS = 20_000;
 
@@ -318,7 +319,8 @@ class DryRun extends Error {
 }
 
 /** Checks a file and, when every row is good, works out what an import would do (then rolls back). */
-export async function checkImport(db: Db, buf: Buffer, mapping: ImportMapping, today: string): Promise<ImportCheck> {
+export async function checkImport(deps: Pick<AppDeps, 'database'>, buf: Buffer, mapping: ImportMapping, today: string): Promise<ImportCheck> {
+  const { db } = deps.database;
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) return { valid: false, rowCount: table.rows.length, problems, counts: null };
@@ -334,7 +336,8 @@ export async function checkImport(db: Db, buf: Buffer, mapping: ImportMapping, t
 }
 
 /** Imports every row or none: any bad row answers 422 with each problem by row and column. */
-export async function runImport(db: Db, buf: Buffer, mapping: ImportMapping, today: string): Promise<{ rowCount: number; counts: ImportCounts }> {
+export async function runImport(deps: Pick<AppDeps, 'database'>, buf: Buffer, mapping: ImportMapping, today: string): Promise<{ rowCount: number; counts: ImportCounts }> {
+  const { db } = deps.database;
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) {
@@ -360,7 +363,8 @@ export const guard = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
 const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
 
 /** The households of the current list view (search and sort), one row per piece of equipment. */
-export async function exportCustomersCsv(db: Db, q: CustomerListQuery): Promise<string> {
+export async function exportCustomersCsv(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<string> {
+  const { db } = deps.database;
   const where = and(q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? sql`${customers.archivedAt} is not null` : undefined, searchWhere(q.q));
   const order = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city: sql`lower(${properties.city})` }[q.sort];
   const rows = await db

@@ -37,11 +37,11 @@ export function importRoutes(deps: AppDeps): Router {
   });
 
   r.post('/check', csv, async (req, res) => {
-    res.json(await checkImport(db, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
+    res.json(await checkImport(deps, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
   });
 
   r.post('/run', csv, async (req, res) => {
-    res.status(201).json(await runImport(db, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
+    res.status(201).json(await runImport(deps, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
   });
 
   return r;

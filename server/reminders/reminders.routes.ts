@@ -14,11 +14,11 @@ export function reminderRoutes(deps: AppDeps): Router {
 
   router.get('/preview', async (req, res) => {
     const { kind } = parse(reminderPreviewQuerySchema, req.query);
-    res.json(await previewReminders(db, kind, deps.clock()));
+    res.json(await previewReminders(deps, kind));
   });
 
   router.get('/campaigns', async (_req, res) => {
-    res.json({ campaigns: await listCampaigns(db) });
+    res.json({ campaigns: await listCampaigns(deps) });
   });
 
   router.post('/campaigns', async (req, res) => {
@@ -28,7 +28,7 @@ export function reminderRoutes(deps: AppDeps): Router {
 
   router.get('/campaigns/:id', async (req, res) => {
     const { id } = parse(z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) }), req.params);
-    res.json(await campaignSummary(db, id));
+    res.json(await campaignSummary(deps, id));
   });
 
   return router;

@@ -60,7 +60,9 @@ async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: stri
   return [...byCustomer.values()];
 }
 
-export async function previewReminders(db: Db, kind: ReminderKind, now: Date): Promise<ReminderPreview> {
+export async function previewReminders(deps: Pick<AppDeps, 'database' | 'clock'>, kind: ReminderKind): Promise<ReminderPreview> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const info = await companyInfo(db);
   const today = DateTime.fromJSDate(now).setZone(info.timeZone);
   const households = await loadHouseholds(db);
@@ -76,9 +78,9 @@ export async function previewReminders(db: Db, kind: ReminderKind, now: Date): P
  * Creates a campaign and its sends in one transaction, then queues the sending. If the audience
  * changed since the office looked, nothing is created and the new count is reported.
  */
-export async function createCampaign(deps: AppDeps, user: SessionUser, kind: ReminderKind, expectedCount: number): Promise<ReminderCampaignSummary> {
+export async function createCampaign(deps: Pick<AppDeps, 'database' | 'clock' | 'jobs'>, user: SessionUser, kind: ReminderKind, expectedCount: number): Promise<ReminderCampaignSummary> {
   const db = deps.database.db;
-  const preview = await previewReminders(db, kind, deps.clock());
+  const preview = await previewReminders(deps, kind);
   if (preview.audience.length !== expectedCount) {
     throw new AppError(409, 'audience_changed', `The audience changed: ${preview.audience.length} households are due now, not ${expectedCount}. Review the list and send again.`, { expectedCount: `Now ${preview.audience.length}` });
   }
@@ -89,14 +91,14 @@ export async function createCampaign(deps: AppDeps, user: SessionUser, kind: Rem
     return campaign!.id;
   });
   await deps.jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
-  return campaignSummary(db, campaignId);
+  return campaignSummary(deps, campaignId);
 }
 
 /**
  * Sends a campaign's pending reminders in batches. Rows are claimed with SKIP LOCKED, so two
  * workers never send the same one, and each message carries a stable Message-ID per send.
  */
-export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<void> {
+export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer'>, campaignId: string): Promise<void> {
   const { mailer } = deps;
   const db = deps.database.db;
   const info = await companyInfo(db);
@@ -128,13 +130,15 @@ export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<v
   if (left!.n === 0) await db.update(reminderCampaigns).set({ finishedAt: deps.clock() }).where(and(eq(reminderCampaigns.id, campaignId), isNull(reminderCampaigns.finishedAt)));
 }
 
-export async function campaignSummary(db: Db, campaignId: string): Promise<ReminderCampaignSummary> {
-  const list = await listCampaigns(db, campaignId);
+export async function campaignSummary(deps: Pick<AppDeps, 'database'>, campaignId: string): Promise<ReminderCampaignSummary> {
+  const { db } = deps.database;
+  const list = await listCampaigns(deps, campaignId);
   if (!list.length) throw notFound('That reminder campaign');
   return list[0]!;
 }
 
-export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCampaignSummary[]> {
+export async function listCampaigns(deps: Pick<AppDeps, 'database'>, onlyId?: string): Promise<ReminderCampaignSummary[]> {
+  const { db } = deps.database;
   const rows = await db
     .select({
       id: reminderCampaigns.id,
@@ -157,7 +161,7 @@ export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCa
   return rows.map((r) => ({ ...r, label: REMINDER_LABELS[r.kind], createdAt: r.createdAt.toISOString(), finishedAt: r.finishedAt?.toISOString() ?? null }));
 }
 
-export function registerReminderJobs(deps: AppDeps): void {
+export function registerReminderJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'jobs'>): void {
   deps.jobs.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
 }
 

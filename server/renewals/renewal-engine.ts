@@ -79,7 +79,7 @@ export async function runRenewals(deps: AppDeps, opts: RenewalRunOptions = {}): 
   return report;
 }
 
-async function renewOne(deps: AppDeps, id: string, today: string, grace: number, report: RenewalRunReport, opts: RenewalRunOptions) {
+async function renewOne(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, grace: number, report: RenewalRunReport, opts: RenewalRunOptions) {
   const { db } = deps.database;
   // 1. The renewal window opens 60 days before the end.
   await db.transaction(async (tx) => {
@@ -147,7 +147,7 @@ async function renewOne(deps: AppDeps, id: string, today: string, grace: number,
  * agreement, the term it pays for and the attempt number: the same attempt run twice (a
  * crashed job restarted) replays the processor's first answer instead of charging again.
  */
-export async function chargeRenewal(deps: AppDeps, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
+export async function chargeRenewal(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
   const { db } = deps.database;
   const prepared = await db.transaction(async (tx) => {
     const current = await lockAgreement(tx, id);
@@ -192,7 +192,7 @@ export async function chargeRenewal(deps: AppDeps, id: string, today: string, at
   return true;
 }
 
-async function chargeFailed(deps: AppDeps, id: string, today: string, attempt: number, message: string) {
+async function chargeFailed(deps: Pick<AppDeps, 'config' | 'database' | 'logger' | 'mailer'>, id: string, today: string, attempt: number, message: string) {
   const { db } = deps.database;
   const changed = await db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
@@ -213,7 +213,7 @@ async function chargeFailed(deps: AppDeps, id: string, today: string, attempt: n
 
 // ---------- Mail ----------
 
-async function householdOf(deps: AppDeps, agreementId: string) {
+async function householdOf(deps: Pick<AppDeps, 'database'>, agreementId: string) {
   const [row] = await deps.database.db
     .select({ agreement: agreements, email: customers.email, name: customers.name, planName: plans.name })
     .from(agreements)
@@ -228,7 +228,7 @@ async function householdOf(deps: AppDeps, agreementId: string) {
  * Sends one renewal notice. Automatic ones (60/30/7) are claimed with a unique row first, so two
  * runs never both send; the claim is released if the mail fails, so the next run tries again.
  */
-export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts: { daysBefore?: RenewalNotice; sentById?: string } = {}): Promise<boolean> {
+export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database' | 'mailer'>, agreementId: string, opts: { daysBefore?: RenewalNotice; sentById?: string } = {}): Promise<boolean> {
   const { db } = deps.database;
   const h = await householdOf(deps, agreementId);
   if (!h) return false;
@@ -272,14 +272,14 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
 }
 
 /** What the next term costs: the plan's current terms, extra systems, less any credit. */
-async function renewalPrice(deps: AppDeps, a: typeof agreements.$inferSelect): Promise<number> {
+async function renewalPrice(deps: Pick<AppDeps, 'database'>, a: typeof agreements.$inferSelect): Promise<number> {
   const [sold] = await deps.database.db.select().from(planVersions).where(eq(planVersions.id, a.planVersionId));
   const latest = (sold && (await currentVersion(deps.database.db, sold.planId))) ?? sold;
   if (!latest) return a.priceCents;
   return Math.max(termPriceCents(latest, a.systemsCount) - Math.min(a.creditCents, latest.yearlyPriceCents), 0);
 }
 
-async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: number, message: string) {
+async function sendDunningMail(deps: Pick<AppDeps, 'config' | 'database' | 'logger' | 'mailer'>, agreementId: string, attempt: number, message: string) {
   const h = await householdOf(deps, agreementId);
   if (!h?.email) return;
   const a = h.agreement;
@@ -312,7 +312,7 @@ async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: numb
 }
 
 /** Office: queue a notice per agreement (one click or in bulk); the job sends it. */
-export async function queueRenewalNotices(deps: AppDeps, agreementIds: string[], sentById: string): Promise<{ queued: number }> {
+export async function queueRenewalNotices(deps: Pick<AppDeps, 'database' | 'jobs'>, agreementIds: string[], sentById: string): Promise<{ queued: number }> {
   const { db } = deps.database;
   const found = await db.select({ id: agreements.id }).from(agreements).where(inArray(agreements.id, agreementIds));
   let queued = 0;

@@ -41,7 +41,7 @@ export async function renewalBoard(deps: AppDeps, view: RenewalView): Promise<Re
   return { view, counts, rows: await renewalRows(deps, view, today) };
 }
 
-async function renewalRows(deps: AppDeps, view: RenewalView, today: string): Promise<RenewalRow[]> {
+async function renewalRows(deps: Pick<AppDeps, 'database'>, view: RenewalView, today: string): Promise<RenewalRow[]> {
   const { db } = deps.database;
   const lastNotice = db
     .select({ agreementId: renewalNotices.agreementId, at: max(renewalNotices.sentAt).as('last_at') })

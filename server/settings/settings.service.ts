@@ -1,9 +1,9 @@
 import { eq } from 'drizzle-orm';
 import type { CompanySettings } from '../../shared/schemas/settings';
-import type { Db } from '../db/client';
 import { company } from '../db/schema';
 import { recordAudit } from '../audit/audit.service';
 import { notFound } from '../http/errors';
+import type { AppDeps } from '../deps';
 
 const columns = {
   name: company.name,
@@ -23,13 +23,16 @@ const columns = {
   diagnosticFeeCents: company.diagnosticFeeCents,
 };
 
-export async function getCompanySettings(db: Db): Promise<CompanySettings> {
+export async function getCompanySettings(deps: Pick<AppDeps, 'database'>): Promise<CompanySettings> {
+  const { db } = deps.database;
   const [row] = await db.select(columns).from(company).where(eq(company.id, 1));
   if (!row) throw notFound('The company record');
   return row;
 }
 
-export async function updateCompanySettings(db: Db, actorId: string, next: CompanySettings, now: Date): Promise<CompanySettings> {
+export async function updateCompanySettings(deps: Pick<AppDeps, 'database' | 'clock'>, actorId: string, next: CompanySettings): Promise<CompanySettings> {
+  const { db } = deps.database;
+  const now = deps.clock();
   return db.transaction(async (tx) => {
     const [row] = await tx.update(company).set({ ...next, updatedAt: now }).where(eq(company.id, 1)).returning(columns);
     if (!row) throw notFound('The company record');
