@@ -1,5 +1,6 @@
 import { pino } from 'pino';
 import { createApp } from './app';
+import { companyTimeZone } from './company/company';
 import { loadConfig } from './config';
 import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
@@ -39,7 +40,7 @@ const deps: AppDeps = {
   }),
 };
 registerJobs(deps);
-await jobs.start({ work: config.RUN_JOBS });
+await jobs.start({ work: config.RUN_JOBS, timeZone: await companyTimeZone(database.db) });
 const app = createApp(deps);
 
 const server = app.listen(config.PORT, config.HOST, () => {

@@ -3,7 +3,7 @@ import { eq, isNotNull } from 'drizzle-orm';
 import Stripe from 'stripe';
 import { addDays } from '../shared/renewals';
 import { invoices, payments } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { nextInvoiceNumber } from '../server/billing/billing.service';
 import { newHousehold, payOnHostedPage, seedAgreement, staff, startHarness, waitFor, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';

@@ -10,7 +10,7 @@ import type { Db, Tx } from '../db/client';
 import { agreements, customers, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ensureStripeCustomer, insertInvoice, invoiceView, providerError, recordOfflinePayment, startInvoiceCheckout } from '../billing/billing.service';
-import { companySettings, localDate } from '../billing/today';
+import { companyToday } from '../company/company';
 import { currentVersion, planViewOf } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from './terms';
 
@@ -18,10 +18,6 @@ type AgreementRow = typeof agreements.$inferSelect;
 type PlanVersionRow = typeof planVersions.$inferSelect;
 type PlanRow = typeof plans.$inferSelect;
 
-export async function today(deps: Pick<AppDeps, 'database' | 'clock'>, db: Db | Tx = deps.database.db): Promise<string> {
-  const s = await companySettings(db);
-  return localDate(deps.clock(), s.timeZone);
-}
 
 /** Price for a term: the yearly price plus each system beyond the first. */
 export function termPriceCents(v: Pick<PlanVersionRow, 'yearlyPriceCents' | 'additionalSystemCents'>, systems: number): number {
@@ -99,7 +95,7 @@ export async function myAgreements(deps: Pick<AppDeps, 'database' | 'clock'>, us
   const { db } = deps.database;
   if (!user.customerId) return [];
   const rows = await db.select().from(agreements).where(eq(agreements.customerId, user.customerId)).orderBy(desc(agreements.createdAt));
-  const t = await today(deps);
+  const t = await companyToday(deps);
   return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(db, r, t)));
 }
 
@@ -125,7 +121,7 @@ export async function readAgreement(deps: Pick<AppDeps, 'database' | 'clock'>, u
   const [a] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a) throw notFound('That agreement');
   await assertCustomerAccess(db, user, a.customerId);
-  return agreementView(db, a, await today(deps));
+  return agreementView(db, a, await companyToday(deps));
 }
 
 async function ownAgreement(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<AgreementRow> {
@@ -148,7 +144,7 @@ export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock'
   if (!plan || !plan.active) throw new AppError(422, 'validation_failed', 'That plan is not offered.', { planId: 'That plan is not offered.' });
   const version = await currentVersion(db, plan.id);
   if (!version) throw new AppError(422, 'validation_failed', 'That plan has no price yet.', { planId: 'That plan has no price yet.' });
-  const t = await today(deps);
+  const t = await companyToday(deps);
 
   const { agreementId, invoiceId } = await db.transaction(async (tx) => {
     const held = await tx
@@ -235,7 +231,7 @@ function assertRenewable(a: AgreementRow, todayIso: string) {
 
 export async function renewOnline(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
   const a0 = await ownAgreement(deps, user, id);
-  const t = await today(deps);
+  const t = await companyToday(deps);
   assertRenewable(a0, t);
   const invoiceId = await deps.database.db.transaction(async (tx) => (await ensureRenewalInvoice(deps, tx, id, t)).invoice.id);
   const { checkoutUrl } = await startInvoiceCheckout(deps, invoiceId, { returnPath: '/portal/plan', saveCard });
@@ -247,7 +243,7 @@ export async function manualRenewal(deps: Pick<AppDeps, 'database' | 'clock' | '
   const { db } = deps.database;
   const [a0] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a0) throw notFound('That agreement');
-  const t = await today(deps);
+  const t = await companyToday(deps);
   if (a0.status === 'canceled' || a0.status === 'pending') throw conflict('Only an agreement that has started can be renewed.');
   const inv = await db.transaction(async (tx) => (await ensureRenewalInvoice(deps, tx, id, t)).invoice);
   const view = await recordOfflinePayment(deps, user, inv.id, { method: input.method, amountCents: inv.totalCents - inv.paidCents, reference: input.reference });
@@ -312,7 +308,7 @@ async function openCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe
  */
 export async function changeTier(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: { planId: string; changeDate?: string }) {
   const { db } = deps.database;
-  const t = await today(deps);
+  const t = await companyToday(deps);
   const changeDate = input.changeDate ?? t;
   const result = await db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);

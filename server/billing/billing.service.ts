@@ -18,7 +18,7 @@ import { agreements, billingAccounts, customers, invoiceCounters, invoiceLines, 
 import { AppError, conflict, notFound } from '../http/errors';
 import { paymentErrorMessage } from '../integrations/stripe';
 import { applyPaidAgreementInvoice, recordHistory } from '../agreements/terms';
-import { companySettings, localDate } from './today';
+import { companyRow, localDate } from '../company/company';
 
 type InvoiceRow = typeof invoices.$inferSelect;
 type PaymentRow = typeof payments.$inferSelect;
@@ -61,7 +61,7 @@ export interface NewInvoice {
 
 /** Writes an invoice and its lines; totals come from the shared money rules, tax from settings. */
 export async function insertInvoice(tx: Tx, input: NewInvoice, now: Date): Promise<InvoiceRow> {
-  const settings = await companySettings(tx);
+  const settings = await companyRow(tx);
   let totals;
   try {
     totals = invoiceTotals({ lines: input.lines, discountBps: input.discountBps ?? 0, taxRateBps: settings.taxRateBps });
@@ -456,7 +456,7 @@ async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number, now: 
     .set({ paidCents, ...(nowPaid ? { status: 'paid', paidAt: now } : {}) })
     .where(eq(invoices.id, inv.id));
   if (nowPaid) {
-    const settings = await companySettings(tx);
+    const settings = await companyRow(tx);
     await applyPaidAgreementInvoice(tx, { ...inv, paidCents, status: 'paid' }, localDate(now, settings.timeZone), source, actorId);
   }
   return nowPaid;

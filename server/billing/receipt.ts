@@ -7,7 +7,7 @@ import type { AppDeps } from '../deps';
 import { customers, payments } from '../db/schema';
 import { renderEmail } from '../integrations/mail';
 import { invoiceView } from './billing.service';
-import { companySettings, type CompanySettings } from './today';
+import { companyRow, type CompanyRow } from '../company/company';
 
 const require = createRequire(import.meta.url);
 // pdfkit reads TTF, OTF and WOFF (not WOFF2); @fontsource ships Nunito as WOFF.
@@ -22,7 +22,7 @@ function dateText(isoTime: string | null, timeZone: string): string {
 }
 
 /** The invoice with its receipt (payments so far) as one PDF, Nunito embedded. */
-export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, forPayment?: PaymentView): Promise<Buffer> {
+export function renderInvoicePdf(view: InvoiceView, company: CompanyRow, forPayment?: PaymentView): Promise<Buffer> {
   return new Promise((resolve, reject) => {
     const doc = new PDFDocument({ size: 'LETTER', margin: 54, info: { Title: `Invoice ${view.number ?? 'draft'}`, Author: company.name } });
     const chunks: Buffer[] = [];
@@ -100,7 +100,7 @@ export async function sendReceipt(deps: Pick<AppDeps, 'config' | 'database' | 'm
   const view = await invoiceView(db, pay.invoiceId);
   const [cust] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, view.customerId));
   if (!cust?.email) return;
-  const company = await companySettings(db);
+  const company = await companyRow(db);
   const payment = view.payments.find((p) => p.id === paymentId);
   const pdf = await renderInvoicePdf(view, company, payment);
   const what =

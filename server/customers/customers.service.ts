@@ -23,7 +23,7 @@ import type { Db, Tx } from '../db/client';
 import { agreements, contacts, customerNotes, customers, files, invoices, planVersions, plans, properties, users, visits } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
-import { companyToday } from './today';
+import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
 
 type CustomerRow = typeof customers.$inferSelect;
@@ -174,7 +174,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
   const { db } = deps.database;
   const now = deps.clock();
   const c = await customerRow(db, id);
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   const [contactRows, propertyRows, agreementRows, visitRows, invoiceRows, noteRows, fileRows] = await Promise.all([
     db.select().from(contacts).where(eq(contacts.customerId, id)).orderBy(desc(contacts.isPrimary), asc(contacts.createdAt)),
     db

@@ -6,7 +6,7 @@ import { customerNotes, customers, files, properties, users } from '../db/schema
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, notFound, parse } from '../http/errors';
 import { getCustomer, toFile, toProperty, updateCustomer } from './customers.service';
-import { companyToday } from './today';
+import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
 
 function household(user: SessionUser): string {
@@ -21,7 +21,7 @@ export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: Se
   const customerId = household(user);
   const [c] = await db.select().from(customers).where(eq(customers.id, customerId)).limit(1);
   if (!c) throw notFound('Your household');
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   const props = await db
     .select()
     .from(properties)

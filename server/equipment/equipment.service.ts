@@ -8,7 +8,7 @@ import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { equipment, properties } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
-import { companyToday } from '../customers/today';
+import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
 
 export type EquipmentRow = typeof equipment.$inferSelect;
@@ -85,7 +85,7 @@ export async function listPropertyEquipment(deps: Pick<AppDeps, 'database' | 'cl
     .from(equipment)
     .where(and(eq(equipment.propertyId, propertyId), includeArchived ? undefined : isNull(equipment.archivedAt)))
     .orderBy(asc(equipment.createdAt), asc(equipment.id));
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   return rows.map((r) => toEquipment(r, today));
 }
 
@@ -104,7 +104,7 @@ export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>,
   const now = deps.clock();
   const p = await propertyFor(db, user, propertyId);
   if (p.archivedAt) throw new AppError(409, 'archived', 'That property is archived; restore it before adding equipment.');
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);
   const [row] = await db
     .insert(equipment)
@@ -117,14 +117,14 @@ export async function getEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, us
   const { db } = deps.database;
   const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
-  return toEquipment(e, await companyToday(db, now));
+  return toEquipment(e, await companyToday(deps));
 }
 
 export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: EquipmentUpdate): Promise<Equipment> {
   const { db } = deps.database;
   const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);
   const installedOn = input.installedOn !== undefined ? input.installedOn : e.installedOn;
   const warrantyEndsOn = input.warrantyEndsOn !== undefined ? input.warrantyEndsOn : e.warrantyEndsOn;
@@ -143,5 +143,5 @@ export async function setEquipmentArchived(deps: Pick<AppDeps, 'database' | 'clo
     .set({ archivedAt: archived ? now : null })
     .where(eq(equipment.id, id))
     .returning();
-  return toEquipment(row!, await companyToday(db, now));
+  return toEquipment(row!, await companyToday(deps));
 }

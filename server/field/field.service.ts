@@ -27,7 +27,6 @@ import {
   companyInfo,
   equipmentLabel,
   fieldEquipment,
-  localDate,
   propertyEquipment,
   visitCoverage,
   visitForStaff,
@@ -36,6 +35,7 @@ import {
   type VisitRow,
 } from './visit-data';
 import type { AppDeps } from '../deps';
+import { localDate } from '../company/company';
 
 /** The signed-in technician's visits today (the owner sees every technician's), in time order. */
 export async function todayVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<{ date: string; visits: TodayVisit[] }> {

@@ -7,7 +7,8 @@ import type { Db, Tx } from '../db/client';
 import { equipment, files, technicians, users, visitReadings } from '../db/schema';
 import { toFile } from '../customers/customers.service';
 import { renderEmail } from '../integrations/mail';
-import { equipmentLabel, localDate, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
+import { localDate } from '../company/company';
+import { equipmentLabel, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
 
 const FUEL_BURNING = new Set(['gas_furnace']);
 

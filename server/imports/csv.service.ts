@@ -22,6 +22,7 @@ import { customers, equipment, properties } from '../db/schema';
 import { searchWhere } from '../customers/customers.service';
 import { AppError } from '../http/errors';
 import type { AppDeps } from '../deps';
+import { companyToday } from '../company/company';
 
 export const MAX_IMPORT_ROWS = 20_000;
 
@@ -319,8 +320,9 @@ class DryRun extends Error {
 }
 
 /** Checks a file and, when every row is good, works out what an import would do (then rolls back). */
-export async function checkImport(deps: Pick<AppDeps, 'database'>, buf: Buffer, mapping: ImportMapping, today: string): Promise<ImportCheck> {
+export async function checkImport(deps: Pick<AppDeps, 'database' | 'clock'>, buf: Buffer, mapping: ImportMapping): Promise<ImportCheck> {
   const { db } = deps.database;
+  const today = await companyToday(deps);
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) return { valid: false, rowCount: table.rows.length, problems, counts: null };
@@ -336,8 +338,9 @@ export async function checkImport(deps: Pick<AppDeps, 'database'>, buf: Buffer, 
 }
 
 /** Imports every row or none: any bad row answers 422 with each problem by row and column. */
-export async function runImport(deps: Pick<AppDeps, 'database'>, buf: Buffer, mapping: ImportMapping, today: string): Promise<{ rowCount: number; counts: ImportCounts }> {
+export async function runImport(deps: Pick<AppDeps, 'database' | 'clock'>, buf: Buffer, mapping: ImportMapping): Promise<{ rowCount: number; counts: ImportCounts }> {
   const { db } = deps.database;
+  const today = await companyToday(deps);
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) {

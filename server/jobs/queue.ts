@@ -32,21 +32,25 @@ export class Jobs implements JobQueue {
   constructor(
     private readonly connectionString: string,
     private readonly logger: Logger,
-    private readonly timeZone = 'America/Chicago',
   ) {}
 
-  /** Register a queue and its handler; `cron` schedules it (in the company's time zone). */
+  /** Register a queue and its handler; `cron` schedules it in the zone given to start(). */
   register<T extends object>(name: string, handler: JobHandler<T>, opts: JobOptions = {}): void {
     this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue });
   }
 
-  async start({ work = true }: { work?: boolean } = {}): Promise<void> {
+  /**
+   * Creates the queues, schedules the cron jobs in `timeZone` (the company's, from its row) and
+   * starts the workers. Without a zone (no company row yet) nothing is scheduled until a restart.
+   */
+  async start({ work = true, timeZone }: { work?: boolean; timeZone: string | null }): Promise<void> {
     const boss = new PgBoss({ connectionString: this.connectionString, schema: 'pgboss', max: 4 });
     boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
     await boss.start();
     for (const r of this.registrations) {
       await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
-      if (r.cron) await boss.schedule(r.name, r.cron, {}, { tz: this.timeZone });
+      if (r.cron && timeZone) await boss.schedule(r.name, r.cron, {}, { tz: timeZone });
+      else if (r.cron) this.logger.warn({ queue: r.name }, 'the company is not set up: scheduled job not scheduled');
       if (work) {
         await boss.work<object>(r.name, async (jobs) => {
           for (const job of jobs) await r.handler(job.data ?? {}, { id: job.id, name: job.name });

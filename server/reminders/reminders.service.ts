@@ -5,17 +5,13 @@ import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
-import { agreements, company, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
+import { agreements, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
+import { companyRow } from '../company/company';
 import { AppError, notFound } from '../http/errors';
 import { renderEmail } from '../integrations/mail';
 
 export const REMINDER_QUEUE = 'reminders.send';
 const BATCH = 25;
-
-async function companyInfo(db: Db) {
-  const [c] = await db.select({ name: company.name, timeZone: company.timeZone }).from(company).limit(1);
-  return c ?? { name: 'Seasonwell', timeZone: 'America/Chicago' };
-}
 
 /** Every live household with what the rules need, in five queries (no per-household queries). */
 async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: string })[]> {
@@ -63,7 +59,7 @@ async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: stri
 export async function previewReminders(deps: Pick<AppDeps, 'database' | 'clock'>, kind: ReminderKind): Promise<ReminderPreview> {
   const { db } = deps.database;
   const now = deps.clock();
-  const info = await companyInfo(db);
+  const info = await companyRow(db);
   const today = DateTime.fromJSDate(now).setZone(info.timeZone);
   const households = await loadHouseholds(db);
   const audience: ReminderRecipient[] = [];
@@ -101,7 +97,7 @@ export async function createCampaign(deps: Pick<AppDeps, 'database' | 'clock' | 
 export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer'>, campaignId: string): Promise<void> {
   const { mailer } = deps;
   const db = deps.database.db;
-  const info = await companyInfo(db);
+  const info = await companyRow(db);
   for (;;) {
     const claimed = await db.transaction(async (tx) => {
       const batch = await tx.execute<{ id: string; email: string; kind: ReminderKind }>(

@@ -15,10 +15,10 @@ import {
 import type { AppDeps } from '../deps';
 import { agreements, customers, plans, planVersions, renewalNotices } from '../db/schema';
 import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/billing.service';
-import { companySettings } from '../billing/today';
 import { renderEmail } from '../integrations/mail';
 import { paymentErrorMessage } from '../integrations/stripe';
-import { ensureRenewalInvoice, termPriceCents, today as companyToday } from '../agreements/agreements.service';
+import { ensureRenewalInvoice, termPriceCents } from '../agreements/agreements.service';
+import { companyRow, companyToday } from '../company/company';
 import { currentVersion } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from '../agreements/terms';
 
@@ -53,7 +53,7 @@ export interface RenewalRunReport {
  * attempt, and a term is added at most once. A run killed half-way and started again therefore
  * sends nobody a second notice and charges nobody twice.
  */
-export async function runRenewals(deps: AppDeps, opts: RenewalRunOptions = {}): Promise<RenewalRunReport> {
+export async function runRenewals(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, opts: RenewalRunOptions = {}): Promise<RenewalRunReport> {
   const { db } = deps.database;
   const today = opts.today ?? (await companyToday(deps));
   const grace = opts.graceDays ?? DEFAULT_GRACE_DAYS;
@@ -240,7 +240,7 @@ export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database
     .returning({ id: renewalNotices.id });
   if (claim.length === 0) return false;
   if (!h.email) return true;
-  const company = await companySettings(db);
+  const company = await companyRow(db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const lastDay = new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${a.endsOn}T00:00:00Z`));
   const auto = a.autoRenew && a.cardLast4;
@@ -283,7 +283,7 @@ async function sendDunningMail(deps: Pick<AppDeps, 'config' | 'database' | 'logg
   const h = await householdOf(deps, agreementId);
   if (!h?.email) return;
   const a = h.agreement;
-  const company = await companySettings(deps.database.db);
+  const company = await companyRow(deps.database.db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const next = a.chargeFailedOn ? nextDunningRetry(a.chargeFailedOn, a.dunningRetries) : null;
   const lapses = lapseDate(a.endsOn, DEFAULT_GRACE_DAYS);

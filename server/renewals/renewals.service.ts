@@ -5,7 +5,7 @@ import { addDays, daysBetween } from '../../shared/renewals';
 import { RENEWAL_VIEWS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../shared/schemas/plans';
 import type { AppDeps } from '../deps';
 import { agreements, agreementTerms, customers, invoices, plans, planVersions, renewalNotices } from '../db/schema';
-import { today as companyToday } from '../agreements/agreements.service';
+import { companyToday } from '../company/company';
 
 const RENEWED_LOOKBACK_DAYS = 30;
 
@@ -27,7 +27,7 @@ function viewFilter(view: RenewalView, today: string): SQL {
   }
 }
 
-export async function renewalBoard(deps: AppDeps, view: RenewalView): Promise<RenewalBoard> {
+export async function renewalBoard(deps: Pick<AppDeps, 'database' | 'clock'>, view: RenewalView): Promise<RenewalBoard> {
   const { db } = deps.database;
   const today = await companyToday(deps);
   const counts = {} as RenewalBoard['counts'];
@@ -75,7 +75,7 @@ async function renewalRows(deps: Pick<AppDeps, 'database'>, view: RenewalView, t
 /** Cells that a spreadsheet would run as a formula get a leading apostrophe. */
 const safeCell = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
 
-export async function renewalCsv(deps: AppDeps, view: RenewalView): Promise<string> {
+export async function renewalCsv(deps: Pick<AppDeps, 'database' | 'clock'>, view: RenewalView): Promise<string> {
   const today = await companyToday(deps);
   const rows = await renewalRows(deps, view, today);
   return Papa.unparse({
