@@ -25,9 +25,10 @@ import {
 import type { SessionUser } from '../../shared/schemas/session';
 import type { VisitReason } from '../../shared/visits';
 import type { AppDeps } from '../deps';
+import { changeVisitStatus, recordBooked } from '../visits/visit-status';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { agreements, customers, equipment, plans, planVersions, properties, visitEvents, visits } from '../db/schema';
+import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
@@ -287,11 +288,9 @@ export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clo
           priority: property.member || call.urgent,
         })
         .returning({ id: visits.id });
-      await tx.insert(visitEvents).values({
+      await recordBooked(tx, {
         visitId: row!.id,
-        actorUserId: user.id,
-        action: 'booked',
-        toStatus: 'requested',
+        actor: user.id,
         technicianId: plan.visit.technicianId,
         note: isStaffOffice(user) ? 'Booked by the office for a caller' : 'Booked online',
       });
@@ -386,29 +385,23 @@ export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' 
         engineError(err);
       }
       if (!plan.ok) throw new WindowFullError([]);
-      await tx
-        .update(visits)
-        .set({
+      await changeVisitStatus(tx, {
+        visitId: id,
+        // A different technician must be confirmed again by the office.
+        to: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
+        actor: user.id,
+        action: 'rescheduled',
+        note: `Moved to ${plan.visit.window.localLabel}`,
+        changes: {
           technicianId: plan.visit.technicianId,
           windowStart: new Date(plan.visit.window.start),
           windowEnd: new Date(plan.visit.window.end),
           startsAt: new Date(plan.visit.start),
           endsAt: new Date(plan.visit.end),
-          // A different technician must be confirmed again by the office.
-          status: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
           sequence: sql`${visits.sequence} + 1`,
           reminderSentAt: null,
           updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: 'rescheduled',
-        fromStatus: current.status,
-        toStatus: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
-        technicianId: plan.visit.technicianId,
-        note: `Moved to ${plan.visit.window.localLabel}`,
+        },
       });
     });
   } catch (err) {
@@ -425,16 +418,13 @@ export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const { db } = deps.database;
   const now = deps.clock();
   await db.transaction(async (tx) => {
-    const current = await visitForChange(tx, user, id, now);
-    await tx.update(visits).set({ status: 'canceled', sequence: sql`${visits.sequence} + 1`, updatedAt: now }).where(eq(visits.id, id));
-    await tx.insert(visitEvents).values({
+    await visitForChange(tx, user, id, now);
+    await changeVisitStatus(tx, {
       visitId: id,
-      actorUserId: user.id,
-      action: 'canceled',
-      fromStatus: current.status,
-      toStatus: 'canceled',
-      technicianId: current.technicianId,
+      to: 'canceled',
+      actor: user.id,
       note: body.reason || (user.role === 'homeowner' ? 'Canceled online by the homeowner' : 'Canceled by the office'),
+      changes: { sequence: sql`${visits.sequence} + 1`, updatedAt: now },
     });
   });
   const row = await loadVisitRow(db, id);

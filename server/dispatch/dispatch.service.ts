@@ -2,7 +2,6 @@ import { and, asc, eq, gt, ilike, inArray, isNull, lt, ne, or, sql } from 'drizz
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import {
-  STATUS_TRANSITIONS,
   type assignSchema,
   type boardQuerySchema,
   type BoardResponse,
@@ -12,7 +11,7 @@ import {
   type VisitView,
 } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
+import { canTransition, VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
 import type { AppDeps } from '../deps';
 import { sendVisitMail } from '../booking/booking.mail';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
@@ -20,6 +19,7 @@ import { loadCompanySettings, technicianHoursToWeekly } from '../booking/schedul
 import { toView, visitRows } from '../booking/visit-views';
 import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
 
 const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
 
@@ -153,11 +153,14 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const changedForHomeowner = moved || body.technicianId !== before.technicianId || status !== before.status;
   try {
     await db.transaction(async (tx) => {
-      await tx
-        .update(visits)
-        .set({
+      await changeVisitStatus(tx, {
+        visitId: id,
+        to: status,
+        actor: user.id,
+        action: moved ? 'rescheduled' : 'assigned',
+        note: body.technicianId ? `Assigned to ${techName}` : 'Returned to the unassigned queue',
+        changes: {
           technicianId: body.technicianId,
-          status,
           startsAt,
           endsAt,
           windowStart,
@@ -165,16 +168,7 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
           ...(changedForHomeowner ? { sequence: sql`${visits.sequence} + 1` } : {}),
           ...(moved ? { reminderSentAt: null } : {}),
           updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: moved ? 'rescheduled' : 'assigned',
-        fromStatus: before.status,
-        toStatus: status,
-        technicianId: body.technicianId,
-        note: body.technicianId ? `Assigned to ${techName}` : 'Returned to the unassigned queue',
+        },
       });
     });
   } catch (err) {
@@ -203,36 +197,27 @@ export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | '
     if (!TECHNICIAN_MAY_SET.includes(body.status)) throw new AppError(403, 'forbidden', 'Only the office can make that change.');
   }
   if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
-  if (!STATUS_TRANSITIONS[before.status].includes(body.status)) {
-    throw new AppError(
-      422,
-      'bad_transition',
-      `A visit that is ${VISIT_STATUS_LABELS[before.status].toLowerCase()} cannot become ${VISIT_STATUS_LABELS[body.status].toLowerCase()}.`,
-      { status: `not allowed after ${VISIT_STATUS_LABELS[before.status].toLowerCase()}` },
-    );
+  // The office's status form hears a refused choice as a form error; a change that loses a race
+  // with another is refused again under the row lock, as a conflict.
+  if (!canTransition(before.status, body.status)) {
+    const refused = refusedTransition(before.status, body.status);
+    throw new AppError(422, refused.code, refused.message, refused.fields);
   }
   if (body.status === 'scheduled' && !before.technicianId) {
     throw new AppError(422, 'validation_failed', 'Assign a technician before scheduling.', { status: 'needs a technician first' });
   }
   try {
     await db.transaction(async (tx) => {
-      await tx
-        .update(visits)
-        .set({
-          status: body.status,
+      await changeVisitStatus(tx, {
+        visitId: id,
+        to: body.status,
+        actor: user.id,
+        note: body.note,
+        changes: {
           ...(body.status === 'done' ? { completedAt: now } : {}),
           ...(body.status === 'canceled' ? { sequence: sql`${visits.sequence} + 1` } : {}),
           updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: body.status === 'canceled' ? 'canceled' : 'status',
-        fromStatus: before.status,
-        toStatus: body.status,
-        technicianId: before.technicianId,
-        note: body.note,
+        },
       });
     });
   } catch (err) {

@@ -19,7 +19,7 @@ import {
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import type { Db } from '../db/client';
-import { customers, properties, technicians, visitChecklistItems, visitEvents, visitReadings, visitTroubleshooting, visits } from '../db/schema';
+import { customers, properties, technicians, visitChecklistItems, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
 import { summaryEmail, technicianCautions, visitPhotos, visitSummary } from './summary';
 import {
@@ -35,6 +35,7 @@ import {
   type VisitRow,
 } from './visit-data';
 import type { AppDeps } from '../deps';
+import { changeVisitStatus } from '../visits/visit-status';
 import { localDate } from '../company/company';
 
 /** The signed-in technician's visits today (the owner sees every technician's), in time order. */
@@ -236,22 +237,20 @@ export async function completeVisit(deps: CompleteDeps, user: SessionUser, visit
   const { db } = deps.database;
   const now = deps.clock();
   await visitForStaff(db, user, visitId);
-  const result = await db.transaction(async (tx) => {
-    const [locked] = await tx.select().from(visits).where(eq(visits.id, visitId)).for('update');
-    if (!locked) throw new AppError(404, 'not_found', 'That visit was not found.');
-    if (locked.status === 'done') return { visit: locked, fresh: false };
-    if (locked.status === 'canceled' || locked.status === 'no_show') throw conflict('This visit was canceled; it cannot be completed.');
-    const [done] = await tx
-      .update(visits)
-      .set({ status: 'done', completedAt: now, findings: body.findings, recommendations: body.recommendations, updatedAt: now })
-      .where(eq(visits.id, visitId))
-      .returning();
-    await tx.insert(visitEvents).values({ visitId, at: now, actorUserId: user.id, action: 'status', fromStatus: locked.status, toStatus: 'done', technicianId: locked.technicianId, note: 'Completed on site' });
-    return { visit: done!, fresh: true };
-  });
-  const { visit } = result;
+  // Only a visit the technician is on site for can be done (the shared transition table).
+  const result = await db.transaction((tx) =>
+    changeVisitStatus(tx, {
+      visitId,
+      to: 'done',
+      actor: user.id,
+      at: now,
+      note: 'Completed on site',
+      changes: { completedAt: now, findings: body.findings, recommendations: body.recommendations },
+    }),
+  );
+  const visit = result.after;
   let summaryEmailed = false;
-  if (result.fresh) summaryEmailed = await sendSummary(deps, visit, log);
+  if (result.changed) summaryEmailed = await sendSummary(deps, visit, log);
   return { id: visit.id, status: visit.status, completedAt: visit.completedAt!.toISOString(), summaryEmailed };
 }
 
