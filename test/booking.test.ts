@@ -8,7 +8,7 @@ import { signInHomeowner, signInStaff, type Signed } from './support/auth';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
-import { sendDayBeforeReminders } from '../server/booking/reminders';
+import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
 
 const TZ = 'America/Chicago';
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
-import { sendCampaign } from '../server/reminders/reminders.service';
+import { sendCampaign } from '../server/campaigns/campaigns.service';
 import { testApp, type TestContext } from './support/app';
 import { anonymous, CSRF_HEADER_NAME, signInHomeowner, signInStaff } from './support/auth';
 

@@ -43,24 +43,33 @@ function termLines(plan: PlanRow, v: PlanVersionRow, systems: number, start: str
 }
 
 async function planAndVersion(tx: Db | Tx, versionId: string) {
-  const [row] = await tx.select({ plan: plans, version: planVersions }).from(planVersions).innerJoin(plans, eq(planVersions.planId, plans.id)).where(eq(planVersions.id, versionId));
-  if (!row) throw notFound('That plan');
-  return row;
+  const found = await tx.query.planVersions.findFirst({ where: eq(planVersions.id, versionId), with: { plan: true } });
+  if (!found) throw notFound('That plan');
+  const { plan, ...version } = found;
+  return { plan, version };
 }
 
 // ---------- Views ----------
 
 export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: string): Promise<AgreementView> {
-  const [c] = await db.select({ name: customers.name }).from(customers).where(eq(customers.id, a.customerId));
-  const [p] = await db.select().from(properties).where(eq(properties.id, a.propertyId));
-  const sold = await planAndVersion(db, a.planVersionId);
+  // The household, the home, the plan sold and the newest open invoice, in one relational read.
+  const linked = await db.query.agreements.findFirst({
+    where: eq(agreements.id, a.id),
+    columns: { id: true },
+    with: {
+      customer: { columns: { name: true } },
+      property: true,
+      planVersion: { with: { plan: true } },
+      invoices: { columns: { id: true }, where: eq(invoices.status, 'open'), orderBy: desc(invoices.createdAt), limit: 1 },
+    },
+  });
+  if (!linked) throw notFound('That agreement');
+  const { plan: soldPlan, ...soldVersion } = linked.planVersion;
+  const sold = { plan: soldPlan, version: soldVersion };
+  const c = linked.customer;
+  const p = linked.property;
+  const open = linked.invoices[0];
   const latest = await currentVersion(db, sold.plan.id);
-  const [open] = await db
-    .select({ id: invoices.id })
-    .from(invoices)
-    .where(and(eq(invoices.agreementId, a.id), eq(invoices.status, 'open')))
-    .orderBy(desc(invoices.createdAt))
-    .limit(1);
   const opens = renewalWindowOpens(a.endsOn);
   const canRenew =
     (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && todayIso >= opens)) && sold.plan.active;

@@ -12,7 +12,7 @@ import {
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { exportCustomersCsv } from '../imports/csv.service';
+import { exportCustomersCsv } from './customers.export';
 import {
   addContact,
   addNote,

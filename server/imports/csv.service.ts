@@ -8,7 +8,6 @@ import {
   nameSchema,
   phoneSchema,
   propertyInputSchema,
-  type CustomerListQuery,
   type ImportCheck,
   type ImportCounts,
   type ImportFieldKey,
@@ -19,7 +18,6 @@ import {
 import { BTUH_PER_TON, equipmentInputSchema, type EquipmentInput } from '../../shared/schemas/equipment';
 import type { Tx } from '../db/client';
 import { customers, equipment, properties } from '../db/schema';
-import { searchWhere } from '../customers/customers.service';
 import { AppError } from '../http/errors';
 import type { AppDeps } from '../deps';
 import { companyToday } from '../company/company';
@@ -34,6 +32,9 @@ export interface CsvTable {
 }
 
 /** Parses CSV text (UTF-8, optional BOM) with a header row; refuses files that are not a table. */
+/** Undoes the export's formula guard, so a file exported here imports back unchanged. */
+const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
+
 export function readCsv(buf: Buffer): CsvTable {
   let text: string;
   try {
@@ -355,59 +356,4 @@ export async function runImport(deps: Pick<AppDeps, 'database' | 'clock'>, buf: 
     return writeRows(tx, values);
   });
   return { rowCount: table.rows.length, counts };
-}
-
-// ---- Export ----
-
-export const EXPORT_LIMIT = 50_000;
-
-/** Spreadsheets run cells starting with = + - @ as formulas; a leading apostrophe stops that (OWASP CSV injection). */
-export const guard = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
-const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
-
-/** The households of the current list view (search and sort), one row per piece of equipment. */
-export async function exportCustomersCsv(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<string> {
-  const { db } = deps.database;
-  const where = and(q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? sql`${customers.archivedAt} is not null` : undefined, searchWhere(q.q));
-  const order = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city: sql`lower(${properties.city})` }[q.sort];
-  const rows = await db
-    .select({ c: customers, p: properties, e: equipment })
-    .from(customers)
-    .leftJoin(properties, and(eq(properties.customerId, customers.id), isNull(properties.archivedAt)))
-    .leftJoin(equipment, and(eq(equipment.propertyId, properties.id), isNull(equipment.archivedAt)))
-    .where(where)
-    .orderBy(q.dir === 'desc' ? sql`${order} desc nulls last` : sql`${order} asc nulls last`, asc(customers.id), asc(properties.createdAt), asc(equipment.createdAt))
-    .limit(EXPORT_LIMIT);
-  const fields = IMPORT_FIELDS.map((f) => f.key);
-  const data = rows.map(({ c, p, e }) => {
-    const cell: Record<ImportFieldKey, string> = {
-      customer_name: c.name,
-      customer_email: c.email ?? '',
-      customer_phone: c.phone ?? '',
-      property_label: p?.label ?? '',
-      street: p?.street ?? '',
-      unit: p?.unit ?? '',
-      city: p?.city ?? '',
-      state: p?.state ?? '',
-      zip: p?.zip ?? '',
-      equipment_kind: e ? EQUIPMENT_KIND_LABELS[e.kind] : '',
-      make: e?.make ?? '',
-      model: e?.model ?? '',
-      serial: e?.serial ?? '',
-      installed_on: e?.installedOn ?? '',
-      refrigerant: e ? (e.refrigerant ?? 'none') : '',
-      capacity_btuh: e?.capacityBtuh != null ? String(e.capacityBtuh) : '',
-      capacity_tons: e?.capacityBtuh != null ? String(Math.round((e.capacityBtuh / BTUH_PER_TON) * 100) / 100) : '',
-      volts: e?.volts != null ? String(e.volts) : '',
-      phase: e?.phase != null ? String(e.phase) : '',
-      rated_amps: e?.ratedAmps != null ? String(e.ratedAmps) : '',
-      filter_size: e?.filterSize ?? '',
-      filter_type: e?.filterType ?? '',
-      merv: e?.merv != null ? String(e.merv) : '',
-      warranty_ends_on: e?.warrantyEndsOn ?? '',
-      location: e?.location ?? '',
-    };
-    return fields.map((f) => guard(cell[f]));
-  });
-  return Papa.unparse({ fields, data }, { newline: '\r\n' });
 }

@@ -1,8 +1,8 @@
 import type { AppDeps } from '../deps';
 import { registerBillingJobs } from '../billing/billing.jobs';
-import { registerBookingJobs } from '../booking/reminders';
+import { registerBookingJobs } from '../booking/day-before-notices';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
-import { registerReminderJobs } from '../reminders/reminders.service';
+import { registerCampaignJobs } from '../campaigns/campaigns.service';
 
 /**
  * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
@@ -11,6 +11,6 @@ import { registerReminderJobs } from '../reminders/reminders.service';
 export function registerJobs(deps: AppDeps): void {
   registerBillingJobs(deps);
   registerRenewalJobs(deps);
-  registerReminderJobs(deps);
+  registerCampaignJobs(deps);
   registerBookingJobs(deps);
 }

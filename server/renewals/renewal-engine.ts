@@ -214,14 +214,13 @@ async function chargeFailed(deps: Pick<AppDeps, 'config' | 'database' | 'logger'
 // ---------- Mail ----------
 
 async function householdOf(deps: Pick<AppDeps, 'database'>, agreementId: string) {
-  const [row] = await deps.database.db
-    .select({ agreement: agreements, email: customers.email, name: customers.name, planName: plans.name })
-    .from(agreements)
-    .innerJoin(customers, eq(agreements.customerId, customers.id))
-    .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
-    .innerJoin(plans, eq(planVersions.planId, plans.id))
-    .where(eq(agreements.id, agreementId));
-  return row;
+  const found = await deps.database.db.query.agreements.findFirst({
+    where: eq(agreements.id, agreementId),
+    with: { customer: { columns: { email: true, name: true } }, planVersion: { columns: {}, with: { plan: { columns: { name: true } } } } },
+  });
+  if (!found) return undefined;
+  const { customer, planVersion, ...agreement } = found;
+  return { agreement, email: customer.email, name: customer.name, planName: planVersion.plan.name };
 }
 
 /**

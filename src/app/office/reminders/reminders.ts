@@ -8,8 +8,8 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
 import { ActivatedRoute, Router } from '@angular/router';
 import { Subscription, switchMap, takeWhile, timer } from 'rxjs';
-import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/reminders';
-import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/reminders';
+import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/seasonal-reminders';
+import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { RemindersApi } from './reminders-api';
 

@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
-import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/reminders';
-import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/reminders';
+import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/seasonal-reminders';
+import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/campaigns';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
@@ -10,7 +10,7 @@ import { companyRow } from '../company/company';
 import { AppError, notFound } from '../http/errors';
 import { renderEmail } from '../integrations/mail';
 
-export const REMINDER_QUEUE = 'reminders.send';
+export const CAMPAIGN_QUEUE = 'reminders.send';
 const BATCH = 25;
 
 /** Every live household with what the rules need, in five queries (no per-household queries). */
@@ -86,7 +86,7 @@ export async function createCampaign(deps: Pick<AppDeps, 'database' | 'clock' | 
     await tx.insert(reminderSends).values(preview.audience.map((r) => ({ campaignId: campaign!.id, customerId: r.customerId, kind, email: r.email, reason: r.reason })));
     return campaign!.id;
   });
-  await deps.jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
+  await deps.jobs.send(CAMPAIGN_QUEUE, { campaignId }, { singletonKey: campaignId });
   return campaignSummary(deps, campaignId);
 }
 
@@ -157,8 +157,8 @@ export async function listCampaigns(deps: Pick<AppDeps, 'database'>, onlyId?: st
   return rows.map((r) => ({ ...r, label: REMINDER_LABELS[r.kind], createdAt: r.createdAt.toISOString(), finishedAt: r.finishedAt?.toISOString() ?? null }));
 }
 
-export function registerReminderJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'jobs'>): void {
-  deps.jobs.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
+export function registerCampaignJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'jobs'>): void {
+  deps.jobs.register<{ campaignId: string }>(CAMPAIGN_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
 }
 
 export { REMINDER_KINDS };

@@ -5,7 +5,7 @@ import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
 import { loadVisitRow } from './booking.service';
 
-export const REMINDER_JOB = 'booking.day-before-reminders';
+export const DAY_BEFORE_JOB = 'booking.day-before-reminders';
 
 /**
  * Claims visits whose window opens within the next 24 hours and mails each homeowner once.
@@ -31,7 +31,7 @@ export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config' | 'dat
 }
 
 export function registerBookingJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>): void {
-  deps.jobs.register(REMINDER_JOB, async () => {
+  deps.jobs.register(DAY_BEFORE_JOB, async () => {
     await sendDayBeforeReminders(deps);
   }, { cron: '15 * * * *' });
 }

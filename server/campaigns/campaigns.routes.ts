@@ -1,13 +1,13 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/reminders';
+import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/campaigns';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './reminders.service';
+import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './campaigns.service';
 
 // Seasonal reminders are office work: office staff and the owner only.
-export function reminderRoutes(deps: AppDeps): Router {
+export function campaignRoutes(deps: AppDeps): Router {
   const router = Router();
   const db = deps.database.db;
   router.use(requireRole('office', 'owner'));
