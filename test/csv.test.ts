@@ -3,7 +3,7 @@ import { eq, sql } from 'drizzle-orm';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { customers, equipment, properties } from '../server/db/schema';
-import { guard } from '../server/customers/customers.export';
+import { guard } from '../server/customers/csv-export';
 import { addressKey, suggestMapping } from '../server/imports/csv.service';
 import { testApp, type TestContext } from './support/app';
 import { signInStaff, type Signed } from './support/auth';

@@ -8,7 +8,7 @@ import { createApp } from '../../server/app';
 import { localFakes } from '../../test/support/fakes';
 import { loadConfig } from '../../server/config';
 import { createDatabase } from '../../server/db/client';
-import { listCustomers } from '../../server/customers/customers.service';
+import { listCustomers } from '../../server/customers/search';
 import { customerListQuerySchema } from '../../shared/schemas/customers';
 import { signInStaff } from '../../test/support/auth';
 

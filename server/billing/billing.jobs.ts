@@ -1,7 +1,7 @@
 import type { AppDeps } from '../deps';
 import { processStoredEvent, STRIPE_EVENT_JOB } from '../webhooks/webhooks.service';
-import { RECEIPT_JOB } from './billing.service';
-import { sendReceipt } from './receipt';
+import { RECEIPT_JOB } from './receipts';
+import { sendReceipt } from './receipts';
 
 /** Receipts and processor events run as jobs, retried by the queue when they fail. */
 export function registerBillingJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>): void {

@@ -5,18 +5,10 @@ import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refu
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
-import {
-  createServiceInvoice,
-  issueInvoice,
-  listInvoices,
-  readInvoice,
-  recordOfflinePayment,
-  refundInvoice,
-  startInvoiceCheckout,
-  syncCheckoutSession,
-  voidInvoice,
-} from './billing.service';
-import { renderInvoicePdf } from './receipt';
+import { createServiceInvoice, issueInvoice, listInvoices, readInvoice, voidInvoice } from './invoices';
+import { recordOfflinePayment, refundInvoice } from './refunds';
+import { startInvoiceCheckout, syncCheckoutSession } from './checkout';
+import { renderInvoicePdf } from './receipts';
 import { companyRow } from '../company/company';
 
 const idParam = z.object({ id: z.uuid('That invoice was not found.') });

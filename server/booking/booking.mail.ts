@@ -1,7 +1,8 @@
 import type { AppDeps } from '../deps';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
-import { renderEmail, type MailAttachment } from '../integrations/mail';
+import type { MailAttachment } from '../integrations/mail';
+import { renderEmail } from '../integrations/mail-layout';
 import type { CompanySettings } from './scheduling-input';
 import { addressOf, labelFor, type VisitRow } from './visit-views';
 

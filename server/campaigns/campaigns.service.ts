@@ -8,7 +8,7 @@ import type { Db } from '../db/client';
 import { agreements, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
 import { companyRow } from '../company/company';
 import { AppError, notFound } from '../http/errors';
-import { renderEmail } from '../integrations/mail';
+import { renderEmail } from '../integrations/mail-layout';
 
 export const CAMPAIGN_QUEUE = 'reminders.send';
 const BATCH = 25;

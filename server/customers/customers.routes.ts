@@ -12,24 +12,12 @@ import {
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { exportCustomersCsv } from './customers.export';
-import {
-  addContact,
-  addNote,
-  addProperty,
-  createCustomer,
-  getCustomer,
-  listCustomers,
-  mergeCustomers,
-  propertyRow,
-  removeContact,
-  setCustomerArchived,
-  setPropertyArchived,
-  toProperty,
-  updateContact,
-  updateCustomer,
-  updateProperty,
-} from './customers.service';
+import { exportCustomersCsv } from './csv-export';
+import { addContact, addNote, createCustomer, getCustomer, removeContact, setCustomerArchived, updateContact, updateCustomer } from './customer-page';
+import { addProperty, propertyRow, setPropertyArchived, updateProperty } from './properties';
+import { listCustomers } from './search';
+import { mergeCustomers } from './merge';
+import { toProperty } from './customer-views';
 
 const office = requireRole('office', 'owner');
 const staff = requireRole('technician', 'office', 'owner');

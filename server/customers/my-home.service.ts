@@ -5,7 +5,8 @@ import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, notFound, parse } from '../http/errors';
-import { getCustomer, toFile, toProperty, updateCustomer } from './customers.service';
+import { getCustomer, updateCustomer } from './customer-page';
+import { toFile, toProperty } from './customer-views';
 import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
 

@@ -5,8 +5,8 @@ import type { VisitSummary } from '../../shared/schemas/field';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { equipment, files, technicians, users, visitReadings } from '../db/schema';
-import { toFile } from '../customers/customers.service';
-import { renderEmail } from '../integrations/mail';
+import { toFile } from '../customers/customer-views';
+import { renderEmail } from '../integrations/mail-layout';
 import { localDate } from '../company/company';
 import { equipmentLabel, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
 

@@ -14,8 +14,8 @@ import {
 } from '../../shared/renewals';
 import type { AppDeps } from '../deps';
 import { agreements, customers, plans, planVersions, renewalNotices } from '../db/schema';
-import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/billing.service';
-import { renderEmail } from '../integrations/mail';
+import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/checkout';
+import { renderEmail } from '../integrations/mail-layout';
 import { paymentErrorMessage } from '../integrations/stripe';
 import { ensureRenewalInvoice, termPriceCents } from '../agreements/agreements.service';
 import { companyRow, companyToday } from '../company/company';

@@ -5,7 +5,7 @@ import { z } from 'zod';
 import { FILE_CATEGORIES, type StoredFile } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
-import { toFile } from '../customers/customers.service';
+import { toFile } from '../customers/customer-views';
 import type { Db } from '../db/client';
 import { equipment, files, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';

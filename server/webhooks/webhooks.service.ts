@@ -2,7 +2,8 @@ import { eq } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import type { AppDeps } from '../deps';
 import { stripeEvents } from '../db/schema';
-import { syncCheckoutSession, syncPaymentIntent, syncRefunds } from '../billing/billing.service';
+import { syncCheckoutSession, syncPaymentIntent } from '../billing/checkout';
+import { syncRefunds } from '../billing/refunds';
 
 export const STRIPE_EVENT_JOB = 'stripe-event';
 

@@ -5,9 +5,11 @@ import { formatUsd } from '../../shared/money';
 import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../../shared/schemas/billing';
 import type { AppDeps } from '../deps';
 import { customers, payments } from '../db/schema';
-import { renderEmail } from '../integrations/mail';
-import { invoiceView } from './billing.service';
+import { renderEmail } from '../integrations/mail-layout';
+import { invoiceView } from './invoices';
 import { companyRow, type CompanyRow } from '../company/company';
+
+export const RECEIPT_JOB = 'billing-receipt';
 
 const require = createRequire(import.meta.url);
 // pdfkit reads TTF, OTF and WOFF (not WOFF2); @fontsource ships Nunito as WOFF.
@@ -124,4 +126,13 @@ export async function sendReceipt(deps: Pick<AppDeps, 'config' | 'database' | 'm
     attachments: [{ filename: `invoice-${view.number}.pdf`, content: pdf, contentType: 'application/pdf' }],
     idempotencyKey: `receipt-${paymentId}`,
   });
+}
+
+export async function queueReceipt(deps: Pick<AppDeps, 'logger' | 'jobs'>, paymentId: string): Promise<void> {
+  try {
+    await deps.jobs.send(RECEIPT_JOB, { paymentId }, { singletonKey: `receipt-${paymentId}` });
+  } catch (err) {
+    // A receipt that fails to send never undoes a recorded payment.
+    deps.logger.error({ err, paymentId }, 'receipt e-mail failed');
+  }
 }

@@ -5,7 +5,7 @@ import { IMPORT_FIELDS, type CustomerListQuery, type ImportFieldKey } from '../.
 import { BTUH_PER_TON } from '../../shared/schemas/equipment';
 import { customers, equipment, properties } from '../db/schema';
 import type { AppDeps } from '../deps';
-import { searchWhere } from './customers.service';
+import { searchWhere } from './search';
 
 // The households list as a CSV file, in the same columns the import reads.
 

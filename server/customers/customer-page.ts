@@ -1,22 +1,7 @@
-import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, isNull, ne, sql } from 'drizzle-orm';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
-import type {
-  Contact,
-  ContactInput,
-  CustomerCreate,
-  CustomerDetail,
-  CustomerListQuery,
-  CustomerPage,
-  CustomerUpdate,
-  Note,
-  NoteInput,
-  Property,
-  PropertyInput,
-  PropertyUpdate,
-  StoredFile,
-  TimelineEntry,
-} from '../../shared/schemas/customers';
+import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerUpdate, Note, NoteInput, Property, TimelineEntry } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
@@ -25,122 +10,7 @@ import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
-
-type CustomerRow = typeof customers.$inferSelect;
-type PropertyRow = typeof properties.$inferSelect;
-
-const iso = (d: Date | null) => (d ? d.toISOString() : null);
-
-export function toProperty(p: PropertyRow): Property {
-  return {
-    id: p.id,
-    customerId: p.customerId,
-    label: p.label,
-    street: p.street,
-    unit: p.unit,
-    city: p.city,
-    state: p.state,
-    zip: p.zip,
-    area: p.area,
-    accessNotes: p.accessNotes,
-    gateCode: p.gateCode,
-    pets: p.pets,
-    archived: p.archivedAt !== null,
-  };
-}
-
-export function toFile(f: typeof files.$inferSelect): StoredFile {
-  return {
-    id: f.id,
-    category: f.category,
-    contentType: f.contentType,
-    originalName: f.originalName,
-    sizeBytes: f.sizeBytes,
-    width: f.width,
-    height: f.height,
-    caption: f.caption,
-    propertyId: f.propertyId,
-    equipmentId: f.equipmentId,
-    visitId: f.visitId,
-    url: `/api/files/${f.id}`,
-    thumbUrl: f.thumbKey ? `/api/files/${f.id}/thumb` : null,
-    createdAt: f.createdAt.toISOString(),
-  };
-}
-
-const toContact = (c: typeof contacts.$inferSelect): Contact => ({ id: c.id, name: c.name, relationship: c.relationship, email: c.email, phone: c.phone, isPrimary: c.isPrimary });
-
-/** A duplicate live e-mail answers 409 naming the field, not a bare constraint name. */
-function duplicateEmail(err: unknown): never {
-  const e = err as { cause?: { code?: string; constraint?: string } };
-  if (e?.cause?.code === '23505' && e.cause.constraint === 'customers_live_email_key') {
-    throw new AppError(409, 'duplicate', 'Another household already uses that e-mail address. Open it, or merge the two.', { email: 'Another household already uses this e-mail address.' });
-  }
-  throw err;
-}
-
-// ---- Search and list ----
-
-const escapeLike = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
-
-/**
- * Search terms against the one indexed search column. A phone number typed with dashes or
- * brackets matches by its digits; several words must all match (name plus street, say).
- */
-export function searchTerms(q: string): string[] {
-  const trimmed = q.trim().toLowerCase();
-  if (/^[\d\s().+-]+$/.test(trimmed) && trimmed.replace(/\D/g, '').length >= 3) return [trimmed.replace(/\D/g, '')];
-  return trimmed.split(/\s+/).filter(Boolean).slice(0, 6);
-}
-
-export function searchWhere(q: string | undefined): SQL | undefined {
-  if (!q) return undefined;
-  const terms = searchTerms(q);
-  if (!terms.length) return undefined;
-  return and(...terms.map((t) => sql`${customers.searchText} ilike ${`%${escapeLike(t)}%`}`));
-}
-
-// Written out in full: drizzle renders ${'$'}{customers.id} unqualified in a select list, where "id" would mean p.id.
-const firstProperty = (col: 'street' | 'city') =>
-  sql<string | null>`(select p.${sql.raw(col)} from properties p where p.customer_id = "customers"."id" and p.archived_at is null order by p.created_at, p.id limit 1)`;
-
-export async function listCustomers(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<CustomerPage> {
-  const { db } = deps.database;
-  const where = and(
-    q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? isNotNull(customers.archivedAt) : undefined,
-    searchWhere(q.q),
-  );
-  const street = firstProperty('street');
-  const city = firstProperty('city');
-  const sortCol = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city }[q.sort];
-  const dir = q.dir === 'desc' ? desc : asc;
-  const [rows, [count]] = await Promise.all([
-    db
-      .select({
-        id: customers.id,
-        name: customers.name,
-        email: customers.email,
-        phone: customers.phone,
-        street,
-        city,
-        propertyCount: sql<number>`(select count(*)::int from properties p where p.customer_id = "customers"."id" and p.archived_at is null)`,
-        archivedAt: customers.archivedAt,
-        createdAt: customers.createdAt,
-      })
-      .from(customers)
-      .where(where)
-      .orderBy(q.dir === 'desc' ? sql`${sortCol} desc nulls last` : sql`${sortCol} asc nulls last`, dir(customers.id))
-      .limit(q.pageSize)
-      .offset(q.page * q.pageSize),
-    db.select({ n: sql<number>`count(*)::int` }).from(customers).where(where),
-  ]);
-  return {
-    items: rows.map(({ archivedAt, createdAt, ...r }) => ({ ...r, archived: archivedAt !== null, createdAt: createdAt.toISOString() })),
-    total: count?.n ?? 0,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
-}
+import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
 
 // ---- Create, read, update ----
 
@@ -162,11 +32,6 @@ export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: Cus
     .catch(duplicateEmail);
 }
 
-async function customerRow(db: Db | Tx, id: string): Promise<CustomerRow> {
-  const [c] = await db.select().from(customers).where(eq(customers.id, id)).limit(1);
-  if (!c) throw notFound('That household');
-  return c;
-}
 
 
 /** Everything about one household, with one timeline across its records (newest first). */
@@ -296,87 +161,6 @@ export async function setCustomerArchived(deps: Pick<AppDeps, 'database' | 'cloc
     .catch(duplicateEmail);
 }
 
-// ---- Merge ----
-
-interface ForeignKey {
-  table: string;
-  column: string;
-}
-
-/** Every single-column foreign key that points at customers.id, whichever feature owns the table. */
-async function customerReferences(tx: Tx): Promise<ForeignKey[]> {
-  const res = await tx.execute<{ table: string; column: string }>(sql`
-    select cl.relname as table, a.attname as column
-    from pg_constraint c
-    join pg_class cl on cl.oid = c.conrelid
-    join pg_namespace n on n.oid = cl.relnamespace and n.nspname = current_schema()
-    join pg_attribute a on a.attrelid = c.conrelid and a.attnum = c.conkey[1]
-    where c.contype = 'f' and c.confrelid = 'customers'::regclass and array_length(c.conkey, 1) = 1
-    order by cl.relname, a.attname`);
-  return res.rows.filter((r) => !(r.table === 'customers' && r.column === 'merged_into_id'));
-}
-
-export interface MergeResult {
-  targetId: string;
-  sourceId: string;
-  moved: Record<string, number>;
-  /** Rows that could not move because the target already has its own (one-per-household rows). */
-  keptOnSource: string[];
-}
-
-/**
- * Moves every record of the duplicate (source) onto the kept household (target), in one
- * transaction: properties with their equipment, agreements, visits, invoices, contacts, notes,
- * files and portal sign-ins. The source is archived and points at the target.
- */
-export async function mergeCustomers(deps: Pick<AppDeps, 'database' | 'clock'>, targetId: string, sourceId: string, user: SessionUser): Promise<MergeResult> {
-  const { db } = deps.database;
-  const now = deps.clock();
-  if (targetId === sourceId) throw new AppError(422, 'validation_failed', 'Please check sourceId.', { sourceId: 'Choose a different household to merge in.' });
-  return db.transaction(async (tx) => {
-    // Lock both in a fixed order so two merges of the same pair cannot deadlock.
-    const locked = await tx.execute<{ id: string }>(sql`select id from customers where id in (${targetId}, ${sourceId}) order by id for update`);
-    if (locked.rows.length !== 2) throw notFound('That household');
-    const target = await customerRow(tx, targetId);
-    const source = await customerRow(tx, sourceId);
-    if (target.archivedAt) throw conflict('The household you keep is archived; restore it first.');
-    if (source.mergedIntoId) throw conflict('That household was already merged.');
-
-    const moved: Record<string, number> = {};
-    const keptOnSource: string[] = [];
-    for (const fk of await customerReferences(tx)) {
-      const table = sql.identifier(fk.table);
-      const column = sql.identifier(fk.column);
-      try {
-        const res = await tx.transaction((sp) => sp.execute(sql`update ${table} set ${column} = ${targetId} where ${column} = ${sourceId}`));
-        if (res.rowCount) moved[fk.table] = (moved[fk.table] ?? 0) + res.rowCount;
-      } catch (err) {
-        const code = (err as { cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
-        if (code !== '23505') throw err;
-        keptOnSource.push(fk.table);
-      }
-    }
-
-    // The duplicate's own details become a contact on the kept household, so none are lost.
-    const sameEmail = !source.email || source.email === target.email;
-    const samePhone = !source.phone || source.phone === target.phone;
-    await tx
-      .update(customers)
-      .set({ archivedAt: now, mergedIntoId: targetId, updatedAt: now })
-      .where(eq(customers.id, sourceId));
-    const fill: Partial<typeof customers.$inferInsert> = {};
-    if (!target.email && source.email) fill.email = source.email;
-    if (!target.phone && source.phone) fill.phone = source.phone;
-    if (source.notes) fill.notes = [target.notes, source.notes].filter(Boolean).join('\n\n');
-    if (Object.keys(fill).length) await tx.update(customers).set({ ...fill, updatedAt: now }).where(eq(customers.id, targetId));
-    if ((!sameEmail && fill.email === undefined) || (!samePhone && fill.phone === undefined) || source.name !== target.name) {
-      await tx.insert(contacts).values({ customerId: targetId, name: source.name, relationship: 'From merged record', email: fill.email ? null : source.email, phone: fill.phone ? null : source.phone });
-    }
-    await tx.insert(customerNotes).values({ customerId: targetId, authorUserId: user.id, audience: 'office', body: `Merged the duplicate record "${source.name}" into this household.` });
-    return { targetId, sourceId, moved, keptOnSource };
-  });
-}
-
 // ---- Contacts and notes ----
 
 export async function addContact(deps: Pick<AppDeps, 'database'>, customerId: string, input: ContactInput): Promise<Contact> {
@@ -433,49 +217,3 @@ export async function addNote(deps: Pick<AppDeps, 'database'>, customerId: strin
     .returning();
   return { id: row!.id, body: row!.body, audience: row!.audience, propertyId: row!.propertyId, authorName: user.name, createdAt: row!.createdAt.toISOString() };
 }
-
-// ---- Properties ----
-
-export async function addProperty(deps: Pick<AppDeps, 'database'>, customerId: string, input: PropertyInput): Promise<Property> {
-  const { db } = deps.database;
-  const c = await customerRow(db, customerId);
-  if (c.archivedAt) throw conflict('This household is archived; restore it before adding a property.');
-  const [row] = await db
-    .insert(properties)
-    .values({ ...input, customerId })
-    .returning();
-  return toProperty(row!);
-}
-
-export async function propertyRow(db: Db | Tx, id: string): Promise<PropertyRow> {
-  const [p] = await db.select().from(properties).where(eq(properties.id, id)).limit(1);
-  if (!p) throw notFound('That property');
-  return p;
-}
-
-export async function updateProperty(deps: Pick<AppDeps, 'database'>, id: string, input: PropertyUpdate): Promise<Property> {
-  const { db } = deps.database;
-  const [row] = await db.update(properties).set(input).where(eq(properties.id, id)).returning();
-  if (!row) throw notFound('That property');
-  return toProperty(row);
-}
-
-export async function setPropertyArchived(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, archived: boolean): Promise<Property> {
-  const { db } = deps.database;
-  const now = deps.clock();
-  const [row] = await db
-    .update(properties)
-    .set({ archivedAt: archived ? now : null })
-    .where(eq(properties.id, id))
-    .returning();
-  if (!row) throw notFound('That property');
-  return toProperty(row);
-}
-
-/** Household ids for a set of properties (for access checks on property-scoped routes). */
-export async function customersOfProperties(db: Db | Tx, ids: string[]): Promise<Map<string, string>> {
-  if (!ids.length) return new Map();
-  const rows = await db.select({ id: properties.id, customerId: properties.customerId }).from(properties).where(inArray(properties.id, ids));
-  return new Map(rows.map((r) => [r.id, r.customerId]));
-}
-
