@@ -7,10 +7,10 @@ import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { agreements, customers, invoices, plans, planVersions, properties } from '../db/schema';
+import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ensureStripeCustomer, providerError, startInvoiceCheckout } from '../billing/checkout';
-import { insertInvoice, invoiceView } from '../billing/invoices';
+import { insertInvoice, invoiceView, voidOpenInvoicesOf } from '../billing/invoices';
 import { recordOfflinePayment } from '../billing/refunds';
 import { companyToday } from '../company/company';
 import { currentVersion, planViewOf } from '../plans/plans.service';
@@ -168,7 +168,7 @@ export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock'
     // A pending enrollment left unpaid is replaced by the new choice.
     for (const h of held) {
       await tx.update(agreements).set({ status: 'canceled', canceledAt: deps.clock() }).where(eq(agreements.id, h.id));
-      await tx.update(invoices).set({ status: 'void', voidedAt: deps.clock() }).where(and(eq(invoices.agreementId, h.id), eq(invoices.status, 'open')));
+      await voidOpenInvoicesOf(tx, h.id, deps.clock());
       await recordHistory(tx, { agreementId: h.id, event: 'canceled', fromStatus: 'pending', toStatus: 'canceled', note: 'Replaced by a new enrollment', actorId: user.id });
     }
     const [a] = await tx
@@ -366,7 +366,7 @@ export async function cancelAgreement(deps: Pick<AppDeps, 'database' | 'clock'>,
   await deps.database.db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
     await transition(tx, a, 'canceled', { canceledAt: deps.clock(), autoRenew: false }, { note: reason, actorId: user.id });
-    await tx.update(invoices).set({ status: 'void', voidedAt: deps.clock() }).where(and(eq(invoices.agreementId, id), eq(invoices.status, 'open'), eq(invoices.paidCents, 0)));
+    await voidOpenInvoicesOf(tx, id, deps.clock(), { unpaidOnly: true });
   });
   return readAgreement(deps, user, id);
 }

@@ -4,7 +4,7 @@ import type { AppDeps } from '../deps';
 import { agreements, billingAccounts, customers, invoices, payments } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import { paymentErrorMessage } from '../integrations/stripe';
-import { recordHistory } from '../agreements/terms';
+import { recordHistory, saveCardOnAgreement } from '../agreements/terms';
 
 type InvoiceRow = typeof invoices.$inferSelect;
 type PaymentRow = typeof payments.$inferSelect;
@@ -178,10 +178,7 @@ export async function recordCardPayment(deps: Pick<AppDeps, 'database' | 'clock'
     }
     const paid = await settleInvoice(tx, inv, p.amountCents, now, p.source ?? 'card', null);
     if (p.saveCard && p.card && inv.agreementId) {
-      await tx
-        .update(agreements)
-        .set({ stripePaymentMethodId: p.card.paymentMethodId, cardBrand: p.card.brand, cardLast4: p.card.last4, autoRenew: true })
-        .where(eq(agreements.id, inv.agreementId));
+      await saveCardOnAgreement(tx, inv.agreementId, p.card, { autoRenew: true });
     }
     return { recorded: true, paymentId, paid };
   });
@@ -265,10 +262,7 @@ export async function saveAgreementCard(deps: Pick<AppDeps, 'database' | 'stripe
   await deps.database.db.transaction(async (tx) => {
     const [a] = await tx.select().from(agreements).where(eq(agreements.id, agreementId)).for('update');
     if (!a || a.stripePaymentMethodId === method.id) return;
-    await tx
-      .update(agreements)
-      .set({ stripePaymentMethodId: method.id, cardBrand: method.card!.brand, cardLast4: method.card!.last4, ...(enableAutoRenew ? { autoRenew: true } : {}) })
-      .where(eq(agreements.id, agreementId));
+    await saveCardOnAgreement(tx, agreementId, { paymentMethodId: method.id, brand: method.card!.brand, last4: method.card!.last4 }, { autoRenew: enableAutoRenew });
     await recordHistory(tx, { agreementId, event: 'card_saved', note: `${method.card!.brand} ending ${method.card!.last4}${enableAutoRenew ? '; automatic renewal on' : ''}` });
   });
 }

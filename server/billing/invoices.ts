@@ -274,3 +274,11 @@ export async function settleInvoice(tx: Tx, inv: InvoiceRow, amountCents: number
   }
   return nowPaid;
 }
+
+/** Voids an agreement's open invoices (only those nothing was paid on, with unpaidOnly), for the agreements feature. */
+export async function voidOpenInvoicesOf(tx: Tx, agreementId: string, at: Date, opts: { unpaidOnly?: boolean } = {}): Promise<void> {
+  await tx
+    .update(invoices)
+    .set({ status: 'void', voidedAt: at })
+    .where(and(eq(invoices.agreementId, agreementId), eq(invoices.status, 'open'), opts.unpaidOnly ? eq(invoices.paidCents, 0) : undefined));
+}
