@@ -45,6 +45,12 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await expect(page.getByText('1 photo added.')).toBeVisible();
   await expect(page.getByRole('img', { name: 'Weak run capacitor' })).toBeVisible();
 
+  // Only a visit the technician has started can be completed: on the way, then on site.
+  await page.getByRole('button', { name: 'On my way' }).click();
+  await expect(page.getByText('Status: On the way.')).toBeVisible();
+  await page.getByRole('button', { name: 'Arrived on site' }).click();
+  await expect(page.getByText('Status: On site.')).toBeVisible();
+
   const completedAt = Date.now();
   await page.getByLabel('Findings', { exact: true }).fill('Cleaned the condensate drain and tightened connections. Compressor run capacitor is weak.');
   await page.getByLabel('Recommendations', { exact: true }).fill('Replace the compressor run capacitor. Coil cleaning recommended.');

@@ -4,23 +4,12 @@ import helmet from 'helmet';
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pinoHttp } from 'pino-http';
-import type { Logger } from 'pino';
 import type { Config } from './config';
-import type { Database } from './db/client';
+import type { AppDeps } from './deps';
 import { authMiddleware } from './auth/session';
 import { guardParams, jsonBodiesOnly, sameOriginWrites, storableTextOnly } from './http/edge';
 import { apiNotFound, errorHandler, notFoundAnywhere } from './http/errors';
 import { apiRouters } from './routes';
-import type { Services } from './services';
-
-export interface AppDeps {
-  config: Config;
-  database: Database;
-  clock: () => Date;
-  logger: Logger;
-  /** Mail, jobs, payments, storage: real in main.ts, local fakes in tests. */
-  services: Services;
-}
 
 /** Builds the Express app from explicit dependencies; nothing is read from globals. */
 export function createApp(deps: AppDeps): Express {

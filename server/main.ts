@@ -1,5 +1,6 @@
 import { pino } from 'pino';
 import { createApp } from './app';
+import { companyTimeZone } from './company/company';
 import { loadConfig, type Config } from './config';
 import { createDatabase } from './db/client';
 import { runMigrations } from './db/migrate';
@@ -8,8 +9,8 @@ import { createStripe } from './integrations/stripe';
 import { createStorage } from './integrations/storage';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
+import type { AppDeps } from './deps';
 import { closeHttpServer, logProcessFaults } from './runtime/shutdown';
-import type { Services } from './services';
 
 let config: Config;
 try {
@@ -25,7 +26,11 @@ logProcessFaults(logger);
 await runMigrations(config.DATABASE_URL);
 const database = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX, logger);
 const jobs = new Jobs(config.DATABASE_URL, logger);
-const services: Services = {
+const deps: AppDeps = {
+  config,
+  database,
+  clock: () => new Date(),
+  logger,
   mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
   jobs,
   stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
@@ -43,9 +48,8 @@ const services: Services = {
       : undefined,
   }),
 };
-const deps = { config, database, clock: () => new Date(), logger, services };
 registerJobs(deps);
-await jobs.start({ work: config.RUN_JOBS });
+await jobs.start({ work: config.RUN_JOBS, timeZone: await companyTimeZone(database.db) });
 const app = createApp(deps);
 
 const server = app.listen(config.PORT, config.HOST, () => {
@@ -65,7 +69,7 @@ async function stop(signal: NodeJS.Signals) {
   logger.info({ signal }, 'stopping: finishing requests in flight');
   await closeHttpServer(server, logger);
   await jobs.stop().catch((err: unknown) => logger.error({ err }, 'job workers did not stop cleanly'));
-  services.mailer?.close();
+  deps.mailer.close();
   await database.close().catch((err: unknown) => logger.error({ err }, 'closing the database pool failed'));
   logger.info('stopped');
   process.exit(0);

@@ -1,5 +1,5 @@
 import type { Router } from 'express';
-import type { AppDeps } from './app';
+import type { AppDeps } from './deps';
 import { agreementRoutes } from './agreements/agreements.routes';
 import { billingRoutes } from './billing/billing.routes';
 import { planRoutes } from './plans/plans.routes';
@@ -13,7 +13,7 @@ import { healthRoutes } from './health/health.routes';
 import { bookingRoutes } from './booking/booking.routes';
 import { dispatchRoutes } from './dispatch/dispatch.routes';
 import { scheduleRoutes } from './schedule/schedule.routes';
-import { reminderRoutes } from './reminders/reminders.routes';
+import { campaignRoutes } from './campaigns/campaigns.routes';
 import { settingsRoutes } from './settings/settings.routes';
 import { customerRoutes, propertyRoutes } from './customers/customers.routes';
 import { myHomeRoutes } from './customers/my-home.routes';
@@ -39,7 +39,7 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/agreements', build: agreementRoutes },
   { path: '/api/invoices', build: billingRoutes },
   { path: '/api/renewals', build: renewalRoutes },
-  { path: '/api/reminders', build: reminderRoutes },
+  { path: '/api/reminders', build: campaignRoutes },
   { path: '/api/settings', build: settingsRoutes },
   { path: '/api/session', build: sessionRoutes },
   { path: '/api/auth', build: authRoutes },

@@ -26,3 +26,23 @@ export const VISIT_STATUS_LABELS: Record<VisitStatus, string> = {
   canceled: 'Canceled',
   no_show: 'No-show',
 };
+
+/**
+ * Which status may follow which; anything else is refused. A visit is started by the technician
+ * (on the way, then on site) before it can be done. Going back to "requested" returns a visit to
+ * the unassigned queue.
+ */
+export const VISIT_TRANSITIONS: Record<VisitStatus, readonly VisitStatus[]> = {
+  requested: ['scheduled', 'canceled'],
+  scheduled: ['requested', 'on_the_way', 'on_site', 'canceled', 'no_show'],
+  on_the_way: ['requested', 'scheduled', 'on_site', 'canceled', 'no_show'],
+  on_site: ['done'],
+  done: [],
+  canceled: [],
+  no_show: ['requested', 'scheduled'],
+};
+
+/** True when a visit in `from` may move to `to`. Staying in the same status is not a transition. */
+export function canTransition(from: VisitStatus, to: VisitStatus): boolean {
+  return VISIT_TRANSITIONS[from].includes(to);
+}

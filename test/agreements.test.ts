@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { addDays, termEnd } from '../shared/renewals';
 import { agreementHistory, agreements, invoices } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { newHousehold, payOnHostedPage, planByCode, seedAgreement, startHarness, staff, waitFor, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';
 

@@ -15,7 +15,7 @@ const clock = () => new Date(now);
 
 beforeAll(async () => {
   mail = await mailCatcher();
-  ctx = testApp({ clock, services: { mailer: mail.mailer } });
+  ctx = testApp({ clock, mailer: mail.mailer });
   // Links go out through the mail queue, as in production.
   queue = await startTestJobs(ctx.deps);
 });

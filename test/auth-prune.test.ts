@@ -63,7 +63,7 @@ describe('pruning the rate-limit and sign-in throttle tables', () => {
       registered.push({ name, cron: opts.cron });
       jobs.register(name, handler as never, opts);
     } } as unknown as Jobs;
-    registerAuthJobs({ ...ctx.deps, services: { jobs: spy } });
+    registerAuthJobs({ ...ctx.deps, jobs: spy });
     // Once a day (minute, hour, any day): pg-boss cron syntax.
     expect(registered).toEqual([{ name: PRUNE_LIMITS_JOB, cron: expect.stringMatching(/^\d+ \d+ \* \* \*$/) }]);
     await jobs.runNow(PRUNE_LIMITS_JOB, {});

@@ -20,7 +20,7 @@ const clock = () => new Date(now);
 
 beforeAll(async () => {
   mail = await mailCatcher();
-  ctx = testApp({ clock, services: { mailer: mail.mailer } });
+  ctx = testApp({ clock, mailer: mail.mailer });
 });
 afterAll(async () => {
   await mail.close();

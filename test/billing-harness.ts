@@ -33,7 +33,7 @@ export async function startHarness(opts: { retries?: number; webhooks?: boolean 
   const smtp = await startSmtpCatcher({ port: 0 });
   const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${smtp.port}`, from: 'Bluestem Comfort <billing@bluestem-comfort.test>' });
   const stripe = createStripe({ secretKey: 'sk_test_billing_harness', apiUrl: fake.url, maxNetworkRetries: opts.retries ?? 0 });
-  const ctx = testApp({ services: { stripe, mailer }, env: { STRIPE_WEBHOOK_SECRET: WEBHOOK_SECRET, PUBLIC_URL: 'http://localhost:4999' } });
+  const ctx = testApp({ stripe, mailer, env: { STRIPE_WEBHOOK_SECRET: WEBHOOK_SECRET, PUBLIC_URL: 'http://localhost:4999' } });
   const server: Server = await new Promise((resolve) => {
     const s = ctx.app.listen(0, '127.0.0.1', () => resolve(s));
   });

@@ -3,8 +3,8 @@ import { eq, isNotNull } from 'drizzle-orm';
 import Stripe from 'stripe';
 import { addDays } from '../shared/renewals';
 import { invoices, payments } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
-import { nextInvoiceNumber } from '../server/billing/billing.service';
+import { localDate } from '../server/company/company';
+import { nextInvoiceNumber } from '../server/billing/invoices';
 import { newHousehold, payOnHostedPage, seedAgreement, staff, startHarness, waitFor, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';
 
@@ -211,7 +211,7 @@ describe('office payments and refunds', () => {
 
 describe('processor errors by class', () => {
   it('card, invalid request, idempotency and API errors each map to a clear answer', async () => {
-    const { providerError } = await import('../server/billing/billing.service');
+    const { providerError } = await import('../server/billing/checkout');
     const hh = await newHousehold(h, 'errors');
     const customer = await h.stripe.customers.create({ email: hh.email });
     // Card error: 4000 0000 0000 0002 declines (Stripe testing docs)

@@ -8,7 +8,7 @@ import { signInHomeowner, signInStaff, type Signed } from './support/auth';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
-import { sendDayBeforeReminders } from '../server/booking/reminders';
+import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
 
 const TZ = 'America/Chicago';
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';
@@ -72,7 +72,7 @@ async function waitForMail(to: string, subject: string, timeoutMs = 5000) {
 beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0 });
   const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Bluestem Comfort <office@bluestem-comfort.test>' });
-  ctx = testApp({ clock: () => now, services: { mailer } });
+  ctx = testApp({ clock: () => now, mailer });
 });
 
 /** Moves the clock and signs the office in again (staff sessions idle out after 30 minutes). */
@@ -83,7 +83,7 @@ async function at(iso: string): Promise<Signed> {
 }
 
 afterAll(async () => {
-  ctx.deps.services.mailer?.close();
+  ctx.deps.mailer.close();
   await catcher.close();
   await ctx.close();
 });

@@ -3,7 +3,7 @@ import { eq } from 'drizzle-orm';
 import { parsePhoneNumberFromString } from 'libphonenumber-js/max';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { contacts, customerNotes, customers, equipment, properties, technicians, users, visits } from '../server/db/schema';
-import { searchTerms } from '../server/customers/customers.service';
+import { searchTerms } from '../server/customers/search';
 import { testApp, type TestContext } from './support/app';
 import { signInHomeowner, signInStaff, type Signed } from './support/auth';
 

@@ -65,11 +65,11 @@ async function waitForMail(to: string, subject: string, timeoutMs = 5000) {
 beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0 });
   const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Bluestem Comfort <office@bluestem-comfort.test>' });
-  ctx = testApp({ clock: () => now, services: { mailer } });
+  ctx = testApp({ clock: () => now, mailer });
 });
 
 afterAll(async () => {
-  ctx.deps.services.mailer?.close();
+  ctx.deps.mailer.close();
   await catcher.close();
   await ctx.close();
 });

@@ -154,7 +154,7 @@ let tech: Signed;
 beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0 });
   mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: 'Bluestem Comfort <office@bluestem-comfort.test>' });
-  ctx = testApp({ services: { mailer }, env: { STORAGE_DIR: mkdtempSync(join(tmpdir(), 'sw-field-')) } });
+  ctx = testApp({ mailer, env: { STORAGE_DIR: mkdtempSync(join(tmpdir(), 'sw-field-')) } });
   f = await fixture(ctx);
   tech = await signInStaff(ctx, f.techEmail);
 });
@@ -367,7 +367,21 @@ describe('completing the visit', () => {
     expect(res.body.error.fields).toHaveProperty('findings');
   });
 
+  it('refuses, with 409, to complete a visit the technician never started', async () => {
+    const res = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { findings: 'Nothing was looked at.' }).expect(409);
+    expect(res.body.error.code).toBe('bad_transition');
+    expect(res.body.error.message).toBe('A visit that is scheduled cannot become done.');
+    const [row] = await ctx.database.db.select({ status: t.visits.status, completedAt: t.visits.completedAt }).from(t.visits).where(eq(t.visits.id, f.tuneUpId));
+    expect(row).toEqual({ status: 'scheduled', completedAt: null });
+    const events = await ctx.database.db.select().from(t.visitEvents).where(eq(t.visitEvents.visitId, f.tuneUpId));
+    expect(events.map((e) => e.toStatus)).not.toContain('done');
+  });
+
   it('marks it done, e-mails the homeowner a plain-words summary once, and locks the record', async () => {
+    catcher.store.clear();
+    // The technician starts the visit first: on the way, then on site.
+    await post(tech, `/api/dispatch/visits/${f.callId}/status`, { status: 'on_the_way' }).expect(200);
+    await post(tech, `/api/dispatch/visits/${f.callId}/status`, { status: 'on_site' }).expect(200);
     catcher.store.clear();
     const body = { findings: 'Clogged condensate drain tripped the overflow switch. Flushed and reset.', recommendations: 'Coil cleaning recommended.' };
     const res = await post(tech, `/api/field/visits/${f.callId}/complete`, body).expect(200);

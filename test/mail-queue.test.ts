@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { sendDayBeforeReminders } from '../server/booking/reminders';
+import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
 import * as t from '../server/db/schema';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { MailStore } from '../server/fakes/mail/mail-store';
@@ -47,7 +47,7 @@ beforeAll(async () => {
   catcher = await startSmtpCatcher({ port: 0, host: '127.0.0.1', store });
   port = catcher.port;
   mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${port}`, from: FROM });
-  ctx = testApp({ clock: () => now, services: { mailer } });
+  ctx = testApp({ clock: () => now, mailer });
   queue = await startTestJobs(ctx.deps);
 });
 
@@ -141,7 +141,7 @@ describe('giving up', () => {
   it('stops at the first permanent refusal (5xx) and records it', async () => {
     const to = address('permanent');
     const m = failing(550);
-    const deps = { ...ctx.deps, services: { mailer: m } };
+    const deps = { ...ctx.deps, mailer: m };
     const id = await recordMail(deps, { kind: 'test_notice', message: { to, subject: 'Refused', text: 'Hello.' } });
     expect(await deliverMail(deps, id!)).toBe('failed');
     expect(await deliverMail(deps, id!)).toBe('skipped');
@@ -153,7 +153,7 @@ describe('giving up', () => {
   it(`gives up after ${MAIL_MAX_ATTEMPTS} attempts at a server that keeps failing`, async () => {
     const to = address('transient');
     const m = failing(421);
-    const deps = { ...ctx.deps, services: { mailer: m } };
+    const deps = { ...ctx.deps, mailer: m };
     const id = await recordMail(deps, { kind: 'test_notice', message: { to, subject: 'Try later', text: 'Hello.' } });
     for (let i = 1; i < MAIL_MAX_ATTEMPTS; i++) await expect(deliverMail(deps, id!)).rejects.toThrow(/not accepted/);
     expect(await deliverMail(deps, id!)).toBe('failed');

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
-import { createMailer, MailInputError, renderEmail, type Mailer, type OutgoingMail } from '../server/integrations/mail';
+import { createMailer, MailInputError, type Mailer, type OutgoingMail } from '../server/integrations/mail';
+import { renderEmail } from '../server/integrations/mail-layout';
 import { parse } from './support/jsdom';
 
 const FROM = 'Seasonwell Office <office@seasonwell.example.test>';

@@ -3,7 +3,7 @@ import { randomUUID } from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { addDays } from '../shared/renewals';
 import { agreements, planVersions } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { newHousehold, OWNER, payOnHostedPage, seedAgreement, staff, startHarness, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
-import { sendCampaign } from '../server/reminders/reminders.service';
+import { sendCampaign } from '../server/campaigns/campaigns.service';
 import { testApp, type TestContext } from './support/app';
 import { anonymous, CSRF_HEADER_NAME, signInHomeowner, signInStaff } from './support/auth';
 
@@ -15,7 +15,7 @@ describe('seasonal reminder campaigns', () => {
   beforeAll(async () => {
     smtp = await startSmtpCatcher({ port: 0 });
     const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${smtp.port}`, from: 'Bluestem <office@bluestem-comfort.test>' });
-    ctx = testApp({ services: { mailer } });
+    ctx = testApp({ mailer });
   });
   afterAll(async () => {
     await ctx.close();

@@ -1,6 +1,6 @@
 import { DateTime } from 'luxon';
 import { describe, expect, it } from 'vitest';
-import { reminderDecision, seasonOf, type ReminderHousehold } from '../shared/reminders';
+import { reminderDecision, seasonOf, type ReminderHousehold } from '../shared/seasonal-reminders';
 
 const zone = 'America/Chicago';
 const day = (iso: string) => DateTime.fromISO(iso, { zone });

@@ -3,7 +3,7 @@ import { eq } from 'drizzle-orm';
 import Papa from 'papaparse';
 import { addDays } from '../shared/renewals';
 import { customers } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { newHousehold, seedAgreement, staff, startHarness, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';
 

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { addDays, idempotencyKeyForRenewal, termEnd } from '../shared/renewals';
 import { agreements, invoices, payments, renewalNotices } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { chargeRenewal, runRenewals } from '../server/renewals/renewal-engine';
 import { newHousehold, payOnHostedPage, seedAgreement, startHarness, type Harness } from './billing-harness';
 

@@ -2,7 +2,7 @@ import { DateTime } from 'luxon';
 import { describe, expect, it } from 'vitest';
 import { coverageFor, tuneUpSeasonOf } from '../shared/coverage';
 import { tuneUpChecklistOn } from '../shared/hvac';
-import { seasonOf as reminderSeason } from '../shared/reminders';
+import { seasonOf as reminderSeason } from '../shared/seasonal-reminders';
 import { DEFAULT_SEASON_SETTINGS, SeasonInputError, seasonMonths, seasonOf, seasonOfMonth, seasonSettingsSchema, type Season, type SeasonSettings } from '../shared/seasons';
 
 const zone = 'America/Chicago';

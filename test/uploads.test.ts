@@ -74,7 +74,7 @@ const upload = (s: Signed, fields: Record<string, string>) => {
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'sw-uploads-'));
-  ctx = testApp({ services: { storage: createLocalStorage(dir) } });
+  ctx = testApp({ storage: createLocalStorage(dir) });
   office = await signInStaff(ctx, 'teo.marchetti@bluestem-comfort.test');
   dana = await signInHomeowner(ctx, 'dana.whitfield@example.test');
   sam = await signInHomeowner(ctx, 'sam.oduya@example.test');

@@ -4,7 +4,7 @@ import Stripe from 'stripe';
 import request from 'supertest';
 import { addDays, termEnd } from '../shared/renewals';
 import { agreements, invoices, payments, stripeEvents } from '../server/db/schema';
-import { localDate } from '../server/billing/today';
+import { localDate } from '../server/company/company';
 import { runRenewals } from '../server/renewals/renewal-engine';
 import { newHousehold, payOnHostedPage, seedAgreement, startHarness, waitFor, WEBHOOK_SECRET, type Harness } from './billing-harness';
 import { CSRF_HEADER_NAME } from './support/auth';

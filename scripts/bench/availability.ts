@@ -7,6 +7,7 @@ import type { AddressInfo } from 'node:net';
 import { performance } from 'node:perf_hooks';
 import { pino } from 'pino';
 import { createApp } from '../../server/app';
+import { localFakes } from '../../test/support/fakes';
 import { loadCompanySettings, loadSchedulingData } from '../../server/booking/scheduling-input';
 import { loadConfig } from '../../server/config';
 import { createDatabase } from '../../server/db/client';
@@ -142,7 +143,7 @@ async function signIn(base: string): Promise<{ cookie: string; csrf: string }> {
 
 async function throughput(): Promise<void> {
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: URL_!, LOG_LEVEL: 'silent' });
-  const app = createApp({ config, database, clock: () => NOW.toJSDate(), logger: pino({ level: 'silent' }), services: {} });
+  const app = createApp({ config, database, clock: () => NOW.toJSDate(), logger: pino({ level: 'silent' }), ...localFakes() });
   const server = app.listen(0, '127.0.0.1');
   await new Promise((r) => server.once('listening', r));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

@@ -5,9 +5,10 @@ import { hash } from '@node-rs/argon2';
 import { performance } from 'node:perf_hooks';
 import { pino } from 'pino';
 import { createApp } from '../../server/app';
+import { localFakes } from '../../test/support/fakes';
 import { loadConfig } from '../../server/config';
 import { createDatabase } from '../../server/db/client';
-import { listCustomers } from '../../server/customers/customers.service';
+import { listCustomers } from '../../server/customers/search';
 import { customerListQuerySchema } from '../../shared/schemas/customers';
 import { signInStaff } from '../../test/support/auth';
 
@@ -121,7 +122,7 @@ async function measure(label: string, agent: Awaited<ReturnType<typeof signInSta
 try {
   await generate();
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: URL_, LOG_LEVEL: 'silent' });
-  const app = createApp({ config, database, clock: () => new Date(), logger: pino({ level: 'silent' }), services: {} });
+  const app = createApp({ config, database, clock: () => new Date(), logger: pino({ level: 'silent' }), ...localFakes() });
   const { agent } = await signInStaff(app, 'bench.office@example.test', PASSWORD);
   const terms = await searchTerms();
   const withIndex = await measure('with trigram index', agent, terms);
@@ -129,7 +130,7 @@ try {
   const sqlTimes: number[] = [];
   for (let i = 0; i < REQUESTS; i++) {
     const start = performance.now();
-    await listCustomers(database.db, customerListQuerySchema.parse({ q: terms[i % terms.length], pageSize: 25 }));
+    await listCustomers({ database }, customerListQuerySchema.parse({ q: terms[i % terms.length], pageSize: 25 }));
     sqlTimes.push(performance.now() - start);
   }
   const sqlOnly = stats(sqlTimes);
@@ -143,7 +144,7 @@ try {
     client.release();
     for (const t of [terms[0]!, terms[2]!, terms[3]!]) {
       console.log(`--- ${t}`);
-      await listCustomers(one.db, customerListQuerySchema.parse({ q: t, pageSize: 25 }));
+      await listCustomers({ database: one }, customerListQuerySchema.parse({ q: t, pageSize: 25 }));
     }
     await one.close();
   }

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { autoRenewSchema, cancelAgreementSchema, changeTierSchema, enrollSchema, manualRenewalSchema, renewSchema } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
 import { cancelAgreement, changeTier, enroll, manualRenewal, myAgreements, myProperties, readAgreement, renewOnline, setAutoRenew, updateCard } from './agreements.service';

@@ -4,13 +4,15 @@ import { formatUsd } from '../../shared/money';
 import { addDays, daysBetween, DEFAULT_GRACE_DAYS, lapseDate, lastCoveredDay, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
 import type { AgreementView, EnrollInput, PlanView } from '../../shared/schemas/plans';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { agreements, customers, invoices, plans, planVersions, properties } from '../db/schema';
+import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
-import { ensureStripeCustomer, insertInvoice, invoiceView, providerError, recordOfflinePayment, startInvoiceCheckout, stripeOf } from '../billing/billing.service';
-import { companySettings, localDate } from '../billing/today';
+import { ensureStripeCustomer, providerError, startInvoiceCheckout } from '../billing/checkout';
+import { insertInvoice, invoiceView, voidOpenInvoicesOf } from '../billing/invoices';
+import { recordOfflinePayment } from '../billing/refunds';
+import { companyToday } from '../company/company';
 import { currentVersion, planViewOf } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from './terms';
 
@@ -18,10 +20,6 @@ type AgreementRow = typeof agreements.$inferSelect;
 type PlanVersionRow = typeof planVersions.$inferSelect;
 type PlanRow = typeof plans.$inferSelect;
 
-export async function today(deps: AppDeps, db: Db | Tx = deps.database.db): Promise<string> {
-  const s = await companySettings(db);
-  return localDate(deps.clock(), s.timeZone);
-}
 
 /** Price for a term: the yearly price plus each system beyond the first. */
 export function termPriceCents(v: Pick<PlanVersionRow, 'yearlyPriceCents' | 'additionalSystemCents'>, systems: number): number {
@@ -47,24 +45,33 @@ function termLines(plan: PlanRow, v: PlanVersionRow, systems: number, start: str
 }
 
 async function planAndVersion(tx: Db | Tx, versionId: string) {
-  const [row] = await tx.select({ plan: plans, version: planVersions }).from(planVersions).innerJoin(plans, eq(planVersions.planId, plans.id)).where(eq(planVersions.id, versionId));
-  if (!row) throw notFound('That plan');
-  return row;
+  const found = await tx.query.planVersions.findFirst({ where: eq(planVersions.id, versionId), with: { plan: true } });
+  if (!found) throw notFound('That plan');
+  const { plan, ...version } = found;
+  return { plan, version };
 }
 
 // ---------- Views ----------
 
-export async function agreementView(deps: AppDeps, db: Db | Tx, a: AgreementRow, todayIso: string): Promise<AgreementView> {
-  const [c] = await db.select({ name: customers.name }).from(customers).where(eq(customers.id, a.customerId));
-  const [p] = await db.select().from(properties).where(eq(properties.id, a.propertyId));
-  const sold = await planAndVersion(db, a.planVersionId);
+export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: string): Promise<AgreementView> {
+  // The household, the home, the plan sold and the newest open invoice, in one relational read.
+  const linked = await db.query.agreements.findFirst({
+    where: eq(agreements.id, a.id),
+    columns: { id: true },
+    with: {
+      customer: { columns: { name: true } },
+      property: true,
+      planVersion: { with: { plan: true } },
+      invoices: { columns: { id: true }, where: eq(invoices.status, 'open'), orderBy: desc(invoices.createdAt), limit: 1 },
+    },
+  });
+  if (!linked) throw notFound('That agreement');
+  const { plan: soldPlan, ...soldVersion } = linked.planVersion;
+  const sold = { plan: soldPlan, version: soldVersion };
+  const c = linked.customer;
+  const p = linked.property;
+  const open = linked.invoices[0];
   const latest = await currentVersion(db, sold.plan.id);
-  const [open] = await db
-    .select({ id: invoices.id })
-    .from(invoices)
-    .where(and(eq(invoices.agreementId, a.id), eq(invoices.status, 'open')))
-    .orderBy(desc(invoices.createdAt))
-    .limit(1);
   const opens = renewalWindowOpens(a.endsOn);
   const canRenew =
     (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && todayIso >= opens)) && sold.plan.active;
@@ -95,16 +102,16 @@ export async function agreementView(deps: AppDeps, db: Db | Tx, a: AgreementRow,
   };
 }
 
-export async function myAgreements(deps: AppDeps, user: SessionUser): Promise<AgreementView[]> {
+export async function myAgreements(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<AgreementView[]> {
   const { db } = deps.database;
   if (!user.customerId) return [];
   const rows = await db.select().from(agreements).where(eq(agreements.customerId, user.customerId)).orderBy(desc(agreements.createdAt));
-  const t = await today(deps);
-  return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(deps, db, r, t)));
+  const t = await companyToday(deps);
+  return Promise.all(rows.filter((r) => r.status !== 'canceled').map((r) => agreementView(db, r, t)));
 }
 
 /** The household's homes, for choosing where a new agreement applies. */
-export async function myProperties(deps: AppDeps, user: SessionUser) {
+export async function myProperties(deps: Pick<AppDeps, 'database'>, user: SessionUser) {
   if (!user.customerId) return [];
   const { db } = deps.database;
   const rows = await db.select().from(properties).where(and(eq(properties.customerId, user.customerId), isNull(properties.archivedAt)));
@@ -120,15 +127,15 @@ export async function myProperties(deps: AppDeps, user: SessionUser) {
   }));
 }
 
-export async function readAgreement(deps: AppDeps, user: SessionUser, id: string): Promise<AgreementView> {
+export async function readAgreement(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<AgreementView> {
   const { db } = deps.database;
   const [a] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a) throw notFound('That agreement');
   await assertCustomerAccess(db, user, a.customerId);
-  return agreementView(deps, db, a, await today(deps));
+  return agreementView(db, a, await companyToday(deps));
 }
 
-async function ownAgreement(deps: AppDeps, user: SessionUser, id: string): Promise<AgreementRow> {
+async function ownAgreement(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<AgreementRow> {
   const { db } = deps.database;
   const [a] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a) throw notFound('That agreement');
@@ -139,7 +146,7 @@ async function ownAgreement(deps: AppDeps, user: SessionUser, id: string): Promi
 // ---------- Enrolling ----------
 
 /** A pending agreement and its first invoice; the Checkout payment makes it active. */
-export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
+export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
   const { db } = deps.database;
   const [prop] = await db.select().from(properties).where(eq(properties.id, input.propertyId));
   if (!prop || prop.archivedAt) throw new AppError(422, 'validation_failed', 'That property was not found.', { propertyId: 'That property was not found.' });
@@ -148,7 +155,7 @@ export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInpu
   if (!plan || !plan.active) throw new AppError(422, 'validation_failed', 'That plan is not offered.', { planId: 'That plan is not offered.' });
   const version = await currentVersion(db, plan.id);
   if (!version) throw new AppError(422, 'validation_failed', 'That plan has no price yet.', { planId: 'That plan has no price yet.' });
-  const t = await today(deps);
+  const t = await companyToday(deps);
 
   const { agreementId, invoiceId } = await db.transaction(async (tx) => {
     const held = await tx
@@ -161,7 +168,7 @@ export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInpu
     // A pending enrollment left unpaid is replaced by the new choice.
     for (const h of held) {
       await tx.update(agreements).set({ status: 'canceled', canceledAt: deps.clock() }).where(eq(agreements.id, h.id));
-      await tx.update(invoices).set({ status: 'void', voidedAt: deps.clock() }).where(and(eq(invoices.agreementId, h.id), eq(invoices.status, 'open')));
+      await voidOpenInvoicesOf(tx, h.id, deps.clock());
       await recordHistory(tx, { agreementId: h.id, event: 'canceled', fromStatus: 'pending', toStatus: 'canceled', note: 'Replaced by a new enrollment', actorId: user.id });
     }
     const [a] = await tx
@@ -196,7 +203,7 @@ export async function enroll(deps: AppDeps, user: SessionUser, input: EnrollInpu
  * The open renewal invoice for the agreement's next term, created once. Renewal is at the
  * plan's current price (a new term is a new sale); the term already sold is never repriced.
  */
-export async function ensureRenewalInvoice(deps: AppDeps, tx: Tx, agreementId: string, todayIso: string) {
+export async function ensureRenewalInvoice(deps: Pick<AppDeps, 'clock'>, tx: Tx, agreementId: string, todayIso: string) {
   const a = await lockAgreement(tx, agreementId);
   const [existing] = await tx
     .select()
@@ -233,9 +240,9 @@ function assertRenewable(a: AgreementRow, todayIso: string) {
   }
 }
 
-export async function renewOnline(deps: AppDeps, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
+export async function renewOnline(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
   const a0 = await ownAgreement(deps, user, id);
-  const t = await today(deps);
+  const t = await companyToday(deps);
   assertRenewable(a0, t);
   const invoiceId = await deps.database.db.transaction(async (tx) => (await ensureRenewalInvoice(deps, tx, id, t)).invoice.id);
   const { checkoutUrl } = await startInvoiceCheckout(deps, invoiceId, { returnPath: '/portal/plan', saveCard });
@@ -243,11 +250,11 @@ export async function renewOnline(deps: AppDeps, user: SessionUser, id: string, 
 }
 
 /** The office records a check or cash renewal: renewal invoice, payment, new term, receipt. */
-export async function manualRenewal(deps: AppDeps, user: SessionUser, id: string, input: { method: 'check' | 'cash'; reference: string }) {
+export async function manualRenewal(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, user: SessionUser, id: string, input: { method: 'check' | 'cash'; reference: string }) {
   const { db } = deps.database;
   const [a0] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a0) throw notFound('That agreement');
-  const t = await today(deps);
+  const t = await companyToday(deps);
   if (a0.status === 'canceled' || a0.status === 'pending') throw conflict('Only an agreement that has started can be renewed.');
   const inv = await db.transaction(async (tx) => (await ensureRenewalInvoice(deps, tx, id, t)).invoice);
   const view = await recordOfflinePayment(deps, user, inv.id, { method: input.method, amountCents: inv.totalCents - inv.paidCents, reference: input.reference });
@@ -256,7 +263,7 @@ export async function manualRenewal(deps: AppDeps, user: SessionUser, id: string
 
 // ---------- Automatic renewal and saved card ----------
 
-export async function setAutoRenew(deps: AppDeps, user: SessionUser, id: string, enabled: boolean): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
+export async function setAutoRenew(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, enabled: boolean): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled' || a.status === 'lapsed') throw conflict('Automatic renewal is only for a current agreement.');
   if (enabled && !a.stripePaymentMethodId) {
@@ -273,13 +280,13 @@ export async function setAutoRenew(deps: AppDeps, user: SessionUser, id: string,
   return { agreement: await readAgreement(deps, user, id) };
 }
 
-export async function updateCard(deps: AppDeps, user: SessionUser, id: string): Promise<{ checkoutUrl: string }> {
+export async function updateCard(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, user: SessionUser, id: string): Promise<{ checkoutUrl: string }> {
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled') throw conflict('This agreement is canceled.');
   return startCardSetup(deps, a, false);
 }
 
-async function startCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
+async function startCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
   try {
     return await openCardSetup(deps, a, enableAutoRenew);
   } catch (e) {
@@ -287,11 +294,11 @@ async function startCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: b
   }
 }
 
-async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
+async function openCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
   const customer = await ensureStripeCustomer(deps, a.customerId);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const metadata = { agreementId: a.id, enableAutoRenew: String(enableAutoRenew) };
-  const s = await stripeOf(deps).checkout.sessions.create({
+  const s = await deps.stripe.checkout.sessions.create({
     mode: 'setup',
     customer,
     metadata,
@@ -310,9 +317,9 @@ async function openCardSetup(deps: AppDeps, a: AgreementRow, enableAutoRenew: bo
  * tier takes effect when its invoice is paid; a cheaper one takes effect now and the difference is
  * credited against the next renewal.
  */
-export async function changeTier(deps: AppDeps, user: SessionUser, id: string, input: { planId: string; changeDate?: string }) {
+export async function changeTier(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: { planId: string; changeDate?: string }) {
   const { db } = deps.database;
-  const t = await today(deps);
+  const t = await companyToday(deps);
   const changeDate = input.changeDate ?? t;
   const result = await db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
@@ -355,11 +362,11 @@ export async function changeTier(deps: AppDeps, user: SessionUser, id: string, i
   return { ...result, agreement: await readAgreement(deps, user, id), invoice: result.invoiceId ? await invoiceView(db, result.invoiceId) : null };
 }
 
-export async function cancelAgreement(deps: AppDeps, user: SessionUser, id: string, reason: string) {
+export async function cancelAgreement(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, reason: string) {
   await deps.database.db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
     await transition(tx, a, 'canceled', { canceledAt: deps.clock(), autoRenew: false }, { note: reason, actorId: user.id });
-    await tx.update(invoices).set({ status: 'void', voidedAt: deps.clock() }).where(and(eq(invoices.agreementId, id), eq(invoices.status, 'open'), eq(invoices.paidCents, 0)));
+    await voidOpenInvoicesOf(tx, id, deps.clock(), { unpaidOnly: true });
   });
   return readAgreement(deps, user, id);
 }

@@ -1,10 +1,11 @@
 import { count, desc, eq } from 'drizzle-orm';
-import type { Db } from '../db/client';
 import { auditEvents, users } from '../db/schema';
 import type { AuditPage } from '../../shared/schemas/auth';
+import type { AppDeps } from '../deps';
 
 /** One page of the audit log, newest first, counted on the server. */
-export async function listAuditEvents(db: Db, q: { page: number; pageSize: number; action?: string }): Promise<AuditPage> {
+export async function listAuditEvents(deps: Pick<AppDeps, 'database'>, q: { page: number; pageSize: number; action?: string }): Promise<AuditPage> {
+  const { db } = deps.database;
   const where = q.action ? eq(auditEvents.action, q.action) : undefined;
   const [{ total }] = await db.select({ total: count() }).from(auditEvents).where(where);
   const rows = await db

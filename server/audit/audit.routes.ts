@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { auditQuerySchema } from '../../shared/schemas/auth';
@@ -10,7 +10,7 @@ export function auditRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
   router.get('/', requireRole('owner'), async (req, res) => {
     const q = parse(auditQuerySchema, req.query);
-    res.json(await listAuditEvents(deps.database.db, q));
+    res.json(await listAuditEvents(deps, q));
   });
   return router;
 }

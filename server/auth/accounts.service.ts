@@ -1,5 +1,5 @@
 import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { recordAudit } from '../audit/audit.service';
 import { customers, signInLinks, technicians, users } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
@@ -22,7 +22,7 @@ export interface Delivery {
 }
 
 /** Links a household to a new homeowner sign-in and returns the invitation link to send. */
-export async function inviteHousehold(deps: AppDeps, actor: SessionUser, customerId: string | undefined, input: HouseholdInvite, ip: string): Promise<Delivery & { customerId: string; userId: string }> {
+export async function inviteHousehold(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, actor: SessionUser, customerId: string | undefined, input: HouseholdInvite, ip: string): Promise<Delivery & { customerId: string; userId: string }> {
   const db = deps.database.db;
   const now = deps.clock();
   if (!customerId && !input.email) throw new AppError(422, 'validation_failed', 'Enter a customer or an e-mail address.', { email: 'Enter a customer or an e-mail address.' });
@@ -58,7 +58,7 @@ export async function inviteHousehold(deps: AppDeps, actor: SessionUser, custome
 }
 
 /** The owner invites a technician or office member; the link sets the first password. */
-export async function inviteStaff(deps: AppDeps, actor: SessionUser, input: StaffInvite, ip: string): Promise<Delivery & { userId: string }> {
+export async function inviteStaff(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, actor: SessionUser, input: StaffInvite, ip: string): Promise<Delivery & { userId: string }> {
   const now = deps.clock();
   return deps.database.db.transaction(async (tx) => {
     const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).limit(1);
@@ -72,7 +72,7 @@ export async function inviteStaff(deps: AppDeps, actor: SessionUser, input: Staf
 }
 
 /** Same work for known and unknown addresses; returns a delivery only for a staff account. */
-export async function requestPasswordReset(deps: AppDeps, rawEmail: string, ip: string): Promise<Delivery | null> {
+export async function requestPasswordReset(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, rawEmail: string, ip: string): Promise<Delivery | null> {
   const db = deps.database.db;
   const email = normaliseEmail(rawEmail);
   const now = deps.clock();
@@ -83,7 +83,7 @@ export async function requestPasswordReset(deps: AppDeps, rawEmail: string, ip: 
 }
 
 /** Uses an invitation or reset link to set a password; every other session of the user ends. */
-export async function setPasswordFromLink(deps: AppDeps, token: string, password: string, ip: string): Promise<SessionUser> {
+export async function setPasswordFromLink(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, token: string, password: string, ip: string): Promise<SessionUser> {
   const problem = passwordProblem(password);
   if (problem) throw new AppError(422, 'weak_password', problem, { password: problem });
   const db = deps.database.db;
@@ -98,12 +98,12 @@ export async function setPasswordFromLink(deps: AppDeps, token: string, password
   if (!u) throw new AppError(400, 'link_invalid', 'This link is not valid. Please ask for a new one.', { token: 'This link is not valid.' });
   // Other unused links for this account stop working once a password is chosen.
   await db.update(signInLinks).set({ usedAt: now }).where(and(eq(signInLinks.userId, u.id), eq(signInLinks.purpose, 'set_password'), isNull(signInLinks.usedAt)));
-  await endAllSessions(db, u.id);
+  await endAllSessions(deps, u.id);
   await recordAudit(db, { action: 'password_set', actorUserId: u.id, subject: u.email, ip, at: now });
   return { id: u.id, name: u.name, email: u.email, role: u.role, customerId: u.customerId };
 }
 
-export async function listStaff(deps: AppDeps): Promise<StaffMember[]> {
+export async function listStaff(deps: Pick<AppDeps, 'database'>): Promise<StaffMember[]> {
   const rows = await deps.database.db
     .select()
     .from(users)
@@ -121,7 +121,7 @@ export async function listStaff(deps: AppDeps): Promise<StaffMember[]> {
 }
 
 /** Role change and disabling for technician and office accounts; disabling ends their sessions. */
-export async function updateStaff(deps: AppDeps, actor: SessionUser, userId: string, change: StaffUpdate, ip: string): Promise<StaffMember> {
+export async function updateStaff(deps: Pick<AppDeps, 'database' | 'clock'>, actor: SessionUser, userId: string, change: StaffUpdate, ip: string): Promise<StaffMember> {
   const now = deps.clock();
   const db = deps.database.db;
   await db.transaction(async (tx) => {
@@ -142,17 +142,17 @@ export async function updateStaff(deps: AppDeps, actor: SessionUser, userId: str
       await recordAudit(tx, { action: change.disabled ? 'user_disabled' : 'user_enabled', actorUserId: actor.id, subject: u.email, ip, at: now, details: { userId: u.id } });
     }
   });
-  if (change.disabled) await endAllSessions(db, userId);
+  if (change.disabled) await endAllSessions(deps, userId);
   const member = (await listStaff(deps)).find((m) => m.id === userId);
   if (!member) throw notFound('That staff member');
   return member;
 }
 
-export async function signOutEverywhereFor(deps: AppDeps, actor: SessionUser, userId: string, ip: string): Promise<number> {
+export async function signOutEverywhereFor(deps: Pick<AppDeps, 'database' | 'clock'>, actor: SessionUser, userId: string, ip: string): Promise<number> {
   const db = deps.database.db;
   const [u] = await db.select({ id: users.id, email: users.email, role: users.role }).from(users).where(eq(users.id, userId)).limit(1);
   if (!u || u.role === 'homeowner') throw notFound('That staff member');
-  const ended = await endAllSessions(db, u.id);
+  const ended = await endAllSessions(deps, u.id);
   await recordAudit(db, { action: 'sign_out_everywhere', actorUserId: actor.id, subject: u.email, ip, at: deps.clock(), details: { userId: u.id, sessions: ended } });
   return ended;
 }

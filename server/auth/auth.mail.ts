@@ -1,7 +1,9 @@
-import type { AppDeps } from '../app';
-import { queueMail, type MailToQueue } from '../mail/outbox';
+import type { AppDeps } from '../deps';
+import { queueMail, type MailToQueue, type OutboxDeps } from '../mail/outbox';
 
-export const linkUrl = (deps: AppDeps, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
+type LinkMailDeps = Pick<AppDeps, 'config'> & OutboxDeps;
+
+export const linkUrl = (deps: Pick<AppDeps, 'config'>, path: string, token: string) => `${deps.config.publicUrl}${path}?token=${encodeURIComponent(token)}`;
 
 // Stands in for a token when the address is unknown, so that path composes the same message.
 const NO_TOKEN = 'x'.repeat(43);
@@ -11,12 +13,12 @@ const NO_TOKEN = 'x'.repeat(43);
  * address (`send` false) the message is composed the same way and dropped just before the queue,
  * so both answers take the same time apart from one insert.
  */
-async function deliver(deps: AppDeps, mail: MailToQueue, send = true): Promise<void> {
+async function deliver(deps: LinkMailDeps, mail: MailToQueue, send = true): Promise<void> {
   if (!send) return;
   await queueMail(deps, mail);
 }
 
-export async function sendSignInLink(deps: AppDeps, to: { email: string; token: string } | null): Promise<void> {
+export async function sendSignInLink(deps: LinkMailDeps, to: { email: string; token: string } | null): Promise<void> {
   const url = linkUrl(deps, '/sign-in/confirm', to?.token ?? NO_TOKEN);
   await deliver(
     deps,
@@ -32,7 +34,7 @@ export async function sendSignInLink(deps: AppDeps, to: { email: string; token: 
   );
 }
 
-export async function sendHouseholdInvitation(deps: AppDeps, to: { email: string; name: string; token: string }): Promise<void> {
+export async function sendHouseholdInvitation(deps: LinkMailDeps, to: { email: string; name: string; token: string }): Promise<void> {
   const url = linkUrl(deps, '/sign-in/confirm', to.token);
   await deliver(deps, {
     kind: 'household_invitation',
@@ -44,7 +46,7 @@ export async function sendHouseholdInvitation(deps: AppDeps, to: { email: string
   });
 }
 
-export async function sendStaffInvitation(deps: AppDeps, to: { email: string; name: string; token: string }): Promise<void> {
+export async function sendStaffInvitation(deps: LinkMailDeps, to: { email: string; name: string; token: string }): Promise<void> {
   const url = linkUrl(deps, '/set-password', to.token);
   await deliver(deps, {
     kind: 'staff_invitation',
@@ -56,7 +58,7 @@ export async function sendStaffInvitation(deps: AppDeps, to: { email: string; na
   });
 }
 
-export async function sendPasswordReset(deps: AppDeps, to: { email: string; token: string } | null): Promise<void> {
+export async function sendPasswordReset(deps: LinkMailDeps, to: { email: string; token: string } | null): Promise<void> {
   const url = linkUrl(deps, '/set-password', to?.token ?? NO_TOKEN);
   await deliver(
     deps,

@@ -1,6 +1,6 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { AppError, notFound, parse } from '../http/errors';
 import {
   forgotPasswordSchema,
@@ -93,7 +93,7 @@ export function authRoutes(deps: AppDeps): Router {
 
   router.post('/sign-out-everywhere', requireUser, async (req, res) => {
     const user = currentUser(req);
-    const ended = await endAllSessions(deps.database.db, user.id);
+    const ended = await endAllSessions(deps, user.id);
     await endSession(req, res, deps);
     await recordAudit(deps.database.db, { action: 'sign_out_everywhere', actorUserId: user.id, subject: user.email, ip: ipOf(req), at: deps.clock(), details: { sessions: ended } });
     res.json({ user: null, sessionsEnded: ended });

@@ -1,5 +1,5 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { recordAudit } from '../audit/audit.service';
 import { users } from '../db/schema';
 import { AppError } from '../http/errors';
@@ -23,7 +23,7 @@ const toSessionUser = (u: { id: string; name: string; email: string; role: Sessi
 });
 
 /** Checks a staff password with slow-down and lock-out; unknown addresses cost the same hash. */
-export async function verifyStaffPassword(deps: AppDeps, rawEmail: string, password: string, ip: string): Promise<SessionUser> {
+export async function verifyStaffPassword(deps: Pick<AppDeps, 'database' | 'clock'>, rawEmail: string, password: string, ip: string): Promise<SessionUser> {
   const db = deps.database.db;
   const email = normaliseEmail(rawEmail);
   const now = deps.clock();
@@ -61,7 +61,7 @@ export interface LinkRequestResult {
  * Signs and stores a homeowner sign-in link. Known and unknown addresses do the same work
  * (sign, hash, one insert-select) and the caller answers both the same way.
  */
-export async function requestSignInLink(deps: AppDeps, rawEmail: string, ip: string): Promise<LinkRequestResult> {
+export async function requestSignInLink(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, rawEmail: string, ip: string): Promise<LinkRequestResult> {
   const db = deps.database.db;
   const email = normaliseEmail(rawEmail);
   const now = deps.clock();
@@ -72,7 +72,7 @@ export async function requestSignInLink(deps: AppDeps, rawEmail: string, ip: str
 }
 
 /** Uses a sign-in link and returns the homeowner to sign in. */
-export async function confirmSignInLink(deps: AppDeps, token: string, ip: string): Promise<SessionUser> {
+export async function confirmSignInLink(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, token: string, ip: string): Promise<SessionUser> {
   const db = deps.database.db;
   const now = deps.clock();
   const used = await consumeLink(db, deps.config.JWT_SECRET, now, token, 'sign_in');

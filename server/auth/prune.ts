@@ -1,5 +1,5 @@
 import { and, isNull, lt, lte, or } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { authThrottle, rateLimitHits } from '../db/schema';
 import { WINDOW_MS } from './throttle';
 
@@ -29,7 +29,7 @@ export async function pruneLimits(deps: Pick<AppDeps, 'database' | 'clock'>): Pr
 
 export function registerAuthJobs(deps: AppDeps): void {
   // Daily, in the quiet of the night (company time zone).
-  deps.services.jobs?.register(PRUNE_LIMITS_JOB, async () => {
+  deps.jobs.register(PRUNE_LIMITS_JOB, async () => {
     const pruned = await pruneLimits(deps);
     deps.logger.info(pruned, 'pruned ended rate-limit windows and sign-in throttles');
   }, { cron: '40 3 * * *' });

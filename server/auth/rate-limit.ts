@@ -3,7 +3,7 @@ import type { Request, RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit, type IncrementResponse, type Options, type Store } from 'express-rate-limit';
 import type { z } from 'zod';
 import { forgotPasswordSchema, linkRequestSchema, staffSignInSchema } from '../../shared/schemas/auth';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { rateLimitHits } from '../db/schema';
 import { AppError } from '../http/errors';
 

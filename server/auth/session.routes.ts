@@ -1,6 +1,6 @@
 import type {} from '../auth/access';
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { issueCsrf } from './csrf';
 
 // Who is signed in, for the client's navigation; also hands out the CSRF token cookie.

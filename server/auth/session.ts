@@ -3,7 +3,7 @@ import { eq, sql } from 'drizzle-orm';
 import { Router, type Request, type Response } from 'express';
 import session from 'express-session';
 import passport from 'passport';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
 import { users } from '../db/schema';
 import { AppError } from '../http/errors';
@@ -84,7 +84,8 @@ export async function endSession(req: Request, res: Response, deps: AppDeps): Pr
 }
 
 /** Deletes every stored session of a user ("sign out everywhere", disabling). */
-export async function endAllSessions(db: Db, userId: string): Promise<number> {
+export async function endAllSessions(deps: Pick<AppDeps, 'database'>, userId: string): Promise<number> {
+  const { db } = deps.database;
   const result = await db.execute(sql`delete from ${sql.identifier(SESSION_TABLE)} where (sess::jsonb) -> 'passport' ->> 'user' = ${userId}`);
   return result.rowCount ?? 0;
 }

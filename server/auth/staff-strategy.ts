@@ -1,7 +1,7 @@
 import type passport from 'passport';
 type Authenticator = passport.Authenticator;
 import { Strategy as LocalStrategy } from 'passport-local';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { verifyStaffPassword } from './auth.service';
 
 export const STAFF_STRATEGY = 'staff-password';

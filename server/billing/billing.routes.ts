@@ -2,22 +2,14 @@ import { randomUUID } from 'node:crypto';
 import { Router } from 'express';
 import { z } from 'zod';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../../shared/schemas/billing';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
-import {
-  createServiceInvoice,
-  issueInvoice,
-  listInvoices,
-  readInvoice,
-  recordOfflinePayment,
-  refundInvoice,
-  startInvoiceCheckout,
-  syncCheckoutSession,
-  voidInvoice,
-} from './billing.service';
-import { renderInvoicePdf } from './receipt';
-import { companySettings } from './today';
+import { createServiceInvoice, issueInvoice, listInvoices, readInvoice, voidInvoice } from './invoices';
+import { recordOfflinePayment, refundInvoice } from './refunds';
+import { startInvoiceCheckout, syncCheckoutSession } from './checkout';
+import { renderInvoicePdf } from './receipts';
+import { companyRow } from '../company/company';
 
 const idParam = z.object({ id: z.uuid('That invoice was not found.') });
 const checkoutReturnSchema = z.object({ sessionId: z.string().regex(/^cs_[A-Za-z0-9_]{6,200}$/, 'That payment reference is not valid.') });
@@ -44,7 +36,7 @@ export function billingRoutes(deps: AppDeps): Router {
   });
   router.get('/:id/pdf', requireUser, async (req, res) => {
     const view = await readInvoice(deps, currentUser(req), parse(idParam, req.params).id);
-    const pdf = await renderInvoicePdf(view, await companySettings(db));
+    const pdf = await renderInvoicePdf(view, await companyRow(db));
     res.type('application/pdf').setHeader('Content-Disposition', `inline; filename="invoice-${view.number ?? 'draft'}.pdf"`);
     res.send(pdf);
   });

@@ -1,8 +1,9 @@
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
-import { renderEmail, type MailAttachment } from '../integrations/mail';
-import { queueMail, type MailToQueue } from '../mail/outbox';
+import type { MailAttachment } from '../integrations/mail';
+import { renderEmail } from '../integrations/mail-layout';
+import { queueMail, type MailToQueue, type OutboxDeps } from '../mail/outbox';
 import type { CompanySettings } from './scheduling-input';
 import { addressOf, labelFor, type VisitRow } from './visit-views';
 
@@ -83,7 +84,7 @@ export function visitMailToQueue(kind: VisitMailKind, v: VisitRow, c: CompanySet
  * Queues the visit e-mail when the household has an address; the mail queue sends and retries it.
  * A mail problem never undoes the booking. True when queued.
  */
-export async function sendVisitMail(deps: AppDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
+export async function sendVisitMail(deps: Pick<AppDeps, 'config'> & OutboxDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
   try {
     const mail = visitMailToQueue(kind, v, c, deps.config.publicUrl);
     return mail ? await queueMail(deps, mail) : false;

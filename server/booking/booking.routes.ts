@@ -1,11 +1,12 @@
 import { Router, type Response } from 'express';
 import { z } from 'zod';
 import { bookVisitSchema, cancelSchema, rescheduleSchema, windowsQuerySchema, type WindowFullBody } from '../../shared/schemas/booking';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { assertDatesWithin, BOOKING_RANGE } from '../http/ranges';
-import { authoriseVisit, bookingOptions, bookVisit, cancelVisit, myVisits, rescheduleVisit, visitDetail, windowsFor, WindowFullError } from './booking.service';
+import { authoriseVisit, bookingOptions, bookVisit, myVisits, visitDetail, windowsFor, WindowFullError } from './booking.service';
+import { cancelVisit, rescheduleVisit } from './visit-changes';
 
 const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });
 const customerQuery = z.object({ customerId: z.uuid({ message: 'must be a household id' }).optional() });

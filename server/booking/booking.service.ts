@@ -1,33 +1,15 @@
 import { and, asc, eq, gte, inArray, isNull, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
-import {
-  availableWindows,
-  nextFreeWindows,
-  planBooking,
-  SchedulingInputError,
-  type ArrivalWindow,
-  type AvailabilityInput,
-} from '../../shared/scheduling';
-import {
-  URGENT_REASONS,
-  visitKindFor,
-  type ArrivalWindowView,
-  type bookVisitSchema,
-  type BookingOptions,
-  type BookingProperty,
-  type cancelSchema,
-  type rescheduleSchema,
-  type VisitView,
-  type windowsQuerySchema,
-  type WindowsResponse,
-} from '../../shared/schemas/booking';
+import { availableWindows, nextFreeWindows, planBooking, SchedulingInputError, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
+import { URGENT_REASONS, visitKindFor, type ArrivalWindowView, type bookVisitSchema, type BookingOptions, type BookingProperty, type VisitView, type windowsQuerySchema, type WindowsResponse } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { VisitReason } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
+import { recordBooked } from '../visits/visit-status';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { agreements, customers, equipment, plans, planVersions, properties, visitEvents, visits } from '../db/schema';
+import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
@@ -47,14 +29,14 @@ export function windowView(w: ArrivalWindow): ArrivalWindowView {
   return { start: w.start, end: w.end, localLabel: w.localLabel, capacity: w.capacity, meetsPriorityPromise: w.meetsPriorityPromise };
 }
 
-function engineError(err: unknown): never {
+export function engineError(err: unknown): never {
   if (err instanceof SchedulingInputError) {
     throw new AppError(422, 'validation_failed', `Please check ${err.field}.`, { [err.field]: err.message });
   }
   throw err;
 }
 
-function isOverlap(err: unknown): boolean {
+export function isOverlap(err: unknown): boolean {
   const e = err as { code?: string; cause?: { code?: string } };
   return e?.code === '23P01' || e?.cause?.code === '23P01';
 }
@@ -103,7 +85,7 @@ function propertyView(
   };
 }
 
-async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
+export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
   const [p] = await db
     .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area, archivedAt: properties.archivedAt })
     .from(properties)
@@ -126,7 +108,7 @@ async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: strin
   };
 }
 
-export async function bookingOptions(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<BookingOptions> {
+export async function bookingOptions(deps: Pick<AppDeps, 'database'>, user: SessionUser, customerId: string | undefined): Promise<BookingOptions> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const target = user.role === 'homeowner' ? user.customerId : customerId;
@@ -150,7 +132,7 @@ export async function bookingOptions(deps: AppDeps, user: SessionUser, customerI
   };
 }
 
-interface EngineCall {
+export interface EngineCall {
   input: AvailabilityInput;
   property: PropertyContext;
   company: CompanySettings;
@@ -159,7 +141,7 @@ interface EngineCall {
 }
 
 /** Reads everything the engine needs for this caller over local dates [from, from + days]. */
-async function engineInput(
+export async function engineInput(
   db: Db | Tx,
   now: Date,
   property: PropertyContext,
@@ -205,7 +187,7 @@ async function engineInput(
   };
 }
 
-export async function windowsFor(deps: AppDeps, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
+export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
   const { db } = deps.database;
   const property = await propertyContext(db, user, q.propertyId, q.reason);
   if (q.visitId) await visitForChange(db, user, q.visitId, deps.clock());
@@ -226,14 +208,14 @@ export async function windowsFor(deps: AppDeps, user: SessionUser, q: z.output<t
 }
 
 /** Serialises bookings per local day so the held-back share is counted once; the EXCLUDE stays the last line. */
-async function lockDays(tx: Tx, instants: Date[], timeZone: string): Promise<void> {
+export async function lockDays(tx: Tx, instants: Date[], timeZone: string): Promise<void> {
   const days = [...new Set(instants.map((d) => Math.floor(DateTime.fromJSDate(d, { zone: timeZone }).startOf('day').toSeconds() / 86_400)))].sort(
     (a, b) => a - b,
   );
   for (const day of days) await tx.execute(sql`select pg_advisory_xact_lock(${BOOKING_LOCK}, ${day})`);
 }
 
-async function alternativesAfter(db: Db | Tx, call: EngineCall, after: string, excludeVisitId?: string): Promise<ArrivalWindowView[]> {
+export async function alternativesAfter(db: Db | Tx, call: EngineCall, after: string, excludeVisitId?: string): Promise<ArrivalWindowView[]> {
   // Fresh read: the data inside the losing transaction may predate the winner.
   const fresh = await engineInput(db, new Date(Date.parse(call.input.request.now)), call.property, call.reason, call.input.request.from, 1, excludeVisitId, 15);
   return nextFreeWindows(fresh.input, { after, count: 3 }).map(windowView);
@@ -245,7 +227,7 @@ export async function loadVisitRow(db: Db | Tx, id: string): Promise<VisitRow> {
   return row;
 }
 
-export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
+export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   const property = await propertyContext(db, user, body.propertyId, body.reason);
@@ -287,11 +269,9 @@ export async function bookVisit(deps: AppDeps, user: SessionUser, body: z.output
           priority: property.member || call.urgent,
         })
         .returning({ id: visits.id });
-      await tx.insert(visitEvents).values({
+      await recordBooked(tx, {
         visitId: row!.id,
-        actorUserId: user.id,
-        action: 'booked',
-        toStatus: 'requested',
+        actor: user.id,
         technicianId: plan.visit.technicianId,
         note: isStaffOffice(user) ? 'Booked by the office for a caller' : 'Booked online',
       });
@@ -325,12 +305,12 @@ export async function visitFor(db: Db | Tx, user: SessionUser, id: string): Prom
 }
 
 /** Authorisation for a visit route before its body is read: someone else's visit is a 404. */
-export async function authoriseVisit(deps: AppDeps, user: SessionUser, id: string): Promise<void> {
+export async function authoriseVisit(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string): Promise<void> {
   await visitFor(deps.database.db, user, id);
 }
 
 /** A visit the user may move or cancel now: open, and before the cut-off for homeowners. */
-async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: Date): Promise<VisitRow> {
+export async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: Date): Promise<VisitRow> {
   const row = await visitFor(db, user, id);
   if (user.role === 'technician') throw new AppError(403, 'forbidden', 'Technicians change visits from the dispatch board through the office.');
   if (row.status !== 'requested' && row.status !== 'scheduled') {
@@ -346,7 +326,7 @@ async function visitForChange(db: Db | Tx, user: SessionUser, id: string, now: D
   return row;
 }
 
-export async function myVisits(deps: AppDeps, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
+export async function myVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
   const { db } = deps.database;
   const target = user.role === 'homeowner' ? user.customerId : customerId;
   if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
@@ -358,87 +338,9 @@ export async function myVisits(deps: AppDeps, user: SessionUser, customerId: str
   return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now }));
 }
 
-export async function visitDetail(deps: AppDeps, user: SessionUser, id: string): Promise<VisitView> {
+export async function visitDetail(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<VisitView> {
   const { db } = deps.database;
   const row = await visitFor(db, user, id);
   const c = await loadCompanySettings(db);
   return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() });
-}
-
-export async function rescheduleVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof rescheduleSchema>): Promise<VisitView> {
-  const { db } = deps.database;
-  const now = deps.clock();
-  const before = await visitForChange(db, user, id, now);
-  const property = await propertyContext(db, user, before.propertyId, before.reason);
-  let call: EngineCall | undefined;
-  try {
-    await db.transaction(async (tx) => {
-      const company = await loadCompanySettings(tx);
-      await lockDays(tx, [before.windowStart, new Date(body.windowStart)], company.timeZone);
-      const current = await visitForChange(tx, user, id, now);
-      call = await engineInput(tx, now, property, current.reason, DateTime.fromISO(body.windowStart, { zone: company.timeZone }).toISODate()!, 1, id);
-      let plan;
-      try {
-        // A cheap one-day check first: planBooking would search two weeks ahead for alternatives inside the lock.
-        if (!availableWindows(call.input).some((w) => Date.parse(w.start) === Date.parse(body.windowStart))) throw new WindowFullError([]);
-        plan = planBooking(call.input, body.windowStart);
-      } catch (err) {
-        engineError(err);
-      }
-      if (!plan.ok) throw new WindowFullError([]);
-      await tx
-        .update(visits)
-        .set({
-          technicianId: plan.visit.technicianId,
-          windowStart: new Date(plan.visit.window.start),
-          windowEnd: new Date(plan.visit.window.end),
-          startsAt: new Date(plan.visit.start),
-          endsAt: new Date(plan.visit.end),
-          // A different technician must be confirmed again by the office.
-          status: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
-          sequence: sql`${visits.sequence} + 1`,
-          reminderSentAt: null,
-          updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: 'rescheduled',
-        fromStatus: current.status,
-        toStatus: current.status === 'scheduled' && current.technicianId === plan.visit.technicianId ? 'scheduled' : 'requested',
-        technicianId: plan.visit.technicianId,
-        note: `Moved to ${plan.visit.window.localLabel}`,
-      });
-    });
-  } catch (err) {
-    if ((isOverlap(err) || err instanceof WindowFullError) && call) throw new WindowFullError(await alternativesAfter(db, call, body.windowStart, id));
-    throw err;
-  }
-  const row = await loadVisitRow(db, id);
-  const company = await loadCompanySettings(db);
-  await sendVisitMail(deps, 'reschedule', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
-}
-
-export async function cancelVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
-  const { db } = deps.database;
-  const now = deps.clock();
-  await db.transaction(async (tx) => {
-    const current = await visitForChange(tx, user, id, now);
-    await tx.update(visits).set({ status: 'canceled', sequence: sql`${visits.sequence} + 1`, updatedAt: now }).where(eq(visits.id, id));
-    await tx.insert(visitEvents).values({
-      visitId: id,
-      actorUserId: user.id,
-      action: 'canceled',
-      fromStatus: current.status,
-      toStatus: 'canceled',
-      technicianId: current.technicianId,
-      note: body.reason || (user.role === 'homeowner' ? 'Canceled online by the homeowner' : 'Canceled by the office'),
-    });
-  });
-  const row = await loadVisitRow(db, id);
-  const company = await loadCompanySettings(db);
-  await sendVisitMail(deps, 'cancellation', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
 }

@@ -4,10 +4,10 @@ import type { BookedVisit, SchedulingSettings, Technician, WeeklyHours } from '.
 import { ACTIVE_STATUSES } from '../../shared/schemas/booking';
 import type { VisitKind } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
-import { bookingSettings, company, technicianTimeOff, technicians, users, visits } from '../db/schema';
+import { bookingSettings, technicianTimeOff, technicians, users, visits } from '../db/schema';
 import type { BusinessHours } from '../db/schema/company';
 import type { WeeklyHours as TechHours } from '../db/schema/technicians';
-import { AppError } from '../http/errors';
+import { companyRow } from '../company/company';
 
 const DAY_KEYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
 
@@ -43,8 +43,7 @@ export interface CompanySettings {
 }
 
 export async function loadCompanySettings(db: Db | Tx): Promise<CompanySettings> {
-  const [c] = await db.select().from(company).limit(1);
-  if (!c) throw new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
+  const c = await companyRow(db);
   const [b] = await db.select().from(bookingSettings).limit(1);
   const visitMinutes = { tune_up: b?.tuneUpMinutes ?? 90, service_call: b?.serviceCallMinutes ?? 120 };
   return {

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { homeContactSchema, homeNoteSchema } from '../../shared/schemas/customers';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { addMyNote, myHome, updateMyAccess, updateMyContact } from './my-home.service';
@@ -12,21 +12,21 @@ export function myHomeRoutes(deps: AppDeps): Router {
   r.use(requireRole('homeowner'));
 
   r.get('/', async (req, res) => {
-    res.json(await myHome(db, currentUser(req), deps.clock()));
+    res.json(await myHome(deps, currentUser(req)));
   });
 
   r.patch('/contact', async (req, res) => {
     const user = currentUser(req);
-    await updateMyContact(db, user, parse(homeContactSchema, req.body));
-    res.json((await myHome(db, user, deps.clock())).household);
+    await updateMyContact(deps, user, parse(homeContactSchema, req.body));
+    res.json((await myHome(deps, user)).household);
   });
 
   r.patch('/properties/:id', async (req, res) => {
-    res.json(await updateMyAccess(db, currentUser(req), String(req.params.id), req.body));
+    res.json(await updateMyAccess(deps, currentUser(req), String(req.params.id), req.body));
   });
 
   r.post('/notes', async (req, res) => {
-    res.status(201).json(await addMyNote(db, currentUser(req), parse(homeNoteSchema, req.body)));
+    res.status(201).json(await addMyNote(deps, currentUser(req), parse(homeNoteSchema, req.body)));
   });
 
   return r;

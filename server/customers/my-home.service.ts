@@ -5,8 +5,10 @@ import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, notFound, parse } from '../http/errors';
-import { getCustomer, toFile, toProperty, updateCustomer } from './customers.service';
-import { companyToday } from './today';
+import { getCustomer, updateCustomer } from './customer-page';
+import { toFile, toProperty } from './customer-views';
+import { companyToday } from '../company/company';
+import type { AppDeps } from '../deps';
 
 function household(user: SessionUser): string {
   if (!user.customerId) throw notFound('Your household');
@@ -14,11 +16,13 @@ function household(user: SessionUser): string {
 }
 
 /** The homeowner's own homes, equipment, visit history, photos and documents. */
-export async function myHome(db: Db, user: SessionUser, now: Date): Promise<MyHome> {
+export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<MyHome> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const customerId = household(user);
   const [c] = await db.select().from(customers).where(eq(customers.id, customerId)).limit(1);
   if (!c) throw notFound('Your household');
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   const props = await db
     .select()
     .from(properties)
@@ -29,7 +33,7 @@ export async function myHome(db: Db, user: SessionUser, now: Date): Promise<MyHo
     props.map((p) => p.id),
     today,
   );
-  const detail = await getCustomer(db, customerId, now);
+  const detail = await getCustomer(deps, customerId);
   const fileRows = await db
     .select()
     .from(files)
@@ -53,8 +57,9 @@ export async function myHome(db: Db, user: SessionUser, now: Date): Promise<MyHo
   };
 }
 
-export async function updateMyContact(db: Db, user: SessionUser, input: HomeContact): Promise<void> {
-  await updateCustomer(db, household(user), input);
+export async function updateMyContact(deps: Pick<AppDeps, 'database'>, user: SessionUser, input: HomeContact): Promise<void> {
+  const { db } = deps.database;
+  await updateCustomer(deps, household(user), input);
 }
 
 async function ownProperty(db: Db, user: SessionUser, propertyId: string) {
@@ -68,14 +73,16 @@ async function ownProperty(db: Db, user: SessionUser, propertyId: string) {
 }
 
 /** Ownership first, then the body: another household's home answers 404 whatever is sent. */
-export async function updateMyAccess(db: Db, user: SessionUser, propertyId: string, body: unknown) {
+export async function updateMyAccess(deps: Pick<AppDeps, 'database'>, user: SessionUser, propertyId: string, body: unknown) {
+  const { db } = deps.database;
   await ownProperty(db, user, propertyId);
   const input = parse(homeAccessSchema, body);
   const [row] = await db.update(properties).set(input).where(eq(properties.id, propertyId)).returning();
   return toProperty(row!);
 }
 
-export async function addMyNote(db: Db, user: SessionUser, input: { body: string; propertyId: string }): Promise<Note> {
+export async function addMyNote(deps: Pick<AppDeps, 'database'>, user: SessionUser, input: { body: string; propertyId: string }): Promise<Note> {
+  const { db } = deps.database;
   await ownProperty(db, user, input.propertyId).catch(() => {
     throw new AppError(422, 'validation_failed', 'Please check propertyId.', { propertyId: 'Choose one of your homes.' });
   });

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { assignSchema, boardQuerySchema, statusChangeSchema, timeOffSchema } from '../../shared/schemas/booking';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';

@@ -2,7 +2,6 @@ import { and, asc, eq, gt, ilike, inArray, isNull, lt, ne, or, sql } from 'drizz
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import {
-  STATUS_TRANSITIONS,
   type assignSchema,
   type boardQuerySchema,
   type BoardResponse,
@@ -12,18 +11,19 @@ import {
   type VisitView,
 } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import { canTransition, VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
+import type { AppDeps } from '../deps';
 import { sendVisitMail } from '../booking/booking.mail';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { toView, visitRows } from '../booking/visit-views';
 import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
 
 const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
 
-export async function board(deps: AppDeps, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
+export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const start = DateTime.fromISO(q.from, { zone: c.timeZone }).startOf('day');
@@ -87,7 +87,7 @@ function isOverlap(err: unknown): boolean {
 
 /** Skills, time off and working hours: the reasons a technician cannot take this visit. */
 async function checkTechnicianFits(
-  deps: AppDeps,
+  deps: Pick<AppDeps, 'database'>,
   technicianId: string,
   visit: { propertyId: string; reason: Parameters<typeof requiredSkillFor>[1]; startsAt: Date; endsAt: Date },
   timeZone: string,
@@ -132,7 +132,7 @@ async function checkTechnicianFits(
   return tech.name;
 }
 
-export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
+export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -153,11 +153,14 @@ export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, 
   const changedForHomeowner = moved || body.technicianId !== before.technicianId || status !== before.status;
   try {
     await db.transaction(async (tx) => {
-      await tx
-        .update(visits)
-        .set({
+      await changeVisitStatus(tx, {
+        visitId: id,
+        to: status,
+        actor: user.id,
+        action: moved ? 'rescheduled' : 'assigned',
+        note: body.technicianId ? `Assigned to ${techName}` : 'Returned to the unassigned queue',
+        changes: {
           technicianId: body.technicianId,
-          status,
           startsAt,
           endsAt,
           windowStart,
@@ -165,16 +168,7 @@ export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, 
           ...(changedForHomeowner ? { sequence: sql`${visits.sequence} + 1` } : {}),
           ...(moved ? { reminderSentAt: null } : {}),
           updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: moved ? 'rescheduled' : 'assigned',
-        fromStatus: before.status,
-        toStatus: status,
-        technicianId: body.technicianId,
-        note: body.technicianId ? `Assigned to ${techName}` : 'Returned to the unassigned queue',
+        },
       });
     });
   } catch (err) {
@@ -192,7 +186,7 @@ export async function assignVisit(deps: AppDeps, user: SessionUser, id: string, 
 
 const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
 
-export async function changeStatus(deps: AppDeps, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
+export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -203,36 +197,27 @@ export async function changeStatus(deps: AppDeps, user: SessionUser, id: string,
     if (!TECHNICIAN_MAY_SET.includes(body.status)) throw new AppError(403, 'forbidden', 'Only the office can make that change.');
   }
   if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
-  if (!STATUS_TRANSITIONS[before.status].includes(body.status)) {
-    throw new AppError(
-      422,
-      'bad_transition',
-      `A visit that is ${VISIT_STATUS_LABELS[before.status].toLowerCase()} cannot become ${VISIT_STATUS_LABELS[body.status].toLowerCase()}.`,
-      { status: `not allowed after ${VISIT_STATUS_LABELS[before.status].toLowerCase()}` },
-    );
+  // The office's status form hears a refused choice as a form error; a change that loses a race
+  // with another is refused again under the row lock, as a conflict.
+  if (!canTransition(before.status, body.status)) {
+    const refused = refusedTransition(before.status, body.status);
+    throw new AppError(422, refused.code, refused.message, refused.fields);
   }
   if (body.status === 'scheduled' && !before.technicianId) {
     throw new AppError(422, 'validation_failed', 'Assign a technician before scheduling.', { status: 'needs a technician first' });
   }
   try {
     await db.transaction(async (tx) => {
-      await tx
-        .update(visits)
-        .set({
-          status: body.status,
+      await changeVisitStatus(tx, {
+        visitId: id,
+        to: body.status,
+        actor: user.id,
+        note: body.note,
+        changes: {
           ...(body.status === 'done' ? { completedAt: now } : {}),
           ...(body.status === 'canceled' ? { sequence: sql`${visits.sequence} + 1` } : {}),
           updatedAt: now,
-        })
-        .where(eq(visits.id, id));
-      await tx.insert(visitEvents).values({
-        visitId: id,
-        actorUserId: user.id,
-        action: body.status === 'canceled' ? 'canceled' : 'status',
-        fromStatus: before.status,
-        toStatus: body.status,
-        technicianId: before.technicianId,
-        note: body.note,
+        },
       });
     });
   } catch (err) {
@@ -246,7 +231,7 @@ export async function changeStatus(deps: AppDeps, user: SessionUser, id: string,
   return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
 }
 
-export async function visitHistory(deps: AppDeps, id: string): Promise<VisitEventView[]> {
+export async function visitHistory(deps: Pick<AppDeps, 'database'>, id: string): Promise<VisitEventView[]> {
   const { db } = deps.database;
   await loadVisitRow(db, id);
   const techUsers = db.$with('tech_users').as(
@@ -271,7 +256,7 @@ export async function visitHistory(deps: AppDeps, id: string): Promise<VisitEven
   return rows.map((r) => ({ ...r, at: r.at.toISOString(), actorName: r.actorName ?? null, technicianName: r.technicianName ?? null }));
 }
 
-export async function addTimeOff(deps: AppDeps, body: z.output<typeof timeOffSchema>) {
+export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body: z.output<typeof timeOffSchema>) {
   const { db } = deps.database;
   const [tech] = await db.select({ id: technicians.id }).from(technicians).where(eq(technicians.id, body.technicianId)).limit(1);
   if (!tech) throw new AppError(422, 'validation_failed', 'That technician was not found.', { technicianId: 'not a technician' });
@@ -290,13 +275,13 @@ export async function addTimeOff(deps: AppDeps, body: z.output<typeof timeOffSch
   };
 }
 
-export async function removeTimeOff(deps: AppDeps, id: string): Promise<void> {
+export async function removeTimeOff(deps: Pick<AppDeps, 'database'>, id: string): Promise<void> {
   const rows = await deps.database.db.delete(technicianTimeOff).where(eq(technicianTimeOff.id, id)).returning({ id: technicianTimeOff.id });
   if (!rows.length) throw notFound('That time off');
 }
 
 /** Households for the office booking a caller: by name, e-mail, phone or street. */
-export async function findHouseholds(deps: AppDeps, q: string) {
+export async function findHouseholds(deps: Pick<AppDeps, 'database'>, q: string) {
   const term = `%${q.replace(/[\\%_]/g, (m) => `\\${m}`)}%`;
   const digits = q.replace(/\D/g, '');
   return deps.database.db

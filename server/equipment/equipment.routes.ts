@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { equipmentInputSchema, equipmentUpdateSchema } from '../../shared/schemas/equipment';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { createEquipment, getEquipment, listPropertyEquipment, setEquipmentArchived, updateEquipment } from './equipment.service';
@@ -21,28 +21,28 @@ export function equipmentRoutes(deps: AppDeps): Router {
   r.get('/', staff, async (req, res) => {
     const propertyId = typeof req.query.propertyId === 'string' ? req.query.propertyId : '';
     const id = parse(propertyRef, { propertyId }).propertyId;
-    res.json(await listPropertyEquipment(db, currentUser(req), id, deps.clock(), req.query.archived === 'true'));
+    res.json(await listPropertyEquipment(deps, currentUser(req), id, req.query.archived === 'true'));
   });
 
   r.post('/', staff, async (req, res) => {
     const { propertyId } = parse(propertyRef, { propertyId: req.body?.propertyId });
-    res.status(201).json(await createEquipment(db, currentUser(req), propertyId, parse(equipmentInputSchema, req.body), deps.clock()));
+    res.status(201).json(await createEquipment(deps, currentUser(req), propertyId, parse(equipmentInputSchema, req.body)));
   });
 
   r.get('/:id', staff, async (req, res) => {
-    res.json(await getEquipment(db, currentUser(req), String(req.params.id), deps.clock()));
+    res.json(await getEquipment(deps, currentUser(req), String(req.params.id)));
   });
 
   r.patch('/:id', staff, async (req, res) => {
-    res.json(await updateEquipment(db, currentUser(req), String(req.params.id), parse(equipmentUpdateSchema, req.body), deps.clock()));
+    res.json(await updateEquipment(deps, currentUser(req), String(req.params.id), parse(equipmentUpdateSchema, req.body)));
   });
 
   r.post('/:id/archive', office, async (req, res) => {
-    res.json(await setEquipmentArchived(db, currentUser(req), String(req.params.id), true, deps.clock()));
+    res.json(await setEquipmentArchived(deps, currentUser(req), String(req.params.id), true));
   });
 
   r.post('/:id/restore', office, async (req, res) => {
-    res.json(await setEquipmentArchived(db, currentUser(req), String(req.params.id), false, deps.clock()));
+    res.json(await setEquipmentArchived(deps, currentUser(req), String(req.params.id), false));
   });
 
   return r;

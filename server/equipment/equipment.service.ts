@@ -8,7 +8,8 @@ import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { equipment, properties } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
-import { companyToday } from '../customers/today';
+import { companyToday } from '../company/company';
+import type { AppDeps } from '../deps';
 
 export type EquipmentRow = typeof equipment.$inferSelect;
 
@@ -75,14 +76,16 @@ async function equipmentFor(db: Db | Tx, user: SessionUser, id: string) {
   return row;
 }
 
-export async function listPropertyEquipment(db: Db, user: SessionUser, propertyId: string, now: Date, includeArchived = false): Promise<Equipment[]> {
+export async function listPropertyEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, includeArchived = false): Promise<Equipment[]> {
+  const { db } = deps.database;
+  const now = deps.clock();
   await propertyFor(db, user, propertyId);
   const rows = await db
     .select()
     .from(equipment)
     .where(and(eq(equipment.propertyId, propertyId), includeArchived ? undefined : isNull(equipment.archivedAt)))
     .orderBy(asc(equipment.createdAt), asc(equipment.id));
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   return rows.map((r) => toEquipment(r, today));
 }
 
@@ -96,10 +99,12 @@ export async function equipmentForProperties(db: Db | Tx, propertyIds: string[],
   return rows.map((r) => toEquipment(r, today));
 }
 
-export async function createEquipment(db: Db, user: SessionUser, propertyId: string, input: EquipmentInput, now: Date): Promise<Equipment> {
+export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, input: EquipmentInput): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const p = await propertyFor(db, user, propertyId);
   if (p.archivedAt) throw new AppError(409, 'archived', 'That property is archived; restore it before adding equipment.');
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);
   const [row] = await db
     .insert(equipment)
@@ -108,14 +113,18 @@ export async function createEquipment(db: Db, user: SessionUser, propertyId: str
   return toEquipment(row!, today);
 }
 
-export async function getEquipment(db: Db, user: SessionUser, id: string, now: Date): Promise<Equipment> {
+export async function getEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
-  return toEquipment(e, await companyToday(db, now));
+  return toEquipment(e, await companyToday(deps));
 }
 
-export async function updateEquipment(db: Db, user: SessionUser, id: string, input: EquipmentUpdate, now: Date): Promise<Equipment> {
+export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: EquipmentUpdate): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
-  const today = await companyToday(db, now);
+  const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);
   const installedOn = input.installedOn !== undefined ? input.installedOn : e.installedOn;
   const warrantyEndsOn = input.warrantyEndsOn !== undefined ? input.warrantyEndsOn : e.warrantyEndsOn;
@@ -125,12 +134,14 @@ export async function updateEquipment(db: Db, user: SessionUser, id: string, inp
 }
 
 /** Equipment is archived, never deleted: readings, photos and visits still point at it. */
-export async function setEquipmentArchived(db: Db, user: SessionUser, id: string, archived: boolean, now: Date): Promise<Equipment> {
+export async function setEquipmentArchived(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, archived: boolean): Promise<Equipment> {
+  const { db } = deps.database;
+  const now = deps.clock();
   await equipmentFor(db, user, id);
   const [row] = await db
     .update(equipment)
     .set({ archivedAt: archived ? now : null })
     .where(eq(equipment.id, id))
     .returning();
-  return toEquipment(row!, await companyToday(db, now));
+  return toEquipment(row!, await companyToday(deps));
 }

@@ -19,7 +19,7 @@ import {
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
 import type { Db } from '../db/client';
-import { customers, properties, technicians, visitChecklistItems, visitEvents, visitReadings, visitTroubleshooting, visits } from '../db/schema';
+import { customers, properties, technicians, visitChecklistItems, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
 import { queueMail, type OutboxDeps } from '../mail/outbox';
 import { summaryEmail, technicianCautions, visitPhotos, visitSummary } from './summary';
@@ -28,7 +28,6 @@ import {
   companyInfo,
   equipmentLabel,
   fieldEquipment,
-  localDate,
   propertyEquipment,
   visitCoverage,
   visitForStaff,
@@ -36,9 +35,14 @@ import {
   type EquipmentRow,
   type VisitRow,
 } from './visit-data';
+import type { AppDeps } from '../deps';
+import { changeVisitStatus } from '../visits/visit-status';
+import { localDate } from '../company/company';
 
 /** The signed-in technician's visits today (the owner sees every technician's), in time order. */
-export async function todayVisits(db: Db, user: SessionUser, now: Date): Promise<{ date: string; visits: TodayVisit[] }> {
+export async function todayVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<{ date: string; visits: TodayVisit[] }> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const info = await companyInfo(db);
   const day = DateTime.fromJSDate(now, { zone: info.timeZone }).startOf('day');
   const inDay = and(gte(visits.startsAt, day.toJSDate()), lt(visits.startsAt, day.plus({ days: 1 }).toJSDate()), notInArray(visits.status, ['canceled']));
@@ -80,7 +84,9 @@ function savedReadings(r: typeof visitReadings.$inferSelect): SavedReadings {
 }
 
 /** Everything the visit screen shows: header, coverage, checklist, troubleshooting, readings, cautions. */
-export async function fieldVisit(db: Db, user: SessionUser, visitId: string, now: Date, seasonOverride?: Season): Promise<FieldVisit> {
+export async function fieldVisit(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, visitId: string, seasonOverride?: Season): Promise<FieldVisit> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const visit = await visitForStaff(db, user, visitId);
   const info = await companyInfo(db);
   const [header] = await visitListRows(db, eq(visits.id, visit.id), info);
@@ -150,7 +156,9 @@ async function equipmentOnVisit(db: Db, visit: VisitRow, equipmentId: string, fi
  * Saves one system's readings. The server evaluates them again with the same engine and stores
  * what it computed; saving twice (a retry after a dropped signal) replaces the first copy.
  */
-export async function saveReadings(db: Db, user: SessionUser, visitId: string, body: SaveReadings, now: Date): Promise<SavedReadings> {
+export async function saveReadings(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, visitId: string, body: SaveReadings): Promise<SavedReadings> {
+  const { db } = deps.database;
+  const now = deps.clock();
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
   await equipmentOnVisit(db, visit, body.equipmentId, 'equipmentId');
@@ -178,7 +186,8 @@ export async function saveReadings(db: Db, user: SessionUser, visitId: string, b
 }
 
 /** Replaces the visit's checklist results with the ones sent, each checked against the season's list. */
-export async function saveChecklist(db: Db, user: SessionUser, visitId: string, body: SaveChecklist): Promise<ChecklistSection[]> {
+export async function saveChecklist(deps: Pick<AppDeps, 'database'>, user: SessionUser, visitId: string, body: SaveChecklist): Promise<ChecklistSection[]> {
+  const { db } = deps.database;
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
   const items = await propertyEquipment(db, visit.propertyId);
@@ -200,7 +209,8 @@ export async function saveChecklist(db: Db, user: SessionUser, visitId: string, 
   return checklistSections(db, visitId, items, body.season);
 }
 
-export async function saveTroubleshooting(db: Db, user: SessionUser, visitId: string, body: Troubleshooting): Promise<Troubleshooting> {
+export async function saveTroubleshooting(deps: Pick<AppDeps, 'database'>, user: SessionUser, visitId: string, body: Troubleshooting): Promise<Troubleshooting> {
+  const { db } = deps.database;
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
   await db
@@ -210,7 +220,8 @@ export async function saveTroubleshooting(db: Db, user: SessionUser, visitId: st
   return body;
 }
 
-export async function saveNotes(db: Db, user: SessionUser, visitId: string, body: VisitNotes): Promise<VisitNotes> {
+export async function saveNotes(deps: Pick<AppDeps, 'database'>, user: SessionUser, visitId: string, body: VisitNotes): Promise<VisitNotes> {
+  const { db } = deps.database;
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
   await db.update(visits).set({ findings: body.findings, recommendations: body.recommendations, updatedAt: new Date() }).where(eq(visits.id, visitId));
@@ -221,45 +232,41 @@ export async function saveNotes(db: Db, user: SessionUser, visitId: string, body
  * Completes the visit and e-mails the homeowner the plain-words summary. Completing again (a
  * retry after a dropped signal) answers with the visit as it is and sends nothing more.
  */
-export async function completeVisit(
-  db: Db,
-  user: SessionUser,
-  visitId: string,
-  body: CompleteVisit,
-  ctx: { now: Date; mail: OutboxDeps; publicUrl: string; log: Logger },
-): Promise<CompletedVisit> {
+type CompleteDeps = Pick<AppDeps, 'config'> & OutboxDeps;
+
+export async function completeVisit(deps: CompleteDeps, user: SessionUser, visitId: string, body: CompleteVisit, log: Logger = deps.logger): Promise<CompletedVisit> {
+  const { db } = deps.database;
+  const now = deps.clock();
   await visitForStaff(db, user, visitId);
-  const result = await db.transaction(async (tx) => {
-    const [locked] = await tx.select().from(visits).where(eq(visits.id, visitId)).for('update');
-    if (!locked) throw new AppError(404, 'not_found', 'That visit was not found.');
-    if (locked.status === 'done') return { visit: locked, fresh: false };
-    if (locked.status === 'canceled' || locked.status === 'no_show') throw conflict('This visit was canceled; it cannot be completed.');
-    const [done] = await tx
-      .update(visits)
-      .set({ status: 'done', completedAt: ctx.now, findings: body.findings, recommendations: body.recommendations, updatedAt: ctx.now })
-      .where(eq(visits.id, visitId))
-      .returning();
-    await tx.insert(visitEvents).values({ visitId, at: ctx.now, actorUserId: user.id, action: 'status', fromStatus: locked.status, toStatus: 'done', technicianId: locked.technicianId, note: 'Completed on site' });
-    return { visit: done!, fresh: true };
-  });
-  const { visit } = result;
+  // Only a visit the technician is on site for can be done (the shared transition table).
+  const result = await db.transaction((tx) =>
+    changeVisitStatus(tx, {
+      visitId,
+      to: 'done',
+      actor: user.id,
+      at: now,
+      note: 'Completed on site',
+      changes: { completedAt: now, findings: body.findings, recommendations: body.recommendations },
+    }),
+  );
+  const visit = result.after;
   let summaryEmailed = false;
-  if (result.fresh) summaryEmailed = await sendSummary(db, visit, ctx);
+  if (result.changed) summaryEmailed = await sendSummary(deps, visit, log);
   return { id: visit.id, status: visit.status, completedAt: visit.completedAt!.toISOString(), summaryEmailed };
 }
 
-/** Queues the summary e-mail (the mail queue sends and retries it); true when queued. */
-async function sendSummary(db: Db, visit: VisitRow, ctx: { mail: OutboxDeps; publicUrl: string; log: Logger }): Promise<boolean> {
+async function sendSummary(deps: CompleteDeps, visit: VisitRow, log: Logger): Promise<boolean> {
+  const { db } = deps.database;
   const [c] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, visit.customerId));
   if (!c?.email) return false;
   const info = await companyInfo(db);
   const summary = await visitSummary(db, visit, info);
-  const mail = summaryEmail(summary, info, `${ctx.publicUrl}/portal/visits/${visit.id}`);
+  const mail = summaryEmail(summary, info, `${deps.config.publicUrl}/portal/visits/${visit.id}`);
   try {
-    return await queueMail(ctx.mail, { kind: 'visit_summary', key: `visit-summary:${visit.id}`, message: { to: c.email, ...mail } });
+    return await queueMail(deps, { kind: 'visit_summary', key: `visit-summary:${visit.id}`, message: { to: c.email, ...mail } });
   } catch (err) {
     // The visit stays completed; the office can resend from the record.
-    ctx.log.error({ err: (err as Error).message, visitId: visit.id }, 'visit summary e-mail was not queued');
+    log.error({ err: (err as Error).message, visitId: visit.id }, 'visit summary e-mail was not queued');
     return false;
   }
 }

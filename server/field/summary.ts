@@ -5,9 +5,10 @@ import type { VisitSummary } from '../../shared/schemas/field';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { equipment, files, technicians, users, visitReadings } from '../db/schema';
-import { toFile } from '../customers/customers.service';
-import { renderEmail } from '../integrations/mail';
-import { equipmentLabel, localDate, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
+import { toFile } from '../customers/customer-views';
+import { renderEmail } from '../integrations/mail-layout';
+import { localDate } from '../company/company';
+import { equipmentLabel, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
 
 const FUEL_BURNING = new Set(['gas_furnace']);
 

@@ -7,7 +7,8 @@ import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
-import { agreements, company, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
+import { agreements, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
+import { companyRow, localDate } from '../company/company';
 import { notFound } from '../http/errors';
 
 export type VisitRow = typeof visits.$inferSelect;
@@ -22,14 +23,9 @@ export interface CompanyInfo {
 }
 
 export async function companyInfo(db: Db | Tx): Promise<CompanyInfo> {
-  const [row] = await db
-    .select({ name: company.name, timeZone: company.timeZone, diagnosticFeeCents: company.diagnosticFeeCents, phone: company.phone })
-    .from(company)
-    .limit(1);
-  return row ?? { name: 'Seasonwell', timeZone: 'America/Chicago', diagnosticFeeCents: 0, phone: '' };
+  const { name, timeZone, diagnosticFeeCents, phone } = await companyRow(db);
+  return { name, timeZone, diagnosticFeeCents, phone };
 }
-
-export const localDate = (at: Date, zone: string): string => DateTime.fromJSDate(at, { zone }).toISODate()!;
 
 /** "9:00–11:00 AM", or "11:00 AM–1:00 PM" across noon, in the company's zone. */
 export function windowLabel(start: Date, end: Date, zone: string): string {

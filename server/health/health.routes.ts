@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { setTimeout as sleep } from 'node:timers/promises';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { databaseIsUp } from './health.service';
 
 export function healthRoutes(deps: AppDeps): Router {

@@ -8,7 +8,6 @@ import {
   nameSchema,
   phoneSchema,
   propertyInputSchema,
-  type CustomerListQuery,
   type ImportCheck,
   type ImportCounts,
   type ImportFieldKey,
@@ -17,11 +16,11 @@ import {
   type ImportProblem,
 } from '../../shared/schemas/customers';
 import { BTUH_PER_TON, equipmentInputSchema, type EquipmentInput } from '../../shared/schemas/equipment';
-import type { Db, Tx } from '../db/client';
+import type { Tx } from '../db/client';
 import { customers, equipment, properties } from '../db/schema';
-import { searchWhere } from '../customers/customers.service';
-import { toCsv } from '../http/csv';
 import { AppError } from '../http/errors';
+import type { AppDeps } from '../deps';
+import { companyToday } from '../company/company';
 
 export const MAX_IMPORT_ROWS = 20_000;
 
@@ -33,6 +32,9 @@ export interface CsvTable {
 }
 
 /** Parses CSV text (UTF-8, optional BOM) with a header row; refuses files that are not a table. */
+/** Undoes the export's formula escaping (server/http/csv.ts), so an exported file imports back as it was. */
+const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
+
 export function readCsv(buf: Buffer): CsvTable {
   let text: string;
   try {
@@ -319,7 +321,9 @@ class DryRun extends Error {
 }
 
 /** Checks a file and, when every row is good, works out what an import would do (then rolls back). */
-export async function checkImport(db: Db, buf: Buffer, mapping: ImportMapping, today: string): Promise<ImportCheck> {
+export async function checkImport(deps: Pick<AppDeps, 'database' | 'clock'>, buf: Buffer, mapping: ImportMapping): Promise<ImportCheck> {
+  const { db } = deps.database;
+  const today = await companyToday(deps);
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) return { valid: false, rowCount: table.rows.length, problems, counts: null };
@@ -335,7 +339,9 @@ export async function checkImport(db: Db, buf: Buffer, mapping: ImportMapping, t
 }
 
 /** Imports every row or none: any bad row answers 422 with each problem by row and column. */
-export async function runImport(db: Db, buf: Buffer, mapping: ImportMapping, today: string): Promise<{ rowCount: number; counts: ImportCounts }> {
+export async function runImport(deps: Pick<AppDeps, 'database' | 'clock'>, buf: Buffer, mapping: ImportMapping): Promise<{ rowCount: number; counts: ImportCounts }> {
+  const { db } = deps.database;
+  const today = await companyToday(deps);
   const table = readCsv(buf);
   const { values, problems } = checkRows(table, mapping, today);
   if (problems.length) {
@@ -350,57 +356,4 @@ export async function runImport(db: Db, buf: Buffer, mapping: ImportMapping, tod
     return writeRows(tx, values);
   });
   return { rowCount: table.rows.length, counts };
-}
-
-// ---- Export ----
-
-export const EXPORT_LIMIT = 50_000;
-
-/** Undoes the export's formula escaping (server/http/csv.ts), so an exported file imports back as it was. */
-const unguard = (v: string) => (/^'[=+\-@\t\r]/.test(v) ? v.slice(1) : v);
-
-/** The households of the current list view (search and sort), one row per piece of equipment. */
-export async function exportCustomersCsv(db: Db, q: CustomerListQuery): Promise<string> {
-  const where = and(q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? sql`${customers.archivedAt} is not null` : undefined, searchWhere(q.q));
-  const order = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city: sql`lower(${properties.city})` }[q.sort];
-  const rows = await db
-    .select({ c: customers, p: properties, e: equipment })
-    .from(customers)
-    .leftJoin(properties, and(eq(properties.customerId, customers.id), isNull(properties.archivedAt)))
-    .leftJoin(equipment, and(eq(equipment.propertyId, properties.id), isNull(equipment.archivedAt)))
-    .where(where)
-    .orderBy(q.dir === 'desc' ? sql`${order} desc nulls last` : sql`${order} asc nulls last`, asc(customers.id), asc(properties.createdAt), asc(equipment.createdAt))
-    .limit(EXPORT_LIMIT);
-  const fields = IMPORT_FIELDS.map((f) => f.key);
-  const data = rows.map(({ c, p, e }) => {
-    const cell: Record<ImportFieldKey, string> = {
-      customer_name: c.name,
-      customer_email: c.email ?? '',
-      customer_phone: c.phone ?? '',
-      property_label: p?.label ?? '',
-      street: p?.street ?? '',
-      unit: p?.unit ?? '',
-      city: p?.city ?? '',
-      state: p?.state ?? '',
-      zip: p?.zip ?? '',
-      equipment_kind: e ? EQUIPMENT_KIND_LABELS[e.kind] : '',
-      make: e?.make ?? '',
-      model: e?.model ?? '',
-      serial: e?.serial ?? '',
-      installed_on: e?.installedOn ?? '',
-      refrigerant: e ? (e.refrigerant ?? 'none') : '',
-      capacity_btuh: e?.capacityBtuh != null ? String(e.capacityBtuh) : '',
-      capacity_tons: e?.capacityBtuh != null ? String(Math.round((e.capacityBtuh / BTUH_PER_TON) * 100) / 100) : '',
-      volts: e?.volts != null ? String(e.volts) : '',
-      phase: e?.phase != null ? String(e.phase) : '',
-      rated_amps: e?.ratedAmps != null ? String(e.ratedAmps) : '',
-      filter_size: e?.filterSize ?? '',
-      filter_type: e?.filterType ?? '',
-      merv: e?.merv != null ? String(e.merv) : '',
-      warranty_ends_on: e?.warrantyEndsOn ?? '',
-      location: e?.location ?? '',
-    };
-    return fields.map((f) => cell[f]);
-  });
-  return toCsv(fields, data);
 }

@@ -1,9 +1,8 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { importMappingSchema } from '../../shared/schemas/customers';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';
-import { companyToday } from '../customers/today';
 import { AppError, parse } from '../http/errors';
 import { multipart } from '../uploads/multipart';
 import { checkImport, previewCsv, runImport } from './csv.service';
@@ -37,11 +36,11 @@ export function importRoutes(deps: AppDeps): Router {
   });
 
   r.post('/check', csv, async (req, res) => {
-    res.json(await checkImport(db, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
+    res.json(await checkImport(deps, fileOf(req), mappingOf(req)));
   });
 
   r.post('/run', csv, async (req, res) => {
-    res.status(201).json(await runImport(db, fileOf(req), mappingOf(req), await companyToday(db, deps.clock())));
+    res.status(201).json(await runImport(deps, fileOf(req), mappingOf(req)));
   });
 
   return r;

@@ -11,12 +11,22 @@ interface Registration {
   work?: PgBoss.WorkOptions;
 }
 
+export type JobOptions = { cron?: string; queue?: PgBoss.Queue; work?: PgBoss.WorkOptions };
+
+/** What features need from the job queue: pg-boss in main.ts, run-at-once in tests (inline.ts). */
+export interface JobQueue {
+  /** Register a queue and its handler before start; `cron` schedules it. */
+  register<T extends object>(name: string, handler: JobHandler<T>, opts?: JobOptions): void;
+  /** Queue one job; resolves with its id, or null when a job with the same singletonKey is waiting. */
+  send<T extends object>(name: string, data: T, options?: PgBoss.SendOptions): Promise<string | null>;
+}
+
 /**
  * Long work (renewals, campaigns, webhook processing, e-mail) runs as pg-boss jobs in PostgreSQL,
  * so several API and worker processes can share one database. Features register their queues
  * before start(); send() works once started.
  */
-export class Jobs {
+export class Jobs implements JobQueue {
   private boss: PgBoss | null = null;
   private readonly registrations: Registration[] = [];
   /** This process's worker per queue, woken at once when this process queues a job for it. */
@@ -25,23 +35,27 @@ export class Jobs {
   constructor(
     private readonly connectionString: string,
     private readonly logger: Logger,
-    private readonly timeZone = 'America/Chicago',
     /** pg-boss's schema; tests that run workers use one of their own. */
     private readonly schema = 'pgboss',
   ) {}
 
-  /** Register a queue and its handler; `cron` schedules it (in the company's time zone). */
-  register<T extends object>(name: string, handler: JobHandler<T>, opts: { cron?: string; queue?: PgBoss.Queue; work?: PgBoss.WorkOptions } = {}): void {
+  /** Register a queue and its handler; `cron` schedules it in the zone given to start(). */
+  register<T extends object>(name: string, handler: JobHandler<T>, opts: JobOptions = {}): void {
     this.registrations.push({ name, handler: handler as JobHandler<object>, cron: opts.cron, options: opts.queue, work: opts.work });
   }
 
-  async start({ work = true }: { work?: boolean } = {}): Promise<void> {
+  /**
+   * Creates the queues, schedules the cron jobs in `timeZone` (the company's, from its row) and
+   * starts the workers. Without a zone (no company row yet) nothing is scheduled until a restart.
+   */
+  async start({ work = true, timeZone }: { work?: boolean; timeZone: string | null }): Promise<void> {
     const boss = new PgBoss({ connectionString: this.connectionString, schema: this.schema, max: 4 });
     boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
     await boss.start();
     for (const r of this.registrations) {
       await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
-      if (r.cron) await boss.schedule(r.name, r.cron, {}, { tz: this.timeZone });
+      if (r.cron && timeZone) await boss.schedule(r.name, r.cron, {}, { tz: timeZone });
+      else if (r.cron) this.logger.warn({ queue: r.name }, 'the company is not set up: scheduled job not scheduled');
       if (work) {
         const workerId = await boss.work<object>(r.name, r.work ?? {}, async (jobs) => {
           for (const job of jobs) await r.handler(job.data ?? {}, { id: job.id, name: job.name });

@@ -1,19 +1,19 @@
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { registerAuthJobs } from '../auth/prune';
 import { registerMailJobs } from '../mail/mail.jobs';
 import { registerBillingJobs } from '../billing/billing.jobs';
-import { registerBookingJobs } from '../booking/reminders';
+import { registerBookingJobs } from '../booking/day-before-notices';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
-import { registerReminderJobs } from '../reminders/reminders.service';
+import { registerCampaignJobs } from '../campaigns/campaigns.service';
 
 /**
  * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
- * register function calls deps.services.jobs.register(name, handler, { cron }).
+ * register function calls deps.jobs.register(name, handler, { cron }).
  */
 export function registerJobs(deps: AppDeps): void {
   registerBillingJobs(deps);
   registerRenewalJobs(deps);
-  registerReminderJobs(deps);
+  registerCampaignJobs(deps);
   registerBookingJobs(deps);
   registerAuthJobs(deps);
   registerMailJobs(deps);

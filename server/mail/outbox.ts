@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { and, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import type { Logger } from 'pino';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
 import { mailSends, type StoredMail } from '../db/schema';
 import { MailDeliveryError, MailInputError, type OutgoingMail } from '../integrations/mail';
@@ -17,7 +17,7 @@ export const MAIL_MAX_ATTEMPTS = 6;
 /** A claim older than this belongs to a worker that died mid-send; the job's retry may take it over. */
 const STALE_CLAIM_MS = 2 * 60_000;
 
-export type OutboxDeps = Pick<AppDeps, 'database' | 'services' | 'logger' | 'clock'>;
+export type OutboxDeps = Pick<AppDeps, 'database' | 'mailer' | 'jobs' | 'logger' | 'clock'>;
 
 export interface MailToQueue {
   /** What the mail is, for the record: 'sign_in_link', 'visit_reminder', … */
@@ -65,14 +65,10 @@ function fromStored(stored: StoredMail, key: string): OutgoingMail {
 }
 
 /**
- * Records the mail; returns its id, or null when it was already queued under the same key or no
- * mailer is configured. Inside a transaction (`tx`), call startSending() after the commit.
+ * Records the mail; returns its id, or null when it was already queued under the same key.
+ * Inside a transaction (`tx`), call startSending() after the commit.
  */
-export async function recordMail(deps: OutboxDeps, mail: MailToQueue, tx?: Tx): Promise<string | null> {
-  if (!deps.services.mailer) {
-    deps.logger.warn({ kind: mail.kind }, 'no mailer configured; e-mail not queued');
-    return null;
-  }
+export async function recordMail(deps: Pick<OutboxDeps, 'database'>, mail: MailToQueue, tx?: Tx): Promise<string | null> {
   const db: Db | Tx = tx ?? deps.database.db;
   const [row] = await db
     .insert(mailSends)
@@ -82,17 +78,9 @@ export async function recordMail(deps: OutboxDeps, mail: MailToQueue, tx?: Tx): 
   return row?.id ?? null;
 }
 
-/**
- * Hands recorded mails to the job queue. A process without a job queue (tests that start none)
- * sends them here and now instead, through the same delivery code.
- */
-export async function startSending(deps: OutboxDeps, ids: (string | null)[]): Promise<void> {
-  const jobs = deps.services.jobs;
-  for (const id of ids) {
-    if (!id) continue;
-    if (jobs) await jobs.send(MAIL_SEND_JOB, { id });
-    else await deliverMail(deps, id).catch(() => {});
-  }
+/** Hands recorded mails to the job queue, which sends, retries and records them. */
+export async function startSending(deps: Pick<OutboxDeps, 'jobs'>, ids: (string | null)[]): Promise<void> {
+  for (const id of ids) if (id) await deps.jobs.send(MAIL_SEND_JOB, { id });
 }
 
 /** Records the mail and queues its sending; true when a new mail was queued. */
@@ -138,13 +126,12 @@ export async function deliverMail(deps: OutboxDeps, id: string, log: Pick<Logger
     if (current?.status === 'sending') throw new Error('the e-mail is being sent by another worker; trying again later');
     return 'skipped';
   }
-  const mailer = deps.services.mailer;
-  if (!row.message || !mailer) {
-    await db.update(mailSends).set({ status: 'failed', lastError: row.message ? 'no mailer configured' : 'the message is missing', updatedAt: now }).where(eq(mailSends.id, id));
+  if (!row.message) {
+    await db.update(mailSends).set({ status: 'failed', lastError: 'the message is missing', updatedAt: now }).where(eq(mailSends.id, id));
     return 'failed';
   }
   try {
-    const info = await mailer.send(fromStored(row.message, row.key));
+    const info = await deps.mailer.send(fromStored(row.message, row.key));
     const sentAt = deps.clock();
     await db.update(mailSends).set({ status: 'sent', sentAt, messageId: info.messageId, message: null, lastError: null, updatedAt: sentAt }).where(eq(mailSends.id, id));
     log.info({ mailId: id, kind: row.kind, attempts: row.attempts }, 'e-mail sent');

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { createPlanSchema, planActiveSchema, planTermsSchema } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
 import { createPlan, listPlans, planVersionsOf, setPlanActive, updatePlan } from './plans.service';
@@ -14,22 +14,22 @@ export function planRoutes(deps: AppDeps): Router {
   router.get('/', requireUser, async (req, res) => {
     const user = currentUser(req);
     const all = req.query['all'] === '1' && isStaffOffice(user);
-    res.json({ plans: await listPlans(db, { includeInactive: all }) });
+    res.json({ plans: await listPlans(deps, { includeInactive: all }) });
   });
   router.get('/:id/versions', requireRole('owner', 'office'), async (req, res) => {
     const { id } = parse(idParam, req.params);
-    res.json({ versions: await planVersionsOf(db, id) });
+    res.json({ versions: await planVersionsOf(deps, id) });
   });
   router.post('/', requireRole('owner'), async (req, res) => {
-    res.status(201).json(await createPlan(db, parse(createPlanSchema, req.body)));
+    res.status(201).json(await createPlan(deps, parse(createPlanSchema, req.body)));
   });
   router.put('/:id', requireRole('owner'), async (req, res) => {
     const { id } = parse(idParam, req.params);
-    res.json(await updatePlan(db, id, parse(planTermsSchema, req.body)));
+    res.json(await updatePlan(deps, id, parse(planTermsSchema, req.body)));
   });
   router.patch('/:id', requireRole('owner'), async (req, res) => {
     const { id } = parse(idParam, req.params);
-    res.json(await setPlanActive(db, id, parse(planActiveSchema, req.body).active));
+    res.json(await setPlanActive(deps, id, parse(planActiveSchema, req.body).active));
   });
   return router;
 }

@@ -3,6 +3,7 @@ import type { PlanTerms, PlanView } from '../../shared/schemas/plans';
 import type { Db, Tx } from '../db/client';
 import { agreements, plans, planVersions } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import type { AppDeps } from '../deps';
 
 type PlanRow = typeof plans.$inferSelect;
 type VersionRow = typeof planVersions.$inferSelect;
@@ -34,7 +35,8 @@ export function planViewOf(p: PlanRow, v: VersionRow): PlanView {
 }
 
 /** Plans with their current terms; homeowners see only the ones on offer. */
-export async function listPlans(db: Db, opts: { includeInactive: boolean }): Promise<PlanView[]> {
+export async function listPlans(deps: Pick<AppDeps, 'database'>, opts: { includeInactive: boolean }): Promise<PlanView[]> {
+  const { db } = deps.database;
   const rows = await db
     .select()
     .from(plans)
@@ -72,7 +74,8 @@ function versionValues(planId: string, version: number, t: PlanTerms) {
   };
 }
 
-export async function createPlan(db: Db, input: PlanTerms & { code: string }): Promise<PlanView> {
+export async function createPlan(deps: Pick<AppDeps, 'database'>, input: PlanTerms & { code: string }): Promise<PlanView> {
+  const { db } = deps.database;
   return db.transaction(async (tx) => {
     const [{ max }] = (await tx.select({ max: sql<number>`coalesce(max(${plans.sortOrder}), -1)::int` }).from(plans)) as [{ max: number }];
     const [p] = await tx
@@ -95,7 +98,8 @@ const sameTerms = (v: VersionRow, t: PlanTerms) =>
   JSON.stringify(v.extras) === JSON.stringify(t.extras);
 
 /** Saving terms writes a new version; agreements already sold keep pointing at theirs. */
-export async function updatePlan(db: Db, id: string, input: PlanTerms): Promise<PlanView> {
+export async function updatePlan(deps: Pick<AppDeps, 'database'>, id: string, input: PlanTerms): Promise<PlanView> {
+  const { db } = deps.database;
   return db.transaction(async (tx) => {
     const [p] = await tx.select().from(plans).where(eq(plans.id, id)).for('update');
     if (!p) throw notFound('That plan');
@@ -107,7 +111,8 @@ export async function updatePlan(db: Db, id: string, input: PlanTerms): Promise<
   });
 }
 
-export async function setPlanActive(db: Db, id: string, active: boolean): Promise<PlanView> {
+export async function setPlanActive(deps: Pick<AppDeps, 'database'>, id: string, active: boolean): Promise<PlanView> {
+  const { db } = deps.database;
   const [p] = await db.update(plans).set({ active }).where(eq(plans.id, id)).returning();
   if (!p) throw notFound('That plan');
   const v = await currentVersion(db, id);
@@ -115,7 +120,8 @@ export async function setPlanActive(db: Db, id: string, active: boolean): Promis
   return planViewOf(p, v);
 }
 
-export async function planVersionsOf(db: Db, id: string): Promise<PlanView[]> {
+export async function planVersionsOf(deps: Pick<AppDeps, 'database'>, id: string): Promise<PlanView[]> {
+  const { db } = deps.database;
   const [p] = await db.select().from(plans).where(eq(plans.id, id));
   if (!p) throw notFound('That plan');
   const vs = await db.select().from(planVersions).where(and(eq(planVersions.planId, id))).orderBy(desc(planVersions.version));

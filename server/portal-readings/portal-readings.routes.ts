@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireUser } from '../auth/access';
 import { notFound } from '../http/errors';
 import { homeownerVisitSummary, propertyReadings } from './portal-readings.service';
@@ -16,7 +16,7 @@ export function portalReadingsRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
   router.use(requireUser);
   router.get('/properties/:propertyId', async (req, res) => {
-    res.json(await propertyReadings(deps.database.db, currentUser(req), uuidOr404(req.params.propertyId, 'That home')));
+    res.json(await propertyReadings(deps, currentUser(req), uuidOr404(req.params.propertyId, 'That home')));
   });
   return router;
 }
@@ -26,7 +26,7 @@ export function visitSummaryRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
   router.use(requireUser);
   router.get('/:id', async (req, res) => {
-    res.json(await homeownerVisitSummary(deps.database.db, currentUser(req), uuidOr404(req.params.id, 'That visit')));
+    res.json(await homeownerVisitSummary(deps, currentUser(req), uuidOr404(req.params.id, 'That visit')));
   });
   return router;
 }

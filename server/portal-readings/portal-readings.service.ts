@@ -2,17 +2,18 @@ import { and, asc, eq } from 'drizzle-orm';
 import { CHECK_LABELS, type PropertyReadings, type ReadingSeries, type SystemReadings, type VisitSummary } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
-import type { Db } from '../db/client';
 import { equipment, properties, visitReadings, visits } from '../db/schema';
 import { notFound } from '../http/errors';
 import { visitSummary } from '../field/summary';
 import { companyInfo, equipmentLabel } from '../field/visit-data';
+import type { AppDeps } from '../deps';
 
 /**
  * A home's readings over time, per system and per check, from completed visits only. Each point
  * keeps the band it was judged against, so the chart can shade it.
  */
-export async function propertyReadings(db: Db, user: SessionUser, propertyId: string): Promise<PropertyReadings> {
+export async function propertyReadings(deps: Pick<AppDeps, 'database'>, user: SessionUser, propertyId: string): Promise<PropertyReadings> {
+  const { db } = deps.database;
   const [property] = await db.select({ customerId: properties.customerId }).from(properties).where(eq(properties.id, propertyId));
   if (!property) throw notFound('That home');
   await assertCustomerAccess(db, user, property.customerId);
@@ -53,7 +54,8 @@ export async function propertyReadings(db: Db, user: SessionUser, propertyId: st
 }
 
 /** One completed visit in plain words, for the household it belongs to (and staff who may see it). */
-export async function homeownerVisitSummary(db: Db, user: SessionUser, visitId: string): Promise<VisitSummary> {
+export async function homeownerVisitSummary(deps: Pick<AppDeps, 'database'>, user: SessionUser, visitId: string): Promise<VisitSummary> {
+  const { db } = deps.database;
   const [visit] = await db.select().from(visits).where(eq(visits.id, visitId));
   if (!visit) throw notFound('That visit');
   await assertCustomerAccess(db, user, visit.customerId);

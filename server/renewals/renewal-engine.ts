@@ -12,13 +12,13 @@ import {
   renewalWindowOpens,
   type RenewalNotice,
 } from '../../shared/renewals';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { agreements, customers, plans, planVersions, renewalNotices } from '../db/schema';
-import { ensureStripeCustomer, recordFromPaymentIntent, stripeOf } from '../billing/billing.service';
-import { companySettings } from '../billing/today';
-import { renderEmail } from '../integrations/mail';
+import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/checkout';
+import { renderEmail } from '../integrations/mail-layout';
 import { paymentErrorMessage } from '../integrations/stripe';
-import { ensureRenewalInvoice, termPriceCents, today as companyToday } from '../agreements/agreements.service';
+import { ensureRenewalInvoice, termPriceCents } from '../agreements/agreements.service';
+import { companyRow, companyToday } from '../company/company';
 import { currentVersion } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from '../agreements/terms';
 import { queueMail } from '../mail/outbox';
@@ -54,7 +54,7 @@ export interface RenewalRunReport {
  * attempt, and a term is added at most once. A run killed half-way and started again therefore
  * sends nobody a second notice and charges nobody twice.
  */
-export async function runRenewals(deps: AppDeps, opts: RenewalRunOptions = {}): Promise<RenewalRunReport> {
+export async function runRenewals(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, opts: RenewalRunOptions = {}): Promise<RenewalRunReport> {
   const { db } = deps.database;
   const today = opts.today ?? (await companyToday(deps));
   const grace = opts.graceDays ?? DEFAULT_GRACE_DAYS;
@@ -80,7 +80,7 @@ export async function runRenewals(deps: AppDeps, opts: RenewalRunOptions = {}): 
   return report;
 }
 
-async function renewOne(deps: AppDeps, id: string, today: string, grace: number, report: RenewalRunReport, opts: RenewalRunOptions) {
+async function renewOne(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, grace: number, report: RenewalRunReport, opts: RenewalRunOptions) {
   const { db } = deps.database;
   // 1. The renewal window opens 60 days before the end.
   await db.transaction(async (tx) => {
@@ -148,7 +148,7 @@ async function renewOne(deps: AppDeps, id: string, today: string, grace: number,
  * agreement, the term it pays for and the attempt number: the same attempt run twice (a
  * crashed job restarted) replays the processor's first answer instead of charging again.
  */
-export async function chargeRenewal(deps: AppDeps, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
+export async function chargeRenewal(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
   const { db } = deps.database;
   const prepared = await db.transaction(async (tx) => {
     const current = await lockAgreement(tx, id);
@@ -160,7 +160,7 @@ export async function chargeRenewal(deps: AppDeps, id: string, today: string, at
   if (!prepared) return true;
   const { invoice, agreement } = prepared;
   if (invoice.status !== 'open') return true;
-  const stripe = stripeOf(deps);
+  const stripe = deps.stripe;
   const customer = await ensureStripeCustomer(deps, agreement.customerId);
   const key = `${idempotencyKeyForRenewal(agreement.id, invoice.termStartsOn ?? agreement.endsOn)}-attempt-${attempt}`;
   let pi: Stripe.PaymentIntent;
@@ -193,7 +193,7 @@ export async function chargeRenewal(deps: AppDeps, id: string, today: string, at
   return true;
 }
 
-async function chargeFailed(deps: AppDeps, id: string, today: string, attempt: number, message: string) {
+async function chargeFailed(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, id: string, today: string, attempt: number, message: string) {
   const { db } = deps.database;
   const changed = await db.transaction(async (tx) => {
     const a = await lockAgreement(tx, id);
@@ -214,22 +214,21 @@ async function chargeFailed(deps: AppDeps, id: string, today: string, attempt: n
 
 // ---------- Mail ----------
 
-async function householdOf(deps: AppDeps, agreementId: string) {
-  const [row] = await deps.database.db
-    .select({ agreement: agreements, email: customers.email, name: customers.name, planName: plans.name })
-    .from(agreements)
-    .innerJoin(customers, eq(agreements.customerId, customers.id))
-    .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
-    .innerJoin(plans, eq(planVersions.planId, plans.id))
-    .where(eq(agreements.id, agreementId));
-  return row;
+async function householdOf(deps: Pick<AppDeps, 'database'>, agreementId: string) {
+  const found = await deps.database.db.query.agreements.findFirst({
+    where: eq(agreements.id, agreementId),
+    with: { customer: { columns: { email: true, name: true } }, planVersion: { columns: {}, with: { plan: { columns: { name: true } } } } },
+  });
+  if (!found) return undefined;
+  const { customer, planVersion, ...agreement } = found;
+  return { agreement, email: customer.email, name: customer.name, planName: planVersion.plan.name };
 }
 
 /**
  * Sends one renewal notice. Automatic ones (60/30/7) are claimed with a unique row first, so two
  * runs never both send; the claim is released if the mail fails, so the next run tries again.
  */
-export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts: { daysBefore?: RenewalNotice; sentById?: string } = {}): Promise<boolean> {
+export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, agreementId: string, opts: { daysBefore?: RenewalNotice; sentById?: string } = {}): Promise<boolean> {
   const { db } = deps.database;
   const h = await householdOf(deps, agreementId);
   if (!h) return false;
@@ -240,8 +239,8 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
     .onConflictDoNothing()
     .returning({ id: renewalNotices.id });
   if (claim.length === 0) return false;
-  if (!h.email || !deps.services.mailer) return true;
-  const company = await companySettings(db);
+  if (!h.email) return true;
+  const company = await companyRow(db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const lastDay = new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${a.endsOn}T00:00:00Z`));
   const auto = a.autoRenew && a.cardLast4;
@@ -277,18 +276,18 @@ export async function sendRenewalNotice(deps: AppDeps, agreementId: string, opts
 }
 
 /** What the next term costs: the plan's current terms, extra systems, less any credit. */
-async function renewalPrice(deps: AppDeps, a: typeof agreements.$inferSelect): Promise<number> {
+async function renewalPrice(deps: Pick<AppDeps, 'database'>, a: typeof agreements.$inferSelect): Promise<number> {
   const [sold] = await deps.database.db.select().from(planVersions).where(eq(planVersions.id, a.planVersionId));
   const latest = (sold && (await currentVersion(deps.database.db, sold.planId))) ?? sold;
   if (!latest) return a.priceCents;
   return Math.max(termPriceCents(latest, a.systemsCount) - Math.min(a.creditCents, latest.yearlyPriceCents), 0);
 }
 
-async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: number, message: string) {
+async function sendDunningMail(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, agreementId: string, attempt: number, message: string) {
   const h = await householdOf(deps, agreementId);
-  if (!h?.email || !deps.services.mailer) return;
+  if (!h?.email) return;
   const a = h.agreement;
-  const company = await companySettings(deps.database.db);
+  const company = await companyRow(deps.database.db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const next = a.chargeFailedOn ? nextDunningRetry(a.chargeFailedOn, a.dunningRetries) : null;
   const lapses = lapseDate(a.endsOn, DEFAULT_GRACE_DAYS);
@@ -315,20 +314,12 @@ async function sendDunningMail(deps: AppDeps, agreementId: string, attempt: numb
 }
 
 /** Office: queue a notice per agreement (one click or in bulk); the job sends it. */
-export async function queueRenewalNotices(deps: AppDeps, agreementIds: string[], sentById: string): Promise<{ queued: number }> {
+export async function queueRenewalNotices(deps: Pick<AppDeps, 'database' | 'jobs'>, agreementIds: string[], sentById: string): Promise<{ queued: number }> {
   const { db } = deps.database;
   const found = await db.select({ id: agreements.id }).from(agreements).where(inArray(agreements.id, agreementIds));
-  const jobs = deps.services.jobs;
   let queued = 0;
   for (const { id } of found) {
-    let viaQueue = false;
-    if (jobs) {
-      viaQueue = await jobs
-        .send(RENEWAL_NOTICE_JOB, { agreementId: id, sentById })
-        .then(() => true)
-        .catch(() => false);
-    }
-    if (!viaQueue) await sendRenewalNotice(deps, id, { sentById });
+    await deps.jobs.send(RENEWAL_NOTICE_JOB, { agreementId: id, sentById });
     queued++;
   }
   await Promise.all(found.map(({ id }) => db.transaction((tx) => recordHistory(tx, { agreementId: id, event: 'notice_requested', actorId: sentById }))));

@@ -1,10 +1,9 @@
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { RENEWAL_DAILY_JOB, RENEWAL_NOTICE_JOB, runRenewals, sendRenewalNotice } from './renewal-engine';
 
 /** The daily renewal pass (06:15 company time) and office-requested notices. */
-export function registerRenewalJobs(deps: AppDeps): void {
-  const jobs = deps.services.jobs;
-  if (!jobs) return;
+export function registerRenewalJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>): void {
+  const jobs = deps.jobs;
   jobs.register(
     RENEWAL_DAILY_JOB,
     async () => {

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { renewalQuerySchema, sendNoticesSchema } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { queueRenewalNotices } from './renewal-engine';

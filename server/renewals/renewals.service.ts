@@ -2,10 +2,10 @@ import { and, desc, eq, gte, inArray, lte, max, sql, type SQL } from 'drizzle-or
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { addDays, daysBetween } from '../../shared/renewals';
 import { RENEWAL_VIEWS, type RenewalBoard, type RenewalRow, type RenewalView } from '../../shared/schemas/plans';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { agreements, agreementTerms, customers, invoices, plans, planVersions, renewalNotices } from '../db/schema';
 import { toCsv } from '../http/csv';
-import { today as companyToday } from '../agreements/agreements.service';
+import { companyToday } from '../company/company';
 
 const RENEWED_LOOKBACK_DAYS = 30;
 
@@ -27,7 +27,7 @@ function viewFilter(view: RenewalView, today: string): SQL {
   }
 }
 
-export async function renewalBoard(deps: AppDeps, view: RenewalView): Promise<RenewalBoard> {
+export async function renewalBoard(deps: Pick<AppDeps, 'database' | 'clock'>, view: RenewalView): Promise<RenewalBoard> {
   const { db } = deps.database;
   const today = await companyToday(deps);
   const counts = {} as RenewalBoard['counts'];
@@ -41,7 +41,7 @@ export async function renewalBoard(deps: AppDeps, view: RenewalView): Promise<Re
   return { view, counts, rows: await renewalRows(deps, view, today) };
 }
 
-async function renewalRows(deps: AppDeps, view: RenewalView, today: string): Promise<RenewalRow[]> {
+async function renewalRows(deps: Pick<AppDeps, 'database'>, view: RenewalView, today: string): Promise<RenewalRow[]> {
   const { db } = deps.database;
   const lastNotice = db
     .select({ agreementId: renewalNotices.agreementId, at: max(renewalNotices.sentAt).as('last_at') })
@@ -72,7 +72,7 @@ async function renewalRows(deps: AppDeps, view: RenewalView, today: string): Pro
   }));
 }
 
-export async function renewalCsv(deps: AppDeps, view: RenewalView): Promise<string> {
+export async function renewalCsv(deps: Pick<AppDeps, 'database' | 'clock'>, view: RenewalView): Promise<string> {
   const today = await companyToday(deps);
   const rows = await renewalRows(deps, view, today);
   return toCsv(

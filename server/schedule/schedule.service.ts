@@ -4,7 +4,7 @@ import { DateTime } from 'luxon';
 import type { WeekResponse } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS } from '../../shared/visits';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { loadCompanySettings } from '../booking/scheduling-input';
 import { addressOf, toView, visitRows } from '../booking/visit-views';
 import { technicianFeed } from '../integrations/calendar';
@@ -13,7 +13,7 @@ import { AppError, notFound } from '../http/errors';
 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
-async function technicianOf(deps: AppDeps, user: SessionUser, technicianId?: string) {
+async function technicianOf(deps: Pick<AppDeps, 'database'>, user: SessionUser, technicianId?: string) {
   const { db } = deps.database;
   const where = user.role === 'technician' ? eq(technicians.userId, user.id) : technicianId ? eq(technicians.id, technicianId) : undefined;
   if (!where) throw new AppError(422, 'validation_failed', 'Please choose the technician.', { technicianId: 'is required' });
@@ -28,7 +28,7 @@ async function technicianOf(deps: AppDeps, user: SessionUser, technicianId?: str
 }
 
 /** The technician's visits from Monday of the given week (company time zone), seven days. */
-export async function weekSchedule(deps: AppDeps, user: SessionUser, start: string | undefined, technicianId?: string): Promise<WeekResponse> {
+export async function weekSchedule(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, start: string | undefined, technicianId?: string): Promise<WeekResponse> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const tech = await technicianOf(deps, user, technicianId);
@@ -53,7 +53,7 @@ export async function weekSchedule(deps: AppDeps, user: SessionUser, start: stri
 }
 
 /** A new private feed link; the old one stops working. The token is shown once and only its hash is kept. */
-export async function issueFeedToken(deps: AppDeps, user: SessionUser): Promise<{ url: string }> {
+export async function issueFeedToken(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, user: SessionUser): Promise<{ url: string }> {
   const tech = await technicianOf(deps, user);
   const token = randomBytes(24).toString('base64url');
   const now = deps.clock();
@@ -67,7 +67,7 @@ export async function issueFeedToken(deps: AppDeps, user: SessionUser): Promise<
   return { url: `${deps.config.publicUrl.replace(/\/$/, '')}/api/schedule/feed/${token}.ics` };
 }
 
-export async function revokeFeedToken(deps: AppDeps, user: SessionUser): Promise<void> {
+export async function revokeFeedToken(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<void> {
   const tech = await technicianOf(deps, user);
   await deps.database.db
     .update(calendarFeedTokens)
@@ -76,7 +76,7 @@ export async function revokeFeedToken(deps: AppDeps, user: SessionUser): Promise
 }
 
 /** The .ics feed for a live token: two weeks back, eight weeks ahead. Unknown or revoked tokens are 404. */
-export async function feedFor(deps: AppDeps, token: string): Promise<string> {
+export async function feedFor(deps: Pick<AppDeps, 'database' | 'clock'>, token: string): Promise<string> {
   const { db } = deps.database;
   const [row] = await db
     .select({ technicianId: calendarFeedTokens.technicianId, name: users.name })

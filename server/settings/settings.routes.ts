@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { companySettingsSchema } from '../../shared/schemas/settings';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { getCompanySettings, updateCompanySettings } from './settings.service';
@@ -11,11 +11,11 @@ export function settingsRoutes(deps: AppDeps): Router {
   const db = deps.database.db;
   router.use(requireRole('owner'));
   router.get('/company', async (_req, res) => {
-    res.json(await getCompanySettings(db));
+    res.json(await getCompanySettings(deps));
   });
   router.put('/company', async (req, res) => {
     const next = parse(companySettingsSchema, req.body);
-    res.json(await updateCompanySettings(db, currentUser(req).id, next, deps.clock()));
+    res.json(await updateCompanySettings(deps, currentUser(req).id, next));
   });
   return router;
 }

@@ -1,38 +1,24 @@
-import { eq } from 'drizzle-orm';
 import type { CompanySettings } from '../../shared/schemas/settings';
-import type { Db } from '../db/client';
-import { company } from '../db/schema';
 import { recordAudit } from '../audit/audit.service';
-import { notFound } from '../http/errors';
+import { companyRow, updateCompanyRow, type CompanyRow } from '../company/company';
+import type { AppDeps } from '../deps';
 
-const columns = {
-  name: company.name,
-  phone: company.phone,
-  email: company.email,
-  street: company.street,
-  city: company.city,
-  state: company.state,
-  zip: company.zip,
-  timeZone: company.timeZone,
-  taxRateBps: company.taxRateBps,
-  businessHours: company.businessHours,
-  arrivalWindowMinutes: company.arrivalWindowMinutes,
-  leadTimeMinutes: company.leadTimeMinutes,
-  heldBackPct: company.heldBackPct,
-  cancelCutoffHours: company.cancelCutoffHours,
-  diagnosticFeeCents: company.diagnosticFeeCents,
-};
-
-export async function getCompanySettings(db: Db): Promise<CompanySettings> {
-  const [row] = await db.select(columns).from(company).where(eq(company.id, 1));
-  if (!row) throw notFound('The company record');
-  return row;
+/** The owner's view of the company row: every column but the key and the change time. */
+function settingsOf(row: CompanyRow): CompanySettings {
+  const { id: _id, updatedAt: _updatedAt, ...settings } = row;
+  return settings;
 }
 
-export async function updateCompanySettings(db: Db, actorId: string, next: CompanySettings, now: Date): Promise<CompanySettings> {
+export async function getCompanySettings(deps: Pick<AppDeps, 'database'>): Promise<CompanySettings> {
+  const { db } = deps.database;
+  return settingsOf(await companyRow(db));
+}
+
+export async function updateCompanySettings(deps: Pick<AppDeps, 'database' | 'clock'>, actorId: string, next: CompanySettings): Promise<CompanySettings> {
+  const { db } = deps.database;
+  const now = deps.clock();
   return db.transaction(async (tx) => {
-    const [row] = await tx.update(company).set({ ...next, updatedAt: now }).where(eq(company.id, 1)).returning(columns);
-    if (!row) throw notFound('The company record');
+    const row = settingsOf(await updateCompanyRow(tx, next, now));
     await recordAudit(tx, { actorUserId: actorId, action: 'settings_changed', subject: 'company', details: { name: next.name, taxRateBps: next.taxRateBps }, at: now });
     return row;
   });

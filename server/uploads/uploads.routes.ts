@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';
 import { forbidden, notFound, parse } from '../http/errors';
-import { createLocalStorage, StoredObjectMissing, type Storage } from '../integrations/storage';
+import { StoredObjectMissing } from '../integrations/storage';
 import { multipart } from './multipart';
 import { archiveFile, fileFor, storeUploads, uploadTargetSchema } from './uploads.service';
 
@@ -16,18 +16,18 @@ export function contentDisposition(kind: 'inline' | 'attachment', name: string):
 export function uploadRoutes(deps: AppDeps): Router {
   const r = Router({ caseSensitive: true, strict: true });
   const { db } = deps.database;
-  const storage: Storage = deps.services.storage ?? createLocalStorage(deps.config.STORAGE_DIR);
+  const { storage } = deps;
 
   r.post('/', requireUser, multipart('files'), async (req, res) => {
     const user = currentUser(req);
     const target = parse(uploadTargetSchema, req.body ?? {});
     const incoming = (req.files as Express.Multer.File[] | undefined) ?? [];
-    res.status(201).json(await storeUploads(db, storage, user, target, incoming, deps.clock()));
+    res.status(201).json(await storeUploads(deps, user, target, incoming));
   });
 
   const send = (thumb: boolean) =>
     (async (req, res) => {
-      const f = await fileFor(db, currentUser(req), String(req.params.id));
+      const f = await fileFor(deps, currentUser(req), String(req.params.id));
       const key = thumb ? f.thumbKey : f.storageKey;
       if (!key) throw notFound('That thumbnail');
       let body: Buffer;
@@ -54,7 +54,7 @@ export function uploadRoutes(deps: AppDeps): Router {
   r.post('/:id/archive', requireRole('technician', 'office', 'owner'), async (req, res) => {
     const user = currentUser(req);
     if (!isStaffOffice(user) && user.role !== 'technician') throw forbidden();
-    await archiveFile(db, user, String(req.params.id), deps.clock());
+    await archiveFile(deps, user, String(req.params.id));
     res.json({ id: String(req.params.id), archived: true });
   });
 

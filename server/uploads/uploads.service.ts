@@ -5,11 +5,12 @@ import { z } from 'zod';
 import { FILE_CATEGORIES, type StoredFile } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
-import { toFile } from '../customers/customers.service';
+import { toFile } from '../customers/customer-views';
 import type { Db } from '../db/client';
 import { equipment, files, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
-import { newStorageKey, type Storage } from '../integrations/storage';
+import { newStorageKey } from '../integrations/storage';
+import type { AppDeps } from '../deps';
 
 /** What we accept, decided from the bytes themselves: the name and the sent header are ignored. */
 const ACCEPTED: Record<string, string> = { 'image/jpeg': 'jpg', 'image/png': 'png', 'image/webp': 'webp', 'application/pdf': 'pdf' };
@@ -112,7 +113,10 @@ async function resolveTarget(db: Db, t: UploadTarget): Promise<{ customerId: str
  * keys, then recorded in one transaction. Any failure removes what was stored, so a rejected
  * upload leaves nothing behind.
  */
-export async function storeUploads(db: Db, storage: Storage, user: SessionUser, target: UploadTarget, incoming: IncomingFile[], now: Date): Promise<StoredFile[]> {
+export async function storeUploads(deps: Pick<AppDeps, 'database' | 'clock' | 'storage'>, user: SessionUser, target: UploadTarget, incoming: IncomingFile[]): Promise<StoredFile[]> {
+  const { db } = deps.database;
+  const { storage } = deps;
+  const now = deps.clock();
   if (!incoming.length) throw new AppError(422, 'validation_failed', 'Please check files.', { files: 'Choose at least one file to upload.' });
   const where = await resolveTarget(db, target);
   await assertCustomerAccess(db, user, where.customerId);
@@ -142,7 +146,8 @@ export async function storeUploads(db: Db, storage: Storage, user: SessionUser, 
   }
 }
 
-export async function fileFor(db: Db, user: SessionUser, id: string) {
+export async function fileFor(deps: Pick<AppDeps, 'database'>, user: SessionUser, id: string) {
+  const { db } = deps.database;
   const [f] = await db.select().from(files).where(eq(files.id, id)).limit(1);
   if (!f) throw notFound('That file');
   await assertCustomerAccess(db, user, f.customerId).catch(() => {
@@ -152,15 +157,18 @@ export async function fileFor(db: Db, user: SessionUser, id: string) {
 }
 
 /** Archived files drop out of lists but keep their bytes: a record with history is never lost. */
-export async function archiveFile(db: Db, user: SessionUser, id: string, now: Date): Promise<void> {
-  const f = await fileFor(db, user, id);
+export async function archiveFile(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<void> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const f = await fileFor(deps, user, id);
   await db
     .update(files)
     .set({ archivedAt: now })
     .where(and(eq(files.id, f.id)));
 }
 
-export async function listFiles(db: Db, user: SessionUser, customerId: string): Promise<StoredFile[]> {
+export async function listFiles(deps: Pick<AppDeps, 'database'>, user: SessionUser, customerId: string): Promise<StoredFile[]> {
+  const { db } = deps.database;
   await assertCustomerAccess(db, user, customerId);
   const rows = await db.select().from(files).where(eq(files.customerId, customerId));
   return rows.filter((r) => !r.archivedAt).map(toFile);

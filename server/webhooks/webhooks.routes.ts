@@ -1,6 +1,6 @@
 import express, { Router } from 'express';
 import Stripe from 'stripe';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { AppError } from '../http/errors';
 import { dispatchEvent, storeEvent } from './webhooks.service';
 

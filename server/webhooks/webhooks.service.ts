@@ -1,13 +1,14 @@
 import { eq } from 'drizzle-orm';
 import type Stripe from 'stripe';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { stripeEvents } from '../db/schema';
-import { syncCheckoutSession, syncPaymentIntent, syncRefunds } from '../billing/billing.service';
+import { syncCheckoutSession, syncPaymentIntent } from '../billing/checkout';
+import { syncRefunds } from '../billing/refunds';
 
 export const STRIPE_EVENT_JOB = 'stripe-event';
 
 /** Stores a verified event once; true when it is new (a redelivery stores nothing). */
-export async function storeEvent(deps: AppDeps, event: Stripe.Event): Promise<boolean> {
+export async function storeEvent(deps: Pick<AppDeps, 'database'>, event: Stripe.Event): Promise<boolean> {
   const rows = await deps.database.db
     .insert(stripeEvents)
     .values({ id: event.id, type: event.type, payload: event as unknown as object })
@@ -20,7 +21,7 @@ export async function storeEvent(deps: AppDeps, event: Stripe.Event): Promise<bo
  * Works one stored event. The event only says which object changed; its current state is read
  * back from the processor, so events replayed or arriving out of order all end in the same state.
  */
-export async function processStoredEvent(deps: AppDeps, eventId: string): Promise<void> {
+export async function processStoredEvent(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, eventId: string): Promise<void> {
   const { db } = deps.database;
   const [row] = await db.select().from(stripeEvents).where(eq(stripeEvents.id, eventId));
   if (!row || row.processedAt) return;
@@ -49,15 +50,7 @@ export async function processStoredEvent(deps: AppDeps, eventId: string): Promis
   await db.update(stripeEvents).set({ processedAt: deps.clock(), error: null }).where(eq(stripeEvents.id, eventId));
 }
 
-/** Hands a stored event to the job queue; without a running queue (tests, one-off tools) works it now. */
-export async function dispatchEvent(deps: AppDeps, eventId: string): Promise<void> {
-  const jobs = deps.services.jobs;
-  if (jobs) {
-    const sent = await jobs
-      .send(STRIPE_EVENT_JOB, { eventId }, { singletonKey: eventId })
-      .then(() => true)
-      .catch(() => false);
-    if (sent) return;
-  }
-  await processStoredEvent(deps, eventId);
+/** Hands a stored event to the job queue, which retries it when processing fails. */
+export async function dispatchEvent(deps: Pick<AppDeps, 'jobs'>, eventId: string): Promise<void> {
+  await deps.jobs.send(STRIPE_EVENT_JOB, { eventId }, { singletonKey: eventId });
 }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { isoDate, isoInstant } from './dates';
-import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, type VisitKind, type VisitReason } from '../visits';
+import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, VISIT_TRANSITIONS, type VisitKind, type VisitReason } from '../visits';
 
 // The booking and dispatch API contract: requests parsed on the server, types used by the client.
 
@@ -204,16 +204,8 @@ export interface WeekResponse {
 }
 
 type Status = (typeof VISIT_STATUSES)[number];
-/** Which status may follow which; anything else is refused. */
-export const STATUS_TRANSITIONS: Record<Status, readonly Status[]> = {
-  requested: ['scheduled', 'canceled'],
-  scheduled: ['requested', 'on_the_way', 'on_site', 'canceled', 'no_show'],
-  on_the_way: ['scheduled', 'on_site', 'canceled', 'no_show'],
-  on_site: ['done'],
-  done: [],
-  canceled: [],
-  no_show: ['scheduled'],
-};
+/** Which status may follow which: the one table, in shared/visits.ts. */
+export const STATUS_TRANSITIONS = VISIT_TRANSITIONS;
 
 /** Statuses that still hold the technician's time. */
 export const ACTIVE_STATUSES: readonly Status[] = ['requested', 'scheduled', 'on_the_way', 'on_site'];

@@ -8,7 +8,8 @@ import { getVtimezoneComponent } from '@touch4it/ical-timezones';
 import ICAL from 'ical.js';
 import { DateTime } from 'luxon';
 import { createMailboxApp, MailStore, startSmtpCatcher, type MessageJson, type SmtpCatcher } from '../../server/fakes/mail';
-import { createMailer, MailDeliveryError, renderEmail, type Mailer } from '../../server/integrations/mail';
+import { createMailer, MailDeliveryError, type Mailer } from '../../server/integrations/mail';
+import { renderEmail } from '../../server/integrations/mail-layout';
 
 const FROM = 'Seasonwell Office <office@seasonwell.example.test>';
 

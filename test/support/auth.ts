@@ -1,6 +1,6 @@
 import type { Express } from 'express';
 import request from 'supertest';
-import type { AppDeps } from '../../server/app';
+import type { AppDeps } from '../../server/deps';
 import { issueLink, SIGN_IN_LINK_MINUTES } from '../../server/auth/links';
 import { CSRF_COOKIE } from '../../server/auth/csrf';
 import { normaliseEmail } from '../../server/auth/auth.service';

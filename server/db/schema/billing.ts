@@ -4,7 +4,8 @@ import { INVOICE_PURPOSES, INVOICE_STATUSES, PAYMENT_METHODS, PAYMENT_STATUSES }
 import { createdAt, id, inList, tstz } from './columns';
 import { company } from './company';
 import { customers } from './customers';
-import { agreements, planVersions } from './plans';
+import { agreements } from './agreements';
+import { planVersions } from './plans';
 import { users } from './users';
 
 // One row per company: the next invoice number. Taken with UPDATE … RETURNING inside the
@@ -191,22 +192,4 @@ export const agreementTerms = pgTable(
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('agreement_terms_start_key').on(t.agreementId, t.startsOn), check('agreement_terms_order', sql`${t.endsOn} > ${t.startsOn}`)],
-);
-
-// Status changes and recorded actions, newest last.
-export const agreementHistory = pgTable(
-  'agreement_history',
-  {
-    id: id(),
-    agreementId: uuid()
-      .notNull()
-      .references(() => agreements.id, { onDelete: 'cascade' }),
-    event: text().notNull(),
-    fromStatus: text(),
-    toStatus: text(),
-    note: text().notNull().default(''),
-    actorId: uuid().references(() => users.id, { onDelete: 'restrict' }),
-    at: createdAt(),
-  },
-  (t) => [index('agreement_history_agreement_idx').on(t.agreementId, t.at)],
 );

@@ -3,7 +3,7 @@ import { boolean, check, index, integer, pgTable, text, uuid } from 'drizzle-orm
 import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES } from '../../../shared/visits';
 import { createdAt, id, inList, tstz, updatedAt } from './columns';
 import { customers, properties } from './customers';
-import { agreements } from './plans';
+import { agreements } from './agreements';
 import { technicians } from './technicians';
 
 // A visit: a tune-up or a service call at a property. Overlap per technician is refused by an

@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import type { ReminderKind } from '../../../../shared/reminders';
-import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/reminders';
+import type { ReminderKind } from '../../../../shared/seasonal-reminders';
+import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 
 @Injectable({ providedIn: 'root' })
 export class RemindersApi {

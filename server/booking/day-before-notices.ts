@@ -1,12 +1,12 @@
 import { and, eq, gt, inArray, isNull, lte } from 'drizzle-orm';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { visits } from '../db/schema';
-import { recordMail, startSending } from '../mail/outbox';
+import { recordMail, startSending, type OutboxDeps } from '../mail/outbox';
 import { visitMailToQueue } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
 import { loadVisitRow } from './booking.service';
 
-export const REMINDER_JOB = 'booking.day-before-reminders';
+export const DAY_BEFORE_JOB = 'booking.day-before-reminders';
 
 /**
  * Mails each homeowner whose visit window opens within the next 24 hours, once. Per visit, the claim
@@ -14,7 +14,7 @@ export const REMINDER_JOB = 'booking.day-before-reminders';
  * leaves a claim without its mail; the mail queue then retries the sending until the SMTP server
  * takes it. A second worker or a rerun finds the visit claimed, and the mail's key stops a duplicate.
  */
-export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
+export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config'> & OutboxDeps): Promise<number> {
   const { db } = deps.database;
   const now = deps.clock();
   const until = new Date(now.getTime() + 24 * 3_600_000);
@@ -37,8 +37,8 @@ export async function sendDayBeforeReminders(deps: AppDeps): Promise<number> {
   return queued.length;
 }
 
-export function registerBookingJobs(deps: AppDeps): void {
-  deps.services.jobs?.register(REMINDER_JOB, async () => {
+export function registerBookingJobs(deps: Pick<AppDeps, 'config'> & OutboxDeps): void {
+  deps.jobs.register(DAY_BEFORE_JOB, async () => {
     await sendDayBeforeReminders(deps);
   }, { cron: '15 * * * *' });
 }

@@ -1,24 +1,24 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/reminders';
-import type { AppDeps } from '../app';
+import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/campaigns';
+import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './reminders.service';
+import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './campaigns.service';
 
 // Seasonal reminders are office work: office staff and the owner only.
-export function reminderRoutes(deps: AppDeps): Router {
+export function campaignRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
   const db = deps.database.db;
   router.use(requireRole('office', 'owner'));
 
   router.get('/preview', async (req, res) => {
     const { kind } = parse(reminderPreviewQuerySchema, req.query);
-    res.json(await previewReminders(db, kind, deps.clock()));
+    res.json(await previewReminders(deps, kind));
   });
 
   router.get('/campaigns', async (_req, res) => {
-    res.json({ campaigns: await listCampaigns(db) });
+    res.json({ campaigns: await listCampaigns(deps) });
   });
 
   router.post('/campaigns', async (req, res) => {
@@ -28,7 +28,7 @@ export function reminderRoutes(deps: AppDeps): Router {
 
   router.get('/campaigns/:id', async (req, res) => {
     const { id } = parse(z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) }), req.params);
-    res.json(await campaignSummary(db, id));
+    res.json(await campaignSummary(deps, id));
   });
 
   return router;

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { REMINDER_KINDS } from '../reminders';
+import { REMINDER_KINDS } from '../seasonal-reminders';
 
 export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter or coil cleaning.' });
 

@@ -3,12 +3,14 @@ import { createRequire } from 'node:module';
 import PDFDocument from 'pdfkit';
 import { formatUsd } from '../../shared/money';
 import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../../shared/schemas/billing';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import { customers, payments } from '../db/schema';
-import { renderEmail } from '../integrations/mail';
-import { queueMail } from '../mail/outbox';
-import { invoiceView } from './billing.service';
-import { companySettings, type CompanySettings } from './today';
+import { renderEmail } from '../integrations/mail-layout';
+import { queueMail, type OutboxDeps } from '../mail/outbox';
+import { invoiceView } from './invoices';
+import { companyRow, type CompanyRow } from '../company/company';
+
+export const RECEIPT_JOB = 'billing-receipt';
 
 const require = createRequire(import.meta.url);
 // pdfkit reads TTF, OTF and WOFF (not WOFF2); @fontsource ships Nunito as WOFF.
@@ -23,7 +25,7 @@ function dateText(isoTime: string | null, timeZone: string): string {
 }
 
 /** The invoice with its receipt (payments so far) as one PDF, Nunito embedded. */
-export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, forPayment?: PaymentView): Promise<Buffer> {
+export function renderInvoicePdf(view: InvoiceView, company: CompanyRow, forPayment?: PaymentView): Promise<Buffer> {
   return new Promise((resolve, reject) => {
     const doc = new PDFDocument({ size: 'LETTER', margin: 54, info: { Title: `Invoice ${view.number ?? 'draft'}`, Author: company.name } });
     const chunks: Buffer[] = [];
@@ -93,15 +95,14 @@ export function renderInvoicePdf(view: InvoiceView, company: CompanySettings, fo
 }
 
 /** E-mails the receipt with the invoice PDF. The Message-ID is fixed per payment, so a retried job is recognisable. */
-export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<void> {
-  if (!deps.services.mailer) return;
+export async function sendReceipt(deps: Pick<AppDeps, 'config'> & OutboxDeps, paymentId: string): Promise<void> {
   const { db } = deps.database;
   const [pay] = await db.select().from(payments).where(eq(payments.id, paymentId));
   if (!pay || pay.status !== 'succeeded') return;
   const view = await invoiceView(db, pay.invoiceId);
   const [cust] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, view.customerId));
   if (!cust?.email) return;
-  const company = await companySettings(db);
+  const company = await companyRow(db);
   const payment = view.payments.find((p) => p.id === paymentId);
   const pdf = await renderInvoicePdf(view, company, payment);
   const what =
@@ -129,4 +130,13 @@ export async function sendReceipt(deps: AppDeps, paymentId: string): Promise<voi
       attachments: [{ filename: `invoice-${view.number}.pdf`, content: pdf, contentType: 'application/pdf' }],
     },
   });
+}
+
+export async function queueReceipt(deps: Pick<AppDeps, 'logger' | 'jobs'>, paymentId: string): Promise<void> {
+  try {
+    await deps.jobs.send(RECEIPT_JOB, { paymentId }, { singletonKey: `receipt-${paymentId}` });
+  } catch (err) {
+    // A receipt that fails to send never undoes a recorded payment.
+    deps.logger.error({ err, paymentId }, 'receipt e-mail failed');
+  }
 }

@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { check, index, integer, pgTable, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
-import { REMINDER_KINDS } from '../../../shared/reminders';
+import { REMINDER_KINDS } from '../../../shared/seasonal-reminders';
 import { createdAt, id, inList, tstz } from './columns';
 import { customers } from './customers';
 import { users } from './users';

@@ -1,21 +1,17 @@
 import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
-import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/reminders';
-import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/reminders';
+import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, type ReminderHousehold, type ReminderKind } from '../../shared/seasonal-reminders';
+import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/campaigns';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
-import { agreements, company, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
+import { agreements, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
+import { companyRow } from '../company/company';
 import { AppError, notFound } from '../http/errors';
-import { renderEmail } from '../integrations/mail';
+import { renderEmail } from '../integrations/mail-layout';
 
-export const REMINDER_QUEUE = 'reminders.send';
+export const CAMPAIGN_QUEUE = 'reminders.send';
 const BATCH = 25;
-
-async function companyInfo(db: Db) {
-  const [c] = await db.select({ name: company.name, timeZone: company.timeZone }).from(company).limit(1);
-  return c ?? { name: 'Seasonwell', timeZone: 'America/Chicago' };
-}
 
 /** Every live household with what the rules need, in five queries (no per-household queries). */
 async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: string })[]> {
@@ -60,8 +56,10 @@ async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: stri
   return [...byCustomer.values()];
 }
 
-export async function previewReminders(db: Db, kind: ReminderKind, now: Date): Promise<ReminderPreview> {
-  const info = await companyInfo(db);
+export async function previewReminders(deps: Pick<AppDeps, 'database' | 'clock'>, kind: ReminderKind): Promise<ReminderPreview> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const info = await companyRow(db);
   const today = DateTime.fromJSDate(now).setZone(info.timeZone);
   const households = await loadHouseholds(db);
   const audience: ReminderRecipient[] = [];
@@ -76,9 +74,9 @@ export async function previewReminders(db: Db, kind: ReminderKind, now: Date): P
  * Creates a campaign and its sends in one transaction, then queues the sending. If the audience
  * changed since the office looked, nothing is created and the new count is reported.
  */
-export async function createCampaign(deps: AppDeps, user: SessionUser, kind: ReminderKind, expectedCount: number): Promise<ReminderCampaignSummary> {
+export async function createCampaign(deps: Pick<AppDeps, 'database' | 'clock' | 'jobs'>, user: SessionUser, kind: ReminderKind, expectedCount: number): Promise<ReminderCampaignSummary> {
   const db = deps.database.db;
-  const preview = await previewReminders(db, kind, deps.clock());
+  const preview = await previewReminders(deps, kind);
   if (preview.audience.length !== expectedCount) {
     throw new AppError(409, 'audience_changed', `The audience changed: ${preview.audience.length} households are due now, not ${expectedCount}. Review the list and send again.`, { expectedCount: `Now ${preview.audience.length}` });
   }
@@ -88,21 +86,18 @@ export async function createCampaign(deps: AppDeps, user: SessionUser, kind: Rem
     await tx.insert(reminderSends).values(preview.audience.map((r) => ({ campaignId: campaign!.id, customerId: r.customerId, kind, email: r.email, reason: r.reason })));
     return campaign!.id;
   });
-  const jobs = deps.services.jobs;
-  if (jobs) await jobs.send(REMINDER_QUEUE, { campaignId }, { singletonKey: campaignId });
-  else await sendCampaign(deps, campaignId);
-  return campaignSummary(db, campaignId);
+  await deps.jobs.send(CAMPAIGN_QUEUE, { campaignId }, { singletonKey: campaignId });
+  return campaignSummary(deps, campaignId);
 }
 
 /**
  * Sends a campaign's pending reminders in batches. Rows are claimed with SKIP LOCKED, so two
  * workers never send the same one, and each message carries a stable Message-ID per send.
  */
-export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<void> {
-  const { mailer } = deps.services;
-  if (!mailer) throw new Error('no mailer configured: cannot send reminders');
+export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer'>, campaignId: string): Promise<void> {
+  const { mailer } = deps;
   const db = deps.database.db;
-  const info = await companyInfo(db);
+  const info = await companyRow(db);
   for (;;) {
     const claimed = await db.transaction(async (tx) => {
       const batch = await tx.execute<{ id: string; email: string; kind: ReminderKind }>(
@@ -131,13 +126,15 @@ export async function sendCampaign(deps: AppDeps, campaignId: string): Promise<v
   if (left!.n === 0) await db.update(reminderCampaigns).set({ finishedAt: deps.clock() }).where(and(eq(reminderCampaigns.id, campaignId), isNull(reminderCampaigns.finishedAt)));
 }
 
-export async function campaignSummary(db: Db, campaignId: string): Promise<ReminderCampaignSummary> {
-  const list = await listCampaigns(db, campaignId);
+export async function campaignSummary(deps: Pick<AppDeps, 'database'>, campaignId: string): Promise<ReminderCampaignSummary> {
+  const { db } = deps.database;
+  const list = await listCampaigns(deps, campaignId);
   if (!list.length) throw notFound('That reminder campaign');
   return list[0]!;
 }
 
-export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCampaignSummary[]> {
+export async function listCampaigns(deps: Pick<AppDeps, 'database'>, onlyId?: string): Promise<ReminderCampaignSummary[]> {
+  const { db } = deps.database;
   const rows = await db
     .select({
       id: reminderCampaigns.id,
@@ -160,8 +157,8 @@ export async function listCampaigns(db: Db, onlyId?: string): Promise<ReminderCa
   return rows.map((r) => ({ ...r, label: REMINDER_LABELS[r.kind], createdAt: r.createdAt.toISOString(), finishedAt: r.finishedAt?.toISOString() ?? null }));
 }
 
-export function registerReminderJobs(deps: AppDeps): void {
-  deps.services.jobs?.register<{ campaignId: string }>(REMINDER_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
+export function registerCampaignJobs(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'jobs'>): void {
+  deps.jobs.register<{ campaignId: string }>(CAMPAIGN_QUEUE, async ({ campaignId }) => sendCampaign(deps, campaignId));
 }
 
 export { REMINDER_KINDS };

@@ -1,0 +1,45 @@
+import { eq } from 'drizzle-orm';
+import { DateTime } from 'luxon';
+import type { AppDeps } from '../deps';
+import type { Db, Tx } from '../db/client';
+import { company } from '../db/schema';
+import { AppError } from '../http/errors';
+
+/**
+ * The company: one settings row per installation, its time zone and what "today" is there. Every
+ * feature reads them from here; the settings feature changes the row through updateCompanyRow.
+ */
+export type CompanyRow = typeof company.$inferSelect;
+export type CompanyUpdate = Partial<Omit<CompanyRow, 'id' | 'updatedAt'>>;
+
+const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
+
+/** The company row; an installation without one answers 503 until it is set up. */
+export async function companyRow(db: Db | Tx): Promise<CompanyRow> {
+  const [row] = await db.select().from(company).where(eq(company.id, 1)).limit(1);
+  if (!row) throw notSetUp();
+  return row;
+}
+
+/** The company's IANA time zone, or null while the installation has no company row yet. */
+export async function companyTimeZone(db: Db | Tx): Promise<string | null> {
+  const [row] = await db.select({ timeZone: company.timeZone }).from(company).where(eq(company.id, 1)).limit(1);
+  return row?.timeZone ?? null;
+}
+
+export async function updateCompanyRow(tx: Db | Tx, next: CompanyUpdate, at: Date): Promise<CompanyRow> {
+  const [row] = await tx.update(company).set({ ...next, updatedAt: at }).where(eq(company.id, 1)).returning();
+  if (!row) throw notSetUp();
+  return row;
+}
+
+/** The calendar date at `at` in a time zone, as an ISO date (agreement terms and ages are local dates). */
+export function localDate(at: Date, timeZone: string): string {
+  return DateTime.fromJSDate(at, { zone: timeZone }).toISODate()!;
+}
+
+/** Today where the company works, from the app's clock; pass `tx` to read inside a transaction. */
+export async function companyToday(deps: Pick<AppDeps, 'database' | 'clock'>, tx: Db | Tx = deps.database.db): Promise<string> {
+  const { timeZone } = await companyRow(tx);
+  return localDate(deps.clock(), timeZone);
+}

@@ -1,0 +1,220 @@
+import { and, asc, desc, eq, isNull, ne, sql } from 'drizzle-orm';
+import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
+import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
+import { formatUsd } from '../../shared/money';
+import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerUpdate, Note, NoteInput, Property, TimelineEntry } from '../../shared/schemas/customers';
+import type { SessionUser } from '../../shared/schemas/session';
+import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
+import type { Db, Tx } from '../db/client';
+import { agreements, contacts, customerNotes, customers, files, invoices, planVersions, plans, properties, users, visits } from '../db/schema';
+import { equipmentForProperties } from '../equipment/equipment.service';
+import { AppError, conflict, notFound } from '../http/errors';
+import { companyToday } from '../company/company';
+import type { AppDeps } from '../deps';
+import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
+
+// ---- Create, read, update ----
+
+export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: CustomerCreate): Promise<{ id: string; propertyId: string | null }> {
+  const { db } = deps.database;
+  return db
+    .transaction(async (tx) => {
+      const [c] = await tx.insert(customers).values({ name: input.name, email: input.email, phone: input.phone, notes: input.notes }).returning({ id: customers.id });
+      let propertyId: string | null = null;
+      if (input.property) {
+        const [p] = await tx
+          .insert(properties)
+          .values({ ...input.property, customerId: c!.id })
+          .returning({ id: properties.id });
+        propertyId = p!.id;
+      }
+      return { id: c!.id, propertyId };
+    })
+    .catch(duplicateEmail);
+}
+
+
+
+/** Everything about one household, with one timeline across its records (newest first). */
+export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const c = await customerRow(db, id);
+  const today = await companyToday(deps);
+  const [contactRows, propertyRows, agreementRows, visitRows, invoiceRows, noteRows, fileRows] = await Promise.all([
+    db.select().from(contacts).where(eq(contacts.customerId, id)).orderBy(desc(contacts.isPrimary), asc(contacts.createdAt)),
+    db
+      .select()
+      .from(properties)
+      .where(and(eq(properties.customerId, id), opts.includeArchived ? undefined : isNull(properties.archivedAt)))
+      .orderBy(asc(properties.createdAt), asc(properties.id)),
+    db
+      .select({ a: agreements, plan: plans.name })
+      .from(agreements)
+      .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
+      .innerJoin(plans, eq(planVersions.planId, plans.id))
+      .where(eq(agreements.customerId, id))
+      .orderBy(desc(agreements.startsOn)),
+    db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
+      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.completed_at, v.findings, v.recommendations, u.name as technician_name
+      from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
+      where v.customer_id = ${id} order by v.starts_at desc`),
+    db.select().from(invoices).where(eq(invoices.customerId, id)).orderBy(desc(invoices.createdAt)),
+    db
+      .select({ n: customerNotes, author: users.name })
+      .from(customerNotes)
+      .leftJoin(users, eq(customerNotes.authorUserId, users.id))
+      .where(eq(customerNotes.customerId, id))
+      .orderBy(desc(customerNotes.createdAt)),
+    db
+      .select()
+      .from(files)
+      .where(and(eq(files.customerId, id), isNull(files.archivedAt)))
+      .orderBy(desc(files.createdAt)),
+  ]);
+  const equipmentRows = await equipmentForProperties(
+    db,
+    propertyRows.map((p) => p.id),
+    today,
+    opts.includeArchived,
+  );
+  const propertyOut = propertyRows.map((p) => ({ ...toProperty(p), equipment: equipmentRows.filter((e) => e.propertyId === p.id) }));
+  const visitOut = visitRows.rows.map((v) => ({
+    id: v.id,
+    propertyId: v.property_id,
+    kind: v.kind,
+    reason: v.reason,
+    reasonLabel: VISIT_REASON_LABELS[v.reason as keyof typeof VISIT_REASON_LABELS] ?? v.reason,
+    status: v.status,
+    statusLabel: VISIT_STATUS_LABELS[v.status as keyof typeof VISIT_STATUS_LABELS] ?? v.status,
+    startsAt: new Date(v.starts_at).toISOString(),
+    findings: v.findings,
+    recommendations: v.recommendations,
+    technicianName: v.technician_name,
+  }));
+  const agreementOut = agreementRows.map(({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, priceCents: a.priceCents }));
+  const invoiceOut = invoiceRows.map((i) => ({ id: i.id, number: i.number, status: i.status, totalCents: i.totalCents, paidCents: i.paidCents, issuedAt: iso(i.issuedAt), createdAt: i.createdAt.toISOString() }));
+  const noteOut: Note[] = noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() }));
+  const fileOut = fileRows.map(toFile);
+
+  const timeline: TimelineEntry[] = [
+    { at: c.createdAt.toISOString(), kind: 'created' as const, title: 'Household added', detail: c.name, refId: c.id },
+    ...propertyRows.map((p) => ({ at: p.createdAt.toISOString(), kind: 'property' as const, title: `Property added: ${p.label}`, detail: `${p.street}, ${p.city}, ${p.state} ${p.zip}`, refId: p.id })),
+    ...equipmentRows.map((e) => ({
+      at: e.installedOn ? `${e.installedOn}T12:00:00.000Z` : c.createdAt.toISOString(),
+      kind: 'equipment' as const,
+      title: `${e.installedOn ? 'Installed' : 'Recorded'}: ${EQUIPMENT_KIND_LABELS[e.kind]}`,
+      detail: [e.make, e.model].filter(Boolean).join(' '),
+      refId: e.id,
+    })),
+    ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${a.startsOn} to ${a.endsOn}`, refId: a.id })),
+    ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
+    ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${formatUsd(i.totalCents)}, ${i.status}`, refId: i.id })),
+    ...noteOut.map((n) => ({ at: n.createdAt, kind: 'note' as const, title: n.audience === 'technician' ? 'Note for the technician' : 'Office note', detail: n.body, refId: n.id })),
+    ...fileOut.map((f) => ({ at: f.createdAt, kind: 'file' as const, title: `${f.contentType === 'application/pdf' ? 'Document' : 'Photo'} added`, detail: f.originalName, refId: f.id })),
+    ...(c.archivedAt ? [{ at: c.archivedAt.toISOString(), kind: (c.mergedIntoId ? 'merged' : 'archived') as TimelineEntry['kind'], title: c.mergedIntoId ? 'Merged into another household' : 'Archived', detail: '', refId: c.mergedIntoId }] : []),
+  ].sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));
+
+  return {
+    id: c.id,
+    name: c.name,
+    email: c.email,
+    phone: c.phone,
+    notes: c.notes,
+    archived: c.archivedAt !== null,
+    mergedIntoId: c.mergedIntoId,
+    createdAt: c.createdAt.toISOString(),
+    contacts: contactRows.map(toContact),
+    properties: propertyOut,
+    agreements: agreementOut,
+    visits: visitOut,
+    invoices: invoiceOut,
+    householdNotes: noteOut,
+    files: fileOut,
+    timeline,
+  };
+}
+
+export async function updateCustomer(deps: Pick<AppDeps, 'database'>, id: string, input: CustomerUpdate): Promise<void> {
+  const { db } = deps.database;
+  const c = await customerRow(db, id);
+  if (c.mergedIntoId) throw conflict('This household was merged into another; edit that one instead.');
+  const email = input.email !== undefined ? input.email : c.email;
+  const phone = input.phone !== undefined ? input.phone : c.phone;
+  if (email === null && phone === null) throw new AppError(422, 'validation_failed', 'Please check email.', { email: 'Give an e-mail address or a phone number so we can reach the household.' });
+  await db
+    .update(customers)
+    .set({ ...input, updatedAt: new Date() })
+    .where(eq(customers.id, id))
+    .catch(duplicateEmail);
+}
+
+/** Archive hides a household from lists and booking; nothing is deleted, so its history stays. */
+export async function setCustomerArchived(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, archived: boolean): Promise<void> {
+  const { db } = deps.database;
+  const now = deps.clock();
+  const c = await customerRow(db, id);
+  if (c.mergedIntoId && !archived) throw conflict('This household was merged into another and stays archived.');
+  await db
+    .update(customers)
+    .set({ archivedAt: archived ? (c.archivedAt ?? now) : null, updatedAt: now })
+    .where(eq(customers.id, id))
+    .catch(duplicateEmail);
+}
+
+// ---- Contacts and notes ----
+
+export async function addContact(deps: Pick<AppDeps, 'database'>, customerId: string, input: ContactInput): Promise<Contact> {
+  const { db } = deps.database;
+  await customerRow(db, customerId);
+  return db.transaction(async (tx) => {
+    if (input.isPrimary) await tx.update(contacts).set({ isPrimary: false }).where(eq(contacts.customerId, customerId));
+    const [row] = await tx
+      .insert(contacts)
+      .values({ ...input, customerId })
+      .returning();
+    return toContact(row!);
+  });
+}
+
+export async function updateContact(deps: Pick<AppDeps, 'database'>, customerId: string, contactId: string, input: ContactInput): Promise<Contact> {
+  const { db } = deps.database;
+  return db.transaction(async (tx) => {
+    if (input.isPrimary) await tx.update(contacts).set({ isPrimary: false }).where(and(eq(contacts.customerId, customerId), ne(contacts.id, contactId)));
+    const [row] = await tx
+      .update(contacts)
+      .set(input)
+      .where(and(eq(contacts.id, contactId), eq(contacts.customerId, customerId)))
+      .returning();
+    if (!row) throw notFound('That contact');
+    return toContact(row);
+  });
+}
+
+/** A contact has no history of its own, so it may be removed outright. */
+export async function removeContact(deps: Pick<AppDeps, 'database'>, customerId: string, contactId: string): Promise<void> {
+  const { db } = deps.database;
+  const rows = await db
+    .delete(contacts)
+    .where(and(eq(contacts.id, contactId), eq(contacts.customerId, customerId)))
+    .returning({ id: contacts.id });
+  if (!rows.length) throw notFound('That contact');
+}
+
+export async function addNote(deps: Pick<AppDeps, 'database'>, customerId: string, user: SessionUser, input: NoteInput): Promise<Note> {
+  const { db } = deps.database;
+  await customerRow(db, customerId);
+  if (input.propertyId) {
+    const [p] = await db
+      .select({ id: properties.id })
+      .from(properties)
+      .where(and(eq(properties.id, input.propertyId), eq(properties.customerId, customerId)))
+      .limit(1);
+    if (!p) throw new AppError(422, 'validation_failed', 'Please check propertyId.', { propertyId: 'Choose one of this household’s properties.' });
+  }
+  const [row] = await db
+    .insert(customerNotes)
+    .values({ customerId, propertyId: input.propertyId, audience: input.audience, body: input.body, authorUserId: user.id })
+    .returning();
+  return { id: row!.id, body: row!.body, audience: row!.audience, propertyId: row!.propertyId, authorName: user.name, createdAt: row!.createdAt.toISOString() };
+}
