@@ -351,6 +351,7 @@ async function main(): Promise<void> {
     const warmFile = bookingFile(targets.slice(0, warmShare));
     const runFile = bookingFile(targets.slice(warmShare));
     const runTargets = targets.length - warmShare;
+    console.log(`booking: ${bookers.length} households signed in, ${targets.length} distinct bookings prepared over ${windowsByDay.size} days`);
 
     const customerIds = (await database.pool.query<{ id: string }>(`select id from customers order by md5(id::text) limit 50`)).rows.map((r) => r.id);
     const terms = (
@@ -421,7 +422,8 @@ async function main(): Promise<void> {
           continue;
         }
       }
-      // One request alone, after one to warm any cache, counted to the last statement it causes.
+      // One request alone, after one to warm any cache, counted to the last statement it causes
+      // (BEGIN, COMMIT and lock statements included: each is a round trip).
       const one =
         spec.once ??
         (() => fetch(`${base}${l.path ?? l.paths![0]}`, { method: l.method ?? 'GET', headers: l.headers }));
@@ -443,7 +445,15 @@ async function main(): Promise<void> {
       const ratio = f.rps / bareFigures.rps;
       const problems = [f.non2xx ? `${f.non2xx} non-2xx` : '', f.errors ? `${f.errors} errors` : ''].filter(Boolean).join(', ');
       line(spec.name, f, ratio.toFixed(3), String(queries), problems ? `   (${problems})` : '');
-      if (l.setupRequest && f.total > runTargets) console.log(`${''.padEnd(16)} more bookings than prepared targets (${runTargets}); some were repeats`);
+      if (l.setupRequest) {
+        if (f.total > runTargets) console.log(`${''.padEnd(16)} more bookings than prepared targets (${runTargets}); some were repeats`);
+        const { rows } = await database.pool.query<{ booked: number; twice: number }>(
+          `select count(*)::int as booked, (count(*) - count(distinct (property_id, window_start)))::int as twice
+           from visits where status = 'requested' and window_start >= $1`,
+          [NOW.plus({ days: DAYS + 14 }).startOf('day').toJSDate()],
+        );
+        console.log(`${''.padEnd(16)} ${rows[0]!.booked} visits booked in all, ${rows[0]!.twice} of them twice`);
+      }
       results.push({ name: spec.name, rps: round(f.rps, 0), p50: f.p50, p99: f.p99, ratio: round(ratio, 3), queries });
     }
 
