@@ -11,6 +11,7 @@ import { createDatabase } from '../../server/db/client';
 import { listCustomers } from '../../server/customers/search';
 import { customerListQuerySchema } from '../../shared/schemas/customers';
 import { signInStaff } from '../../test/support/auth';
+import { generateHouseholds } from './lib/data';
 
 const URL_ = process.env.BENCH_DATABASE_URL;
 if (!URL_) throw new Error('BENCH_DATABASE_URL is not set; run this through npm run bench');
@@ -23,61 +24,12 @@ const { pool } = database;
 const q = (text: string) => pool.query(text);
 
 async function generate() {
-  const t0 = performance.now();
   await q(`insert into company (name, phone, email, street, city, state, zip, business_hours)
            values ('Bench Heating', '+18165550100', 'bench@example.test', '1 Main St', 'Larkspur Bend', 'MO', '64790', '{}'::jsonb)
            on conflict do nothing`);
   await q(`insert into users (email, name, role, password_hash) values ('bench.office@example.test', 'Bench Office', 'office', '${await hash(PASSWORD)}')`);
-  // Bulk load without per-row triggers or index upkeep; both are rebuilt once afterwards.
-  await q(`drop index if exists customers_search_trgm_idx`);
-  await q(`alter table customers disable trigger user`);
-  await q(`alter table properties disable trigger user`);
-  // Invented names from syllables: 40 x 40 surnames, 30 given names, 60 street names.
-  await q(`
-    with s as (
-      select array['ash','bram','cor','dun','el','fen','gal','har','ivy','jor','kel','lin','mor','nor','ol','pem','quin','ros','sel','tor',
-                   'ul','van','wex','yar','zel','brin','cal','dor','ev','fal','gre','hol','isl','jes','kest','lor','mar','ned','orr','pry'] as a,
-             array['wood','stead','croft','more','ley','ton','brook','field','well','ridge','hurst','by','wick','ford','gate','holm',
-                   'dale','mere','thorne','worth','shaw','cote','den','fold','garth','haven','ing','lake','mont','port','rick','side',
-                   'stone','vale','wyn','bury','combe','hill','land','mark'] as b,
-             array['Avery','Blair','Corin','Delia','Emmett','Farrah','Gideon','Harlow','Ines','Jasper','Kenna','Lionel','Maren','Nico',
-                   'Odette','Percy','Quilla','Rafe','Selma','Tobias','Ulla','Vaughn','Wren','Yusuf','Zora','Aldo','Bea','Cyrus','Dov','Esme'] as f,
-             array['Sorghum','Meadowlark','Old Mill','Bluff View','Cottonwood','Prairie Smoke','Kestrel','Tallgrass','Hickory','Limestone',
-                   'Switchgrass','Quarry Hill','Sumac','Bur Oak','Redbud','Sycamore','Pawpaw','Chinkapin','Ironweed','Coneflower',
-                   'Foxtail','Bluestem','Sideoats','Indiangrass','Wild Plum','Chokecherry','Elderberry','Persimmon','Hackberry','Osage',
-                   'Ridgeway','Hollow Creek','Stony Point','Millrace','Ferry','Granary','Depot','Orchard','Vineyard','Spring Branch',
-                   'Heron','Plover','Bobwhite','Dickcissel','Bunting','Kingbird','Swallow','Nuthatch','Thrasher','Vireo',
-                   'Basswood','Buckeye','Catalpa','Hawthorn','Linden','Locust','Mulberry','Tupelo','Willow','Yellowwood'] as st,
-             array['Street','Avenue','Drive','Road','Lane','Court','Way','Circle','Terrace','Place'] as sfx
-    ), g as (
-      select i, s.*, initcap(a[1 + (i * 7) % 40] || b[1 + (i / 40) % 40]) as last, f[1 + (i / 1600) % 30] as first from s, generate_series(1, ${N}) as i
-    )
-    insert into customers (name, email, phone, created_at)
-    select first || ' ' || last, lower(first || '.' || last || '.' || i || '@example.test'),
-           '+1816' || lpad(((2000000 + i * 37) % 8000000 + 2000000)::text, 7, '0'),
-           now() - (i || ' minutes')::interval
-    from g`);
-  await q(`
-    with s as (select array['Sorghum','Meadowlark','Old Mill','Bluff View','Cottonwood','Prairie Smoke','Kestrel','Tallgrass','Hickory','Limestone',
-                   'Switchgrass','Quarry Hill','Sumac','Bur Oak','Redbud','Sycamore','Pawpaw','Chinkapin','Ironweed','Coneflower',
-                   'Foxtail','Bluestem','Sideoats','Indiangrass','Wild Plum','Chokecherry','Elderberry','Persimmon','Hackberry','Osage',
-                   'Ridgeway','Hollow Creek','Stony Point','Millrace','Ferry','Granary','Depot','Orchard','Vineyard','Spring Branch',
-                   'Heron','Plover','Bobwhite','Dickcissel','Bunting','Kingbird','Swallow','Nuthatch','Thrasher','Vireo',
-                   'Basswood','Buckeye','Catalpa','Hawthorn','Linden','Locust','Mulberry','Tupelo','Willow','Yellowwood'] as st,
-             array['Street','Avenue','Drive','Road','Lane','Court','Way','Circle','Terrace','Place'] as sfx)
-    insert into properties (customer_id, street, city, state, zip)
-    select c.id, (100 + (row_number() over (order by c.id)) % 9800) || ' ' || st[1 + (abs(hashtext(c.id::text)) % 60)] || ' ' || sfx[1 + (abs(hashtext(c.email)) % 10)],
-           'Larkspur Bend', 'MO', case when abs(hashtext(c.name)) % 2 = 0 then '64790' else '64791' end
-    from customers c, s`);
-  await q(`alter table customers enable trigger user`);
-  await q(`alter table properties enable trigger user`);
-  await q(`update customers c set search_text = customers_search_doc(c.id, c.name, c.email, c.phone)`);
-  const t1 = performance.now();
-  await q(`create index customers_search_trgm_idx on customers using gin (search_text gin_trgm_ops)`);
-  await q(`vacuum analyze customers`);
-  await q(`vacuum analyze properties`);
-  const t2 = performance.now();
-  console.log(`generated ${N} households with a property each in ${((t1 - t0) / 1000).toFixed(1)} s; trigram index built in ${((t2 - t1) / 1000).toFixed(1)} s`);
+  const t = await generateHouseholds(pool, N);
+  console.log(`generated ${N} households with a property each in ${t.loadSeconds.toFixed(1)} s; trigram index built in ${t.indexSeconds.toFixed(1)} s`);
 }
 
 /** What people type: part of a surname, an e-mail, a phone number with punctuation, a street. */

@@ -1,0 +1,119 @@
+// Data generators shared by the benchmarks: households with a property each, and technicians with
+// a calendar of booked visits. Plain SQL on the pool, so they follow the schema and not the services.
+import { DateTime } from 'luxon';
+import { performance } from 'node:perf_hooks';
+import type pg from 'pg';
+
+/**
+ * `n` invented households with one property each, searchable (search text and trigram index
+ * rebuilt once at the end). Needs the company row in place when the caller wants a working app.
+ */
+export async function generateHouseholds(pool: pg.Pool, n: number): Promise<{ loadSeconds: number; indexSeconds: number }> {
+  const q = (text: string) => pool.query(text);
+  const t0 = performance.now();
+  // Bulk load without per-row triggers or index upkeep; both are rebuilt once afterwards.
+  await q(`drop index if exists customers_search_trgm_idx`);
+  await q(`alter table customers disable trigger user`);
+  await q(`alter table properties disable trigger user`);
+  // Invented names from syllables: 40 x 40 surnames, 30 given names, 60 street names.
+  await q(`
+    with s as (
+      select array['ash','bram','cor','dun','el','fen','gal','har','ivy','jor','kel','lin','mor','nor','ol','pem','quin','ros','sel','tor',
+                   'ul','van','wex','yar','zel','brin','cal','dor','ev','fal','gre','hol','isl','jes','kest','lor','mar','ned','orr','pry'] as a,
+             array['wood','stead','croft','more','ley','ton','brook','field','well','ridge','hurst','by','wick','ford','gate','holm',
+                   'dale','mere','thorne','worth','shaw','cote','den','fold','garth','haven','ing','lake','mont','port','rick','side',
+                   'stone','vale','wyn','bury','combe','hill','land','mark'] as b,
+             array['Avery','Blair','Corin','Delia','Emmett','Farrah','Gideon','Harlow','Ines','Jasper','Kenna','Lionel','Maren','Nico',
+                   'Odette','Percy','Quilla','Rafe','Selma','Tobias','Ulla','Vaughn','Wren','Yusuf','Zora','Aldo','Bea','Cyrus','Dov','Esme'] as f
+    ), g as (
+      select i, s.*, initcap(a[1 + (i * 7) % 40] || b[1 + (i / 40) % 40]) as last, f[1 + (i / 1600) % 30] as first from s, generate_series(1, ${n}) as i
+    )
+    insert into customers (name, email, phone, created_at)
+    select first || ' ' || last, lower(first || '.' || last || '.' || i || '@example.test'),
+           '+1816' || lpad(((2000000 + i * 37) % 8000000 + 2000000)::text, 7, '0'),
+           now() - (i || ' minutes')::interval
+    from g`);
+  await q(`
+    with s as (select array['Sorghum','Meadowlark','Old Mill','Bluff View','Cottonwood','Prairie Smoke','Kestrel','Tallgrass','Hickory','Limestone',
+                   'Switchgrass','Quarry Hill','Sumac','Bur Oak','Redbud','Sycamore','Pawpaw','Chinkapin','Ironweed','Coneflower',
+                   'Foxtail','Bluestem','Sideoats','Indiangrass','Wild Plum','Chokecherry','Elderberry','Persimmon','Hackberry','Osage',
+                   'Ridgeway','Hollow Creek','Stony Point','Millrace','Ferry','Granary','Depot','Orchard','Vineyard','Spring Branch',
+                   'Heron','Plover','Bobwhite','Dickcissel','Bunting','Kingbird','Swallow','Nuthatch','Thrasher','Vireo',
+                   'Basswood','Buckeye','Catalpa','Hawthorn','Linden','Locust','Mulberry','Tupelo','Willow','Yellowwood'] as st,
+             array['Street','Avenue','Drive','Road','Lane','Court','Way','Circle','Terrace','Place'] as sfx)
+    insert into properties (customer_id, street, city, state, zip)
+    select c.id, (100 + (row_number() over (order by c.id)) % 9800) || ' ' || st[1 + (abs(hashtext(c.id::text)) % 60)] || ' ' || sfx[1 + (abs(hashtext(c.email)) % 10)],
+           'Larkspur Bend', 'MO', case when abs(hashtext(c.name)) % 2 = 0 then '64790' else '64791' end
+    from customers c, s
+    where not exists (select 1 from properties p where p.customer_id = c.id)`);
+  await q(`alter table customers enable trigger user`);
+  await q(`alter table properties enable trigger user`);
+  await q(`update customers c set search_text = customers_search_doc(c.id, c.name, c.email, c.phone)`);
+  const t1 = performance.now();
+  await q(`create index customers_search_trgm_idx on customers using gin (search_text gin_trgm_ops)`);
+  await q(`vacuum analyze customers`);
+  await q(`vacuum analyze properties`);
+  const t2 = performance.now();
+  return { loadSeconds: (t1 - t0) / 1000, indexSeconds: (t2 - t1) / 1000 };
+}
+
+export interface CalendarShape {
+  /** Active technicians wanted in all (existing ones count). */
+  technicians: number;
+  visits: number;
+  days: number;
+  /** First local day of the calendar (its start of day is used). */
+  from: DateTime;
+  /** Local start times of the 90-minute visits on a weekday, filled slot by slot. */
+  slots?: string[];
+}
+
+/**
+ * Tops the active technicians up to `technicians` (Monday to Friday, 8 to 5), then books
+ * `visits` scheduled visits over the weekdays of `days` days from `from`, one technician slot at a
+ * time so none overlap, spread over every property. Returns the technician ids.
+ */
+export async function generateCalendar(pool: pg.Pool, shape: CalendarShape): Promise<{ technicianIds: string[]; visits: number }> {
+  const slots = shape.slots ?? ['08:00', '09:45', '11:30', '13:15', '15:00'];
+  const have = Number((await pool.query(`select count(*) from technicians where active`)).rows[0].count);
+  const hours = JSON.stringify({ '1': { start: '08:00', end: '17:00' }, '2': { start: '08:00', end: '17:00' }, '3': { start: '08:00', end: '17:00' }, '4': { start: '08:00', end: '17:00' }, '5': { start: '08:00', end: '17:00' } });
+  if (shape.technicians > have) {
+    await pool.query(
+      `with u as (insert into users (email, name, role) select 'bench.tech' || i || '@example.test', 'Bench Technician ' || i, 'technician' from generate_series(1, $1) i returning id)
+       insert into technicians (user_id, skills, weekly_hours) select id, '{refrigerant,gas_furnace}', $2::jsonb from u`,
+      [shape.technicians - have, hours],
+    );
+  }
+  const techs = (await pool.query(`select id from technicians where active order by id`)).rows.map((r) => r.id as string);
+  const homes = (await pool.query(`select customer_id, id from properties order by id`)).rows as { customer_id: string; id: string }[];
+  const rows: string[] = [];
+  const params: unknown[] = [];
+  outer: for (let d = 0; d < shape.days; d++) {
+    const day = shape.from.startOf('day').plus({ days: d });
+    if (day.weekday > 5) continue;
+    for (const slot of slots) {
+      for (const tech of techs) {
+        if (rows.length === shape.visits) break outer;
+        const [h, m] = slot.split(':').map(Number);
+        const start = day.set({ hour: h, minute: m });
+        const home = homes[rows.length % homes.length]!;
+        const n = params.length;
+        rows.push(`($${n + 1}, $${n + 2}, $${n + 3}, 'tune_up', 'tune_up', 'scheduled', $${n + 4}, $${n + 5}, $${n + 4}, $${n + 6}, $${n + 7})`);
+        params.push(home.customer_id, home.id, tech, start.toJSDate(), start.plus({ hours: 2 }).toJSDate(), start.plus({ minutes: 90 }).toJSDate(), rows.length % 4 === 0);
+      }
+    }
+  }
+  if (rows.length < shape.visits) throw new Error(`only ${rows.length} slots in ${shape.days} days; widen the grid`);
+  for (let i = 0; i < rows.length; i += 500) {
+    const chunk = rows.slice(i, i + 500);
+    const first = i * 7;
+    const p = params.slice(first, first + chunk.length * 7);
+    const renumbered = chunk.map((r) => r.replace(/\$(\d+)/g, (_m, k: string) => `$${Number(k) - first}`));
+    await pool.query(
+      `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at, priority) values ${renumbered.join(',')}`,
+      p,
+    );
+  }
+  await pool.query('vacuum analyze visits');
+  return { technicianIds: techs, visits: rows.length };
+}
