@@ -25,7 +25,7 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await page.getByLabel('Supply air dry bulb').fill('55');
   await page.getByLabel('Return air wet bulb').fill('61');
   const air = page.getByRole('list', { name: 'Air temperatures results' });
-  await expect(air.getByText('Temperature split')).toBeVisible();
+  await expect(air.getByText('Temperature split', { exact: true })).toBeVisible();
   await expect(air.getByText('In range')).toBeVisible();
 
   await expect(page.getByRole('note', { name: /Disconnect power and discharge capacitors/ })).toBeVisible();

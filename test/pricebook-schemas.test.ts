@@ -116,7 +116,7 @@ describe('part specifications by category', () => {
     expect(problems(contactorSpecSchema, { category: 'contactor', poles: 6, coilVolts: 24, fla: 40 })).toEqual({ poles: 'Poles is at most 4.' });
     expect(filterSpecSchema.parse({ category: 'filter', size: '16 X 25 X 1', merv: 8 })).toEqual({ category: 'filter', size: '16x25x1', merv: 8 });
     expect(problems(filterSpecSchema, { category: 'filter', size: '' })).toEqual({ size: 'Give the filter size, like 16x25x1.' });
-    expect(problems(refrigerantSpecSchema, { category: 'refrigerant', refrigerant: 'R-12' })).toEqual({ refrigerant: 'Refrigerant is one of R-410A, R-22, R-32, R-454B.' });
+    expect(problems(refrigerantSpecSchema, { category: 'refrigerant', refrigerant: 'R-12' })).toEqual({ refrigerant: 'Refrigerant is one of R-410A, R-22, R-32, R-454B, R-407C.' });
   });
 
   it('picks the schema by category, and refuses an unknown one', () => {
