@@ -42,6 +42,9 @@ export function toEquipment(row: EquipmentRow, today: string): Equipment {
     warrantyLabel: WARRANTY_STATUS_LABELS[warranty],
     location: row.location,
     notes: row.notes,
+    compressorType: row.compressorType,
+    maxCompressorHz: row.maxCompressorHz,
+    maxExternalStaticInWc: row.maxExternalStaticInWc,
     ageText: life.age ? ageText(life.age) : null,
     ageYears: life.age ? life.age.years : null,
     life: { status: life.status, label: life.label, typicalYears: life.typicalYears, source: life.source },
@@ -129,6 +132,12 @@ export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>,
   const installedOn = input.installedOn !== undefined ? input.installedOn : e.installedOn;
   const warrantyEndsOn = input.warrantyEndsOn !== undefined ? input.warrantyEndsOn : e.warrantyEndsOn;
   if (installedOn && warrantyEndsOn && warrantyEndsOn < installedOn) throw new AppError(422, 'validation_failed', 'Please check warrantyEndsOn.', { warrantyEndsOn: 'Warranty end is after the install date.' });
+  // A maximum frequency belongs to a variable-speed compressor, whichever of the two the change sends.
+  const compressorType = input.compressorType !== undefined ? input.compressorType : e.compressorType;
+  const maxCompressorHz = input.maxCompressorHz !== undefined ? input.maxCompressorHz : e.maxCompressorHz;
+  if (maxCompressorHz != null && compressorType != null && compressorType !== 'variable_speed') {
+    throw new AppError(422, 'validation_failed', 'Please check maxCompressorHz.', { maxCompressorHz: 'Maximum compressor frequency is for a variable-speed compressor.' });
+  }
   const [row] = await db.update(equipment).set(input).where(eq(equipment.id, id)).returning();
   return toEquipment(row!, today);
 }

@@ -2,7 +2,8 @@ import { and, asc, desc, eq, gte, lt, ne, notInArray } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { Logger } from 'pino';
 import { tuneUpSeasonOf } from '../../shared/coverage';
-import { evaluateReadings, ReadingInputError, tuneUpChecklist, type EquipmentKind, type Season } from '../../shared/hvac';
+import { evaluateReadings, furnaceHasCasedCoil, ReadingInputError, tuneUpChecklist, type EquipmentKind, type Season, type VisitReadings } from '../../shared/hvac';
+import type { SeasonSettings } from '../../shared/seasons';
 import {
   worstStatus,
   type ChecklistSection,
@@ -59,20 +60,30 @@ export async function todayVisits(deps: Pick<AppDeps, 'database' | 'clock'>, use
 
 const TROUBLESHOOTING_REASONS = new Set(['no_cooling', 'no_heat']);
 
-function seasonFor(visit: VisitRow, onDate: string): Season {
+function seasonFor(visit: VisitRow, onDate: string, seasons: SeasonSettings): Season {
   if (visit.reason === 'no_cooling') return 'cooling';
   if (visit.reason === 'no_heat') return 'heating';
-  return tuneUpSeasonOf(onDate);
+  return tuneUpSeasonOf(onDate, seasons);
+}
+
+/**
+ * One piece of equipment's items for the season, knowing the rest of the home's equipment (a
+ * furnace with a cased coil gets the coil's items). The section builder and the save check both
+ * use this, so every item shown can be saved.
+ */
+function checklistFor(e: EquipmentRow, season: Season, homeKinds: readonly string[]) {
+  return tuneUpChecklist(e.kind as EquipmentKind, season, { casedCoil: furnaceHasCasedCoil(homeKinds) });
 }
 
 async function checklistSections(db: Db, visitId: string, items: EquipmentRow[], season: Season): Promise<ChecklistSection[]> {
+  const kinds = items.map((e) => e.kind);
   const saved = await db.select().from(visitChecklistItems).where(eq(visitChecklistItems.visitId, visitId));
   const key = (e: string, i: string) => `${e}/${i}`;
   const byKey = new Map(saved.map((s) => [key(s.equipmentId, s.itemId), s]));
   return items.map((e) => ({
     equipmentId: e.id,
     equipmentLabel: equipmentLabel(e),
-    items: tuneUpChecklist(e.kind as EquipmentKind, season).map((item) => {
+    items: checklistFor(e, season, kinds).map((item) => {
       const s = byKey.get(key(e.id, item.id));
       return { ...item, result: s?.result ?? null, note: s?.note ?? '' };
     }),
@@ -95,7 +106,7 @@ export async function fieldVisit(deps: Pick<AppDeps, 'database' | 'clock'>, user
   const onDate = localDate(visit.startsAt, info.timeZone);
   const today = localDate(now, info.timeZone);
   const items = await propertyEquipment(db, visit.propertyId);
-  const season = seasonOverride ?? seasonFor(visit, onDate);
+  const season = seasonOverride ?? seasonFor(visit, onDate, info.seasons);
   const past = await db
     .select({ id: visits.id, startsAt: visits.startsAt, reason: visits.reason, findings: visits.findings, recommendations: visits.recommendations })
     .from(visits)
@@ -133,10 +144,7 @@ export async function fieldVisit(deps: Pick<AppDeps, 'database' | 'clock'>, user
     troubleshootingKind: TROUBLESHOOTING_REASONS.has(visit.reason) ? (visit.reason as 'no_cooling' | 'no_heat') : null,
     readings: readings.map(savedReadings),
     photos: await visitPhotos(db, visit.id),
-    cautions: technicianCautions(
-      items.map((e) => e.kind),
-      items.some((e) => e.refrigerant !== null),
-    ),
+    cautions: technicianCautions(items),
   };
 }
 
@@ -153,6 +161,20 @@ async function equipmentOnVisit(db: Db, visit: VisitRow, equipmentId: string, fi
 }
 
 /**
+ * The readings with what the equipment record knows filled in where the technician left it out:
+ * compressor type, maximum frequency and maximum external static. The phone does the same, so
+ * the live verdicts and the saved ones match.
+ */
+function withEquipmentDefaults(sent: VisitReadings, unit: EquipmentRow): VisitReadings {
+  const readings: VisitReadings = { ...sent };
+  if (readings.compressorType === undefined && unit.compressorType !== null) readings.compressorType = unit.compressorType;
+  const variable = (readings.compressorType ?? unit.compressorType) === 'variable_speed';
+  if (readings.maxCompressorHz === undefined && unit.maxCompressorHz !== null && variable) readings.maxCompressorHz = unit.maxCompressorHz;
+  if (readings.maxExternalStaticInWc === undefined && unit.maxExternalStaticInWc !== null) readings.maxExternalStaticInWc = unit.maxExternalStaticInWc;
+  return readings;
+}
+
+/**
  * Saves one system's readings. The server evaluates them again with the same engine and stores
  * what it computed; saving twice (a retry after a dropped signal) replaces the first copy.
  */
@@ -161,8 +183,8 @@ export async function saveReadings(deps: Pick<AppDeps, 'database' | 'clock'>, us
   const now = deps.clock();
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
-  await equipmentOnVisit(db, visit, body.equipmentId, 'equipmentId');
-  const readings = { ...body.readings };
+  const unit = await equipmentOnVisit(db, visit, body.equipmentId, 'equipmentId');
+  const readings = withEquipmentDefaults(body.readings, unit);
   if (readings.altitudeFt === undefined) {
     const [p] = await db.select({ elevationFt: properties.elevationFt }).from(properties).where(eq(properties.id, visit.propertyId));
     if (p?.elevationFt !== null && p?.elevationFt !== undefined) readings.altitudeFt = p.elevationFt;
@@ -192,11 +214,12 @@ export async function saveChecklist(deps: Pick<AppDeps, 'database'>, user: Sessi
   assertOpen(visit);
   const items = await propertyEquipment(db, visit.propertyId);
   const byId = new Map(items.map((e) => [e.id, e]));
+  const kinds = items.map((e) => e.kind);
   const seen = new Set<string>();
   body.items.forEach((it, i) => {
     const e = byId.get(it.equipmentId);
     if (!e) throw new AppError(422, 'validation_failed', 'That equipment is not at this property.', { [`items.${i}.equipmentId`]: 'Choose equipment at this property' });
-    const known = tuneUpChecklist(e.kind as EquipmentKind, body.season).some((c) => c.id === it.itemId);
+    const known = checklistFor(e, body.season, kinds).some((c) => c.id === it.itemId);
     if (!known) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: `Not a ${body.season} checklist item for this equipment` });
     const k = `${it.equipmentId}/${it.itemId}`;
     if (seen.has(k)) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: 'This item appears twice' });

@@ -1,6 +1,6 @@
 import { and, asc, eq, isNull } from 'drizzle-orm';
 import { DateTime } from 'luxon';
-import { cautions, homeownerWording, type Caution } from '../../shared/hvac';
+import { cautions, homeownerWording, technicianCautionsFor, type Caution } from '../../shared/hvac';
 import type { VisitSummary } from '../../shared/schemas/field';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
@@ -8,7 +8,7 @@ import { equipment, files, technicians, users, visitReadings } from '../db/schem
 import { toFile } from '../customers/customer-views';
 import { renderEmail } from '../integrations/mail-layout';
 import { localDate } from '../company/company';
-import { equipmentLabel, propertyEquipment, type CompanyInfo, type VisitRow } from './visit-data';
+import { equipmentLabel, propertyEquipment, type CompanyInfo, type EquipmentRow, type VisitRow } from './visit-data';
 
 const FUEL_BURNING = new Set(['gas_furnace']);
 
@@ -18,15 +18,13 @@ export function homeownerCautions(kinds: readonly string[]): Caution[] {
   return cautions.filter((c) => c.audience.includes('homeowner') && (c.id !== 'co_alarms' || fuel));
 }
 
-/** Cautions for the technician on this visit, by what the equipment involves. */
-export function technicianCautions(kinds: readonly string[], hasRefrigerant: boolean): Caution[] {
-  const fuel = kinds.some((k) => FUEL_BURNING.has(k));
-  return cautions.filter((c) => {
-    if (!c.audience.includes('technician')) return false;
-    if (c.id === 'refrigerant_certification') return hasRefrigerant;
-    if (c.id === 'fuel_burning_equipment') return fuel;
-    return true;
-  });
+/**
+ * Cautions for the technician on this visit, by what the equipment involves: A2L cautions only
+ * where an A2L refrigerant is on record, CO cautions only with fuel-burning equipment.
+ */
+export function technicianCautions(items: readonly Pick<EquipmentRow, 'kind' | 'refrigerant'>[]): Caution[] {
+  const refrigerants = items.map((e) => e.refrigerant).filter((r): r is NonNullable<typeof r> => r !== null);
+  return technicianCautionsFor({ fuelBurning: items.some((e) => FUEL_BURNING.has(e.kind)), hasRefrigerant: refrigerants.length > 0, refrigerants });
 }
 
 /** Photos filed against the visit, oldest first. */

@@ -3,6 +3,7 @@ import { DateTime } from 'luxon';
 import { EQUIPMENT_KIND_LABELS, type EquipmentKind } from '../../shared/equipment';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { COVERING_STATUSES, coverageFor, type Coverage, type CoverageVisit } from '../../shared/coverage';
+import type { SeasonSettings } from '../../shared/seasons';
 import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
@@ -20,11 +21,13 @@ export interface CompanyInfo {
   timeZone: string;
   diagnosticFeeCents: number;
   phone: string;
+  /** The owner's season months: coverage and the checklist count seasons by them. */
+  seasons: SeasonSettings;
 }
 
 export async function companyInfo(db: Db | Tx): Promise<CompanyInfo> {
-  const { name, timeZone, diagnosticFeeCents, phone } = await companyRow(db);
-  return { name, timeZone, diagnosticFeeCents, phone };
+  const { name, timeZone, diagnosticFeeCents, phone, coolingStartMonth, heatingStartMonth } = await companyRow(db);
+  return { name, timeZone, diagnosticFeeCents, phone, seasons: { coolingStartMonth, heatingStartMonth } };
 }
 
 /** "9:00–11:00 AM", or "11:00 AM–1:00 PM" across noon, in the company's zone. */
@@ -65,6 +68,9 @@ export function fieldEquipment(e: EquipmentRow, today: string): FieldEquipment {
     underWarranty: e.warrantyEndsOn ? e.warrantyEndsOn >= today : null,
     filterSize: e.filterSize,
     location: e.location,
+    compressorType: e.compressorType,
+    maxCompressorHz: e.maxCompressorHz,
+    maxExternalStaticInWc: e.maxExternalStaticInWc,
   };
 }
 
@@ -116,7 +122,7 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
       .limit(1);
   }
   const current: CoverageVisit = { id: visit.id, kind: visit.kind, status: visit.status, onDate };
-  if (!a) return coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents });
+  if (!a) return coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents, seasons: info.seasons });
 
   const zoneStart = DateTime.fromISO(a.startsOn, { zone: info.timeZone }).toJSDate();
   const zoneEnd = DateTime.fromISO(a.endsOn, { zone: info.timeZone }).toJSDate();
@@ -141,6 +147,7 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
     visit: current,
     termVisits: term.map((v) => ({ id: v.id, kind: v.kind, status: v.status, onDate: localDate(v.startsAt, info.timeZone) })),
     diagnosticFeeCents: info.diagnosticFeeCents,
+    seasons: info.seasons,
   });
 }
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { seasonSettingsSchema } from '../seasons';
 
 const clock = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a time like 07:30.');
 const day = z
@@ -15,7 +16,12 @@ function validZone(name: string): boolean {
   }
 }
 
-/** The company's details and booking rules, set by the owner. */
+const seasonMonth = seasonSettingsSchema.shape;
+
+/**
+ * The company's details and booking rules, set by the owner. The season months are optional on a
+ * change (left out, they stay as they are); the service checks the pair with seasonSettingsSchema.
+ */
 export const companySettingsSchema = z.object({
   name: z.string().trim().min(1, 'Company name is required.').max(120, 'Company name is at most 120 characters.'),
   phone: z.string().trim().regex(/^\+[1-9]\d{6,14}$/, 'Phone in international form, for example +18165550142.'),
@@ -32,5 +38,9 @@ export const companySettingsSchema = z.object({
   heldBackPct: z.number().int().min(0, 'Held-back share is 0–100 %.').max(100, 'Held-back share is 0–100 %.'),
   cancelCutoffHours: z.number().int().min(0, 'Cut-off cannot be negative.').max(168, 'Cut-off is at most a week.'),
   diagnosticFeeCents: z.number().int('Diagnostic fee is in whole cents.').min(0, 'Diagnostic fee cannot be negative.').max(100000, 'Diagnostic fee is at most $1,000.'),
+  coolingStartMonth: seasonMonth.coolingStartMonth.optional(),
+  heatingStartMonth: seasonMonth.heatingStartMonth.optional(),
 });
-export type CompanySettings = z.infer<typeof companySettingsSchema>;
+export type CompanySettingsInput = z.infer<typeof companySettingsSchema>;
+/** The settings as the API answers them: the season months always present. */
+export type CompanySettings = CompanySettingsInput & { coolingStartMonth: number; heatingStartMonth: number };

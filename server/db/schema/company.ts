@@ -25,6 +25,9 @@ export const company = pgTable(
     heldBackPct: integer().notNull().default(25),
     cancelCutoffHours: integer().notNull().default(24),
     diagnosticFeeCents: integer().notNull().default(0),
+    // The one season table (shared/seasons.ts): defaults March and September.
+    coolingStartMonth: smallint().notNull().default(3),
+    heatingStartMonth: smallint().notNull().default(9),
     updatedAt: updatedAt(),
   },
   (t) => [
@@ -33,5 +36,6 @@ export const company = pgTable(
     check('company_held_back', sql`${t.heldBackPct} between 0 and 100`),
     check('company_window', sql`${t.arrivalWindowMinutes} between 30 and 480`),
     check('company_fee', sql`${t.diagnosticFeeCents} >= 0`),
+    check('company_season_months', sql`${t.coolingStartMonth} between 1 and 12 and ${t.heatingStartMonth} between 1 and 12 and ${t.coolingStartMonth} <> ${t.heatingStartMonth}`),
   ],
 );

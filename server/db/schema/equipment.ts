@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { check, date, doublePrecision, index, integer, pgTable, smallint, text, uuid } from 'drizzle-orm/pg-core';
-import { EQUIPMENT_KINDS, METERING_DEVICES, REFRIGERANTS } from '../../../shared/equipment';
+import { COMPRESSOR_TYPES, EQUIPMENT_KINDS, METERING_DEVICES, REFRIGERANTS } from '../../../shared/equipment';
 import { createdAt, id, inList, tstz } from './columns';
 import { properties } from './customers';
 
@@ -29,6 +29,11 @@ export const equipment = pgTable(
     warrantyEndsOn: date({ mode: 'string' }),
     location: text().notNull().default(''),
     notes: text().notNull().default(''),
+    compressorType: text({ enum: COMPRESSOR_TYPES }),
+    /** A variable-speed unit's maximum compressor frequency, Hz (nameplate or maker's data). */
+    maxCompressorHz: doublePrecision(),
+    /** Nameplate or blower-table maximum total external static pressure, in. w.c. */
+    maxExternalStaticInWc: doublePrecision(),
     archivedAt: tstz(),
     createdAt: createdAt(),
   },
@@ -42,5 +47,8 @@ export const equipment = pgTable(
     check('equipment_phase', sql`${t.phase} is null or ${t.phase} in (1, 3)`),
     check('equipment_amps', sql`${t.ratedAmps} is null or ${t.ratedAmps} > 0`),
     check('equipment_merv', sql`${t.merv} is null or ${t.merv} between 1 and 16`),
+    check('equipment_compressor_type', sql.raw(`compressor_type is null or compressor_type in (${inList(COMPRESSOR_TYPES)})`)),
+    check('equipment_max_compressor_hz', sql`${t.maxCompressorHz} is null or (${t.maxCompressorHz} > 0 and ${t.maxCompressorHz} <= 300)`),
+    check('equipment_max_static', sql`${t.maxExternalStaticInWc} is null or (${t.maxExternalStaticInWc} > 0 and ${t.maxExternalStaticInWc} <= 2)`),
   ],
 );

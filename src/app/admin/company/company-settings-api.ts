@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import type { CompanySettings } from '../../../../shared/schemas/settings';
+import type { CompanySettings, CompanySettingsInput } from '../../../../shared/schemas/settings';
 
 /** The company's own details, hours and booking rules. */
 @Injectable({ providedIn: 'root' })
@@ -12,7 +12,7 @@ export class CompanySettingsApi {
     return this.http.get<CompanySettings>('/api/settings/company');
   }
 
-  save(body: CompanySettings): Observable<CompanySettings> {
+  save(body: CompanySettingsInput): Observable<CompanySettings> {
     return this.http.put<CompanySettings>('/api/settings/company', body);
   }
 }

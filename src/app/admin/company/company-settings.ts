@@ -7,6 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { companySettingsSchema, type CompanySettings } from '../../../../shared/schemas/settings';
+import { seasonSettingsSchema } from '../../../../shared/seasons';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CompanySettingsApi } from './company-settings-api';
@@ -23,6 +24,7 @@ const DAYS = [
   { key: '6', label: 'Saturday' },
   { key: '7', label: 'Sunday' },
 ] as const;
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'].map((label, i) => ({ value: i + 1, label }));
 type DayKey = (typeof DAYS)[number]['key'];
 type DayGroup = FormGroup<{ closed: FormControl<boolean>; open: FormControl<string>; close: FormControl<string> }>;
 
@@ -41,6 +43,7 @@ export class CompanySettingsPage {
   private readonly fb = inject(NonNullableFormBuilder);
 
   protected readonly days = DAYS;
+  protected readonly months = MONTHS;
   protected readonly saving = signal(false);
   private readonly read = rxResource({ stream: () => this.api.get() });
   protected readonly loaded = computed(() => this.read.hasValue());
@@ -60,6 +63,8 @@ export class CompanySettingsPage {
     leadTimeMinutes: [120, Validators.required],
     heldBackPct: [25, Validators.required],
     cancelCutoffHours: [24, Validators.required],
+    coolingStartMonth: [3, Validators.required],
+    heatingStartMonth: [9, Validators.required],
     hours: this.fb.group(Object.fromEntries(DAYS.map((d) => [d.key, this.dayGroup()])) as Record<DayKey, DayGroup>),
   });
 
@@ -113,10 +118,17 @@ export class CompanySettingsPage {
       leadTimeMinutes: Number(v.leadTimeMinutes),
       heldBackPct: Number(v.heldBackPct),
       cancelCutoffHours: Number(v.cancelCutoffHours),
+      coolingStartMonth: Number(v.coolingStartMonth),
+      heatingStartMonth: Number(v.heatingStartMonth),
       businessHours: Object.fromEntries(DAYS.map((d) => [d.key, v.hours[d.key].closed ? null : { open: v.hours[d.key].open, close: v.hours[d.key].close }])),
     };
     // The same schema the server uses: errors show next to their fields before a round trip.
     const checked = companySettingsSchema.safeParse(body);
+    const seasons = seasonSettingsSchema.safeParse(body);
+    if (checked.success && !seasons.success) {
+      applyFieldErrors(this.form, Object.fromEntries(seasons.error.issues.map((i) => [i.path.join('.'), i.message])), FORM_NAMES);
+      return;
+    }
     if (!checked.success) {
       applyFieldErrors(this.form, Object.fromEntries(checked.error.issues.map((i) => [i.path.join('.'), i.message])), FORM_NAMES);
       return;

@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
+import { COMPRESSOR_TYPES, COMPRESSOR_TYPE_LABELS, EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
 import { equipmentInputSchema, REFRIGERANT_CHOICES, type Equipment } from '../../../../shared/schemas/equipment';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CustomersApi } from './customers-api';
@@ -31,6 +31,7 @@ export class EquipmentForm {
 
   protected readonly kinds = EQUIPMENT_KINDS.map((k) => ({ value: k, label: EQUIPMENT_KIND_LABELS[k] }));
   protected readonly refrigerants = REFRIGERANT_CHOICES;
+  protected readonly compressorTypes = COMPRESSOR_TYPES.map((c) => ({ value: c, label: COMPRESSOR_TYPE_LABELS[c] }));
   protected readonly saving = signal(false);
   protected readonly error = signal<string | null>(null);
   protected readonly serverError = serverError;
@@ -53,6 +54,9 @@ export class EquipmentForm {
     warrantyEndsOn: new FormControl('', { nonNullable: true }),
     location: new FormControl('', { nonNullable: true }),
     notes: new FormControl('', { nonNullable: true }),
+    compressorType: new FormControl<string>('', { nonNullable: true }),
+    maxCompressorHz: new FormControl('', { nonNullable: true }),
+    maxExternalStaticInWc: new FormControl('', { nonNullable: true }),
   });
 
   protected async save(): Promise<void> {
