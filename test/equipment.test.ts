@@ -53,6 +53,30 @@ describe('equipment', () => {
     expect(early.body.error.fields.warrantyEndsOn).toBeTruthy();
   });
 
+  it('records a variable-speed compressor with its maximum frequency and the blower\'s maximum static, and R-407C', async () => {
+    const res = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', refrigerant: 'r407c', compressorType: 'variable_speed', maxCompressorHz: '120', maxExternalStaticInWc: 0.8 }).expect(201);
+    expect(res.body).toMatchObject({ refrigerant: 'R-407C', compressorType: 'variable_speed', maxCompressorHz: 120, maxExternalStaticInWc: 0.8 });
+    const got = await office.agent.get(`/api/equipment/${res.body.id}`).expect(200);
+    expect(got.body).toMatchObject({ compressorType: 'variable_speed', maxCompressorHz: 120, maxExternalStaticInWc: 0.8 });
+    const plain = await post(office, '/api/equipment', { propertyId, kind: 'condensing_unit' }).expect(201);
+    expect(plain.body).toMatchObject({ compressorType: null, maxCompressorHz: null, maxExternalStaticInWc: null });
+  });
+
+  it('names the compressor and static fields when they are wrong', async () => {
+    const res = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', compressorType: 'inverter', maxCompressorHz: 0, maxExternalStaticInWc: 3 }).expect(422);
+    expect(Object.keys(res.body.error.fields).sort()).toEqual(['compressorType', 'maxCompressorHz', 'maxExternalStaticInWc']);
+    const high = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', compressorType: 'variable_speed', maxCompressorHz: 301 }).expect(422);
+    expect(high.body.error.fields.maxCompressorHz).toMatch(/300 Hz/);
+    const fixed = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', compressorType: 'two_stage', maxCompressorHz: 90 }).expect(422);
+    expect(fixed.body.error.fields.maxCompressorHz).toMatch(/variable-speed/);
+    // A change that makes a unit with a maximum frequency fixed-speed is refused the same way.
+    const vs = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', compressorType: 'variable_speed', maxCompressorHz: 100 }).expect(201);
+    const upd = await office.agent.patch(`/api/equipment/${vs.body.id}`).set('X-XSRF-TOKEN', office.csrf).send({ compressorType: 'fixed_speed' }).expect(422);
+    expect(Object.keys(upd.body.error.fields)).toEqual(['maxCompressorHz']);
+    const cleared = await office.agent.patch(`/api/equipment/${vs.body.id}`).set('X-XSRF-TOKEN', office.csrf).send({ compressorType: 'fixed_speed', maxCompressorHz: '' }).expect(200);
+    expect(cleared.body).toMatchObject({ compressorType: 'fixed_speed', maxCompressorHz: null });
+  });
+
   it('edits and archives equipment without losing it', async () => {
     const made = await post(office, '/api/equipment', { propertyId, kind: 'humidifier', make: 'Quintaire' }).expect(201);
     const upd = await office.agent.patch(`/api/equipment/${made.body.id}`).set('X-XSRF-TOKEN', office.csrf).send({ model: 'HB-2', installedOn: '2021-04-01' }).expect(200);

@@ -44,4 +44,22 @@ describe('company settings', () => {
     expect(audit.status).toBe(200);
     expect(JSON.stringify(audit.body)).toContain('settings_changed');
   });
+
+  it('hold the season months: bad months are named, and months left out stay as they are', async () => {
+    const owner = await signInStaff(ctx, OWNER);
+    const before = (await owner.agent.get('/api/settings/company')).body;
+    expect(before).toMatchObject({ coolingStartMonth: expect.any(Number), heatingStartMonth: expect.any(Number) });
+    const bad = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, coolingStartMonth: 13, heatingStartMonth: 0 });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields).toMatchObject({ coolingStartMonth: 'Cooling season start is a month from 1 to 12.', heatingStartMonth: 'Heating season start is a month from 1 to 12.' });
+    const same = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, heatingStartMonth: before.coolingStartMonth });
+    expect(same.status).toBe(422);
+    expect(Object.keys(same.body.error.fields)).toEqual(['heatingStartMonth']);
+    // Left out, the months stay as they are.
+    const { coolingStartMonth: _c, heatingStartMonth: _h, ...rest } = before;
+    const kept = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send(rest);
+    expect(kept.status).toBe(200);
+    expect(kept.body).toEqual(before);
+    expect((await owner.agent.get('/api/settings/company')).body).toEqual(before);
+  });
 });

@@ -34,7 +34,7 @@ async function loadHouseholds(db: Db): Promise<(ReminderHousehold & { name: stri
       .from(visits)
       .where(and(inArray(visits.customerId, ids), sql`${visits.startsAt} > now() - interval '400 days'`)),
     db
-      .select({ customerId: properties.customerId, kind: equipment.kind, filterSize: equipment.filterSize })
+      .select({ customerId: properties.customerId, kind: equipment.kind, filterSize: equipment.filterSize, filterType: equipment.filterType })
       .from(equipment)
       .innerJoin(properties, eq(properties.id, equipment.propertyId))
       .where(and(inArray(properties.customerId, ids), isNull(equipment.archivedAt), isNull(properties.archivedAt))),
@@ -64,7 +64,8 @@ export async function previewReminders(deps: Pick<AppDeps, 'database' | 'clock'>
   const households = await loadHouseholds(db);
   const audience: ReminderRecipient[] = [];
   for (const h of households) {
-    const d = reminderDecision(kind, h, today);
+    // The owner's season months: the same table coverage and the checklists use.
+    const d = reminderDecision(kind, h, today, { coolingStartMonth: info.coolingStartMonth, heatingStartMonth: info.heatingStartMonth });
     if (d.due && h.email) audience.push({ customerId: h.customerId, name: h.name, email: h.email, reason: d.reason });
   }
   return { kind, label: REMINDER_LABELS[kind], subject: reminderWording(kind, info.name).subject, audience, skipped: households.length - audience.length };

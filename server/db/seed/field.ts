@@ -65,9 +65,10 @@ export async function seedFieldReadings(tx: Tx, zone: string): Promise<number> {
   const byProperty = new Map<string, (typeof t.equipment.$inferSelect)[]>();
   for (const e of equipmentRows) byProperty.set(e.propertyId, [...(byProperty.get(e.propertyId) ?? []), e]);
 
+  const [company] = await tx.select({ coolingStartMonth: t.company.coolingStartMonth, heatingStartMonth: t.company.heatingStartMonth }).from(t.company).limit(1);
   const rows: (typeof t.visitReadings.$inferInsert)[] = [];
   for (const v of done) {
-    const season = tuneUpSeasonOf(DateTime.fromJSDate(v.startsAt, { zone }).toISODate()!);
+    const season = tuneUpSeasonOf(DateTime.fromJSDate(v.startsAt, { zone }).toISODate()!, company);
     const items = byProperty.get(v.propertyId) ?? [];
     const system = season === 'cooling' ? items.find((e) => OUTDOOR.has(e.kind)) : items.find((e) => e.kind === 'gas_furnace');
     if (!system) continue;

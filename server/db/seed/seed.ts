@@ -16,6 +16,20 @@ export interface SeedResult {
   households: number;
 }
 
+/** The household whose outdoor unit is a variable-speed heat pump, with a tune-up today. */
+const VARIABLE_SPEED_HOUSEHOLD = 2;
+
+/**
+ * Makes the home's outdoor unit an inverter heat pump (paired with its furnace, dual fuel), with
+ * the maximum compressor frequency a nameplate gives. Invented demo values; no random draws, so
+ * the rest of the demo stays as it was.
+ */
+function variableSpeedOutdoorUnit(rows: (typeof t.equipment.$inferInsert)[]): void {
+  const outdoor = rows.find((r) => r.kind === 'condensing_unit' || r.kind === 'heat_pump');
+  if (!outdoor) return;
+  Object.assign(outdoor, { kind: 'heat_pump', model: 'VS36-1', meteringDevice: 'eev', compressorType: 'variable_speed', maxCompressorHz: 110, maxExternalStaticInWc: 0.8 });
+}
+
 /** Seeds the demo scenario once. A second call finds the company row and does nothing. */
 export async function seedDemo(db: Db, today: DateTime = DateTime.now().setZone(COMPANY.timeZone)): Promise<SeedResult> {
   return db.transaction(async (tx) => {
@@ -148,6 +162,7 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
     }
     equipmentRows.push({ propertyId, kind: 'thermostat', make: rnd.pick(MAKES), model: 'T-7', installedOn: today.minus({ years: rnd.int(1, 6) }).toISODate()!, location: 'Hallway' });
     if (h % 4 === 1) equipmentRows.push({ propertyId, kind: 'condensate_pump', make: rnd.pick(MAKES), model: 'CP-1', installedOn, location: 'Beside the furnace' });
+    if (h === VARIABLE_SPEED_HOUSEHOLD) variableSpeedOutdoorUnit(equipmentRows);
     await tx.insert(t.equipment).values(equipmentRows);
 
     // About two in three households hold an agreement; a few end soon so renewals have work.
@@ -277,5 +292,22 @@ async function seedVisits(tx: Tx, rnd: Random, today: DateTime, households: { cu
       notes: k === 1 ? 'House is warm; outdoor fan runs but the air inside is not cold.' : '',
     });
   }
+  // And a tune-up on the variable-speed heat pump, after the other two.
+  const vs = households[VARIABLE_SPEED_HOUSEHOLD]!;
+  const vsStart = today.set({ hour: 15, minute: 0 });
+  rows.push({
+    customerId: vs.customerId,
+    propertyId: vs.propertyId,
+    agreementId: vs.agreementId,
+    technicianId: technicianIds[0]!,
+    kind: 'tune_up',
+    reason: 'tune_up',
+    status: 'scheduled',
+    windowStart: vsStart.toJSDate(),
+    windowEnd: vsStart.plus({ hours: 2 }).toJSDate(),
+    startsAt: vsStart.toJSDate(),
+    endsAt: vsStart.plus({ minutes: 90 }).toJSDate(),
+    notes: 'Variable-speed heat pump: use its charge test mode for the refrigerant readings.',
+  });
   for (let i = 0; i < rows.length; i += 200) await tx.insert(t.visits).values(rows.slice(i, i + 200));
 }
