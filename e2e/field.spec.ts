@@ -132,3 +132,44 @@ test('readings typed on a no-cooling call survive a reload and a dropped signal 
   await expect(page.getByText('Unsaved readings restored from this phone.')).toHaveCount(0);
   await expect(page.getByLabel('Cause found')).toHaveValue('Clogged condensate line tripped the overflow switch.');
 });
+
+test('a technician records a variable-speed tune-up at forced full capacity; the charge is judged only in test mode', async ({ page }) => {
+  await page.setViewportSize({ width: 360, height: 740 });
+  await page.goto('/staff/sign-in');
+  await page.getByLabel('E-mail address').fill(DEMO.technician);
+  await page.getByLabel('Password').fill(DEMO.staffPassword);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await page.getByRole('link', { name: /Tune-up, Calloway household/ }).click();
+  await expect(page.getByRole('heading', { name: /Tune-up · Calloway household/ })).toBeVisible();
+
+  await page.getByRole('radiogroup', { name: 'Operating mode' }).getByText('Cooling').click();
+  // The model's maximum comes from the equipment record; the percent is worked out from it.
+  await expect(page.getByLabel('Model maximum frequency')).toHaveValue('110');
+  await page.getByLabel('Compressor frequency').fill('44');
+  await expect(page.getByText('Running at 40 % of full capacity (44 of 110 Hz).')).toBeVisible();
+
+  await page.getByLabel('Refrigerant', { exact: true }).selectOption('R-410A');
+  await page.getByLabel('Suction pressure').fill('118');
+  await page.getByLabel('Suction line temperature').fill('50');
+  const refrigerant = page.getByRole('list', { name: 'Refrigerant circuit results' });
+  const superheat = refrigerant.getByRole('listitem').filter({ hasText: 'Superheat' });
+  // Below full capacity: the readings show, the verdict waits for the test mode.
+  await expect(page.getByRole('note').filter({ hasText: 'Put the system in its full-capacity test mode to judge the charge.' })).toBeVisible();
+  await expect(superheat.getByText(/to judge the charge/)).toBeVisible();
+  await expect(superheat.getByText('In range')).toHaveCount(0);
+
+  await page.getByLabel('Forced to full capacity (test or charge mode)').check();
+  await expect(page.getByText('Forced to full capacity (test mode): 100 %.')).toBeVisible();
+  await expect(page.getByRole('note').filter({ hasText: 'Put the system in its full-capacity test mode' })).toHaveCount(0);
+  // 118 psig R-410A is about 40 °F saturated; a 50 °F suction line is 10 °F of superheat.
+  await expect(superheat.getByText('In range')).toBeVisible();
+  await expect(superheat.getByText(/to judge the charge/)).toHaveCount(0);
+
+  await page.getByRole('button', { name: 'Save readings' }).click();
+  await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
+  await page.reload();
+  await expect(page.getByLabel('Forced to full capacity (test or charge mode)')).toBeChecked();
+  await expect(superheat.getByText('In range')).toBeVisible();
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+  expect(overflow, 'no sideways scrolling on a phone').toBeLessThanOrEqual(0);
+});

@@ -1,6 +1,6 @@
-import type { ReadingCheck, VisitReadings } from '../../../../shared/hvac';
+import { READING_HELP, type ReadingCheck, type VisitReadings } from '../../../../shared/hvac';
 
-export type ReadingGroup = 'air' | 'refrigerant' | 'electrical' | 'airflow' | 'heating';
+export type ReadingGroup = 'capacity' | 'air' | 'refrigerant' | 'electrical' | 'airflow' | 'heating' | 'combustion';
 
 export interface ReadingField {
   /** Path in VisitReadings, dotted for nested values. */
@@ -9,22 +9,36 @@ export interface ReadingField {
   unit: string;
   group: ReadingGroup;
   hint?: string;
+  /** Shown only for a compressor of this kind. */
+  only?: 'variable_speed';
 }
 
 export const GROUP_TITLES: Record<ReadingGroup, string> = {
+  capacity: 'Compressor capacity',
   air: 'Air temperatures',
   refrigerant: 'Refrigerant circuit',
   electrical: 'Electrical',
   airflow: 'Airflow',
   heating: 'Heating',
+  combustion: 'Carbon monoxide',
 };
 
 export const GROUPS_BY_MODE: Record<'cooling' | 'heating', ReadingGroup[]> = {
-  cooling: ['air', 'refrigerant', 'electrical', 'airflow'],
-  heating: ['air', 'heating', 'electrical', 'airflow'],
+  cooling: ['capacity', 'air', 'refrigerant', 'electrical', 'airflow'],
+  heating: ['capacity', 'air', 'heating', 'combustion', 'electrical', 'airflow'],
 };
 
+/** Groups shown only for a compressor that runs below full capacity. */
+export const PART_CAPACITY_GROUPS: ReadonlySet<ReadingGroup> = new Set(['capacity']);
+
+/** Help beside the fields the engine explains (RLA, airflow basis, static, CO, variable speed). */
+export const FIELD_HELP: Readonly<Record<string, string | undefined>> = READING_HELP;
+
 export const READING_FIELDS: ReadingField[] = [
+  { path: 'compressorHz', label: 'Compressor frequency', unit: 'Hz', group: 'capacity', only: 'variable_speed' },
+  { path: 'maxCompressorHz', label: 'Model maximum frequency', unit: 'Hz', group: 'capacity', only: 'variable_speed', hint: 'From the equipment record or nameplate' },
+  { path: 'capacityPct', label: 'Percent of capacity', unit: '%', group: 'capacity', hint: 'Where the unit shows it; else worked out from the frequency' },
+
   { path: 'returnDryBulbF', label: 'Return air dry bulb', unit: '°F', group: 'air' },
   { path: 'supplyDryBulbF', label: 'Supply air dry bulb', unit: '°F', group: 'air' },
   { path: 'returnRelativeHumidityPct', label: 'Return air humidity', unit: '% RH', group: 'air' },
@@ -56,6 +70,11 @@ export const READING_FIELDS: ReadingField[] = [
 
   { path: 'airflowCfm', label: 'Measured airflow', unit: 'CFM', group: 'airflow' },
   { path: 'nominalTons', label: 'Nominal capacity', unit: 'tons', group: 'airflow' },
+  { path: 'totalExternalStaticInWc', label: 'Total external static pressure', unit: 'in. w.c.', group: 'airflow' },
+  { path: 'maxExternalStaticInWc', label: 'Maximum external static (nameplate)', unit: 'in. w.c.', group: 'airflow', hint: '0.5 in. w.c. when empty' },
+
+  { path: 'flueCoAirFreePpm', label: 'Flue CO air-free', unit: 'ppm', group: 'combustion' },
+  { path: 'ambientCoPpm', label: 'Living-space CO', unit: 'ppm', group: 'combustion' },
 
   { path: 'temperatureRiseF', label: 'Temperature rise', unit: '°F', group: 'heating', hint: 'Leave empty to use supply minus return' },
   { path: 'riseRangeF.min', label: 'Nameplate rise, low', unit: '°F', group: 'heating' },
@@ -76,12 +95,16 @@ export const CHECK_GROUP: Record<string, ReadingGroup> = {
   control_voltage: 'electrical',
   sensible_capacity: 'airflow',
   airflow_per_ton: 'airflow',
+  external_static_pressure: 'airflow',
+  co_flue_air_free: 'combustion',
+  co_ambient: 'combustion',
 };
 
 export const CAUTION_FOR_GROUP: Partial<Record<ReadingGroup, string>> = {
   refrigerant: 'refrigerant_certification',
   electrical: 'electrical_power_and_capacitors',
   heating: 'fuel_burning_equipment',
+  combustion: 'fuel_burning_equipment',
 };
 
 // A rule that needs two fields reports the one missing; the other is what to set aside.

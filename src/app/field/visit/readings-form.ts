@@ -2,10 +2,21 @@ import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, injec
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { evaluateReadings, ReadingInputError, REFRIGERANTS, type Caution, type VisitReadings } from '../../../../shared/hvac';
+import {
+  capacityState,
+  cautions as ALL_CAUTIONS,
+  evaluateReadings,
+  FULL_CAPACITY_TEST_PROMPT,
+  ReadingInputError,
+  REFRIGERANTS,
+  type Caution,
+  type ReadingCheck,
+  type VisitReadings,
+} from '../../../../shared/hvac';
 import { CHECK_LABELS, type FieldEquipment, type SavedReadings } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
@@ -15,7 +26,9 @@ import { CautionNote } from './caution-note';
 import {
   CAUTION_FOR_GROUP,
   CHECK_GROUP,
+  FIELD_HELP,
   GROUP_TITLES,
+  PART_CAPACITY_GROUPS,
   GROUPS_BY_MODE,
   READING_FIELDS,
   evaluateTyped,
@@ -32,6 +45,8 @@ interface Draft {
   mode: Mode;
   refrigerant: string;
   meteringDevice: string;
+  airflowBasis?: string;
+  fullCapacityTest?: boolean;
   values: Record<string, string>;
 }
 type SaveState = { kind: 'idle' } | { kind: 'saving' } | { kind: 'saved'; at: string } | { kind: 'kept'; message: string } | { kind: 'error'; message: string };
@@ -42,7 +57,7 @@ const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'geothermal_heat_pump',
 /** Readings for one system, checked by the engine as each field is typed, saved with the visit. */
 @Component({
   selector: 'sw-readings-form',
-  imports: [ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, ReadingStatusMark, CautionNote],
+  imports: [ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, ReadingStatusMark, CautionNote],
   templateUrl: './readings-form.html',
   styleUrl: './readings-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -57,9 +72,13 @@ export class ReadingsForm {
   readonly cautions = input<Caution[]>([]);
   readonly season = input<Mode>('cooling');
   readonly locked = input(false);
+  /** The property's elevation: the server uses it too, so live and saved verdicts match. */
+  readonly altitudeFt = input<number | null>(null);
   readonly savedReadings = output<SavedReadings>();
 
   protected readonly refrigerants = REFRIGERANTS;
+  protected readonly help = FIELD_HELP;
+  protected readonly fullCapacityPrompt = FULL_CAPACITY_TEST_PROMPT.charAt(0).toUpperCase() + FULL_CAPACITY_TEST_PROMPT.slice(1) + '.';
   protected readonly groupTitles = GROUP_TITLES;
   protected readonly checkLabels = CHECK_LABELS;
   protected readonly controls: Record<string, FormControl<string>> = Object.fromEntries(
@@ -70,6 +89,8 @@ export class ReadingsForm {
     mode: new FormControl<Mode>('cooling', { nonNullable: true }),
     refrigerant: new FormControl('', { nonNullable: true }),
     meteringDevice: new FormControl('', { nonNullable: true }),
+    airflowBasis: new FormControl('', { nonNullable: true }),
+    fullCapacityTest: new FormControl(false, { nonNullable: true }),
     values: new FormGroup(this.controls),
   });
 
@@ -77,8 +98,15 @@ export class ReadingsForm {
   protected readonly systems = computed(() => this.equipment().filter((e) => OUTDOOR.has(e.kind) || e.kind === 'gas_furnace' || e.kind === 'air_handler'));
   private readonly value = signal(this.form.getRawValue());
   protected readonly mode = computed(() => this.value().mode);
-  protected readonly groups = computed(() => GROUPS_BY_MODE[this.mode()]);
-  protected readonly fieldsByGroup = (g: ReadingGroup): ReadingField[] => READING_FIELDS.filter((f) => f.group === g);
+  /** The chosen system's record: its compressor type decides the capacity fields. */
+  protected readonly system = computed(() => this.equipment().find((e) => e.id === this.value().equipmentId) ?? null);
+  protected readonly compressorType = computed(() => this.system()?.compressorType ?? null);
+  protected readonly partCapacity = computed(() => this.compressorType() === 'variable_speed' || this.compressorType() === 'two_stage');
+  protected readonly groups = computed(() => GROUPS_BY_MODE[this.mode()].filter((g) => this.partCapacity() || !PART_CAPACITY_GROUPS.has(g)));
+  protected readonly fieldsByGroup = (g: ReadingGroup): ReadingField[] =>
+    READING_FIELDS.filter((f) => f.group === g && (!f.only || f.only === this.compressorType()));
+  protected readonly helpByGroup = (g: ReadingGroup): { label: string; text: string }[] =>
+    this.fieldsByGroup(g).flatMap((f) => (this.help[f.path] ? [{ label: f.label, text: this.help[f.path]! }] : []));
   protected readonly state = signal<SaveState>({ kind: 'idle' });
   protected readonly restored = signal(false);
   private readonly serverErrors = signal<Record<string, string>>({});
@@ -90,7 +118,14 @@ export class ReadingsForm {
     const errors: Record<string, string> = {};
     if (v.refrigerant) readings['refrigerant'] = v.refrigerant;
     if (v.meteringDevice) readings['meteringDevice'] = v.meteringDevice;
+    if (v.airflowBasis) readings['airflowBasis'] = v.airflowBasis;
+    const altitude = this.altitudeFt();
+    if (altitude !== null) readings['altitudeFt'] = altitude;
+    const type = this.compressorType();
+    if (type) readings['compressorType'] = type;
+    if (type === 'variable_speed' || type === 'two_stage') readings['fullCapacityTest'] = v.fullCapacityTest;
     for (const f of READING_FIELDS) {
+      if (f.only && f.only !== type) continue;
       const n = toNumber(v.values[f.path] ?? '');
       if (n === 'bad') errors[f.path] = 'Enter a number';
       else if (n !== null) setPath(readings, f.path, n);
@@ -112,6 +147,23 @@ export class ReadingsForm {
     const out: Partial<Record<ReadingGroup, ReturnType<typeof this.evaluation>['checks']>> = {};
     for (const c of this.evaluation().checks) (out[CHECK_GROUP[c.check] ?? 'air'] ??= []).push(c);
     return out;
+  });
+  /** The capacity the readings are taken at, with the percent worked out from the frequency. */
+  protected readonly capacity = computed(() => {
+    if (!this.partCapacity()) return null;
+    const r = this.typed().readings;
+    try {
+      const state = capacityState(r);
+      const pct = state.pct === null ? null : Math.round(state.pct);
+      let text: string;
+      if (state.forcedFull) text = 'Forced to full capacity (test mode): 100 %.';
+      else if (pct === null) text = 'Enter the frequency or the percent of capacity.';
+      else if (state.pctFromFrequency) text = `Running at ${pct} % of full capacity (${r.compressorHz} of ${r.maxCompressorHz} Hz).`;
+      else text = `Running at ${pct} % of full capacity.`;
+      return { text, prompt: !state.judgeCharge };
+    } catch {
+      return { text: 'Check the frequency against the model maximum.', prompt: this.compressorType() === 'variable_speed' && !r.fullCapacityTest };
+    }
   });
   protected readonly alertCount = computed(() => this.evaluation().checks.filter((c) => c.status === 'alert').length);
   protected readonly hasErrors = computed(() => Object.keys(this.evaluation().errors).length > 0);
@@ -158,9 +210,13 @@ export class ReadingsForm {
     let mode: Mode = this.season();
     let refrigerant = system?.refrigerant ?? '';
     let meteringDevice = system?.meteringDevice ?? '';
+    let airflowBasis = '';
+    let fullCapacityTest = false;
     if (draft) {
       Object.assign(values, draft.values);
       ({ mode, refrigerant, meteringDevice } = draft);
+      airflowBasis = draft.airflowBasis ?? '';
+      fullCapacityTest = draft.fullCapacityTest ?? false;
     } else if (saved) {
       const r = saved.readings;
       for (const f of READING_FIELDS) {
@@ -170,13 +226,18 @@ export class ReadingsForm {
       mode = r.mode ?? mode;
       refrigerant = r.refrigerant ?? refrigerant;
       meteringDevice = r.meteringDevice ?? meteringDevice;
+      airflowBasis = r.airflowBasis ?? '';
+      fullCapacityTest = r.fullCapacityTest ?? false;
     } else if (system) {
       // Nameplate figures from the equipment record save typing.
       if (system.nominalTons && OUTDOOR.has(system.kind)) values['nominalTons'] = String(system.nominalTons);
       if (system.ratedAmps && OUTDOOR.has(system.kind)) values['compressorRatedLoadAmps'] = String(system.ratedAmps);
       if (system.kind === 'gas_furnace') mode = 'heating';
     }
-    this.form.setValue({ equipmentId, mode, refrigerant, meteringDevice, values }, { emitEvent: false });
+    // The model's limits from the record, unless typed or saved otherwise.
+    if (system?.compressorType === 'variable_speed' && system.maxCompressorHz && !values['maxCompressorHz']) values['maxCompressorHz'] = String(system.maxCompressorHz);
+    if (system?.maxExternalStaticInWc && !values['maxExternalStaticInWc']) values['maxExternalStaticInWc'] = String(system.maxExternalStaticInWc);
+    this.form.setValue({ equipmentId, mode, refrigerant, meteringDevice, airflowBasis, fullCapacityTest, values }, { emitEvent: false });
     this.value.set(this.form.getRawValue());
     this.restored.set(!!draft);
     this.state.set(draft ? { kind: 'kept', message: 'Readings restored from this phone; not saved to the office yet.' } : saved ? { kind: 'saved', at: saved.recordedAt } : { kind: 'idle' });
@@ -185,7 +246,7 @@ export class ReadingsForm {
   private keepDraft(): void {
     const v = this.form.getRawValue();
     if (!v.equipmentId) return;
-    const draft: Draft = { mode: v.mode, refrigerant: v.refrigerant, meteringDevice: v.meteringDevice, values: v.values };
+    const draft: Draft = { mode: v.mode, refrigerant: v.refrigerant, meteringDevice: v.meteringDevice, airflowBasis: v.airflowBasis, fullCapacityTest: v.fullCapacityTest, values: v.values };
     this.drafts.write(this.visitId(), this.draftPart(v.equipmentId), draft);
   }
 
@@ -220,6 +281,12 @@ export class ReadingsForm {
   protected cautionFor(group: ReadingGroup): Caution | undefined {
     const id = CAUTION_FOR_GROUP[group];
     return id ? this.cautions().find((c) => c.id === id) : undefined;
+  }
+
+  /** The caution a reading calls for (a hazardous CO level), whether or not the visit lists it. */
+  protected checkCaution(c: ReadingCheck): Caution | undefined {
+    if (!c.caution) return undefined;
+    return this.cautions().find((x) => x.id === c.caution) ?? ALL_CAUTIONS.find((x) => x.id === c.caution);
   }
 
   protected band(c: { expected: { min?: number; max?: number; target?: number }; unit: string }): string {
