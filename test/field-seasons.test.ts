@@ -21,6 +21,8 @@ let heatPumpId: string;
 let todayVisitId: string;
 let boundaryVisitId: string;
 let boundaryMonth: number;
+let furnaceVisitId: string;
+let furnaceId: string;
 
 const put = (s: Signed, url: string, body: unknown) => s.agent.put(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
 
@@ -62,6 +64,14 @@ beforeAll(async () => {
   const [b] = await db.insert(t.visits).values({ ...base, ...at(day) }).returning({ id: t.visits.id });
   boundaryVisitId = b!.id;
 
+  // The commonest system: a furnace with a cased coil under an outdoor condensing unit.
+  const [p2] = await db.insert(t.properties).values({ customerId: customer!.id, street: '5 Test Season Row', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).returning({ id: t.properties.id });
+  await db.insert(t.equipment).values({ propertyId: p2!.id, kind: 'condensing_unit', refrigerant: 'R-410A' });
+  const [furnace] = await db.insert(t.equipment).values({ propertyId: p2!.id, kind: 'gas_furnace' }).returning({ id: t.equipment.id });
+  furnaceId = furnace!.id;
+  const [fv] = await db.insert(t.visits).values({ ...base, propertyId: p2!.id, ...at(today.plus({ days: 1 })) }).returning({ id: t.visits.id });
+  furnaceVisitId = fv!.id;
+
   tech = await signInStaff(ctx, email);
   owner = await signInStaff(ctx, OWNER);
 });
@@ -92,6 +102,18 @@ describe("the owner's season months", () => {
     } finally {
       await put(owner, '/api/settings/company', settings).expect(200);
     }
+  });
+});
+
+describe('the checklist of a furnace with a cased coil', () => {
+  it('shows the coil, drain and overflow items and saves them', async () => {
+    const page = (await tech.agent.get(`/api/field/visits/${furnaceVisitId}?season=cooling`).expect(200)).body;
+    const section = page.checklist.find((s: { equipmentId: string }) => s.equipmentId === furnaceId);
+    const ids = section.items.map((i: { id: string }) => i.id);
+    expect(ids).toEqual(expect.arrayContaining(['gf.power_gas_off', 'gf.coil', 'gf.coil_drain', 'gf.coil_overflow']));
+    const saved = await put(tech, `/api/field/visits/${furnaceVisitId}/checklist`, { season: 'cooling', items: [{ equipmentId: furnaceId, itemId: 'gf.coil_overflow', result: 'done' }] }).expect(200);
+    const item = saved.body.checklist.find((s: { equipmentId: string }) => s.equipmentId === furnaceId).items.find((i: { id: string }) => i.id === 'gf.coil_overflow');
+    expect(item.result).toBe('done');
   });
 });
 
