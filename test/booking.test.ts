@@ -201,8 +201,13 @@ describe('booking a visit', () => {
       .send({ propertyId: h.propertyId, reason: 'noise', windowStart: friday!.start, noEmergency: true, notes: 'Rattle at start-up' })
       .expect(201);
     expect(booked.body.visit.status).toBe('requested');
-    await waitForMail(h.email, 'Your visit request is booked');
-    const first = await invitationFor(h.email, 'Your visit request is booked');
+    await waitForMail(h.email, 'We have your visit request');
+    const first = await invitationFor(h.email, 'We have your visit request');
+    // A request is not confirmed yet: TENTATIVE (RFC 5545 §3.8.1.11), and no technician is named.
+    expect(first.event.component.getFirstPropertyValue('status')).toBe('TENTATIVE');
+    expect(first.text).not.toMatch(/technician:/i);
+    expect(first.mail.text).not.toMatch(/Your technician:/);
+    expect(first.mail.text).toMatch(/Requested: the office has not yet confirmed this window or assigned a technician/);
     expect(first.att.contentType).toMatch(/^text\/calendar/);
     expect(first.cal.getFirstPropertyValue('method')).toBe('REQUEST'); // RFC 5546 §3.2.2
     expect(first.text).toMatch(/BEGIN:VTIMEZONE[\s\S]*TZID:America\/Chicago/); // RFC 5545 §3.6.5
@@ -212,7 +217,8 @@ describe('booking a visit', () => {
     expect(first.event.endDate.toJSDate().toISOString()).toBe('2031-03-07T17:30:00.000Z');
     expect(first.event.sequence).toBe(0);
     expect(first.mail.text).toMatch(/Fri 7 Mar, 9:30–11:30 am/);
-    expect(first.mail.text).toMatch(/Reschedule or cancel online .* up to 24 hours before/);
+    // 24 h before 9:30 am CST on Fri 7 Mar is 9:30 am on Thu 6 Mar.
+    expect(first.mail.text).toMatch(/You can change this visit online until Thu 6 Mar, 9:30 AM\./);
     const uid = first.event.uid;
 
     const after = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'noise', from: '2031-03-10', days: 1, visitId: booked.body.visit.id }).expect(200);
@@ -257,11 +263,35 @@ describe('booking a visit', () => {
     const w = offer.body.windows[0];
     const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true }).expect(201);
     expect(booked.body.visit.canChange).toBe(true);
+    expect(booked.body.visit.changeNotice).toMatch(/^You can change this visit online until Tue 8 Apr, /);
     now = new Date(Date.parse(w.start) - 23 * 3_600_000); // 23 h before: inside the 24 h default cut-off
     const late = await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
     expect(late.body.error.code).toBe('past_cutoff');
+    expect(late.body.error.message).toMatch(/by phone: \+1/);
+    const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
+    expect(page.body.visit.canChange).toBe(false);
+    expect(page.body.visit.changeNotice).toBe(`Changes to this visit are by phone: ${page.body.visit.officePhone}.`);
     await at(now.toISOString());
     await office.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, office.csrf).send({ reason: 'Caller phoned in' }).expect(200);
+  });
+
+  it('a visit booked inside the cut-off says at booking that changes are by phone, the same as its page', async () => {
+    const h = await household({ homeowner: true });
+    now = new Date('2031-04-21T13:00:00Z'); // Mon 8 am CDT
+    const me = await signInHomeowner(ctx, h.email);
+    const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'thermostat', from: '2031-04-21', days: 1 }).expect(200);
+    const w = (offer.body.windows as { start: string }[]).find((x) => Date.parse(x.start) - now.getTime() < 24 * 3_600_000)!;
+    expect(w).toBeDefined();
+    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'thermostat', windowStart: w.start, noEmergency: true }).expect(201);
+    expect(booked.body.visit.canChange).toBe(false);
+    expect(booked.body.visit.changeNotice).toMatch(/^Changes to this visit are by phone: \+1\d{10}\.$/);
+    await waitForMail(h.email, 'We have your visit request');
+    const mail = catcher.store.list({ to: h.email }).find((m) => m.subject === 'We have your visit request')!;
+    expect(mail.text).toContain(booked.body.visit.changeNotice);
+    expect(mail.text).not.toMatch(/change this visit online/);
+    const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
+    expect(page.body.visit.changeNotice).toBe(booked.body.visit.changeNotice);
+    await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
   });
 
   it('sends the day-before reminder once', async () => {

@@ -99,10 +99,12 @@ describe('dispatch board', () => {
     expect(events.body.events[1].technicianName).toBe('Priya Dunmore');
     expect(Date.parse(events.body.events[1].at)).not.toBeNaN();
 
-    const mail = await waitForMail(h.email, 'Your technician is confirmed');
+    const mail = await waitForMail(h.email, 'Your visit is scheduled');
     expect(mail.text).toMatch(/Priya Dunmore/);
+    expect(mail.text).toMatch(/Scheduled: the office confirmed this window and assigned your technician/);
     const ics = mail.attachments.find((a) => a.contentType.startsWith('text/calendar'))!.content.toString('utf8');
     const parsed = parseCalendar(ics).events[0]!;
+    expect(parsed.component.getFirstPropertyValue('status')).toBe('CONFIRMED'); // RFC 5545 §3.8.1.11
     expect(parsed.sequence).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
   });
 

@@ -61,7 +61,7 @@ export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' 
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
   await sendVisitMail(deps, 'reschedule', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }
 
 export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
@@ -80,5 +80,5 @@ export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
   await sendVisitMail(deps, 'cancellation', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }

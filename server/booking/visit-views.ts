@@ -2,6 +2,7 @@ import { eq, sql, type SQL } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { VisitView } from '../../shared/schemas/booking';
 import { windowLabel } from '../../shared/scheduling/clock';
+import { canChangeOnline, changeCutoff, changeSentence } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
 
@@ -90,9 +91,9 @@ export function labelFor(start: Date, end: Date, timeZone: string): string {
   return windowLabel(start.getTime(), end.getTime(), timeZone, showZone);
 }
 
-export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; now: Date }): VisitView {
-  const until = new Date(r.windowStart.getTime() - ctx.cancelCutoffHours * 3_600_000);
-  const open = r.status === 'requested' || r.status === 'scheduled';
+export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; phone: string; now: Date }): VisitView {
+  const until = changeCutoff(r, ctx);
+  const canChange = canChangeOnline(r, ctx, ctx.now);
   return {
     id: r.id,
     customerId: r.customerId,
@@ -117,6 +118,8 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     notes: r.notes,
     sequence: r.sequence,
     changeableUntil: DateTime.fromJSDate(until, { zone: ctx.timeZone }).toISO()!,
-    canChange: open && ctx.now < until,
+    canChange,
+    changeNotice: changeSentence(canChange, until, ctx.phone, ctx.timeZone),
+    officePhone: ctx.phone,
   };
 }

@@ -59,7 +59,7 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
     ),
   );
   const now = deps.clock();
-  const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now };
+  const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
   const views = rows.map((r) => toView(r, ctx));
   const queued = (v: VisitView) => v.status === 'requested' || (v.technicianId === null && v.status !== 'canceled' && v.status !== 'done');
   const areaRows = await db.selectDistinct({ area: properties.area }).from(properties).where(ne(properties.area, '')).orderBy(asc(properties.area));
@@ -181,7 +181,7 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   }
   const row = await loadVisitRow(db, id);
   if (body.technicianId && changedForHomeowner) await sendVisitMail(deps, moved ? 'reschedule' : 'assigned', row, c);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
 }
 
 const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
@@ -196,7 +196,7 @@ export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | '
     if (!mine || before.technicianId !== mine.id) throw notFound('That visit');
     if (!TECHNICIAN_MAY_SET.includes(body.status)) throw new AppError(403, 'forbidden', 'Only the office can make that change.');
   }
-  if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
   // The office's status form hears a refused choice as a form error; a change that loses a race
   // with another is refused again under the row lock, as a conflict.
   if (!canTransition(before.status, body.status)) {
@@ -228,7 +228,7 @@ export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | '
   const row = await loadVisitRow(db, id);
   if (body.status === 'on_the_way') await sendVisitMail(deps, 'on_the_way', row, c);
   if (body.status === 'canceled') await sendVisitMail(deps, 'cancellation', row, c);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
 }
 
 export async function visitHistory(deps: Pick<AppDeps, 'database'>, id: string): Promise<VisitEventView[]> {
@@ -271,7 +271,7 @@ export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body
   );
   return {
     timeOff: { id: row!.id, startsAt: row!.startsAt.toISOString(), endsAt: row!.endsAt.toISOString(), reason: row!.reason },
-    conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() })),
+    conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now: deps.clock() })),
   };
 }
 
