@@ -108,6 +108,17 @@ describe('dispatch board', () => {
     expect(parsed.sequence).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
   });
 
+  it('lists every request waiting to be confirmed, whatever day the board shows', async () => {
+    const office = await at('2031-08-04T13:00:00Z'); // Mon 4 Aug 2031
+    const h = await household();
+    const later = await Promise.all(['2031-08-05', '2031-08-06', '2031-08-07', '2031-08-08'].map((d) => book(office, h.propertyId, 'tune_up', d)));
+    const day = await office.agent.get('/api/dispatch/board').query({ from: '2031-08-04', days: 1, area: h.area }).expect(200);
+    expect(day.body.visits).toHaveLength(0);
+    expect(day.body.unassigned.map((v: { id: string }) => v.id)).toEqual(later.map((v) => v.id)); // soonest first
+    const week = await office.agent.get('/api/dispatch/board').query({ from: '2031-08-04', days: 7, area: h.area }).expect(200);
+    expect(week.body.unassigned).toHaveLength(4);
+  });
+
   it('respects skills, time off and existing visits when assigning', async () => {
     const office = await at('2031-07-14T13:00:00Z');
     const geoHome = await household({ geo: true });

@@ -62,6 +62,16 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
   const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
   const views = rows.map((r) => toView(r, ctx));
   const queued = (v: VisitView) => v.status === 'requested' || (v.technicianId === null && v.status !== 'canceled' && v.status !== 'done');
+  // The queue of work to confirm spans every date, not just the days on screen: a request for next
+  // month waits for the office as much as one for today.
+  const queueRows = await visitRows(
+    db,
+    and(
+      or(eq(visits.status, 'requested'), and(isNull(visits.technicianId), inArray(visits.status, ['scheduled', 'on_the_way', 'on_site', 'no_show']))),
+      q.kind ? eq(visits.kind, q.kind) : undefined,
+      q.area ? eq(properties.area, q.area) : undefined,
+    ),
+  );
   const areaRows = await db.selectDistinct({ area: properties.area }).from(properties).where(ne(properties.area, '')).orderBy(asc(properties.area));
   return {
     from: start.toISODate()!,
@@ -74,7 +84,7 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
         .map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
     })),
     // The queue ignores the technician filter: unassigned work belongs to no one yet.
-    unassigned: views.filter(queued),
+    unassigned: queueRows.map((r) => toView(r, ctx)),
     visits: views.filter((v) => !queued(v) && (!q.technicianId || v.technicianId === q.technicianId)),
     areas: areaRows.map((a) => a.area),
   };
