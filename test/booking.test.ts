@@ -9,6 +9,7 @@ import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
 import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
+import sharp from 'sharp';
 
 const TZ = 'America/Chicago';
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';
@@ -292,6 +293,34 @@ describe('booking a visit', () => {
     const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
     expect(page.body.visit.changeNotice).toBe(booked.body.visit.changeNotice);
     await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
+  });
+
+  it("links the homeowner's booking photo to the visit for the technician, and refuses another household's file", async () => {
+    const h = await household({ homeowner: true });
+    const other = await household({ homeowner: true });
+    now = new Date('2031-04-28T13:00:00Z');
+    const me = await signInHomeowner(ctx, h.email);
+    const them = await signInHomeowner(ctx, other.email);
+    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#806040' } }).jpeg().toBuffer();
+    const uploadAs = async (s: Signed, propertyId: string) =>
+      (await s.agent.post('/api/files').set(XSRF, s.csrf).field('propertyId', propertyId).field('category', 'problem').attach('files', jpeg, { filename: 'leak.jpg', contentType: 'image/jpeg' }).expect(201)).body;
+    const mine = await uploadAs(me, h.propertyId);
+    const theirs = await uploadAs(them, other.propertyId);
+    const mineId = (mine.files ?? mine)[0].id as string;
+    const theirsId = (theirs.files ?? theirs)[0].id as string;
+    const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'water_leak', from: '2031-04-30', days: 1 }).expect(200);
+    const w = offer.body.windows[0];
+    const refused = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId, theirsId] }).expect(422);
+    expect(refused.body.error.fields.photoIds).toMatch(/not found/);
+    const [still] = await ctx.database.db.select({ visitId: t.files.visitId }).from(t.files).where(eq(t.files.id, theirsId));
+    expect(still!.visitId).toBeNull();
+    const none = await ctx.database.db.select({ id: t.visits.id }).from(t.visits).where(eq(t.visits.propertyId, h.propertyId));
+    expect(none).toHaveLength(0); // the refused booking left nothing behind
+
+    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId] }).expect(201);
+    const owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
+    const field = await owner.agent.get(`/api/field/visits/${booked.body.visit.id}`).expect(200);
+    expect(field.body.photos.map((p: { id: string }) => p.id)).toEqual([mineId]);
   });
 
   it('sends the day-before reminder once', async () => {

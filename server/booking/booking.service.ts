@@ -7,6 +7,7 @@ import type { SessionUser } from '../../shared/schemas/session';
 import { canChangeOnline, changeCutoff, changeSentence, type VisitReason } from '../../shared/visits';
 import type { AppDeps } from '../deps';
 import { recordBooked } from '../visits/visit-status';
+import { linkFilesToVisit } from '../uploads/uploads.service';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
@@ -269,6 +270,7 @@ export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clo
           priority: property.member || call.urgent,
         })
         .returning({ id: visits.id });
+      await linkFilesToVisit(tx, { customerId: property.customerId, visitId: row!.id }, body.photoIds);
       await recordBooked(tx, {
         visitId: row!.id,
         actor: user.id,
