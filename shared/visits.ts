@@ -118,3 +118,30 @@ export const VISIT_STATE_WORDS: Record<VisitStatus, VisitStateWords> = {
   canceled: { heading: 'Visit canceled', meaning: 'Canceled: this visit will not take place.', calendarStatus: 'CANCELLED', namesTechnician: false },
   no_show: { heading: 'Visit missed', meaning: 'Missed: the technician could not reach anyone at the window. Please call the office to book again.', calendarStatus: 'CANCELLED', namesTechnician: false },
 };
+
+// ---- A visit's times: the arrival window promised to the homeowner, and the work booked within it ----
+
+function clock(at: Date, timeZone: string): { time: string; meridiem: string } {
+  // ICU writes a narrow no-break space before AM/PM; split on any space.
+  const [time, meridiem] = new Intl.DateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hour12: true }).format(at).split(/\s/);
+  return { time: time!, meridiem: meridiem ?? '' };
+}
+
+/** "1 h 30 min": how long the work is booked for. */
+export function workLength(startsAt: Date | string, endsAt: Date | string): string {
+  const minutes = Math.round((new Date(endsAt).getTime() - new Date(startsAt).getTime()) / 60_000);
+  const h = Math.floor(minutes / 60);
+  const m = minutes % 60;
+  return [h ? `${h} h` : '', m ? `${m} min` : ''].filter(Boolean).join(' ') || '0 min';
+}
+
+/**
+ * One definition for every view of a visit's time: the arrival window (when the technician may
+ * arrive, as promised to the homeowner) labelled "Arrival", and the booked work labelled with its length.
+ */
+export function visitTimeLabels(v: { windowStart: Date | string; windowEnd: Date | string; startsAt: Date | string; endsAt: Date | string }, timeZone: string): { arrival: string; work: string } {
+  const a = clock(new Date(v.windowStart), timeZone);
+  const b = clock(new Date(v.windowEnd), timeZone);
+  const range = a.meridiem === b.meridiem ? `${a.time}–${b.time} ${b.meridiem}` : `${a.time} ${a.meridiem}–${b.time} ${b.meridiem}`;
+  return { arrival: `Arrival ${range}`, work: `${workLength(v.startsAt, v.endsAt)} of work booked` };
+}
