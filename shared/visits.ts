@@ -145,3 +145,25 @@ export function visitTimeLabels(v: { windowStart: Date | string; windowEnd: Date
   const range = a.meridiem === b.meridiem ? `${a.time}–${b.time} ${b.meridiem}` : `${a.time} ${a.meridiem}–${b.time} ${b.meridiem}`;
   return { arrival: `Arrival ${range}`, work: `${workLength(v.startsAt, v.endsAt)} of work booked` };
 }
+
+// ---- Service history: what is coming up, what is past, and windows that passed unstarted ----
+
+/**
+ * The arrival window is over and the technician never started: a flag for the office to follow up.
+ * The status is left as it is; only a person decides whether it was a no-show or a late start.
+ */
+export function windowMissed(v: { status: string; windowEnd: Date | string }, now: Date): boolean {
+  return (v.status === 'requested' || v.status === 'scheduled') && new Date(v.windowEnd).getTime() <= now.getTime();
+}
+
+/**
+ * Coming up: visits not yet finished whose window has not passed, soonest first. Past: done,
+ * missed and no-show visits, newest first. Sorted by instant, never by the text of a date.
+ */
+export function groupServiceHistory<T extends { status: string; windowStart: Date | string; windowEnd: Date | string }>(visits: readonly T[], now: Date): { upcoming: T[]; past: T[] } {
+  const at = (v: T) => new Date(v.windowStart).getTime();
+  const open = ['requested', 'scheduled', 'on_the_way', 'on_site'];
+  const upcoming = visits.filter((v) => open.includes(v.status) && !windowMissed(v, now));
+  const past = visits.filter((v) => v.status !== 'canceled' && !upcoming.includes(v));
+  return { upcoming: [...upcoming].sort((a, b) => at(a) - at(b)), past: [...past].sort((a, b) => at(b) - at(a)) };
+}

@@ -323,6 +323,39 @@ describe('booking a visit', () => {
     expect(field.body.photos.map((p: { id: string }) => p.id)).toEqual([mineId]);
   });
 
+  it('groups service history by what is coming up and what is past, in date order, and flags a window that passed unstarted', async () => {
+    const h = await household({ homeowner: true });
+    const db: Db = ctx.database.db;
+    const visit = async (day: string, status: 'done' | 'scheduled' | 'requested', reason: 'tune_up' | 'noise') => {
+      const s = local(`${day}T09:00`);
+      const [v] = await db
+        .insert(t.visits)
+        .values({ customerId: h.customerId, propertyId: h.propertyId, kind: reason === 'tune_up' ? 'tune_up' : 'service_call', reason, status, windowStart: s.toJSDate(), windowEnd: s.plus({ hours: 2 }).toJSDate(), startsAt: s.toJSDate(), endsAt: s.plus({ minutes: 90 }).toJSDate() })
+        .returning({ id: t.visits.id });
+      return v!.id;
+    };
+    // Inserted out of order on purpose; "now" is Wed 3 Dec 2031, noon.
+    const dec2 = await visit('2031-12-02', 'done', 'noise');
+    const dec10 = await visit('2031-12-10', 'scheduled', 'tune_up');
+    const dec1 = await visit('2031-12-01', 'done', 'tune_up');
+    const missed = await visit('2031-12-03', 'scheduled', 'noise'); // 9–11 am today, never started
+    const dec5 = await visit('2031-12-05', 'requested', 'noise');
+    await at('2031-12-03T18:00:00Z');
+    const me = await signInHomeowner(ctx, h.email);
+    const home = (await me.agent.get('/api/my-home').expect(200)).body;
+    expect(home.upcoming.map((v: { id: string }) => v.id)).toEqual([dec5, dec10]);
+    expect(home.past.map((v: { id: string }) => v.id)).toEqual([missed, dec2, dec1]);
+
+    const page = (await office.agent.get(`/api/customers/${h.customerId}`).expect(200)).body;
+    const flagged = page.visits.filter((v: { windowMissed: boolean }) => v.windowMissed).map((v: { id: string }) => v.id);
+    expect(flagged).toEqual([missed]);
+    expect(page.visits.find((v: { id: string }) => v.id === missed).status).toBe('scheduled'); // flagged, not changed
+    expect(page.timeline.some((e: { title: string }) => e.title.includes('window passed, not started'))).toBe(true);
+    const board = (await office.agent.get('/api/dispatch/board').query({ from: '2031-12-03', days: 1 }).expect(200)).body;
+    const onBoard = [...board.visits, ...board.unassigned].find((v: { id: string }) => v.id === missed);
+    expect(onBoard.windowMissed).toBe(true);
+  });
+
   it('sends the day-before reminder once', async () => {
     const h = await household();
     await at('2031-04-14T13:00:00Z');

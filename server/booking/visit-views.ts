@@ -2,7 +2,7 @@ import { eq, sql, type SQL } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { VisitView } from '../../shared/schemas/booking';
 import { windowLabel } from '../../shared/scheduling/clock';
-import { canChangeOnline, changeCutoff, changeSentence } from '../../shared/visits';
+import { canChangeOnline, changeCutoff, changeSentence, windowMissed } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
 
@@ -121,5 +121,6 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     canChange,
     changeNotice: changeSentence(canChange, until, ctx.phone, ctx.timeZone),
     officePhone: ctx.phone,
+    windowMissed: windowMissed(r, ctx.now),
   };
 }

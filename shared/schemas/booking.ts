@@ -163,6 +163,8 @@ export interface VisitView {
   changeNotice: string;
   /** The office's number, for a tap-to-call link wherever online changes are closed. */
   officePhone: string;
+  /** The window passed and the visit was never started: flagged for the office; the status is unchanged. */
+  windowMissed: boolean;
 }
 
 export interface WindowFullBody {
