@@ -14,7 +14,7 @@ import { agreements, customers, equipment, plans, planVersions, properties, visi
 import { AppError, notFound } from '../http/errors';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
-import { toView, visitRows, type VisitRow } from './visit-views';
+import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
 
 const BOOKING_LOCK = 730_611;
 const MEMBER_STATUSES = ['active', 'renewal_due'] as const;
@@ -267,6 +267,8 @@ export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clo
           symptoms: body.symptoms,
           notes: body.notes,
           photoIds: body.photoIds,
+          // The confirmation tells the window and no technician (a request names none).
+          noticeSignature: noticeSignature({ status: 'requested', technicianId: null, windowStart: new Date(plan.visit.window.start), windowEnd: new Date(plan.visit.window.end) }),
           priority: property.member || call.urgent,
         })
         .returning({ id: visits.id });

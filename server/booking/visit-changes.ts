@@ -9,7 +9,8 @@ import { changeVisitStatus } from '../visits/visit-status';
 import { visits } from '../db/schema';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
-import { toView } from './visit-views';
+import { noticeSignature, toView } from './visit-views';
+import { recordNotice } from './assignment-notice';
 import { alternativesAfter, engineError, engineInput, isOverlap, loadVisitRow, lockDays, propertyContext, visitForChange, WindowFullError, type EngineCall } from './booking.service';
 
 // Changes to a booked visit: moving it to another window, and canceling it.
@@ -60,6 +61,7 @@ export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' 
   }
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
+  await recordNotice(db, id, noticeSignature(row));
   await sendVisitMail(deps, 'reschedule', row, company);
   return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }

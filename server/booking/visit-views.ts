@@ -2,7 +2,7 @@ import { eq, sql, type SQL } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { VisitView } from '../../shared/schemas/booking';
 import { windowLabel } from '../../shared/scheduling/clock';
-import { canChangeOnline, changeCutoff, changeSentence, windowMissed } from '../../shared/visits';
+import { canChangeOnline, changeCutoff, changeSentence, VISIT_STATE_WORDS, windowMissed } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
 
@@ -78,6 +78,12 @@ export async function visitRows(db: Db | Tx, where: SQL | undefined, order: 'asc
     .leftJoin(users, eq(users.id, technicians.userId))
     .where(where)
     .orderBy(order === 'asc' ? visits.windowStart : sql`${visits.windowStart} desc`);
+}
+
+/** What the homeowner sees of an assignment: the technician (once one is named) and the window. */
+export function noticeSignature(v: Pick<VisitRow, 'status' | 'technicianId' | 'windowStart' | 'windowEnd'>): string {
+  const tech = VISIT_STATE_WORDS[v.status].namesTechnician ? (v.technicianId ?? '') : '';
+  return `${tech}|${v.windowStart.toISOString()}|${v.windowEnd.toISOString()}`;
 }
 
 export function addressOf(r: Pick<VisitRow, 'street' | 'unit' | 'city' | 'state' | 'zip'>): string {

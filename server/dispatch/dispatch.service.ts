@@ -14,6 +14,7 @@ import type { SessionUser } from '../../shared/schemas/session';
 import { canTransition, VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
 import type { AppDeps } from '../deps';
 import { sendVisitMail } from '../booking/booking.mail';
+import { scheduleAssignmentNotice } from '../booking/assignment-notice';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { toView, visitRows } from '../booking/visit-views';
@@ -154,13 +155,16 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const startsAt = body.startsAt ? new Date(body.startsAt) : before.startsAt;
   const endsAt = new Date(startsAt.getTime() + length);
   const moved = startsAt.getTime() !== before.startsAt.getTime();
-  // Moving the work moves the arrival window with it, keeping its length.
-  const windowStart = moved ? startsAt : before.windowStart;
-  const windowEnd = moved ? new Date(startsAt.getTime() + (before.windowEnd.getTime() - before.windowStart.getTime())) : before.windowEnd;
+  // A start still inside the arrival window is an internal reshuffle: the homeowner's window stays.
+  // A start outside it moves the window with the work, keeping the window's length.
+  const insideWindow = startsAt.getTime() >= before.windowStart.getTime() && startsAt.getTime() < before.windowEnd.getTime();
+  const windowMoved = moved && !insideWindow;
+  const windowStart = windowMoved ? startsAt : before.windowStart;
+  const windowEnd = windowMoved ? new Date(startsAt.getTime() + (before.windowEnd.getTime() - before.windowStart.getTime())) : before.windowEnd;
   let techName: string | null = null;
   if (body.technicianId) techName = await checkTechnicianFits(deps, body.technicianId, { propertyId: before.propertyId, reason: before.reason, startsAt, endsAt }, c.timeZone);
   const status: VisitStatus = body.technicianId ? (before.status === 'requested' || before.status === 'no_show' ? 'scheduled' : before.status) : 'requested';
-  const changedForHomeowner = moved || body.technicianId !== before.technicianId || status !== before.status;
+  const changedForHomeowner = windowMoved || body.technicianId !== before.technicianId || status !== before.status;
   try {
     await db.transaction(async (tx) => {
       await changeVisitStatus(tx, {
@@ -176,7 +180,7 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
           windowStart,
           windowEnd,
           ...(changedForHomeowner ? { sequence: sql`${visits.sequence} + 1` } : {}),
-          ...(moved ? { reminderSentAt: null } : {}),
+          ...(windowMoved ? { reminderSentAt: null } : {}),
           updatedAt: now,
         },
       });
@@ -190,7 +194,8 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
     throw err;
   }
   const row = await loadVisitRow(db, id);
-  if (body.technicianId && changedForHomeowner) await sendVisitMail(deps, moved ? 'reschedule' : 'assigned', row, c);
+  // Told once the assignment settles, and only about what the homeowner sees (assignment-notice.ts).
+  if (body.technicianId && changedForHomeowner) await scheduleAssignmentNotice(deps, id);
   return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
 }
 
