@@ -65,11 +65,14 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
 
   const confirmed = Date.now();
   await page.getByRole('button', { name: 'Confirm visit' }).click();
-  await expect(page.getByRole('heading', { name: 'Visit booked' })).toBeVisible();
-  await expect(page.getByText(/Reschedule or cancel online up to 24 hours/)).toBeVisible();
+  await expect(page.getByRole('heading', { name: 'Visit requested' })).toBeVisible();
+  await expect(page.getByText(/the office has not yet confirmed this window or assigned a technician/)).toBeVisible();
+  // The real cut-off for this visit, and the office's number as a tap-to-call link.
+  await expect(page.getByText(/You can change this visit online until \w{3} \d{1,2} \w{3}, \d{1,2}:\d{2} [AP]M\.|Changes to this visit are by phone:/)).toBeVisible();
+  await expect(page.locator('.change-notice a[href^="tel:"]')).toBeVisible();
 
   const booking = await latestMail(HOMEOWNER, { after: confirmed - 1000 });
-  expect(booking.subject).toBe('Your visit request is booked');
+  expect(booking.subject).toBe('We have your visit request');
   const first = await calendarPart(booking);
   expect(first.cal.getFirstPropertyValue('method')).toBe('REQUEST'); // RFC 5546 §3.2.2
   expect(first.event.startDate.zone.tzid).toBe('America/Chicago');
@@ -92,7 +95,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   await expect(office.getByRole('region', { name: held }).getByRole('article', { name: 'No cooling for Oduya household' })).toBeVisible();
 
   const update = await latestMail(HOMEOWNER, { after: assigned - 1000 });
-  expect(update.subject).toBe('Your technician is confirmed');
+  expect(update.subject).toBe('Your visit is scheduled');
   expect(update.text).toContain(held);
   const second = await calendarPart(update);
   expect(second.event.uid).toBe(first.event.uid); // RFC 5545: same UID updates the same event

@@ -32,6 +32,8 @@ const env = {
   MAILBOX_URL: `http://127.0.0.1:${MAILBOX_PORT}`,
   STRIPE_API_URL: `http://127.0.0.1:${STRIPE_PORT}`,
   STORAGE_DIR: join(ROOT, '.data', `e2e-uploads-${process.pid}`),
+  // Journeys read the assignment e-mail within seconds.
+  VISIT_NOTICE_DELAY_SECONDS: '1',
 };
 const children = [];
 async function stop(code) {

@@ -39,6 +39,9 @@ const schema = z.object({
   STORAGE_S3_SECRET_ACCESS_KEY: z.string().optional(),
   CLIENT_DIST: z.string().default('dist/seasonwell/browser'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  // How long the office may keep moving a visit before the homeowner hears of it (common practice:
+  // a few minutes covers a dispatcher trying two or three technicians).
+  VISIT_NOTICE_DELAY_SECONDS: z.coerce.number().int().min(0).max(3600).default(180),
   RUN_JOBS: z
     .enum(['true', 'false'])
     .default('true')

@@ -9,6 +9,7 @@ import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
 import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
 import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
+import sharp from 'sharp';
 
 const TZ = 'America/Chicago';
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';
@@ -201,8 +202,13 @@ describe('booking a visit', () => {
       .send({ propertyId: h.propertyId, reason: 'noise', windowStart: friday!.start, noEmergency: true, notes: 'Rattle at start-up' })
       .expect(201);
     expect(booked.body.visit.status).toBe('requested');
-    await waitForMail(h.email, 'Your visit request is booked');
-    const first = await invitationFor(h.email, 'Your visit request is booked');
+    await waitForMail(h.email, 'We have your visit request');
+    const first = await invitationFor(h.email, 'We have your visit request');
+    // A request is not confirmed yet: TENTATIVE (RFC 5545 §3.8.1.11), and no technician is named.
+    expect(first.event.component.getFirstPropertyValue('status')).toBe('TENTATIVE');
+    expect(first.text).not.toMatch(/technician:/i);
+    expect(first.mail.text).not.toMatch(/Your technician:/);
+    expect(first.mail.text).toMatch(/Requested: the office has not yet confirmed this window or assigned a technician/);
     expect(first.att.contentType).toMatch(/^text\/calendar/);
     expect(first.cal.getFirstPropertyValue('method')).toBe('REQUEST'); // RFC 5546 §3.2.2
     expect(first.text).toMatch(/BEGIN:VTIMEZONE[\s\S]*TZID:America\/Chicago/); // RFC 5545 §3.6.5
@@ -212,7 +218,8 @@ describe('booking a visit', () => {
     expect(first.event.endDate.toJSDate().toISOString()).toBe('2031-03-07T17:30:00.000Z');
     expect(first.event.sequence).toBe(0);
     expect(first.mail.text).toMatch(/Fri 7 Mar, 9:30–11:30 am/);
-    expect(first.mail.text).toMatch(/Reschedule or cancel online .* up to 24 hours before/);
+    // 24 h before 9:30 am CST on Fri 7 Mar is 9:30 am on Thu 6 Mar.
+    expect(first.mail.text).toMatch(/You can change this visit online until Thu 6 Mar, 9:30 AM\./);
     const uid = first.event.uid;
 
     const after = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'noise', from: '2031-03-10', days: 1, visitId: booked.body.visit.id }).expect(200);
@@ -257,11 +264,96 @@ describe('booking a visit', () => {
     const w = offer.body.windows[0];
     const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true }).expect(201);
     expect(booked.body.visit.canChange).toBe(true);
+    expect(booked.body.visit.changeNotice).toMatch(/^You can change this visit online until Tue 8 Apr, /);
     now = new Date(Date.parse(w.start) - 23 * 3_600_000); // 23 h before: inside the 24 h default cut-off
     const late = await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
     expect(late.body.error.code).toBe('past_cutoff');
+    expect(late.body.error.message).toMatch(/by phone: \+1/);
+    const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
+    expect(page.body.visit.canChange).toBe(false);
+    expect(page.body.visit.changeNotice).toBe(`Changes to this visit are by phone: ${page.body.visit.officePhone}.`);
     await at(now.toISOString());
     await office.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, office.csrf).send({ reason: 'Caller phoned in' }).expect(200);
+  });
+
+  it('a visit booked inside the cut-off says at booking that changes are by phone, the same as its page', async () => {
+    const h = await household({ homeowner: true });
+    now = new Date('2031-04-21T13:00:00Z'); // Mon 8 am CDT
+    const me = await signInHomeowner(ctx, h.email);
+    const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'thermostat', from: '2031-04-21', days: 1 }).expect(200);
+    const w = (offer.body.windows as { start: string }[]).find((x) => Date.parse(x.start) - now.getTime() < 24 * 3_600_000)!;
+    expect(w).toBeDefined();
+    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'thermostat', windowStart: w.start, noEmergency: true }).expect(201);
+    expect(booked.body.visit.canChange).toBe(false);
+    expect(booked.body.visit.changeNotice).toMatch(/^Changes to this visit are by phone: \+1\d{10}\.$/);
+    await waitForMail(h.email, 'We have your visit request');
+    const mail = catcher.store.list({ to: h.email }).find((m) => m.subject === 'We have your visit request')!;
+    expect(mail.text).toContain(booked.body.visit.changeNotice);
+    expect(mail.text).not.toMatch(/change this visit online/);
+    const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
+    expect(page.body.visit.changeNotice).toBe(booked.body.visit.changeNotice);
+    await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
+  });
+
+  it("links the homeowner's booking photo to the visit for the technician, and refuses another household's file", async () => {
+    const h = await household({ homeowner: true });
+    const other = await household({ homeowner: true });
+    now = new Date('2031-04-28T13:00:00Z');
+    const me = await signInHomeowner(ctx, h.email);
+    const them = await signInHomeowner(ctx, other.email);
+    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#806040' } }).jpeg().toBuffer();
+    const uploadAs = async (s: Signed, propertyId: string) =>
+      (await s.agent.post('/api/files').set(XSRF, s.csrf).field('propertyId', propertyId).field('category', 'problem').attach('files', jpeg, { filename: 'leak.jpg', contentType: 'image/jpeg' }).expect(201)).body;
+    const mine = await uploadAs(me, h.propertyId);
+    const theirs = await uploadAs(them, other.propertyId);
+    const mineId = (mine.files ?? mine)[0].id as string;
+    const theirsId = (theirs.files ?? theirs)[0].id as string;
+    const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'water_leak', from: '2031-04-30', days: 1 }).expect(200);
+    const w = offer.body.windows[0];
+    const refused = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId, theirsId] }).expect(422);
+    expect(refused.body.error.fields.photoIds).toMatch(/not found/);
+    const [still] = await ctx.database.db.select({ visitId: t.files.visitId }).from(t.files).where(eq(t.files.id, theirsId));
+    expect(still!.visitId).toBeNull();
+    const none = await ctx.database.db.select({ id: t.visits.id }).from(t.visits).where(eq(t.visits.propertyId, h.propertyId));
+    expect(none).toHaveLength(0); // the refused booking left nothing behind
+
+    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId] }).expect(201);
+    const owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
+    const field = await owner.agent.get(`/api/field/visits/${booked.body.visit.id}`).expect(200);
+    expect(field.body.photos.map((p: { id: string }) => p.id)).toEqual([mineId]);
+  });
+
+  it('groups service history by what is coming up and what is past, in date order, and flags a window that passed unstarted', async () => {
+    const h = await household({ homeowner: true });
+    const db: Db = ctx.database.db;
+    const visit = async (day: string, status: 'done' | 'scheduled' | 'requested', reason: 'tune_up' | 'noise') => {
+      const s = local(`${day}T09:00`);
+      const [v] = await db
+        .insert(t.visits)
+        .values({ customerId: h.customerId, propertyId: h.propertyId, kind: reason === 'tune_up' ? 'tune_up' : 'service_call', reason, status, windowStart: s.toJSDate(), windowEnd: s.plus({ hours: 2 }).toJSDate(), startsAt: s.toJSDate(), endsAt: s.plus({ minutes: 90 }).toJSDate() })
+        .returning({ id: t.visits.id });
+      return v!.id;
+    };
+    // Inserted out of order on purpose; "now" is Wed 3 Dec 2031, noon.
+    const dec2 = await visit('2031-12-02', 'done', 'noise');
+    const dec10 = await visit('2031-12-10', 'scheduled', 'tune_up');
+    const dec1 = await visit('2031-12-01', 'done', 'tune_up');
+    const missed = await visit('2031-12-03', 'scheduled', 'noise'); // 9–11 am today, never started
+    const dec5 = await visit('2031-12-05', 'requested', 'noise');
+    await at('2031-12-03T18:00:00Z');
+    const me = await signInHomeowner(ctx, h.email);
+    const home = (await me.agent.get('/api/my-home').expect(200)).body;
+    expect(home.upcoming.map((v: { id: string }) => v.id)).toEqual([dec5, dec10]);
+    expect(home.past.map((v: { id: string }) => v.id)).toEqual([missed, dec2, dec1]);
+
+    const page = (await office.agent.get(`/api/customers/${h.customerId}`).expect(200)).body;
+    const flagged = page.visits.filter((v: { windowMissed: boolean }) => v.windowMissed).map((v: { id: string }) => v.id);
+    expect(flagged).toEqual([missed]);
+    expect(page.visits.find((v: { id: string }) => v.id === missed).status).toBe('scheduled'); // flagged, not changed
+    expect(page.timeline.some((e: { title: string }) => e.title.includes('window passed, not started'))).toBe(true);
+    const board = (await office.agent.get('/api/dispatch/board').query({ from: '2031-12-03', days: 1 }).expect(200)).body;
+    const onBoard = [...board.visits, ...board.unassigned].find((v: { id: string }) => v.id === missed);
+    expect(onBoard.windowMissed).toBe(true);
   });
 
   it('sends the day-before reminder once', async () => {

@@ -227,7 +227,7 @@ describe('access', () => {
     expect(mine.body.household.name).toBe('Whitfield household');
     expect(mine.body.properties.length).toBeGreaterThan(0);
     expect(mine.body.properties[0].equipment.length).toBeGreaterThan(0);
-    expect(mine.body.visits.some((v: { findings: string }) => v.findings.length > 0)).toBe(true);
+    expect(mine.body.past.some((v: { findings: string }) => v.findings.length > 0)).toBe(true);
     const other = await household(`Neighbour ${tag}`);
     await patch(homeowner, `/api/my-home/properties/${other.propertyId}`, { gateCode: '1234' }).expect(404);
     const note = await post(homeowner, '/api/my-home/notes', { propertyId: other.propertyId, body: 'hi' }).expect(422);

@@ -1,4 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { sendAssignmentNotice, VISIT_NOTICE_JOB } from '../server/booking/assignment-notice';
 import { and, eq, sql } from 'drizzle-orm';
 import { randomUUID } from 'node:crypto';
 import { testApp, type TestContext } from './support/app';
@@ -99,11 +100,67 @@ describe('dispatch board', () => {
     expect(events.body.events[1].technicianName).toBe('Priya Dunmore');
     expect(Date.parse(events.body.events[1].at)).not.toBeNaN();
 
-    const mail = await waitForMail(h.email, 'Your technician is confirmed');
+    const mail = await waitForMail(h.email, 'Your visit is scheduled');
     expect(mail.text).toMatch(/Priya Dunmore/);
+    expect(mail.text).toMatch(/Scheduled: the office confirmed this window and assigned your technician/);
     const ics = mail.attachments.find((a) => a.contentType.startsWith('text/calendar'))!.content.toString('utf8');
     const parsed = parseCalendar(ics).events[0]!;
+    expect(parsed.component.getFirstPropertyValue('status')).toBe('CONFIRMED'); // RFC 5545 §3.8.1.11
     expect(parsed.sequence).toBe(1); // RFC 5546 §2.1.4: a revision raises SEQUENCE
+  });
+
+  it('lists every request waiting to be confirmed, whatever day the board shows', async () => {
+    const office = await at('2031-08-04T13:00:00Z'); // Mon 4 Aug 2031
+    const h = await household();
+    const later = await Promise.all(['2031-08-05', '2031-08-06', '2031-08-07', '2031-08-08'].map((d) => book(office, h.propertyId, 'tune_up', d)));
+    const day = await office.agent.get('/api/dispatch/board').query({ from: '2031-08-04', days: 1, area: h.area }).expect(200);
+    expect(day.body.visits).toHaveLength(0);
+    expect(day.body.unassigned.map((v: { id: string }) => v.id)).toEqual(later.map((v) => v.id)); // soonest first
+    const week = await office.agent.get('/api/dispatch/board').query({ from: '2031-08-04', days: 7, area: h.area }).expect(200);
+    expect(week.body.unassigned).toHaveLength(4);
+  });
+
+  it('tells the homeowner once the assignment settles, and nothing for a reshuffle inside the window', async () => {
+    const office = await at('2031-10-06T13:00:00Z'); // Mon 6 Oct 2031
+    const h = await household();
+    const visit = await book(office, h.propertyId, 'noise', '2031-10-07');
+    const [priya, eli, marcus] = await Promise.all([PRIYA, ELI, MARCUS].map(techId));
+    const assign = (technicianId: string, startsAt?: string) =>
+      office.agent.post(`/api/dispatch/visits/${visit.id}/assign`).set(XSRF, office.csrf).send({ technicianId, ...(startsAt ? { startsAt } : {}) }).expect(200);
+    const told = () => catcher.store.list({ to: h.email }).filter((m) => m.subject === 'Your visit is scheduled' || m.subject === 'Your visit has a new arrival window');
+
+    // Hold the notice jobs the way pg-boss would for the delay, and look at how they are queued.
+    const held: { data: { visitId: string }; opts: { startAfter?: number; singletonKey?: string } }[] = [];
+    const real = ctx.deps.jobs.send.bind(ctx.deps.jobs);
+    const spy = vi.spyOn(ctx.deps.jobs, 'send').mockImplementation(async (name, data, opts = {}) => {
+      if (name !== VISIT_NOTICE_JOB) return real(name, data, opts);
+      held.push({ data: data as { visitId: string }, opts });
+      return 'held';
+    });
+    try {
+      await assign(priya);
+      await assign(eli);
+      await assign(marcus);
+      expect(held.length).toBeGreaterThan(0);
+      expect(held.every((j) => j.opts.startAfter! > 0 && j.opts.singletonKey === visit.id)).toBe(true);
+      expect(told()).toHaveLength(0); // nothing while the office is still moving it
+    } finally {
+      spy.mockRestore();
+    }
+    expect(await sendAssignmentNotice(ctx.deps, visit.id)).toBe('sent');
+    expect(await sendAssignmentNotice(ctx.deps, visit.id)).toBe('unchanged'); // the queued duplicates send nothing
+    await waitForMail(h.email, 'Your visit is scheduled');
+    expect(told()).toHaveLength(1);
+    expect(told()[0]!.text).toMatch(/Marcus Bellweather/);
+
+    // The same technician starts 30 minutes later, still inside the window the homeowner has: no e-mail.
+    const current = (await office.agent.get('/api/dispatch/board').query({ from: '2031-10-07', days: 1, area: h.area }).expect(200)).body.visits.find((v: { id: string }) => v.id === visit.id);
+    const later = new Date(Date.parse(current.startsAt) + 30 * 60_000).toISOString();
+    const moved = await assign(marcus, later);
+    expect(moved.body.visit.windowStart).toBe(current.windowStart);
+    expect(await sendAssignmentNotice(ctx.deps, visit.id)).toBe('unchanged');
+    await new Promise((r) => setTimeout(r, 300));
+    expect(told()).toHaveLength(1);
   });
 
   it('respects skills, time off and existing visits when assigning', async () => {

@@ -8,6 +8,7 @@ import { DateTime } from 'luxon';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tuneUpSeasonOf } from '../shared/coverage';
 import { evaluateReadings } from '../shared/hvac';
+import { visitTimeLabels } from '../shared/visits';
 import * as t from '../server/db/schema';
 import { DEMO_STAFF_PASSWORD } from '../server/db/seed/scenario';
 import { startSmtpCatcher, type SmtpCatcher } from '../server/fakes/mail';
@@ -193,6 +194,11 @@ describe("today's visits", () => {
     expect(first.address).toBe('12 Test Furrow Lane, Larkspur Bend, MO 64790');
     expect(first.windowLabel).toBe('9:00–11:00 AM');
     expect(second.windowLabel).toBe('1:00–3:00 PM');
+    // One definition of a visit's time in every view: the arrival window, and the work booked within it.
+    expect([first.arrivalLabel, first.workLabel]).toEqual(['Arrival 9:00–11:00 AM', '1 h 30 min of work booked']);
+    const week = await tech.agent.get('/api/schedule/week').expect(200);
+    const same = week.body.visits.find((v: { id: string }) => v.id === f.tuneUpId);
+    expect(visitTimeLabels(same, week.body.timeZone)).toEqual({ arrival: first.arrivalLabel, work: first.workLabel });
     expect(second.reasonLabel).toBe('No cooling');
     expect(first.planStatus).toEqual({ covered: true, label: 'Priority Comfort · Active' });
   });

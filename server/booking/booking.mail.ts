@@ -1,5 +1,5 @@
 import type { AppDeps } from '../deps';
-import { VISIT_REASON_LABELS } from '../../shared/visits';
+import { canChangeOnline, changeCutoff, changeSentence, VISIT_REASON_LABELS, VISIT_STATE_WORDS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
 import type { MailAttachment } from '../integrations/mail';
 import { renderEmail } from '../integrations/mail-layout';
@@ -10,8 +10,9 @@ import { addressOf, labelFor, type VisitRow } from './visit-views';
 export type VisitMailKind = 'confirmation' | 'assigned' | 'reschedule' | 'cancellation' | 'on_the_way' | 'reminder';
 
 const SUBJECTS: Record<VisitMailKind, string> = {
-  confirmation: 'Your visit request is booked',
-  assigned: 'Your technician is confirmed',
+  // Worded as the state the visit is in (VISIT_STATE_WORDS): a request is not yet confirmed.
+  confirmation: 'We have your visit request',
+  assigned: 'Your visit is scheduled',
   reschedule: 'Your visit has a new arrival window',
   cancellation: 'Your visit is canceled',
   on_the_way: 'Your technician is on the way',
@@ -21,23 +22,29 @@ const SUBJECTS: Record<VisitMailKind, string> = {
 const EXPECT =
   'What to expect: the technician arrives within the window and calls if running late. Please clear a path to the indoor and outdoor units, put pets in another room, and have any error codes or thermostat readings handy.';
 
-function howToChange(c: CompanySettings, link: string): string {
-  return `Need a different time? Reschedule or cancel online at ${link} up to ${c.cancelCutoffHours} hours before the window starts, or call ${c.phone}.`;
+/** The same cut-off sentence as the confirmation page and the visit page, with where to change it. */
+function howToChange(v: VisitRow, c: CompanySettings, link: string, now: Date): string {
+  const online = canChangeOnline(v, c, now);
+  const sentence = changeSentence(online, changeCutoff(v, c), c.phone, c.timeZone);
+  return online ? `${sentence} Reschedule or cancel at ${link}, or call ${c.phone}.` : sentence;
 }
 
 /** The e-mail for a visit change, with the calendar invitation attached where the time is set or freed. */
-export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string) {
+export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string, now: Date) {
   const window = labelFor(v.windowStart, v.windowEnd, c.timeZone);
   const what = `${VISIT_REASON_LABELS[v.reason]} at ${addressOf(v)}`;
   const link = `${publicUrl.replace(/\/$/, '')}/portal/booking/visits/${v.id}`;
-  const tech = v.technicianName ? `Your technician: ${v.technicianName}.` : '';
+  const words = VISIT_STATE_WORDS[v.status];
+  // A technician is named only once the office has assigned one.
+  const tech = v.technicianName && words.namesTechnician ? `Your technician: ${v.technicianName}.` : '';
+  const change = howToChange(v, c, link, now);
   const paragraphs: Record<VisitMailKind, string[]> = {
-    confirmation: [`We have your request: ${what}.`, `Arrival window: ${window}.`, 'The office confirms your technician shortly.', EXPECT, howToChange(c, link)],
-    assigned: [`${what}.`, `Arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
-    reschedule: [`${what}.`, `New arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
+    confirmation: [`We have your request: ${what}.`, `Arrival window: ${window}.`, words.meaning, EXPECT, change],
+    assigned: [`${what}.`, `Arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
+    reschedule: [`${what}.`, `New arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
     cancellation: [`Your visit (${what}, ${window}) is canceled.`, `To book again, visit ${publicUrl.replace(/\/$/, '')}/portal/booking or call ${c.phone}.`],
     on_the_way: [`${v.technicianName ?? 'Your technician'} is driving to you now for ${what}.`, `Arrival window: ${window}.`, 'Please make sure someone over 18 is home and the units can be reached.'],
-    reminder: [`A reminder of your visit tomorrow: ${what}.`, `Arrival window: ${window}.`, tech, EXPECT, howToChange(c, link)],
+    reminder: [`A reminder of your visit tomorrow: ${what}.`, `Arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
   };
   const body = renderEmail({
     title: SUBJECTS[kind],
@@ -55,11 +62,12 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
         uid: visitUid(v.id),
         sequence: v.sequence,
         method,
+        status: kind === 'cancellation' ? 'CANCELLED' : words.calendarStatus,
         start: v.windowStart.toISOString(),
         end: v.windowEnd.toISOString(),
         timeZone: c.timeZone,
         summary: `${c.name}: ${VISIT_REASON_LABELS[v.reason]}`,
-        description: `Arrival window ${window}. ${tech}`.trim(),
+        description: `Arrival window ${window}. ${kind === 'cancellation' ? VISIT_STATE_WORDS.canceled.meaning : words.meaning} ${tech}`.trim(),
         location: addressOf(v),
         organizer: { name: c.name, email: c.email },
         attendee: { name: v.customerName, email: v.customerEmail },
@@ -70,9 +78,9 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
 }
 
 /** The visit e-mail ready for the mail queue, or null when the household has no address. */
-export function visitMailToQueue(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string, key?: string): MailToQueue | null {
+export function visitMailToQueue(kind: VisitMailKind, v: VisitRow, c: CompanySettings, publicUrl: string, now: Date, key?: string): MailToQueue | null {
   if (!v.customerEmail) return null;
-  const mail = composeVisitMail(kind, v, c, publicUrl);
+  const mail = composeVisitMail(kind, v, c, publicUrl, now);
   return {
     kind: `visit_${kind}`,
     key,
@@ -86,7 +94,7 @@ export function visitMailToQueue(kind: VisitMailKind, v: VisitRow, c: CompanySet
  */
 export async function sendVisitMail(deps: Pick<AppDeps, 'config'> & OutboxDeps, kind: VisitMailKind, v: VisitRow, c: CompanySettings): Promise<boolean> {
   try {
-    const mail = visitMailToQueue(kind, v, c, deps.config.publicUrl);
+    const mail = visitMailToQueue(kind, v, c, deps.config.publicUrl, deps.clock());
     return mail ? await queueMail(deps, mail) : false;
   } catch (err) {
     deps.logger.error({ err, visitId: v.id, kind }, 'visit e-mail was not queued');

@@ -4,16 +4,17 @@ import type { z } from 'zod';
 import { availableWindows, nextFreeWindows, planBooking, SchedulingInputError, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
 import { URGENT_REASONS, visitKindFor, type ArrivalWindowView, type bookVisitSchema, type BookingOptions, type BookingProperty, type VisitView, type windowsQuerySchema, type WindowsResponse } from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
-import type { VisitReason } from '../../shared/visits';
+import { canChangeOnline, changeCutoff, changeSentence, type VisitReason } from '../../shared/visits';
 import type { AppDeps } from '../deps';
 import { recordBooked } from '../visits/visit-status';
+import { linkFilesToVisit } from '../uploads/uploads.service';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
-import { toView, visitRows, type VisitRow } from './visit-views';
+import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
 
 const BOOKING_LOCK = 730_611;
 const MEMBER_STATUSES = ['active', 'renewal_due'] as const;
@@ -266,9 +267,12 @@ export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clo
           symptoms: body.symptoms,
           notes: body.notes,
           photoIds: body.photoIds,
+          // The confirmation tells the window and no technician (a request names none).
+          noticeSignature: noticeSignature({ status: 'requested', technicianId: null, windowStart: new Date(plan.visit.window.start), windowEnd: new Date(plan.visit.window.end) }),
           priority: property.member || call.urgent,
         })
         .returning({ id: visits.id });
+      await linkFilesToVisit(tx, { customerId: property.customerId, visitId: row!.id }, body.photoIds);
       await recordBooked(tx, {
         visitId: row!.id,
         actor: user.id,
@@ -284,7 +288,7 @@ export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clo
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
   await sendVisitMail(deps, 'confirmation', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }
 
 async function memberAgreementId(db: Db | Tx, propertyId: string): Promise<string | null> {
@@ -318,9 +322,8 @@ export async function visitForChange(db: Db | Tx, user: SessionUser, id: string,
   }
   if (user.role === 'homeowner') {
     const c = await loadCompanySettings(db);
-    const until = row.windowStart.getTime() - c.cancelCutoffHours * 3_600_000;
-    if (now.getTime() >= until) {
-      throw new AppError(409, 'past_cutoff', `Changes online close ${c.cancelCutoffHours} hours before the arrival window. Please call ${c.phone}.`);
+    if (!canChangeOnline(row, c, now)) {
+      throw new AppError(409, 'past_cutoff', `Online changes closed ${c.cancelCutoffHours} hours before the arrival window. ${changeSentence(false, changeCutoff(row, c), c.phone, c.timeZone)}`);
     }
   }
   return row;
@@ -335,12 +338,12 @@ export async function myVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: 
   const now = deps.clock();
   const since = new Date(now.getTime() - 90 * 86_400_000);
   const rows = await visitRows(db, and(eq(visits.customerId, target), gte(visits.windowEnd, since)), 'desc');
-  return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now }));
+  return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now }));
 }
 
 export async function visitDetail(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<VisitView> {
   const { db } = deps.database;
   const row = await visitFor(db, user, id);
   const c = await loadCompanySettings(db);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() });
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now: deps.clock() });
 }

@@ -25,7 +25,7 @@ export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config'> & Out
   const queued: string[] = [];
   for (const { id } of candidates) {
     const row = await loadVisitRow(db, id);
-    const mail = visitMailToQueue('reminder', row, c, deps.config.publicUrl, `visit:${id}:reminder:${row.sequence}`);
+    const mail = visitMailToQueue('reminder', row, c, deps.config.publicUrl, now, `visit:${id}:reminder:${row.sequence}`);
     const mailId = await db.transaction(async (tx) => {
       const [claimed] = await tx.update(visits).set({ reminderSentAt: now }).where(and(eq(visits.id, id), due)).returning({ id: visits.id });
       if (!claimed || !mail) return null;

@@ -9,7 +9,8 @@ import { changeVisitStatus } from '../visits/visit-status';
 import { visits } from '../db/schema';
 import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
-import { toView } from './visit-views';
+import { noticeSignature, toView } from './visit-views';
+import { recordNotice } from './assignment-notice';
 import { alternativesAfter, engineError, engineInput, isOverlap, loadVisitRow, lockDays, propertyContext, visitForChange, WindowFullError, type EngineCall } from './booking.service';
 
 // Changes to a booked visit: moving it to another window, and canceling it.
@@ -60,8 +61,9 @@ export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' 
   }
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
+  await recordNotice(db, id, noticeSignature(row));
   await sendVisitMail(deps, 'reschedule', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }
 
 export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
@@ -80,5 +82,5 @@ export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const row = await loadVisitRow(db, id);
   const company = await loadCompanySettings(db);
   await sendVisitMail(deps, 'cancellation', row, company);
-  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, now });
+  return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }

@@ -2,6 +2,7 @@ import { eq, sql, type SQL } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { VisitView } from '../../shared/schemas/booking';
 import { windowLabel } from '../../shared/scheduling/clock';
+import { canChangeOnline, changeCutoff, changeSentence, VISIT_STATE_WORDS, windowMissed } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
 
@@ -79,6 +80,12 @@ export async function visitRows(db: Db | Tx, where: SQL | undefined, order: 'asc
     .orderBy(order === 'asc' ? visits.windowStart : sql`${visits.windowStart} desc`);
 }
 
+/** What the homeowner sees of an assignment: the technician (once one is named) and the window. */
+export function noticeSignature(v: Pick<VisitRow, 'status' | 'technicianId' | 'windowStart' | 'windowEnd'>): string {
+  const tech = VISIT_STATE_WORDS[v.status].namesTechnician ? (v.technicianId ?? '') : '';
+  return `${tech}|${v.windowStart.toISOString()}|${v.windowEnd.toISOString()}`;
+}
+
 export function addressOf(r: Pick<VisitRow, 'street' | 'unit' | 'city' | 'state' | 'zip'>): string {
   return `${r.street}${r.unit ? `, ${r.unit}` : ''}, ${r.city}, ${r.state} ${r.zip}`;
 }
@@ -90,9 +97,9 @@ export function labelFor(start: Date, end: Date, timeZone: string): string {
   return windowLabel(start.getTime(), end.getTime(), timeZone, showZone);
 }
 
-export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; now: Date }): VisitView {
-  const until = new Date(r.windowStart.getTime() - ctx.cancelCutoffHours * 3_600_000);
-  const open = r.status === 'requested' || r.status === 'scheduled';
+export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; phone: string; now: Date }): VisitView {
+  const until = changeCutoff(r, ctx);
+  const canChange = canChangeOnline(r, ctx, ctx.now);
   return {
     id: r.id,
     customerId: r.customerId,
@@ -117,6 +124,9 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     notes: r.notes,
     sequence: r.sequence,
     changeableUntil: DateTime.fromJSDate(until, { zone: ctx.timeZone }).toISO()!,
-    canChange: open && ctx.now < until,
+    canChange,
+    changeNotice: changeSentence(canChange, until, ctx.phone, ctx.timeZone),
+    officePhone: ctx.phone,
+    windowMissed: windowMissed(r, ctx.now),
   };
 }

@@ -4,7 +4,7 @@ import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
 import { formatUsd } from '../../shared/money';
 import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerUpdate, Note, NoteInput, Property, TimelineEntry } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
+import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, windowMissed } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { agreements, contacts, customerNotes, customers, files, invoices, planVersions, plans, properties, users, visits } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
@@ -55,10 +55,10 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       .innerJoin(plans, eq(planVersions.planId, plans.id))
       .where(eq(agreements.customerId, id))
       .orderBy(desc(agreements.startsOn)),
-    db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
-      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.completed_at, v.findings, v.recommendations, u.name as technician_name
+    db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; window_start: Date; window_end: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
+      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
       from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
-      where v.customer_id = ${id} order by v.starts_at desc`),
+      where v.customer_id = ${id} order by v.window_start desc, v.id`),
     db.select().from(invoices).where(eq(invoices.customerId, id)).orderBy(desc(invoices.createdAt)),
     db
       .select({ n: customerNotes, author: users.name })
@@ -88,6 +88,9 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
     status: v.status,
     statusLabel: VISIT_STATUS_LABELS[v.status as keyof typeof VISIT_STATUS_LABELS] ?? v.status,
     startsAt: new Date(v.starts_at).toISOString(),
+    windowStart: new Date(v.window_start).toISOString(),
+    windowEnd: new Date(v.window_end).toISOString(),
+    windowMissed: windowMissed({ status: v.status, windowEnd: new Date(v.window_end) }, now),
     findings: v.findings,
     recommendations: v.recommendations,
     technicianName: v.technician_name,
@@ -108,7 +111,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       refId: e.id,
     })),
     ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${a.startsOn} to ${a.endsOn}`, refId: a.id })),
-    ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
+    ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})${v.windowMissed ? ' · window passed, not started' : ''}`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
     ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${formatUsd(i.totalCents)}, ${i.status}`, refId: i.id })),
     ...noteOut.map((n) => ({ at: n.createdAt, kind: 'note' as const, title: n.audience === 'technician' ? 'Note for the technician' : 'Office note', detail: n.body, refId: n.id })),
     ...fileOut.map((f) => ({ at: f.createdAt, kind: 'file' as const, title: `${f.contentType === 'application/pdf' ? 'Document' : 'Photo'} added`, detail: f.originalName, refId: f.id })),

@@ -1,6 +1,7 @@
 import { and, asc, desc, eq, isNull } from 'drizzle-orm';
 import { homeAccessSchema, type HomeContact, type MyHome, type Note } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
+import { groupServiceHistory } from '../../shared/visits';
 import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
@@ -48,10 +49,11 @@ export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: Se
   return {
     household: { id: c.id, name: c.name, email: c.email, phone: c.phone },
     properties: props.map((p) => ({ ...toProperty(p), equipment: equipment.filter((e) => e.propertyId === p.id) })),
-    // Canceled visits are noise in a service history.
-    visits: detail.visits
-      .filter((v) => v.status !== 'canceled')
-      .map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName })),
+    // Canceled visits are noise in a service history; the rest is grouped by the one rule.
+    ...(() => {
+      const rows = detail.visits.map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, windowStart: v.windowStart, windowEnd: v.windowEnd, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName }));
+      return groupServiceHistory(rows, deps.clock());
+    })(),
     files: fileRows.map(toFile),
     notes: noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() })),
   };

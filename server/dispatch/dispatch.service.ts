@@ -14,6 +14,7 @@ import type { SessionUser } from '../../shared/schemas/session';
 import { canTransition, VISIT_STATUS_LABELS, type VisitStatus } from '../../shared/visits';
 import type { AppDeps } from '../deps';
 import { sendVisitMail } from '../booking/booking.mail';
+import { scheduleAssignmentNotice } from '../booking/assignment-notice';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { toView, visitRows } from '../booking/visit-views';
@@ -59,9 +60,19 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
     ),
   );
   const now = deps.clock();
-  const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now };
+  const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
   const views = rows.map((r) => toView(r, ctx));
   const queued = (v: VisitView) => v.status === 'requested' || (v.technicianId === null && v.status !== 'canceled' && v.status !== 'done');
+  // The queue of work to confirm spans every date, not just the days on screen: a request for next
+  // month waits for the office as much as one for today.
+  const queueRows = await visitRows(
+    db,
+    and(
+      or(eq(visits.status, 'requested'), and(isNull(visits.technicianId), inArray(visits.status, ['scheduled', 'on_the_way', 'on_site', 'no_show']))),
+      q.kind ? eq(visits.kind, q.kind) : undefined,
+      q.area ? eq(properties.area, q.area) : undefined,
+    ),
+  );
   const areaRows = await db.selectDistinct({ area: properties.area }).from(properties).where(ne(properties.area, '')).orderBy(asc(properties.area));
   return {
     from: start.toISODate()!,
@@ -74,7 +85,7 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
         .map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
     })),
     // The queue ignores the technician filter: unassigned work belongs to no one yet.
-    unassigned: views.filter(queued),
+    unassigned: queueRows.map((r) => toView(r, ctx)),
     visits: views.filter((v) => !queued(v) && (!q.technicianId || v.technicianId === q.technicianId)),
     areas: areaRows.map((a) => a.area),
   };
@@ -144,13 +155,16 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
   const startsAt = body.startsAt ? new Date(body.startsAt) : before.startsAt;
   const endsAt = new Date(startsAt.getTime() + length);
   const moved = startsAt.getTime() !== before.startsAt.getTime();
-  // Moving the work moves the arrival window with it, keeping its length.
-  const windowStart = moved ? startsAt : before.windowStart;
-  const windowEnd = moved ? new Date(startsAt.getTime() + (before.windowEnd.getTime() - before.windowStart.getTime())) : before.windowEnd;
+  // A start still inside the arrival window is an internal reshuffle: the homeowner's window stays.
+  // A start outside it moves the window with the work, keeping the window's length.
+  const insideWindow = startsAt.getTime() >= before.windowStart.getTime() && startsAt.getTime() < before.windowEnd.getTime();
+  const windowMoved = moved && !insideWindow;
+  const windowStart = windowMoved ? startsAt : before.windowStart;
+  const windowEnd = windowMoved ? new Date(startsAt.getTime() + (before.windowEnd.getTime() - before.windowStart.getTime())) : before.windowEnd;
   let techName: string | null = null;
   if (body.technicianId) techName = await checkTechnicianFits(deps, body.technicianId, { propertyId: before.propertyId, reason: before.reason, startsAt, endsAt }, c.timeZone);
   const status: VisitStatus = body.technicianId ? (before.status === 'requested' || before.status === 'no_show' ? 'scheduled' : before.status) : 'requested';
-  const changedForHomeowner = moved || body.technicianId !== before.technicianId || status !== before.status;
+  const changedForHomeowner = windowMoved || body.technicianId !== before.technicianId || status !== before.status;
   try {
     await db.transaction(async (tx) => {
       await changeVisitStatus(tx, {
@@ -166,7 +180,7 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
           windowStart,
           windowEnd,
           ...(changedForHomeowner ? { sequence: sql`${visits.sequence} + 1` } : {}),
-          ...(moved ? { reminderSentAt: null } : {}),
+          ...(windowMoved ? { reminderSentAt: null } : {}),
           updatedAt: now,
         },
       });
@@ -180,8 +194,9 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
     throw err;
   }
   const row = await loadVisitRow(db, id);
-  if (body.technicianId && changedForHomeowner) await sendVisitMail(deps, moved ? 'reschedule' : 'assigned', row, c);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  // Told once the assignment settles, and only about what the homeowner sees (assignment-notice.ts).
+  if (body.technicianId && changedForHomeowner) await scheduleAssignmentNotice(deps, id);
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
 }
 
 const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
@@ -196,7 +211,7 @@ export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | '
     if (!mine || before.technicianId !== mine.id) throw notFound('That visit');
     if (!TECHNICIAN_MAY_SET.includes(body.status)) throw new AppError(403, 'forbidden', 'Only the office can make that change.');
   }
-  if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  if (before.status === body.status) return toView(before, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
   // The office's status form hears a refused choice as a form error; a change that loses a race
   // with another is refused again under the row lock, as a conflict.
   if (!canTransition(before.status, body.status)) {
@@ -228,7 +243,7 @@ export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | '
   const row = await loadVisitRow(db, id);
   if (body.status === 'on_the_way') await sendVisitMail(deps, 'on_the_way', row, c);
   if (body.status === 'canceled') await sendVisitMail(deps, 'cancellation', row, c);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now });
+  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now });
 }
 
 export async function visitHistory(deps: Pick<AppDeps, 'database'>, id: string): Promise<VisitEventView[]> {
@@ -271,7 +286,7 @@ export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body
   );
   return {
     timeOff: { id: row!.id, startsAt: row!.startsAt.toISOString(), endsAt: row!.endsAt.toISOString(), reason: row!.reason },
-    conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now: deps.clock() })),
+    conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now: deps.clock() })),
   };
 }
 

@@ -6,7 +6,7 @@ import { COVERING_STATUSES, coverageFor, type Coverage, type CoverageVisit } fro
 import type { SeasonSettings } from '../../shared/seasons';
 import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS } from '../../shared/visits';
+import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, visitTimeLabels } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
@@ -164,6 +164,7 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
       windowStart: visits.windowStart,
       windowEnd: visits.windowEnd,
       startsAt: visits.startsAt,
+      endsAt: visits.endsAt,
       customerName: customers.name,
       street: properties.street,
       unit: properties.unit,
@@ -193,6 +194,7 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
     const label = r.agreementStatus
       ? `${r.planName ?? 'Plan'} · ${inTerm ? AGREEMENT_STATUS_LABELS[r.agreementStatus] : 'Term ended'}`
       : 'No plan';
+    const times = visitTimeLabels(r, info.timeZone);
     return {
       id: r.id,
       kind: r.kind,
@@ -203,6 +205,8 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
       windowStart: r.windowStart.toISOString(),
       windowEnd: r.windowEnd.toISOString(),
       windowLabel: windowLabel(r.windowStart, r.windowEnd, info.timeZone),
+      arrivalLabel: times.arrival,
+      workLabel: times.work,
       customerName: r.customerName,
       address: addressOf(r),
       planStatus: { covered, label },

@@ -31,6 +31,11 @@ export interface VisitInvitation {
   /** Raised by one each time the visit is changed or canceled, so calendars replace the old copy. */
   sequence: number;
   method: 'REQUEST' | 'CANCEL';
+  /**
+   * The event's STATUS (RFC 5545 §3.8.1.11): TENTATIVE while the office has not confirmed it,
+   * CONFIRMED once it has; a CANCEL is always CANCELLED. Defaults to CONFIRMED.
+   */
+  status?: 'TENTATIVE' | 'CONFIRMED' | 'CANCELLED';
   start: When;
   end: When;
   timeZone: string;
@@ -140,7 +145,7 @@ export function visitInvitation(input: VisitInvitation): string {
         rsvp: !canceled,
       },
     ],
-    status: canceled ? ICalEventStatus.CANCELLED : ICalEventStatus.CONFIRMED,
+    status: canceled || input.status === 'CANCELLED' ? ICalEventStatus.CANCELLED : input.status === 'TENTATIVE' ? ICalEventStatus.TENTATIVE : ICalEventStatus.CONFIRMED,
   });
   return withUtcStamp(cal.toString(), stamp);
 }

@@ -3,6 +3,7 @@ import { registerAuthJobs } from '../auth/prune';
 import { registerMailJobs } from '../mail/mail.jobs';
 import { registerBillingJobs } from '../billing/billing.jobs';
 import { registerBookingJobs } from '../booking/day-before-notices';
+import { registerNoticeJobs } from '../booking/assignment-notice';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
 import { registerCampaignJobs } from '../campaigns/campaigns.service';
 
@@ -15,6 +16,7 @@ export function registerJobs(deps: AppDeps): void {
   registerRenewalJobs(deps);
   registerCampaignJobs(deps);
   registerBookingJobs(deps);
+  registerNoticeJobs(deps);
   registerAuthJobs(deps);
   registerMailJobs(deps);
 }

@@ -47,7 +47,7 @@ export async function weekSchedule(deps: Pick<AppDeps, 'database' | 'clock'>, us
     end: sunday.minus({ days: 1 }).toISODate()!,
     timeZone: c.timeZone,
     technician: tech,
-    visits: rows.filter((r) => r.status !== 'canceled').map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, now })),
+    visits: rows.filter((r) => r.status !== 'canceled').map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now })),
     feed: { active: !!feed, createdAt: feed ? feed.createdAt.toISOString() : null },
   };
 }

@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { fileTypeFromBuffer } from 'file-type';
 import sharp from 'sharp';
 import { z } from 'zod';
@@ -6,7 +6,7 @@ import { FILE_CATEGORIES, type StoredFile } from '../../shared/schemas/customers
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
 import { toFile } from '../customers/customer-views';
-import type { Db } from '../db/client';
+import type { Db, Tx } from '../db/client';
 import { equipment, files, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { newStorageKey } from '../integrations/storage';
@@ -172,4 +172,23 @@ export async function listFiles(deps: Pick<AppDeps, 'database'>, user: SessionUs
   await assertCustomerAccess(db, user, customerId);
   const rows = await db.select().from(files).where(eq(files.customerId, customerId));
   return rows.filter((r) => !r.archivedAt).map(toFile);
+}
+
+/**
+ * Links the homeowner's booking photos to the new visit, so the technician's visit page shows them.
+ * Only the booking household's own, unarchived, not yet linked files are taken; any other id is
+ * refused and nothing is linked (another household's file id answers the same as a missing one).
+ */
+export async function linkFilesToVisit(tx: Db | Tx, target: { customerId: string; visitId: string }, fileIds: string[]): Promise<void> {
+  const ids = [...new Set(fileIds)];
+  if (!ids.length) return;
+  const linked = await tx
+    .update(files)
+    .set({ visitId: target.visitId })
+    .where(and(inArray(files.id, ids), eq(files.customerId, target.customerId), isNull(files.archivedAt), isNull(files.visitId)))
+    .returning({ id: files.id });
+  if (linked.length !== ids.length) {
+    // Thrown inside the booking's transaction: the visit and the links are undone together.
+    throw new AppError(422, 'validation_failed', 'Please upload the photos again: one of them was not found for this household.', { photoIds: 'not found for this household' });
+  }
 }

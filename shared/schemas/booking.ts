@@ -159,6 +159,12 @@ export interface VisitView {
   /** The homeowner may still reschedule or cancel online (before the cut-off). */
   changeableUntil: string;
   canChange: boolean;
+  /** "You can change this visit online until …" or "Changes to this visit are by phone: …" (shared/visits.ts). */
+  changeNotice: string;
+  /** The office's number, for a tap-to-call link wherever online changes are closed. */
+  officePhone: string;
+  /** The window passed and the visit was never started: flagged for the office; the status is unchanged. */
+  windowMissed: boolean;
 }
 
 export interface WindowFullBody {

@@ -264,7 +264,8 @@ export interface CustomerDetail {
   contacts: Contact[];
   properties: (Property & { equipment: Equipment[] })[];
   agreements: { id: string; propertyId: string; plan: string; status: string; statusLabel: string; startsOn: string; endsOn: string; priceCents: number }[];
-  visits: { id: string; propertyId: string; kind: string; reason: string; reasonLabel: string; status: string; statusLabel: string; startsAt: string; findings: string; recommendations: string; technicianName: string | null }[];
+  /** windowMissed: the window passed and the visit was never started (windowMissed in shared/visits.ts). */
+  visits: { id: string; propertyId: string; kind: string; reason: string; reasonLabel: string; status: string; statusLabel: string; startsAt: string; windowStart: string; windowEnd: string; windowMissed: boolean; findings: string; recommendations: string; technicianName: string | null }[];
   invoices: { id: string; number: number | null; status: string; totalCents: number; paidCents: number; issuedAt: string | null; createdAt: string }[];
   householdNotes: Note[];
   files: StoredFile[];
@@ -294,10 +295,26 @@ export const homeNoteSchema = z.object({
   propertyId: z.uuid({ error: 'Choose which home the note is about.' }),
 });
 
+export interface MyHomeVisit {
+  id: string;
+  propertyId: string;
+  reasonLabel: string;
+  statusLabel: string;
+  status: string;
+  startsAt: string;
+  windowStart: string;
+  windowEnd: string;
+  findings: string;
+  recommendations: string;
+  technicianName: string | null;
+}
+
 export interface MyHome {
   household: { id: string; name: string; email: string | null; phone: string | null };
   properties: (Property & { equipment: Equipment[] })[];
-  visits: { id: string; propertyId: string; reasonLabel: string; statusLabel: string; status: string; startsAt: string; findings: string; recommendations: string; technicianName: string | null }[];
+  /** Grouped with groupServiceHistory (shared/visits.ts): coming up soonest first, past newest first. */
+  upcoming: MyHomeVisit[];
+  past: MyHomeVisit[];
   files: StoredFile[];
   notes: Note[];
 }

@@ -82,6 +82,9 @@ export interface TodayVisit {
   windowEnd: string;
   /** "9:00–11:00 AM" in the company's time zone. */
   windowLabel: string;
+  /** "Arrival 9:00–11:00 AM" and "1 h 30 min of work booked" (visitTimeLabels in shared/visits.ts). */
+  arrivalLabel: string;
+  workLabel: string;
   customerName: string;
   address: string;
   planStatus: { covered: boolean; label: string };

@@ -39,6 +39,9 @@ export const visits = pgTable(
     // Upload ids of the homeowner's photos, from the upload service.
     photoIds: text().array().notNull().default([]),
     reminderSentAt: tstz(),
+    // What the homeowner was last told about the assignment (technician and window), so a
+    // reshuffle that changes nothing they see sends no e-mail.
+    noticeSignature: text(),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

@@ -6,7 +6,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
 import { DateTime } from 'luxon';
 import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
-import { VISIT_REASON_LABELS } from '../../../../shared/visits';
+import { VISIT_REASON_LABELS, visitTimeLabels } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { VisitStatusMark } from '../../ui/status/visit-status';
@@ -51,10 +51,9 @@ export class WeekSchedule {
     this.start.set(DateTime.fromISO(w.start).plus({ weeks }).toISODate()!);
   }
 
-  protected time(v: VisitView): string {
-    const a = DateTime.fromISO(v.startsAt, { setZone: true });
-    const b = DateTime.fromISO(v.endsAt, { setZone: true });
-    return `${a.toFormat('h:mm')}–${b.toFormat('h:mm a')}`;
+  /** The same arrival window and booked length as Today's visits (visitTimeLabels). */
+  protected time(v: VisitView): { arrival: string; work: string } {
+    return visitTimeLabels(v, this.week()?.timeZone ?? 'UTC');
   }
 
   protected async newFeed(): Promise<void> {

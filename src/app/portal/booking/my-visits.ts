@@ -3,12 +3,12 @@ import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { VISIT_REASON_LABELS } from '../../../../shared/visits';
+import { groupServiceHistory, VISIT_REASON_LABELS } from '../../../../shared/visits';
 import { errorMessage } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 
-/** The household's upcoming and recent visits, newest first. */
+/** The household's visits: coming up, then past. */
 @Component({
   selector: 'sw-my-visits',
   imports: [MatButtonModule, MatIconModule, RouterLink, VisitStatusMark],
@@ -18,8 +18,9 @@ import { VisitStatusMark } from '../../ui/status/visit-status';
     @if (error(); as e) {
       <p role="alert">{{ e }}</p>
     }
-    <ul class="list">
-      @for (v of visits(); track v.id) {
+    <h2>Coming up</h2>
+    <ul class="list" aria-label="Coming up">
+      @for (v of groups().upcoming; track v.id) {
         <li>
           <a [routerLink]="['/portal/booking/visits', v.id]">
             <span class="title">{{ reasons[v.reason] }} · {{ v.windowLabel }}</span>
@@ -27,7 +28,20 @@ import { VisitStatusMark } from '../../ui/status/visit-status';
           </a>
         </li>
       } @empty {
-        <li>No visits yet.</li>
+        <li>Nothing booked.</li>
+      }
+    </ul>
+    <h2>Past visits</h2>
+    <ul class="list" aria-label="Past visits">
+      @for (v of groups().past; track v.id) {
+        <li>
+          <a [routerLink]="['/portal/booking/visits', v.id]">
+            <span class="title">{{ reasons[v.reason] }} · {{ v.windowLabel }}</span>
+            <sw-visit-status [status]="v.status" />
+          </a>
+        </li>
+      } @empty {
+        <li>No past visits yet.</li>
       }
     </ul>
   `,
@@ -44,5 +58,7 @@ export class MyVisits {
   protected readonly reasons = VISIT_REASON_LABELS;
   private readonly read = rxResource({ stream: () => this.api.visits() });
   protected readonly visits = computed(() => (this.read.hasValue() ? this.read.value() : []));
+  /** Coming up soonest first, past newest first: the one rule in shared/visits.ts. */
+  protected readonly groups = computed(() => groupServiceHistory(this.visits(), new Date()));
   protected readonly error = errorMessage(this.read);
 }

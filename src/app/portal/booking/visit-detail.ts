@@ -8,7 +8,7 @@ import { MatRadioModule } from '@angular/material/radio';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
 import type { VisitView } from '../../../../shared/schemas/booking';
-import { VISIT_REASON_LABELS } from '../../../../shared/visits';
+import { VISIT_REASON_LABELS, VISIT_STATE_WORDS } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
@@ -32,6 +32,7 @@ export class VisitDetail {
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.visit(params) });
   protected readonly visit = localCopy<VisitView>(this.read);
   protected readonly picking = signal(false);
+  protected readonly stateWords = VISIT_STATE_WORDS;
   /** Open windows to move to, read while the homeowner is choosing one. */
   private readonly windowsRead = rxResource({
     params: () => {

@@ -19,7 +19,7 @@ import {
   type BookingOptions,
   type VisitView,
 } from '../../../../shared/schemas/booking';
-import { VISIT_REASON_LABELS, VISIT_REASONS, type VisitReason } from '../../../../shared/visits';
+import { VISIT_REASON_LABELS, VISIT_REASONS, VISIT_STATE_WORDS, type VisitReason } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors } from '../../core/form-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
@@ -80,6 +80,7 @@ export class VisitRequest {
   protected readonly busy = signal(false);
   protected readonly submitError = signal<string | null>(null);
   protected readonly booked = signal<VisitView | null>(null);
+  protected readonly stateWords = VISIT_STATE_WORDS;
   protected readonly photos = signal<File[]>([]);
 
   protected readonly propertyForm = this.fb.group({ propertyId: ['', Validators.required] });

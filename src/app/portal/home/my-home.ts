@@ -40,8 +40,9 @@ export class MyHome {
   protected readonly warrantyIcon = WARRANTY_ICON;
   protected readonly photos = computed(() => (this.home()?.files ?? []).filter((f) => f.contentType.startsWith('image/')));
   protected readonly documents = computed(() => (this.home()?.files ?? []).filter((f) => f.contentType === 'application/pdf'));
-  protected readonly history = computed(() => (this.home()?.visits ?? []).filter((v) => v.status === 'done'));
-  protected readonly upcoming = computed(() => (this.home()?.visits ?? []).filter((v) => v.status !== 'done' && v.status !== 'no_show'));
+  // Grouped and sorted on the server by groupServiceHistory (shared/visits.ts).
+  protected readonly history = computed(() => this.home()?.past ?? []);
+  protected readonly upcoming = computed(() => this.home()?.upcoming ?? []);
 
   protected readonly contact = new FormGroup({
     name: new FormControl('', { nonNullable: true }),
