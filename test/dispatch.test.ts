@@ -134,7 +134,7 @@ describe('dispatch board', () => {
     const real = ctx.deps.jobs.send.bind(ctx.deps.jobs);
     const spy = vi.spyOn(ctx.deps.jobs, 'send').mockImplementation(async (name, data, opts = {}) => {
       if (name !== VISIT_NOTICE_JOB) return real(name, data, opts);
-      held.push({ data: data as { visitId: string }, opts });
+      held.push({ data: data as { visitId: string }, opts: opts as { startAfter?: number; singletonKey?: string } });
       return 'held';
     });
     try {
