@@ -26,7 +26,7 @@ const EXPECTED: Record<string, number> = {
   session: 1,
   'homeowner-home': 8,
   'booking-windows': 6,
-  'booking-visit': 21,
+  'booking-visit': 19,
   'customer-search': 3,
   'customer-page': 11,
   'dispatch-day': 7,

@@ -1,11 +1,10 @@
 import { eq } from 'drizzle-orm';
 import { DateTime } from 'luxon';
-import { AsyncLocalStorage } from 'node:async_hooks';
-import type { RequestHandler } from 'express';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
 import { company } from '../db/schema';
 import { AppError } from '../http/errors';
+import { oncePerRequest, rememberForRequest } from '../runtime/request-memo';
 
 /**
  * The company: one settings row per installation, its time zone and what "today" is there. Every
@@ -16,27 +15,9 @@ export type CompanyUpdate = Partial<Omit<CompanyRow, 'id' | 'updatedAt'>>;
 
 const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
 
-// One read of the company row per request: the row is memoised for the request's lifetime (the
-// settings feature's own update replaces it), so services can ask for it wherever they need it.
-interface Memo {
-  row?: Promise<CompanyRow | undefined>;
-}
-const requestMemo = new AsyncLocalStorage<Memo>();
-
-/** Express middleware: everything the request runs after it shares one company read. */
-export const companyPerRequest: RequestHandler = (_req, _res, next) => requestMemo.run({}, next);
-
-function readRow(db: Db | Tx): Promise<CompanyRow | undefined> {
-  const read = () => db.select().from(company).where(eq(company.id, 1)).limit(1).then(([row]) => row);
-  const memo = requestMemo.getStore();
-  if (!memo) return read();
-  // A failed read is not kept, so the next caller tries again.
-  memo.row ??= read().catch((err: unknown) => {
-    memo.row = undefined;
-    throw err;
-  });
-  return memo.row;
-}
+// One read of the company row per request, so services can ask for it wherever they need it.
+const readRow = (db: Db | Tx): Promise<CompanyRow | undefined> =>
+  oncePerRequest('company', () => db.select().from(company).where(eq(company.id, 1)).limit(1).then(([row]) => row));
 
 /** The company row; an installation without one answers 503 until it is set up. */
 export async function companyRow(db: Db | Tx): Promise<CompanyRow> {
@@ -53,8 +34,7 @@ export async function companyTimeZone(db: Db | Tx): Promise<string | null> {
 export async function updateCompanyRow(tx: Db | Tx, next: CompanyUpdate, at: Date): Promise<CompanyRow> {
   const [row] = await tx.update(company).set({ ...next, updatedAt: at }).where(eq(company.id, 1)).returning();
   if (!row) throw notSetUp();
-  const memo = requestMemo.getStore();
-  if (memo) memo.row = Promise.resolve(row);
+  rememberForRequest('company', row);
   return row;
 }
 
