@@ -10,6 +10,7 @@ import { authMiddleware } from './auth/session';
 import { guardParams, jsonBodiesOnly, sameOriginWrites, storableTextOnly } from './http/edge';
 import { apiNotFound, errorHandler, notFoundAnywhere } from './http/errors';
 import { apiRouters } from './routes';
+import { memoPerRequest } from './runtime/request-memo';
 
 /** Builds the Express app from explicit dependencies; nothing is read from globals. */
 export function createApp(deps: AppDeps): Express {
@@ -68,6 +69,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(jsonBodiesOnly({ rawMounts, multipartMounts }));
   // Sessions, passport and CSRF; raw-body webhook routes carry their own signature.
   app.use(authMiddleware(deps, rawMounts));
+  app.use(memoPerRequest);
 
   for (const { path, build, rawBody } of apiRouters) {
     if (rawBody) app.use(path, guardParams(build(deps)));

@@ -10,7 +10,7 @@ import type { SessionUser } from '../../shared/schemas/session';
 import { normaliseEmail } from './auth.service';
 import { consumeLink, INVITATION_LINK_MINUTES, issueLink, RESET_LINK_MINUTES, signLinkToken, storeLinkForAddress } from './links';
 import { hashPassword } from './passwords';
-import { endAllSessions } from './session';
+import { endAllSessions, forgetSessionUser } from './session';
 
 // New technicians start on weekday days; the office adjusts them later.
 const DEFAULT_WEEKLY_HOURS = { '1': { start: '08:00', end: '17:00' }, '2': { start: '08:00', end: '17:00' }, '3': { start: '08:00', end: '17:00' }, '4': { start: '08:00', end: '17:00' }, '5': { start: '08:00', end: '17:00' } };
@@ -143,6 +143,8 @@ export async function updateStaff(deps: Pick<AppDeps, 'database' | 'clock'>, act
     }
   });
   if (change.disabled) await endAllSessions(deps, userId);
+  // Sessions keep the user's role; a changed role takes effect on the next request.
+  else if (change.role) await forgetSessionUser(deps, userId);
   const member = (await listStaff(deps)).find((m) => m.id === userId);
   if (!member) throw notFound('That staff member');
   return member;

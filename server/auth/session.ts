@@ -18,6 +18,10 @@ declare module 'express-session' {
     signedInAt?: number;
     /** Epoch ms of the last request, for the idle timeout on the injected clock. */
     lastSeenAt?: number;
+    /** What requests need of the signed-in user, re-read from the users table every minute. */
+    user?: SessionUser;
+    /** Epoch ms (app clock) when `user` was last read. */
+    userCheckedAt?: number;
   }
 }
 
@@ -27,8 +31,12 @@ export const HOMEOWNER_IDLE_MS = 14 * 24 * 60 * MINUTE;
 export const STAFF_ABSOLUTE_MS = 12 * 60 * MINUTE;
 // An anonymous session only carries the CSRF token for the sign-in forms.
 const ANONYMOUS_IDLE_MS = 2 * 60 * MINUTE;
-// Write lastSeenAt at most this often, so reads do not all rewrite the session row.
+// Write lastSeenAt at most this often, so reads do not all rewrite the session row; the store's own
+// touch is off, so a request that changes nothing costs the one read of the session row.
 const TOUCH_EVERY_MS = MINUTE;
+// The user kept in the session is re-read this often, so a user disabled or changed elsewhere
+// (another process, the CLI) is refused or updated within a minute.
+export const USER_RECHECK_MS = MINUTE;
 
 export const SESSION_TABLE = 'session';
 export const sessionCookieName = (production: boolean) => (production ? '__Host-sw.sid' : 'sw.sid');
@@ -55,8 +63,21 @@ export function authenticatorFor(deps: AppDeps): passport.Authenticator {
   if (!auth) {
     auth = new passport.Authenticator();
     auth.serializeUser((user, done) => done(null, user.id));
-    auth.deserializeUser((id: string, done) => {
-      loadSessionUser(deps.database.db, id).then((u) => done(null, u ?? false), done);
+    // Three arguments: passport then passes the request, whose session keeps the user.
+    auth.deserializeUser((req: Request, id: string, done: (err: unknown, user?: SessionUser | false) => void) => {
+      const s = req.session;
+      const now = deps.clock().getTime();
+      if (s.user?.id === id && s.userCheckedAt !== undefined && Math.abs(now - s.userCheckedAt) < USER_RECHECK_MS) return done(null, s.user);
+      loadSessionUser(deps.database.db, id).then((u) => {
+        if (u) {
+          s.user = u;
+          s.userCheckedAt = now;
+        } else {
+          delete s.user;
+          delete s.userCheckedAt;
+        }
+        done(null, u ?? false);
+      }, done);
     });
     configureStaffStrategy(auth, deps);
     authenticators.set(deps, auth);
@@ -70,6 +91,8 @@ const regenerate = (req: Request) => new Promise<void>((resolve, reject) => req.
 export async function startSession(req: Request, res: Response, deps: AppDeps, user: SessionUser): Promise<string> {
   await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
   const now = deps.clock().getTime();
+  req.session.user = user;
+  req.session.userCheckedAt = now;
   req.session.signedInAt = now;
   req.session.lastSeenAt = now;
   req.session.cookie.maxAge = idleFor(user.role);
@@ -90,6 +113,14 @@ export async function endAllSessions(deps: Pick<AppDeps, 'database'>, userId: st
   return result.rowCount ?? 0;
 }
 
+/** Drops the user kept in each of a user's sessions, so their next request reads the row again. */
+export async function forgetSessionUser(deps: Pick<AppDeps, 'database'>, userId: string): Promise<void> {
+  const { db } = deps.database;
+  await db.execute(
+    sql`update ${sql.identifier(SESSION_TABLE)} set sess = ((sess::jsonb) - 'user' - 'userCheckedAt')::json where (sess::jsonb) -> 'passport' ->> 'user' = ${userId}`,
+  );
+}
+
 /**
  * Sessions in PostgreSQL, passport on top, role timeouts on the injected clock, then CSRF on
  * every state-changing request, whatever its path, except inside the raw-body webhook mounts.
@@ -108,7 +139,7 @@ export function authMiddleware(deps: AppDeps, csrfExemptMounts: string[]): Route
     session({
       name: sessionCookieName(config.production),
       secret: config.SESSION_SECRET,
-      store: new PgStore({ pool: database.pool, tableName: SESSION_TABLE, createTableIfMissing: true, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
+      store: new PgStore({ pool: database.pool, tableName: SESSION_TABLE, createTableIfMissing: true, disableTouch: true, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
       resave: false,
       saveUninitialized: false,
       rolling: true,

@@ -13,7 +13,9 @@ import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { sendVisitMail } from './booking.mail';
-import { loadCompanySettings, loadSchedulingData, type CompanySettings } from './scheduling-input';
+import { companyRow } from '../company/company';
+import { cachedWindows, minuteAfter, scheduleSnapshot, within } from './schedule-cache';
+import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
 import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
 
 const BOOKING_LOCK = 730_611;
@@ -151,19 +153,18 @@ export async function engineInput(
   days: number,
   excludeVisitId?: string,
   lookAheadDays = 0,
+  // Where the company settings and schedule come from; by default read now on `db`.
+  sources?: { company: CompanySettings; schedule(range: { from: Date; to: Date }): Promise<SchedulingData> },
 ): Promise<EngineCall> {
-  const company = await loadCompanySettings(db);
+  const company = sources?.company ?? (await loadCompanySettings(db));
   const tz = company.timeZone;
   const nowLocal = DateTime.fromJSDate(now, { zone: tz });
   const start = from ? DateTime.fromISO(from, { zone: tz }) : nowLocal;
   const first = start < nowLocal.startOf('day') ? nowLocal : start;
   const last = first.plus({ days });
   // Widened by a day each side (visits straddling midnight), plus any look-ahead the next free windows need.
-  const data = await loadSchedulingData(
-    db,
-    { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 1 + lookAheadDays }).toJSDate() },
-    { excludeVisitId },
-  );
+  const range = { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 1 + lookAheadDays }).toJSDate() };
+  const data = sources ? await sources.schedule(range) : await loadSchedulingData(db, range, { excludeVisitId });
   const urgent = URGENT_REASONS.includes(reason);
   return {
     company,
@@ -192,10 +193,24 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
   const { db } = deps.database;
   const property = await propertyContext(db, user, q.propertyId, q.reason);
   if (q.visitId) await visitForChange(db, user, q.visitId, deps.clock());
-  const call = await engineInput(db, deps.clock(), property, q.reason, q.from, q.days, q.visitId);
+  let call: EngineCall;
   let windows: ArrivalWindow[];
   try {
-    windows = availableWindows(call.input);
+    if (q.visitId) {
+      // Moving a visit leaves its own time out of the schedule: read fresh.
+      call = await engineInput(db, deps.clock(), property, q.reason, q.from, q.days, q.visitId);
+      windows = availableWindows(call.input);
+    } else {
+      // New bookings: from this process's snapshot of the schedule while its version is current.
+      const now = minuteAfter(deps.clock());
+      const tz = (await companyRow(db)).timeZone;
+      const nowLocal = DateTime.fromJSDate(now, { zone: tz });
+      const asked = q.from ? DateTime.fromISO(q.from, { zone: tz }) : nowLocal;
+      const first = (asked < nowLocal.startOf('day') ? nowLocal : asked).startOf('day').minus({ days: 1 }).toJSDate();
+      const snap = await scheduleSnapshot(db, { from: first, to: DateTime.fromJSDate(first).plus({ days: q.days + 3 }).toJSDate() });
+      call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async (range) => within(snap.data, range) });
+      windows = cachedWindows(snap, call.input);
+    }
   } catch (err) {
     engineError(err);
   }

@@ -8,6 +8,7 @@ import { bookingSettings, technicianTimeOff, technicians, users, visits } from '
 import type { BusinessHours } from '../db/schema/company';
 import type { WeeklyHours as TechHours } from '../db/schema/technicians';
 import { companyRow } from '../company/company';
+import { oncePerRequest } from '../runtime/request-memo';
 
 const DAY_KEYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
 
@@ -44,7 +45,7 @@ export interface CompanySettings {
 
 export async function loadCompanySettings(db: Db | Tx): Promise<CompanySettings> {
   const c = await companyRow(db);
-  const [b] = await db.select().from(bookingSettings).limit(1);
+  const [b] = await oncePerRequest('booking_settings', () => db.select().from(bookingSettings).limit(1));
   const visitMinutes = { tune_up: b?.tuneUpMinutes ?? 90, service_call: b?.serviceCallMinutes ?? 120 };
   return {
     name: c.name,

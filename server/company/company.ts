@@ -4,6 +4,7 @@ import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
 import { company } from '../db/schema';
 import { AppError } from '../http/errors';
+import { oncePerRequest, rememberForRequest } from '../runtime/request-memo';
 
 /**
  * The company: one settings row per installation, its time zone and what "today" is there. Every
@@ -14,22 +15,26 @@ export type CompanyUpdate = Partial<Omit<CompanyRow, 'id' | 'updatedAt'>>;
 
 const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
 
+// One read of the company row per request, so services can ask for it wherever they need it.
+const readRow = (db: Db | Tx): Promise<CompanyRow | undefined> =>
+  oncePerRequest('company', () => db.select().from(company).where(eq(company.id, 1)).limit(1).then(([row]) => row));
+
 /** The company row; an installation without one answers 503 until it is set up. */
 export async function companyRow(db: Db | Tx): Promise<CompanyRow> {
-  const [row] = await db.select().from(company).where(eq(company.id, 1)).limit(1);
+  const row = await readRow(db);
   if (!row) throw notSetUp();
   return row;
 }
 
 /** The company's IANA time zone, or null while the installation has no company row yet. */
 export async function companyTimeZone(db: Db | Tx): Promise<string | null> {
-  const [row] = await db.select({ timeZone: company.timeZone }).from(company).where(eq(company.id, 1)).limit(1);
-  return row?.timeZone ?? null;
+  return (await readRow(db))?.timeZone ?? null;
 }
 
 export async function updateCompanyRow(tx: Db | Tx, next: CompanyUpdate, at: Date): Promise<CompanyRow> {
   const [row] = await tx.update(company).set({ ...next, updatedAt: at }).where(eq(company.id, 1)).returning();
   if (!row) throw notSetUp();
+  rememberForRequest('company', row);
   return row;
 }
 

@@ -35,6 +35,30 @@ export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: Cus
 
 
 
+/** A household's visits, newest first, with labels and the technician's name. */
+export async function customerVisits(db: Db, customerId: string, now: Date): Promise<CustomerDetail['visits']> {
+  const visitRows = await db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; window_start: Date; window_end: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
+      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
+      from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
+      where v.customer_id = ${customerId} order by v.window_start desc, v.id`);
+  return visitRows.rows.map((v) => ({
+    id: v.id,
+    propertyId: v.property_id,
+    kind: v.kind,
+    reason: v.reason,
+    reasonLabel: VISIT_REASON_LABELS[v.reason as keyof typeof VISIT_REASON_LABELS] ?? v.reason,
+    status: v.status,
+    statusLabel: VISIT_STATUS_LABELS[v.status as keyof typeof VISIT_STATUS_LABELS] ?? v.status,
+    startsAt: new Date(v.starts_at).toISOString(),
+    windowStart: new Date(v.window_start).toISOString(),
+    windowEnd: new Date(v.window_end).toISOString(),
+    windowMissed: windowMissed({ status: v.status, windowEnd: new Date(v.window_end) }, now),
+    findings: v.findings,
+    recommendations: v.recommendations,
+    technicianName: v.technician_name,
+  }));
+}
+
 /** Everything about one household, with one timeline across its records (newest first). */
 export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
   const { db } = deps.database;
@@ -55,10 +79,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       .innerJoin(plans, eq(planVersions.planId, plans.id))
       .where(eq(agreements.customerId, id))
       .orderBy(desc(agreements.startsOn)),
-    db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; window_start: Date; window_end: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
-      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
-      from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
-      where v.customer_id = ${id} order by v.window_start desc, v.id`),
+    customerVisits(db, id, now),
     db.select().from(invoices).where(eq(invoices.customerId, id)).orderBy(desc(invoices.createdAt)),
     db
       .select({ n: customerNotes, author: users.name })
@@ -79,22 +100,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
     opts.includeArchived,
   );
   const propertyOut = propertyRows.map((p) => ({ ...toProperty(p), equipment: equipmentRows.filter((e) => e.propertyId === p.id) }));
-  const visitOut = visitRows.rows.map((v) => ({
-    id: v.id,
-    propertyId: v.property_id,
-    kind: v.kind,
-    reason: v.reason,
-    reasonLabel: VISIT_REASON_LABELS[v.reason as keyof typeof VISIT_REASON_LABELS] ?? v.reason,
-    status: v.status,
-    statusLabel: VISIT_STATUS_LABELS[v.status as keyof typeof VISIT_STATUS_LABELS] ?? v.status,
-    startsAt: new Date(v.starts_at).toISOString(),
-    windowStart: new Date(v.window_start).toISOString(),
-    windowEnd: new Date(v.window_end).toISOString(),
-    windowMissed: windowMissed({ status: v.status, windowEnd: new Date(v.window_end) }, now),
-    findings: v.findings,
-    recommendations: v.recommendations,
-    technicianName: v.technician_name,
-  }));
+  const visitOut = visitRows;
   const agreementOut = agreementRows.map(({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, priceCents: a.priceCents }));
   const invoiceOut = invoiceRows.map((i) => ({ id: i.id, number: i.number, status: i.status, totalCents: i.totalCents, paidCents: i.paidCents, issuedAt: iso(i.issuedAt), createdAt: i.createdAt.toISOString() }));
   const noteOut: Note[] = noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() }));

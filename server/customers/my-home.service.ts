@@ -6,7 +6,7 @@ import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, notFound, parse } from '../http/errors';
-import { getCustomer, updateCustomer } from './customer-page';
+import { customerVisits, updateCustomer } from './customer-page';
 import { toFile, toProperty } from './customer-views';
 import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
@@ -19,41 +19,43 @@ function household(user: SessionUser): string {
 /** The homeowner's own homes, equipment, visit history, photos and documents. */
 export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<MyHome> {
   const { db } = deps.database;
-  const now = deps.clock();
   const customerId = household(user);
-  const [c] = await db.select().from(customers).where(eq(customers.id, customerId)).limit(1);
+  // Each record once, side by side (the office's customer page loads far more than this needs).
+  const [[c], today, props, visitRows, fileRows, noteRows] = await Promise.all([
+    db.select().from(customers).where(eq(customers.id, customerId)).limit(1),
+    companyToday(deps),
+    db
+      .select()
+      .from(properties)
+      .where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt)))
+      .orderBy(asc(properties.createdAt)),
+    customerVisits(db, customerId, deps.clock()),
+    db
+      .select()
+      .from(files)
+      .where(and(eq(files.customerId, customerId), isNull(files.archivedAt)))
+      .orderBy(desc(files.createdAt)),
+    db
+      .select({ n: customerNotes, author: users.name })
+      .from(customerNotes)
+      .leftJoin(users, eq(customerNotes.authorUserId, users.id))
+      .where(and(eq(customerNotes.customerId, customerId), eq(customerNotes.audience, 'technician')))
+      .orderBy(desc(customerNotes.createdAt)),
+  ]);
   if (!c) throw notFound('Your household');
-  const today = await companyToday(deps);
-  const props = await db
-    .select()
-    .from(properties)
-    .where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt)))
-    .orderBy(asc(properties.createdAt));
   const equipment = await equipmentForProperties(
     db,
     props.map((p) => p.id),
     today,
   );
-  const detail = await getCustomer(deps, customerId);
-  const fileRows = await db
-    .select()
-    .from(files)
-    .where(and(eq(files.customerId, customerId), isNull(files.archivedAt)))
-    .orderBy(desc(files.createdAt));
-  const noteRows = await db
-    .select({ n: customerNotes, author: users.name })
-    .from(customerNotes)
-    .leftJoin(users, eq(customerNotes.authorUserId, users.id))
-    .where(and(eq(customerNotes.customerId, customerId), eq(customerNotes.audience, 'technician')))
-    .orderBy(desc(customerNotes.createdAt));
   return {
     household: { id: c.id, name: c.name, email: c.email, phone: c.phone },
     properties: props.map((p) => ({ ...toProperty(p), equipment: equipment.filter((e) => e.propertyId === p.id) })),
     // Canceled visits are noise in a service history; the rest is grouped by the one rule.
-    ...(() => {
-      const rows = detail.visits.map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, windowStart: v.windowStart, windowEnd: v.windowEnd, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName }));
-      return groupServiceHistory(rows, deps.clock());
-    })(),
+    ...groupServiceHistory(
+      visitRows.map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, windowStart: v.windowStart, windowEnd: v.windowEnd, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName })),
+      deps.clock(),
+    ),
     files: fileRows.map(toFile),
     notes: noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() })),
   };

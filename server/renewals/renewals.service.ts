@@ -30,15 +30,20 @@ function viewFilter(view: RenewalView, today: string): SQL {
 export async function renewalBoard(deps: Pick<AppDeps, 'database' | 'clock'>, view: RenewalView): Promise<RenewalBoard> {
   const { db } = deps.database;
   const today = await companyToday(deps);
+  // Every view's count and total in one pass over agreements, beside the rows of the one shown.
+  const aggregates = Object.fromEntries(
+    RENEWAL_VIEWS.flatMap((v) => {
+      const where = viewFilter(v, today);
+      return [
+        [`${v}_count`, sql<number>`(count(*) filter (where ${where}))::int`],
+        [`${v}_total`, sql<string>`coalesce(sum(${agreements.priceCents}) filter (where ${where}), 0)::bigint`],
+      ];
+    }),
+  ) as Record<string, SQL<number | string>>;
+  const [[row], rows] = await Promise.all([db.select(aggregates).from(agreements), renewalRows(deps, view, today)]);
   const counts = {} as RenewalBoard['counts'];
-  for (const v of RENEWAL_VIEWS) {
-    const [row] = await db
-      .select({ count: sql<number>`count(*)::int`, total: sql<number>`coalesce(sum(${agreements.priceCents}), 0)::bigint` })
-      .from(agreements)
-      .where(viewFilter(v, today));
-    counts[v] = { count: row?.count ?? 0, totalCents: Number(row?.total ?? 0) };
-  }
-  return { view, counts, rows: await renewalRows(deps, view, today) };
+  for (const v of RENEWAL_VIEWS) counts[v] = { count: Number(row?.[`${v}_count`] ?? 0), totalCents: Number(row?.[`${v}_total`] ?? 0) };
+  return { view, counts, rows };
 }
 
 async function renewalRows(deps: Pick<AppDeps, 'database'>, view: RenewalView, today: string): Promise<RenewalRow[]> {

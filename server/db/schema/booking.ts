@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { check, index, integer, pgTable, smallint, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { bigint, check, index, integer, pgTable, smallint, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { VISIT_STATUSES } from '../../../shared/visits';
 import { createdAt, id, inList, tstz, updatedAt } from './columns';
 import { technicians } from './technicians';
@@ -84,4 +84,16 @@ export const bookingSettings = pgTable(
     check('booking_settings_buffer', sql`${t.travelBufferMinutes} between 0 and 240`),
     check('booking_settings_minutes', sql`${t.tuneUpMinutes} between 15 and 720 and ${t.serviceCallMinutes} between 15 and 720`),
   ],
+);
+
+// The schedule's version: triggers bump it in the same transaction as every write that changes who is
+// free when (visits, technicians and their time off, booking settings, company hours), so a process
+// may keep what it derived from the schedule for as long as the version it read stays current.
+export const scheduleVersion = pgTable(
+  'schedule_version',
+  {
+    id: smallint().primaryKey().default(1),
+    version: bigint({ mode: 'number' }).notNull().default(0),
+  },
+  (t) => [check('schedule_version_single_row', sql`${t.id} = 1`)],
 );

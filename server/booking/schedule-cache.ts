@@ -1,0 +1,81 @@
+import { DateTime } from 'luxon';
+import { availableWindows, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
+import type { Db } from '../db/client';
+import { scheduleVersion } from '../db/schema';
+import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
+
+/**
+ * What the windows route derives from the schedule, kept per process while the schedule's version
+ * stays the same. Triggers bump the version in the same transaction as every write that changes
+ * who is free when, so checking it (one read of a one-row table) is enough for several processes to
+ * stay correct. Booking itself never reads from here: it re-reads inside its day lock.
+ */
+interface Snapshot {
+  version: number;
+  from: number;
+  to: number;
+  company: CompanySettings;
+  data: SchedulingData;
+  windows: Map<string, ArrivalWindow[]>;
+}
+
+// A snapshot covers at least this many days from the first date asked, so a fortnight's offers and
+// the next weeks' all come from one read of the schedule.
+const SNAPSHOT_DAYS = 45;
+// Distinct window answers kept per version (properties differ by skill, membership and promise).
+const MAX_ANSWERS = 500;
+
+const snapshots = new WeakMap<Db, Snapshot>();
+
+export async function currentScheduleVersion(db: Db): Promise<number> {
+  const [row] = await db.select({ version: scheduleVersion.version }).from(scheduleVersion).limit(1);
+  return row?.version ?? 0;
+}
+
+/** The company's settings and the schedule over [from, to], from this process's snapshot when current. */
+export async function scheduleSnapshot(db: Db, range: { from: Date; to: Date }): Promise<Snapshot> {
+  const version = await currentScheduleVersion(db);
+  const have = snapshots.get(db);
+  if (have && have.version === version && have.from <= range.from.getTime() && have.to >= range.to.getTime()) return have;
+  // The version is read before the data: a write committed in between only makes the data newer
+  // than its label, and the next read sees the bumped version and loads again.
+  const from = range.from;
+  const to = new Date(Math.max(range.to.getTime(), from.getTime() + SNAPSHOT_DAYS * 86_400_000));
+  const [company, data] = await Promise.all([loadCompanySettings(db), loadSchedulingData(db, { from, to })]);
+  const snap: Snapshot = { version, from: from.getTime(), to: to.getTime(), company, data, windows: new Map() };
+  snapshots.set(db, snap);
+  return snap;
+}
+
+/** The schedule data narrowed to a range, so the engine replays only the days it is asked about. */
+export function within(data: SchedulingData, range: { from: Date; to: Date }): SchedulingData {
+  const a = range.from.toISOString();
+  const b = range.to.toISOString();
+  const overlaps = (x: { start: string; end: string }) => x.start < b && x.end > a;
+  return {
+    names: data.names,
+    technicians: data.technicians.map((t) => ({ ...t, timeOff: t.timeOff?.filter(overlaps) })),
+    booked: data.booked.filter(overlaps),
+  };
+}
+
+/** The engine's windows for one input, answered once per snapshot and input. */
+export function cachedWindows(snap: Snapshot, input: AvailabilityInput): ArrivalWindow[] {
+  const key = JSON.stringify([input.request, input.technicians.length]);
+  const hit = snap.windows.get(key);
+  if (hit) return hit;
+  const windows = availableWindows(input);
+  if (snap.windows.size >= MAX_ANSWERS) snap.windows.clear();
+  snap.windows.set(key, windows);
+  return windows;
+}
+
+/**
+ * "Now" for cached answers: the next whole minute, so calls within a minute share one answer. Later
+ * than the real now, so the lead time only ever drops a window early, never offers one too soon.
+ */
+export function minuteAfter(now: Date): Date {
+  const t = DateTime.fromJSDate(now);
+  const floor = t.startOf('minute');
+  return (floor.equals(t) ? floor : floor.plus({ minutes: 1 })).toJSDate();
+}

@@ -1,0 +1,173 @@
+import { DateTime } from 'luxon';
+import pg from 'pg';
+import { pino } from 'pino';
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
+import { createApp } from '../server/app';
+import { loadConfig } from '../server/config';
+import { createDatabase, type Database } from '../server/db/client';
+import { runMigrations } from '../server/db/migrate';
+import { seedDemo } from '../server/db/seed/seed';
+import { DEMO_HOMEOWNERS, STAFF } from '../server/db/seed/scenario';
+import type { AppDeps } from '../server/deps';
+import { registerJobs } from '../server/jobs/register';
+import { generateCalendar, generateHouseholds } from '../scripts/bench/lib/data';
+import { CSRF_HEADER_NAME, signInHomeowner, signInStaff, type Signed } from './support/auth';
+import { localFakes } from './support/fakes';
+
+// Each key route issues a fixed number of SQL statements, whatever the data size: measured at the
+// demo's households, then again after growing the same database to 10,000 households with a
+// calendar of visits, agreements and equipment. The database is this file's own.
+const TZ = 'America/Chicago';
+const NOW = DateTime.fromISO('2031-06-02T07:00', { zone: TZ });
+const LARGE = 10_000;
+
+// Statements per request (BEGIN, COMMIT and locks count: each is a round trip).
+const EXPECTED: Record<string, number> = {
+  session: 1,
+  'homeowner-home': 8,
+  'booking-windows': 6,
+  'booking-visit': 19,
+  'customer-search': 3,
+  'customer-page': 11,
+  'dispatch-day': 7,
+  'dispatch-week': 7,
+  renewals: 4,
+};
+
+let admin: pg.Client;
+let dbName: string;
+let database: Database;
+let deps: AppDeps;
+let ctx: { app: ReturnType<typeof createApp>; deps: AppDeps };
+let count = 0;
+let home: Signed;
+let office: Signed;
+let propertyId: string;
+let customerId: string;
+const bookFrom = [NOW.plus({ days: 45 }), NOW.plus({ days: 80 })];
+
+async function drain(): Promise<void> {
+  for (let quiet = 0, t = 0; quiet < 3 && t < 200; t++) {
+    await new Promise((r) => setTimeout(r, 20));
+    quiet = database.pool.waitingCount === 0 && database.pool.idleCount === database.pool.totalCount ? quiet + 1 : 0;
+  }
+}
+
+async function counted(run: () => Promise<{ status: number }>): Promise<number> {
+  await drain();
+  count = 0;
+  const res = await run();
+  expect(res.status, JSON.stringify((res as { body?: unknown }).body)).toBeLessThan(300);
+  await drain();
+  return count;
+}
+
+async function measure(phase: number): Promise<Record<string, number>> {
+  const get = (s: Signed, path: string) => () => s.agent.get(path);
+  const routes: [string, () => Promise<{ status: number }>][] = [
+    ['session', get(home, '/api/session')],
+    ['homeowner-home', get(home, '/api/my-home')],
+    ['booking-windows', get(home, `/api/booking/windows?propertyId=${propertyId}&reason=no_cooling&days=14`)],
+    [
+      'booking-visit',
+      async () => {
+        const from = bookFrom[phase]!.toISODate();
+        const offer = await home.agent.get(`/api/booking/windows?propertyId=${propertyId}&reason=no_cooling&from=${from}&days=14`).expect(200);
+        const windowStart = (offer.body as { windows: { start: string }[] }).windows[0]!.start;
+        count = 0;
+        return home.agent.post('/api/booking/visits').set(CSRF_HEADER_NAME, home.csrf).send({ propertyId, reason: 'no_cooling', windowStart, noEmergency: true });
+      },
+    ],
+    ['customer-search', get(office, '/api/customers?q=wood&pageSize=25')],
+    ['customer-page', get(office, `/api/customers/${customerId}`)],
+    ['dispatch-day', get(office, `/api/dispatch/board?from=${NOW.toISODate()}&days=1`)],
+    ['dispatch-week', get(office, `/api/dispatch/board?from=${NOW.startOf('week').toISODate()}&days=7`)],
+    ['renewals', get(office, '/api/renewals?view=due30')],
+  ];
+  const out: Record<string, number> = {};
+  for (const [name, run] of routes) {
+    if (name !== 'booking-visit') await run(); // warm: the first request may fill a cache
+    if (process.env.SHOW_QUERIES) console.log(`== ${name}`);
+    out[name] = await counted(run);
+  }
+  return out;
+}
+
+/** Equipment and agreements for every household without them (plain SQL, as the bench does). */
+async function furnish(pool: pg.Pool): Promise<void> {
+  await pool.query(
+    `insert into equipment (property_id, kind, make, model, installed_on)
+     select p.id, k.kind, 'Bench', k.model, ($1::date - ((abs(hashtext(p.id::text)) % 5000) || ' days')::interval)::date
+     from properties p cross join (values ('condensing_unit', 'AC36'), ('gas_furnace', 'GF80'), ('thermostat', 'T-7')) as k(kind, model)
+     where not exists (select 1 from equipment e where e.property_id = p.id)`,
+    [NOW.toISODate()],
+  );
+  await pool.query(
+    `with v as (select id, yearly_price_cents, row_number() over (order by id) as n from plan_versions),
+          p as (select p.id, p.customer_id, abs(hashtext(p.id::text)) as h from properties p
+                where not exists (select 1 from agreements a where a.property_id = p.id))
+     insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, auto_renew)
+     select p.customer_id, p.id, v.id,
+            case when p.h % 380 - 20 < 0 then 'past_due' when p.h % 380 - 20 <= 60 then 'renewal_due' else 'active' end,
+            $1::date + (p.h % 380 - 20) - 365, $1::date + (p.h % 380 - 20), v.yearly_price_cents, p.h % 5 < 2
+     from p join v on v.n = 1 + p.h % (select count(*) from v)
+     where p.h % 10 < 6`,
+    [NOW.toISODate()],
+  );
+  await pool.query('analyze');
+}
+
+beforeAll(async () => {
+  admin = new pg.Client({ connectionString: inject('databaseUrl') });
+  await admin.connect();
+  dbName = `sw_counts_${process.pid}_${Date.now().toString(36)}`;
+  await admin.query(`create database ${dbName}`);
+  const url = new URL(inject('databaseUrl'));
+  url.pathname = `/${dbName}`;
+  await runMigrations(url.toString());
+  database = createDatabase(url.toString(), 5);
+  database.pool.on('connect', (client) => {
+    const query = client.query.bind(client) as (...args: unknown[]) => unknown;
+    (client as unknown as { query: (...args: unknown[]) => unknown }).query = (...args: unknown[]) => {
+      count++;
+      if (process.env.SHOW_QUERIES) console.log(typeof args[0] === 'string' ? args[0] : (args[0] as { text?: string }).text);
+      return query(...args);
+    };
+  });
+  await seedDemo(database.db, NOW.minus({ days: 60 }));
+  await furnish(database.pool);
+  await generateCalendar(database.pool, { technicians: 20, visits: 100, days: 14, from: NOW, slots: ['08:00'] });
+  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: url.toString(), LOG_LEVEL: 'silent' });
+  deps = { config, database, clock: () => NOW.toJSDate(), logger: pino({ level: 'silent' }), ...localFakes() };
+  registerJobs(deps);
+  ctx = { app: createApp(deps), deps };
+  home = await signInHomeowner(ctx, DEMO_HOMEOWNERS[0].email);
+  office = await signInStaff(ctx, STAFF.find((s) => s.role === 'office')!.email);
+  const { rows } = await database.pool.query<{ id: string; customer_id: string }>(
+    `select p.id, p.customer_id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 order by p.id limit 1`,
+    [DEMO_HOMEOWNERS[0].email],
+  );
+  propertyId = rows[0]!.id;
+  customerId = rows[0]!.customer_id;
+}, 300_000);
+
+afterAll(async () => {
+  await database?.close();
+  if (dbName) await admin.query(`drop database if exists ${dbName} with (force)`);
+  await admin?.end();
+});
+
+describe('statements per request', () => {
+  it('are fixed for every key route, at the demo size and at 10,000 households', async () => {
+    const small = await measure(0);
+    const households = Number((await database.pool.query('select count(*) from customers')).rows[0].count);
+    await generateHouseholds(database.pool, LARGE - households);
+    await furnish(database.pool);
+    await generateCalendar(database.pool, { technicians: 20, visits: 1600, days: 30, from: NOW, slots: ['09:45', '11:30', '13:15', '15:00'] });
+    const large = await measure(1);
+    console.log(JSON.stringify({ small, large }));
+    expect(large).toEqual(small);
+    expect(small).toEqual(EXPECTED);
+  }, 600_000);
+});
+
