@@ -1,0 +1,14 @@
+CREATE TABLE "mail_suppressions" (
+	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
+	"email" text NOT NULL,
+	"purpose" text NOT NULL,
+	"customer_id" uuid,
+	"source" text NOT NULL,
+	"created_at" timestamp with time zone DEFAULT now() NOT NULL,
+	CONSTRAINT "mail_suppressions_purpose" CHECK ("mail_suppressions"."purpose" in ('reminders'))
+);
+--> statement-breakpoint
+ALTER TABLE "equipment" DROP CONSTRAINT "equipment_refrigerant";--> statement-breakpoint
+ALTER TABLE "mail_suppressions" ADD CONSTRAINT "mail_suppressions_customer_id_customers_id_fk" FOREIGN KEY ("customer_id") REFERENCES "public"."customers"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
+CREATE UNIQUE INDEX "mail_suppressions_email_purpose_key" ON "mail_suppressions" USING btree (lower("email"),"purpose");--> statement-breakpoint
+ALTER TABLE "equipment" ADD CONSTRAINT "equipment_refrigerant" CHECK (refrigerant is null or refrigerant in ('R-410A', 'R-22', 'R-32', 'R-454B', 'R-407C'));
