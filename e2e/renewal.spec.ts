@@ -71,3 +71,40 @@ test('renewing online with 4242 extends the agreement a year and e-mails the rec
   await page.getByRole('link', { name: 'Invoices' }).first().click();
   await expect(page.getByRole('link', { name: /Plan renewal/ })).toBeVisible();
 });
+
+test('after renewing early the current term stays in force: the technician sees today\'s visit covered, the office sees both terms', async ({ page, browser }) => {
+  await signInAsDana(page);
+  const through = (await coveredThrough(page).textContent())!.trim();
+  // The term that was in force before renewing is still shown, ending a year before the new last day.
+  const year = Number(/(\d{4})$/.exec(through)![1]);
+  const currentLastDay = through.replace(String(year), String(year - 1));
+  await expect(page.getByTestId('current-term').first()).toContainText(`to ${currentLastDay}`);
+
+  const tech = await browser.newPage();
+  await tech.goto('/staff/sign-in');
+  await tech.getByLabel('E-mail address').fill(DEMO.technician);
+  await tech.getByLabel('Password').fill(DEMO.staffPassword);
+  await tech.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await tech.getByRole('link', { name: /Tune-up, Whitfield household/ }).click();
+  await expect(tech.getByRole('heading', { name: /Covered: Priority Comfort/ })).toBeVisible();
+  await expect(tech.getByText(`Covered through ${currentLastDay}`)).toBeVisible();
+  await tech.close();
+
+  const office = await browser.newPage();
+  await office.goto('/staff/sign-in');
+  await office.getByLabel('E-mail address').fill(DEMO.office);
+  await office.getByLabel('Password').fill(DEMO.staffPassword);
+  await office.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await expect(office).toHaveURL(/\/office$/);
+  await office.goto('/office/customers');
+  await office.getByLabel('Search households').fill('Whitfield');
+  await office.getByRole('link', { name: /Whitfield/ }).first().click();
+  await expect(office).toHaveURL(/\/office\/customers\/[0-9a-f-]{36}$/);
+  const terms = office.getByRole('table', { name: /Terms of the Priority Comfort agreement/ });
+  await expect(terms.getByRole('row')).toHaveCount(3);
+  await expect(terms.getByRole('row').nth(1)).toContainText(`to ${currentLastDay}`);
+  await expect(terms.getByRole('row').nth(1)).toContainText('In force');
+  await expect(terms.getByRole('row').nth(2)).toContainText(`to ${through}`);
+  await expect(terms.getByRole('row').nth(2)).toContainText(/Invoice \d+, \$[\d,.]+ paid/);
+  await office.close();
+});

@@ -7,6 +7,7 @@ import { pinoHttp } from 'pino-http';
 import type { Config } from './config';
 import type { AppDeps } from './deps';
 import { authMiddleware } from './auth/session';
+import { UNSUBSCRIBE_PATH } from './mail/unsubscribe';
 import { guardParams, jsonBodiesOnly, sameOriginWrites, storableTextOnly } from './http/edge';
 import { apiNotFound, errorHandler, notFoundAnywhere } from './http/errors';
 import { apiRouters } from './routes';
@@ -65,7 +66,7 @@ export function createApp(deps: AppDeps): Express {
   const rawMounts = apiRouters.filter((r) => r.rawBody).map((r) => r.path);
   const multipartMounts = apiRouters.filter((r) => r.multipart).map((r) => r.path);
   // Refusals that need no session or body come first: another site's writes, then non-JSON bodies.
-  app.use(sameOriginWrites(config));
+  app.use(sameOriginWrites(config, [UNSUBSCRIBE_PATH]));
   app.use(jsonBodiesOnly({ rawMounts, multipartMounts }));
   // Sessions, passport and CSRF; raw-body webhook routes carry their own signature.
   app.use(authMiddleware(deps, rawMounts));

@@ -29,6 +29,8 @@ const schema = z.object({
   MAILBOX_URL: z.string().optional(),
   STRIPE_SECRET_KEY: z.string().min(1).optional(),
   STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
+  /** Signs the unsubscribe links in reminders; derived from SESSION_SECRET when unset. */
+  UNSUBSCRIBE_SECRET: z.string().min(16).optional(),
   STRIPE_API_URL: z.url().optional(),
   STORAGE_DIR: z.string().default('.data/uploads'),
   // Any S3-compatible store; when the bucket is unset, files go to STORAGE_DIR.

@@ -5,6 +5,8 @@ import { billingRoutes } from './billing/billing.routes';
 import { planRoutes } from './plans/plans.routes';
 import { renewalRoutes } from './renewals/renewals.routes';
 import { webhookRoutes } from './webhooks/webhooks.routes';
+import { unsubscribeRoutes } from './mail/unsubscribe.routes';
+import { UNSUBSCRIBE_PATH } from './mail/unsubscribe';
 import { auditRoutes } from './audit/audit.routes';
 import { authRoutes } from './auth/auth.routes';
 import { sessionRoutes } from './auth/session.routes';
@@ -35,6 +37,8 @@ export interface ApiRouter {
 export const apiRouters: ApiRouter[] = [
   { path: '/api/health', build: healthRoutes },
   { path: '/api/webhooks', build: webhookRoutes, rawBody: true },
+  // Mail programs post the one-click opt-out as a form (RFC 8058): a raw-body mount, signed by its token.
+  { path: UNSUBSCRIBE_PATH, build: unsubscribeRoutes, rawBody: true },
   { path: '/api/plans', build: planRoutes },
   { path: '/api/agreements', build: agreementRoutes },
   { path: '/api/invoices', build: billingRoutes },

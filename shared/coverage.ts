@@ -1,6 +1,7 @@
 // What a household's maintenance agreement covers for one visit. Pure: the server gathers the
 // agreement, its plan version and the term's visits, and this decides from them.
 import { AGREEMENT_STATUSES, AGREEMENT_STATUS_LABELS, type AgreementStatus } from './agreements';
+import { coveredThroughLabel, formatTermDay, termLastDay, termRangeLabel } from './agreement-terms';
 import { assertBps, assertCents, formatUsd } from './money';
 import { SeasonInputError, seasonOf, type Season, type SeasonSettings } from './seasons';
 
@@ -64,7 +65,8 @@ export interface Coverage {
   status: AgreementStatus | null;
   statusLabel: string;
   planName: string | null;
-  term: { startsOn: string; endsOn: string } | null;
+  /** The term in force on the visit's date (end exclusive), with its last day and how screens show it. */
+  term: { startsOn: string; endsOn: string; lastDay: string; label: string; lastDayLabel: string } | null;
   allowances: SeasonAllowance[];
   /** The season this visit's tune-up belongs to; null for service calls. */
   tuneUpSeason: TuneUpSeason | null;
@@ -198,7 +200,7 @@ export function coverageFor(input: {
 
   const notes: string[] = [];
   if (!dated) {
-    notes.push(visit.onDate < startsOn ? `The agreement starts on ${startsOn}, after this visit.` : `The agreement term ended on ${endsOn}: regular prices apply until it is renewed.`);
+    notes.push(visit.onDate < startsOn ? `The agreement starts on ${formatTermDay(startsOn)}, after this visit.` : `The agreement term ended on ${formatTermDay(termLastDay({ startsOn, endsOn }))}: regular prices apply until it is renewed.`);
   } else if (!covered) {
     notes.push(`Agreement is ${AGREEMENT_STATUS_LABELS[a.status].toLowerCase()}: plan benefits are on hold.`);
   }
@@ -221,7 +223,7 @@ export function coverageFor(input: {
     status: a.status,
     statusLabel: AGREEMENT_STATUS_LABELS[a.status],
     planName: typeof p.name === 'string' ? p.name : null,
-    term: { startsOn, endsOn },
+    term: { startsOn, endsOn, lastDay: termLastDay({ startsOn, endsOn }), label: termRangeLabel({ startsOn, endsOn }), lastDayLabel: coveredThroughLabel({ startsOn, endsOn }) },
     allowances,
     tuneUpSeason,
     tuneUpIncluded,

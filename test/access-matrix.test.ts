@@ -73,6 +73,9 @@ const NO_SUCH_ID = '00000000-0000-4000-8000-000000000000';
 
 const ROUTES: Record<string, Row> = {
   'POST /api/webhooks/stripe': { allow: 'public' },
+  // Signed by the token in its link, for a mail program's one-click opt-out (RFC 8058).
+  'GET /api/unsubscribe': { allow: 'public' },
+  'POST /api/unsubscribe': { allow: 'public' },
   'GET /api/plans': { allow: SIGNED_IN },
   'GET /api/plans/:id/versions': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
   'POST /api/plans': { allow: ['owner'] },

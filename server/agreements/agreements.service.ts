@@ -3,6 +3,8 @@ import type { InvoiceLine } from '../../shared/money';
 import { formatUsd } from '../../shared/money';
 import { addDays, daysBetween, DEFAULT_GRACE_DAYS, lapseDate, lastCoveredDay, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
 import type { AgreementView, EnrollInput, PlanView } from '../../shared/schemas/plans';
+import { coveredThroughLabel, termLastDay, termRangeLabel } from '../../shared/agreement-terms';
+import { agreementTermViews } from './term-in-force';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess } from '../auth/access';
@@ -30,7 +32,7 @@ function termLines(plan: PlanRow, v: PlanVersionRow, systems: number, start: str
   const credit = Math.min(creditCents, v.yearlyPriceCents);
   const lines: InvoiceLine[] = [
     {
-      description: `${plan.name} maintenance agreement, ${start} to ${lastCoveredDay(start)}${credit ? ` (less ${formatUsd(credit)} credit from a plan change)` : ''}`,
+      description: `${plan.name} maintenance agreement, ${termRangeLabel({ startsOn: start, endsOn: termEnd(start) })}${credit ? ` (less ${formatUsd(credit)} credit from a plan change)` : ''}`,
       kind: 'plan_fee',
       quantity: 1,
       unitCents: v.yearlyPriceCents - credit,
@@ -73,6 +75,7 @@ export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: stri
   const open = linked.invoices[0];
   const latest = await currentVersion(db, sold.plan.id);
   const opens = renewalWindowOpens(a.endsOn);
+  const termViews = await agreementTermViews(db, a, todayIso);
   const canRenew =
     (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && todayIso >= opens)) && sold.plan.active;
   return {
@@ -85,7 +88,10 @@ export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: stri
     status: a.status,
     startsOn: a.startsOn,
     endsOn: a.endsOn,
-    lastCoveredDay: addDays(a.endsOn, -1),
+    lastCoveredDay: termLastDay(a),
+    lastDayLabel: coveredThroughLabel(a),
+    currentTerm: termViews.find((t) => t.inForce) ?? null,
+    terms: termViews,
     daysLeft: daysBetween(todayIso, a.endsOn),
     systemsCount: a.systemsCount,
     priceCents: a.priceCents,

@@ -1,4 +1,4 @@
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, gt, sql } from 'drizzle-orm';
 import type { PgUpdateSetSource } from 'drizzle-orm/pg-core';
 import type { AgreementStatus } from '../../shared/agreements';
 import { canTransition, nextAgreementStatus, termEnd, type AgreementEvent } from '../../shared/renewals';
@@ -51,7 +51,9 @@ export async function transition(
 
 /**
  * A paid agreement invoice takes effect: an enrollment starts the first term, a renewal adds the
- * term it paid for, a tier change moves the agreement to the new plan version. The unique term
+ * term it paid for after the current one (which stays in force until its last day; the agreement
+ * row then holds the latest paid term, and coverage reads the term in force through
+ * `termsOf`/`termOn`), a tier change moves the agreement to the new plan version. The unique term
  * start makes this idempotent: a second call for the same invoice changes nothing.
  */
 export async function applyPaidAgreementInvoice(tx: Tx, invoice: InvoiceRow, today: string, source: string, actorId: string | null = null): Promise<void> {
@@ -62,6 +64,11 @@ export async function applyPaidAgreementInvoice(tx: Tx, invoice: InvoiceRow, tod
     const [v] = await tx.select().from(planVersions).where(eq(planVersions.id, invoice.planVersionId));
     const priceCents = v ? v.yearlyPriceCents + v.additionalSystemCents * Math.max(agreement.systemsCount - 1, 0) : agreement.priceCents;
     await tx.update(agreements).set({ planVersionId: invoice.planVersionId, priceCents }).where(eq(agreements.id, agreement.id));
+    // The new tier's benefits apply from now on: to the term in force and any paid after it.
+    await tx
+      .update(agreementTerms)
+      .set({ planVersionId: invoice.planVersionId })
+      .where(and(eq(agreementTerms.agreementId, agreement.id), gt(agreementTerms.endsOn, today)));
     await recordHistory(tx, { agreementId: agreement.id, event: 'tier_change_paid', note: `Invoice ${invoice.number ?? ''}`.trim(), actorId });
     return;
   }
@@ -79,6 +86,21 @@ export async function applyPaidAgreementInvoice(tx: Tx, invoice: InvoiceRow, tod
         : (invoice.termStartsOn ?? today)
       : (invoice.termStartsOn ?? agreement.endsOn);
   const end = termEnd(start);
+  if (agreement.status !== 'pending' && start > agreement.startsOn) {
+    // The term the row held so far stays on record (and in force until its last day) before the
+    // row moves on to the new one; terms recorded from the start already have their row.
+    await tx
+      .insert(agreementTerms)
+      .values({
+        agreementId: agreement.id,
+        startsOn: agreement.startsOn,
+        endsOn: agreement.endsOn,
+        planVersionId: agreement.planVersionId,
+        priceCents: agreement.priceCents,
+        source: 'agreement',
+      })
+      .onConflictDoNothing();
+  }
   const inserted = await tx
     .insert(agreementTerms)
     .values({

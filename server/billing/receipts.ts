@@ -1,10 +1,11 @@
 import { eq } from 'drizzle-orm';
+import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
 import { createRequire } from 'node:module';
 import PDFDocument from 'pdfkit';
 import { formatUsd } from '../../shared/money';
 import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../../shared/schemas/billing';
 import type { AppDeps } from '../deps';
-import { customers, payments } from '../db/schema';
+import { agreementTerms, customers, payments } from '../db/schema';
 import { renderEmail } from '../integrations/mail-layout';
 import { queueMail, type OutboxDeps } from '../mail/outbox';
 import { invoiceView } from './invoices';
@@ -107,12 +108,14 @@ export async function sendReceipt(deps: Pick<AppDeps, 'config'> & OutboxDeps, pa
   const pdf = await renderInvoicePdf(view, company, payment);
   const what =
     view.purpose === 'renewal' ? 'Your maintenance agreement is renewed.' : view.purpose === 'enrollment' ? 'Welcome: your maintenance agreement is active.' : 'Thank you for your payment.';
+  // The term this payment bought, written as every screen writes it (shared/agreement-terms.ts).
+  const [term] = await db.select({ startsOn: agreementTerms.startsOn, endsOn: agreementTerms.endsOn }).from(agreementTerms).where(eq(agreementTerms.invoiceId, view.id)).limit(1);
   const base = deps.config.publicUrl.replace(/\/$/, '');
   const body = renderEmail({
     title: `Receipt for invoice ${view.number}`,
     paragraphs: [
       `Hello ${view.customerName},`,
-      what,
+      term ? `${what} Term: ${termRangeLabel(term)}. ${coveredThroughLabel(term)}.` : what,
       `We received ${formatUsd(pay.amountCents)} by ${METHOD_LABEL[pay.method].toLowerCase()}${pay.reference ? ` (${pay.reference})` : ''}. The invoice and receipt are attached as a PDF.`,
     ],
     action: { label: 'View your invoices', url: `${base}/portal/invoices/${view.id}` },

@@ -4,7 +4,8 @@ import { REMINDER_KINDS, REMINDER_LABELS, reminderDecision, reminderWording, typ
 import type { ReminderCampaignSummary, ReminderPreview, ReminderRecipient } from '../../shared/schemas/campaigns';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
-import type { Db } from '../db/client';
+import type { Db, Tx } from '../db/client';
+import { isSuppressed, unsubscribeLinks } from '../mail/unsubscribe';
 import { agreements, customers, equipment, planVersions, properties, reminderCampaigns, reminderSends, users, visits } from '../db/schema';
 import { companyRow } from '../company/company';
 import { AppError, notFound } from '../http/errors';
@@ -101,19 +102,34 @@ export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | '
   const info = await companyRow(db);
   for (;;) {
     const claimed = await db.transaction(async (tx) => {
-      const batch = await tx.execute<{ id: string; email: string; kind: ReminderKind }>(
-        sql`select id, email, kind from reminder_sends where campaign_id = ${campaignId} and status = 'pending' order by created_at limit ${BATCH} for update skip locked`,
+      const batch = await tx.execute<{ id: string; email: string; kind: ReminderKind; customer_id: string }>(
+        sql`select id, email, kind, customer_id from reminder_sends where campaign_id = ${campaignId} and status = 'pending' order by created_at limit ${BATCH} for update skip locked`,
       );
       for (const row of batch.rows) {
+        // An address that opted out gets no reminder, checked at the moment of sending.
+        if (await isSuppressed(tx, row.email, 'reminders')) {
+          await tx.update(reminderSends).set({ status: 'failed', error: 'Unsubscribed: not sent.' }).where(eq(reminderSends.id, row.id));
+          continue;
+        }
         const words = reminderWording(row.kind, info.name);
+        const unsubscribe = unsubscribeLinks(deps, row.customer_id, 'reminders', info.email);
         const { html, text } = renderEmail({
           title: words.subject,
           paragraphs: words.paragraphs,
-          action: { label: words.action, url: `${deps.config.publicUrl}/portal` },
-          footer: `${info.name}. You get this because your home is on one of our maintenance plans or its equipment record suggests it is due.`,
+          action: { label: words.action, url: await bookingLink(tx, deps.config.publicUrl, row.customer_id, row.kind) },
+          // Commercial mail carries the sender's postal address and a way to opt out (15 U.S.C. § 7704(a)(5)).
+          footer: `${info.name} · ${postalAddress(info)}. You get this because your home is on one of our maintenance plans or its equipment record suggests it is due. Unsubscribe from reminders: ${unsubscribe.url}`,
         });
         try {
-          await mailer.send({ to: row.email, subject: words.subject, text, html, idempotencyKey: `reminder-${row.id}` });
+          await mailer.send({
+            to: row.email,
+            fromName: info.name,
+            subject: words.subject,
+            text,
+            html,
+            idempotencyKey: `reminder-${row.id}`,
+            list: { unsubscribeUrl: unsubscribe.url, unsubscribeMailto: unsubscribe.mailto },
+          });
           await tx.update(reminderSends).set({ status: 'sent', sentAt: deps.clock(), error: null }).where(eq(reminderSends.id, row.id));
         } catch (err) {
           await tx.update(reminderSends).set({ status: 'failed', error: err instanceof Error ? err.message.slice(0, 300) : 'send failed' }).where(eq(reminderSends.id, row.id));
@@ -125,6 +141,23 @@ export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | '
   }
   const [left] = await db.select({ n: sql<number>`count(*)::int` }).from(reminderSends).where(and(eq(reminderSends.campaignId, campaignId), eq(reminderSends.status, 'pending')));
   if (left!.n === 0) await db.update(reminderCampaigns).set({ finishedAt: deps.clock() }).where(and(eq(reminderCampaigns.id, campaignId), isNull(reminderCampaigns.finishedAt)));
+}
+
+const postalAddress = (c: { street: string; city: string; state: string; zip: string }) => `${c.street}, ${c.city}, ${c.state} ${c.zip}`;
+
+/** Every reminder is for maintenance: its button opens the booking stepper on a tune-up for the household's home. */
+async function bookingLink(db: Db | Tx, publicUrl: string, customerId: string, _kind: ReminderKind): Promise<string> {
+  const [home] = await db
+    .select({ id: properties.id })
+    .from(properties)
+    .leftJoin(agreements, and(eq(agreements.propertyId, properties.id), inArray(agreements.status, ['active', 'renewal_due'])))
+    .where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt)))
+    .orderBy(sql`${agreements.id} is null`, asc(properties.createdAt))
+    .limit(1);
+  const url = new URL('/portal/booking', publicUrl);
+  url.searchParams.set('kind', 'tune_up');
+  if (home) url.searchParams.set('property', home.id);
+  return url.toString();
 }
 
 export async function campaignSummary(deps: Pick<AppDeps, 'database'>, campaignId: string): Promise<ReminderCampaignSummary> {

@@ -10,6 +10,8 @@ import { agreements, contacts, customerNotes, customers, files, invoices, planVe
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { companyToday } from '../company/company';
+import { agreementTermViews } from '../agreements/term-in-force';
+import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
 import type { AppDeps } from '../deps';
 import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
 
@@ -101,7 +103,9 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
   );
   const propertyOut = propertyRows.map((p) => ({ ...toProperty(p), equipment: equipmentRows.filter((e) => e.propertyId === p.id) }));
   const visitOut = visitRows;
-  const agreementOut = agreementRows.map(({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, priceCents: a.priceCents }));
+  const agreementOut = await Promise.all(
+    agreementRows.map(async ({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, lastDayLabel: coveredThroughLabel(a), priceCents: a.priceCents, terms: await agreementTermViews(db, a, today) })),
+  );
   const invoiceOut = invoiceRows.map((i) => ({ id: i.id, number: i.number, status: i.status, totalCents: i.totalCents, paidCents: i.paidCents, issuedAt: iso(i.issuedAt), createdAt: i.createdAt.toISOString() }));
   const noteOut: Note[] = noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() }));
   const fileOut = fileRows.map(toFile);
@@ -116,7 +120,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       detail: [e.make, e.model].filter(Boolean).join(' '),
       refId: e.id,
     })),
-    ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${a.startsOn} to ${a.endsOn}`, refId: a.id })),
+    ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${termRangeLabel(a)}`, refId: a.id })),
     ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})${v.windowMissed ? ' · window passed, not started' : ''}`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
     ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${formatUsd(i.totalCents)}, ${i.status}`, refId: i.id })),
     ...noteOut.map((n) => ({ at: n.createdAt, kind: 'note' as const, title: n.audience === 'technician' ? 'Note for the technician' : 'Office note', detail: n.body, refId: n.id })),

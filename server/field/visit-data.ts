@@ -8,6 +8,8 @@ import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, visitTimeLabels } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
+import { termOn } from '../../shared/agreement-terms';
+import { termsOf } from '../agreements/term-in-force';
 import { agreements, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
 import { notFound } from '../http/errors';
@@ -97,61 +99,68 @@ export async function propertyEquipment(db: Db | Tx, propertyId: string): Promis
     .orderBy(asc(equipment.createdAt), asc(equipment.id));
 }
 
-/** Coverage of one visit under the agreement it was booked on (or the property's current one). */
+/**
+ * Coverage of one visit under the agreement it was booked on (or the property's), judged by the
+ * term in force on the visit's date: a renewal paid early leaves the current term's benefits in
+ * place until its last day.
+ */
 export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyInfo): Promise<Coverage> {
-  const cols = {
-    id: agreements.id,
-    status: agreements.status,
-    startsOn: agreements.startsOn,
-    endsOn: agreements.endsOn,
-    planName: plans.name,
-    coolingVisits: planVersions.coolingVisits,
-    heatingVisits: planVersions.heatingVisits,
-    repairDiscountBps: planVersions.repairDiscountBps,
-    diagnosticFeeWaived: planVersions.diagnosticFeeWaived,
-    priorityWindowHours: planVersions.priorityWindowHours,
-  };
-  const base = () => db.select(cols).from(agreements).innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id)).innerJoin(plans, eq(planVersions.planId, plans.id));
   const onDate = localDate(visit.startsAt, info.timeZone);
-  let [a] = visit.agreementId ? await base().where(eq(agreements.id, visit.agreementId)).limit(1) : [];
-  if (!a) {
-    // A visit booked without the agreement still counts under the one whose term holds its date.
-    [a] = await base()
-      .where(and(eq(agreements.propertyId, visit.propertyId), ne(agreements.status, 'canceled'), lt(agreements.startsOn, addDay(onDate)), gte(agreements.endsOn, onDate)))
-      .orderBy(desc(agreements.endsOn))
-      .limit(1);
-  }
   const current: CoverageVisit = { id: visit.id, kind: visit.kind, status: visit.status, onDate };
-  if (!a) return coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents, seasons: info.seasons });
+  const none = () => coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents, seasons: info.seasons });
+  const booked = visit.agreementId ? await db.select().from(agreements).where(eq(agreements.id, visit.agreementId)).limit(1) : [];
+  // A visit booked without the agreement still counts under the one whose term holds its date.
+  const candidates = booked.length
+    ? booked
+    : await db.select().from(agreements).where(and(eq(agreements.propertyId, visit.propertyId), ne(agreements.status, 'canceled'))).orderBy(desc(agreements.endsOn));
+  const terms = await termsOf(db, candidates);
+  const pick = candidates.map((a) => ({ a, term: termOn(terms.get(a.id)!, onDate) })).find((x) => x.term) ?? (booked[0] ? { a: booked[0], term: null } : null);
+  if (!pick) return none();
+  const { a } = pick;
+  // Outside every term, the nearest one tells the technician why: the latest that began by then, else the first.
+  const list = terms.get(a.id)!;
+  const term = pick.term ?? [...list].reverse().find((t) => t.startsOn <= onDate) ?? list[0] ?? { startsOn: a.startsOn, endsOn: a.endsOn, planVersionId: a.planVersionId };
+  const [p] = await db
+    .select({
+      planName: plans.name,
+      coolingVisits: planVersions.coolingVisits,
+      heatingVisits: planVersions.heatingVisits,
+      repairDiscountBps: planVersions.repairDiscountBps,
+      diagnosticFeeWaived: planVersions.diagnosticFeeWaived,
+      priorityWindowHours: planVersions.priorityWindowHours,
+    })
+    .from(planVersions)
+    .innerJoin(plans, eq(planVersions.planId, plans.id))
+    .where(eq(planVersions.id, term.planVersionId))
+    .limit(1);
+  if (!p) return none();
 
-  const zoneStart = DateTime.fromISO(a.startsOn, { zone: info.timeZone }).toJSDate();
-  const zoneEnd = DateTime.fromISO(a.endsOn, { zone: info.timeZone }).toJSDate();
-  const term = await db
+  const zoneStart = DateTime.fromISO(term.startsOn, { zone: info.timeZone }).toJSDate();
+  const zoneEnd = DateTime.fromISO(term.endsOn, { zone: info.timeZone }).toJSDate();
+  const termVisits = await db
     .select({ id: visits.id, kind: visits.kind, status: visits.status, startsAt: visits.startsAt })
     .from(visits)
     .where(and(eq(visits.propertyId, visit.propertyId), gte(visits.startsAt, zoneStart), lt(visits.startsAt, zoneEnd)));
   return coverageFor({
     agreement: {
       status: a.status,
-      startsOn: a.startsOn,
-      endsOn: a.endsOn,
+      startsOn: term.startsOn,
+      endsOn: term.endsOn,
       plan: {
-        name: a.planName,
-        coolingVisits: a.coolingVisits,
-        heatingVisits: a.heatingVisits,
-        repairDiscountBps: a.repairDiscountBps,
-        diagnosticFeeWaived: a.diagnosticFeeWaived,
-        priorityWindowHours: a.priorityWindowHours,
+        name: p.planName,
+        coolingVisits: p.coolingVisits,
+        heatingVisits: p.heatingVisits,
+        repairDiscountBps: p.repairDiscountBps,
+        diagnosticFeeWaived: p.diagnosticFeeWaived,
+        priorityWindowHours: p.priorityWindowHours,
       },
     },
     visit: current,
-    termVisits: term.map((v) => ({ id: v.id, kind: v.kind, status: v.status, onDate: localDate(v.startsAt, info.timeZone) })),
+    termVisits: termVisits.map((v) => ({ id: v.id, kind: v.kind, status: v.status, onDate: localDate(v.startsAt, info.timeZone) })),
     diagnosticFeeCents: info.diagnosticFeeCents,
     seasons: info.seasons,
   });
 }
-
-const addDay = (iso: string) => DateTime.fromISO(iso).plus({ days: 1 }).toISODate()!;
 
 /** Rows for the today list (and the visit header), joined the way the list shows them. */
 export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: CompanyInfo): Promise<TodayVisit[]> {
@@ -171,9 +180,12 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
       city: properties.city,
       state: properties.state,
       zip: properties.zip,
+      agreementId: agreements.id,
       agreementStatus: agreements.status,
       agreementStartsOn: agreements.startsOn,
       agreementEndsOn: agreements.endsOn,
+      agreementPlanVersionId: agreements.planVersionId,
+      agreementPriceCents: agreements.priceCents,
       planName: plans.name,
       technicianName: users.name,
     })
@@ -187,9 +199,17 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
     .leftJoin(users, eq(technicians.userId, users.id))
     .where(where)
     .orderBy(asc(visits.windowStart), asc(visits.startsAt), asc(visits.id));
+  const held = new Map<string, Parameters<typeof termsOf>[1][number]>();
+  for (const r of rows) {
+    if (r.agreementId && r.agreementStatus && r.agreementStartsOn && r.agreementEndsOn && r.agreementPlanVersionId && r.agreementPriceCents !== null) {
+      held.set(r.agreementId, { id: r.agreementId, status: r.agreementStatus, startsOn: r.agreementStartsOn, endsOn: r.agreementEndsOn, planVersionId: r.agreementPlanVersionId, priceCents: r.agreementPriceCents });
+    }
+  }
+  const terms = await termsOf(db, [...held.values()]);
   return rows.map((r) => {
     const onDate = localDate(r.startsAt, info.timeZone);
-    const inTerm = r.agreementStartsOn !== null && r.agreementEndsOn !== null && onDate >= r.agreementStartsOn && onDate < r.agreementEndsOn;
+    // The term in force on the visit's day, not the latest one paid.
+    const inTerm = r.agreementId !== null && termOn(terms.get(r.agreementId) ?? [], onDate) !== null;
     const covered = inTerm && r.agreementStatus !== null && COVERING_STATUSES.includes(r.agreementStatus);
     const label = r.agreementStatus
       ? `${r.planName ?? 'Plan'} · ${inTerm ? AGREEMENT_STATUS_LABELS[r.agreementStatus] : 'Term ended'}`

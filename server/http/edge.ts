@@ -34,9 +34,11 @@ function ownOrigins(req: Request, config: Config): Set<string> {
  * sandboxed frames), or Fetch Metadata saying the request is not same-origin (W3C Fetch Metadata
  * Request Headers; OWASP CSRF Prevention Cheat Sheet). Runs first, before sessions and bodies.
  */
-export function sameOriginWrites(config: Config): RequestHandler {
+export function sameOriginWrites(config: Config, exemptPaths: readonly string[] = []): RequestHandler {
   return (req, _res, next) => {
     if (SAFE_METHODS.has(req.method)) return next();
+    // A mail program's one-click opt-out posts from its own origin (RFC 8058); exactly that path, carrying its signed token.
+    if (exemptPaths.includes(req.path)) return next();
     // "none" is a user typing the address or a bookmark; both it and same-origin are ours.
     const site = req.get('sec-fetch-site');
     if (site !== undefined && site !== 'same-origin' && site !== 'none') throw refusedFromElsewhere();

@@ -49,6 +49,8 @@ export interface OutgoingMail {
   attachments?: MailAttachment[];
   headers?: Record<string, string>;
   list?: MailListHeaders;
+  /** Display name of the sender (the company's name); the address stays the configured one. */
+  fromName?: string;
   /** Same key, same Message-ID: a retried job's second copy can be recognised as a duplicate. */
   idempotencyKey?: string;
 }
@@ -199,7 +201,15 @@ function compose(message: OutgoingMail, fromAddress: string): ComposedMail {
     messageId = `<${createHash('sha256').update(key).digest('hex').slice(0, 32)}@${messageDomain(fromAddress)}>`;
   }
 
+  let from: ComposedMail['from'];
+  if (message.fromName !== undefined) {
+    const name = checkText(message.fromName, 'fromName').trim();
+    if (/[\r\n]/.test(name) || name.length > 200) throw new MailInputError('fromName', 'must be one line of at most 200 characters');
+    from = { name, address: fromAddress };
+  }
+
   return {
+    ...(from ? { from } : {}),
     to: toList,
     subject,
     text,

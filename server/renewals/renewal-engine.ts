@@ -1,4 +1,5 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
+import { formatTermDay, termLastDay } from '../../shared/agreement-terms';
 import Stripe from 'stripe';
 import { formatUsd } from '../../shared/money';
 import {
@@ -242,15 +243,16 @@ export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database
   if (!h.email) return true;
   const company = await companyRow(db);
   const base = deps.config.publicUrl.replace(/\/$/, '');
-  const lastDay = new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${a.endsOn}T00:00:00Z`));
+  // The agreement row holds the latest paid term; its last day reads as on every other screen.
+  const lastDay = formatTermDay(termLastDay(a));
   const auto = a.autoRenew && a.cardLast4;
   const body = renderEmail({
-    title: `Your ${h.planName} agreement renews on ${lastDay}`,
+    title: `Your ${h.planName} agreement is covered through ${lastDay}`,
     paragraphs: [
       `Hello ${h.name},`,
       auto
-        ? `Your maintenance agreement renews automatically on ${lastDay}. We will charge the card ending ${a.cardLast4}. You can switch automatic renewal off in your portal at any time before then.`
-        : `Your maintenance agreement ends on ${lastDay}. Renew online to keep your two tune-ups a year, priority service and your repair discount.`,
+        ? `Your maintenance agreement is covered through ${lastDay} and renews automatically after that day. We will charge the card ending ${a.cardLast4}. You can switch automatic renewal off in your portal at any time before then.`
+        : `Your maintenance agreement is covered through ${lastDay}. Renew online to keep your two tune-ups a year, priority service and your repair discount.`,
       `The renewal price is ${formatUsd(await renewalPrice(deps, a))} for the next 12 months.`,
     ],
     action: { label: auto ? 'Review your agreement' : 'Renew online', url: `${base}/portal/plan` },
@@ -263,7 +265,7 @@ export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database
       key: `renewal-notice-${agreementId}-${a.endsOn}-${opts.daysBefore ?? claim[0]!.id}`,
       message: {
         to: h.email,
-        subject: auto ? `Your agreement renews automatically on ${lastDay}` : `Time to renew: your agreement ends on ${lastDay}`,
+        subject: auto ? `Your agreement renews automatically: covered through ${lastDay}` : `Time to renew: your agreement is covered through ${lastDay}`,
         text: body.text,
         html: body.html,
       },

@@ -1,3 +1,4 @@
+import type { AgreementTermView } from './plans';
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
 import { z } from 'zod';
 import type { Equipment } from './equipment';
@@ -263,7 +264,7 @@ export interface CustomerDetail {
   createdAt: string;
   contacts: Contact[];
   properties: (Property & { equipment: Equipment[] })[];
-  agreements: { id: string; propertyId: string; plan: string; status: string; statusLabel: string; startsOn: string; endsOn: string; priceCents: number }[];
+  agreements: { id: string; propertyId: string; plan: string; status: string; statusLabel: string; startsOn: string; endsOn: string; lastDayLabel: string; priceCents: number; terms: AgreementTermView[] }[];
   /** windowMissed: the window passed and the visit was never started (windowMissed in shared/visits.ts). */
   visits: { id: string; propertyId: string; kind: string; reason: string; reasonLabel: string; status: string; statusLabel: string; startsAt: string; windowStart: string; windowEnd: string; windowMissed: boolean; findings: string; recommendations: string; technicianName: string | null }[];
   invoices: { id: string; number: number | null; status: string; totalCents: number; paidCents: number; issuedAt: string | null; createdAt: string }[];

@@ -62,6 +62,23 @@ export const changeTierSchema = z.object({
 });
 export const cancelAgreementSchema = z.object({ reason: z.string().trim().max(300).default('') });
 
+export interface AgreementTermView {
+  startsOn: string;
+  /** Exclusive end, as termEnd in shared/renewals.ts. */
+  endsOn: string;
+  lastDay: string;
+  label: string;
+  lastDayLabel: string;
+  priceCents: number;
+  planName: string;
+  /** How it was paid: the invoice number and amount, or null for a term carried from before. */
+  invoiceNumber: string | null;
+  paidCents: number | null;
+  source: string;
+  inForce: boolean;
+  upcoming: boolean;
+}
+
 export interface AgreementView {
   id: string;
   customerId: string;
@@ -72,8 +89,14 @@ export interface AgreementView {
   status: AgreementStatus;
   startsOn: string;
   endsOn: string;
-  /** Last day covered (the day before the exclusive end). */
+  /** Last day covered (the day before the exclusive end) of the latest paid term. */
   lastCoveredDay: string;
+  /** "Covered through March 14, 2027" for the latest paid term (shared/agreement-terms.ts). */
+  lastDayLabel: string;
+  /** The term in force today (null before the first starts or after the last ends). */
+  currentTerm: AgreementTermView | null;
+  /** Every term, oldest first. */
+  terms: AgreementTermView[];
   daysLeft: number;
   systemsCount: number;
   priceCents: number;

@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
-import { check, index, integer, jsonb, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
+import { check, index, integer, jsonb, pgTable, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { createdAt, id, inList, tstz, updatedAt } from './columns';
+import { customers } from './customers';
 
 export const MAIL_SEND_STATUSES = ['queued', 'sending', 'retrying', 'sent', 'failed'] as const;
 export type MailSendStatus = (typeof MAIL_SEND_STATUSES)[number];
@@ -41,4 +42,19 @@ export const mailSends = pgTable(
     index('mail_sends_status_idx').on(t.status, t.updatedAt),
     check('mail_sends_status', sql.raw(`status in (${inList(MAIL_SEND_STATUSES)})`)),
   ],
+);
+
+// Addresses that asked for no more mail of one purpose (reminders). Checked when such mail is
+// sent; transactional mail (sign-in links, receipts, booking confirmations) never reads it.
+export const mailSuppressions = pgTable(
+  'mail_suppressions',
+  {
+    id: id(),
+    email: text().notNull(),
+    purpose: text().notNull(),
+    customerId: uuid().references(() => customers.id, { onDelete: 'set null' }),
+    source: text().notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('mail_suppressions_email_purpose_key').on(sql`lower(${t.email})`, t.purpose), check('mail_suppressions_purpose', sql`${t.purpose} in ('reminders')`)],
 );

@@ -63,6 +63,9 @@ export class VisitRequest {
   /** Set by the office when booking for a caller on the phone. */
   readonly customerId = input<string | undefined>(undefined);
   readonly forCaller = input(false);
+  /** From a reminder's link (`?kind=tune_up&property=<id>`): the visit kind and home to pre-select. */
+  readonly kind = input<string | undefined>(undefined);
+  readonly property = input<string | undefined>(undefined);
 
   protected readonly signs = EMERGENCY_SIGNS.map((s) => ({ id: s, label: EMERGENCY_SIGN_LABELS[s] }));
   protected readonly reasons = VISIT_REASONS.map((r) => ({ id: r, label: VISIT_REASON_LABELS[r], icon: REASON_ICONS[r], urgent: URGENT_REASONS.includes(r) }));
@@ -111,6 +114,16 @@ export class VisitRequest {
     effect(() => {
       const o = this.options();
       if (o?.properties.length === 1) untracked(() => this.propertyForm.controls.propertyId.setValue(o.properties[0]!.id));
+    });
+    // A link may name the home and the kind of visit; only a home of this household is taken.
+    effect(() => {
+      const o = this.options();
+      const wanted = this.property();
+      if (o && wanted && o.properties.some((p) => p.id === wanted)) untracked(() => this.propertyForm.controls.propertyId.setValue(wanted));
+    });
+    effect(() => {
+      const reason = reasonForKind(this.kind());
+      if (reason) untracked(() => this.reasonForm.controls.reason.setValue(reason));
     });
     this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => this.propertyId.set(v));
     this.windowForm.controls.windowStart.valueChanges.subscribe((v) => this.windowStart.set(v));
@@ -194,4 +207,10 @@ export class VisitRequest {
       this.busy.set(false);
     }
   }
+}
+
+/** A tune-up link picks the tune-up reason; any reason's own name picks that reason. */
+function reasonForKind(kind: string | undefined): VisitReason | null {
+  if (!kind) return null;
+  return (VISIT_REASONS as readonly string[]).includes(kind) ? (kind as VisitReason) : null;
 }

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, linkedSignal, signal, untracked } from '@angular/core';
+import { formatTermDay } from '../../../../shared/agreement-terms';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -20,7 +21,8 @@ import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { planFeatures } from './plan-features';
 import { PlansApi, type HomeChoice } from './plans-api';
 
-const longDate = (iso: string) => new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
+// Every screen shows a term's days the same way (shared/agreement-terms.ts).
+const longDate = formatTermDay;
 
 /** The homeowner's agreement: what it covers, renewing online, automatic renewal with a saved card, and joining a plan. */
 @Component({

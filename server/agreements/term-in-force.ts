@@ -1,0 +1,86 @@
+import { asc, eq, inArray } from 'drizzle-orm';
+import { coveredThroughLabel, termLastDay, termOn, termRangeLabel, type TermRange } from '../../shared/agreement-terms';
+import type { AgreementTermView } from '../../shared/schemas/plans';
+import type { Db, Tx } from '../db/client';
+import { agreements, agreementTerms, invoices, plans, planVersions } from '../db/schema';
+
+export interface AgreementTerm extends TermRange {
+  /** Null for a term known only from the agreement row (one made before terms were recorded). */
+  id: string | null;
+  planVersionId: string;
+  priceCents: number;
+  invoiceId: string | null;
+  invoiceNumber: string | null;
+  paidCents: number | null;
+  source: string;
+}
+
+type AgreementDates = Pick<typeof agreements.$inferSelect, 'id' | 'startsOn' | 'endsOn' | 'planVersionId' | 'priceCents' | 'status'>;
+
+/**
+ * Every term of each agreement, oldest first. The agreement row holds the latest paid term (the
+ * renewal engine works from its end); a range on the row that no term row records yet (an
+ * agreement set up before terms were kept) counts as a term too. A pending agreement has none.
+ */
+export async function termsOf(db: Db | Tx, rows: readonly AgreementDates[]): Promise<Map<string, AgreementTerm[]>> {
+  const out = new Map<string, AgreementTerm[]>(rows.map((r) => [r.id, []]));
+  if (!rows.length) return out;
+  const found = await db
+    .select({ t: agreementTerms, number: invoices.number, paidCents: invoices.paidCents })
+    .from(agreementTerms)
+    .leftJoin(invoices, eq(invoices.id, agreementTerms.invoiceId))
+    .where(inArray(agreementTerms.agreementId, rows.map((r) => r.id)))
+    .orderBy(asc(agreementTerms.startsOn));
+  for (const { t, number, paidCents } of found) {
+    out.get(t.agreementId)!.push({
+      id: t.id,
+      startsOn: t.startsOn,
+      endsOn: t.endsOn,
+      planVersionId: t.planVersionId,
+      priceCents: t.priceCents,
+      invoiceId: t.invoiceId,
+      invoiceNumber: number === null ? null : String(number),
+      paidCents,
+      source: t.source,
+    });
+  }
+  for (const r of rows) {
+    const list = out.get(r.id)!;
+    if (r.status === 'pending' || list.some((t) => t.startsOn === r.startsOn)) continue;
+    list.push({ id: null, startsOn: r.startsOn, endsOn: r.endsOn, planVersionId: r.planVersionId, priceCents: r.priceCents, invoiceId: null, invoiceNumber: null, paidCents: null, source: 'agreement' });
+    list.sort((a, b) => (a.startsOn < b.startsOn ? -1 : 1));
+  }
+  return out;
+}
+
+/** The term of one agreement in force on `date` (see `termOn` in shared/agreement-terms.ts). */
+export async function termInForce(db: Db | Tx, agreement: AgreementDates, date: string): Promise<AgreementTerm | null> {
+  const terms = (await termsOf(db, [agreement])).get(agreement.id)!;
+  return termOn(terms, date);
+}
+
+/** Every term of an agreement as the portal and the office show it, with the one in force today marked. */
+export async function agreementTermViews(db: Db | Tx, a: AgreementDates, todayIso: string): Promise<AgreementTermView[]> {
+  const terms = (await termsOf(db, [a])).get(a.id)!;
+  const inForce = termOn(terms, todayIso);
+  const versionIds = [...new Set(terms.map((t) => t.planVersionId))];
+  const named = versionIds.length
+    ? await db.select({ id: planVersions.id, name: plans.name }).from(planVersions).innerJoin(plans, eq(plans.id, planVersions.planId)).where(inArray(planVersions.id, versionIds))
+    : [];
+  const names = new Map(named.map((r) => [r.id, r.name]));
+  return terms.map((t) => ({
+    startsOn: t.startsOn,
+    endsOn: t.endsOn,
+    lastDay: termLastDay(t),
+    label: termRangeLabel(t),
+    lastDayLabel: coveredThroughLabel(t),
+    priceCents: t.priceCents,
+    planName: names.get(t.planVersionId) ?? '',
+    invoiceNumber: t.invoiceNumber,
+    paidCents: t.paidCents,
+    source: t.source,
+    inForce: t === inForce,
+    upcoming: t.startsOn > todayIso,
+  }));
+}
+
