@@ -26,7 +26,8 @@ test('the office sends seasonal tune-up reminders and each household gets one e-
   await expect(page.getByText(`${count} sent`).first()).toBeVisible({ timeout: 30_000 });
   const mail = await latestMail(DEMO.homeownerA, { after: startedAt - 1000 });
   expect(mail.subject).toBe('Time to book your spring cooling tune-up');
-  expect(mail.links.some((l) => l.endsWith('/portal'))).toBe(true);
+  // The button opens the booking stepper with the tune-up and the home already chosen.
+  expect(mail.links.some((l) => /\/portal\/booking\?kind=tune_up&property=[0-9a-f-]{36}$/.test(l))).toBe(true);
 
   // Sent once: the household is no longer in the list of who is due.
   await expect(page.getByRole('row').filter({ hasText: DEMO.homeownerA })).toHaveCount(0);
