@@ -10,7 +10,7 @@ import { seedDemo } from '../server/db/seed/seed';
 import { DEMO_HOMEOWNERS, STAFF } from '../server/db/seed/scenario';
 import type { AppDeps } from '../server/deps';
 import { registerJobs } from '../server/jobs/register';
-import { generateCalendar, generateHouseholds } from '../scripts/bench/lib/data';
+import { furnishHouseholds, generateCalendar, generateHouseholds } from '../scripts/bench/lib/data';
 import { CSRF_HEADER_NAME, signInHomeowner, signInStaff, type Signed } from './support/auth';
 import { localFakes } from './support/fakes';
 
@@ -28,7 +28,7 @@ const EXPECTED: Record<string, number> = {
   'booking-windows': 6,
   'booking-visit': 19,
   'customer-search': 3,
-  // Two of these read the terms of the household's agreement (one agreement in the fixture): to batch next.
+  // Two of these read the terms of all the household's agreements at once.
   'customer-page': 13,
   // The board plus the queue of requests to confirm, which spans all dates: one query of its own.
   'dispatch-day': 8,
@@ -95,27 +95,8 @@ async function measure(phase: number): Promise<Record<string, number>> {
   return out;
 }
 
-/** Equipment and agreements for every household without them (plain SQL, as the bench does). */
 async function furnish(pool: pg.Pool): Promise<void> {
-  await pool.query(
-    `insert into equipment (property_id, kind, make, model, installed_on)
-     select p.id, k.kind, 'Bench', k.model, ($1::date - ((abs(hashtext(p.id::text)) % 5000) || ' days')::interval)::date
-     from properties p cross join (values ('condensing_unit', 'AC36'), ('gas_furnace', 'GF80'), ('thermostat', 'T-7')) as k(kind, model)
-     where not exists (select 1 from equipment e where e.property_id = p.id)`,
-    [NOW.toISODate()],
-  );
-  await pool.query(
-    `with v as (select id, yearly_price_cents, row_number() over (order by id) as n from plan_versions),
-          p as (select p.id, p.customer_id, abs(hashtext(p.id::text)) as h from properties p
-                where not exists (select 1 from agreements a where a.property_id = p.id))
-     insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, auto_renew)
-     select p.customer_id, p.id, v.id,
-            case when p.h % 380 - 20 < 0 then 'past_due' when p.h % 380 - 20 <= 60 then 'renewal_due' else 'active' end,
-            $1::date + (p.h % 380 - 20) - 365, $1::date + (p.h % 380 - 20), v.yearly_price_cents, p.h % 5 < 2
-     from p join v on v.n = 1 + p.h % (select count(*) from v)
-     where p.h % 10 < 6`,
-    [NOW.toISODate()],
-  );
+  await furnishHouseholds(pool, NOW.toISODate()!);
   await pool.query('analyze');
 }
 

@@ -59,28 +59,40 @@ export async function termInForce(db: Db | Tx, agreement: AgreementDates, date: 
   return termOn(terms, date);
 }
 
-/** Every term of an agreement as the portal and the office show it, with the one in force today marked. */
+/** Every term of one agreement, as the office and the portal show them. */
 export async function agreementTermViews(db: Db | Tx, a: AgreementDates, todayIso: string): Promise<AgreementTermView[]> {
-  const terms = (await termsOf(db, [a])).get(a.id)!;
-  const inForce = termOn(terms, todayIso);
-  const versionIds = [...new Set(terms.map((t) => t.planVersionId))];
+  return (await agreementTermViewsFor(db, [a], todayIso)).get(a.id)!;
+}
+
+/** The terms of several agreements in two queries, whatever their number (the household page shows them all). */
+export async function agreementTermViewsFor(db: Db | Tx, rows: readonly AgreementDates[], todayIso: string): Promise<Map<string, AgreementTermView[]>> {
+  const byAgreement = await termsOf(db, rows);
+  const versionIds = [...new Set([...byAgreement.values()].flat().map((t) => t.planVersionId))];
   const named = versionIds.length
     ? await db.select({ id: planVersions.id, name: plans.name }).from(planVersions).innerJoin(plans, eq(plans.id, planVersions.planId)).where(inArray(planVersions.id, versionIds))
     : [];
   const names = new Map(named.map((r) => [r.id, r.name]));
-  return terms.map((t) => ({
-    startsOn: t.startsOn,
-    endsOn: t.endsOn,
-    lastDay: termLastDay(t),
-    label: termRangeLabel(t),
-    lastDayLabel: coveredThroughLabel(t),
-    priceCents: t.priceCents,
-    planName: names.get(t.planVersionId) ?? '',
-    invoiceNumber: t.invoiceNumber,
-    paidCents: t.paidCents,
-    source: t.source,
-    inForce: t === inForce,
-    upcoming: t.startsOn > todayIso,
-  }));
+  const out = new Map<string, AgreementTermView[]>();
+  for (const [id, terms] of byAgreement) {
+    const inForce = termOn(terms, todayIso);
+    out.set(
+      id,
+      terms.map((t) => ({
+        startsOn: t.startsOn,
+        endsOn: t.endsOn,
+        lastDay: termLastDay(t),
+        label: termRangeLabel(t),
+        lastDayLabel: coveredThroughLabel(t),
+        priceCents: t.priceCents,
+        planName: names.get(t.planVersionId) ?? '',
+        invoiceNumber: t.invoiceNumber,
+        paidCents: t.paidCents,
+        source: t.source,
+        inForce: t === inForce,
+        upcoming: t.startsOn > todayIso,
+      })),
+    );
+  }
+  return out;
 }
 

@@ -10,7 +10,7 @@ import { agreements, contacts, customerNotes, customers, files, invoices, planVe
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { companyToday } from '../company/company';
-import { agreementTermViews } from '../agreements/term-in-force';
+import { agreementTermViewsFor } from '../agreements/term-in-force';
 import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
 import type { AppDeps } from '../deps';
 import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
@@ -103,9 +103,12 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
   );
   const propertyOut = propertyRows.map((p) => ({ ...toProperty(p), equipment: equipmentRows.filter((e) => e.propertyId === p.id) }));
   const visitOut = visitRows;
-  const agreementOut = await Promise.all(
-    agreementRows.map(async ({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, lastDayLabel: coveredThroughLabel(a), priceCents: a.priceCents, terms: await agreementTermViews(db, a, today) })),
+  const termViews = await agreementTermViewsFor(
+    db,
+    agreementRows.map(({ a }) => a),
+    today,
   );
+  const agreementOut = agreementRows.map(({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, lastDayLabel: coveredThroughLabel(a), priceCents: a.priceCents, terms: termViews.get(a.id)! }));
   const invoiceOut = invoiceRows.map((i) => ({ id: i.id, number: i.number, status: i.status, totalCents: i.totalCents, paidCents: i.paidCents, issuedAt: iso(i.issuedAt), createdAt: i.createdAt.toISOString() }));
   const noteOut: Note[] = noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() }));
   const fileOut = fileRows.map(toFile);
