@@ -27,7 +27,7 @@ import type { Mailer } from '../../server/integrations/mail';
 import { registerJobs } from '../../server/jobs/register';
 import { localFakes } from '../../test/support/fakes';
 import { DEMO_HOMEOWNERS, DEMO_STAFF_PASSWORD, STAFF } from '../../server/db/seed/scenario';
-import { generateCalendar, generateHouseholds } from './lib/data';
+import { furnishHouseholds, generateCalendar, generateHouseholds } from './lib/data';
 import { engineVersusSql } from './lib/engine';
 
 const URL_ = process.env.BENCH_DATABASE_URL;
@@ -95,27 +95,7 @@ async function generate(database: Database): Promise<void> {
   const t = await generateHouseholds(pool, Math.max(0, HOUSEHOLDS - demo));
   // Equipment and agreements for the generated households: the customer page and the renewal
   // board then have rows to show, spread over a year of end dates.
-  await pool.query(
-    `insert into equipment (property_id, kind, make, model, installed_on)
-     select p.id, k.kind, 'Bench', k.model, ($1::date - ((abs(hashtext(p.id::text)) % 5000) || ' days')::interval)::date
-     from properties p cross join (values ('condensing_unit', 'AC36'), ('gas_furnace', 'GF80'), ('thermostat', 'T-7')) as k(kind, model)
-     where not exists (select 1 from equipment e where e.property_id = p.id)`,
-    [NOW.toISODate()],
-  );
-  await pool.query(
-    `with v as (select id, yearly_price_cents, row_number() over (order by id) as n from plan_versions),
-          p as (select p.id, p.customer_id, abs(hashtext(p.id::text)) as h from properties p
-                where not exists (select 1 from agreements a where a.property_id = p.id))
-     insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, auto_renew)
-     select p.customer_id, p.id, v.id,
-            case when p.h % 380 - 20 < 0 then 'past_due' when p.h % 380 - 20 <= 60 then 'renewal_due' else 'active' end,
-            $1::date + (p.h % 380 - 20) - 365, $1::date + (p.h % 380 - 20), v.yearly_price_cents, p.h % 5 < 2
-     from p join v on v.n = 1 + p.h % (select count(*) from v)
-     where p.h % 10 < 6`,
-    [NOW.toISODate()],
-  );
-  await pool.query(`analyze equipment`);
-  await pool.query(`analyze agreements`);
+  await furnishHouseholds(pool, NOW.toISODate()!);
   const cal = await generateCalendar(pool, { technicians: TECHS, visits: VISITS, days: DAYS, from: NOW });
   const households = Number((await pool.query(`select count(*) from customers`)).rows[0].count);
   console.log(

@@ -117,3 +117,28 @@ export async function generateCalendar(pool: pg.Pool, shape: CalendarShape): Pro
   await pool.query('vacuum analyze visits');
   return { technicianIds: techs, visits: rows.length };
 }
+
+/** Equipment and agreements for every household without them, agreement ends spread over a year around `today`. */
+export async function furnishHouseholds(pool: pg.Pool, today: string): Promise<void> {
+  await pool.query(
+    `insert into equipment (property_id, kind, make, model, installed_on)
+     select p.id, k.kind, 'Bench', k.model, ($1::date - ((abs(hashtext(p.id::text)) % 5000) || ' days')::interval)::date
+     from properties p cross join (values ('condensing_unit', 'AC36'), ('gas_furnace', 'GF80'), ('thermostat', 'T-7')) as k(kind, model)
+     where not exists (select 1 from equipment e where e.property_id = p.id)`,
+    [today],
+  );
+  await pool.query(
+    `with v as (select id, yearly_price_cents, row_number() over (order by id) as n from plan_versions),
+          p as (select p.id, p.customer_id, abs(hashtext(p.id::text)) as h from properties p
+                where not exists (select 1 from agreements a where a.property_id = p.id))
+     insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, auto_renew)
+     select p.customer_id, p.id, v.id,
+            case when p.h % 380 - 20 < 0 then 'past_due' when p.h % 380 - 20 <= 60 then 'renewal_due' else 'active' end,
+            $1::date + (p.h % 380 - 20) - 365, $1::date + (p.h % 380 - 20), v.yearly_price_cents, p.h % 5 < 2
+     from p join v on v.n = 1 + p.h % (select count(*) from v)
+     where p.h % 10 < 6`,
+    [today],
+  );
+  await pool.query(`analyze equipment`);
+  await pool.query(`analyze agreements`);
+}
