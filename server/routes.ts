@@ -19,6 +19,8 @@ import { campaignRoutes } from './campaigns/campaigns.routes';
 import { settingsRoutes } from './settings/settings.routes';
 import { customerRoutes, propertyRoutes } from './customers/customers.routes';
 import { myHomeRoutes } from './customers/my-home.routes';
+import { officeHomeRoutes } from './home/home.routes';
+import { reportRoutes } from './reports/reports.routes';
 import { equipmentRoutes } from './equipment/equipment.routes';
 import { uploadRoutes } from './uploads/uploads.routes';
 import { importRoutes } from './imports/imports.routes';
@@ -60,4 +62,6 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/files', build: uploadRoutes, multipart: true },
   { path: '/api/imports', build: importRoutes, multipart: true },
   { path: '/api/my-home', build: myHomeRoutes },
+  { path: '/api/office-home', build: officeHomeRoutes },
+  { path: '/api/reports', build: reportRoutes },
 ];

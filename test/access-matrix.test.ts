@@ -184,6 +184,11 @@ const ROUTES: Record<string, Row> = {
   'POST /api/imports/check': { allow: ['office', 'owner'] },
   'POST /api/imports/run': { allow: ['office', 'owner'] },
   'GET /api/my-home': { allow: ['homeowner'] },
+  // The household comes from the session: there is no other household's summary to ask for.
+  'GET /api/my-home/summary': { allow: ['homeowner'] },
+  'GET /api/office-home': { allow: ['office', 'owner'] },
+  'GET /api/reports/:report': { allow: ['office', 'owner'], params: { report: () => 'agreements' } },
+  'GET /api/reports/:report/export.csv': { allow: ['office', 'owner'], params: { report: () => 'revenue' } },
   'PATCH /api/my-home/contact': { allow: ['homeowner'] },
   'PATCH /api/my-home/properties/:id': { allow: ['homeowner'], owned: true, params: { id: (f) => f.propertyA } },
   'POST /api/my-home/notes': { allow: ['homeowner'] },

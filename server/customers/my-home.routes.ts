@@ -3,6 +3,7 @@ import { homeContactSchema, homeNoteSchema } from '../../shared/schemas/customer
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
+import { homeSummary } from '../home/home-summary.service';
 import { addMyNote, myHome, updateMyAccess, updateMyContact } from './my-home.service';
 
 /** The homeowner's "My home": only ever their own household, taken from the session. */
@@ -13,6 +14,11 @@ export function myHomeRoutes(deps: AppDeps): Router {
 
   r.get('/', async (req, res) => {
     res.json(await myHome(deps, currentUser(req)));
+  });
+
+  // The portal's first screen: plan, tune-ups left this season, next visit, what is owed.
+  r.get('/summary', async (req, res) => {
+    res.json(await homeSummary(deps, currentUser(req)));
   });
 
   r.patch('/contact', async (req, res) => {
