@@ -1,0 +1,227 @@
+import { DateTime } from 'luxon';
+import Papa from 'papaparse';
+import pg from 'pg';
+import { pino } from 'pino';
+import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
+import { createApp } from '../server/app';
+import { hashPassword } from '../server/auth/passwords';
+import { loadConfig } from '../server/config';
+import { createDatabase, type Database } from '../server/db/client';
+import { runMigrations } from '../server/db/migrate';
+import { DEMO_STAFF_PASSWORD } from '../server/db/seed/scenario';
+import type { AppDeps } from '../server/deps';
+import { registerJobs } from '../server/jobs/register';
+import { signInStaff, type Signed } from './support/auth';
+import { localFakes } from './support/fakes';
+
+// Each report against numbers worked out by hand from a small data set written below, on this
+// file's own database (reports read the whole company, so other tests' rows would leak in).
+// Company time zone America/Chicago: in winter UTC−6 (CST), in June UTC−5 (CDT) (IANA tz database).
+const TZ = 'America/Chicago';
+const NOW = DateTime.fromISO('2031-06-10T12:00', { zone: TZ });
+const at = (local: string) => DateTime.fromISO(local, { zone: TZ }).toUTC().toISO()!;
+
+let admin: pg.Client;
+let dbName: string;
+let database: Database;
+let office: Signed;
+let ids: Record<string, string> = {};
+
+async function q(text: string, values: unknown[] = []): Promise<string> {
+  const { rows } = await database.pool.query(text, values);
+  return (rows[0] as { id?: string } | undefined)?.id ?? '';
+}
+
+async function fixture(): Promise<void> {
+  await q(`insert into company (id, name, phone, email, street, city, state, zip, time_zone, business_hours)
+           values (1, 'Test Heating', '+15555550100', 'office@test.test', '1 Main St', 'Town', 'KS', '66000', $1, '{}')`, [TZ]);
+  await q(`insert into users (email, name, role, password_hash) values ('office@reports.test', 'Office Person', 'office', $1)`, [await hashPassword(DEMO_STAFF_PASSWORD)]);
+  const customer = await q(`insert into customers (name) values ('Fixture household') returning id`);
+  const property = await q(`insert into properties (customer_id, street, city, state, zip) values ($1, '2 Elm St', 'Town', 'KS', '66000') returning id`, [customer]);
+  const plan = await q(`insert into plans (code, name) values ('care', 'Care') returning id`);
+  const version = await q(`insert into plan_versions (plan_id, version, yearly_price_cents, additional_system_cents, cooling_visits, heating_visits, repair_discount_bps, diagnostic_fee_waived, priority_window_hours)
+                           values ($1, 1, 19900, 5000, 1, 1, 1000, true, 24) returning id`, [plan]);
+  ids = { customer, property, version };
+
+  // Agreements: [name, status, canceled at, terms (start, exclusive end)].
+  const agreements: [string, string, string | null, [string, string][]][] = [
+    ['A1', 'active', null, [['2030-01-10', '2031-01-10'], ['2031-01-10', '2032-01-10']]],
+    ['A2', 'lapsed', null, [['2030-01-20', '2031-01-20']]],
+    ['A3', 'active', null, [['2030-02-05', '2031-02-05'], ['2031-02-05', '2032-02-05']]],
+    ['A4', 'past_due', null, [['2030-02-15', '2031-02-15']]],
+    ['A5', 'active', null, [['2031-03-01', '2032-03-01']]],
+    // Known only from the agreement row (no term rows): still a term, as termsOf reads it.
+    ['A6', 'active', null, []],
+    ['A7', 'active', null, [['2030-02-20', '2031-02-20'], ['2031-02-20', '2032-02-20']]],
+    ['A8', 'canceled', at('2031-03-15T10:00'), [['2031-01-01', '2032-01-01']]],
+  ];
+  for (const [name, status, canceledAt, terms] of agreements) {
+    const [first, last] = terms.length ? [terms[0]!, terms[terms.length - 1]!] : [['2030-06-01', '2031-06-01'], ['2030-06-01', '2031-06-01']];
+    const id = await q(
+      `insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, canceled_at)
+       values ($1, $2, $3, $4, $5, $6, 19900, $7) returning id`,
+      [customer, property, version, status, last[0], last[1], canceledAt],
+    );
+    void first;
+    ids[name] = id;
+    for (const [s, e] of terms) {
+      await q(`insert into agreement_terms (agreement_id, starts_on, ends_on, plan_version_id, price_cents, source) values ($1, $2, $3, $4, 19900, 'test')`, [id, s, e, version]);
+    }
+  }
+
+  // Invoices: [name, purpose, status, subtotal, discount, total, paid, refunded, issued at (local)].
+  const invoices: [string, string, string, number, number, number, number, number, string | null][] = [
+    ['I1', 'renewal', 'paid', 19900, 0, 19900, 19900, 0, '2031-01-15T09:00'],
+    ['I2', 'service', 'paid', 38917, 3892, 35025, 35025, 0, '2031-01-31T23:00'],
+    ['I3', 'enrollment', 'paid', 24900, 0, 24900, 24900, 0, '2031-02-10T10:00'],
+    ['I4', 'service', 'partially_refunded', 13334, 1334, 12000, 12000, 2000, '2031-02-11T10:00'],
+    ['I5', 'service', 'open', 5000, 0, 5000, 0, 0, '2031-02-15T10:00'],
+    ['I6', 'service', 'void', 99999, 0, 99999, 0, 0, '2031-02-16T10:00'],
+    ['I7', 'service', 'draft', 7777, 0, 7777, 0, 0, null],
+  ];
+  let number = 1000;
+  for (const [name, purpose, status, sub, disc, total, paid, refunded, issued] of invoices) {
+    ids[name] = await q(
+      `insert into invoices (number, customer_id, purpose, status, subtotal_cents, discount_cents, tax_cents, total_cents, paid_cents, refunded_cents, issued_at)
+       values ($1, $2, $3, $4, $5, $6, 0, $7, $8, $9, $10) returning id`,
+      [status === 'draft' ? null : ++number, customer, purpose, status, sub, disc, total, paid, refunded, issued ? at(issued) : null],
+    );
+  }
+  // Payments: [invoice, status, amount, refunded, succeeded at (local)].
+  const payments: [string, string, number, number, string | null][] = [
+    // 11:30 p.m. on 31 January in Larkspur Bend is already 1 February in UTC: it is January's money.
+    ['I1', 'succeeded', 19900, 0, '2031-01-31T23:30'],
+    ['I2', 'succeeded', 35025, 0, '2031-02-01T00:15'],
+    ['I3', 'succeeded', 24900, 0, '2031-02-10T11:00'],
+    ['I4', 'succeeded', 12000, 2000, '2031-02-12T11:00'],
+    ['I5', 'failed', 5000, 0, null],
+  ];
+  for (const [inv, status, amount, refunded, when] of payments) {
+    const id = await q(`insert into payments (invoice_id, method, status, amount_cents, refunded_cents, succeeded_at) values ($1, 'card', $2, $3, $4, $5) returning id`, [ids[inv], status, amount, refunded, when ? at(when) : null]);
+    if (refunded) await q(`insert into refunds (payment_id, amount_cents, created_at) values ($1, $2, $3)`, [id, refunded, at('2031-02-20T15:00')]);
+  }
+
+  // Technicians: Ada Mon–Fri 8:00–16:00 (8 h a day), Bo Mon–Thu 7:00–17:00 (10 h a day).
+  const tech = async (name: string, hours: Record<string, { start: string; end: string }>) => {
+    const user = await q(`insert into users (email, name, role) values ($1, $2, 'technician') returning id`, [`${name.toLowerCase()}@reports.test`, name]);
+    return q(`insert into technicians (user_id, weekly_hours) values ($1, $2) returning id`, [user, JSON.stringify(hours)]);
+  };
+  const ada = await tech('Ada', Object.fromEntries(['1', '2', '3', '4', '5'].map((d) => [d, { start: '08:00', end: '16:00' }])));
+  const bo = await tech('Bo', Object.fromEntries(['1', '2', '3', '4'].map((d) => [d, { start: '07:00', end: '17:00' }])));
+  ids.ada = ada;
+  ids.bo = bo;
+  // Ada is off Wednesday from noon: 4 of her 8 hours that day.
+  await q(`insert into technician_time_off (technician_id, starts_at, ends_at) values ($1, $2, $3)`, [ada, at('2031-06-04T12:00'), at('2031-06-04T18:00')]);
+
+  // Visits in the week of Monday 2 June 2031: [technician, kind, status, start (local), hours].
+  const visits: [string, string, string, string, number][] = [
+    [ada, 'tune_up', 'done', '2031-06-02T08:00', 2],
+    [ada, 'tune_up', 'done', '2031-06-03T09:00', 1.5],
+    [ada, 'service_call', 'no_show', '2031-06-05T10:00', 1],
+    [ada, 'service_call', 'canceled', '2031-06-06T10:00', 2],
+    [bo, 'service_call', 'done', '2031-06-02T07:00', 3],
+    [bo, 'tune_up', 'scheduled', '2031-06-05T13:00', 3],
+    // The Sunday before the week: in no bucket of the range.
+    [bo, 'tune_up', 'done', '2031-06-01T10:00', 3],
+  ];
+  for (const [techId, kind, status, start, h] of visits) {
+    const s = DateTime.fromISO(start, { zone: TZ });
+    await q(
+      `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at)
+       values ($1, $2, $3, $4, $5, $6, $7, $8, $7, $9)`,
+      [customer, property, techId, kind, kind === 'tune_up' ? 'tune_up' : 'no_cooling', status, s.toUTC().toISO(), s.plus({ hours: 2 }).toUTC().toISO(), s.plus({ hours: h }).toUTC().toISO()],
+    );
+  }
+}
+
+beforeAll(async () => {
+  admin = new pg.Client({ connectionString: inject('databaseUrl') });
+  await admin.connect();
+  dbName = `sw_reports_${process.pid}_${Date.now().toString(36)}`;
+  await admin.query(`create database ${dbName}`);
+  const url = new URL(inject('databaseUrl'));
+  url.pathname = `/${dbName}`;
+  await runMigrations(url.toString());
+  database = createDatabase(url.toString(), 3);
+  await fixture();
+  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: url.toString(), LOG_LEVEL: 'silent' });
+  const deps: AppDeps = { config, database, clock: () => NOW.toJSDate(), logger: pino({ level: 'silent' }), ...localFakes() };
+  registerJobs(deps);
+  office = await signInStaff({ app: createApp(deps) }, 'office@reports.test');
+}, 120_000);
+
+afterAll(async () => {
+  await database?.close();
+  if (dbName) await admin.query(`drop database if exists ${dbName} with (force)`);
+  await admin?.end();
+});
+
+const get = (path: string) => office.agent.get(path);
+
+describe('agreements report', () => {
+  it('counts active, new, due, renewed and lapsed per month, and the renewal rate', async () => {
+    const res = await get('/api/reports/agreements?from=2031-01-01&to=2031-03-31').expect(200);
+    // Worked by hand from the terms above:
+    // Jan: due A1 (renewed) and A2 (lapsed) → 1 ÷ 2; new A8; active on the 31st A1 A3 A4 A6 A7 A8.
+    // Feb: due A3 and A7 (renewed) and A4 (past due, not yet lapsed) → 2 ÷ 3; active on the 28th A1 A3 A6 A7 A8.
+    // Mar: nothing due; new A5; active on the 31st A1 A3 A5 A6 A7 (A8 canceled on the 15th).
+    expect(res.body.rows).toEqual([
+      { month: '2031-01-01', active: 6, new: 1, due: 2, renewed: 1, lapsed: 1, renewalRate: 0.5 },
+      { month: '2031-02-01', active: 5, new: 0, due: 3, renewed: 2, lapsed: 0, renewalRate: 2 / 3 },
+      { month: '2031-03-01', active: 5, new: 1, due: 0, renewed: 0, lapsed: 0, renewalRate: null },
+    ]);
+  });
+});
+
+describe('revenue report', () => {
+  it('splits money received by month in the company time zone into plans and repairs', async () => {
+    const res = await get('/api/reports/revenue?from=2031-01-01&to=2031-02-28').expect(200);
+    // Jan: I1's 199.00 paid 11:30 p.m. on the 31st (1 Feb in UTC) is January's; I2 issued 11 p.m. on the 31st too.
+    //   Average of I1 and I2: (19900 + 35025) ÷ 2 = 27462.5 → 27463 (half away from zero, PostgreSQL round).
+    // Feb: plans I3 24900; repairs I2 35025 + I4 12000 − refund 2000 = 45025; the failed payment counts nothing.
+    //   Issued I3, I4, I5 (void I6 and draft I7 left out): (24900 + 12000 + 5000) ÷ 3 = 13966.67 → 13967.
+    expect(res.body.rows).toEqual([
+      { month: '2031-01-01', plansCents: 19900, repairsCents: 0, totalCents: 19900, invoices: 2, averageInvoiceCents: 27463, savingsCents: 3892 },
+      { month: '2031-02-01', plansCents: 24900, repairsCents: 45025, totalCents: 69925, invoices: 3, averageInvoiceCents: 13967, savingsCents: 1334 },
+    ]);
+  });
+
+  it('exports the same numbers as CSV, in dollars', async () => {
+    const res = await get('/api/reports/revenue/export.csv?from=2031-01-01&to=2031-02-28').expect(200);
+    expect(res.headers['content-type']).toMatch(/text\/csv/);
+    const parsed = Papa.parse<string[]>(res.text.trim());
+    expect(parsed.data[0]).toEqual(['month', 'plans_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd']);
+    expect(parsed.data[2]).toEqual(['2031-02-01', '249.00', '450.25', '699.25', '3', '139.67', '13.34']);
+  });
+});
+
+describe('visits report', () => {
+  it('counts visits per kind per week and the no-show rate', async () => {
+    const res = await get('/api/reports/visits?from=2031-06-02&to=2031-06-08').expect(200);
+    // Canceled left out: tune-ups 2 done + 1 scheduled; service calls 1 no-show + 1 done. No-shows 1 ÷ (3 done + 1) = 0.25.
+    expect(res.body.rows).toEqual([{ week: '2031-06-02', tuneUps: 3, serviceCalls: 2, done: 3, noShows: 1, noShowRate: 0.25 }]);
+  });
+});
+
+describe('utilisation report', () => {
+  it('divides booked by available hours per technician per week, less time off', async () => {
+    const res = await get('/api/reports/utilisation?from=2031-06-02&to=2031-06-08').expect(200);
+    // Ada: 5 × 8 h − 4 h off = 36 h = 2160 min; booked 2 + 1.5 + 1 h (no-show still booked, canceled not) = 270 min → 0.125.
+    // Bo: 4 × 10 h = 2400 min; booked 3 + 3 h = 360 min → 0.15 (the Sunday before is outside the range).
+    expect(res.body.rows).toEqual([
+      { week: '2031-06-02', technicianId: ids.ada, technicianName: 'Ada', bookedMinutes: 270, availableMinutes: 2160, utilisation: 0.125 },
+      { week: '2031-06-02', technicianId: ids.bo, technicianName: 'Bo', bookedMinutes: 360, availableMinutes: 2400, utilisation: 0.15 },
+    ]);
+  });
+});
+
+describe('report requests', () => {
+  it('name the field that is wrong', async () => {
+    const bad = await get('/api/reports/visits?from=2031-06-09&to=2031-06-02').expect(422);
+    expect(bad.body.error.fields).toHaveProperty('to');
+    const missing = await get('/api/reports/visits?to=2031-06-02').expect(422);
+    expect(missing.body.error.fields).toHaveProperty('from');
+    const unknown = await get('/api/reports/quotes?from=2031-06-01&to=2031-06-02').expect(422);
+    expect(unknown.body.error.fields).toHaveProperty('report');
+  });
+});
