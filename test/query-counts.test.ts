@@ -8,6 +8,7 @@ import { createDatabase, type Database } from '../server/db/client';
 import { runMigrations } from '../server/db/migrate';
 import { seedDemo } from '../server/db/seed/seed';
 import { DEMO_HOMEOWNERS, STAFF } from '../server/db/seed/scenario';
+import { REPORTS } from '../shared/schemas/reports';
 import type { AppDeps } from '../server/deps';
 import { registerJobs } from '../server/jobs/register';
 import { furnishHouseholds, generateCalendar, generateHouseholds } from '../scripts/bench/lib/data';
@@ -34,6 +35,14 @@ const EXPECTED: Record<string, number> = {
   'dispatch-day': 8,
   'dispatch-week': 8,
   renewals: 4,
+  // The homeowner's first screen beside "My home": company, agreements, visits, invoices, terms.
+  'home-summary': 6,
+  // The session, then one statement each.
+  'office-home': 2,
+  'report-agreements': 2,
+  'report-revenue': 2,
+  'report-visits': 2,
+  'report-utilisation': 2,
 };
 
 let admin: pg.Client;
@@ -55,11 +64,11 @@ async function drain(): Promise<void> {
   }
 }
 
-async function counted(run: () => Promise<{ status: number }>): Promise<number> {
+async function counted(name: string, run: () => Promise<{ status: number }>): Promise<number> {
   await drain();
   count = 0;
   const res = await run();
-  expect(res.status, JSON.stringify((res as { body?: unknown }).body)).toBeLessThan(300);
+  expect(res.status, `${name}: ${JSON.stringify((res as { body?: unknown }).body)}`).toBeLessThan(300);
   await drain();
   return count;
 }
@@ -85,12 +94,15 @@ async function measure(phase: number): Promise<Record<string, number>> {
     ['dispatch-day', get(office, `/api/dispatch/board?from=${NOW.toISODate()}&days=1`)],
     ['dispatch-week', get(office, `/api/dispatch/board?from=${NOW.startOf('week').toISODate()}&days=7`)],
     ['renewals', get(office, '/api/renewals?view=due30')],
+    ['home-summary', get(home, '/api/my-home/summary')],
+    ['office-home', get(office, '/api/office-home')],
+    ...REPORTS.map((r): [string, () => Promise<{ status: number }>] => [`report-${r}`, get(office, `/api/reports/${r}?from=${NOW.minus({ years: 3 }).toISODate()}&to=${NOW.toISODate()}`)]),
   ];
   const out: Record<string, number> = {};
   for (const [name, run] of routes) {
     if (name !== 'booking-visit') await run(); // warm: the first request may fill a cache
     if (process.env.SHOW_QUERIES) console.log(`== ${name}`);
-    out[name] = await counted(run);
+    out[name] = await counted(name, run);
   }
   return out;
 }

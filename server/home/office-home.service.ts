@@ -22,7 +22,7 @@ export async function officeHome(deps: Pick<AppDeps, 'database' | 'clock'>): Pro
         d.today::timestamp at time zone d.z as t0,
         (d.today + 1)::timestamp at time zone d.z as t1,
         (d.today + 2)::timestamp at time zone d.z as t2,
-        (d.today - ${RECENT_PAYMENT_DAYS - 1})::timestamp at time zone d.z as paid_from
+        (d.today - ${RECENT_PAYMENT_DAYS - 1}::int)::timestamp at time zone d.z as paid_from
       from d
     ),
     day_visits as (
@@ -39,8 +39,8 @@ export async function officeHome(deps: Pick<AppDeps, 'database' | 'clock'>): Pro
       a.due_count, a.due_total, a.past_count, a.past_total, p.paid_count, p.paid_total
     from span,
       lateral (
-        select count(*) filter (where status in ('active', 'renewal_due') and ends_on between span.today and span.today + ${RENEWAL_DAYS})::int as due_count,
-          coalesce(sum(price_cents) filter (where status in ('active', 'renewal_due') and ends_on between span.today and span.today + ${RENEWAL_DAYS}), 0)::bigint as due_total,
+        select count(*) filter (where status in ('active', 'renewal_due') and ends_on between span.today and span.today + ${RENEWAL_DAYS}::int)::int as due_count,
+          coalesce(sum(price_cents) filter (where status in ('active', 'renewal_due') and ends_on between span.today and span.today + ${RENEWAL_DAYS}::int), 0)::bigint as due_total,
           count(*) filter (where status = 'past_due')::int as past_count,
           coalesce(sum(price_cents) filter (where status = 'past_due'), 0)::bigint as past_total
         from agreements

@@ -1,5 +1,5 @@
 import { Routes } from '@angular/router';
-import { OfficeHome } from './office-home';
+import { OfficeHome } from './home/office-home';
 
 export const OFFICE_ROUTES: Routes = [
   { path: '', component: OfficeHome, title: 'Office · Seasonwell' },

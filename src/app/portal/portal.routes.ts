@@ -1,6 +1,6 @@
 import { Routes } from '@angular/router';
 import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
-import { PortalHome } from './portal-home';
+import { PortalHome } from './start/portal-home';
 
 export const PORTAL_ROUTES: Routes = [
   { path: '', component: PortalHome, title: 'Your home · Seasonwell' },

@@ -26,6 +26,19 @@ export class TodayVisits {
     return d ? new Date(`${d}T12:00:00`).toLocaleDateString('en-US', { weekday: 'long', month: 'long', day: 'numeric' }) : '';
   });
 
+  /** The first visit still to go to: where the day starts. */
+  protected readonly first = computed(() => this.visits().find((v) => v.status !== 'done' && v.status !== 'canceled' && v.status !== 'no_show') ?? null);
+  /** A geo: URI (RFC 5870, with the address as its query) opens the phone's own maps app; the web link is for a desktop. */
+  protected readonly geoLink = computed(() => {
+    const v = this.first();
+    return v ? `geo:0,0?q=${encodeURIComponent(v.address)}` : null;
+  });
+  protected readonly webMapLink = computed(() => {
+    const v = this.first();
+    return v ? `https://www.openstreetmap.org/search?query=${encodeURIComponent(v.address)}` : null;
+  });
+  protected readonly remaining = computed(() => this.visits().filter((v) => v.status !== 'done' && v.status !== 'canceled' && v.status !== 'no_show').length);
+
   protected load(): void {
     this.today.reload();
   }

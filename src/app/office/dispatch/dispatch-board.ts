@@ -17,6 +17,7 @@ import { STATUS_TRANSITIONS, type BoardResponse, type BoardTechnician, type Visi
 import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
+import { urlFilters } from '../../core/url-filters';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
 import { firstValueFrom } from 'rxjs';
@@ -64,8 +65,9 @@ export class DispatchBoard {
     return (skills ?? []).map((s) => s.replace(/_/g, ' ')).join(', ');
   }
 
-  protected readonly from = signal(DateTime.now().setZone('America/Chicago').toISODate()!);
-  protected readonly days = signal<1 | 7>(1);
+  private readonly url = urlFilters();
+  protected readonly from = signal(/^\d{4}-\d{2}-\d{2}$/.test(this.url.read('from') ?? '') ? this.url.read('from')! : DateTime.now().setZone('America/Chicago').toISODate()!);
+  protected readonly days = signal<1 | 7>(this.url.read('days') === '7' ? 7 : 1);
   protected readonly technicianId = signal<string>('');
   protected readonly kind = signal<VisitKind | ''>('');
   protected readonly area = signal<string>('');
@@ -83,6 +85,7 @@ export class DispatchBoard {
   protected readonly data = localCopy<BoardResponse>(this.board, true);
   protected readonly error = errorMessage(this.board);
   protected readonly history = signal<{ visit: VisitView; events: VisitEventView[] } | null>(null);
+  private readonly keepUrl = this.url.keep(() => ({ from: this.from(), days: this.days() }));
   protected readonly busy = signal(false);
 
   protected readonly title = computed(() => {

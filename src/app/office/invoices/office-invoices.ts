@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -8,9 +8,10 @@ import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator'
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import { debounceTime, merge, startWith, switchMap } from 'rxjs';
+import { debounceTime, map, merge, startWith, switchMap } from 'rxjs';
 import { formatUsd } from '../../../../shared/money';
 import { INVOICE_STATUSES, INVOICE_STATUS_LABELS, type InvoiceStatus, type InvoiceSummary } from '../../../../shared/schemas/billing';
+import { urlFilters } from '../../core/url-filters';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
 
@@ -20,6 +21,7 @@ import { OfficeInvoicesApi } from './office-invoices-api';
   imports: [DatePipe, ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatPaginatorModule, MatSelectModule, MatTableModule, InvoiceStatusBadge],
   template: `
     <h1>Invoices</h1>
+    <p class="sw-lead">Every invoice: find one by household or number, or filter by status.</p>
     <div class="filters">
       <mat-form-field>
         <mat-label>Search household or number</mat-label>
@@ -55,14 +57,17 @@ export class OfficeInvoices {
   protected readonly statuses = INVOICE_STATUSES;
   protected readonly labels = INVOICE_STATUS_LABELS;
   protected readonly columns = ['number', 'customer', 'status', 'issued', 'total', 'balance'];
-  protected readonly search = new FormControl('', { nonNullable: true });
-  protected readonly status = new FormControl<InvoiceStatus | ''>('', { nonNullable: true });
+  private readonly url = urlFilters();
+  protected readonly search = new FormControl(this.url.read('q') ?? '', { nonNullable: true });
+  protected readonly status = new FormControl<InvoiceStatus | ''>(asStatus(this.url.read('status')), { nonNullable: true });
+  private readonly filter = toSignal(merge(this.search.valueChanges, this.status.valueChanges).pipe(map(() => ({ q: this.search.value.trim() || null, status: this.status.value || null }))));
   protected readonly rows = signal<InvoiceSummary[]>([]);
   protected readonly total = signal(0);
   private readonly offset = signal(0);
   private readonly pages = new FormControl(0, { nonNullable: true });
 
   constructor() {
+    this.url.keep(() => this.filter() ?? {});
     merge(this.search.valueChanges.pipe(debounceTime(250)), this.status.valueChanges, this.pages.valueChanges)
       .pipe(
         startWith(null),
@@ -80,3 +85,5 @@ export class OfficeInvoices {
     this.pages.setValue(e.pageIndex);
   }
 }
+
+const asStatus = (v: string | null): InvoiceStatus | '' => ((INVOICE_STATUSES as readonly string[]).includes(v ?? '') ? (v as InvoiceStatus) : '');

@@ -16,6 +16,7 @@ import { RENEWAL_VIEWS, RENEWAL_VIEW_LABELS, type RenewalBoard, type RenewalRow,
 import { toApiError } from '../../core/api-errors';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { localCopy } from '../../core/resource-state';
+import { urlFilters } from '../../core/url-filters';
 import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { RenewalsApi } from './renewals-api';
 
@@ -48,7 +49,8 @@ export class Renewals {
   protected readonly usd = formatUsd;
   protected readonly views = RENEWAL_VIEWS.map((v) => ({ v, label: RENEWAL_VIEW_LABELS[v] }));
   protected readonly columns = ['select', 'customer', 'plan', 'status', 'ends', 'price', 'auto', 'notice', 'actions'];
-  protected readonly view = signal<RenewalView>('due30');
+  private readonly url = urlFilters();
+  protected readonly view = signal<RenewalView>(asView(this.url.read('view')));
   private readonly read = rxResource({ params: () => this.view(), stream: ({ params }) => this.api.board(params) });
   protected readonly board = localCopy<RenewalBoard>(this.read, true);
   protected readonly loading = this.read.isLoading;
@@ -62,6 +64,7 @@ export class Renewals {
   protected readonly manualForm = this.fb.group({ method: this.fb.control<'check' | 'cash'>('check', Validators.required), reference: this.fb.control('') });
 
   constructor() {
+    this.url.keep(() => ({ view: this.view() }));
     effect(() => {
       const e = this.read.error();
       if (e) untracked(() => this.snack.open(toApiError(e).message, 'Close'));
@@ -130,3 +133,5 @@ export class Renewals {
     });
   }
 }
+
+const asView = (v: string | null): RenewalView => ((RENEWAL_VIEWS as readonly string[]).includes(v ?? '') ? (v as RenewalView) : 'due30');

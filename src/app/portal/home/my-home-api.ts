@@ -1,6 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { type Observable } from 'rxjs';
+import type { HomeSummary } from '../../../../shared/schemas/home';
 import type { HomeAccess, HomeContact, MyHome, Note, Property } from '../../../../shared/schemas/customers';
 
 /** The homeowner's own records; the server takes the household from the session. */
@@ -10,6 +11,11 @@ export class MyHomeApi {
 
   load(): Observable<MyHome> {
     return this.http.get<MyHome>('/api/my-home');
+  }
+
+  /** The first screen: plan, tune-ups left, next visit and what is owed. */
+  summary(): Observable<HomeSummary> {
+    return this.http.get<HomeSummary>('/api/my-home/summary');
   }
 
   updateContact(body: HomeContact | Record<string, string>): Observable<MyHome['household']> {
