@@ -10,6 +10,7 @@ import { AreaLanding, type AreaTile } from '../ui/area-landing';
 })
 export class AdminHome {
   protected readonly tiles: AreaTile[] = [
+    { title: 'Reports', text: 'Renewal rate, revenue by kind, visits and technician utilisation.', icon: 'chart', path: '/office/reports' },
     { title: 'Plans and prices', text: 'Tiers, what each covers, and what they cost.', icon: 'shield', path: '/admin/plans' },
     { title: 'Hours and booking rules', text: 'Business hours, arrival windows, lead time and cut-offs.', icon: 'calendar', path: '/admin/company' },
     { title: 'Staff', text: 'Invite technicians and office staff; disable accounts.', icon: 'people', path: '/admin/staff' },

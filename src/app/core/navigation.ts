@@ -21,6 +21,7 @@ const OFFICE: NavLink[] = [
   { label: 'Invoices', path: '/office/invoices', icon: 'receipt' },
   { label: 'Dispatch', path: '/office/dispatch', icon: 'truck' },
   { label: 'Reminders', path: '/office/reminders', icon: 'bell' },
+  { label: 'Reports', path: '/office/reports', icon: 'chart' },
   { label: 'Invite household', path: '/office/invite', icon: 'mail' },
 ];
 const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }, { label: 'Plans', path: '/admin/plans', icon: 'receipt' }, { label: 'Staff', path: '/admin/staff', icon: 'people' }, { label: 'Access log', path: '/admin/audit', icon: 'shield' }];
