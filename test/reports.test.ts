@@ -225,3 +225,34 @@ describe('report requests', () => {
     expect(unknown.body.error.fields).toHaveProperty('report');
   });
 });
+
+describe('office home', () => {
+  it('counts today and tomorrow by status, the queue, renewals at risk and the week’s payments in one read', async () => {
+    // Today is Tue 10 June 2031 in the company's zone: one visit booked for Bo today, one request for tomorrow.
+    const visit = (tech: string | null, status: string, local: string) => {
+      const s = DateTime.fromISO(local, { zone: TZ });
+      return q(
+        `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at)
+         values ($1, $2, $3, 'service_call', 'no_cooling', $4, $5, $6, $5, $6)`,
+        [ids.customer, ids.property, tech, status, s.toUTC().toISO(), s.plus({ hours: 2 }).toUTC().toISO()],
+      );
+    };
+    await visit(ids.bo!, 'scheduled', '2031-06-10T14:00');
+    await visit(null, 'requested', '2031-06-11T09:00');
+    // Paid 11:30 p.m. on Monday 9 June local time: inside the last seven days.
+    await q(`insert into payments (invoice_id, method, status, amount_cents, succeeded_at) values ($1, 'check', 'succeeded', 5000, $2)`, [ids.I5, at('2031-06-09T23:30')]);
+    const res = await get('/api/office-home').expect(200);
+    expect(res.body).toEqual({
+      today: '2031-06-10',
+      tomorrow: '2031-06-11',
+      visitsToday: { scheduled: 1 },
+      visitsTomorrow: { requested: 1 },
+      unassigned: 1,
+      // A6 ended on 1 June; nothing else ends by 10 July. A4 is the one past due.
+      renewalsDue30: { count: 0, totalCents: 0 },
+      pastDue: { count: 1, totalCents: 19900 },
+      recentPayments: { count: 1, totalCents: 5000 },
+      recentPaymentDays: 7,
+    });
+  });
+});

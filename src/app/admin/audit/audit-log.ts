@@ -31,7 +31,7 @@ const ACTION_WORDS: Record<string, string> = {
   imports: [DatePipe, MatPaginatorModule, MatSelectModule, MatFormFieldModule, MatTableModule],
   template: `
     <section class="sw-page">
-      <h1>Sign-in and access log</h1>
+      <h1>Sign-in and access log</h1><p class="sw-lead">Who signed in, who failed, and every invitation and role change, newest first.</p>
       <mat-form-field appearance="outline">
         <mat-label>Show</mat-label>
         <mat-select [value]="action()" (valueChange)="filter($event)">

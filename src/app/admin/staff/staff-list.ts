@@ -25,7 +25,7 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, MatSlideToggleModule, MatSnackBarModule, MatTableModule],
   template: `
     <section class="sw-page">
-      <h1>Staff</h1>
+      <h1>Staff</h1><p class="sw-lead">Invite technicians and office staff, change their roles, or disable an account.</p>
       <h2>Invite someone</h2>
       <form [formGroup]="form" (ngSubmit)="invite()" class="invite" novalidate>
         <mat-form-field appearance="outline">

@@ -14,7 +14,7 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Forgot your password?</h1>
+      <h1>Forgot your password?</h1><p class="sw-lead">We e-mail staff a link to choose a new password.</p>
       @if (message(); as m) {
         <p class="notice" role="status"><mat-icon svgIcon="mail" aria-hidden="true" /><span>{{ m }}</span></p>
         <p><a routerLink="/staff/sign-in">Back to staff sign-in</a></p>

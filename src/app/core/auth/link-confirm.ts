@@ -16,7 +16,7 @@ import { firstValueFrom } from 'rxjs';
   imports: [MatButtonModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Sign in</h1>
+      <h1>Sign in</h1><p class="sw-lead">Confirm the sign-in link from your e-mail.</p>
       @if (!token()) {
         <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>This link is not complete. Please open it again from the e-mail.</span></p>
       } @else {

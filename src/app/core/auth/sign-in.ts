@@ -21,7 +21,7 @@ import { firstValueFrom } from 'rxjs';
         <p>We sent it to <strong>{{ address }}</strong> if that address has a portal account. Open the link on this device, then press “Sign me in”.</p>
         <div class="row"><button mat-stroked-button type="button" (click)="sentTo.set(null)">Use another address</button></div>
       } @else {
-        <h1>Sign in to your home portal</h1>
+        <h1>Sign in to your home portal</h1><p class="sw-lead">We e-mail you a link; no password needed.</p>
         <p>No password needed: enter the e-mail address your heating and cooling company has for you, and we will send you a sign-in link.</p>
         <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
           <mat-form-field appearance="outline">

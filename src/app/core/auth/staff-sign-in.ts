@@ -15,7 +15,7 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Staff sign-in</h1>
+      <h1>Staff sign-in</h1><p class="sw-lead">For the office, technicians and the owner.</p>
       <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>E-mail address</mat-label>

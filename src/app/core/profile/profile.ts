@@ -14,7 +14,7 @@ const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: '
   imports: [MatButtonModule, MatIconModule],
   template: `
     <section class="sw-page profile">
-      <h1>Your profile</h1>
+      <h1>Your profile</h1><p class="sw-lead">Your name, sign-in address and password.</p>
       @if (session.user(); as u) {
         <dl>
           <dt>Name</dt>

@@ -23,7 +23,7 @@ import { DispatchApi, type Household } from './dispatch-api';
       </p>
       <sw-visit-request [customerId]="h.id" [forCaller]="true" />
     } @else {
-      <h1>Book a visit for a caller</h1>
+      <h1>Book a visit for a caller</h1><p class="sw-lead">Find the caller’s household, then pick an arrival window with them.</p>
       <mat-form-field appearance="outline" class="search">
         <mat-label>Find the household</mat-label>
         <input matInput [formControl]="query" autocomplete="off" />

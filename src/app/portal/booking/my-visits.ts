@@ -13,7 +13,7 @@ import { VisitStatusMark } from '../../ui/status/visit-status';
   selector: 'sw-my-visits',
   imports: [MatButtonModule, MatIconModule, RouterLink, VisitStatusMark],
   template: `
-    <h1>Your visits</h1>
+    <h1>Your visits</h1><p class="sw-lead">Visits coming up and past; open one to change or cancel it.</p>
     <a mat-flat-button routerLink="/portal/booking"><mat-icon svgIcon="add" aria-hidden="true" /> Request a visit</a>
     @if (error(); as e) {
       <p role="alert">{{ e }}</p>

@@ -15,7 +15,7 @@ const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_c
   selector: 'sw-my-invoices',
   imports: [DatePipe, RouterLink, MatListModule, MatProgressBarModule, InvoiceStatusBadge],
   template: `
-    <h1>Invoices</h1>
+    <h1>Invoices</h1><p class="sw-lead">Your invoices: open ones to pay and paid ones for your records.</p>
     @if (loading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading invoices" /> }
     @if (error()) { <p role="alert">{{ error() }}</p> }
     @if (!loading() && rows().length === 0) { <p>No invoices yet.</p> }
