@@ -38,21 +38,35 @@ function agreementsSql(q: ReportQuery, now: Date): SQL {
       select agreement_id, min(starts_on) as first_start from terms group by agreement_id
     ),
     due as (
-      select t.ends_on - 1 as last_day,
-        exists (select 1 from terms n where n.agreement_id = t.agreement_id and n.starts_on = t.ends_on) as renewed,
-        a.status
-      from terms t join agreements a on a.id = t.agreement_id, rng
+      -- Renewed: a next term starts on the day this one ends (a hash join, not a search per term).
+      select t.ends_on - 1 as last_day, (n.agreement_id is not null) as renewed, a.status
+      from terms t join agreements a on a.id = t.agreement_id
+        left join (select distinct agreement_id, starts_on from terms) n on n.agreement_id = t.agreement_id and n.starts_on = t.ends_on,
+        rng
       where t.ends_on - 1 between rng.d0 and rng.d1
     )
-    , counted as (select to_char(m.month, 'YYYY-MM-DD') as month,
-      (select count(distinct t.agreement_id)::int from terms t join agreements a on a.id = t.agreement_id
-        where t.starts_on <= least(m.last_day, rng.today) and t.ends_on > least(m.last_day, rng.today)
-          and (a.canceled_at is null or (a.canceled_at at time zone tz.z)::date > least(m.last_day, rng.today))) as active,
-      (select count(*)::int from firsts f where f.first_start between m.first_day and m.last_day) as new,
-      (select count(*)::int from due where due.last_day between m.first_day and m.last_day) as due,
-      (select count(*)::int from due where due.last_day between m.first_day and m.last_day and due.renewed) as renewed,
-      (select count(*)::int from due where due.last_day between m.first_day and m.last_day and not due.renewed and due.status in ('lapsed', 'canceled')) as lapsed
-    from months m, rng, tz)
+    , active as (
+      select m.month, count(distinct t.agreement_id)::int as n
+      from months m cross join rng cross join tz
+        join terms t on t.starts_on <= least(m.last_day, rng.today) and t.ends_on > least(m.last_day, rng.today)
+        join agreements a on a.id = t.agreement_id
+      where a.canceled_at is null or (a.canceled_at at time zone tz.z)::date > least(m.last_day, rng.today)
+      group by m.month
+    ),
+    due_by_month as (
+      select m.month, count(*)::int as due, (count(*) filter (where due.renewed))::int as renewed,
+        (count(*) filter (where not due.renewed and due.status in ('lapsed', 'canceled')))::int as lapsed
+      from months m join due on due.last_day between m.first_day and m.last_day
+      group by m.month
+    ),
+    new_by_month as (
+      select m.month, count(*)::int as n from months m join firsts f on f.first_start between m.first_day and m.last_day group by m.month
+    ),
+    counted as (
+      select to_char(m.month, 'YYYY-MM-DD') as month, coalesce(ac.n, 0) as active, coalesce(nb.n, 0) as new,
+        coalesce(d.due, 0) as due, coalesce(d.renewed, 0) as renewed, coalesce(d.lapsed, 0) as lapsed
+      from months m left join active ac using (month) left join new_by_month nb using (month) left join due_by_month d using (month)
+    )
     select c.*, case when c.due = 0 then null else c.renewed::float8 / c.due end as renewal_rate
     from counted c order by c.month`;
 }
