@@ -43,19 +43,21 @@ export type AudienceRow = {
   due_on: string;
 };
 
+/** Our own numeric constants, written into the statement (never user input). */
+const num = (x: number) => sql.raw(String(Number(x)));
 const list = (values: Iterable<string>) => sql.join([...values].map((v) => sql`${v}`), sql`, `);
 
 /** The filter interval in days of equipment `e` for household factors `hh.factors`, in SQL. */
 function filterDaysSql(): SQL {
   const depth = sql`((regexp_match(e.filter_size, '^\\s*\\d{1,2}(?:\\.\\d{1,3})?\\s*[x×]\\s*\\d{1,2}(?:\\.\\d{1,3})?\\s*[x×]\\s*(\\d{1,2}(?:\\.\\d{1,3})?)\\s*(?:"|in(?:ch(?:es)?)?\\.?)?\\s*$', 'i'))[1])::numeric`;
-  const base = sql`(case when coalesce(${depth} >= 3, false) or lower(e.filter_type) ~ '\\mmedia\\M' then ${FILTER_INTERVAL_DAYS.media_4_5_inch}
-    when coalesce(${depth} >= 1.5, false) then ${FILTER_INTERVAL_DAYS.two_inch}
-    when lower(e.filter_type) ~ 'fib(er|re) ?glass|spun ?glass' then ${FILTER_INTERVAL_DAYS.one_inch_fiberglass}
-    else ${FILTER_INTERVAL_DAYS.one_inch_pleated} end)`;
+  const base = sql`(case when coalesce(${depth} >= 3, false) or lower(e.filter_type) ~ '\\mmedia\\M' then ${num(FILTER_INTERVAL_DAYS.media_4_5_inch)}
+    when coalesce(${depth} >= 1.5, false) then ${num(FILTER_INTERVAL_DAYS.two_inch)}
+    when lower(e.filter_type) ~ 'fib(er|re) ?glass|spun ?glass' then ${num(FILTER_INTERVAL_DAYS.one_inch_fiberglass)}
+    else ${num(FILTER_INTERVAL_DAYS.one_inch_pleated)} end)`;
   const shares = (Object.entries(FILTER_FACTOR_SHARE) as [HouseholdFactor, { share: number }][]).map(
-    ([f, { share }]) => sql`(case when ${f} = any(hh.factors) then ${share}::float8 else 1 end)`,
+    ([f, { share }]) => sql`(case when ${f} = any(hh.factors) then ${num(share)}::float8 else 1 end)`,
   );
-  return sql`greatest(${MIN_FILTER_DAYS}, round(${base} * ${sql.join(shares, sql` * `)}))::int`;
+  return sql`greatest(${num(MIN_FILTER_DAYS)}, round(${base} * ${sql.join(shares, sql` * `)}))::int`;
 }
 
 function tuneUpWindow(season: 'cooling' | 'heating', ctx: AudienceContext): { from: Date; to: Date } {
@@ -70,14 +72,14 @@ const noTuneUpBooked = (w: { from: Date; to: Date }) =>
 /** The lateral subquery that says why this household is due, for which home and from which day. */
 function dueSql(ctx: AudienceContext, today: string): SQL {
   const tz = ctx.timeZone;
-  const soon = sql`(${today}::date + ${DUE_SOON_DAYS})`;
+  const soon = sql`(${today}::date + ${num(DUE_SOON_DAYS)})`;
   const localDay = (col: SQL) => sql`((${col}) at time zone ${tz})::date`;
   if (ctx.kind === 'cooling_tune_up' || ctx.kind === 'heating_tune_up') {
     const season = ctx.kind === 'cooling_tune_up' ? 'cooling' : 'heating';
     const kinds = season === 'cooling' ? COOLING_KINDS : HEATING_KINDS;
     const visits = season === 'cooling' ? sql`pa.cooling_visits` : sql`pa.heating_visits`;
     const w = tuneUpWindow(season, ctx);
-    return sql`select pa.property_id, ${`Plan includes a ${season} tune-up; none booked this season`}::text as reason, greatest(${today}::date, ${localDay(sql`${w.from}::timestamptz`)} + ${EARLY_BOOKING_DAYS}) as due_on
+    return sql`select pa.property_id, ${`Plan includes a ${season} tune-up; none booked this season`}::text as reason, greatest(${today}::date, ${localDay(sql`${w.from}::timestamptz`)} + ${num(EARLY_BOOKING_DAYS)}) as due_on
       from (select 1) one where pa.customer_id is not null and ${visits} >= 1
         and (not exists (select 1 from properties p join equipment e on e.property_id = p.id where p.customer_id = hh.id and p.archived_at is null and e.archived_at is null)
           or exists (select 1 from properties p join equipment e on e.property_id = p.id where p.customer_id = hh.id and p.archived_at is null and e.archived_at is null and e.kind in (${list(kinds)})))
@@ -100,8 +102,8 @@ function dueSql(ctx: AudienceContext, today: string): SQL {
       select (select p.id from properties p join equipment e on e.property_id = p.id where p.customer_id = hh.id and p.archived_at is null and e.archived_at is null and e.kind in (${list(kinds)}) limit 1) as property_id,
         case when lv.recommendations ~* ${pattern} then 'Recommended at the last visit'
              when lt.at is null then 'Once a year; none on record' else 'Once a year since the last tune-up' end as reason,
-        case when lv.recommendations ~* ${pattern} then ${localDay(sql`lv.starts_at`)} + ${RECOMMENDED_SERVICE_DAYS}
-             when lt.at is null then ${today}::date else ${localDay(sql`lt.at`)} + ${YEARLY_SERVICE_DAYS} end as due_on
+        case when lv.recommendations ~* ${pattern} then ${localDay(sql`lv.starts_at`)} + ${num(RECOMMENDED_SERVICE_DAYS)}
+             when lt.at is null then ${today}::date else ${localDay(sql`lt.at`)} + ${num(YEARLY_SERVICE_DAYS)} end as due_on
       from (select 1) one
       left join lateral (select v.starts_at, v.recommendations from visits v where v.customer_id = hh.id and v.status = 'done' order by v.starts_at desc limit 1) lv on true
       left join lateral (select max(v.starts_at) as at from visits v where v.customer_id = hh.id and v.status = 'done' and v.kind = 'tune_up') lt on true) s

@@ -60,7 +60,7 @@ export async function sendBatch(deps: SendDeps, campaignId: string, tuning: Send
 
   const company = await companyRow(db);
   const emails = claimed.rows.map((r) => r.email.toLowerCase());
-  const suppressed = await db.execute<{ email: string }>(sql`select lower(email) as email from mail_suppressions where purpose = 'reminders' and lower(email) = any(${emails}::text[])`);
+  const suppressed = await db.execute<{ email: string }>(sql`select lower(email) as email from mail_suppressions where purpose = 'reminders' and lower(email) in (select jsonb_array_elements_text(${JSON.stringify(emails)}::jsonb))`);
   const off = new Set(suppressed.rows.map((r) => r.email));
 
   const record = (id: string, status: string, event: string, detail: string, extra = sql``, permanent = false) =>
