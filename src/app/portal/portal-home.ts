@@ -1,10 +1,12 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { AreaLanding, type AreaTile } from '../ui/area-landing';
+import { DueList } from './reminders/due-list';
 
 @Component({
   selector: 'sw-portal-home',
-  imports: [AreaLanding],
-  template: `<sw-area-landing heading="Your home" lead="Everything about your heating and cooling, in one place." [tiles]="tiles" />`,
+  imports: [AreaLanding, DueList],
+  template: `<sw-area-landing heading="Your home" lead="Everything about your heating and cooling, in one place." [tiles]="tiles" />
+    <sw-due-list />`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PortalHome {
