@@ -16,6 +16,7 @@ import { bookingRoutes } from './booking/booking.routes';
 import { dispatchRoutes } from './dispatch/dispatch.routes';
 import { scheduleRoutes } from './schedule/schedule.routes';
 import { campaignRoutes } from './campaigns/campaigns.routes';
+import { myReminderRoutes } from './campaigns/my-reminders.routes';
 import { settingsRoutes } from './settings/settings.routes';
 import { customerRoutes, propertyRoutes } from './customers/customers.routes';
 import { myHomeRoutes } from './customers/my-home.routes';
@@ -64,4 +65,5 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/my-home', build: myHomeRoutes },
   { path: '/api/office-home', build: officeHomeRoutes },
   { path: '/api/reports', build: reportRoutes },
+  { path: '/api/my-reminders', build: myReminderRoutes },
 ];

@@ -9,7 +9,7 @@ import { FILTER_INTERVAL_DAYS, filterCategory, filterIntervalDays } from './serv
  * same table coverage and the checklists use. A household on a plan that includes that tune-up,
  * with none done or booked in the current or coming season of that kind, is due.
  */
-export const REMINDER_KINDS = ['cooling_tune_up', 'heating_tune_up', 'filter', 'coil_cleaning'] as const;
+export const REMINDER_KINDS = ['cooling_tune_up', 'heating_tune_up', 'filter', 'coil_cleaning', 'condensate_drain'] as const;
 export type ReminderKind = (typeof REMINDER_KINDS)[number];
 
 export const REMINDER_LABELS: Record<ReminderKind, string> = {
@@ -17,6 +17,7 @@ export const REMINDER_LABELS: Record<ReminderKind, string> = {
   heating_tune_up: 'Fall heating tune-up',
   filter: 'Filter change',
   coil_cleaning: 'Outdoor coil cleaning',
+  condensate_drain: 'Condensate drain service',
 };
 
 /** Days between changes for a 1-inch pleated filter (see FILTER_INTERVAL_DAYS for each filter type and its source). */
@@ -47,6 +48,7 @@ export interface ReminderDecision {
 
 const LIVE_AGREEMENT = new Set(['active', 'renewal_due']);
 const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'ductless']);
+const DRAIN = new Set(['air_handler', 'gas_furnace', 'heat_pump', 'geothermal_heat_pump', 'ductless', 'condensate_pump']);
 
 /**
  * The bounds of the season of this kind that today is in, or else the next one to come
@@ -100,6 +102,13 @@ export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today
     return { due: true, reason: `${filters.map((f) => f.filterSize).join(', ')} filter: change every ${interval} days` };
   }
 
+  if (kind === 'condensate_drain') {
+    if (!h.equipment.some((e) => DRAIN.has(e.kind))) return { due: false, reason: 'No indoor coil or drain on file' };
+    const lastDrain = h.lastSent.condensate_drain;
+    if (lastDrain && daysSince(lastDrain, today) < COIL_CLEANING_INTERVAL_DAYS) return { due: false, reason: 'Reminded within the year' };
+    return { due: true, reason: 'Condensate drain service once a year' };
+  }
+
   // Coil cleaning: households with an outdoor coil, and a technician's recommendation or a plan that includes it.
   if (!h.equipment.some((e) => OUTDOOR.has(e.kind))) return { due: false, reason: 'No outdoor coil' };
   const recommended = liveVisits.some((v) => /coil clean/i.test(v.recommendations ?? ''));
@@ -149,6 +158,15 @@ export function reminderWording(kind: ReminderKind, companyName: string): { subj
           `Book it in the portal and ${companyName} will do the rest. Please do not spray the unit with a pressure washer: the fins bend easily.`,
         ],
         action: 'Book a coil cleaning',
+      };
+    case 'condensate_drain':
+      return {
+        subject: 'Your condensate drain is due for its yearly service',
+        paragraphs: [
+          'The drain line under your indoor coil carries away the water your system takes out of the air. Algae and dust can plug it, and a plugged drain can flood a ceiling or shut the system off.',
+          'Book the service in the portal. Please switch the system off at the thermostat before you look at the drain pan yourself.',
+        ],
+        action: 'Book a drain service',
       };
   }
 }

@@ -47,6 +47,7 @@ type Allow = 'public' | Role[];
 interface Row {
   allow: Allow;
   owned?: boolean;
+  /** A value, or one built from the fixtures (to name household A's records in the body). */
   body?: unknown;
   throwaway?: boolean;
   params?: Record<string, (f: Fixtures) => string>;
@@ -111,6 +112,9 @@ const ROUTES: Record<string, Row> = {
   'GET /api/reminders/campaigns': { allow: ['office', 'owner'] },
   'POST /api/reminders/campaigns': { allow: ['office', 'owner'] },
   'GET /api/reminders/campaigns/:id': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/reminders/preview/messages': { allow: ['office', 'owner'] },
+  'POST /api/reminders/campaigns/:id/actions': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/reminders/campaigns/:id/deliveries': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
   'GET /api/session': { allow: 'public' },
   'POST /api/auth/staff/sign-in': { allow: 'public' },
   'POST /api/auth/link': { allow: 'public' },
@@ -192,6 +196,10 @@ const ROUTES: Record<string, Row> = {
   'PATCH /api/my-home/contact': { allow: ['homeowner'] },
   'PATCH /api/my-home/properties/:id': { allow: ['homeowner'], owned: true, params: { id: (f) => f.propertyA } },
   'POST /api/my-home/notes': { allow: ['homeowner'] },
+  'GET /api/my-reminders': { allow: ['homeowner'] },
+  'PUT /api/my-reminders/preferences': { allow: ['homeowner'] },
+  // Homeowner B marking household A's filter changed gets 404 (the body names A's equipment).
+  'POST /api/my-reminders/filter-changed': { allow: ['homeowner'], owned: true, body: (f: Fixtures) => ({ equipmentId: must(f.equipmentA, 'equipmentA') }) },
 };
 
 type Who = 'anonymous' | 'homeownerA' | 'homeownerB' | 'technician' | 'office' | 'owner';
@@ -315,7 +323,7 @@ describe('access matrix', () => {
     const url = fillPath(path, row);
     for (const who of WHO) {
       const s = row.throwaway && who !== 'anonymous' ? await spare[who]() : sessions[who];
-      const res = await call(s, method, url, row.body);
+      const res = await call(s, method, url, typeof row.body === 'function' ? (row.body as (f: Fixtures) => unknown)(fixtures) : row.body);
       const label = `${key} as ${who} answered ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
       expect(res.status, label).toBeLessThan(500);
       const role = roleOf(who);

@@ -36,11 +36,11 @@ describe('reminders carry the sender, the postal address and a working opt-out',
     return { customerId: c!.id, propertyId: p!.id, email };
   }
 
-  async function remind(h: { customerId: string; email: string }, waitMs = 5000): Promise<{ sendId: string; mail: ParsedMail | null }> {
+  async function remind(h: { customerId: string; propertyId: string; email: string }, waitMs = 5000): Promise<{ sendId: string; mail: ParsedMail | null }> {
     const { db } = ctx.database;
     const [office] = await db.select({ id: users.id }).from(users).where(eq(users.email, OFFICE));
     const [camp] = await db.insert(reminderCampaigns).values({ kind: 'cooling_tune_up', createdById: office!.id, audienceCount: 1 }).returning({ id: reminderCampaigns.id });
-    const [send] = await db.insert(reminderSends).values({ campaignId: camp!.id, customerId: h.customerId, kind: 'cooling_tune_up', email: h.email, reason: 'due' }).returning({ id: reminderSends.id });
+    const [send] = await db.insert(reminderSends).values({ campaignId: camp!.id, customerId: h.customerId, propertyId: h.propertyId, kind: 'cooling_tune_up', email: h.email, reason: 'due' }).returning({ id: reminderSends.id });
     const before = new Date();
     await sendCampaign(ctx.deps, camp!.id);
     const got = await smtp.store.waitForLatest({ to: h.email, after: before }, waitMs);
@@ -86,7 +86,7 @@ describe('reminders carry the sender, the postal address and a working opt-out',
     const next = await remind(h, 1000);
     expect(next.mail).toBeNull();
     const [row] = await ctx.database.db.select().from(reminderSends).where(eq(reminderSends.id, next.sendId));
-    expect(row).toMatchObject({ status: 'failed', error: 'Unsubscribed: not sent.' });
+    expect(row).toMatchObject({ status: 'suppressed', error: 'Unsubscribed: not sent.' });
 
     // Transactional mail is never suppressed.
     const before = new Date();

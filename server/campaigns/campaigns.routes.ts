@@ -1,20 +1,34 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { createCampaignSchema, reminderPreviewQuerySchema } from '../../shared/schemas/campaigns';
+import { audienceQuerySchema, campaignActionSchema, createCampaignSchema } from '../../shared/schemas/campaigns';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { campaignSummary, createCampaign, listCampaigns, previewReminders } from './campaigns.service';
+import { actOnCampaign, campaignSummary, createCampaign, deliveryLog, listCampaigns, previewMessages, previewReminders } from './campaigns.service';
+
+const idParams = z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) });
+const pageQuery = z.object({ after: z.uuid({ message: 'After is a household id.' }).optional() });
+const logQuery = z.object({ customerId: z.uuid({ message: 'Customer id is not valid.' }).optional() });
+
+function filterOf(q: z.infer<typeof audienceQuerySchema>) {
+  const { kind, ...rest } = q;
+  return { kind, filter: Object.fromEntries(Object.entries(rest).filter(([, v]) => v !== undefined)) };
+}
 
 // Seasonal reminders are office work: office staff and the owner only.
 export function campaignRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  const db = deps.database.db;
   router.use(requireRole('office', 'owner'));
 
   router.get('/preview', async (req, res) => {
-    const { kind } = parse(reminderPreviewQuerySchema, req.query);
-    res.json(await previewReminders(deps, kind));
+    const { kind, filter } = filterOf(parse(audienceQuerySchema, req.query));
+    const { after } = parse(pageQuery, { after: req.query['after'] });
+    res.json(await previewReminders(deps, kind, filter, after ?? null));
+  });
+
+  router.get('/preview/messages', async (req, res) => {
+    const { kind, filter } = filterOf(parse(audienceQuerySchema, req.query));
+    res.json({ messages: await previewMessages(deps, kind, filter) });
   });
 
   router.get('/campaigns', async (_req, res) => {
@@ -22,13 +36,24 @@ export function campaignRoutes(deps: AppDeps): Router {
   });
 
   router.post('/campaigns', async (req, res) => {
-    const { kind, expectedCount } = parse(createCampaignSchema, req.body);
-    res.status(201).json(await createCampaign(deps, currentUser(req), kind, expectedCount));
+    res.status(201).json(await createCampaign(deps, currentUser(req), parse(createCampaignSchema, req.body)));
   });
 
   router.get('/campaigns/:id', async (req, res) => {
-    const { id } = parse(z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) }), req.params);
+    const { id } = parse(idParams, req.params);
     res.json(await campaignSummary(deps, id));
+  });
+
+  router.post('/campaigns/:id/actions', async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    const { action } = parse(campaignActionSchema, req.body);
+    res.json(await actOnCampaign(deps, id, action));
+  });
+
+  router.get('/campaigns/:id/deliveries', async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    const { customerId } = parse(logQuery, req.query);
+    res.json({ deliveries: await deliveryLog(deps, id, customerId) });
   });
 
   return router;

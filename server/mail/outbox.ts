@@ -91,7 +91,7 @@ export async function queueMail(deps: OutboxDeps, mail: MailToQueue): Promise<bo
 }
 
 /** SMTP 5xx replies are permanent (RFC 5321 section 4.2.1); bad input never gets better either. */
-function isPermanent(err: unknown): boolean {
+export function isPermanent(err: unknown): boolean {
   if (err instanceof MailInputError) return true;
   return err instanceof MailDeliveryError && err.responseCode !== undefined && err.responseCode >= 500 && err.responseCode < 600;
 }

@@ -1,14 +1,60 @@
 import { z } from 'zod';
+import { EQUIPMENT_KINDS } from '../equipment';
+import { HOUSEHOLD_FACTORS } from '../reminders';
 import { REMINDER_KINDS } from '../seasonal-reminders';
 
-export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter or coil cleaning.' });
+export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'cancelled', 'done'] as const;
+export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
+export const REMINDER_SEND_STATUSES = ['pending', 'sending', 'sent', 'failed', 'suppressed', 'cancelled'] as const;
+export type ReminderSendStatus = (typeof REMINDER_SEND_STATUSES)[number];
 
-export const reminderPreviewQuerySchema = z.object({ kind: reminderKindSchema });
-export const createCampaignSchema = z.object({
+export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter, coil cleaning or condensate drain.' });
+
+/** Who a campaign goes to, on top of "due for this kind". Every filter is optional. */
+export const audienceFilterSchema = z
+  .object({
+    /** A plan's code, "none" for households without a plan in force, or "any" (left out: anyone). */
+    plan: z.string({ message: 'Plan is a plan code, "none" or "any".' }).trim().min(1, 'Plan is a plan code, "none" or "any".').max(40).optional(),
+    /** A ZIP code or a town name. */
+    area: z.string({ message: 'Area is a ZIP code or a town.' }).trim().min(1, 'Area is a ZIP code or a town.').max(80).optional(),
+    equipmentKind: z.enum(EQUIPMENT_KINDS, { message: 'Equipment kind is not one we record.' }).optional(),
+    /** Only households with no tune-up booked this season. */
+    noTuneUpThisSeason: z.boolean({ message: 'No tune-up this season is yes or no.' }).optional(),
+  })
+  .strict();
+export type AudienceFilter = z.infer<typeof audienceFilterSchema>;
+
+const queryBool = z
+  .enum(['true', 'false'], { message: 'No tune-up this season is true or false.' })
+  .transform((v) => v === 'true')
+  .optional();
+
+/** The same filters as query parameters, for the count and the preview. */
+export const audienceQuerySchema = z.object({
   kind: reminderKindSchema,
-  /** The audience size the sender saw; if it changed since, the send is refused and re-shown. */
-  expectedCount: z.number({ message: 'Expected count is a whole number.' }).int().min(0),
+  plan: audienceFilterSchema.shape.plan,
+  area: audienceFilterSchema.shape.area,
+  equipmentKind: audienceFilterSchema.shape.equipmentKind,
+  noTuneUpThisSeason: queryBool,
 });
+
+export const reminderPreviewQuerySchema = audienceQuerySchema;
+
+export const createCampaignSchema = z
+  .object({
+    kind: reminderKindSchema,
+    audience: audienceFilterSchema.default({}),
+    /** The audience size the sender saw; if it changed since, the send is refused and re-shown. */
+    expectedCount: z.number({ message: 'Expected count is a whole number.' }).int('Expected count is a whole number.').min(0, 'Expected count is a whole number.'),
+    /** Left out: send now. Otherwise the local time in the company's zone, "YYYY-MM-DDTHH:mm". */
+    sendAt: z
+      .string({ message: 'Send at is a date and time.' })
+      .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/, 'Send at is a date and time like 2026-09-01T08:00.')
+      .optional(),
+  })
+  .strict();
+
+export const campaignActionSchema = z.object({ action: z.enum(['pause', 'resume', 'cancel'], { message: 'Action is pause, resume or cancel.' }) });
 
 export interface ReminderRecipient {
   customerId: string;
@@ -21,19 +67,76 @@ export interface ReminderPreview {
   kind: (typeof REMINDER_KINDS)[number];
   label: string;
   subject: string;
+  /** Households due, in full only up to the page size; `count` is the whole audience. */
   audience: ReminderRecipient[];
+  count: number;
   skipped: number;
+  /** Keyset for the next page of `audience`, or null at the end. */
+  next: string | null;
+}
+
+export interface MessagePreview {
+  customerId: string;
+  name: string;
+  email: string;
+  subject: string;
+  html: string;
+  text: string;
 }
 
 export interface ReminderCampaignSummary {
   id: string;
   kind: (typeof REMINDER_KINDS)[number];
   label: string;
+  status: CampaignStatus;
+  audience: AudienceFilter;
   audienceCount: number;
   sent: number;
   failed: number;
+  suppressed: number;
   pending: number;
+  scheduledAt: string | null;
   createdAt: string;
   finishedAt: string | null;
   createdBy: string;
+}
+
+export interface DeliveryLogEntry {
+  customerId: string;
+  name: string;
+  event: 'sent' | 'retry' | 'failed' | 'suppressed';
+  detail: string;
+  permanent: boolean;
+  at: string;
+}
+
+// ---- The homeowner's side ----
+
+export const reminderPreferencesSchema = z
+  .object({
+    factors: z.array(z.enum(HOUSEHOLD_FACTORS, { message: 'Choose from pets, allergies, smokers or renovation dust.' })).max(HOUSEHOLD_FACTORS.length),
+    emailOff: z.array(reminderKindSchema).max(REMINDER_KINDS.length),
+  })
+  .strict();
+export type ReminderPreferences = z.infer<typeof reminderPreferencesSchema>;
+
+export const filterChangedSchema = z.object({ equipmentId: z.uuid({ message: 'Equipment id is not valid.' }) }).strict();
+
+export interface MyDueItem {
+  kind: 'cooling_tune_up' | 'heating_tune_up' | 'filter' | 'coil_cleaning' | 'condensate_drain' | 'renewal';
+  label: string;
+  dueOn: string;
+  inDays: number;
+  why: string;
+  equipmentId?: string;
+  propertyId: string;
+  /** Where "Book a tune-up" goes, with the kind and the home chosen. */
+  bookingPath: string | null;
+}
+
+export interface MyReminders {
+  items: MyDueItem[];
+  preferences: ReminderPreferences;
+  /** True when this household has opted out of every reminder by one-click unsubscribe. */
+  unsubscribed: boolean;
 }

@@ -11,5 +11,6 @@ export const PORTAL_ROUTES: Routes = [
   { path: 'booking/visits', loadComponent: () => import('./booking/my-visits').then((m) => m.MyVisits), title: 'Your visits · Seasonwell' },
   { path: 'booking/visits/:id', loadComponent: () => import('./booking/visit-detail').then((m) => m.VisitDetail), title: 'Your visit · Seasonwell' },
   { path: 'visits/:id', loadComponent: () => import('./visit-summary/visit-summary').then((m) => m.VisitSummary), providers: [provideCharts(withDefaultRegisterables())], title: 'Visit summary · Seasonwell' },
+  { path: 'reminders', loadComponent: () => import('./reminders/reminder-preferences').then((m) => m.ReminderPreferences), title: 'Reminders · Seasonwell' },
   { path: 'home', loadComponent: () => import('./home/my-home').then((m) => m.MyHome), providers: [provideCharts(withDefaultRegisterables())], title: 'My home · Seasonwell' },
 ];

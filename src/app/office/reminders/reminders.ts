@@ -1,15 +1,23 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
+import { MatTabsModule } from '@angular/material/tabs';
+import { DomSanitizer } from '@angular/platform-browser';
 import { ActivatedRoute, Router } from '@angular/router';
-import { Subscription, switchMap, takeWhile, timer } from 'rxjs';
+import { Subscription, debounceTime, of, switchMap, takeWhile, timer } from 'rxjs';
+import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
 import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/seasonal-reminders';
-import type { ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
+import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { RemindersApi } from './reminders-api';
@@ -17,14 +25,18 @@ import { RemindersApi } from './reminders-api';
 const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
   cooling_tune_up: { icon: 'snowflake', text: 'Plan members whose spring cooling tune-up is not booked yet.' },
   heating_tune_up: { icon: 'flame', text: 'Plan members whose fall heating tune-up is not booked yet.' },
-  filter: { icon: 'wrench', text: 'Households whose filter is due for a change, by filter size and last visit.' },
-  coil_cleaning: { icon: 'gauge', text: 'Outdoor coils a technician flagged, or plans that include a yearly cleaning.' },
+  filter: { icon: 'wrench', text: 'Filters due by their type, the household and the last change.' },
+  coil_cleaning: { icon: 'gauge', text: 'Outdoor coils a year after the last tune-up, or sooner when a technician advised it.' },
+  condensate_drain: { icon: 'gauge', text: 'Condensate drains once a year, or sooner when a technician advised it.' },
 };
 
-/** Seasonal reminders: pick a kind, see exactly who gets it and why, send once, watch it go. */
+/** Campaigns: pick a kind and an audience, see the count and three messages, send or schedule, watch it go. */
 @Component({
   selector: 'sw-reminders',
-  imports: [DatePipe, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, MatTableModule],
+  imports: [
+    DatePipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule,
+    MatProgressBarModule, MatSelectModule, MatTableModule, MatTabsModule,
+  ],
   templateUrl: './reminders.html',
   styleUrl: './reminders.scss',
   host: { class: 'sw-dense' },
@@ -35,26 +47,51 @@ export class Reminders {
   private readonly route = inject(ActivatedRoute);
   private readonly router = inject(Router);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly sanitizer = inject(DomSanitizer);
   private polling: Subscription | null = null;
 
   protected readonly kinds = REMINDER_KINDS.map((kind) => ({ kind, label: REMINDER_LABELS[kind], ...KIND_TEXT[kind] }));
+  protected readonly equipmentKinds = EQUIPMENT_KINDS.map((k) => ({ value: k, label: EQUIPMENT_KIND_LABELS[k] }));
   protected readonly columns = ['name', 'email', 'reason'];
+  protected readonly filters = new FormGroup({
+    plan: new FormControl('', { nonNullable: true }),
+    area: new FormControl('', { nonNullable: true }),
+    equipmentKind: new FormControl('', { nonNullable: true }),
+    noTuneUpThisSeason: new FormControl(false, { nonNullable: true }),
+  });
+  protected readonly sendAt = new FormControl('', { nonNullable: true });
   protected readonly selected = signal<ReminderKind | null>(null);
-  private readonly previewRead = rxResource({ params: () => this.selected() ?? undefined, stream: ({ params }) => this.api.preview(params) });
+  private readonly filter = signal<AudienceFilter>({});
+  private readonly plansRead = rxResource({ stream: () => this.api.plans() });
+  protected readonly plans = computed(() => (this.plansRead.hasValue() ? this.plansRead.value().plans : []));
+  private readonly previewRead = rxResource({
+    params: () => (this.selected() ? { kind: this.selected()!, filter: this.filter() } : undefined),
+    stream: ({ params }) => this.api.preview(params.kind, params.filter),
+  });
+  private readonly messagesRead = rxResource({
+    params: () => (this.selected() && this.showMessages() ? { kind: this.selected()!, filter: this.filter() } : undefined),
+    stream: ({ params }) => (params ? this.api.messages(params.kind, params.filter) : of({ messages: [] })),
+  });
   private readonly historyRead = rxResource({ stream: () => this.api.campaigns() });
   protected readonly preview = localCopy<ReminderPreview>(this.previewRead, true);
   protected readonly loading = this.previewRead.isLoading;
+  protected readonly showMessages = signal(false);
+  // Our own rendered e-mails, shown in sandboxed frames (no scripts, no same origin).
+  protected readonly messages = computed(() =>
+    (this.messagesRead.hasValue() ? this.messagesRead.value().messages : []).map((m: MessagePreview) => ({ ...m, safeHtml: this.sanitizer.bypassSecurityTrustHtml(m.html) })),
+  );
   protected readonly confirming = signal(false);
   protected readonly sending = signal(false);
   private readonly previewError = errorMessage(this.previewRead);
   private readonly sendError = signal<string | null>(null);
+  protected readonly sendAtError = signal<string | null>(null);
   protected readonly error = computed(() => this.sendError() ?? this.previewError());
   protected readonly campaign = signal<ReminderCampaignSummary | null>(null);
   protected readonly history = computed<ReminderCampaignSummary[]>(() => (this.historyRead.hasValue() ? this.historyRead.value().campaigns : []));
-  protected readonly audienceCount = computed(() => this.preview()?.audience.length ?? 0);
+  protected readonly audienceCount = computed(() => this.preview()?.count ?? 0);
   protected readonly progressPct = computed(() => {
     const c = this.campaign();
-    return c && c.audienceCount ? Math.round(((c.sent + c.failed) / c.audienceCount) * 100) : 0;
+    return c && c.audienceCount ? Math.min(100, Math.round(((c.sent + c.failed + c.suppressed) / c.audienceCount) * 100)) : 0;
   });
 
   constructor() {
@@ -62,6 +99,15 @@ export class Reminders {
     this.route.queryParamMap.pipe(takeUntilDestroyed()).subscribe((params) => {
       const kind = params.get('kind') as ReminderKind | null;
       if (kind && REMINDER_KINDS.includes(kind)) this.load(kind);
+    });
+    this.filters.valueChanges.pipe(debounceTime(300), takeUntilDestroyed()).subscribe((v) => {
+      const f: AudienceFilter = {};
+      if (v.plan) f.plan = v.plan;
+      if (v.area?.trim()) f.area = v.area.trim();
+      if (v.equipmentKind) f.equipmentKind = v.equipmentKind as AudienceFilter['equipmentKind'];
+      if (v.noTuneUpThisSeason) f.noTuneUpThisSeason = true;
+      this.confirming.set(false);
+      this.filter.set(f);
     });
   }
 
@@ -81,7 +127,8 @@ export class Reminders {
     if (!p || this.sending()) return;
     this.sending.set(true);
     this.sendError.set(null);
-    this.api.send(p.kind, p.audience.length).subscribe({
+    this.sendAtError.set(null);
+    this.api.send(p.kind, this.filter(), p.count, this.sendAt.value || undefined).subscribe({
       next: (c) => {
         this.sending.set(false);
         this.confirming.set(false);
@@ -91,11 +138,29 @@ export class Reminders {
       error: (err: unknown) => {
         this.sending.set(false);
         const e = toApiError(err);
+        if (e.fields?.['sendAt']) this.sendAtError.set(e.fields['sendAt']);
         this.sendError.set(e.message);
-        // The audience moved under us: show the new list before anyone sends again.
+        // The audience moved under us: show the new count before anyone sends again.
         if (e.code === 'audience_changed') this.load(p.kind);
       },
     });
+  }
+
+  protected act(action: 'pause' | 'resume' | 'cancel'): void {
+    const c = this.campaign();
+    if (!c) return;
+    this.api.act(c.id, action).subscribe({
+      next: (next) => {
+        this.campaign.set(next);
+        if (next.status === 'sending' || next.status === 'scheduled') this.watch(next.id);
+      },
+      error: (err: unknown) => this.sendError.set(toApiError(err).message),
+    });
+  }
+
+  protected watchCampaign(c: ReminderCampaignSummary): void {
+    this.campaign.set(c);
+    this.watch(c.id);
   }
 
   private watch(id: string): void {
@@ -103,20 +168,16 @@ export class Reminders {
     this.polling = timer(0, 1000)
       .pipe(
         switchMap(() => this.api.campaign(id)),
-        takeWhile((c) => c.pending > 0, true),
+        takeWhile((c) => c.status === 'sending' || c.status === 'scheduled', true),
         takeUntilDestroyed(this.destroyRef),
       )
       .subscribe({
         next: (c) => this.campaign.set(c),
         complete: () => {
-          this.loadHistory();
+          this.historyRead.reload();
           const kind = this.selected();
           if (kind) this.load(kind);
         },
       });
-  }
-
-  private loadHistory(): void {
-    this.historyRead.reload();
   }
 }

@@ -9,6 +9,7 @@ import { formatUsd } from '../../../../shared/money';
 import type { HomeSummary } from '../../../../shared/schemas/home';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { MyHomeApi } from '../home/my-home-api';
+import { DueList } from '../reminders/due-list';
 import type { MyHome } from '../../../../shared/schemas/customers';
 
 interface SystemLine {
@@ -22,7 +23,7 @@ interface SystemLine {
 /** The homeowner's first screen: the plan, the next visit, what is owed and each system, each linking on. */
 @Component({
   selector: 'sw-portal-home',
-  imports: [DatePipe, MatButtonModule, MatCardModule, MatIconModule, RouterLink],
+  imports: [DatePipe, DueList, MatButtonModule, MatCardModule, MatIconModule, RouterLink],
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
