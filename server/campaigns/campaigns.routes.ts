@@ -9,7 +9,6 @@ import { campaignSummary, createCampaign, listCampaigns, previewReminders } from
 // Seasonal reminders are office work: office staff and the owner only.
 export function campaignRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  const db = deps.database.db;
   router.use(requireRole('office', 'owner'));
 
   router.get('/preview', async (req, res) => {

@@ -161,7 +161,6 @@ async function bookingLink(db: Db | Tx, publicUrl: string, customerId: string, _
 }
 
 export async function campaignSummary(deps: Pick<AppDeps, 'database'>, campaignId: string): Promise<ReminderCampaignSummary> {
-  const { db } = deps.database;
   const list = await listCampaigns(deps, campaignId);
   if (!list.length) throw notFound('That reminder campaign');
   return list[0]!;
