@@ -55,6 +55,19 @@ let exitCode = 1;
 try {
   ensureDependencies();
   ensureChromium();
+
+  // Lint counts as one check: ESLint (with the project's own rules) and Prettier's check both pass.
+  let lintCode = 1;
+  await layer(
+    'lint (ESLint, Prettier)',
+    async () => {
+      const eslint = await run(join(BIN, 'eslint'), ['.']);
+      const prettier = await run(join(BIN, 'prettier'), ['--check', '--log-level=warn', '.']);
+      lintCode = eslint === 0 && prettier === 0 ? 0 : 1;
+      return lintCode;
+    },
+    () => (lintCode === 0 ? { passed: 1, failed: 0 } : { passed: 0, failed: 1 }),
+  );
   const pgPort = await freePort();
   await ensureCluster({ home: pgHome, port: pgPort, durable: false });
   pgUp = true;

@@ -1,7 +1,7 @@
 import { and, desc, eq, inArray, isNull } from 'drizzle-orm';
 import type { InvoiceLine } from '../../shared/money';
 import { formatUsd } from '../../shared/money';
-import { addDays, daysBetween, DEFAULT_GRACE_DAYS, lapseDate, lastCoveredDay, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
+import { daysBetween, DEFAULT_GRACE_DAYS, lapseDate, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
 import type { AgreementView, EnrollInput, PlanView } from '../../shared/schemas/plans';
 import { coveredThroughLabel, termLastDay, termRangeLabel } from '../../shared/agreement-terms';
 import { agreementTermViews } from './term-in-force';

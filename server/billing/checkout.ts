@@ -1,4 +1,4 @@
-import { and, eq, or } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import Stripe from 'stripe';
 import type { AppDeps } from '../deps';
 import { agreements, billingAccounts, customers, invoices, payments } from '../db/schema';
@@ -6,8 +6,6 @@ import { AppError, conflict, notFound } from '../http/errors';
 import { paymentErrorMessage } from '../integrations/stripe';
 import { recordHistory, saveCardOnAgreement } from '../agreements/terms';
 
-type InvoiceRow = typeof invoices.$inferSelect;
-type PaymentRow = typeof payments.$inferSelect;
 import { lockInvoice, settleInvoice } from './invoices';
 import { queueReceipt } from './receipts';
 

@@ -11,7 +11,6 @@ import { applyPaidAgreementInvoice } from '../agreements/terms';
 import { companyRow, localDate } from '../company/company';
 
 type InvoiceRow = typeof invoices.$inferSelect;
-type PaymentRow = typeof payments.$inferSelect;
 
 // Invoices: numbers, creation, issue and void, and how they read.
 

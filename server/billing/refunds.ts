@@ -1,4 +1,4 @@
-import { and, eq, or } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { formatUsd } from '../../shared/money';
 import type { InvoiceStatus, InvoiceView, OfflinePaymentInput, RefundInput } from '../../shared/schemas/billing';
 import type { SessionUser } from '../../shared/schemas/session';
@@ -6,7 +6,6 @@ import type { AppDeps } from '../deps';
 import { invoices, payments, refunds } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 
-type InvoiceRow = typeof invoices.$inferSelect;
 type PaymentRow = typeof payments.$inferSelect;
 import { invoiceView, lockInvoice, settleInvoice } from './invoices';
 import { closeOpenCheckouts, providerError } from './checkout';

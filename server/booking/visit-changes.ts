@@ -1,4 +1,4 @@
-import { and, sql } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import { availableWindows, planBooking } from '../../shared/scheduling';

@@ -1,7 +1,7 @@
-import { and, eq, sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { Tx } from '../db/client';
-import { agreements, contacts, customerNotes, customers, files, invoices, properties, visits } from '../db/schema';
+import { contacts, customerNotes, customers } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import type { AppDeps } from '../deps';
 import { customerRow } from './customer-views';

@@ -9,7 +9,6 @@ import { addMyNote, myHome, updateMyAccess, updateMyContact } from './my-home.se
 /** The homeowner's "My home": only ever their own household, taken from the session. */
 export function myHomeRoutes(deps: AppDeps): Router {
   const r = Router({ caseSensitive: true, strict: true });
-  const { db } = deps.database;
   r.use(requireRole('homeowner'));
 
   r.get('/', async (req, res) => {

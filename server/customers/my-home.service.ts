@@ -62,7 +62,6 @@ export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: Se
 }
 
 export async function updateMyContact(deps: Pick<AppDeps, 'database'>, user: SessionUser, input: HomeContact): Promise<void> {
-  const { db } = deps.database;
   await updateCustomer(deps, household(user), input);
 }
 

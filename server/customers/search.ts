@@ -1,6 +1,6 @@
 import { and, asc, desc, isNotNull, isNull, sql, type SQL } from 'drizzle-orm';
 import type { CustomerListQuery, CustomerPage } from '../../shared/schemas/customers';
-import { customers, properties } from '../db/schema';
+import { customers } from '../db/schema';
 import type { AppDeps } from '../deps';
 
 // ---- Search and list ----

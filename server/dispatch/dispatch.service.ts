@@ -17,6 +17,7 @@ import { sendVisitMail } from '../booking/booking.mail';
 import { scheduleAssignmentNotice } from '../booking/assignment-notice';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
+import { deleteTimeOff, insertTimeOff } from '../booking/time-off';
 import { toView, visitRows } from '../booking/visit-views';
 import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
@@ -277,7 +278,7 @@ export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body
   if (!tech) throw new AppError(422, 'validation_failed', 'That technician was not found.', { technicianId: 'not a technician' });
   const startsAt = new Date(body.startsAt);
   const endsAt = new Date(body.endsAt);
-  const [row] = await db.insert(technicianTimeOff).values({ technicianId: body.technicianId, startsAt, endsAt, reason: body.reason }).returning();
+  const row = await insertTimeOff(db, { technicianId: body.technicianId, startsAt, endsAt, reason: body.reason });
   // Visits already in that time stay put; the office sees them and moves them.
   const c = await loadCompanySettings(db);
   const clashes = await visitRows(
@@ -285,14 +286,13 @@ export async function addTimeOff(deps: Pick<AppDeps, 'database' | 'clock'>, body
     and(eq(visits.technicianId, body.technicianId), inArray(visits.status, ['requested', 'scheduled']), lt(visits.startsAt, endsAt), gt(visits.endsAt, startsAt)),
   );
   return {
-    timeOff: { id: row!.id, startsAt: row!.startsAt.toISOString(), endsAt: row!.endsAt.toISOString(), reason: row!.reason },
+    timeOff: { id: row.id, startsAt: row.startsAt.toISOString(), endsAt: row.endsAt.toISOString(), reason: row.reason },
     conflicts: clashes.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now: deps.clock() })),
   };
 }
 
 export async function removeTimeOff(deps: Pick<AppDeps, 'database'>, id: string): Promise<void> {
-  const rows = await deps.database.db.delete(technicianTimeOff).where(eq(technicianTimeOff.id, id)).returning({ id: technicianTimeOff.id });
-  if (!rows.length) throw notFound('That time off');
+  if (!(await deleteTimeOff(deps.database.db, id))) throw notFound('That time off');
 }
 
 /** Households for the office booking a caller: by name, e-mail, phone or street. */

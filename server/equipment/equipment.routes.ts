@@ -16,7 +16,6 @@ const propertyRef = z.object({ propertyId: z.uuid({ error: 'Choose the property 
  */
 export function equipmentRoutes(deps: AppDeps): Router {
   const r = Router({ caseSensitive: true, strict: true });
-  const { db } = deps.database;
 
   r.get('/', staff, async (req, res) => {
     const propertyId = typeof req.query.propertyId === 'string' ? req.query.propertyId : '';

@@ -81,7 +81,6 @@ async function equipmentFor(db: Db | Tx, user: SessionUser, id: string) {
 
 export async function listPropertyEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, includeArchived = false): Promise<Equipment[]> {
   const { db } = deps.database;
-  const now = deps.clock();
   await propertyFor(db, user, propertyId);
   const rows = await db
     .select()
@@ -104,7 +103,6 @@ export async function equipmentForProperties(db: Db | Tx, propertyIds: string[],
 
 export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, input: EquipmentInput): Promise<Equipment> {
   const { db } = deps.database;
-  const now = deps.clock();
   const p = await propertyFor(db, user, propertyId);
   if (p.archivedAt) throw new AppError(409, 'archived', 'That property is archived; restore it before adding equipment.');
   const today = await companyToday(deps);
@@ -118,14 +116,12 @@ export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>,
 
 export async function getEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<Equipment> {
   const { db } = deps.database;
-  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
   return toEquipment(e, await companyToday(deps));
 }
 
 export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string, input: EquipmentUpdate): Promise<Equipment> {
   const { db } = deps.database;
-  const now = deps.clock();
   const { e } = await equipmentFor(db, user, id);
   const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);
@@ -153,4 +149,9 @@ export async function setEquipmentArchived(deps: Pick<AppDeps, 'database' | 'clo
     .where(eq(equipment.id, id))
     .returning();
   return toEquipment(row!, await companyToday(deps));
+}
+
+/** A unit a bulk import adds; the import has checked and matched it, inside its own transaction. */
+export async function insertImportedEquipment(tx: Tx, propertyId: string, input: EquipmentInput): Promise<void> {
+  await tx.insert(equipment).values({ ...input, propertyId });
 }

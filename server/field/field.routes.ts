@@ -16,7 +16,6 @@ const seasonQuery = z.object({ season: z.enum(['cooling', 'heating']).optional()
 /** The technician's visit screen: today's list, one visit's page, and what is recorded on site. */
 export function fieldRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  const db = deps.database.db;
   router.use(requireRole('technician', 'owner'));
 
   router.get('/visits/today', async (req, res) => {

@@ -37,6 +37,7 @@ import {
   type VisitRow,
 } from './visit-data';
 import type { AppDeps } from '../deps';
+import { saveVisitFindings } from '../visits/visit-notes';
 import { changeVisitStatus } from '../visits/visit-status';
 import { localDate } from '../company/company';
 
@@ -247,7 +248,7 @@ export async function saveNotes(deps: Pick<AppDeps, 'database'>, user: SessionUs
   const { db } = deps.database;
   const visit = await visitForStaff(db, user, visitId);
   assertOpen(visit);
-  await db.update(visits).set({ findings: body.findings, recommendations: body.recommendations, updatedAt: new Date() }).where(eq(visits.id, visitId));
+  await saveVisitFindings(db, visitId, body);
   return body;
 }
 

@@ -104,6 +104,7 @@ export function assertStorableText(value: unknown, prefix: string[] = []): void 
       if (path.length - prefix.length >= MAX_BODY_DEPTH) throw new AppError(400, 'too_deep', 'The request body is nested too deeply.');
       for (const [k, child] of Object.entries(v)) {
         const why = unstorable(k);
+        // eslint-disable-next-line no-control-regex -- NUL is the character PostgreSQL cannot store
         if (why) throw badText([...path, k.replace(/[\uD800-\uDFFF\u0000]/g, '?')].join('.'), why);
         stack.push({ v: child, path: [...path, k] });
       }

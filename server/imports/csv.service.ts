@@ -15,12 +15,14 @@ import {
   type ImportPreview,
   type ImportProblem,
 } from '../../shared/schemas/customers';
-import { BTUH_PER_TON, equipmentInputSchema, type EquipmentInput } from '../../shared/schemas/equipment';
+import { equipmentInputSchema, type EquipmentInput } from '../../shared/schemas/equipment';
 import type { Tx } from '../db/client';
 import { customers, equipment, properties } from '../db/schema';
 import { AppError } from '../http/errors';
 import type { AppDeps } from '../deps';
 import { companyToday } from '../company/company';
+import { insertImportedCustomer, insertImportedProperty } from '../customers/import-rows';
+import { insertImportedEquipment } from '../equipment/equipment.service';
 
 export const MAX_IMPORT_ROWS = 20_000;
 
@@ -274,8 +276,7 @@ async function writeRows(tx: Tx, values: RowValue[]): Promise<ImportCounts> {
     const address = addressKey(v.property.street, v.property.unit, v.property.zip);
     let customerId = (v.customer.email && byEmail.get(v.customer.email)) || byAddress.get(address)?.customerId;
     if (!customerId) {
-      const [c] = await tx.insert(customers).values(v.customer).returning({ id: customers.id });
-      customerId = c!.id;
+      customerId = await insertImportedCustomer(tx, v.customer);
       counts.customers.created++;
       countedCustomers.add(customerId);
     } else if (!countedCustomers.has(customerId)) {
@@ -287,11 +288,7 @@ async function writeRows(tx: Tx, values: RowValue[]): Promise<ImportCounts> {
     const existing = byAddress.get(address);
     let propertyId = existing && existing.customerId === customerId ? existing.propertyId : undefined;
     if (!propertyId) {
-      const [p] = await tx
-        .insert(properties)
-        .values({ ...v.property, customerId })
-        .returning({ id: properties.id });
-      propertyId = p!.id;
+      propertyId = await insertImportedProperty(tx, customerId, v.property);
       byAddress.set(address, { propertyId, customerId });
       counts.properties.created++;
       countedProperties.add(propertyId);
@@ -305,7 +302,7 @@ async function writeRows(tx: Tx, values: RowValue[]): Promise<ImportCounts> {
       const key = equipmentKey(v.equipment);
       if (seen.has(key)) counts.equipment.matched++;
       else {
-        await tx.insert(equipment).values({ ...v.equipment, propertyId });
+        await insertImportedEquipment(tx, propertyId, v.equipment);
         seen.add(key);
         counts.equipment.created++;
       }

@@ -21,7 +21,6 @@ const mappingField = z.object({
 /** CSV import of households, properties and equipment: preview, check, then import all or nothing. */
 export function importRoutes(deps: AppDeps): Router {
   const r = Router({ caseSensitive: true, strict: true });
-  const { db } = deps.database;
   r.use(requireRole('office', 'owner'));
   const csv = multipart('file', { maxFiles: 1 });
   const fileOf = (req: import('express').Request) => {

@@ -10,7 +10,6 @@ const idParam = z.object({ id: z.uuid('That plan was not found.') });
 
 export function planRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  const { db } = deps.database;
   router.get('/', requireUser, async (req, res) => {
     const user = currentUser(req);
     const all = req.query['all'] === '1' && isStaffOffice(user);

@@ -14,7 +14,7 @@ import {
   type RenewalNotice,
 } from '../../shared/renewals';
 import type { AppDeps } from '../deps';
-import { agreements, customers, plans, planVersions, renewalNotices } from '../db/schema';
+import { agreements, planVersions, renewalNotices } from '../db/schema';
 import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/checkout';
 import { renderEmail } from '../integrations/mail-layout';
 import { paymentErrorMessage } from '../integrations/stripe';

@@ -8,7 +8,6 @@ import { getCompanySettings, updateCompanySettings } from './settings.service';
 // Company details, hours and booking rules: the owner's alone.
 export function settingsRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  const db = deps.database.db;
   router.use(requireRole('owner'));
   router.get('/company', async (_req, res) => {
     res.json(await getCompanySettings(deps));

@@ -15,7 +15,6 @@ export function contentDisposition(kind: 'inline' | 'attachment', name: string):
 /** Photos and documents: upload, and download only through this authorised route. */
 export function uploadRoutes(deps: AppDeps): Router {
   const r = Router({ caseSensitive: true, strict: true });
-  const { db } = deps.database;
   const { storage } = deps;
 
   r.post('/', requireUser, multipart('files'), async (req, res) => {

@@ -49,6 +49,7 @@ interface Prepared {
 /** Keeps a name people recognise, without path parts or control characters. */
 export function cleanName(name: string, ext: string): string {
   const base = (name.split(/[\\/]/).pop() ?? '')
+    // eslint-disable-next-line no-control-regex -- control characters are what a file name must lose
     .replace(/[\u0000-\u001f\u007f"<>|:*?]/g, '')
     .trim()
     .slice(0, 120);

@@ -57,17 +57,44 @@ export function closingInstant(zone: IANAZone, date: LocalDate, minutes: number)
   return all[all.length - 1]!;
 }
 
-/** Same answers as the functions above, remembered per local date and clock time for one search. */
-export class WallClock {
-  private readonly cache = new Map<string, number[]>();
-  constructor(readonly zone: IANAZone) {}
+// A zone's rules do not change while the process runs, so the answers are kept across searches,
+// per zone; each asks the platform's time-zone data several times, which dominates a search.
+const MAX_REMEMBERED = 20_000;
+const boundaryCache = new Map<string, Map<string, readonly number[]>>();
+const offsetCache = new Map<string, Map<number, number>>();
 
-  boundaries(date: LocalDate, minutes: number): number[] {
+function cacheFor<K, V>(caches: Map<string, Map<K, V>>, zone: string): Map<K, V> {
+  let c = caches.get(zone);
+  if (!c) caches.set(zone, (c = new Map()));
+  else if (c.size >= MAX_REMEMBERED) c.clear();
+  return c;
+}
+
+/** Same answers as the functions above, remembered per zone, local date and clock time. */
+export class WallClock {
+  private readonly cache: Map<string, readonly number[]>;
+  private readonly offsets: Map<number, number>;
+  constructor(readonly zone: IANAZone) {
+    this.cache = cacheFor(boundaryCache, zone.name);
+    this.offsets = cacheFor(offsetCache, zone.name);
+  }
+
+  /** The instants, in order; shared between callers, so never changed. */
+  boundaries(date: LocalDate, minutes: number): readonly number[] {
     const key = `${date.year}-${date.month}-${date.day}|${minutes}`;
     let hit = this.cache.get(key);
     if (!hit) {
       hit = boundaryInstants(this.zone, date, minutes);
       this.cache.set(key, hit);
+    }
+    return hit;
+  }
+  /** The zone's UTC offset in minutes at an instant. */
+  offset(ms: number): number {
+    let hit = this.offsets.get(ms);
+    if (hit === undefined) {
+      hit = this.zone.offset(ms);
+      this.offsets.set(ms, hit);
     }
     return hit;
   }

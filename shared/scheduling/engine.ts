@@ -46,13 +46,48 @@ interface Context {
   bufferMs: number;
   earliestWindowStart: number;
   priority: boolean;
-  bookedByTech: Map<string, Span[]>;
-  ordinaryBooked: Span[];
+  bookedByTech: Map<string, Calendar>;
+  ordinaryBooked: Calendar;
+}
+
+/** Visits in start order, each with its place in the input, for picking out one day's without a full scan. */
+interface Calendar {
+  spans: (Span & { at: number })[];
+  longestMs: number;
+}
+
+function calendarOf(spans: Span[]): Calendar {
+  const list = spans.map((s, at) => ({ ...s, at })).sort((a, b) => a.start - b.start || a.at - b.at);
+  return { spans: list, longestMs: list.reduce((m, s) => Math.max(m, s.end - s.start), 0) };
+}
+
+/** First index whose start is at least `t`. */
+function firstStartingFrom(list: Span[], t: number): number {
+  let lo = 0;
+  let hi = list.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (list[mid]!.start < t) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** The visits that start in [from, before) and end after `endsAfter`, in input order (as a filter would give them). */
+function picked(cal: Calendar | undefined, from: number, before: number, endsAfter: number): Span[] {
+  if (!cal) return [];
+  const out: (Span & { at: number })[] = [];
+  for (let i = firstStartingFrom(cal.spans, from); i < cal.spans.length; i++) {
+    const s = cal.spans[i]!;
+    if (s.start >= before) break;
+    if (s.end > endsAfter) out.push(s);
+  }
+  return out.sort((a, b) => a.at - b.at).map(({ start, end }) => ({ start, end }));
 }
 
 function weekdayOf(date: LocalDate): (typeof WEEKDAYS)[number] {
-  const dt = DateTime.fromObject(date, { zone: 'UTC' });
-  return WEEKDAYS[dt.weekday - 1]!;
+  // getUTCDay: 0 = Sunday; WEEKDAYS starts on Monday.
+  return WEEKDAYS[(new Date(Date.UTC(date.year, date.month - 1, date.day)).getUTCDay() + 6) % 7]!;
 }
 
 function intervalsOn(hours: WeeklyHours, date: LocalDate): HoursInterval[] {
@@ -110,8 +145,74 @@ function localDates(from: string, to: string): LocalDate[] {
   return out;
 }
 
-function buildContext(raw: AvailabilityInput): Context {
+/** The booked visits grouped once per search: each technician's, and those using the ordinary share. */
+function calendars(booked: ParsedAvailabilityInput['booked']): Pick<Context, 'bookedByTech' | 'ordinaryBooked'> {
+  const byTech = new Map<string, Span[]>();
+  const ordinary: Span[] = [];
+  for (const v of booked) {
+    const span = { start: Date.parse(v.start), end: Date.parse(v.end) };
+    const list = byTech.get(v.technicianId);
+    if (list) list.push(span);
+    else byTech.set(v.technicianId, [span]);
+    if (!v.priority) ordinary.push({ ...span });
+  }
+  return { bookedByTech: new Map([...byTech].map(([id, spans]) => [id, calendarOf(spans)])), ordinaryBooked: calendarOf(ordinary) };
+}
+
+type Booked = ParsedAvailabilityInput['booked'];
+
+interface CheckedCalendar {
+  /** Each entry and its four fields as they were when checked, to know the calendar is unchanged. */
+  seen: unknown[];
+  booked: Booked;
+  grouped: Pick<Context, 'bookedByTech' | 'ordinaryBooked'>;
+}
+
+// The same calendar array is handed in on every search while the schedule stays the same (the
+// windows route keeps one per schedule version): its visits are checked and grouped once.
+const checkedCalendars = new WeakMap<object, CheckedCalendar>();
+
+function fieldsOf(booked: readonly unknown[]): unknown[] {
+  const seen: unknown[] = new Array(booked.length * 5);
+  booked.forEach((v, i) => {
+    const r = (v ?? {}) as Record<string, unknown>;
+    seen[i * 5] = v;
+    seen[i * 5 + 1] = r.technicianId;
+    seen[i * 5 + 2] = r.start;
+    seen[i * 5 + 3] = r.end;
+    seen[i * 5 + 4] = r.priority;
+  });
+  return seen;
+}
+
+function sameFields(a: unknown[], b: unknown[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/** Parses the input; a calendar unchanged since it was last checked is not checked or grouped again. */
+function parsedWithCalendar(raw: AvailabilityInput): { input: ParsedAvailabilityInput; grouped: Pick<Context, 'bookedByTech' | 'ordinaryBooked'> } {
+  const list = (raw as { booked?: unknown }).booked;
+  if (!Array.isArray(list)) {
+    const input = parseAvailabilityInput(raw);
+    return { input, grouped: calendars(input.booked) };
+  }
+  const seen = fieldsOf(list);
+  const known = checkedCalendars.get(list);
+  if (known && sameFields(known.seen, seen)) {
+    // Valid visits add no problem of their own, so the rest reports exactly what the whole would.
+    const rest = parseAvailabilityInput({ ...raw, booked: [] });
+    return { input: { ...rest, booked: known.booked }, grouped: known.grouped };
+  }
   const input = parseAvailabilityInput(raw);
+  const grouped = calendars(input.booked);
+  checkedCalendars.set(list, { seen, booked: input.booked, grouped });
+  return { input, grouped };
+}
+
+function buildContext(raw: AvailabilityInput): Context {
+  const { input, grouped } = parsedWithCalendar(raw);
   const { settings, request } = input;
   const zone = IANAZone.create(settings.timeZone);
   return {
@@ -122,14 +223,7 @@ function buildContext(raw: AvailabilityInput): Context {
     bufferMs: settings.travelBufferMinutes * MINUTE,
     earliestWindowStart: Date.parse(request.now) + settings.leadTimeMinutes * MINUTE,
     priority: request.member || request.urgent,
-    bookedByTech: input.booked.reduce((map, v) => {
-      const list = map.get(v.technicianId) ?? [];
-      list.push({ start: Date.parse(v.start), end: Date.parse(v.end) });
-      return map.set(v.technicianId, list);
-    }, new Map<string, Span[]>()),
-    ordinaryBooked: input.booked
-      .filter((v) => !v.priority)
-      .map((v) => ({ start: Date.parse(v.start), end: Date.parse(v.end) })),
+    ...grouped,
   };
 }
 
@@ -152,16 +246,16 @@ function planDay(ctx: Context, date: LocalDate): DayPlan {
     for (const s of shifts) {
       capacityMinutes += (s.end - s.start - off.reduce((sum, o) => sum + overlapMs(s, o), 0)) / MINUTE;
     }
-    const mine = (ctx.bookedByTech.get(t.id) ?? []).filter(near);
+    // near(v) over visits in start order: a start before day.end + reach and an end after day.start - reach.
+    const cal = ctx.bookedByTech.get(t.id);
+    const mine = cal ? picked(cal, day.start - reach - cal.longestMs, day.end + reach, day.start - reach) : [];
     const blocked = [...off, ...mine.map((v) => ({ start: v.start - ctx.bufferMs, end: v.end + ctx.bufferMs }))];
     const bookedMinutes = mine.reduce((sum, v) => sum + overlapMs(v, day), 0) / MINUTE;
     return { id: t.id, shifts, blocked, bookedMinutes };
   });
 
   // Each visit costs its time on site plus the drive to it.
-  const ordinaryUsedMinutes = ctx.ordinaryBooked
-    .filter((v) => v.start >= day.start && v.start < day.end)
-    .reduce((sum, v) => sum + (v.end - v.start) / MINUTE + settings.travelBufferMinutes, 0);
+  const ordinaryUsedMinutes = picked(ctx.ordinaryBooked, day.start, day.end, Number.NEGATIVE_INFINITY).reduce((sum, v) => sum + (v.end - v.start) / MINUTE + settings.travelBufferMinutes, 0);
 
   return {
     date,
@@ -169,7 +263,7 @@ function planDay(ctx: Context, date: LocalDate): DayPlan {
     techs,
     capacityMinutes,
     ordinaryUsedMinutes,
-    showZone: ctx.zone.offset(day.start) !== ctx.zone.offset(day.end - 1),
+    showZone: ctx.clock.offset(day.start) !== ctx.clock.offset(day.end - 1),
   };
 }
 

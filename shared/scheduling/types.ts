@@ -141,8 +141,45 @@ export const availabilityInputSchema = z
 export type AvailabilityInput = z.input<typeof availabilityInputSchema>;
 export type ParsedAvailabilityInput = z.output<typeof availabilityInputSchema>;
 
+// The pattern zod's z.iso.datetime({ offset: true }) checks (zod 4, seconds required), so a string
+// that matches here passes there too.
+const INSTANT =
+  /^(?:(?:\d\d[2468][048]|\d\d[13579][26]|\d\d0[48]|[02468][048]00|[13579][26]00)-02-29|\d{4}-(?:(?:0[13578]|1[02])-(?:0[1-9]|[12]\d|3[01])|(?:0[469]|11)-(?:0[1-9]|[12]\d|30)|(?:02)-(?:0[1-9]|1\d|2[0-8])))T(?:(?:[01]\d|2[0-3]):[0-5]\d:[0-5]\d(?:\.\d+)?(?:Z|([+-](?:[01]\d|2[0-3]):[0-5]\d)))$/;
+
+type ParsedBooked = ParsedAvailabilityInput['booked'];
+
+/**
+ * Booked visits checked by hand, as bookedVisitSchema would accept them, with its output; null when
+ * any one might not pass, so the schema itself then reports the problem. The calendar is the large
+ * part of the input and the same on every call: checking it with zod cost more than the search.
+ */
+function plainBooked(booked: unknown): ParsedBooked | null {
+  if (booked === undefined) return [];
+  if (!Array.isArray(booked)) return null;
+  const out: ParsedBooked = new Array(booked.length);
+  for (let i = 0; i < booked.length; i++) {
+    const v = booked[i] as Record<string, unknown> | null;
+    if (typeof v !== 'object' || v === null || Array.isArray(v)) return null;
+    const { technicianId, start, end, priority } = v;
+    if (typeof technicianId !== 'string' || technicianId.length === 0) return null;
+    if (typeof start !== 'string' || typeof end !== 'string' || !INSTANT.test(start) || !INSTANT.test(end)) return null;
+    if (!(Date.parse(start) < Date.parse(end))) return null;
+    if (priority !== undefined && typeof priority !== 'boolean') return null;
+    out[i] = { technicianId, start, end, priority: priority ?? false };
+  }
+  return out;
+}
+
 /** Validates and fills defaults; the first problem is reported by its field path. */
 export function parseAvailabilityInput(input: unknown): ParsedAvailabilityInput {
+  if (typeof input === 'object' && input !== null && !Array.isArray(input)) {
+    const booked = plainBooked((input as { booked?: unknown }).booked);
+    if (booked) {
+      // The rest is small: the schema checks it as before, with the booked visits already known good.
+      const rest = availabilityInputSchema.safeParse({ ...input, booked: [] });
+      if (rest.success) return { ...rest.data, booked };
+    }
+  }
   const result = availabilityInputSchema.safeParse(input);
   if (!result.success) {
     const issue = result.error.issues[0]!;

@@ -1,7 +1,6 @@
 import { sql } from 'drizzle-orm';
-import { boolean, check, date, index, integer, pgTable, smallint, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
-import { createdAt, id, inList, tstz } from './columns';
-import { customers, properties } from './customers';
+import { boolean, check, integer, pgTable, smallint, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { createdAt, id } from './columns';
 
 export const plans = pgTable(
   'plans',

@@ -249,7 +249,7 @@ async function seedVisits(tx: Tx, rnd: Random, today: DateTime, households: { cu
   }
   // Upcoming work for the next days: some assigned, some waiting in the queue.
   for (let d = 1; d <= 6; d++) {
-    let day = today.plus({ days: d });
+    const day = today.plus({ days: d });
     if (day.weekday === 7) continue;
     for (let k = 0; k < 3; k++) {
       const h = households[(d * 7 + k * 11) % households.length]!;
