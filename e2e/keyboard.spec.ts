@@ -7,6 +7,9 @@ import { signInHomeowner, signInStaff } from './support/sign-in';
 // focus drawn at every stop (WCAG 2.1 SC 2.1.1 Keyboard, 2.4.7 Focus Visible), and a menu
 // opened from the keyboard gives focus back to the button that opened it.
 
+// Every stop is checked in the page, one Tab at a time.
+test.beforeEach(() => test.setTimeout(300_000));
+
 test('office: a new household from the keyboard alone', async ({ page }) => {
   await signInStaff(page, DEMO.office);
   await page.goto('/office/customers/new');

@@ -22,18 +22,15 @@ export async function focusIndicator(page: Page): Promise<{ tag: string; visible
   });
 }
 
-async function isFocused(target: Locator): Promise<boolean> {
-  return target.evaluate((el) => el === document.activeElement || el.contains(document.activeElement)).catch(() => false);
-}
-
 /** Presses Tab (or Shift+Tab) until `target` has focus, checking at each stop that focus is drawn. */
 export async function tabTo(page: Page, target: Locator, { back = false, max = 80 } = {}): Promise<void> {
   await target.waitFor({ state: 'visible' });
+  const handle = await target.elementHandle();
   for (let i = 0; i < max; i++) {
     await page.keyboard.press(back ? 'Shift+Tab' : 'Tab');
     const f = await focusIndicator(page);
     expect(f.visible, `focus is drawn on ${f.tag}`).toBe(true);
-    if (await isFocused(target)) return;
+    if (await handle!.evaluate((el) => el === document.activeElement || el.contains(document.activeElement))) return;
   }
   throw new Error(`${back ? 'Shift+Tab' : 'Tab'} did not reach ${target} within ${max} presses`);
 }
