@@ -1,5 +1,4 @@
 import { Routes } from '@angular/router';
-import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
 import { PortalHome } from './start/portal-home';
 
 export const PORTAL_ROUTES: Routes = [
@@ -10,7 +9,7 @@ export const PORTAL_ROUTES: Routes = [
   { path: 'booking', loadComponent: () => import('./booking/visit-request').then((m) => m.VisitRequest), title: 'Request a visit · Seasonwell' },
   { path: 'booking/visits', loadComponent: () => import('./booking/my-visits').then((m) => m.MyVisits), title: 'Your visits · Seasonwell' },
   { path: 'booking/visits/:id', loadComponent: () => import('./booking/visit-detail').then((m) => m.VisitDetail), title: 'Your visit · Seasonwell' },
-  { path: 'visits/:id', loadComponent: () => import('./visit-summary/visit-summary').then((m) => m.VisitSummary), providers: [provideCharts(withDefaultRegisterables())], title: 'Visit summary · Seasonwell' },
+  { path: 'visits/:id', loadComponent: () => import('./visit-summary/visit-summary').then((m) => m.VisitSummary), title: 'Visit summary · Seasonwell' },
   { path: 'reminders', loadComponent: () => import('./reminders/reminder-preferences').then((m) => m.ReminderPreferences), title: 'Reminders · Seasonwell' },
-  { path: 'home', loadComponent: () => import('./home/my-home').then((m) => m.MyHome), providers: [provideCharts(withDefaultRegisterables())], title: 'My home · Seasonwell' },
+  { path: 'home', loadComponent: () => import('./home/my-home').then((m) => m.MyHome), title: 'My home · Seasonwell' },
 ];

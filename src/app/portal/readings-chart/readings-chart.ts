@@ -1,8 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
-import type { ChartConfiguration, PointStyle } from 'chart.js';
-import { BaseChartDirective } from 'ng2-charts';
+import { CategoryScale, LineController, LineElement, LinearScale, PointElement, Tooltip, type ChartConfiguration, type PointStyle } from 'chart.js';
+import { BaseChartDirective, provideCharts } from 'ng2-charts';
 import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } from '../../../../shared/schemas/field';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
@@ -30,6 +30,8 @@ const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 
 @Component({
   selector: 'sw-readings-chart',
   imports: [BaseChartDirective, MatButtonToggleModule, ReadingStatusMark],
+  // Only what a line chart over visits needs, loaded with this component rather than with every portal page.
+  providers: [provideCharts({ registerables: [LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip] })],
   templateUrl: './readings-chart.html',
   styleUrl: './readings-chart.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

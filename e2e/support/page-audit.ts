@@ -1,0 +1,39 @@
+import AxeBuilder from '@axe-core/playwright';
+import type { Page } from '@playwright/test';
+import { readVitals } from './vitals';
+
+// WCAG 2.1 level A and AA, the rule tags axe-core uses for them (axe-core API documentation).
+export const WCAG21_AA = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'];
+
+export interface PageResult {
+  role: string;
+  path: string;
+  title: string;
+  lcpMs: number | null;
+  cls: number;
+  shifts: { value: number; at: number; sources: string[] }[];
+  violations: { id: string; impact: string | null; help: string; targets: string[] }[];
+}
+
+/**
+ * Opens a page with a full load (so its largest paint is its own), waits until it has settled,
+ * then reads its vitals and runs axe over it.
+ */
+export async function auditPage(page: Page, role: string, path: string): Promise<PageResult> {
+  await page.goto(path, { waitUntil: 'load' });
+  await page.waitForLoadState('networkidle', { timeout: 10_000 }).catch(() => undefined);
+  await page.locator('h1').first().waitFor({ state: 'visible', timeout: 10_000 }).catch(() => undefined);
+  // Late shifts and late paints count: give the page a beat after its data arrived.
+  await page.waitForTimeout(500);
+  const vitals = await readVitals(page);
+  const axe = await new AxeBuilder({ page }).withTags(WCAG21_AA).analyze();
+  return {
+    role,
+    path,
+    title: await page.title(),
+    lcpMs: vitals.lcpMs === null ? null : Math.round(vitals.lcpMs),
+    cls: Number(vitals.cls.toFixed(4)),
+    shifts: vitals.shifts,
+    violations: axe.violations.map((v) => ({ id: v.id, impact: v.impact ?? null, help: v.help, targets: v.nodes.slice(0, 5).map((n) => `${n.target.join(' ')}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, ' ').slice(0, 200)}` : ''}`) })),
+  };
+}
