@@ -20,7 +20,7 @@ export interface BodyFixtures {
   propertyV: string;
   equipmentV: string;
   fileV: string;
-  /** A visit at a seeded household the caller does not belong to. */
+  /** A visit still to come, at a seeded household (not the caller's). */
   visitB: string;
   /** A visit the technician session is assigned to. */
   visitTech: string;
@@ -35,7 +35,7 @@ export interface BodyIdRow {
   /** The route, then the field carrying the id ("photoIds", "items.0.equipmentId"). */
   route: string;
   field: string;
-  /** refused: 404 or 422; ignored: 2xx and nothing of V in the answer. */
+  /** refused: 404 or 422 naming the field; ignored: 2xx, nothing of V in the answer, nothing written. */
   expect: 'refused' | 'ignored';
   path?: (f: BodyFixtures) => string;
   body?: (f: BodyFixtures) => Record<string, unknown>;
@@ -67,11 +67,11 @@ export const BODY_IDS: BodyIdRow[] = [
   { who: 'technician', route: 'POST /api/files', field: 'propertyId', expect: 'refused', form: (f) => ({ propertyId: f.propertyV }) },
   { who: 'office', route: 'POST /api/customers/:id/notes', field: 'propertyId', expect: 'refused', path: (f) => `/api/customers/${f.customerS}/notes`, body: (f) => ({ propertyId: f.propertyV, audience: 'office', body: 'Dog in the yard.' }) },
   { who: 'office', route: 'POST /api/customers/:id/merge', field: 'sourceId', expect: 'refused', path: (f) => `/api/customers/${f.customerS}/merge`, body: () => ({ sourceId: NO_SUCH_ID }) },
-  { who: 'office', route: 'POST /api/invoices', field: 'customerId', expect: 'refused', body: () => ({ customerId: NO_SUCH_ID, lines: [{ description: 'Capacitor', quantity: 1, unitCents: 4500 }] }) },
-  { who: 'office', route: 'POST /api/renewals/notices', field: 'agreementIds', expect: 'refused', body: () => ({ agreementIds: [NO_SUCH_ID] }) },
+  { who: 'office', route: 'POST /api/invoices', field: 'customerId', expect: 'refused', body: () => ({ customerId: NO_SUCH_ID, lines: [{ kind: 'parts', description: 'Capacitor', quantity: 1, unitCents: 4500, taxable: true }] }) },
+  { who: 'office', route: 'POST /api/renewals/notices', field: 'agreementIds', expect: 'ignored', body: () => ({ agreementIds: [NO_SUCH_ID] }) },
   { who: 'office', route: 'POST /api/auth/household-invitations', field: 'customerId', expect: 'refused', body: () => ({ customerId: NO_SUCH_ID }) },
   { who: 'office', route: 'POST /api/dispatch/visits/:id/assign', field: 'technicianId', expect: 'refused', path: (f) => `/api/dispatch/visits/${f.visitB}/assign`, body: () => ({ technicianId: NO_SUCH_ID }) },
-  { who: 'office', route: 'POST /api/dispatch/time-off', field: 'technicianId', expect: 'refused', body: () => ({ technicianId: NO_SUCH_ID, startsAt: '2031-01-01T15:00:00Z', endsAt: '2031-01-01T17:00:00Z' }) },
+  { who: 'office', route: 'POST /api/dispatch/time-off', field: 'technicianId', expect: 'refused', body: () => ({ technicianId: NO_SUCH_ID, startsAt: new Date(Date.now() + 86_400_000).toISOString(), endsAt: new Date(Date.now() + 93_600_000).toISOString() }) },
 ];
 
 /**
