@@ -92,7 +92,7 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'PATCH /api/auth/staff/:id': { as: 'owner', params: id, body: staffUpdateSchema },
   'POST /api/auth/staff/:id/sign-out-everywhere': { as: 'owner', params: id },
   'GET /api/audit': { as: 'owner', query: auditQuerySchema },
-  'GET /api/field/visits/today': { as: 'technician', query: seasonQuery },
+  'GET /api/field/visits/today': { as: 'technician' },
   'GET /api/field/visits/:id': { as: 'technician', params: id, query: seasonQuery },
   'PUT /api/field/visits/:id/readings': { as: 'technician', params: id, body: saveReadingsSchema },
   'PUT /api/field/visits/:id/checklist': { as: 'technician', params: id, body: saveChecklistSchema },
