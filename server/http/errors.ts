@@ -139,7 +139,6 @@ export function databaseUnavailable(err: unknown): boolean {
 /** What any thrown value means for the caller; null means it is our fault (500). */
 export function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
-  if (databaseUnavailable(err)) return new AppError(503, 'unavailable', 'The service is briefly unavailable. Please try again in a moment.');
   if (err instanceof z.ZodError) return validationError(err);
   if (err instanceof MoneyError) return new AppError(422, 'validation_failed', `Please check ${err.field}.`, { [err.field]: err.message });
   const db = fromDatabaseError(err);
@@ -149,6 +148,7 @@ export function toAppError(err: unknown): AppError | null {
   const e = err as { type?: string; status?: unknown; statusCode?: unknown };
   const known = typeof e?.type === 'string' ? BODY_ERRORS[e.type] : undefined;
   if (known) return new AppError(...known);
+  if (databaseUnavailable(err)) return new AppError(503, 'unavailable', 'The service is briefly unavailable. Please try again in a moment.');
   // zlib's own codes (Node "Zlib" docs) when a body is not what its Content-Encoding says.
   const zlibCode = (err as { code?: unknown })?.code;
   if (typeof zlibCode === 'string' && zlibCode.startsWith('Z_')) return new AppError(400, 'bad_encoding', 'The request body does not match its Content-Encoding.');
