@@ -19,14 +19,15 @@
  */
 import { randomUUID } from 'node:crypto';
 import { hash } from '@node-rs/argon2';
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, inArray } from 'drizzle-orm';
 import type { Router } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiRouters } from '../server/routes';
-import { agreements, customers, equipment, technicians, users, visits } from '../server/db/schema';
+import { agreements, customers, equipment, files, plans, properties, technicians, users, visits } from '../server/db/schema';
 import type { Role } from '../shared/roles';
 import { testApp } from './support/app';
 import { anonymous, signInHomeowner, signInStaff, type Signed } from './support/auth';
+import { BODY_IDS, householdRowCounts, type BodyFixtures, type BodyIdRow } from './support/body-ids';
 
 const STAFF_PASSWORD = 'matrix-spare-lantern-42';
 
@@ -337,5 +338,70 @@ describe('access matrix', () => {
         if (row.owned) expect(res.status, label).not.toBe(404);
       }
     }
+  });
+});
+
+// ---- Ids in bodies and query strings (rows in test/support/body-ids.ts) ----
+
+const ONE_PIXEL_PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==', 'base64');
+let bodyFx: BodyFixtures;
+let homeownerS: Signed;
+
+async function household(name: string) {
+  const db = ctx.database.db;
+  const email = `matrix-body-${randomUUID().slice(0, 8)}@example.test`;
+  const [c] = await db.insert(customers).values({ name, email }).returning();
+  const [p] = await db.insert(properties).values({ customerId: c.id, street: '12 Sedge Row', city: 'Larkspur Bend', state: 'KS', zip: '66000', area: 'North' }).returning();
+  return { email, customerId: c.id, propertyId: p.id };
+}
+
+async function sendBodyRow(s: Signed, row: BodyIdRow) {
+  const [method, route] = row.route.split(' ');
+  const url = row.path ? row.path(bodyFx) : route;
+  const m = method.toLowerCase() as 'get' | 'post';
+  const req = s.agent[m](url).set('X-XSRF-TOKEN', s.csrf).set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
+  if (row.query) req.query(row.query(bodyFx));
+  if (row.form) {
+    for (const [k, v] of Object.entries(row.form(bodyFx))) req.field(k, v);
+    return req.attach('files', ONE_PIXEL_PNG, { filename: 'p.png', contentType: 'image/png' });
+  }
+  return m === 'get' ? req : req.send(row.body?.(bodyFx) ?? {});
+}
+
+describe('access matrix: ids in bodies and query strings', () => {
+  beforeAll(async () => {
+    const db = ctx.database.db;
+    const s = await household('Matrix caller household');
+    await db.insert(users).values({ email: s.email, name: 'Matrix caller', role: 'homeowner', customerId: s.customerId });
+    const v = await household('Matrix other household');
+    const [unit] = await db.insert(equipment).values({ propertyId: v.propertyId, kind: 'gas_furnace' }).returning();
+    const [file] = await db.insert(files).values({ customerId: v.customerId, propertyId: v.propertyId, storageKey: `matrix/${randomUUID()}.png`, category: 'other', contentType: 'image/png', originalName: 'p.png', sizeBytes: 1 }).returning();
+    const [visitB] = await db.select({ id: visits.id }).from(visits).where(inArray(visits.status, ['requested', 'scheduled'])).orderBy(asc(visits.startsAt)).limit(1);
+    const [plan] = await db.select({ id: plans.id }).from(plans).where(eq(plans.active, true)).limit(1);
+    homeownerS = await signInHomeowner(ctx, s.email);
+    const offer = await homeownerS.agent.get('/api/booking/windows').query({ propertyId: s.propertyId, reason: 'tune_up' }).expect(200);
+    bodyFx = { customerS: s.customerId, propertyS: s.propertyId, customerV: v.customerId, propertyV: v.propertyId, equipmentV: unit.id, fileV: file.id, visitB: visitB.id, visitTech: fixtures.visitA, activePlan: plan.id, windowS: offer.body.windows[0].start };
+  });
+
+  it('covers every route that takes an id in its body or query from a caller it serves', () => {
+    const keys = new Set(Object.keys(ROUTES));
+    expect(BODY_IDS.map((r) => r.route).filter((r) => !keys.has(r))).toEqual([]);
+  });
+
+  it.each(BODY_IDS.map((r) => [`${r.route} ${r.field} from ${r.who}`, r] as const))('%s', async (_label, row) => {
+    const s = row.who === 'homeownerS' ? homeownerS : sessions[row.who];
+    const households = [bodyFx.customerS, bodyFx.customerV];
+    const before = await householdRowCounts(ctx.database.db, households);
+    const res = await sendBodyRow(s, row);
+    const label = `${row.route} answered ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+    if (row.expect === 'ignored') {
+      expect([200, 202], label).toContain(res.status);
+      expect(JSON.stringify(res.body), label).not.toContain(bodyFx.customerV);
+      expect(JSON.stringify(res.body), label).not.toContain(bodyFx.propertyV);
+    } else {
+      expect([404, 422], label).toContain(res.status);
+      if (res.status === 422) expect(Object.keys(res.body.error.fields ?? {}), label).toContain(row.field);
+    }
+    expect(await householdRowCounts(ctx.database.db, households), 'nothing of either household changed').toEqual(before);
   });
 });

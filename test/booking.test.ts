@@ -117,7 +117,7 @@ describe('arrival windows', () => {
     const theirs = await household();
     now = new Date('2031-05-05T13:00:00Z');
     const me = await signInHomeowner(ctx, mine.email);
-    await me.agent.get('/api/booking/windows').query({ propertyId: theirs.propertyId, reason: 'noise' }).expect(404);
+    await me.agent.get('/api/booking/windows').query({ propertyId: theirs.propertyId, reason: 'noise' }).expect(422);
     const opts = await me.agent.get('/api/booking/options').expect(200);
     expect(opts.body.properties.map((p: { id: string }) => p.id)).toEqual([mine.propertyId]);
   });

@@ -92,7 +92,8 @@ describe('equipment', () => {
     const made = await post(office, '/api/equipment', { propertyId, kind: 'air_cleaner' }).expect(201);
     const tech = await signInStaff(ctx, 'eli.castellan@bluestem-comfort.test');
     await tech.agent.get(`/api/equipment/${made.body.id}`).expect(404);
-    await post(tech, '/api/equipment', { propertyId, kind: 'thermostat' }).expect(404);
+    // An id in the body that the caller may not use is refused naming the field, like any bad value.
+    expect((await post(tech, '/api/equipment', { propertyId, kind: 'thermostat' }).expect(422)).body.error.fields.propertyId).toMatch(/not found/);
     const dana = await signInHomeowner(ctx, 'dana.whitfield@example.test');
     await dana.agent.get(`/api/equipment/${made.body.id}`).expect(403);
     await post(tech, `/api/equipment/${made.body.id}/archive`, {}).expect(403);

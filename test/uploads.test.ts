@@ -169,7 +169,7 @@ describe('uploads', () => {
     const tech = await signInStaff(ctx, 'priya.dunmore@bluestem-comfort.test');
     await tech.agent.get(res.body[0].url).expect(404);
     await request(ctx.app).get(res.body[0].url).expect(401);
-    await upload(sam, { propertyId }).attach('files', await photoWithGps(), { filename: 'x.jpg', contentType: 'image/jpeg' }).expect(404);
+    await upload(sam, { propertyId }).attach('files', await photoWithGps(), { filename: 'x.jpg', contentType: 'image/jpeg' }).expect(422);
     const wrong = await upload(office, { propertyId, category: 'selfie' }).attach('files', await photoWithGps(), { filename: 'x.jpg' }).expect(422);
     expect(wrong.body.error.fields.category).toBeTruthy();
   });

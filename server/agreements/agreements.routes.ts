@@ -6,7 +6,7 @@ import { currentUser, requireRole, requireUser } from '../auth/access';
 import { parse } from '../http/errors';
 import { cancelAgreement, changeTier, enroll, manualRenewal, myAgreements, myProperties, readAgreement, renewOnline, setAutoRenew, updateCard } from './agreements.service';
 
-const idParam = z.object({ id: z.uuid('That agreement was not found.') });
+export const idParam = z.object({ id: z.uuid('That agreement was not found.') });
 
 export function agreementRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });

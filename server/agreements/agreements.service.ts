@@ -11,6 +11,7 @@ import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
+import { ownedProperty } from '../http/ownership';
 import { ensureStripeCustomer, providerError, startInvoiceCheckout } from '../billing/checkout';
 import { insertInvoice, invoiceView, voidOpenInvoicesOf } from '../billing/invoices';
 import { recordOfflinePayment } from '../billing/refunds';
@@ -154,9 +155,7 @@ async function ownAgreement(deps: Pick<AppDeps, 'database'>, user: SessionUser, 
 /** A pending agreement and its first invoice; the Checkout payment makes it active. */
 export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
   const { db } = deps.database;
-  const [prop] = await db.select().from(properties).where(eq(properties.id, input.propertyId));
-  if (!prop || prop.archivedAt) throw new AppError(422, 'validation_failed', 'That property was not found.', { propertyId: 'That property was not found.' });
-  await assertCustomerAccess(db, user, prop.customerId);
+  const prop = await ownedProperty(db, user, input.propertyId, 'propertyId');
   const [plan] = await db.select().from(plans).where(eq(plans.id, input.planId));
   if (!plan || !plan.active) throw new AppError(422, 'validation_failed', 'That plan is not offered.', { planId: 'That plan is not offered.' });
   const version = await currentVersion(db, plan.id);

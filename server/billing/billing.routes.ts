@@ -11,9 +11,9 @@ import { startInvoiceCheckout, syncCheckoutSession } from './checkout';
 import { renderInvoicePdf } from './receipts';
 import { companyRow } from '../company/company';
 
-const idParam = z.object({ id: z.uuid('That invoice was not found.') });
-const checkoutReturnSchema = z.object({ sessionId: z.string().regex(/^cs_[A-Za-z0-9_]{6,200}$/, 'That payment reference is not valid.') });
-const checkoutSchema = z.object({ returnPath: z.string().max(200).default('/portal/invoices') });
+export const idParam = z.object({ id: z.uuid('That invoice was not found.') });
+export const checkoutReturnSchema = z.object({ sessionId: z.string().regex(/^cs_[A-Za-z0-9_]{6,200}$/, 'That payment reference is not valid.') });
+export const checkoutSchema = z.object({ returnPath: z.string().max(200).default('/portal/invoices') });
 
 export function billingRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });

@@ -8,8 +8,8 @@ import { assertDatesWithin, BOOKING_RANGE } from '../http/ranges';
 import { authoriseVisit, bookingOptions, bookVisit, myVisits, visitDetail, windowsFor, WindowFullError } from './booking.service';
 import { cancelVisit, rescheduleVisit } from './visit-changes';
 
-const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });
-const customerQuery = z.object({ customerId: z.uuid({ message: 'must be a household id' }).optional() });
+export const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });
+export const customerQuery = z.object({ customerId: z.uuid({ message: 'must be a household id' }).optional() });
 
 /** The one error shape, plus the next free windows so the caller can pick again at once. */
 async function orNextWindows(res: Response, work: () => Promise<unknown>, status = 200): Promise<void> {

@@ -12,6 +12,7 @@ import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { assertOwnedRow } from '../http/ownership';
 import { sendVisitMail } from './booking.mail';
 import { companyRow } from '../company/company';
 import { cachedWindows, minuteAfter, scheduleSnapshot, within } from './schedule-cache';
@@ -95,8 +96,7 @@ export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId
     .innerJoin(customers, eq(customers.id, properties.customerId))
     .where(eq(properties.id, propertyId))
     .limit(1);
-  if (!p || p.archivedAt) throw new AppError(404, 'not_found', 'That property was not found.', { propertyId: 'not found' });
-  await assertCustomerAccess(db, user, p.customerId);
+  await assertOwnedRow(db, user, p, 'propertyId', { what: 'That property' });
   const plan = (await memberPlans(db, [p.id])).get(p.id);
   const kinds = await db
     .select({ kind: equipment.kind })

@@ -9,6 +9,7 @@ import type { Db } from '../db/client';
 import { agreements, contacts, customerNotes, customers, files, invoices, planVersions, plans, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
+import { ownedProperty } from '../http/ownership';
 import { companyToday } from '../company/company';
 import { agreementTermViewsFor } from '../agreements/term-in-force';
 import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
@@ -220,14 +221,7 @@ export async function removeContact(deps: Pick<AppDeps, 'database'>, customerId:
 export async function addNote(deps: Pick<AppDeps, 'database'>, customerId: string, user: SessionUser, input: NoteInput): Promise<Note> {
   const { db } = deps.database;
   await customerRow(db, customerId);
-  if (input.propertyId) {
-    const [p] = await db
-      .select({ id: properties.id })
-      .from(properties)
-      .where(and(eq(properties.id, input.propertyId), eq(properties.customerId, customerId)))
-      .limit(1);
-    if (!p) throw new AppError(422, 'validation_failed', 'Please check propertyId.', { propertyId: 'Choose one of this household’s properties.' });
-  }
+  if (input.propertyId) await ownedProperty(db, user, input.propertyId, 'propertyId', { within: customerId, archivedToo: true, what: 'That home' });
   const [row] = await db
     .insert(customerNotes)
     .values({ customerId, propertyId: input.propertyId, audience: input.audience, body: input.body, authorUserId: user.id })

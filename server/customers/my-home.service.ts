@@ -6,6 +6,7 @@ import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
 import { AppError, notFound, parse } from '../http/errors';
+import { ownedProperty } from '../http/ownership';
 import { customerVisits, updateCustomer } from './customer-page';
 import { toFile, toProperty } from './customer-views';
 import { companyToday } from '../company/company';
@@ -86,9 +87,7 @@ export async function updateMyAccess(deps: Pick<AppDeps, 'database'>, user: Sess
 
 export async function addMyNote(deps: Pick<AppDeps, 'database'>, user: SessionUser, input: { body: string; propertyId: string }): Promise<Note> {
   const { db } = deps.database;
-  await ownProperty(db, user, input.propertyId).catch(() => {
-    throw new AppError(422, 'validation_failed', 'Please check propertyId.', { propertyId: 'Choose one of your homes.' });
-  });
+  await ownedProperty(db, user, input.propertyId, 'propertyId', { within: household(user), archivedToo: true, what: 'That home' });
   const [row] = await db
     .insert(customerNotes)
     .values({ customerId: household(user), propertyId: input.propertyId, audience: 'technician', body: input.body, authorUserId: user.id })

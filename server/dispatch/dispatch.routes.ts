@@ -7,8 +7,8 @@ import { parse } from '../http/errors';
 import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
 import { addTimeOff, assignVisit, board, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
 
-const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
-const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 characters').max(80) });
+export const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
+export const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 characters').max(80) });
 
 // The office's dispatch board: visits by technician, the unassigned queue, assignments and statuses.
 export function dispatchRoutes(deps: AppDeps): Router {

@@ -8,7 +8,7 @@ import { createEquipment, getEquipment, listPropertyEquipment, setEquipmentArchi
 
 const staff = requireRole('technician', 'office', 'owner');
 const office = requireRole('office', 'owner');
-const propertyRef = z.object({ propertyId: z.uuid({ error: 'Choose the property this equipment is at.' }) });
+export const propertyRef = z.object({ propertyId: z.uuid({ error: 'Choose the property this equipment is at.' }) });
 
 /**
  * Equipment at a property. Technicians record what they find on site (for households they

@@ -8,6 +8,7 @@ import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { equipment, properties } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { ownedProperty } from '../http/ownership';
 import { companyToday } from '../company/company';
 import type { AppDeps } from '../deps';
 
@@ -103,7 +104,7 @@ export async function equipmentForProperties(db: Db | Tx, propertyIds: string[],
 
 export async function createEquipment(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, propertyId: string, input: EquipmentInput): Promise<Equipment> {
   const { db } = deps.database;
-  const p = await propertyFor(db, user, propertyId);
+  const p = await ownedProperty(db, user, propertyId, 'propertyId', { archivedToo: true });
   if (p.archivedAt) throw new AppError(409, 'archived', 'That property is archived; restore it before adding equipment.');
   const today = await companyToday(deps);
   assertNotFuture(input.installedOn, today);

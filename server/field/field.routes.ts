@@ -11,7 +11,7 @@ const visitId = (raw: unknown): string => {
   if (!r.success) throw notFound('That visit');
   return r.data;
 };
-const seasonQuery = z.object({ season: z.enum(['cooling', 'heating']).optional() });
+export const seasonQuery = z.object({ season: z.enum(['cooling', 'heating']).optional() });
 
 /** The technician's visit screen: today's list, one visit's page, and what is recorded on site. */
 export function fieldRoutes(deps: AppDeps): Router {

@@ -22,6 +22,7 @@ import { VISIT_REASON_LABELS } from '../../shared/visits';
 import type { Db } from '../db/client';
 import { customers, properties, technicians, visitChecklistItems, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
+import { notInHousehold } from '../http/ownership';
 import { queueMail, type OutboxDeps } from '../mail/outbox';
 import { summaryEmail, technicianCautions, visitPhotos, visitSummary } from './summary';
 import {
@@ -157,7 +158,7 @@ function assertOpen(visit: VisitRow): void {
 async function equipmentOnVisit(db: Db, visit: VisitRow, equipmentId: string, field: string): Promise<EquipmentRow> {
   const items = await propertyEquipment(db, visit.propertyId);
   const found = items.find((e) => e.id === equipmentId);
-  if (!found) throw new AppError(422, 'validation_failed', 'That equipment is not at this property.', { [field]: 'Choose equipment at this property' });
+  if (!found) throw notInHousehold(field, 'That equipment');
   return found;
 }
 
@@ -219,7 +220,7 @@ export async function saveChecklist(deps: Pick<AppDeps, 'database'>, user: Sessi
   const seen = new Set<string>();
   body.items.forEach((it, i) => {
     const e = byId.get(it.equipmentId);
-    if (!e) throw new AppError(422, 'validation_failed', 'That equipment is not at this property.', { [`items.${i}.equipmentId`]: 'Choose equipment at this property' });
+    if (!e) throw notInHousehold(`items.${i}.equipmentId`, 'That equipment');
     const known = checklistFor(e, body.season, kinds).some((c) => c.id === it.itemId);
     if (!known) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: `Not a ${body.season} checklist item for this equipment` });
     const k = `${it.equipmentId}/${it.itemId}`;

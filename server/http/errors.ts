@@ -115,6 +115,27 @@ const STATUS_ERRORS: Record<number, [string, string]> = {
   415: ['unsupported_media_type', 'The request body is in a format we do not read.'],
 };
 
+/** Seconds a client should wait before trying again while the database is away. */
+export const RETRY_AFTER_SECONDS = 5;
+
+// Connection-level faults: class 08 (connection exception) and 57P01-57P03 (the server shutting
+// down or starting up; PostgreSQL manual, Appendix A), and the socket errors of a server that is
+// gone (Node "Common system errors"). None is the caller's fault and each passes by itself.
+const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', 'ENOTFOUND', 'EAI_AGAIN', '57P01', '57P02', '57P03']);
+const UNAVAILABLE_MESSAGES = /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down)/;
+
+/** True when `err` (or what it wraps) says the database cannot be reached just now. */
+export function databaseUnavailable(err: unknown): boolean {
+  for (let e = err as { code?: unknown; message?: unknown; cause?: unknown; errors?: unknown[] } | undefined, depth = 0; e && depth < 5; e = e.cause as typeof e, depth++) {
+    const code = typeof e.code === 'string' ? e.code : '';
+    if (UNAVAILABLE_CODES.has(code) || code.startsWith('08')) return true;
+    if (typeof e.message === 'string' && UNAVAILABLE_MESSAGES.test(e.message)) return true;
+    // A refused connection to "localhost" tries each address and reports them together.
+    if (Array.isArray(e.errors) && e.errors.some((x) => databaseUnavailable(x))) return true;
+  }
+  return false;
+}
+
 /** What any thrown value means for the caller; null means it is our fault (500). */
 export function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
@@ -127,6 +148,7 @@ export function toAppError(err: unknown): AppError | null {
   const e = err as { type?: string; status?: unknown; statusCode?: unknown };
   const known = typeof e?.type === 'string' ? BODY_ERRORS[e.type] : undefined;
   if (known) return new AppError(...known);
+  if (databaseUnavailable(err)) return new AppError(503, 'unavailable', 'The service is briefly unavailable. Please try again in a moment.');
   // zlib's own codes (Node "Zlib" docs) when a body is not what its Content-Encoding says.
   const zlibCode = (err as { code?: unknown })?.code;
   if (typeof zlibCode === 'string' && zlibCode.startsWith('Z_')) return new AppError(400, 'bad_encoding', 'The request body does not match its Content-Encoding.');
@@ -145,5 +167,6 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     appErr = new AppError(500, 'internal', 'Something went wrong on our side. Please try again.');
   }
   if (res.headersSent) return;
+  if (appErr.status === 503) res.setHeader('Retry-After', String(RETRY_AFTER_SECONDS));
   res.status(appErr.status).json({ error: { code: appErr.code, message: appErr.message, ...(appErr.fields ? { fields: appErr.fields } : {}) } });
 };

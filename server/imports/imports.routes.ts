@@ -7,7 +7,7 @@ import { AppError, parse } from '../http/errors';
 import { multipart } from '../uploads/multipart';
 import { checkImport, previewCsv, runImport } from './csv.service';
 
-const mappingField = z.object({
+export const mappingField = z.object({
   mapping: z.string({ error: 'Send the column mapping.' }).transform((s, ctx) => {
     try {
       return JSON.parse(s) as unknown;

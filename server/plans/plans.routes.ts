@@ -6,7 +6,7 @@ import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/ac
 import { parse } from '../http/errors';
 import { createPlan, listPlans, planVersionsOf, setPlanActive, updatePlan } from './plans.service';
 
-const idParam = z.object({ id: z.uuid('That plan was not found.') });
+export const idParam = z.object({ id: z.uuid('That plan was not found.') });
 
 export function planRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });

@@ -7,8 +7,8 @@ import { parse } from '../http/errors';
 import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
 import { feedFor, issueFeedToken, revokeFeedToken, weekSchedule } from './schedule.service';
 
-const weekQuery = weekQuerySchema.extend({ technicianId: z.uuid({ message: 'must be a technician id' }).optional() });
-const feedParam = z.object({ file: z.string().regex(/^[A-Za-z0-9_-]{20,64}\.ics$/, 'not a calendar link') });
+export const weekQuery = weekQuerySchema.extend({ technicianId: z.uuid({ message: 'must be a technician id' }).optional() });
+export const feedParam = z.object({ file: z.string().regex(/^[A-Za-z0-9_-]{20,64}\.ics$/, 'not a calendar link') });
 
 // The technician's week, and the private .ics feed their phone calendar subscribes to.
 export function scheduleRoutes(deps: AppDeps): Router {

@@ -9,6 +9,7 @@ import { toFile } from '../customers/customer-views';
 import type { Db, Tx } from '../db/client';
 import { equipment, files, properties, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { attachOwnedFiles, notInHousehold, ownedCustomer, ownedEquipment, ownedProperty, ownedVisit } from '../http/ownership';
 import { newStorageKey } from '../integrations/storage';
 import type { AppDeps } from '../deps';
 
@@ -80,32 +81,23 @@ async function prepare(file: IncomingFile): Promise<Prepared> {
 }
 
 /** Works out the household from the most specific thing named, and that they all agree. */
-async function resolveTarget(db: Db, t: UploadTarget): Promise<{ customerId: string; propertyId: string | null; equipmentId: string | null; visitId: string | null }> {
-  let customerId = t.customerId ?? null;
+async function resolveTarget(db: Db, user: SessionUser, t: UploadTarget): Promise<{ customerId: string; propertyId: string | null; equipmentId: string | null; visitId: string | null }> {
+  // Each id the form names must be reachable by the caller, and all of them in one household.
+  let customerId = t.customerId ? (await ownedCustomer(db, user, t.customerId, 'customerId', { archivedToo: true })).id : null;
   let propertyId = t.propertyId ?? null;
-  const mismatch = (field: string) => new AppError(422, 'validation_failed', `Please check ${field}.`, { [field]: 'That does not belong to the same household.' });
   if (t.equipmentId) {
-    const [e] = await db.select({ propertyId: equipment.propertyId, customerId: properties.customerId }).from(equipment).innerJoin(properties, eq(properties.id, equipment.propertyId)).where(eq(equipment.id, t.equipmentId)).limit(1);
-    if (!e) throw notFound('That equipment');
-    if (propertyId && propertyId !== e.propertyId) throw mismatch('propertyId');
-    if (customerId && customerId !== e.customerId) throw mismatch('customerId');
+    const e = await ownedEquipment(db, user, t.equipmentId, 'equipmentId', { within: customerId ?? undefined, archivedToo: true });
+    if (propertyId && propertyId !== e.propertyId) throw notInHousehold('propertyId', 'That property');
     propertyId = e.propertyId;
     customerId = e.customerId;
   }
   if (t.visitId) {
-    const [v] = await db.select({ customerId: visits.customerId, propertyId: visits.propertyId }).from(visits).where(eq(visits.id, t.visitId)).limit(1);
-    if (!v) throw notFound('That visit');
-    if (customerId && customerId !== v.customerId) throw mismatch('visitId');
+    const v = await ownedVisit(db, user, t.visitId, 'visitId', { within: customerId ?? undefined });
     customerId = v.customerId;
     propertyId ??= v.propertyId;
   }
-  if (propertyId && !t.equipmentId) {
-    const [p] = await db.select({ customerId: properties.customerId }).from(properties).where(eq(properties.id, propertyId)).limit(1);
-    if (!p) throw notFound('That property');
-    if (customerId && customerId !== p.customerId) throw mismatch('propertyId');
-    customerId = p.customerId;
-  }
-  if (!customerId) throw notFound('That household');
+  if (propertyId && !t.equipmentId) customerId = (await ownedProperty(db, user, propertyId, 'propertyId', { within: customerId ?? undefined, archivedToo: true })).customerId;
+  if (!customerId) throw notInHousehold('customerId', 'That household');
   return { customerId, propertyId, equipmentId: t.equipmentId ?? null, visitId: t.visitId ?? null };
 }
 
@@ -119,8 +111,7 @@ export async function storeUploads(deps: Pick<AppDeps, 'database' | 'clock' | 's
   const { storage } = deps;
   const now = deps.clock();
   if (!incoming.length) throw new AppError(422, 'validation_failed', 'Please check files.', { files: 'Choose at least one file to upload.' });
-  const where = await resolveTarget(db, target);
-  await assertCustomerAccess(db, user, where.customerId);
+  const where = await resolveTarget(db, user, target);
   const prepared: Prepared[] = [];
   for (const f of incoming) prepared.push(await prepare(f));
 
@@ -181,15 +172,5 @@ export async function listFiles(deps: Pick<AppDeps, 'database'>, user: SessionUs
  * refused and nothing is linked (another household's file id answers the same as a missing one).
  */
 export async function linkFilesToVisit(tx: Db | Tx, target: { customerId: string; visitId: string }, fileIds: string[]): Promise<void> {
-  const ids = [...new Set(fileIds)];
-  if (!ids.length) return;
-  const linked = await tx
-    .update(files)
-    .set({ visitId: target.visitId })
-    .where(and(inArray(files.id, ids), eq(files.customerId, target.customerId), isNull(files.archivedAt), isNull(files.visitId)))
-    .returning({ id: files.id });
-  if (linked.length !== ids.length) {
-    // Thrown inside the booking's transaction: the visit and the links are undone together.
-    throw new AppError(422, 'validation_failed', 'Please upload the photos again: one of them was not found for this household.', { photoIds: 'not found for this household' });
-  }
+  await attachOwnedFiles(tx, target, fileIds, 'photoIds');
 }
