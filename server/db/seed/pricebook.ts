@@ -99,7 +99,7 @@ const SHOP_STOCK: [string, number, number][] = [
 export async function seedPriceBook(tx: Tx, technicians: { id: string; truck: string }[]): Promise<void> {
   const ids = new Map<string, string>();
   for (const raw of DEMO_ITEMS) {
-    const row = await insertItem(tx, priceBookItemInputSchema.parse(raw));
+    const row = await insertItem(tx, priceBookItemInputSchema.parse({ costCents: Math.round(raw.unitCents * 0.4), ...raw }));
     ids.set(row.sku, row.id);
   }
   for (const task of TASKS) {
