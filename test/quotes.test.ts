@@ -101,6 +101,20 @@ describe('a quote on a no-cooling visit', () => {
     expect(restock.body.map((r: { sku: string }) => r.sku)).toContain(DEMO_BLOWER_MOTOR_SKU);
   });
 
+  it('another household cannot see or approve the quote; its technician and the office can', async () => {
+    const db = ctx.database.db;
+    const [q] = await db.select({ customerId: visits.customerId }).from(visits).where(eq(visits.id, visitId));
+    const others = await db.select({ email: users.email, customerId: users.customerId }).from(users).where(eq(users.role, 'homeowner'));
+    const other = others.find((o) => o.customerId && o.customerId !== q!.customerId)!;
+    const stranger = await signInHomeowner(ctx, other.email);
+    expect((await stranger.agent.get(`/api/portal/quotes/${quoteId}`)).status).toBe(404);
+    expect((await post(stranger, `/api/portal/quotes/${quoteId}/decline`, { revision: 1, reason: 'Not mine at all' })).status).toBe(404);
+    expect((await stranger.agent.get('/api/portal/quotes')).body.map((x: { id: string }) => x.id)).not.toContain(quoteId);
+    expect((await office.agent.get(`/api/quotes/${quoteId}`)).status).toBe(200);
+    const priya = await signInStaff(ctx, STAFF.filter((s) => s.role === 'technician')[1]!.email);
+    expect((await priya.agent.get(`/api/quotes/${quoteId}`)).status).toBe(404);
+  });
+
   it('an approved quote answers 409 to an edit; a new revision keeps the approved one in the history', async () => {
     const edit = await put(tech, `/api/quotes/${quoteId}`, { revision: 1, options: [{ title: 'x', lines: [{ source: 'item', itemId: laborId, quantity: 1 }] }] });
     expect(edit.status).toBe(409);
