@@ -25,6 +25,9 @@ import { reportRoutes } from './reports/reports.routes';
 import { equipmentRoutes } from './equipment/equipment.routes';
 import { uploadRoutes } from './uploads/uploads.routes';
 import { importRoutes } from './imports/imports.routes';
+import { priceBookRoutes } from './pricebook/pricebook.routes';
+import { stockRoutes } from './stock/stock.routes';
+import { portalQuoteRoutes, quoteRoutes, workInvoiceRoutes } from './quotes/quotes.routes';
 import { portalReadingsRoutes, visitSummaryRoutes } from './portal-readings/portal-readings.routes';
 
 export interface ApiRouter {
@@ -66,4 +69,9 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/office-home', build: officeHomeRoutes },
   { path: '/api/reports', build: reportRoutes },
   { path: '/api/my-reminders', build: myReminderRoutes },
+  { path: '/api/price-book', build: priceBookRoutes, multipart: true },
+  { path: '/api/quotes', build: quoteRoutes },
+  { path: '/api/portal/quotes', build: portalQuoteRoutes },
+  { path: '/api/work-invoices', build: workInvoiceRoutes },
+  { path: '/api/stock', build: stockRoutes },
 ];

@@ -184,6 +184,8 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
   }
 
   await seedVisits(tx, rnd, today, households, technicianIds);
+  const trucks = await tx.select({ id: t.technicians.id, truck: t.technicians.truck }).from(t.technicians);
+  await (await import('./pricebook')).seedPriceBook(tx, technicianIds.map((id) => ({ id, truck: trucks.find((x) => x.id === id)?.truck ?? '' })));
   await (await import('./field')).seedFieldReadings(tx, COMPANY.timeZone);
 }
 
