@@ -13,7 +13,7 @@ const PORTAL: NavLink[] = [
   { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
   { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
 ];
-const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }];
+const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }, { label: 'My truck', path: '/field/truck', icon: 'truck' }];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
   { label: 'Households', path: '/office/customers', icon: 'people' },
