@@ -10,6 +10,7 @@ export interface NavLink {
 const PORTAL: NavLink[] = [
   { label: 'My home', path: '/portal/home', icon: 'home' },
   { label: 'My plan', path: '/portal/plan', icon: 'shield' },
+  { label: 'Quotes', path: '/portal/quotes', icon: 'wrench' },
   { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
   { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
 ];

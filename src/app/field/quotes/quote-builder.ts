@@ -11,9 +11,10 @@ import { catchError, debounceTime, firstValueFrom, map, of, startWith, switchMap
 import { formatUsd } from '../../../../shared/money';
 import { OPTIONS_PER_QUOTE_MAX } from '../../../../shared/pricebook';
 import type { FieldVisit } from '../../../../shared/schemas/field';
-import { EDITABLE_QUOTE_STATUSES, QUOTE_STATUS_LABELS, type QuoteCreate, type QuoteOptionView, type QuoteView } from '../../../../shared/schemas/pricebook';
+import { EDITABLE_QUOTE_STATUSES, QUOTE_STATUS_LABELS, type QuoteApprove, type QuoteCreate, type QuoteDecline, type QuoteOptionView, type QuoteView } from '../../../../shared/schemas/pricebook';
 import { toApiError } from '../../core/api-errors';
-import { DeviceApproval } from './device-approval';
+import { QuoteApproval } from '../../ui/quote-approval';
+import { QuoteOptionTable } from '../../ui/quote-option-table';
 import { LineSearch } from './line-search';
 import { addLine, draftFrom, emptyOption, optionInputs, type DraftOption, type PickedLine } from './quote-draft';
 import { QuotesApi } from './quotes-api';
@@ -22,7 +23,7 @@ import { ReplacementSearch } from './replacement-search';
 /** The quote for the repair, built on the visit: options, lines with coverage, note, photos, send. */
 @Component({
   selector: 'sw-quote-builder',
-  imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, DeviceApproval, LineSearch, ReplacementSearch],
+  imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, QuoteApproval, QuoteOptionTable, LineSearch, ReplacementSearch],
   templateUrl: './quote-builder.html',
   styleUrl: './quote-builder.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -216,6 +217,12 @@ export class QuoteBuilder {
       this.busy.set(null);
     }
   }
+
+  /** Approval or decline typed on this phone, in the home. */
+  protected readonly decide = (kind: 'approve' | 'decline', body: Record<string, unknown>) => {
+    const id = this.saved()!.id;
+    return firstValueFrom(kind === 'approve' ? this.api.approve(id, body as QuoteApprove) : this.api.decline(id, body as QuoteDecline));
+  };
 
   protected onDecided(view: QuoteView): void {
     this.load(view);

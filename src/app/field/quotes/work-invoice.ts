@@ -8,6 +8,7 @@ import type { InvoiceView } from '../../../../shared/schemas/billing';
 import type { FieldVisit } from '../../../../shared/schemas/field';
 import type { DirectInvoice, QuoteOptionView } from '../../../../shared/schemas/pricebook';
 import { toApiError } from '../../core/api-errors';
+import { QuoteOptionTable } from '../../ui/quote-option-table';
 import { LineSearch } from './line-search';
 import { addLine, emptyOption, optionInputs, type DraftOption, type PickedLine } from './quote-draft';
 import { QuotesApi } from './quotes-api';
@@ -15,7 +16,7 @@ import { QuotesApi } from './quotes-api';
 /** Invoicing work done without a quote, such as a diagnostic fee or a small repair, from price-book lines. */
 @Component({
   selector: 'sw-work-invoice',
-  imports: [MatButtonModule, MatIconModule, LineSearch],
+  imports: [MatButtonModule, MatIconModule, LineSearch, QuoteOptionTable],
   template: `
     <details class="block option" [open]="open()" (toggle)="open.set($any($event.target).open)">
       <summary><h2>Invoice work without a quote</h2></summary>
@@ -34,19 +35,7 @@ import { QuotesApi } from './quotes-api';
         </ul>
         @if (preview(); as f) {
           @if (f.option; as o) {
-            <table class="coverage">
-              <caption>Coverage, line by line</caption>
-              <tbody>
-                @for (cl of o.lines; track cl.id) {
-                  <tr><td>{{ cl.description }}<br /><small>{{ cl.reason }}</small></td><td class="num">{{ usd(cl.chargedCents) }}</td></tr>
-                }
-              </tbody>
-              <tfoot>
-                <tr><th scope="row">Plan savings</th><td class="num">−{{ usd(o.savingsCents) }}</td></tr>
-                <tr><th scope="row">Sales tax</th><td class="num">{{ usd(o.taxCents) }}</td></tr>
-                <tr class="total"><th scope="row">Total</th><td class="num">{{ usd(o.totalCents) }}</td></tr>
-              </tfoot>
-            </table>
+            <sw-quote-option-table [option]="o" />
           }
           @if (f.error; as e) { <p role="alert" class="bad">{{ e }}</p> }
         }

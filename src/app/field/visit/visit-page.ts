@@ -33,7 +33,8 @@ import { VisitTroubleshooting } from './visit-troubleshooting';
 export class VisitPage {
   private readonly api = inject(FieldApi);
   private readonly session = inject(Session);
-  private readonly trucks = rxResource({ stream: () => inject(QuotesApi).locations() });
+  private readonly quotesApi = inject(QuotesApi);
+  private readonly trucks = rxResource({ stream: () => this.quotesApi.locations() });
   /** The signed-in technician's truck: where quoted parts come from first. */
   protected readonly truckId = computed(() => {
     const ls = this.trucks.hasValue() ? this.trucks.value() : [];

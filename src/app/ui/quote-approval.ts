@@ -1,23 +1,20 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
-import { firstValueFrom } from 'rxjs';
-import { formatUsd } from '../../../../shared/money';
-import type { QuoteApprove, QuoteDecline, QuoteView } from '../../../../shared/schemas/pricebook';
-import { applyServerErrors, serverError } from '../../core/form-errors';
-import { QuotesApi } from './quotes-api';
+import { formatUsd } from '../../../shared/money';
+import type { QuoteView } from '../../../shared/schemas/pricebook';
+import { applyServerErrors, serverError } from '../core/form-errors';
 
 /**
- * The homeowner approves one option on the technician's phone, with a typed name (the server
- * records the time and address), or declines with a reason. Used by the quote builder and,
- * with `portal`, the homeowner's own quote page.
+ * The homeowner approves one option with a typed name (the server records the time and the
+ * address), or declines with a reason: on the technician's phone in the home, or in the portal.
  */
 @Component({
-  selector: 'sw-device-approval',
+  selector: 'sw-quote-approval',
   imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatRadioModule],
   template: `
     <form [formGroup]="form" (ngSubmit)="approve()" class="approve" [attr.aria-label]="heading()">
@@ -52,16 +49,23 @@ import { QuotesApi } from './quotes-api';
     }
     @if (error(); as e) { <p role="alert" class="bad">{{ e }}</p> }
   `,
-  styleUrl: './quote-builder.scss',
+  styles: `
+    .approve { border-top: 2px solid var(--sw-teal-soft); padding-top: 8px; margin-top: 12px; }
+    h3 { font-size: 1.1rem; font-weight: 800; margin: 8px 0; }
+    .choices { display: grid; gap: 6px; margin: 0 0 8px; }
+    .wide { width: 100%; margin-top: 8px; }
+    .actions { display: flex; flex-wrap: wrap; gap: 12px; align-items: center; margin: 12px 0; }
+    .big { min-height: 52px; min-width: 160px; font-size: 1.05rem; }
+    .bad { color: var(--sw-alert); font-weight: 700; }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class DeviceApproval {
-  private readonly api = inject(QuotesApi);
+export class QuoteApproval {
   readonly quote = input.required<QuoteView>();
-  /** On the homeowner's own device: the portal's routes. */
+  /** On the homeowner's own device rather than the technician's. */
   readonly portal = input(false);
-  /** Sends the approval or the decline; the portal passes its own calls. */
-  readonly submit = input<((kind: 'approve' | 'decline', body: object) => Promise<QuoteView>) | null>(null);
+  /** Sends the approval or the decline through the caller's API. */
+  readonly submit = input.required<(kind: 'approve' | 'decline', body: Record<string, unknown>) => Promise<QuoteView>>();
   readonly decided = output<QuoteView>();
 
   protected readonly usd = (cents: number) => formatUsd(cents);
@@ -105,9 +109,7 @@ export class DeviceApproval {
     this.busy.set(true);
     this.error.set(null);
     try {
-      const send = this.submit();
-      const id = this.quote().id;
-      const view = send ? await send(kind, body) : await firstValueFrom(kind === 'approve' ? this.api.approve(id, body as QuoteApprove) : this.api.decline(id, body as QuoteDecline));
+      const view = await this.submit()(kind, body);
       this.decided.emit(view);
     } catch (e) {
       this.error.set(applyServerErrors(form, e));
