@@ -61,6 +61,11 @@ export class QuoteBuilder {
     const q = this.saved();
     return !!q && !EDITABLE_QUOTE_STATUSES.includes(q.status);
   });
+  protected readonly approved = computed(() => {
+    const q = this.saved();
+    if (!q?.approval) return null;
+    return { ...q.approval, title: q.options.find((o) => o.id === q.approval!.optionId)?.title ?? '', invoiced: !!q.invoiceId };
+  });
   protected readonly editable = computed(() => !this.frozen() && !this.locked());
   protected readonly optionTitles = computed(() => this.options().map((o, i) => o.title.trim() || `Option ${i + 1}`));
   protected readonly hasLines = computed(() => this.options().some((o) => o.lines.length));
