@@ -1,7 +1,6 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
-import { provideNoopAnimations } from '@angular/platform-browser/animations';
 import { coverOption, type QuoteAgreement } from '../../../../shared/quote-coverage';
 import type { FieldVisit } from '../../../../shared/schemas/field';
 import type { PriceBookItem, QuoteCreate, QuoteOptionView } from '../../../../shared/schemas/pricebook';
@@ -43,9 +42,16 @@ function previewOf(body: QuoteCreate): { options: QuoteOptionView[]; coverageNot
 }
 
 const settle = (ms = 350) => new Promise((r) => setTimeout(r, ms));
+type Fixture = { detectChanges(): void };
+/** Requests stay open until the test answers them, so the page is rendered rather than waited on for stability. */
+async function render(fixture: Fixture) {
+  await settle(0);
+  fixture.detectChanges();
+  await settle(0);
+}
 
 function setUp() {
-  TestBed.configureTestingModule({ imports: [QuoteBuilder], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons(), provideNoopAnimations()] });
+  TestBed.configureTestingModule({ imports: [QuoteBuilder], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons()] });
   const fixture = TestBed.createComponent(QuoteBuilder);
   fixture.componentRef.setInput('visit', visit);
   fixture.componentRef.setInput('truckId', '00000000-0000-4000-8000-0000000000f1');
@@ -56,32 +62,33 @@ function setUp() {
 const byLabel = (el: HTMLElement, label: string) => el.querySelector<HTMLButtonElement>(`button[aria-label="${label}"]`)!;
 const button = (el: HTMLElement, text: string) => [...el.querySelectorAll('button')].find((b) => b.textContent?.trim().startsWith(text))!;
 
-async function answerSearch(fixture: { whenStable(): Promise<unknown> }, http: HttpTestingController) {
+async function answerSearch(fixture: Fixture, http: HttpTestingController) {
   await settle(300);
   for (const r of http.match((req) => req.url === '/api/price-book/items')) r.flush({ items: BOOK, total: 2, page: 0, pageSize: 20 });
-  await fixture.whenStable();
+  await render(fixture);
 }
 
-async function answerPreview(fixture: { whenStable(): Promise<unknown> }, http: HttpTestingController): Promise<TestRequest> {
+async function answerPreview(fixture: Fixture, http: HttpTestingController): Promise<TestRequest> {
   await settle();
   const req = http.expectOne('/api/quotes/preview');
   req.flush(previewOf(req.request.body as QuoteCreate));
-  await fixture.whenStable();
+  await render(fixture);
   return req;
 }
 
+// The search and the preview wait out their debounce on the real clock, so each test allows for a busy machine.
 describe('QuoteBuilder totals', () => {
   it('shows the subtotal, plan savings, tax and total of an option as the coverage rules work them out', async () => {
     const { fixture, http, el } = setUp();
-    await fixture.whenStable();
+    await render(fixture);
     http.expectOne((r) => r.url === '/api/quotes' && r.params.get('visitId') === VISIT_ID).flush({ items: [], total: 0, page: 0, pageSize: 20 });
     await answerSearch(fixture, http);
 
     byLabel(el, `Add ${MOTOR.name}`).click();
     byLabel(el, `Add ${LABOR.name}`).click();
-    await fixture.whenStable();
+    await render(fixture);
     byLabel(el, `One more ${LABOR.name}`).click();
-    await fixture.whenStable();
+    await render(fixture);
     const req = await answerPreview(fixture, http);
     const sent = req.request.body as QuoteCreate;
     expect(sent.options).toHaveLength(1);
@@ -101,19 +108,19 @@ describe('QuoteBuilder totals', () => {
     expect(table).toContain('Repair discount 15 %: −$45.00.');
     expect(el.querySelector('[role="tab"]')!.textContent).toContain('$480.04');
     http.verify({ ignoreCancelled: true });
-  });
+  }, 30_000);
 
   it('keeps each option its own figures, and an option with no lines yet shows none', async () => {
     const { fixture, http, el } = setUp();
-    await fixture.whenStable();
+    await render(fixture);
     http.expectOne((r) => r.url === '/api/quotes').flush({ items: [], total: 0, page: 0, pageSize: 20 });
     await answerSearch(fixture, http);
     byLabel(el, `Add ${LABOR.name}`).click();
-    await fixture.whenStable();
+    await render(fixture);
     await answerPreview(fixture, http);
 
     button(el, 'Add an option').click();
-    await fixture.whenStable();
+    await render(fixture);
     await answerSearch(fixture, http);
     // The new option is empty: the preview carries only the first.
     const req = await answerPreview(fixture, http);
@@ -124,10 +131,10 @@ describe('QuoteBuilder totals', () => {
     expect(el.textContent).toContain('No lines yet.');
 
     byLabel(el, `Add ${MOTOR.name}`).click();
-    await fixture.whenStable();
+    await render(fixture);
     await answerPreview(fixture, http);
     // By hand: $300.00 − 15 % ($45.00) = $255.00, plus 8.25 % tax $21.04 = $276.04.
     expect([...el.querySelectorAll('[role="tab"]')].map((t) => t.textContent!.replace(/\s+/g, ' ').trim())).toEqual(['Repair · $102.00', 'Replace · $276.04']);
     http.verify({ ignoreCancelled: true });
-  });
+  }, 30_000);
 });

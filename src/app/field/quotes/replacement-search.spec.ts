@@ -1,7 +1,6 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
-import { provideNoopAnimations } from '@angular/platform-browser/animations';
 import { findReplacements, type PartCandidate } from '../../../../shared/part-matching';
 import { failedMotorSchema, type MotorSpec, type ReplacementSearch as SearchBody } from '../../../../shared/schemas/pricebook';
 import { apiErrors } from '../../core/api-errors';
@@ -23,7 +22,7 @@ const candidates: PartCandidate[] = [
 ];
 
 function setUp() {
-  TestBed.configureTestingModule({ imports: [ReplacementSearch], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons(), provideNoopAnimations()] });
+  TestBed.configureTestingModule({ imports: [ReplacementSearch], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons()] });
   const fixture = TestBed.createComponent(ReplacementSearch);
   fixture.componentRef.setInput('visitId', '00000000-0000-4000-8000-000000000001');
   fixture.componentRef.setInput('options', ['Repair the motor']);
