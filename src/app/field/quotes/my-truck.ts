@@ -1,7 +1,8 @@
-import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { Title } from '@angular/platform-browser';
 import { of, switchMap } from 'rxjs';
 import { ITEM_CATEGORY_LABELS } from '../../../../shared/pricebook';
 import { errorMessage } from '../../core/resource-state';
@@ -68,6 +69,8 @@ export class MyTruck {
     const t = this.read.hasValue() ? this.read.value()?.truck : null;
     return t ? `My truck: ${t.name}` : 'My truck';
   });
+  private readonly pageTitle = inject(Title);
+  private readonly named = effect(() => this.pageTitle.setTitle(`${this.title()} · Seasonwell`));
   protected readonly short = computed(() => {
     const rows = this.read.hasValue() ? (this.read.value()?.rows ?? []) : [];
     const low = rows.filter((r) => r.belowMinimum).length;

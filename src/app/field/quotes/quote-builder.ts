@@ -102,6 +102,13 @@ export class QuoteBuilder {
       if (q) untracked(() => this.load(q));
     });
     effect(() => {
+      const on = this.editable();
+      for (const c of [this.note, this.email, this.equipmentId]) {
+        if (on) c.enable({ emitEvent: false });
+        else c.disable({ emitEvent: false });
+      }
+    });
+    effect(() => {
       const v = this.visit();
       untracked(() => {
         if (this.equipmentId.value === null && v.equipment[0]) this.equipmentId.setValue(v.equipment[0].id);
