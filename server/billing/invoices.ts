@@ -88,6 +88,42 @@ export async function insertInvoice(tx: Tx, input: NewInvoice, now: Date): Promi
   return invoice!;
 }
 
+export interface CoveredInvoice {
+  customerId: string;
+  agreementId: string | null;
+  /** Lines whose coverage is already worked out (shared/quote-coverage.ts): the savings are each line's discount. */
+  lines: { description: string; kind: InvoiceLine['kind']; quantity: number; unitCents: number; taxable: boolean; grossCents: number; discountCents: number; netCents: number; reason: string }[];
+  taxRateBps: number;
+  totals: { subtotalCents: number; discountCents: number; taxCents: number; totalCents: number };
+  notes: string;
+}
+
+/** Issues a service invoice whose discount is shown line by line, in the caller's transaction. */
+export async function insertCoveredInvoice(tx: Tx, input: CoveredInvoice, now: Date): Promise<InvoiceRow> {
+  const sum = input.lines.reduce((s, l) => s + l.grossCents, 0);
+  const off = input.lines.reduce((s, l) => s + l.discountCents, 0);
+  if (sum !== input.totals.subtotalCents || off !== input.totals.discountCents || input.totals.totalCents !== sum - off + input.totals.taxCents) {
+    throw new AppError(422, 'validation_failed', 'The invoice lines do not add up to the totals.');
+  }
+  const number = await nextInvoiceNumber(tx);
+  const [invoice] = await tx
+    .insert(invoices)
+    .values({
+      number,
+      customerId: input.customerId,
+      agreementId: input.agreementId,
+      purpose: 'service',
+      status: 'open',
+      taxRateBps: input.taxRateBps,
+      ...input.totals,
+      notes: input.notes,
+      issuedAt: now,
+    })
+    .returning();
+  await tx.insert(invoiceLines).values(input.lines.map((l, i) => ({ invoiceId: invoice!.id, position: i + 1, ...l })));
+  return invoice!;
+}
+
 /** The repair discount of the household's agreement in force, if any. */
 async function householdDiscountBps(tx: Tx, customerId: string): Promise<number> {
   const rows = await tx
@@ -183,6 +219,7 @@ export async function invoiceView(db: Db | Tx, id: string): Promise<InvoiceView>
       grossCents: l.grossCents,
       discountCents: l.discountCents,
       netCents: l.netCents,
+      reason: l.reason,
     })),
     payments: pays
       .filter((p) => p.status === 'succeeded')

@@ -93,6 +93,8 @@ export interface InvoiceLineView {
   grossCents: number;
   discountCents: number;
   netCents: number;
+  /** The plan's coverage on this line written out, e.g. "Repair discount 15 %: −$27.00."; empty when none. */
+  reason: string;
 }
 
 export interface PaymentView {

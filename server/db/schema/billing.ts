@@ -89,6 +89,8 @@ export const invoiceLines = pgTable(
     grossCents: integer().notNull(),
     discountCents: integer().notNull(),
     netCents: integer().notNull(),
+    /** Why the line costs what it does (a plan's coverage written out); empty for most lines. */
+    reason: text().notNull().default(''),
   },
   (t) => [
     uniqueIndex('invoice_lines_position_key').on(t.invoiceId, t.position),

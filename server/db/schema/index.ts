@@ -14,3 +14,6 @@ export * from './records';
 export * from './campaigns';
 export * from './mail';
 export * from './relations';
+export * from './pricebook';
+export * from './stock';
+export * from './quotes';
