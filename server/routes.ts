@@ -22,6 +22,9 @@ import { myHomeRoutes } from './customers/my-home.routes';
 import { equipmentRoutes } from './equipment/equipment.routes';
 import { uploadRoutes } from './uploads/uploads.routes';
 import { importRoutes } from './imports/imports.routes';
+import { priceBookRoutes } from './pricebook/pricebook.routes';
+import { stockRoutes } from './stock/stock.routes';
+import { portalQuoteRoutes, quoteRoutes, workInvoiceRoutes } from './quotes/quotes.routes';
 import { portalReadingsRoutes, visitSummaryRoutes } from './portal-readings/portal-readings.routes';
 
 export interface ApiRouter {
@@ -60,4 +63,9 @@ export const apiRouters: ApiRouter[] = [
   { path: '/api/files', build: uploadRoutes, multipart: true },
   { path: '/api/imports', build: importRoutes, multipart: true },
   { path: '/api/my-home', build: myHomeRoutes },
+  { path: '/api/price-book', build: priceBookRoutes, multipart: true },
+  { path: '/api/quotes', build: quoteRoutes },
+  { path: '/api/portal/quotes', build: portalQuoteRoutes },
+  { path: '/api/work-invoices', build: workInvoiceRoutes },
+  { path: '/api/stock', build: stockRoutes },
 ];

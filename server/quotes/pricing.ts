@@ -1,0 +1,130 @@
+import { eq, inArray } from 'drizzle-orm';
+import { CoverageInputError, tuneUpSeasonOf, type Coverage } from '../../shared/coverage';
+import { DEFAULT_DISCOUNT_CATEGORIES, type ItemCategory } from '../../shared/pricebook';
+import { coverQuote, taskLines, type CoverageLineInput, type OptionCoverage, type QuoteAgreement } from '../../shared/quote-coverage';
+import type { QuoteLineInput, QuoteOptionInput } from '../../shared/schemas/pricebook';
+import type { Db, Tx } from '../db/client';
+import { equipment, priceBookItems, stockLocations } from '../db/schema';
+import { companyInfo, visitCoverage, type CompanyInfo } from '../field/visit-data';
+import { localDate } from '../company/company';
+import { AppError } from '../http/errors';
+import { taskViews } from '../pricebook/pricebook.service';
+import type { VisitRow } from '../visits/visit-status';
+
+// Turns quote lines as sent (price-book items, flat-rate tasks, written-out lines) into priced
+// lines with today's item versions, then works out each line's coverage for the visit.
+
+/** A priced line with what the quote keeps beside the coverage. */
+export interface PricedLine extends CoverageLineInput {
+  itemId: string | null;
+  itemVersionId: string | null;
+  taskId: string | null;
+  sku: string | null;
+  stockLocationId: string | null;
+  equipmentId: string | null;
+}
+
+export interface CoverageContext {
+  info: CompanyInfo;
+  visitDate: string;
+  coverage: Coverage;
+  agreement: QuoteAgreement | null;
+  warranty: { partsEndsOn: string | null } | null;
+  taxRateBps: number;
+}
+
+/** Owner choices the plan record does not carry yet: which categories take the repair discount. */
+const DISCOUNT_CATEGORIES: readonly ItemCategory[] = DEFAULT_DISCOUNT_CATEGORIES;
+
+export function quoteAgreementOf(c: Coverage): QuoteAgreement | null {
+  if (!c.hasAgreement || !c.status || !c.term) return null;
+  const of = (s: 'cooling' | 'heating') => {
+    const a = c.allowances.find((x) => x.season === s);
+    return { included: a?.included ?? 0, left: Math.min(a?.left ?? 0, a?.included ?? 0) };
+  };
+  return {
+    status: c.status,
+    startsOn: c.term.startsOn,
+    endsOn: c.term.endsOn,
+    planName: c.planName ?? 'Maintenance plan',
+    repairDiscountBps: c.repairDiscountBps,
+    diagnosticFeeWaived: c.diagnosticFee.waived,
+    warrantyLaborCovered: false,
+    tuneUps: { cooling: of('cooling'), heating: of('heating') },
+    discountCategories: DISCOUNT_CATEGORIES,
+  };
+}
+
+export async function coverageContext(db: Db | Tx, visit: VisitRow, equipmentId: string | null, taxRateBps: number): Promise<CoverageContext> {
+  const info = await companyInfo(db);
+  const coverage = await visitCoverage(db, visit, info);
+  let warranty: CoverageContext['warranty'] = null;
+  if (equipmentId) {
+    const [e] = await db.select({ propertyId: equipment.propertyId, warrantyEndsOn: equipment.warrantyEndsOn }).from(equipment).where(eq(equipment.id, equipmentId));
+    if (!e || e.propertyId !== visit.propertyId) throw new AppError(422, 'validation_failed', 'Please check equipmentId.', { equipmentId: 'Choose a system at this home.' });
+    warranty = { partsEndsOn: e.warrantyEndsOn };
+  }
+  return { info, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage), warranty, taxRateBps };
+}
+
+const bad = (field: string, message: string) => new AppError(422, 'validation_failed', `Please check ${field}.`, { [field]: message });
+
+/** Prices one option's lines; `path` names the option in field errors (e.g. "options.0"). */
+export async function priceLines(db: Db | Tx, lines: QuoteLineInput[], ctx: CoverageContext, path: string): Promise<PricedLine[]> {
+  const itemIds = lines.flatMap((l) => (l.source === 'item' ? [l.itemId] : []));
+  const taskIds = lines.flatMap((l) => (l.source === 'task' ? [l.taskId] : []));
+  const locIds = lines.flatMap((l) => (l.source !== 'custom' && l.stockLocationId ? [l.stockLocationId] : []));
+  const items = itemIds.length ? await db.select().from(priceBookItems).where(inArray(priceBookItems.id, itemIds)) : [];
+  const tasks = taskIds.length ? await taskViews(db, taskIds) : [];
+  const locs = locIds.length ? await db.select({ id: stockLocations.id }).from(stockLocations).where(inArray(stockLocations.id, locIds)) : [];
+  const season = ctx.coverage.tuneUpSeason ?? tuneUpSeasonOf(ctx.visitDate, ctx.info.seasons);
+  const out: PricedLine[] = [];
+  lines.forEach((l, i) => {
+    const at = `${path}.lines.${i}`;
+    const equipmentId = l.equipmentId ?? null;
+    const stockLocationId = l.source !== 'custom' ? (l.stockLocationId ?? null) : null;
+    if (stockLocationId && !locs.some((x) => x.id === stockLocationId)) throw bad(`${at}.stockLocationId`, 'That truck or shop was not found.');
+    if (l.source === 'item') {
+      const it = items.find((x) => x.id === l.itemId);
+      if (!it || !it.active) throw bad(`${at}.itemId`, it ? 'That item is no longer offered.' : 'That price-book item was not found.');
+      if (stockLocationId && it.kind !== 'part') throw bad(`${at}.stockLocationId`, 'Only parts come from a truck or the shop.');
+      out.push({ description: it.name, kind: it.kind, category: it.category, quantity: l.quantity, unitCents: it.unitCents, taxable: it.taxable, group: null, season: it.category === 'tune_up' ? season : null, itemId: it.id, itemVersionId: it.currentVersionId, taskId: null, sku: it.sku, stockLocationId, equipmentId });
+    } else if (l.source === 'task') {
+      const t = tasks.find((x) => x.id === l.taskId);
+      if (!t || !t.active) throw bad(`${at}.taskId`, t ? 'That task is no longer offered.' : 'That flat-rate task was not found.');
+      const group = `${t.id}:${i}`;
+      const parts = taskLines({ id: group, components: t.components.map((c) => ({ description: `${t.name}: ${c.name}`, kind: c.kind, category: c.category, quantity: c.quantity, unitCents: c.unitCents, taxable: c.taxable })) }, l.quantity);
+      parts.forEach((p, k) => {
+        const c = t.components[k]!;
+        out.push({ ...p, season: c.category === 'tune_up' ? season : null, itemId: c.itemId, itemVersionId: c.itemVersionId, taskId: t.id, sku: c.sku, stockLocationId: c.kind === 'part' ? stockLocationId : null, equipmentId });
+      });
+    } else {
+      out.push({ description: l.description, kind: l.kind, category: l.category, quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable, group: null, season: l.category === 'tune_up' ? season : null, itemId: null, itemVersionId: null, taskId: null, sku: null, stockLocationId: null, equipmentId });
+    }
+  });
+  return out;
+}
+
+export interface PricedOption {
+  title: string;
+  description: string;
+  lines: PricedLine[];
+  coverage: OptionCoverage;
+}
+
+/** Every option priced and covered; input problems come back as 422 naming the field. */
+export async function priceOptions(db: Db | Tx, options: QuoteOptionInput[], ctx: CoverageContext): Promise<{ options: PricedOption[]; notes: string[] }> {
+  const priced: PricedLine[][] = [];
+  for (const [i, o] of options.entries()) priced.push(await priceLines(db, o.lines, ctx, `options.${i}`));
+  let covered;
+  try {
+    covered = coverQuote({ agreement: ctx.agreement, warranty: ctx.warranty, visitDate: ctx.visitDate, options: priced.map((lines) => ({ lines })), taxRateBps: ctx.taxRateBps });
+  } catch (err) {
+    if (err instanceof CoverageInputError) throw bad(err.field.replace(/\[(\d+)\]/g, '.$1'), err.message.replace(/^[^:]+: /, ''));
+    throw err;
+  }
+  return {
+    options: options.map((o, i) => ({ title: o.title, description: o.description, lines: priced[i]!, coverage: covered.options[i]! })),
+    notes: covered.notes,
+  };
+}
