@@ -10,10 +10,11 @@ export interface NavLink {
 const PORTAL: NavLink[] = [
   { label: 'My home', path: '/portal/home', icon: 'home' },
   { label: 'My plan', path: '/portal/plan', icon: 'shield' },
+  { label: 'Quotes', path: '/portal/quotes', icon: 'wrench' },
   { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
   { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
 ];
-const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }];
+const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }, { label: 'My truck', path: '/field/truck', icon: 'truck' }];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
   { label: 'Households', path: '/office/customers', icon: 'people' },

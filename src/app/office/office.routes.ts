@@ -16,4 +16,6 @@ export const OFFICE_ROUTES: Routes = [
   { path: 'customers/new', loadComponent: () => import('./customers/customer-form').then((m) => m.CustomerForm), title: 'New household · Seasonwell' },
   { path: 'customers/:id', loadComponent: () => import('./customers/customer-page').then((m) => m.CustomerPage), title: 'Household · Seasonwell' },
   { path: 'imports', loadComponent: () => import('./imports/customer-import').then((m) => m.CustomerImport), title: 'Import households · Seasonwell' },
+  { path: 'quotes', loadComponent: () => import('./quotes/open-quotes').then((m) => m.OpenQuotes), title: 'Quotes · Seasonwell' },
+  { path: 'stock', loadComponent: () => import('./stock/restock-list').then((m) => m.RestockList), title: 'Truck stock · Seasonwell' },
 ];

@@ -7,7 +7,11 @@ import { firstValueFrom } from 'rxjs';
 import type { StoredFile } from '../../../../shared/schemas/customers';
 import type { CompletedVisit, FieldVisit, SavedReadings } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
+import { Session } from '../../core/session';
 import { FieldApi } from '../field-api';
+import { QuoteBuilder } from '../quotes/quote-builder';
+import { QuotesApi } from '../quotes/quotes-api';
+import { WorkInvoice } from '../quotes/work-invoice';
 import { VisitDrafts } from '../visit-drafts';
 import { CautionNote } from './caution-note';
 import { CoverageBanner } from './coverage-banner';
@@ -21,13 +25,25 @@ import { VisitTroubleshooting } from './visit-troubleshooting';
 /** One visit on site: header, coverage, checklist or troubleshooting, readings, findings, completion. */
 @Component({
   selector: 'sw-visit-page',
-  imports: [RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting],
+  imports: [RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting, QuoteBuilder, WorkInvoice],
   templateUrl: './visit-page.html',
   styleUrl: './visit-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class VisitPage {
   private readonly api = inject(FieldApi);
+  private readonly session = inject(Session);
+  private readonly quotesApi = inject(QuotesApi);
+  private readonly trucks = rxResource({ stream: () => this.quotesApi.locations() });
+  /** The signed-in technician's truck: where quoted parts come from first. */
+  protected readonly truckId = computed(() => {
+    const ls = this.trucks.hasValue() ? this.trucks.value() : [];
+    const me = this.session.user();
+    const trucks = ls.filter((l) => l.kind === 'truck');
+    // A technician is shown only their own truck; the owner sees all of them.
+    const mine = trucks.find((l) => l.technicianId === me?.id || l.technicianName === me?.name) ?? (me?.role === 'technician' ? trucks[0] : undefined);
+    return mine?.id ?? null;
+  });
 
   /** Route parameter. */
   readonly id = input.required<string>();

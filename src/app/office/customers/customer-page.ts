@@ -20,6 +20,7 @@ import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { firstValueFrom } from 'rxjs';
+import { OfficeQuotesApi } from '../quotes/office-quotes-api';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
@@ -42,6 +43,10 @@ export class CustomerPage {
   private readonly customer = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly c = localCopy<CustomerDetail>(this.customer);
   protected readonly error = errorMessage(this.customer);
+  private readonly quotesApi = inject(OfficeQuotesApi);
+  private readonly savingsRead = rxResource({ params: () => this.id(), stream: ({ params }) => this.quotesApi.savings(params) });
+  /** "Your plan saved you $X this year", from the coverage actually given. */
+  protected readonly savings = computed(() => (this.savingsRead.hasValue() ? this.savingsRead.value() : null));
   protected readonly editing = signal(false);
   protected readonly addingEquipmentTo = signal<string | null>(null);
   protected readonly merging = signal(false);

@@ -69,6 +69,8 @@ export class OfficeHome {
     { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people', path: '/office/customers' },
     { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch', path: '/office/dispatch' },
     { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield', path: '/office/renewals' },
+    { title: 'Quotes', text: 'Open quotes with their age and value, and how many are approved.', icon: 'wrench', path: '/office/quotes' },
+    { title: 'Truck stock', text: 'The restock list, restocks and transfers between trucks and the shop.', icon: 'truck', path: '/office/stock' },
     { title: 'Reminders', text: 'Seasonal tune-up, filter and coil-cleaning reminders.', icon: 'bell', path: '/office/reminders' },
     { title: 'Reports', text: 'Agreements, revenue, visits and technician utilisation over time.', icon: 'chart', path: '/office/reports' },
   ];

@@ -19,6 +19,7 @@ import { toApiError } from '../../core/api-errors';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { planFeatures } from './plan-features';
+import { PortalQuotesApi } from '../quotes/portal-quotes-api';
 import { PlansApi, type HomeChoice } from './plans-api';
 
 // Every screen shows a term's days the same way (shared/agreement-terms.ts).
@@ -56,6 +57,10 @@ export class MyPlan {
   protected readonly longDate = longDate;
   protected readonly features = planFeatures;
   private readonly mine = rxResource({ stream: () => this.api.mine() });
+  /** "Your plan saved you $X this year", from the coverage actually given. */
+  private readonly quotesApi = inject(PortalQuotesApi);
+  private readonly savingsRead = rxResource({ stream: () => this.quotesApi.savings() });
+  protected readonly savings = computed(() => (this.savingsRead.hasValue() && this.savingsRead.value().savingsCents > 0 ? this.savingsRead.value() : null));
   private readonly plansRead = rxResource({ stream: () => this.api.plans() });
   /** Only the first read shows as loading; a refresh after a payment keeps the page in place. */
   protected readonly loading = computed(() => this.mine.status() === 'loading');
