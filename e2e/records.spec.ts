@@ -72,7 +72,9 @@ test('the office records a household, its home and a heat pump with a nameplate 
   await home.goto(link!);
   await home.getByRole('button', { name: 'Sign me in' }).click();
   await expect(home).toHaveURL(/\/portal/);
-  await home.getByRole('link', { name: 'My home' }).first().click();
+  // On a phone the header's links fold into one labelled Menu.
+  await home.getByRole('button', { name: 'Menu', exact: true }).click();
+  await home.getByRole('menuitem', { name: 'My home' }).click();
   await expect(home.getByRole('heading', { name: 'My home', exact: true })).toBeVisible();
   await expect(home.getByRole('heading', { name: '1208 Redbud Terrace' })).toBeVisible();
   await expect(home.getByText('Heat pump', { exact: true })).toBeVisible();

@@ -11,7 +11,7 @@ import { AreaLanding, type AreaTile } from '../ui/area-landing';
 export class AdminHome {
   protected readonly tiles: AreaTile[] = [
     { title: 'Plans and prices', text: 'Tiers, what each covers, and what they cost.', icon: 'shield', path: '/admin/plans' },
-    { title: 'Hours and booking rules', text: 'Business hours, arrival windows, lead time and cut-offs.', icon: 'calendar', path: '/admin/company' },
+    { title: 'Hours and booking rules', text: 'Business hours, arrival windows, lead time and cut-offs.', icon: 'calendar', path: '/admin/hours' },
     { title: 'Staff', text: 'Invite technicians and office staff; disable accounts.', icon: 'people', path: '/admin/staff' },
     { title: 'Access log', text: 'Sign-ins, failed attempts, invitations and role changes.', icon: 'info', path: '/admin/audit' },
     { title: 'Company', text: 'Name, address, phone, sales tax and diagnostic fee.', icon: 'settings', path: '/admin/company' },

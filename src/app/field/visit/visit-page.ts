@@ -17,11 +17,13 @@ import { VisitNotes } from './visit-notes';
 import { VisitPhotos } from './visit-photos';
 import { VisitSaves } from './visit-save';
 import { VisitTroubleshooting } from './visit-troubleshooting';
+import { PhoneLink } from '../../ui/phone-link';
+import { DayPipe } from '../../ui/dates';
 
 /** One visit on site: header, coverage, checklist or troubleshooting, readings, findings, completion. */
 @Component({
   selector: 'sw-visit-page',
-  imports: [RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting],
+  imports: [DayPipe, PhoneLink, RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting],
   templateUrl: './visit-page.html',
   styleUrl: './visit-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

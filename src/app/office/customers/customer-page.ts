@@ -1,4 +1,4 @@
-import { CurrencyPipe, DatePipe } from '@angular/common';
+import { CurrencyPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
@@ -20,6 +20,8 @@ import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { firstValueFrom } from 'rxjs';
+import { DayPipe } from '../../ui/dates';
+import { PhoneLink } from '../../ui/phone-link';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
@@ -28,7 +30,7 @@ const TIMELINE_ICON: Record<TimelineKind, string> = {
 /** One household: its people, homes, equipment, agreements, visits, invoices, notes and files. */
 @Component({
   selector: 'sw-customer-page',
-  imports: [CurrencyPipe, DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, EquipmentForm, FileUpload],
+  imports: [PhoneLink, CurrencyPipe, DayPipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, EquipmentForm, FileUpload],
   templateUrl: './customer-page.html',
   styleUrl: './customer-page.scss',
   host: { class: 'sw-dense' },

@@ -20,6 +20,8 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
 import { firstValueFrom } from 'rxjs';
+import { dayLabel, shortDayLabel, timeLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
 const QUEUE = 'queue';
@@ -57,6 +59,7 @@ interface Column {
 export class DispatchBoard {
   private readonly api = inject(DispatchApi);
   private readonly snack = inject(MatSnackBar);
+  private readonly session = inject(Session);
 
   protected readonly kinds = VISIT_KINDS.map((k) => ({ id: k, label: KIND_LABELS[k] }));
   /** Skills in words: "gas_furnace" reads as "gas furnace". */
@@ -64,7 +67,7 @@ export class DispatchBoard {
     return (skills ?? []).map((s) => s.replace(/_/g, ' ')).join(', ');
   }
 
-  protected readonly from = signal(DateTime.now().setZone('America/Chicago').toISODate()!);
+  protected readonly from = signal(DateTime.now().setZone(this.session.timeZone()).toISODate()!);
   protected readonly days = signal<1 | 7>(1);
   protected readonly technicianId = signal<string>('');
   protected readonly kind = signal<VisitKind | ''>('');
@@ -87,8 +90,8 @@ export class DispatchBoard {
 
   protected readonly title = computed(() => {
     const start = DateTime.fromISO(this.from());
-    if (this.days() === 1) return start.toFormat('cccc d LLLL yyyy');
-    return `Week of ${start.startOf('week').toFormat('d LLLL yyyy')}`;
+    if (this.days() === 1) return dayLabel(start.toISODate()!, this.session.timeZone(), { weekday: true });
+    return `Week of ${dayLabel(start.startOf('week').toISODate()!, this.session.timeZone())}`;
   });
 
   protected readonly columns = computed<Column[]>(() => {
@@ -104,7 +107,7 @@ export class DispatchBoard {
         const end = day.endOf('day').toMillis();
         return {
           date: iso,
-          label: day.toFormat('ccc d LLL'),
+          label: shortDayLabel(iso, d.timeZone),
           visits: d.visits.filter((v) => v.technicianId === t.id && v.windowStart.slice(0, 10) === iso),
           off: t.timeOff.some((o) => Date.parse(o.startsAt) < end && Date.parse(o.endsAt) > start),
         };
@@ -122,7 +125,7 @@ export class DispatchBoard {
   }
 
   protected today(): void {
-    this.from.set(DateTime.now().setZone('America/Chicago').toISODate()!);
+    this.from.set(DateTime.now().setZone(this.session.timeZone()).toISODate()!);
   }
 
   protected pickDate(value: string): void {
@@ -139,7 +142,7 @@ export class DispatchBoard {
   }
 
   protected time(iso: string): string {
-    return DateTime.fromISO(iso, { setZone: true }).toFormat('h:mm a');
+    return timeLabel(iso, this.data()?.timeZone ?? this.session.timeZone());
   }
 
   protected nextStatuses(v: VisitView): VisitStatus[] {

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -13,6 +12,7 @@ import type { ReminderCampaignSummary, ReminderPreview } from '../../../../share
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { RemindersApi } from './reminders-api';
+import { DateTimePipe } from '../../ui/dates';
 
 const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
   cooling_tune_up: { icon: 'snowflake', text: 'Plan members whose spring cooling tune-up is not booked yet.' },
@@ -24,7 +24,7 @@ const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
 /** Seasonal reminders: pick a kind, see exactly who gets it and why, send once, watch it go. */
 @Component({
   selector: 'sw-reminders',
-  imports: [DatePipe, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, MatTableModule],
+  imports: [DateTimePipe, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, MatTableModule],
   templateUrl: './reminders.html',
   styleUrl: './reminders.scss',
   host: { class: 'sw-dense' },

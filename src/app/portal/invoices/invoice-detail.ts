@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -11,11 +10,12 @@ import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
+import { DayPipe } from '../../ui/dates';
 
 /** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
 @Component({
   selector: 'sw-invoice-detail',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, InvoiceStatusBadge],
+  imports: [DayPipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, InvoiceStatusBadge],
   templateUrl: './invoice-detail.html',
   styleUrl: './invoice-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
