@@ -111,6 +111,19 @@ test('the owner\'s header is one row at 1366 px; the households table and the ac
   });
   expect.soft(audit.cls, `access log layout shifts: ${JSON.stringify(audit.shifts)}`).toBeLessThan(CLS_GOOD);
 
+  // The household page names the household in the tab, and keeps equipment kind and model apart.
+  const found = (await (await page.request.get('/api/customers?q=Whitfield&pageSize=5')).json()) as { items: { id: string; name: string }[] };
+  await page.goto(`/office/customers/${found.items.find((c) => c.name === 'Whitfield household')!.id}`);
+  await expect(page.getByRole('heading', { level: 1, name: 'Whitfield household' })).toBeVisible();
+  await expect(page).toHaveTitle('Whitfield household · Seasonwell');
+  const kinds = await page.locator('.eq-head').allInnerTexts();
+  expect(kinds.length).toBeGreaterThan(0);
+  for (const k of kinds) expect(k, 'kind and model read apart').not.toMatch(/[a-z][A-Z]/);
+  // Phone numbers read in the national format and call when tapped.
+  const tel = page.getByRole('link', { name: /^\(\d{3}\) \d{3}-\d{4}$/ }).first();
+  await expect(tel).toHaveAttribute('href', /^tel:\+1\d{10}$/);
+  await expect(page.getByText(/\+1\d{10}/)).toHaveCount(0);
+
   // The two settings tiles open two pages.
   await page.goto('/admin');
   await page.getByRole('link', { name: 'Hours and booking rules' }).click();

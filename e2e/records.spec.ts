@@ -56,7 +56,7 @@ test('the office records a household, its home and a heat pump with a nameplate 
     .toBuffer();
   await equipment.getByLabel('Add nameplate photo').setInputFiles({ name: 'nameplate.jpg', mimeType: 'image/jpeg', buffer: photo });
   await expect(equipment.getByRole('status').filter({ hasText: 'Uploaded 1 file.' })).toBeVisible();
-  await expect(page.getByRole('img', { name: 'nameplate.jpg' })).toBeVisible();
+  await expect(page.getByRole('link', { name: 'Open photo: Nameplate photo (opens in a new tab)' })).toBeVisible();
 
   // Open the household's portal and sign in as the homeowner from the invitation e-mail.
   await page.goto('/office/invite');
@@ -82,7 +82,7 @@ test('the office records a household, its home and a heat pump with a nameplate 
   await expect(home.getByText('20x25x1')).toBeVisible();
   await expect(home.getByText('Warranty ended')).toBeVisible();
   await expect(home.getByText(/^\d+ years/).first()).toBeVisible();
-  await expect(home.getByRole('img', { name: 'nameplate.jpg' })).toBeVisible();
+  await expect(home.getByRole('link', { name: 'Open photo: Nameplate photo (opens in a new tab)' })).toBeVisible();
   // Readings appear after a visit; until then the chart says so.
   await expect(home.getByText(/No readings yet/)).toBeVisible();
   // Phone first: nothing scrolls sideways at 360 px.

@@ -47,6 +47,8 @@ export class VisitPage {
   });
   /** The loaded visit with what was done since: status moves, photos, readings. */
   protected readonly page = linkedSignal(() => this.loaded());
+  /** The checklist as last saved, which the completion check lists open items from. */
+  protected readonly checklistNow = linkedSignal(() => this.loaded()?.checklist ?? []);
   protected readonly loadError = computed(() => {
     const e = this.visit.error();
     return e ? toApiError(e).message : null;

@@ -22,6 +22,8 @@ import { applyServerErrors, serverError } from '../../core/form-errors';
 import { firstValueFrom } from 'rxjs';
 import { DayPipe } from '../../ui/dates';
 import { PhoneLink } from '../../ui/phone-link';
+import { pageTitle } from '../../ui/page-title';
+import { photoLinkName } from '../../ui/photo-link';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
@@ -37,12 +39,14 @@ const TIMELINE_ICON: Record<TimelineKind, string> = {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CustomerPage {
+  protected readonly photoLinkName = photoLinkName;
   private readonly api = inject(CustomersApi);
   private readonly snack = inject(MatSnackBar);
   readonly id = input.required<string>();
 
   private readonly customer = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly c = localCopy<CustomerDetail>(this.customer);
+  protected readonly titled = pageTitle(() => this.c()?.name);
   protected readonly error = errorMessage(this.customer);
   protected readonly editing = signal(false);
   protected readonly addingEquipmentTo = signal<string | null>(null);

@@ -15,6 +15,7 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
 import { DateTimePipe } from '../../ui/dates';
+import { pageTitle } from '../../ui/page-title';
 
 /** One invoice for the office: record a check or cash payment, refund all or part, void. */
 @Component({
@@ -33,6 +34,7 @@ export class OfficeInvoice {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
+  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number ?? '(draft)'} · ${i.customerName}` : null; });
   protected readonly loadError = errorMessage(this.read);
   protected readonly busy = signal(false);
   protected readonly serverError = serverError;

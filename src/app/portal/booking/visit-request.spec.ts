@@ -6,7 +6,8 @@ import { provideIcons } from '../../ui/icons';
 import { VisitRequest } from './visit-request';
 import { groupByDay } from './window-days';
 
-describe('VisitRequest', () => {
+// Stepping through a whole stepper in jsdom is slow on a busy machine.
+describe('VisitRequest', { timeout: 60_000 }, () => {
   it('puts the emergency message before any booking step and keeps an emergency off the booking path', async () => {
     TestBed.configureTestingModule({ imports: [VisitRequest], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), provideIcons()] });
     const fixture = TestBed.createComponent(VisitRequest);

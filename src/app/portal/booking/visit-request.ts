@@ -27,6 +27,7 @@ import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
 import { firstValueFrom } from 'rxjs';
 import { PhoneLink } from '../../ui/phone-link';
+import { pageTitle } from '../../ui/page-title';
 
 const REASON_ICONS: Record<VisitReason, string> = {
   no_cooling: 'snowflake',
@@ -92,6 +93,8 @@ export class VisitRequest {
   protected readonly busy = signal(false);
   protected readonly submitError = signal<string | null>(null);
   protected readonly booked = signal<VisitView | null>(null);
+  // After booking the tab says what happened, not "Request a visit".
+  protected readonly titled = pageTitle(() => { const v = this.booked(); return v ? VISIT_STATE_WORDS[v.status].heading : null; });
   protected readonly stateWords = VISIT_STATE_WORDS;
   protected readonly photos = signal<File[]>([]);
   /** The step whose Next was pressed with nothing chosen; its message stays until a choice is made. */

@@ -17,6 +17,7 @@ import { MyHomeApi } from './my-home-api';
 import { firstValueFrom } from 'rxjs';
 import { DayPipe } from '../../ui/dates';
 import { PhoneLink } from '../../ui/phone-link';
+import { photoLinkName } from '../../ui/photo-link';
 
 
 /** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
@@ -28,6 +29,7 @@ import { PhoneLink } from '../../ui/phone-link';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyHome {
+  protected readonly photoLinkName = photoLinkName;
   private readonly api = inject(MyHomeApi);
   private readonly snack = inject(MatSnackBar);
   private readonly read = rxResource({ stream: () => this.api.load() });

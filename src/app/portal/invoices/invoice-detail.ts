@@ -11,6 +11,7 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { DayPipe } from '../../ui/dates';
+import { pageTitle } from '../../ui/page-title';
 
 /** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
 @Component({
@@ -28,6 +29,7 @@ export class InvoiceDetail {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
+  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number}` : null; });
   private readonly loadError = errorMessage(this.read);
   private readonly actionError = signal<string | null>(null);
   protected readonly error = computed(() => this.actionError() ?? this.loadError());
