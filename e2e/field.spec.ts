@@ -63,7 +63,9 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await confirm.getByLabel('Why were these skipped?').fill('Homeowner asked us to skip the attic today.');
   await confirm.getByLabel('A repair was done on this visit').check();
   await expect(confirm.getByText('Ask the homeowner to sign for the repair.')).toBeVisible();
-  const pad = (await confirm.getByRole('img', { name: "Homeowner's signature for the repair" }).boundingBox())!;
+  const padArea = confirm.getByRole('img', { name: "Homeowner's signature for the repair" });
+  await padArea.scrollIntoViewIfNeeded();
+  const pad = (await padArea.boundingBox())!;
   await page.mouse.move(pad.x + 20, pad.y + pad.height / 2);
   await page.mouse.down();
   await page.mouse.move(pad.x + pad.width / 2, pad.y + 20, { steps: 8 });
