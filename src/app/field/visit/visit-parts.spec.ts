@@ -101,6 +101,7 @@ describe('VisitNotes', { timeout: 60_000 }, () => {
     const req = http.expectOne('/api/field/visits/v1/complete');
     expect(req.request.body).toEqual({ findings: 'Cleaned the drain.', recommendations: '', skippedReason: '', repairDone: false });
     req.flush({ id: 'v1', status: 'done', completedAt: '2026-07-14T15:00:00Z', summaryEmailed: true });
+    await new Promise((r) => setTimeout(r, 100));
     await fixture.whenStable();
     expect(completed).toHaveLength(1);
     expect(el.textContent).toContain('Visit completed. The homeowner has been sent a summary.');
