@@ -50,7 +50,11 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   await expect(page.getByText(/Plan member:/)).toBeVisible();
   await page.getByRole('button', { name: 'Next' }).click();
 
+  // Next with no reason chosen says what is missing.
+  await page.getByRole('button', { name: 'Next' }).click();
+  await expect(page.getByRole('alert').filter({ hasText: 'Choose what the visit is for' })).toBeVisible();
   await page.getByRole('radio', { name: /No cooling/ }).check();
+  await expect(page.getByText('Choose what the visit is for')).toHaveCount(0);
   await page.getByRole('button', { name: 'Next' }).click();
 
   await page.getByRole('checkbox', { name: 'Fan runs but air is warm' }).check();
@@ -59,13 +63,18 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
 
   const windows = page.getByRole('radiogroup', { name: 'Arrival window' });
   await expect(windows.getByRole('radio').first()).toBeVisible();
-  await expect(page.getByText(/Your plan promises a visit within \d+ hours/)).toBeVisible();
+  const promise = page.getByText(/Your plan promises a visit within \d+ hours/);
+  await expect(promise).toBeVisible();
+  // The note promises marked windows only when some are marked; otherwise it gives the number to call.
+  if (/marked Priority/.test(await promise.innerText())) await expect(windows.getByRole('radio', { name: /, priority$/ }).first()).toBeVisible();
+  else await expect(promise.getByRole('link', { name: /^\(\d{3}\) \d{3}-\d{4}$/ })).toHaveAttribute('href', /^tel:\+1/);
   await windows.getByRole('radio').first().check();
   await page.getByRole('button', { name: 'Next' }).click();
 
   const confirmed = Date.now();
   await page.getByRole('button', { name: 'Confirm visit' }).click();
   await expect(page.getByRole('heading', { name: 'Visit requested' })).toBeVisible();
+  await expect(page).toHaveTitle('Visit requested · Seasonwell');
   await expect(page.getByText(/the office has not yet confirmed this window or assigned a technician/)).toBeVisible();
   // The real cut-off for this visit, and the office's number as a tap-to-call link.
   await expect(page.getByText(/You can change this visit online until \w{3} \d{1,2} \w{3}, \d{1,2}:\d{2} [AP]M\.|Changes to this visit are by phone:/)).toBeVisible();

@@ -43,7 +43,8 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await page.getByLabel('Caption').fill('Weak run capacitor');
   await page.getByLabel('Take or add photos').setInputFiles({ name: 'capacitor.png', mimeType: 'image/png', buffer: photo });
   await expect(page.getByText('1 photo added.')).toBeVisible();
-  await expect(page.getByRole('img', { name: 'Weak run capacitor' })).toBeVisible();
+  // The thumbnail's link says what it opens.
+  await expect(page.getByRole('link', { name: 'Open photo: Weak run capacitor (opens in a new tab)' })).toBeVisible();
 
   // Only a visit the technician has started can be completed: on the way, then on site.
   await page.getByRole('button', { name: 'On my way' }).click();
@@ -55,6 +56,22 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await page.getByLabel('Findings', { exact: true }).fill('Cleaned the condensate drain and tightened connections. Compressor run capacitor is weak.');
   await page.getByLabel('Recommendations', { exact: true }).fill('Replace the compressor run capacitor. Coil cleaning recommended.');
   await page.getByRole('button', { name: 'Complete visit' }).click();
+  // Completing asks first: the unticked checklist items and why, and the homeowner's signature for the repair.
+  const confirm = page.getByRole('dialog', { name: 'Complete this visit?' });
+  await expect(confirm.getByRole('list', { name: /Not ticked on the checklist/ })).toBeVisible();
+  await expect(confirm.getByRole('button', { name: 'Complete visit' })).toBeDisabled();
+  await confirm.getByLabel('Why were these skipped?').fill('Homeowner asked us to skip the attic today.');
+  await confirm.getByLabel('A repair was done on this visit').check();
+  await expect(confirm.getByText('Ask the homeowner to sign for the repair.')).toBeVisible();
+  const padArea = confirm.getByRole('img', { name: "Homeowner's signature for the repair" });
+  await padArea.scrollIntoViewIfNeeded();
+  const pad = (await padArea.boundingBox())!;
+  await page.mouse.move(pad.x + 20, pad.y + pad.height / 2);
+  await page.mouse.down();
+  await page.mouse.move(pad.x + pad.width / 2, pad.y + 20, { steps: 8 });
+  await page.mouse.move(pad.x + pad.width - 20, pad.y + pad.height - 20, { steps: 8 });
+  await page.mouse.up();
+  await confirm.getByRole('button', { name: 'Complete visit' }).click();
   await expect(page.getByText('Visit completed. The homeowner has been sent a summary.')).toBeVisible();
   const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
   expect(overflow, 'no sideways scrolling on a phone').toBeLessThanOrEqual(0);

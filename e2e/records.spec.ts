@@ -56,7 +56,7 @@ test('the office records a household, its home and a heat pump with a nameplate 
     .toBuffer();
   await equipment.getByLabel('Add nameplate photo').setInputFiles({ name: 'nameplate.jpg', mimeType: 'image/jpeg', buffer: photo });
   await expect(equipment.getByRole('status').filter({ hasText: 'Uploaded 1 file.' })).toBeVisible();
-  await expect(page.getByRole('img', { name: 'nameplate.jpg' })).toBeVisible();
+  await expect(page.getByRole('link', { name: 'Open photo: Nameplate photo (opens in a new tab)' })).toBeVisible();
 
   // Open the household's portal and sign in as the homeowner from the invitation e-mail.
   await page.goto('/office/invite');
@@ -72,7 +72,9 @@ test('the office records a household, its home and a heat pump with a nameplate 
   await home.goto(link!);
   await home.getByRole('button', { name: 'Sign me in' }).click();
   await expect(home).toHaveURL(/\/portal/);
-  await home.getByRole('link', { name: 'My home' }).first().click();
+  // On a phone the header's links fold into one labelled Menu.
+  await home.getByRole('button', { name: 'Menu', exact: true }).click();
+  await home.getByRole('menuitem', { name: 'My home' }).click();
   await expect(home.getByRole('heading', { name: 'My home', exact: true })).toBeVisible();
   await expect(home.getByRole('heading', { name: '1208 Redbud Terrace' })).toBeVisible();
   await expect(home.getByText('Heat pump', { exact: true })).toBeVisible();
@@ -80,7 +82,7 @@ test('the office records a household, its home and a heat pump with a nameplate 
   await expect(home.getByText('20x25x1')).toBeVisible();
   await expect(home.getByText('Warranty ended')).toBeVisible();
   await expect(home.getByText(/^\d+ years/).first()).toBeVisible();
-  await expect(home.getByRole('img', { name: 'nameplate.jpg' })).toBeVisible();
+  await expect(home.getByRole('link', { name: 'Open photo: Nameplate photo (opens in a new tab)' })).toBeVisible();
   // Readings appear after a visit; until then the chart says so.
   await expect(home.getByText(/No readings yet/)).toBeVisible();
   // Phone first: nothing scrolls sideways at 360 px.

@@ -19,6 +19,12 @@ describe('session and staff sign-in', () => {
     expect(cookie).not.toMatch(/HttpOnly/i); // Angular HttpClient must read it (Angular security guide)
   });
 
+  it('GET /api/session names the company\'s time zone and country, in which every screen writes dates and phone numbers', async () => {
+    const res = await request(ctx.app).get('/api/session').expect(200);
+    // The demo company is in Larkspur Bend, Missouri: US Central time (IANA "America/Chicago").
+    expect(res.body.company).toEqual({ timeZone: 'America/Chicago', country: 'US' });
+  });
+
   it('signs staff in, returns the user, and the session sticks', async () => {
     const { agent } = await signInStaff(ctx, OWNER);
     const res = await agent.get('/api/session').expect(200);

@@ -414,6 +414,37 @@ describe('completing the visit', () => {
     expect(locked.body.error.code).toBe('conflict');
   });
 
+  it('closes a tune-up only with a reason for its open checklist items, and a repair only with the homeowner\'s signature, and keeps both', async () => {
+    await post(tech, `/api/dispatch/visits/${f.tuneUpId}/status`, { status: 'on_the_way' }).expect(200);
+    await post(tech, `/api/dispatch/visits/${f.tuneUpId}/status`, { status: 'on_site' }).expect(200);
+    const findings = { findings: 'System cleaned and checked.', recommendations: '' };
+
+    const unexplained = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, findings).expect(422);
+    expect(unexplained.body.error.fields.skippedReason).toMatch(/^Say why these \d+ checklist items were skipped: /);
+
+    const unsigned = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true }).expect(422);
+    expect(unsigned.body.error.fields).toEqual({ signature: expect.stringMatching(/homeowner signs/) });
+
+    const badImage = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, repairDone: true, signature: { image: 'data:text/html;base64,PHA+', signedBy: 'Dana' } }).expect(422);
+    expect(badImage.body.error.fields['signature.image']).toMatch(/PNG/);
+
+    // 1×1 transparent PNG (PNG specification: signature, IHDR, IDAT, IEND).
+    const image = 'data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAQAAAC1HAwCAAAAC0lEQVR42mNkYAAAAAYAAjCB0C8AAAAASUVORK5CYII=';
+    const done = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true, signature: { image, signedBy: 'Dana Whitfield' } }).expect(200);
+    expect(done.body.status).toBe('done');
+    const [row] = await ctx.database.db
+      .select({ skippedReason: t.visits.skippedReason, repairDone: t.visits.repairDone, signatureImage: t.visits.signatureImage, signedBy: t.visits.signedBy, signedAt: t.visits.signedAt })
+      .from(t.visits)
+      .where(eq(t.visits.id, f.tuneUpId));
+    expect(row).toMatchObject({ skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true, signatureImage: image, signedBy: 'Dana Whitfield' });
+    expect(row!.signedAt).toBeInstanceOf(Date);
+    // Later tests read this tune-up as not yet done: put it back as it was.
+    await ctx.database.db
+      .update(t.visits)
+      .set({ status: 'scheduled', completedAt: null, skippedReason: '', repairDone: false, signatureImage: null, signedBy: null, signedAt: null })
+      .where(eq(t.visits.id, f.tuneUpId));
+  });
+
   const readings = { returnDryBulbF: 75, supplyDryBulbF: 55, indoorWetBulbF: 61 };
 });
 

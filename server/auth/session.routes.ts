@@ -1,5 +1,6 @@
 import type {} from '../auth/access';
 import { Router } from 'express';
+import { companyLocale } from '../company/company';
 import type { AppDeps } from '../deps';
 import { issueCsrf } from './csrf';
 
@@ -7,10 +8,11 @@ import { issueCsrf } from './csrf';
 // Sign-in itself lives in auth.routes.ts.
 export function sessionRoutes(deps: AppDeps): Router {
   const router = Router({ caseSensitive: true, strict: true });
-  router.get('/', (req, res) => {
+  router.get('/', async (req, res) => {
     const csrfToken = issueCsrf(req, res, deps.config);
+    const company = await companyLocale(deps.database.db);
     res.setHeader('Cache-Control', 'no-store');
-    res.json({ user: req.user ?? null, csrfToken });
+    res.json({ user: req.user ?? null, company, csrfToken });
   });
   return router;
 }

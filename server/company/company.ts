@@ -35,7 +35,33 @@ export async function updateCompanyRow(tx: Db | Tx, next: CompanyUpdate, at: Dat
   const [row] = await tx.update(company).set({ ...next, updatedAt: at }).where(eq(company.id, 1)).returning();
   if (!row) throw notSetUp();
   rememberForRequest('company', row);
+  localeKept = null;
   return row;
+}
+
+/**
+ * The company's addresses are US addresses (two-letter state, ZIP code), so its phone numbers are
+ * written for the US: the country the screens format numbers for (ISO 3166-1 alpha-2).
+ */
+export const COMPANY_COUNTRY = 'US';
+
+export interface CompanyLocale {
+  timeZone: string;
+  country: string;
+}
+
+// How every screen writes dates and numbers, kept per process: the session answer carries it on
+// every page load, and it changes only when the owner edits the company (cleared here at once;
+// another process sees the change within a minute).
+const LOCALE_TTL_MS = 60_000;
+let localeKept: { locale: CompanyLocale | null; until: number } | null = null;
+
+export async function companyLocale(db: Db | Tx, now = Date.now()): Promise<CompanyLocale | null> {
+  if (localeKept && localeKept.until > now) return localeKept.locale;
+  const timeZone = await companyTimeZone(db);
+  const locale = timeZone ? { timeZone, country: COMPANY_COUNTRY } : null;
+  localeKept = { locale, until: now + LOCALE_TTL_MS };
+  return locale;
 }
 
 /** The calendar date at `at` in a time zone, as an ISO date (agreement terms and ages are local dates). */

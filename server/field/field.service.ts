@@ -18,7 +18,8 @@ import {
   type VisitNotes,
 } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_REASON_LABELS } from '../../shared/visits';
+import { canTransition, VISIT_REASON_LABELS } from '../../shared/visits';
+import { completionProblems, unfinishedItems } from '../../shared/visit-completion';
 import type { Db } from '../db/client';
 import { customers, properties, technicians, visitChecklistItems, visitReadings, visitTroubleshooting, visits } from '../db/schema';
 import { AppError, conflict } from '../http/errors';
@@ -75,6 +76,13 @@ function seasonFor(visit: VisitRow, onDate: string, seasons: SeasonSettings): Se
  */
 function checklistFor(e: EquipmentRow, season: Season, homeKinds: readonly string[]) {
   return tuneUpChecklist(e.kind as EquipmentKind, season, { casedCoil: furnaceHasCasedCoil(homeKinds) });
+}
+
+/** The visit's checklist as the visit screen shows it, for its own season. */
+async function visitChecklist(db: Db, visit: VisitRow): Promise<ChecklistSection[]> {
+  const info = await companyInfo(db);
+  const items = await propertyEquipment(db, visit.propertyId);
+  return checklistSections(db, visit.id, items, seasonFor(visit, localDate(visit.startsAt, info.timeZone), info.seasons));
 }
 
 async function checklistSections(db: Db, visitId: string, items: EquipmentRow[], season: Season): Promise<ChecklistSection[]> {
@@ -262,7 +270,14 @@ type CompleteDeps = Pick<AppDeps, 'config'> & OutboxDeps;
 export async function completeVisit(deps: CompleteDeps, user: SessionUser, visitId: string, body: CompleteVisit, log: Logger = deps.logger): Promise<CompletedVisit> {
   const { db } = deps.database;
   const now = deps.clock();
-  await visitForStaff(db, user, visitId);
+  const open = await visitForStaff(db, user, visitId);
+  if (canTransition(open.status, 'done')) {
+    // A tune-up's open checklist items need a reason; a repair needs the homeowner's signature.
+    const unfinished = open.reason === 'tune_up' ? unfinishedItems(await visitChecklist(db, open)) : [];
+    const problems = completionProblems(unfinished, body);
+    if (Object.keys(problems).length) throw new AppError(422, 'validation_failed', Object.values(problems)[0]!, problems);
+  }
+  const signed = body.repairDone && body.signature ? { signatureImage: body.signature.image, signedBy: body.signature.signedBy, signedAt: now } : {};
   // Only a visit the technician is on site for can be done (the shared transition table).
   const result = await db.transaction((tx) =>
     changeVisitStatus(tx, {
@@ -270,8 +285,8 @@ export async function completeVisit(deps: CompleteDeps, user: SessionUser, visit
       to: 'done',
       actor: user.id,
       at: now,
-      note: 'Completed on site',
-      changes: { completedAt: now, findings: body.findings, recommendations: body.recommendations },
+      note: body.skippedReason ? `Completed on site; skipped items: ${body.skippedReason}` : 'Completed on site',
+      changes: { completedAt: now, findings: body.findings, recommendations: body.recommendations, skippedReason: body.skippedReason, repairDone: body.repairDone, ...signed },
     }),
   );
   const visit = result.after;

@@ -63,9 +63,21 @@ export const visitNotesSchema = z.strictObject({
 });
 export type VisitNotes = z.infer<typeof visitNotesSchema>;
 
+// A signature drawn on the phone, as a PNG data URL; a few hundred kilobytes at most.
+const SIGNATURE_PNG = /^data:image\/png;base64,[A-Za-z0-9+/]+={0,2}$/;
+
 export const completeVisitSchema = z.strictObject({
   findings: longText('Findings').min(1, 'Findings are needed to complete the visit'),
   recommendations: longText('Recommendations').default(''),
+  /** Why open checklist items were left, when any are. */
+  skippedReason: longText('Reason for skipped items', 1000).default(''),
+  repairDone: z.boolean({ error: 'Say whether a repair was done (true or false)' }).default(false),
+  signature: z
+    .strictObject({
+      image: z.string({ error: 'The signature is missing' }).max(400_000, 'The signature image is too large').regex(SIGNATURE_PNG, 'The signature must be a PNG image'),
+      signedBy: z.string({ error: 'Name who signed' }).trim().min(1, 'Name who signed').max(120, 'Name has at most 120 characters'),
+    })
+    .optional(),
 });
 export type CompleteVisit = z.infer<typeof completeVisitSchema>;
 

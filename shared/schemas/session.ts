@@ -10,5 +10,9 @@ export const sessionUserSchema = z.object({
 });
 export type SessionUser = z.infer<typeof sessionUserSchema>;
 
-export const sessionSchema = z.object({ user: sessionUserSchema.nullable() });
+/** How the screens write dates (the company's IANA time zone) and phone numbers (its country). */
+export const companyLocaleSchema = z.object({ timeZone: z.string(), country: z.string().length(2) });
+export type CompanyLocaleInfo = z.infer<typeof companyLocaleSchema>;
+
+export const sessionSchema = z.object({ user: sessionUserSchema.nullable(), company: companyLocaleSchema.nullable().optional() });
 export type SessionInfo = z.infer<typeof sessionSchema>;

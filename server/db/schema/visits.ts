@@ -32,6 +32,12 @@ export const visits = pgTable(
     findings: text().notNull().default(''),
     recommendations: text().notNull().default(''),
     completedAt: tstz(),
+    // Closing the visit: why open checklist items were left, and the homeowner's signature for a repair.
+    skippedReason: text().notNull().default(''),
+    repairDone: boolean().notNull().default(false),
+    signatureImage: text(),
+    signedBy: text(),
+    signedAt: tstz(),
     // Booked for a plan member or an urgent no-cooling/no-heat call: uses the held-back share.
     priority: boolean().notNull().default(false),
     // iCalendar SEQUENCE: raised on every change so calendars replace the earlier invitation.

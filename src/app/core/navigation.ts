@@ -4,6 +4,8 @@ export interface NavLink {
   label: string;
   path: string;
   icon: string;
+  /** On a wide screen, listed under "More" rather than in the bar itself. */
+  more?: boolean;
 }
 
 // Navigation mirrors the server's access rules; the server still checks every request.
@@ -36,9 +38,28 @@ export function navigationFor(role: Role | null): NavLink[] {
     case 'office':
       return OFFICE;
     case 'owner':
-      // The owner's settings pages hang off the Settings landing, keeping the bar to one row.
-      return [...OFFICE, FIELD[0]!, ADMIN[0]!];
+      // The owner's settings pages hang off the Settings landing; the rarer pages sit under
+      // "More", keeping the bar to one row at a laptop's width.
+      return [...OFFICE.filter((l) => l.path !== '/office/invite'), ADMIN[0]!, { ...OFFICE.find((l) => l.path === '/office/invite')!, more: true }, { ...FIELD[0]!, more: true }];
     default:
       return [];
+  }
+}
+
+/**
+ * Below this width (CSS px) the bar shows one labelled Menu button instead of its links, so it
+ * stays one row: set per role from the width its links need with their words.
+ */
+export function compactBelow(role: Role | null): number {
+  switch (role) {
+    case 'homeowner':
+      return 760;
+    case 'technician':
+      return 560;
+    case 'office':
+    case 'owner':
+      return 1200;
+    default:
+      return 0;
   }
 }

@@ -1,11 +1,11 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { DatePipe } from '@angular/common';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatSelectModule } from '@angular/material/select';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatTableModule } from '@angular/material/table';
 import { AuditApi } from './audit-api';
+import { DateTimePipe } from '../../ui/dates';
 
 const ACTION_WORDS: Record<string, string> = {
   sign_in: 'Signed in',
@@ -28,7 +28,7 @@ const ACTION_WORDS: Record<string, string> = {
 @Component({
   selector: 'sw-audit-log',
   host: { class: 'sw-dense' },
-  imports: [DatePipe, MatPaginatorModule, MatSelectModule, MatFormFieldModule, MatTableModule],
+  imports: [DateTimePipe, MatPaginatorModule, MatSelectModule, MatFormFieldModule, MatTableModule],
   template: `
     <section class="sw-page">
       <h1>Sign-in and access log</h1><p class="sw-lead">Who signed in, who failed, and every invitation and role change, newest first.</p>
@@ -44,10 +44,12 @@ const ACTION_WORDS: Record<string, string> = {
       @if (page.error()) {
         <p role="alert">The log could not be loaded. Please try again.</p>
       }
+      <!-- A page's worth of rows is reserved before they arrive, so the paginator does not jump. -->
+      <div class="table-wrap" [style.--sw-page-rows]="pageSize()">
       <table mat-table [dataSource]="items()" aria-label="Audit events">
         <ng-container matColumnDef="at">
           <th mat-header-cell *matHeaderCellDef>When</th>
-          <td mat-cell *matCellDef="let e">{{ e.at | date: 'medium' }}</td>
+          <td mat-cell *matCellDef="let e">{{ e.at | swDateTime }}</td>
         </ng-container>
         <ng-container matColumnDef="action">
           <th mat-header-cell *matHeaderCellDef>What</th>
@@ -68,10 +70,17 @@ const ACTION_WORDS: Record<string, string> = {
         <tr mat-header-row *matHeaderRowDef="columns"></tr>
         <tr mat-row *matRowDef="let row; columns: columns"></tr>
       </table>
+      </div>
       <mat-paginator [length]="total()" [pageIndex]="pageIndex()" [pageSize]="pageSize()" [pageSizeOptions]="[25, 50, 100]" (page)="turn($event)" aria-label="Pages of the log" />
     </section>
   `,
-  styles: `table { width: 100%; }`,
+  styles: `
+    table { width: 100%; }
+    .table-wrap {
+      overflow-x: auto;
+      min-height: calc(var(--mat-table-header-container-height, 56px) + var(--sw-page-rows, 25) * var(--mat-table-row-item-container-height, 52px));
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AuditLog {

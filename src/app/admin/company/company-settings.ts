@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -28,7 +28,10 @@ const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 
 type DayKey = (typeof DAYS)[number]['key'];
 type DayGroup = FormGroup<{ closed: FormControl<boolean>; open: FormControl<string>; close: FormControl<string> }>;
 
-/** The owner's page for the company's details, hours and booking rules. */
+/**
+ * The owner's pages for the company's details (`section` "company") and for its hours and booking
+ * rules ("hours"). Both edit the one settings record, so each saves the whole of it.
+ */
 @Component({
   selector: 'sw-company-settings',
   imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule],
@@ -42,6 +45,8 @@ export class CompanySettingsPage {
   private readonly snack = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
+  /** Which of the two pages this is, from the route's data. */
+  readonly section = input<'company' | 'hours'>('company');
   protected readonly days = DAYS;
   protected readonly months = MONTHS;
   protected readonly saving = signal(false);

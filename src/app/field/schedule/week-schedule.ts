@@ -12,6 +12,7 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { ScheduleApi } from './schedule-api';
 import { firstValueFrom } from 'rxjs';
+import { dayLabel } from '../../ui/dates';
 
 /** The technician's week, day by day, and the private calendar link for their phone. */
 @Component({
@@ -37,7 +38,7 @@ export class WeekSchedule {
     return Array.from({ length: 7 }, (_, i) => {
       const d = DateTime.fromISO(w.start, { zone: w.timeZone }).plus({ days: i });
       const iso = d.toISODate()!;
-      return { iso, label: d.toFormat('cccc d LLL'), visits: w.visits.filter((v) => v.startsAt.slice(0, 10) === iso) };
+      return { iso, label: dayLabel(iso, w.timeZone, { weekday: true }), visits: w.visits.filter((v) => v.startsAt.slice(0, 10) === iso) };
     });
   });
 

@@ -5,6 +5,8 @@ import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { errorMessage } from '../../core/resource-state';
 import { FieldApi } from '../field-api';
+import { dayLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 /** The technician's visits today, in time order, one big tap target each. */
 @Component({
@@ -16,6 +18,7 @@ import { FieldApi } from '../field-api';
 })
 export class TodayVisits {
   private readonly api = inject(FieldApi);
+  private readonly session = inject(Session);
   private readonly today = rxResource({ stream: () => this.api.today() });
   protected readonly visits = computed(() => (this.today.hasValue() ? this.today.value().visits : []));
   protected readonly date = computed(() => (this.today.hasValue() ? this.today.value().date : null));
@@ -23,7 +26,7 @@ export class TodayVisits {
   protected readonly error = errorMessage(this.today);
   protected readonly heading = computed(() => {
     const d = this.date();
-    return d ? new Date(`${d}T12:00:00`).toLocaleDateString('en-US', { weekday: 'long', month: 'long', day: 'numeric' }) : '';
+    return d ? dayLabel(d, this.session.timeZone(), { weekday: true }) : '';
   });
 
   /** The first visit still to go to: where the day starts. */

@@ -39,6 +39,8 @@ import {
   type ReadingGroup,
 } from './reading-fields';
 import { firstValueFrom } from 'rxjs';
+import { timeLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 type Mode = 'cooling' | 'heating';
 interface Draft {
@@ -64,6 +66,7 @@ const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'geothermal_heat_pump',
 })
 export class ReadingsForm {
   private readonly api = inject(FieldApi);
+  private readonly session = inject(Session);
   private readonly drafts = inject(VisitDrafts);
 
   readonly visitId = input.required<string>();
@@ -301,7 +304,7 @@ export class ReadingsForm {
     const s = this.state();
     switch (s.kind) {
       case 'saved':
-        return { icon: 'check', text: `Saved ${new Date(s.at).toLocaleTimeString('en-US', { hour: 'numeric', minute: '2-digit' })}; checked again by the office system.`, bad: false };
+        return { icon: 'check', text: `Saved ${timeLabel(s.at, this.session.timeZone())}; checked again by the office system.`, bad: false };
       case 'kept':
         return { icon: 'warning', text: s.message, bad: false };
       case 'error':

@@ -27,6 +27,8 @@ export class VisitChecklist {
   readonly visit = input.required<FieldVisit>();
   readonly locked = input(false);
   readonly seasonChange = output<'cooling' | 'heating'>();
+  /** The checklist as the server holds it after each save. */
+  readonly saved = output<ChecklistSection[]>();
 
   protected readonly results = CHECKLIST_RESULTS;
   protected readonly resultLabels = CHECKLIST_RESULT_LABELS;
@@ -75,6 +77,7 @@ export class VisitChecklist {
     void this.saves.run(id, `checklist.${season}`, async () => {
       const res = await firstValueFrom(this.api.saveChecklist(id, { season, items }));
       this.checklist.set(res.checklist);
+      this.saved.emit(res.checklist);
     }, 'Checklist saved.');
   }
 }

@@ -4,8 +4,11 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
+import { MatDialog } from '@angular/material/dialog';
 import { firstValueFrom } from 'rxjs';
-import type { CompletedVisit, FieldVisit } from '../../../../shared/schemas/field';
+import { unfinishedItems, type CompletionAnswers } from '../../../../shared/visit-completion';
+import { CompleteVisitDialog, type CompleteVisitData } from './complete-visit-dialog';
+import type { ChecklistSection, CompletedVisit, FieldVisit } from '../../../../shared/schemas/field';
 import { FieldApi } from '../field-api';
 import { VisitDrafts } from '../visit-drafts';
 import { VisitSaves, textError } from './visit-save';
@@ -21,10 +24,13 @@ import { VisitSaves, textError } from './visit-save';
 export class VisitNotes {
   private readonly api = inject(FieldApi);
   private readonly drafts = inject(VisitDrafts);
+  private readonly dialog = inject(MatDialog);
 
   /** The visit as last loaded from the server. */
   readonly visit = input.required<FieldVisit>();
   readonly locked = input(false);
+  /** The checklist as last saved; defaults to the loaded one. */
+  readonly checklist = input<ChecklistSection[] | null>(null);
   /** The visit's status word now, which may have moved on since it was loaded. */
   readonly statusLabel = input('');
   readonly completed = output<CompletedVisit>();
@@ -58,13 +64,18 @@ export class VisitNotes {
     void this.saves.run(id, 'notes', () => firstValueFrom(this.api.saveNotes(id, this.form.getRawValue())), 'Findings saved.', this.form);
   }
 
-  protected complete(): void {
-    const id = this.visit().visit.id;
+  /** Asks first: what on the checklist is open and why, and the homeowner's signature for a repair. */
+  protected async complete(): Promise<void> {
+    const p = this.visit();
+    const id = p.visit.id;
+    const data: CompleteVisitData = { unfinished: p.visit.reason === 'tune_up' ? unfinishedItems(this.checklist() ?? p.checklist) : [], householdName: p.customer.name };
+    const answers = await firstValueFrom(this.dialog.open<CompleteVisitDialog, CompleteVisitData, CompletionAnswers>(CompleteVisitDialog, { data, maxWidth: '640px', width: '100%', disableClose: true }).afterClosed());
+    if (!answers) return;
     void this.saves.run(
       id,
       'notes',
       async () => {
-        const res = await firstValueFrom(this.api.complete(id, this.form.getRawValue()));
+        const res = await firstValueFrom(this.api.complete(id, { ...this.form.getRawValue(), ...answers }));
         // Nothing typed on this phone is waiting any more: the visit is closed.
         for (const part of this.drafts.pending(id)) this.drafts.clear(id, part);
         this.completed.emit(res);

@@ -21,11 +21,13 @@ import { VisitNotes } from './visit-notes';
 import { VisitPhotos } from './visit-photos';
 import { VisitSaves } from './visit-save';
 import { VisitTroubleshooting } from './visit-troubleshooting';
+import { PhoneLink } from '../../ui/phone-link';
+import { DayPipe } from '../../ui/dates';
 
 /** One visit on site: header, coverage, checklist or troubleshooting, readings, findings, completion. */
 @Component({
   selector: 'sw-visit-page',
-  imports: [RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting, QuoteBuilder, WorkInvoice],
+  imports: [DayPipe, PhoneLink, RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting, QuoteBuilder, WorkInvoice],
   templateUrl: './visit-page.html',
   styleUrl: './visit-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -61,6 +63,8 @@ export class VisitPage {
   });
   /** The loaded visit with what was done since: status moves, photos, readings. */
   protected readonly page = linkedSignal(() => this.loaded());
+  /** The checklist as last saved, which the completion check lists open items from. */
+  protected readonly checklistNow = linkedSignal(() => this.loaded()?.checklist ?? []);
   protected readonly loadError = computed(() => {
     const e = this.visit.error();
     return e ? toApiError(e).message : null;

@@ -11,6 +11,7 @@ import { VisitNotes } from './visit-notes';
 
 const visit = {
   visit: { id: 'v1', kind: 'tune_up', status: 'on_site', statusLabel: 'On site', findings: '', recommendations: '' },
+  customer: { id: 'c1', name: 'Whitfield household', phone: null },
   equipment: [],
   cautions: [],
   season: 'cooling',
@@ -64,7 +65,17 @@ describe('VisitChecklist', () => {
   });
 });
 
-describe('VisitNotes', () => {
+/** Answers the completion dialog (nothing skipped, no repair) and waits for the request it sends. */
+async function confirmCompletion(fixture: { whenStable(): Promise<unknown> }) {
+  await fixture.whenStable();
+  const dialog = document.querySelector('mat-dialog-container')!;
+  expect(dialog.textContent).toContain('Complete this visit?');
+  [...dialog.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.trim() === 'Complete visit')!.click();
+  await new Promise((r) => setTimeout(r, 300));
+  await fixture.whenStable();
+}
+
+describe('VisitNotes', { timeout: 60_000 }, () => {
   it('shows the server field message under Findings and completes once it is fixed', async () => {
     const { fixture, http, el } = setUp(VisitNotes);
     const completed: unknown[] = [];
@@ -72,9 +83,12 @@ describe('VisitNotes', () => {
     await fixture.whenStable();
 
     button(el, 'Complete visit').click();
+    await confirmCompletion(fixture);
     http
       .expectOne('/api/field/visits/v1/complete')
       .flush({ error: { code: 'invalid', message: 'Please check the findings.', fields: { findings: 'Findings are needed to complete the visit' } } }, { status: 400, statusText: 'Bad Request' });
+    // The save runs after the dialog's answer: let its promise settle before reading the page.
+    await new Promise((r) => setTimeout(r, 100));
     await fixture.whenStable();
     expect(el.querySelector('mat-error')?.textContent).toContain('Findings are needed to complete the visit');
     expect(completed).toEqual([]);
@@ -83,9 +97,11 @@ describe('VisitNotes', () => {
     findings.value = 'Cleaned the drain.';
     findings.dispatchEvent(new Event('input'));
     button(el, 'Complete visit').click();
+    await confirmCompletion(fixture);
     const req = http.expectOne('/api/field/visits/v1/complete');
-    expect(req.request.body).toEqual({ findings: 'Cleaned the drain.', recommendations: '' });
+    expect(req.request.body).toEqual({ findings: 'Cleaned the drain.', recommendations: '', skippedReason: '', repairDone: false });
     req.flush({ id: 'v1', status: 'done', completedAt: '2026-07-14T15:00:00Z', summaryEmailed: true });
+    await new Promise((r) => setTimeout(r, 100));
     await fixture.whenStable();
     expect(completed).toHaveLength(1);
     expect(el.textContent).toContain('Visit completed. The homeowner has been sent a summary.');

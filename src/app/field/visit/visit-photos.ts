@@ -9,6 +9,7 @@ import type { FieldVisit } from '../../../../shared/schemas/field';
 import { FieldApi } from '../field-api';
 import { VisitDrafts } from '../visit-drafts';
 import { VisitSaves } from './visit-save';
+import { photoLinkName } from '../../ui/photo-link';
 
 /** Photos of problems found and of nameplates, taken on the phone and filed against the visit. */
 @Component({
@@ -19,6 +20,7 @@ import { VisitSaves } from './visit-save';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class VisitPhotos {
+  protected readonly photoLinkName = photoLinkName;
   private readonly api = inject(FieldApi);
 
   readonly visitId = input.required<string>();

@@ -1,5 +1,4 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal, viewChild, type AfterViewInit } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal, viewChild, type AfterViewInit } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -16,11 +15,13 @@ import { catchError, debounceTime, distinctUntilChanged, map, merge, of, startWi
 import type { CustomerSummary } from '../../../../shared/schemas/customers';
 import { toApiError } from '../../core/api-errors';
 import { CustomersApi, type ListQuery } from './customers-api';
+import { DayPipe } from '../../ui/dates';
+import { PhoneLink } from '../../ui/phone-link';
 
 /** The office's household table: server-side search as you type, sorting and paging. */
 @Component({
   selector: 'sw-customer-list',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatPaginatorModule, MatProgressBarModule, MatSortModule, MatTableModule],
+  imports: [PhoneLink, DayPipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatPaginatorModule, MatProgressBarModule, MatSortModule, MatTableModule],
   templateUrl: './customer-list.html',
   styleUrl: './customer-list.scss',
   host: { class: 'sw-dense' },
@@ -40,6 +41,8 @@ export class CustomerList implements AfterViewInit {
   protected readonly loading = signal(false);
   protected readonly error = signal<string | null>(null);
   protected readonly query = signal<ListQuery>({});
+  /** Rows the table keeps room for: a whole page, before and after the answer, so nothing below it moves. */
+  protected readonly reservedRows = computed(() => this.query().pageSize ?? 25);
 
   ngAfterViewInit(): void {
     const sort = this.sort();

@@ -1,4 +1,4 @@
-import { CurrencyPipe, DatePipe } from '@angular/common';
+import { CurrencyPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
@@ -21,6 +21,10 @@ import { EquipmentForm } from './equipment-form';
 import { applyServerErrors, serverError } from '../../core/form-errors';
 import { firstValueFrom } from 'rxjs';
 import { OfficeQuotesApi } from '../quotes/office-quotes-api';
+import { DayPipe } from '../../ui/dates';
+import { PhoneLink } from '../../ui/phone-link';
+import { pageTitle } from '../../ui/page-title';
+import { photoLinkName } from '../../ui/photo-link';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
   created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
@@ -29,19 +33,21 @@ const TIMELINE_ICON: Record<TimelineKind, string> = {
 /** One household: its people, homes, equipment, agreements, visits, invoices, notes and files. */
 @Component({
   selector: 'sw-customer-page',
-  imports: [CurrencyPipe, DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, EquipmentForm, FileUpload],
+  imports: [PhoneLink, CurrencyPipe, DayPipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, EquipmentForm, FileUpload],
   templateUrl: './customer-page.html',
   styleUrl: './customer-page.scss',
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CustomerPage {
+  protected readonly photoLinkName = photoLinkName;
   private readonly api = inject(CustomersApi);
   private readonly snack = inject(MatSnackBar);
   readonly id = input.required<string>();
 
   private readonly customer = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly c = localCopy<CustomerDetail>(this.customer);
+  protected readonly titled = pageTitle(() => this.c()?.name);
   protected readonly error = errorMessage(this.customer);
   private readonly quotesApi = inject(OfficeQuotesApi);
   private readonly savingsRead = rxResource({ params: () => this.id(), stream: ({ params }) => this.quotesApi.savings(params) });

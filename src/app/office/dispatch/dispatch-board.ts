@@ -21,6 +21,8 @@ import { urlFilters } from '../../core/url-filters';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
 import { firstValueFrom } from 'rxjs';
+import { dayLabel, shortDayLabel, timeLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
 const QUEUE = 'queue';
@@ -58,6 +60,7 @@ interface Column {
 export class DispatchBoard {
   private readonly api = inject(DispatchApi);
   private readonly snack = inject(MatSnackBar);
+  private readonly session = inject(Session);
 
   protected readonly kinds = VISIT_KINDS.map((k) => ({ id: k, label: KIND_LABELS[k] }));
   /** Skills in words: "gas_furnace" reads as "gas furnace". */
@@ -66,7 +69,7 @@ export class DispatchBoard {
   }
 
   private readonly url = urlFilters();
-  protected readonly from = signal(/^\d{4}-\d{2}-\d{2}$/.test(this.url.read('from') ?? '') ? this.url.read('from')! : DateTime.now().setZone('America/Chicago').toISODate()!);
+  protected readonly from = signal(/^\d{4}-\d{2}-\d{2}$/.test(this.url.read('from') ?? '') ? this.url.read('from')! : DateTime.now().setZone(this.session.timeZone()).toISODate()!);
   protected readonly days = signal<1 | 7>(this.url.read('days') === '7' ? 7 : 1);
   protected readonly technicianId = signal<string>('');
   protected readonly kind = signal<VisitKind | ''>('');
@@ -90,8 +93,8 @@ export class DispatchBoard {
 
   protected readonly title = computed(() => {
     const start = DateTime.fromISO(this.from());
-    if (this.days() === 1) return start.toFormat('cccc d LLLL yyyy');
-    return `Week of ${start.startOf('week').toFormat('d LLLL yyyy')}`;
+    if (this.days() === 1) return dayLabel(start.toISODate()!, this.session.timeZone(), { weekday: true });
+    return `Week of ${dayLabel(start.startOf('week').toISODate()!, this.session.timeZone())}`;
   });
 
   protected readonly columns = computed<Column[]>(() => {
@@ -107,7 +110,7 @@ export class DispatchBoard {
         const end = day.endOf('day').toMillis();
         return {
           date: iso,
-          label: day.toFormat('ccc d LLL'),
+          label: shortDayLabel(iso, d.timeZone),
           visits: d.visits.filter((v) => v.technicianId === t.id && v.windowStart.slice(0, 10) === iso),
           off: t.timeOff.some((o) => Date.parse(o.startsAt) < end && Date.parse(o.endsAt) > start),
         };
@@ -125,7 +128,7 @@ export class DispatchBoard {
   }
 
   protected today(): void {
-    this.from.set(DateTime.now().setZone('America/Chicago').toISODate()!);
+    this.from.set(DateTime.now().setZone(this.session.timeZone()).toISODate()!);
   }
 
   protected pickDate(value: string): void {
@@ -142,7 +145,7 @@ export class DispatchBoard {
   }
 
   protected time(iso: string): string {
-    return DateTime.fromISO(iso, { setZone: true }).toFormat('h:mm a');
+    return timeLabel(iso, this.data()?.timeZone ?? this.session.timeZone());
   }
 
   protected nextStatuses(v: VisitView): VisitStatus[] {

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -15,11 +14,13 @@ import { applyFieldErrors, applyServerErrors, serverError } from '../../core/for
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
+import { DateTimePipe } from '../../ui/dates';
+import { pageTitle } from '../../ui/page-title';
 
 /** One invoice for the office: record a check or cash payment, refund all or part, void. */
 @Component({
   selector: 'sw-office-invoice',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSnackBarModule, InvoiceStatusBadge],
+  imports: [DateTimePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSnackBarModule, InvoiceStatusBadge],
   templateUrl: './office-invoice.html',
   styles: `:host { display: block; padding: 16px; max-width: 900px; } form { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; margin: 12px 0; } table { border-collapse: collapse; width: 100%; } td, th { padding: 4px; border-bottom: 1px solid var(--mat-sys-outline-variant); text-align: left; } .num { text-align: right; } .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); }`,
   host: { class: 'sw-dense' },
@@ -33,6 +34,7 @@ export class OfficeInvoice {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
+  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number ?? '(draft)'} · ${i.customerName}` : null; });
   protected readonly loadError = errorMessage(this.read);
   protected readonly busy = signal(false);
   protected readonly serverError = serverError;

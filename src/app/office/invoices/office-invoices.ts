@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
@@ -14,11 +13,12 @@ import { INVOICE_STATUSES, INVOICE_STATUS_LABELS, type InvoiceStatus, type Invoi
 import { urlFilters } from '../../core/url-filters';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
 import { OfficeInvoicesApi } from './office-invoices-api';
+import { DayPipe } from '../../ui/dates';
 
 /** Every invoice, searchable by household or number, filtered by status, paged on the server. */
 @Component({
   selector: 'sw-office-invoices',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatPaginatorModule, MatSelectModule, MatTableModule, InvoiceStatusBadge],
+  imports: [DayPipe, ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatPaginatorModule, MatSelectModule, MatTableModule, InvoiceStatusBadge],
   template: `
     <h1>Invoices</h1>
     <p class="sw-lead">Every invoice: find one by household or number, or filter by status.</p>
@@ -39,7 +39,7 @@ import { OfficeInvoicesApi } from './office-invoices-api';
       <ng-container matColumnDef="number"><th mat-header-cell *matHeaderCellDef>Number</th><td mat-cell *matCellDef="let r"><a [routerLink]="['/office/invoices', r.id]">{{ r.number ?? 'Draft' }}</a></td></ng-container>
       <ng-container matColumnDef="customer"><th mat-header-cell *matHeaderCellDef>Household</th><td mat-cell *matCellDef="let r">{{ r.customerName }}</td></ng-container>
       <ng-container matColumnDef="status"><th mat-header-cell *matHeaderCellDef>Status</th><td mat-cell *matCellDef="let r"><sw-invoice-status [status]="r.status" /></td></ng-container>
-      <ng-container matColumnDef="issued"><th mat-header-cell *matHeaderCellDef>Issued</th><td mat-cell *matCellDef="let r">{{ r.issuedAt | date: 'mediumDate' }}</td></ng-container>
+      <ng-container matColumnDef="issued"><th mat-header-cell *matHeaderCellDef>Issued</th><td mat-cell *matCellDef="let r">{{ r.issuedAt | swDay }}</td></ng-container>
       <ng-container matColumnDef="total"><th mat-header-cell *matHeaderCellDef class="num">Total</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.totalCents) }}</td></ng-container>
       <ng-container matColumnDef="balance"><th mat-header-cell *matHeaderCellDef class="num">Balance</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.balanceCents) }}</td></ng-container>
       <tr mat-header-row *matHeaderRowDef="columns"></tr>

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
@@ -21,6 +20,7 @@ import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderP
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { RemindersApi } from './reminders-api';
+import { DateTimePipe } from '../../ui/dates';
 
 const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
   cooling_tune_up: { icon: 'snowflake', text: 'Plan members whose spring cooling tune-up is not booked yet.' },
@@ -34,7 +34,7 @@ const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
 @Component({
   selector: 'sw-reminders',
   imports: [
-    DatePipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule,
+    DateTimePipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule,
     MatProgressBarModule, MatSelectModule, MatTableModule, MatTabsModule,
   ],
   templateUrl: './reminders.html',

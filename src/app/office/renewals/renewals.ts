@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -19,12 +18,14 @@ import { localCopy } from '../../core/resource-state';
 import { urlFilters } from '../../core/url-filters';
 import { AgreementStatusBadge } from '../../ui/status/agreement-status';
 import { RenewalsApi } from './renewals-api';
+import { DayPipe } from '../../ui/dates';
+import { formatTermDay, termLastDay } from '../../../../shared/agreement-terms';
 
 /** Renewals: who is due in 30/60/90 days, past due, lapsed or just renewed, with totals, CSV and notices. */
 @Component({
   selector: 'sw-renewals',
   imports: [
-    DatePipe,
+    DayPipe,
     ReactiveFormsModule,
     MatButtonModule,
     MatCheckboxModule,
@@ -43,6 +44,8 @@ import { RenewalsApi } from './renewals-api';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Renewals {
+  /** The term's last covered day, written as every screen writes it (the row holds the exclusive end). */
+  protected lastDay = (endsOn: string) => formatTermDay(termLastDay({ startsOn: endsOn, endsOn }));
   private readonly api = inject(RenewalsApi);
   private readonly snack = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);

@@ -15,11 +15,12 @@ import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { firstValueFrom } from 'rxjs';
+import { PhoneLink } from '../../ui/phone-link';
 
 /** One visit: its window and status, with reschedule and cancel until the cut-off. */
 @Component({
   selector: 'sw-visit-detail',
-  imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatRadioModule, VisitStatusMark],
+  imports: [PhoneLink, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatRadioModule, VisitStatusMark],
   templateUrl: './visit-detail.html',
   styleUrl: './visit-request.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -26,6 +26,8 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { BookingApi } from './booking-api';
 import { groupByDay } from './window-days';
 import { firstValueFrom } from 'rxjs';
+import { PhoneLink } from '../../ui/phone-link';
+import { pageTitle } from '../../ui/page-title';
 
 const REASON_ICONS: Record<VisitReason, string> = {
   no_cooling: 'snowflake',
@@ -37,10 +39,18 @@ const REASON_ICONS: Record<VisitReason, string> = {
   other: 'info',
 };
 
+type ChoiceStep = 'property' | 'reason' | 'window';
+
+const MISSING_WORDS: Record<ChoiceStep, string> = {
+  property: 'Choose the home the visit is for.',
+  reason: 'Choose what the visit is for, then press Next.',
+  window: 'Choose an arrival window, or press Later dates to see more.',
+};
+
 /** The visit request stepper: safety check first, then property, reason, details, window, review. */
 @Component({
   selector: 'sw-visit-request',
-  imports: [
+  imports: [PhoneLink, 
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,
@@ -83,8 +93,13 @@ export class VisitRequest {
   protected readonly busy = signal(false);
   protected readonly submitError = signal<string | null>(null);
   protected readonly booked = signal<VisitView | null>(null);
+  // After booking the tab says what happened, not "Request a visit".
+  protected readonly titled = pageTitle(() => { const v = this.booked(); return v ? VISIT_STATE_WORDS[v.status].heading : null; });
   protected readonly stateWords = VISIT_STATE_WORDS;
   protected readonly photos = signal<File[]>([]);
+  /** The step whose Next was pressed with nothing chosen; its message stays until a choice is made. */
+  protected readonly missing = signal<ChoiceStep | null>(null);
+  protected readonly missingWords = MISSING_WORDS;
 
   protected readonly propertyForm = this.fb.group({ propertyId: ['', Validators.required] });
   protected readonly reasonForm = this.fb.group({ reason: this.fb.control<VisitReason | ''>('', Validators.required) });
@@ -101,6 +116,8 @@ export class VisitRequest {
     return r ? SYMPTOMS[r] : [];
   });
   protected readonly days = computed(() => groupByDay(this.windows()));
+  /** True when some offered window closes inside the plan's promised response time (marked Priority). */
+  protected readonly promiseKept = computed(() => this.windows().some((w) => w.meetsPriorityPromise));
   protected readonly chosenProperty = computed(() => this.options()?.properties.find((p) => p.id === this.propertyId()) ?? null);
   private readonly windowStart = signal('');
   protected readonly chosenWindow = computed(() => this.windows().find((w) => w.start === this.windowStart()) ?? null);
@@ -125,12 +142,25 @@ export class VisitRequest {
       const reason = reasonForKind(this.kind());
       if (reason) untracked(() => this.reasonForm.controls.reason.setValue(reason));
     });
-    this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => this.propertyId.set(v));
-    this.windowForm.controls.windowStart.valueChanges.subscribe((v) => this.windowStart.set(v));
+    this.propertyForm.controls.propertyId.valueChanges.subscribe((v) => {
+      this.propertyId.set(v);
+      if (v && this.missing() === 'property') this.missing.set(null);
+    });
+    this.windowForm.controls.windowStart.valueChanges.subscribe((v) => {
+      this.windowStart.set(v);
+      if (v && this.missing() === 'window') this.missing.set(null);
+    });
     this.reasonForm.controls.reason.valueChanges.subscribe((v) => {
       this.reason.set(v);
+      if (v && this.missing() === 'reason') this.missing.set(null);
       this.detailsForm.controls.symptoms.setValue([]);
     });
+  }
+
+  protected checkChosen(step: ChoiceStep): void {
+    const form = { property: this.propertyForm, reason: this.reasonForm, window: this.windowForm }[step];
+    form.markAllAsTouched();
+    this.missing.set(form.valid ? null : step);
   }
 
   protected answerEmergency(answer: 'yes' | 'no', stepper: MatStepper): void {

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
@@ -16,17 +15,21 @@ import { FileUpload } from '../../ui/upload/file-upload';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { MyHomeApi } from './my-home-api';
 import { firstValueFrom } from 'rxjs';
+import { DayPipe } from '../../ui/dates';
+import { PhoneLink } from '../../ui/phone-link';
+import { photoLinkName } from '../../ui/photo-link';
 
 
 /** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
 @Component({
   selector: 'sw-my-home',
-  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, FileUpload, ReadingsChart],
+  imports: [PhoneLink, DayPipe, ReactiveFormsModule, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, FileUpload, ReadingsChart],
   templateUrl: './my-home.html',
   styleUrl: './my-home.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyHome {
+  protected readonly photoLinkName = photoLinkName;
   private readonly api = inject(MyHomeApi);
   private readonly snack = inject(MatSnackBar);
   private readonly read = rxResource({ stream: () => this.api.load() });

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -11,11 +10,13 @@ import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
+import { DayPipe } from '../../ui/dates';
+import { pageTitle } from '../../ui/page-title';
 
 /** One invoice: its lines, tax, payments, the PDF, and paying the balance by card. */
 @Component({
   selector: 'sw-invoice-detail',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, InvoiceStatusBadge],
+  imports: [DayPipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, InvoiceStatusBadge],
   templateUrl: './invoice-detail.html',
   styleUrl: './invoice-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -28,6 +29,7 @@ export class InvoiceDetail {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
+  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number}` : null; });
   private readonly loadError = errorMessage(this.read);
   private readonly actionError = signal<string | null>(null);
   protected readonly error = computed(() => this.actionError() ?? this.loadError());

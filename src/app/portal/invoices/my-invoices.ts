@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatListModule } from '@angular/material/list';
@@ -8,12 +7,13 @@ import { formatUsd } from '../../../../shared/money';
 import { errorMessage } from '../../core/resource-state';
 import { InvoicesApi } from './invoices-api';
 import { InvoiceStatusBadge } from '../../ui/status/invoice-status';
+import { DayPipe } from '../../ui/dates';
 
 const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_change: 'Plan change', service: 'Service' } as const;
 
 @Component({
   selector: 'sw-my-invoices',
-  imports: [DatePipe, RouterLink, MatListModule, MatProgressBarModule, InvoiceStatusBadge],
+  imports: [DayPipe, RouterLink, MatListModule, MatProgressBarModule, InvoiceStatusBadge],
   template: `
     <h1>Invoices</h1><p class="sw-lead">Your invoices: open ones to pay and paid ones for your records.</p>
     @if (loading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading invoices" /> }
@@ -23,7 +23,7 @@ const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_c
       @for (r of rows(); track r.id) {
         <a mat-list-item [routerLink]="['/portal/invoices', r.id]">
           <span matListItemTitle>Invoice {{ r.number }} · {{ purpose[r.purpose] }} · {{ usd(r.totalCents) }}</span>
-          <span matListItemLine><sw-invoice-status [status]="r.status" /> · {{ r.issuedAt | date: 'mediumDate' }}@if (r.balanceCents) { · {{ usd(r.balanceCents) }} due }</span>
+          <span matListItemLine><sw-invoice-status [status]="r.status" /> · {{ r.issuedAt | swDay }}@if (r.balanceCents) { · {{ usd(r.balanceCents) }} due }</span>
         </a>
       }
     </mat-nav-list>

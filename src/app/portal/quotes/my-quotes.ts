@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatListModule } from '@angular/material/list';
@@ -10,9 +9,11 @@ import { errorMessage } from '../../core/resource-state';
 import { PortalQuotesApi } from './portal-quotes-api';
 
 /** The household's quotes: those waiting for an answer first, then the decided ones. */
+import { DayPipe } from '../../ui/dates';
+
 @Component({
   selector: 'sw-my-quotes',
-  imports: [DatePipe, RouterLink, MatListModule, MatProgressBarModule],
+  imports: [DayPipe, RouterLink, MatListModule, MatProgressBarModule],
   template: `
     <h1>Quotes</h1>
     @if (read.isLoading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" /> }
@@ -24,7 +25,7 @@ import { PortalQuotesApi } from './portal-quotes-api';
         @for (q of waiting(); track q.id) {
           <a mat-list-item [routerLink]="['/portal/quotes', q.id]">
             <span matListItemTitle>Quote {{ q.number ?? '' }} · up to {{ usd(q.totalCents) }}</span>
-            <span matListItemLine>Sent {{ q.createdAt | date: 'mediumDate' }}</span>
+            <span matListItemLine>Sent {{ q.createdAt | swDay }}</span>
           </a>
         }
       </mat-nav-list>
@@ -34,7 +35,7 @@ import { PortalQuotesApi } from './portal-quotes-api';
           @for (q of decided(); track q.id) {
             <a mat-list-item [routerLink]="['/portal/quotes', q.id]">
               <span matListItemTitle>Quote {{ q.number ?? '' }} · {{ labels[q.status] }}</span>
-              <span matListItemLine>{{ q.createdAt | date: 'mediumDate' }}</span>
+              <span matListItemLine>{{ q.createdAt | swDay }}</span>
             </a>
           }
         </mat-nav-list>

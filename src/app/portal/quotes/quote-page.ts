@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -15,9 +14,11 @@ import { QuoteOptionTable } from '../../ui/quote-option-table';
 import { PortalQuotesApi } from './portal-quotes-api';
 
 /** A quote from the e-mailed link: each option with the plan's coverage line by line, approve one or decline. */
+import { DateTimePipe, DayPipe } from '../../ui/dates';
+
 @Component({
   selector: 'sw-quote-page',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, QuoteApproval, QuoteOptionTable],
+  imports: [DayPipe, DateTimePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, QuoteApproval, QuoteOptionTable],
   templateUrl: './quote-page.html',
   styles: `
     :host { display: block; max-width: 760px; margin: 0 auto; padding: 16px; }

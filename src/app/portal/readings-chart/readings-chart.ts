@@ -8,6 +8,8 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
+import { dayLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 const POINT_STYLE: Record<ReadingStatus, PointStyle> = { ok: 'circle', watch: 'triangle', alert: 'rectRot' };
 const POINT_TOKEN: Record<ReadingStatus, string> = { ok: '--sw-ok', watch: '--sw-watch', alert: '--sw-alert' };
@@ -24,7 +26,6 @@ function translucent(hex: string, alpha: number): string {
 }
 const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth watching', alert: 'out of range' };
 
-const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 'short', day: 'numeric', year: 'numeric' });
 
 /** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
 @Component({
@@ -38,6 +39,8 @@ const day = (iso: string) => new Date(iso).toLocaleDateString('en-US', { month: 
 })
 export class ReadingsChart {
   private readonly api = inject(ReadingsApi);
+  private readonly session = inject(Session);
+  protected readonly day = (iso: string) => dayLabel(iso, this.session.timeZone());
   readonly propertyId = input.required<string>();
 
   private readonly read = rxResource({ params: () => this.propertyId(), stream: ({ params }) => this.api.property(params) });
@@ -45,7 +48,6 @@ export class ReadingsChart {
   protected readonly error = errorMessage(this.read);
   /** Chosen check per system. */
   protected readonly chosen = signal<Record<string, string>>({});
-  protected readonly day = day;
 
   protected readonly systems = computed(() => (this.data()?.systems ?? []).filter((s) => s.series.length > 0));
 
@@ -67,7 +69,7 @@ export class ReadingsChart {
 
   protected summary(series: ReadingSeries): string {
     const last = series.points[series.points.length - 1]!;
-    return `${series.label} over ${series.points.length} visit${series.points.length === 1 ? '' : 's'}; latest ${last.value} ${series.unit} on ${day(last.recordedAt)}, ${WORDS[last.status]}${last.expected.min !== undefined && last.expected.max !== undefined ? ` (normal ${last.expected.min}–${last.expected.max} ${series.unit})` : ''}.`;
+    return `${series.label} over ${series.points.length} visit${series.points.length === 1 ? '' : 's'}; latest ${last.value} ${series.unit} on ${this.day(last.recordedAt)}, ${WORDS[last.status]}${last.expected.min !== undefined && last.expected.max !== undefined ? ` (normal ${last.expected.min}–${last.expected.max} ${series.unit})` : ''}.`;
   }
 
   // One config object per series, cached so change detection does not rebuild the chart.
@@ -85,7 +87,7 @@ export class ReadingsChart {
       config: {
         type: 'line',
         data: {
-          labels: series.points.map((p) => day(p.recordedAt)),
+          labels: series.points.map((p) => this.day(p.recordedAt)),
           datasets: [
             {
               label: `${series.label} (${series.unit})`,

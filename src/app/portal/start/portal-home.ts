@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -21,9 +20,11 @@ interface SystemLine {
 }
 
 /** The homeowner's first screen: the plan, the next visit, what is owed and each system, each linking on. */
+import { DayPipe } from '../../ui/dates';
+
 @Component({
   selector: 'sw-portal-home',
-  imports: [DatePipe, DueList, MatButtonModule, MatCardModule, MatIconModule, RouterLink],
+  imports: [DayPipe, DueList, MatButtonModule, MatCardModule, MatIconModule, RouterLink],
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

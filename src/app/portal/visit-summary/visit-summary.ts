@@ -7,6 +7,8 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { ReadingsApi } from '../readings-chart/readings-api';
 import { ReadingsChart } from '../readings-chart/readings-chart';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
+import { dayLabel } from '../../ui/dates';
+import { Session } from '../../core/session';
 
 /** A completed visit in plain words, with the home's readings over time. */
 @Component({
@@ -18,6 +20,7 @@ import { ReadingStatusMark } from '../../ui/status/reading-status';
 })
 export class VisitSummary {
   private readonly api = inject(ReadingsApi);
+  private readonly session = inject(Session);
   /** Route parameter. */
   readonly id = input.required<string>();
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.visitSummary(params) });
@@ -25,6 +28,6 @@ export class VisitSummary {
   protected readonly error = errorMessage(this.read, (e) => (e.status === 404 ? 'We could not find a finished visit with that link.' : e.message));
 
   protected longDay(iso: string): string {
-    return new Date(`${iso}T12:00:00`).toLocaleDateString('en-US', { weekday: 'long', month: 'long', day: 'numeric', year: 'numeric' });
+    return dayLabel(iso, this.session.timeZone(), { weekday: true });
   }
 }
