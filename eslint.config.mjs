@@ -8,8 +8,23 @@ import seasonwell from './scripts/lint/plugin.mjs';
 // Node's globals for the plain .mjs scripts (TypeScript files get theirs from the compiler).
 const nodeGlobals = Object.fromEntries(
   [
-    'process', 'console', 'Buffer', 'URL', 'URLSearchParams', 'fetch', 'AbortController', 'AbortSignal', 'TextEncoder',
-    'TextDecoder', 'setTimeout', 'clearTimeout', 'setInterval', 'clearInterval', 'setImmediate', 'queueMicrotask', 'structuredClone',
+    'process',
+    'console',
+    'Buffer',
+    'URL',
+    'URLSearchParams',
+    'fetch',
+    'AbortController',
+    'AbortSignal',
+    'TextEncoder',
+    'TextDecoder',
+    'setTimeout',
+    'clearTimeout',
+    'setInterval',
+    'clearInterval',
+    'setImmediate',
+    'queueMicrotask',
+    'structuredClone',
   ].map((name) => [name, 'readonly']),
 );
 
@@ -20,10 +35,7 @@ const tsRules = {
 
 export default defineConfig(
   {
-    ignores: [
-      'dist/', 'node_modules/', '.data/', '.angular/', 'out-tsc/', 'coverage/', 'test-results/', 'playwright-report/', '.test-runs/',
-      'bench/results/', 'migrations/',
-    ],
+    ignores: ['dist/', 'node_modules/', '.data/', '.angular/', 'out-tsc/', 'coverage/', 'test-results/', 'playwright-report/', '.test-runs/', 'bench/results/', 'migrations/'],
   },
   {
     files: ['**/*.mjs', '**/*.js'],

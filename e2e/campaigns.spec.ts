@@ -88,7 +88,12 @@ test('the office sends a seasonal tune-up campaign; one homeowner books from it,
   const full = (await (await fetch(`${MAILBOX_URL}/api/messages/${leaver.id}`)).json()) as { headers: Record<string, string> };
   const target = /<(https?:[^>]+)>/.exec(full.headers['list-unsubscribe'] ?? '')?.[1];
   expect(target).toBeTruthy();
-  const unsubscribed = await fetch(target!, { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'List-Unsubscribe=One-Click', redirect: 'manual' });
+  const unsubscribed = await fetch(target!, {
+    method: 'POST',
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: 'List-Unsubscribe=One-Click',
+    redirect: 'manual',
+  });
   expect(unsubscribed.status).toBe(200);
 
   // The next campaign counts them as unsubscribed and sends them nothing.

@@ -39,7 +39,9 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
 
   // A photo of what was found, filed against the visit.
-  const photo = await sharp({ create: { width: 80, height: 60, channels: 3, background: { r: 90, g: 110, b: 70 } } }).png().toBuffer();
+  const photo = await sharp({ create: { width: 80, height: 60, channels: 3, background: { r: 90, g: 110, b: 70 } } })
+    .png()
+    .toBuffer();
   await page.getByLabel('Caption').fill('Weak run capacitor');
   await page.getByLabel('Take or add photos').setInputFiles({ name: 'capacitor.png', mimeType: 'image/png', buffer: photo });
   await expect(page.getByText('1 photo added.')).toBeVisible();

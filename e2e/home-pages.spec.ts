@@ -52,7 +52,12 @@ test('the office home counts match the API and each opens its filtered table', a
   await page.setViewportSize({ width: 1280, height: 900 });
   await signInStaff(page, DEMO.office);
   await expect(page).toHaveURL(/\/office$/);
-  const home = (await (await page.request.get('/api/office-home')).json()) as { unassigned: number; renewalsDue30: { count: number }; pastDue: { count: number }; visitsToday: Record<string, number> };
+  const home = (await (await page.request.get('/api/office-home')).json()) as {
+    unassigned: number;
+    renewalsDue30: { count: number };
+    pastDue: { count: number };
+    visitsToday: Record<string, number>;
+  };
   const count = (title: string) => page.getByLabel(`${title}: `, { exact: false }).first();
   const today = Object.values(home.visitsToday).reduce((s, n) => s + n, 0);
   await expect(count("Today's visits")).toHaveText(String(today));

@@ -62,7 +62,7 @@ async function expectOneRow(page: Page) {
   expect.soft(rows.height).toBeLessThan(rows.tallest * 2);
 }
 
-test('the homeowner\'s header is one row at 390 px with a labelled menu; My home and a visit summary hold still', async ({ browser }) => {
+test("the homeowner's header is one row at 390 px with a labelled menu; My home and a visit summary hold still", async ({ browser }) => {
   mkdirSync(SHOTS, { recursive: true });
   const page = await homeowner(browser, DEMO.homeownerA);
   await expectOneRow(page);
@@ -86,7 +86,7 @@ test('the homeowner\'s header is one row at 390 px with a labelled menu; My home
   expect.soft(summary.cls, `visit summary layout shifts: ${JSON.stringify(summary.shifts)}`).toBeLessThan(CLS_GOOD);
 });
 
-test('the technician\'s header is one row at 390 px with a labelled menu', async ({ browser }) => {
+test("the technician's header is one row at 390 px with a labelled menu", async ({ browser }) => {
   mkdirSync(SHOTS, { recursive: true });
   const page = await staff(browser, DEMO.technician, PHONE);
   await expectOneRow(page);
@@ -95,7 +95,7 @@ test('the technician\'s header is one row at 390 px with a labelled menu', async
   for (const name of ['Today', 'My week']) await expect(page.getByRole('menuitem', { name })).toBeVisible();
 });
 
-test('the owner\'s header is one row at 1366 px; the households table and the access log hold still', async ({ browser }) => {
+test("the owner's header is one row at 1366 px; the households table and the access log hold still", async ({ browser }) => {
   const page = await staff(browser, DEMO.owner, DESK);
   await expectOneRow(page);
 

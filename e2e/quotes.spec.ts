@@ -71,7 +71,7 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   await page.getByLabel('Add to').click();
   await page.getByRole('option', { name: 'Replace the motor and the capacitor' }).click();
   const withCap = first.getByRole('button', { name: new RegExp(`^Add ${motorName} with `) }).first();
-  const capName = ((await withCap.getAttribute('aria-label'))!).replace(`Add ${motorName} with `, '');
+  const capName = (await withCap.getAttribute('aria-label'))!.replace(`Add ${motorName} with `, '');
   await withCap.click();
   const second = page.getByRole('tabpanel', { name: 'Replace the motor and the capacitor' });
   await expect(second.getByRole('list', { name: /Lines of/ }).getByText(capName)).toBeVisible();
@@ -125,7 +125,9 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   const after = await truckCounts(page);
   expect(after.get(motorName)).toBe(before.get(motorName)! - 1);
   expect(after.get(capName)).toBe(before.get(capName)! - 1);
-  const short = (await page.getByRole('list', { name: 'Stock on your truck' }).getByRole('listitem').filter({ hasText: /short/ }).locator('strong').allTextContents()).map((t) => t.trim());
+  const short = (await page.getByRole('list', { name: 'Stock on your truck' }).getByRole('listitem').filter({ hasText: /short/ }).locator('strong').allTextContents()).map((t) =>
+    t.trim(),
+  );
 
   // The office's restock list shows what fell below its minimum on the truck.
   const office = await browser.newContext();

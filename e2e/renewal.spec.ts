@@ -72,7 +72,7 @@ test('renewing online with 4242 extends the agreement a year and e-mails the rec
   await expect(page.getByRole('link', { name: /Plan renewal/ })).toBeVisible();
 });
 
-test('after renewing early the current term stays in force: the technician sees today\'s visit covered, the office sees both terms', async ({ page, browser }) => {
+test("after renewing early the current term stays in force: the technician sees today's visit covered, the office sees both terms", async ({ page, browser }) => {
   await signInAsDana(page);
   const through = (await coveredThrough(page).textContent())!.trim();
   // The term that was in force before renewing is still shown, ending a year before the new last day.
@@ -98,7 +98,10 @@ test('after renewing early the current term stays in force: the technician sees 
   await expect(office).toHaveURL(/\/office$/);
   await office.goto('/office/customers');
   await office.getByLabel('Search households').fill('Whitfield');
-  await office.getByRole('link', { name: /Whitfield/ }).first().click();
+  await office
+    .getByRole('link', { name: /Whitfield/ })
+    .first()
+    .click();
   await expect(office).toHaveURL(/\/office\/customers\/[0-9a-f-]{36}$/);
   const terms = office.getByRole('table', { name: /Terms of the Priority Comfort agreement/ });
   await expect(terms.getByRole('row')).toHaveCount(3);

@@ -8,7 +8,11 @@ import { ROOT, ensureDependencies, freePort, run, say } from './lib/proc.mjs';
 ensureDependencies();
 const dir = join(ROOT, 'scripts', 'bench');
 const only = process.argv[2];
-const files = existsSync(dir) ? readdirSync(dir).filter((f) => f.endsWith('.ts') && (!only || f.includes(only))).sort() : [];
+const files = existsSync(dir)
+  ? readdirSync(dir)
+      .filter((f) => f.endsWith('.ts') && (!only || f.includes(only)))
+      .sort()
+  : [];
 if (!files.length) {
   say('no benchmarks found in scripts/bench');
   process.exit(0);

@@ -14,7 +14,12 @@ const BROWSER = join(DIST, 'browser');
 export const GOAL = { initial: 60 * 1024, area: 120 * 1024 };
 // Lower these as the bundle shrinks (never raise them to let a change through).
 export const CEILING = { initial: 160 * 1024, portal: 160 * 1024, office: 190 * 1024, field: 200 * 1024, admin: 140 * 1024 };
-export const AREAS = { portal: 'src/app/portal/portal.routes.ts', office: 'src/app/office/office.routes.ts', field: 'src/app/field/field.routes.ts', admin: 'src/app/admin/admin.routes.ts' };
+export const AREAS = {
+  portal: 'src/app/portal/portal.routes.ts',
+  office: 'src/app/office/office.routes.ts',
+  field: 'src/app/field/field.routes.ts',
+  admin: 'src/app/admin/admin.routes.ts',
+};
 
 const gzipCache = new Map();
 function gzipSize(file) {

@@ -90,7 +90,12 @@ const quoteIdent = (name: string) => `"${name.replace(/"/g, '""')}"`;
  */
 export async function restoreDatabase(url: string, file: string): Promise<void> {
   if (!existsSync(file)) throw new Error(`no backup file at ${file}`);
-  const prelude = ['SET client_min_messages = warning;', ...dumpSchemas(file).filter((s) => s !== 'public').map((s) => `DROP SCHEMA IF EXISTS ${quoteIdent(s)} CASCADE;`)].join('\n');
+  const prelude = [
+    'SET client_min_messages = warning;',
+    ...dumpSchemas(file)
+      .filter((s) => s !== 'public')
+      .map((s) => `DROP SCHEMA IF EXISTS ${quoteIdent(s)} CASCADE;`),
+  ].join('\n');
   await ensureDatabase(url);
   const bin = pgBin();
   const env = toolEnv(url);

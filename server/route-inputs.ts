@@ -1,13 +1,47 @@
 import { z } from 'zod';
 import type { Role } from '../shared/roles';
-import { auditQuerySchema, forgotPasswordSchema, householdInviteSchema, linkConfirmSchema, linkRequestSchema, setPasswordSchema, staffInviteSchema, staffSignInSchema, staffUpdateSchema } from '../shared/schemas/auth';
+import {
+  auditQuerySchema,
+  forgotPasswordSchema,
+  householdInviteSchema,
+  linkConfirmSchema,
+  linkRequestSchema,
+  setPasswordSchema,
+  staffInviteSchema,
+  staffSignInSchema,
+  staffUpdateSchema,
+} from '../shared/schemas/auth';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../shared/schemas/billing';
 import { assignSchema, boardQuerySchema, bookVisitSchema, cancelSchema, rescheduleSchema, statusChangeSchema, timeOffSchema, windowsQuerySchema } from '../shared/schemas/booking';
 import { createCampaignSchema, reminderPreviewQuerySchema } from '../shared/schemas/campaigns';
-import { contactInputSchema, customerCreateSchema, customerListQuerySchema, customerUpdateSchema, homeAccessSchema, homeContactSchema, homeNoteSchema, mergeSchema, noteInputSchema, propertyInputSchema, propertyUpdateSchema } from '../shared/schemas/customers';
+import {
+  contactInputSchema,
+  customerCreateSchema,
+  customerListQuerySchema,
+  customerUpdateSchema,
+  homeAccessSchema,
+  homeContactSchema,
+  homeNoteSchema,
+  mergeSchema,
+  noteInputSchema,
+  propertyInputSchema,
+  propertyUpdateSchema,
+} from '../shared/schemas/customers';
 import { equipmentInputSchema, equipmentUpdateSchema } from '../shared/schemas/equipment';
 import { completeVisitSchema, saveChecklistSchema, saveReadingsSchema, troubleshootingSchema, visitNotesSchema } from '../shared/schemas/field';
-import { autoRenewSchema, cancelAgreementSchema, changeTierSchema, createPlanSchema, enrollSchema, manualRenewalSchema, planActiveSchema, planTermsSchema, renewalQuerySchema, renewSchema, sendNoticesSchema } from '../shared/schemas/plans';
+import {
+  autoRenewSchema,
+  cancelAgreementSchema,
+  changeTierSchema,
+  createPlanSchema,
+  enrollSchema,
+  manualRenewalSchema,
+  planActiveSchema,
+  planTermsSchema,
+  renewalQuerySchema,
+  renewSchema,
+  sendNoticesSchema,
+} from '../shared/schemas/plans';
 import { companySettingsSchema } from '../shared/schemas/settings';
 import { checkoutReturnSchema, checkoutSchema } from './billing/billing.routes';
 import { customerQuery } from './booking/booking.routes';

@@ -160,10 +160,7 @@ export function coverageFor(input: {
       repairDiscountBps: 0,
       diagnosticFee: { applies: isCall, feeCents: isCall ? feeCents : 0, waived: false, chargeCents: isCall ? feeCents : 0 },
       priorityWindowHours: null,
-      notes: [
-        'No maintenance agreement for this home: regular prices apply.',
-        ...(isCall && feeCents > 0 ? [`Diagnostic fee ${money(feeCents)} applies.`] : []),
-      ],
+      notes: ['No maintenance agreement for this home: regular prices apply.', ...(isCall && feeCents > 0 ? [`Diagnostic fee ${money(feeCents)} applies.`] : [])],
     };
   }
 
@@ -200,7 +197,11 @@ export function coverageFor(input: {
 
   const notes: string[] = [];
   if (!dated) {
-    notes.push(visit.onDate < startsOn ? `The agreement starts on ${formatTermDay(startsOn)}, after this visit.` : `The agreement term ended on ${formatTermDay(termLastDay({ startsOn, endsOn }))}: regular prices apply until it is renewed.`);
+    notes.push(
+      visit.onDate < startsOn
+        ? `The agreement starts on ${formatTermDay(startsOn)}, after this visit.`
+        : `The agreement term ended on ${formatTermDay(termLastDay({ startsOn, endsOn }))}: regular prices apply until it is renewed.`,
+    );
   } else if (!covered) {
     notes.push(`Agreement is ${AGREEMENT_STATUS_LABELS[a.status].toLowerCase()}: plan benefits are on hold.`);
   }

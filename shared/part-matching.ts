@@ -145,7 +145,10 @@ function speedNeed(f: FailedMotor, c: MotorSpec): string | null {
   return `Speed taps: ${wiring}${unused.length ? `; tape off the unused ${listed(unused.map(tapWord))} lead${unused.length === 1 ? '' : 's'}` : ''}.`;
 }
 
-function matchMotor(f: FailedMotor, c: MotorSpec): { reasons: MatchPoint[]; matches: MatchPoint[]; differs: MatchPoint[]; needs: string[]; capacitor: { microfarads: number; volts: number } | null } {
+function matchMotor(
+  f: FailedMotor,
+  c: MotorSpec,
+): { reasons: MatchPoint[]; matches: MatchPoint[]; differs: MatchPoint[]; needs: string[]; capacitor: { microfarads: number; volts: number } | null } {
   const reasons: MatchPoint[] = [];
   const matches: MatchPoint[] = [];
   const differs: MatchPoint[] = [];
@@ -166,7 +169,8 @@ function matchMotor(f: FailedMotor, c: MotorSpec): { reasons: MatchPoint[]; matc
   // The fan's speed sets the airflow: same pole count and nameplate RPM within 5 % (common practice).
   const sameClass = syncSpeedOf(c.rpm) === syncSpeedOf(f.rpm);
   const within = Math.abs(c.rpm - f.rpm) <= f.rpm * RPM_TOLERANCE + EPS;
-  if (sameClass && within) matches.push({ field: 'rpm', text: c.rpm === f.rpm ? `${c.rpm} RPM, like the old motor.` : `${c.rpm} RPM against the old ${f.rpm} RPM: the same speed.` });
+  if (sameClass && within)
+    matches.push({ field: 'rpm', text: c.rpm === f.rpm ? `${c.rpm} RPM, like the old motor.` : `${c.rpm} RPM against the old ${f.rpm} RPM: the same speed.` });
   else reasons.push({ field: 'rpm', text: `${c.rpm} RPM; the old motor turns ${f.rpm} RPM, and the fan's speed sets the airflow.` });
 
   // The rating must cover the supply it will run on (NEMA MG 1 rates motors at their nameplate voltage).
@@ -199,7 +203,10 @@ function matchMotor(f: FailedMotor, c: MotorSpec): { reasons: MatchPoint[]; matc
 
   // At least as many speeds as the system uses (common practice).
   if (c.speeds >= f.speedsUsed) {
-    (c.speeds === f.speeds ? matches : differs).push({ field: 'speeds', text: `${c.speeds} speed${c.speeds === 1 ? '' : 's'}${c.speeds === f.speeds ? ', like the old motor' : `; the old motor had ${f.speeds}, and ${f.speedsUsed} ${f.speedsUsed === 1 ? 'is' : 'are'} used`}.` });
+    (c.speeds === f.speeds ? matches : differs).push({
+      field: 'speeds',
+      text: `${c.speeds} speed${c.speeds === 1 ? '' : 's'}${c.speeds === f.speeds ? ', like the old motor' : `; the old motor had ${f.speeds}, and ${f.speedsUsed} ${f.speedsUsed === 1 ? 'is' : 'are'} used`}.`,
+    });
     const need = speedNeed(f, c);
     if (need) needs.push(need);
   } else reasons.push({ field: 'speeds', text: `${c.speeds} speed${c.speeds === 1 ? '' : 's'}; the system uses ${f.speedsUsed}.` });
@@ -232,8 +239,16 @@ function matchMotor(f: FailedMotor, c: MotorSpec): { reasons: MatchPoint[]; matc
     const sameLen = Math.abs(c.shaft.lengthIn - f.shaft.lengthIn) < 0.001;
     if (sameDia && sameLen) matches.push({ field: 'shaft', text: `Shaft ${num(c.shaft.diameterIn)} × ${num(c.shaft.lengthIn)} in, like the old motor.` });
     else {
-      differs.push({ field: 'shaft', text: `Shaft ${num(c.shaft.diameterIn)} × ${num(c.shaft.lengthIn)} in; the old one is ${num(f.shaft.diameterIn)} × ${num(f.shaft.lengthIn)} in.` });
-      if (!sameDia) needs.push(c.shaft.diameterIn < f.shaft.diameterIn ? 'Fit a shaft bushing: the wheel hub is bored for the larger old shaft.' : 'The shaft is thicker than the old one: the wheel hub must be bored for it.');
+      differs.push({
+        field: 'shaft',
+        text: `Shaft ${num(c.shaft.diameterIn)} × ${num(c.shaft.lengthIn)} in; the old one is ${num(f.shaft.diameterIn)} × ${num(f.shaft.lengthIn)} in.`,
+      });
+      if (!sameDia)
+        needs.push(
+          c.shaft.diameterIn < f.shaft.diameterIn
+            ? 'Fit a shaft bushing: the wheel hub is bored for the larger old shaft.'
+            : 'The shaft is thicker than the old one: the wheel hub must be bored for it.',
+        );
       if (c.shaft.lengthIn < f.shaft.lengthIn - 0.001) needs.push("Check that the wheel's set screw still lands on the shorter shaft's flat.");
     }
   }
@@ -251,7 +266,8 @@ function matchMotor(f: FailedMotor, c: MotorSpec): { reasons: MatchPoint[]; matc
     if (tap && c.capacitorVolts !== null) {
       capacitor = { microfarads: tap.microfarads, volts: c.capacitorVolts };
       const size = `${num(tap.microfarads)} µF ${c.capacitorVolts} V`;
-      if (f.oldCapacitorMicrofarads !== null && Math.abs(f.oldCapacitorMicrofarads - tap.microfarads) < 0.001) needs.push(`Run capacitor: ${size} for ${hp}, the same size as the old one; fit a new one if the old one tests outside its rating.`);
+      if (f.oldCapacitorMicrofarads !== null && Math.abs(f.oldCapacitorMicrofarads - tap.microfarads) < 0.001)
+        needs.push(`Run capacitor: ${size} for ${hp}, the same size as the old one; fit a new one if the old one tests outside its rating.`);
       else needs.push(`Run capacitor: fit ${size} for ${hp}${f.oldCapacitorMicrofarads !== null ? ` (the old one is ${num(f.oldCapacitorMicrofarads)} µF)` : ''}.`);
     } else needs.push(`Read the run capacitor for ${hp} on the motor's label: it is not recorded in the price book.`);
   } else if (fitsHp && !c.taps.length && f.oldCapacitorMicrofarads !== null) {

@@ -24,7 +24,11 @@ export function centsToDollars(cents: number): string {
 
 const YES = new Set(['yes', 'y', 'true', '1', 'x']);
 const NO = new Set(['no', 'n', 'false', '0', '']);
-const word = (v: string | undefined) => (v ?? '').trim().toLowerCase().replace(/[\s-]+/g, '_');
+const word = (v: string | undefined) =>
+  (v ?? '')
+    .trim()
+    .toLowerCase()
+    .replace(/[\s-]+/g, '_');
 const blank = (v: string | undefined) => (v ?? '').trim() === '';
 
 /** Where a schema path lands among our columns, so a problem names the column the owner typed in. */
@@ -117,7 +121,12 @@ function specFromRow(category: ItemCategory, row: PriceBookRow): unknown {
       return { category, size: g('filter_size'), merv: g('merv') || null };
     case 'refrigerant':
       if (!has('refrigerant')) return null;
-      return { category, refrigerant: g('refrigerant').toUpperCase().replace(/^R-?(\d)/, 'R-$1') };
+      return {
+        category,
+        refrigerant: g('refrigerant')
+          .toUpperCase()
+          .replace(/^R-?(\d)/, 'R-$1'),
+      };
     default:
       if (ITEM_CATEGORY_KIND[category] !== 'part' || !has('spec_notes')) return null;
       return { category, notes: g('spec_notes') };
@@ -226,7 +235,9 @@ function specColumns(spec: PartSpec | null): PriceBookRow {
 }
 
 /** One item as an export row, with every column present (blank where it does not apply). */
-export function rowFromItem(item: Pick<PriceBookItem, 'sku' | 'name' | 'kind' | 'category' | 'unit' | 'unitCents' | 'costCents' | 'taxable' | 'partsWarrantyMonths' | 'active' | 'spec'>): Record<PriceBookFieldKey, string> {
+export function rowFromItem(
+  item: Pick<PriceBookItem, 'sku' | 'name' | 'kind' | 'category' | 'unit' | 'unitCents' | 'costCents' | 'taxable' | 'partsWarrantyMonths' | 'active' | 'spec'>,
+): Record<PriceBookFieldKey, string> {
   const cols: PriceBookRow = {
     sku: item.sku,
     name: item.name,

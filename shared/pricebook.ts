@@ -11,7 +11,20 @@ export const SPEC_CATEGORIES = ['motor', 'capacitor', 'contactor', 'filter', 're
 export type SpecCategory = (typeof SPEC_CATEGORIES)[number];
 
 /** Parts recorded by name only. */
-export const PLAIN_PART_CATEGORIES = ['control_board', 'igniter', 'flame_sensor', 'gas_valve', 'pressure_switch', 'relay', 'thermostat', 'coil', 'metering_device', 'compressor', 'consumable', 'other_part'] as const;
+export const PLAIN_PART_CATEGORIES = [
+  'control_board',
+  'igniter',
+  'flame_sensor',
+  'gas_valve',
+  'pressure_switch',
+  'relay',
+  'thermostat',
+  'coil',
+  'metering_device',
+  'compressor',
+  'consumable',
+  'other_part',
+] as const;
 export type PlainPartCategory = (typeof PLAIN_PART_CATEGORIES)[number];
 
 export const LABOR_CATEGORIES = ['repair_labor', 'maintenance_labor', 'install_labor'] as const;
@@ -89,15 +102,29 @@ export const OPTIONS_PER_QUOTE_MAX = 4;
 export const HP_EPSILON = 0.002;
 
 const HP_FRACTIONS: [number, string][] = [
-  [1 / 20, '1/20'], [1 / 15, '1/15'], [1 / 12, '1/12'], [1 / 10, '1/10'], [1 / 8, '1/8'], [1 / 6, '1/6'], [1 / 5, '1/5'],
-  [1 / 4, '1/4'], [1 / 3, '1/3'], [1 / 2, '1/2'], [2 / 3, '2/3'], [3 / 4, '3/4'],
+  [1 / 20, '1/20'],
+  [1 / 15, '1/15'],
+  [1 / 12, '1/12'],
+  [1 / 10, '1/10'],
+  [1 / 8, '1/8'],
+  [1 / 6, '1/6'],
+  [1 / 5, '1/5'],
+  [1 / 4, '1/4'],
+  [1 / 3, '1/3'],
+  [1 / 2, '1/2'],
+  [2 / 3, '2/3'],
+  [3 / 4, '3/4'],
 ];
 
 /** "1/3", "1/2 hp", "0.75", "1 1/2" → horsepower as a number; null when it is not one. */
 export function parseHorsepower(value: unknown): number | null {
   if (typeof value === 'number') return Number.isFinite(value) ? value : null;
   if (typeof value !== 'string') return null;
-  const t = value.trim().toLowerCase().replace(/\s*hp$/, '').trim();
+  const t = value
+    .trim()
+    .toLowerCase()
+    .replace(/\s*hp$/, '')
+    .trim();
   const mixed = /^(\d+)\s+(\d+)\/(\d+)$/.exec(t);
   if (mixed) return Number(mixed[3]) === 0 ? null : Number(mixed[1]) + Number(mixed[2]) / Number(mixed[3]);
   const frac = /^(\d+)\/(\d+)$/.exec(t);
@@ -119,7 +146,8 @@ export interface HpRange {
   min: number;
   max: number;
 }
-export const formatHpRange = (r: HpRange) => (Math.abs(r.max - r.min) < HP_EPSILON ? formatHorsepower(r.min) : `${formatHorsepower(r.min).replace(/ hp$/, '')}–${formatHorsepower(r.max)}`);
+export const formatHpRange = (r: HpRange) =>
+  Math.abs(r.max - r.min) < HP_EPSILON ? formatHorsepower(r.min) : `${formatHorsepower(r.min).replace(/ hp$/, '')}–${formatHorsepower(r.max)}`;
 
 // ---- Voltage ratings ----
 
@@ -137,7 +165,11 @@ export interface VoltRange {
 export function parseVoltRanges(value: unknown): VoltRange[] | null {
   if (typeof value === 'number') return Number.isFinite(value) ? [{ min: value, max: value }] : null;
   if (typeof value !== 'string') return null;
-  const pieces = value.replace(/\s*v(olts?)?\b/gi, '').split(/[/,;]/).map((p) => p.trim()).filter(Boolean);
+  const pieces = value
+    .replace(/\s*v(olts?)?\b/gi, '')
+    .split(/[/,;]/)
+    .map((p) => p.trim())
+    .filter(Boolean);
   if (!pieces.length) return null;
   const ranges: VoltRange[] = [];
   for (const p of pieces) {

@@ -6,7 +6,17 @@
 import { AGREEMENT_STATUSES, type AgreementStatus } from './agreements';
 import { COVERING_STATUSES, CoverageInputError, TUNE_UP_SEASONS, type Coverage, type CoverageAgreement, type TuneUpSeason } from './coverage';
 import { assertBps, discountCents, formatUsd, lineTotalCents, MoneyError, taxCents, type InvoiceLineKind } from './money';
-import { formatDay, ITEM_CATEGORIES, ITEM_CATEGORY_KIND, ITEM_KINDS, LINE_MAX_CENTS, QUOTE_MAX_CENTS, WARRANTY_PART_CATEGORIES, type ItemCategory, type ItemKind } from './pricebook';
+import {
+  formatDay,
+  ITEM_CATEGORIES,
+  ITEM_CATEGORY_KIND,
+  ITEM_KINDS,
+  LINE_MAX_CENTS,
+  QUOTE_MAX_CENTS,
+  WARRANTY_PART_CATEGORIES,
+  type ItemCategory,
+  type ItemKind,
+} from './pricebook';
 import type { CoverageRuleName } from './schemas/pricebook';
 import { isCalendarDate, warrantyStatus } from './service-life';
 
@@ -67,7 +77,8 @@ const pct = (bps: number) => `${(bps / 100).toFixed(bps % 100 === 0 ? 0 : 2)} %`
 const minus = (cents: number) => `−${formatUsd(cents)}`;
 
 function isoDate(value: unknown, field: string): string {
-  if (typeof value !== 'string' || !/^\d{4}-\d{2}-\d{2}$/.test(value) || !isCalendarDate(value)) throw new CoverageInputError(field, `must be a date as YYYY-MM-DD, got ${String(value)}`);
+  if (typeof value !== 'string' || !/^\d{4}-\d{2}-\d{2}$/.test(value) || !isCalendarDate(value))
+    throw new CoverageInputError(field, `must be a date as YYYY-MM-DD, got ${String(value)}`);
   return value;
 }
 
@@ -88,11 +99,13 @@ function checkAgreement(a: QuoteAgreement): QuoteAgreement {
     const t = a.tuneUps?.[s];
     for (const k of ['included', 'left'] as const) {
       const v = t?.[k];
-      if (typeof v !== 'number' || !Number.isInteger(v) || v < 0 || v > 52) throw new CoverageInputError(`agreement.tuneUps.${s}.${k}`, `must be a whole number from 0 to 52, got ${String(v)}`);
+      if (typeof v !== 'number' || !Number.isInteger(v) || v < 0 || v > 52)
+        throw new CoverageInputError(`agreement.tuneUps.${s}.${k}`, `must be a whole number from 0 to 52, got ${String(v)}`);
     }
     if (t!.left > t!.included) throw new CoverageInputError(`agreement.tuneUps.${s}.left`, 'must not be more than the tune-ups included');
   }
-  if (!Array.isArray(a.discountCategories) || a.discountCategories.some((c) => !ITEM_CATEGORIES.includes(c))) throw new CoverageInputError('agreement.discountCategories', 'must be a list of price-book categories');
+  if (!Array.isArray(a.discountCategories) || a.discountCategories.some((c) => !ITEM_CATEGORIES.includes(c)))
+    throw new CoverageInputError('agreement.discountCategories', 'must be a list of price-book categories');
   return a;
 }
 
@@ -213,7 +226,11 @@ export function coverOption(input: {
         savings = lineTotalCents(free, l.unitCents);
         rules.push('tune_up_included');
       } else {
-        sentences.push(included === 0 ? `Your plan includes no ${season} tune-ups: regular price.` : `No ${season} tune-ups left in your plan this season (${included} of ${included} used): regular price.`);
+        sentences.push(
+          included === 0
+            ? `Your plan includes no ${season} tune-ups: regular price.`
+            : `No ${season} tune-ups left in your plan this season (${included} of ${included} used): regular price.`,
+        );
       }
     } else if (l.category === 'diagnostic_fee') {
       if (a.diagnosticFeeWaived) {
@@ -259,7 +276,8 @@ export function coverQuote(input: {
     try {
       return coverOption({ agreement: input.agreement, warranty: input.warranty, visitDate: input.visitDate, lines: o?.lines, taxRateBps: input.taxRateBps });
     } catch (err) {
-      if (err instanceof CoverageInputError && (err.field === 'lines' || err.field.startsWith('lines['))) throw new CoverageInputError(`options[${i}].${err.field}`, err.message.replace(/^[^:]+: /, ''));
+      if (err instanceof CoverageInputError && (err.field === 'lines' || err.field.startsWith('lines[')))
+        throw new CoverageInputError(`options[${i}].${err.field}`, err.message.replace(/^[^:]+: /, ''));
       throw err;
     }
   });
@@ -298,10 +316,7 @@ export function quoteAgreementFrom(
 }
 
 /** A flat-rate task done `times` times, as its part and labor lines grouped under the task. */
-export function taskLines(
-  task: { id: string; components: Omit<CoverageLineInput, 'group'>[] },
-  times: number,
-): CoverageLineInput[] {
+export function taskLines(task: { id: string; components: Omit<CoverageLineInput, 'group'>[] }, times: number): CoverageLineInput[] {
   if (!Number.isInteger(times) || times < 1) throw new CoverageInputError('times', `must be a whole number of at least 1, got ${String(times)}`);
   return task.components.map((c) => ({ ...c, quantity: Math.round(c.quantity * times * 1000) / 1000, group: task.id }));
 }
@@ -312,7 +327,17 @@ const INVOICE_KIND: Record<ItemKind, InvoiceLineKind> = { part: 'parts', labor: 
  * An option's lines as invoice lines: the savings are the line's discount, so the invoice
  * shows the coverage line by line and adds up to the same total.
  */
-export function invoiceLinesOf(option: OptionCoverage): { description: string; kind: InvoiceLineKind; quantity: number; unitCents: number; taxable: boolean; grossCents: number; discountCents: number; netCents: number; reason: string }[] {
+export function invoiceLinesOf(option: OptionCoverage): {
+  description: string;
+  kind: InvoiceLineKind;
+  quantity: number;
+  unitCents: number;
+  taxable: boolean;
+  grossCents: number;
+  discountCents: number;
+  netCents: number;
+  reason: string;
+}[] {
   return option.lines.map((l) => ({
     description: l.description,
     kind: INVOICE_KIND[l.kind],

@@ -144,7 +144,14 @@ export function filtersDue(h: HomeRecords, today: DateTime): DueItem[] {
     const last = changes.length ? DateTime.max(...changes) : null;
     const due = last ? last.plus({ days }) : today;
     out.push(
-      item('filter', `Filter (${filterSizeLabel(e.filterSize)})`, due, today, `${FILTER_CATEGORY_LABELS[category]} filter: every ${days} days${h.factors.length ? ' for your household' : ''}${last ? '' : '; no change on record'}.`, e.id),
+      item(
+        'filter',
+        `Filter (${filterSizeLabel(e.filterSize)})`,
+        due,
+        today,
+        `${FILTER_CATEGORY_LABELS[category]} filter: every ${days} days${h.factors.length ? ' for your household' : ''}${last ? '' : '; no change on record'}.`,
+        e.id,
+      ),
     );
   }
   return out;

@@ -60,16 +60,7 @@ export function lastCoveredDay(start: string): string {
 export const AGREEMENT_STATUSES = ['pending', 'active', 'renewal_due', 'past_due', 'lapsed', 'canceled'] as const;
 export type AgreementStatus = (typeof AGREEMENT_STATUSES)[number];
 
-export const AGREEMENT_EVENTS = [
-  'paid',
-  'renewal_window_opened',
-  'term_ended_unpaid',
-  'charge_failed',
-  'charge_succeeded',
-  'grace_expired',
-  'canceled',
-  'manual_renewal',
-] as const;
+export const AGREEMENT_EVENTS = ['paid', 'renewal_window_opened', 'term_ended_unpaid', 'charge_failed', 'charge_succeeded', 'grace_expired', 'canceled', 'manual_renewal'] as const;
 export type AgreementEvent = (typeof AGREEMENT_EVENTS)[number];
 
 /**

@@ -58,10 +58,7 @@ export function seasonOf(kind: Season, today: DateTime, seasons?: Partial<Season
   const { first, last } = seasonMonths(kind, seasons);
   const length = ((last - first + 12) % 12) + 1;
   const month = today.startOf('month');
-  const start =
-    seasonOfMonth(today.month, seasons) === kind
-      ? month.minus({ months: (today.month - first + 12) % 12 })
-      : month.plus({ months: (first - today.month + 12) % 12 });
+  const start = seasonOfMonth(today.month, seasons) === kind ? month.minus({ months: (today.month - first + 12) % 12 }) : month.plus({ months: (first - today.month + 12) % 12 });
   return { start, end: start.plus({ months: length - 1 }).endOf('month') };
 }
 
@@ -95,9 +92,16 @@ export function reminderDecision(kind: ReminderKind, h: ReminderHousehold, today
     if (!filters.length) return { due: false, reason: 'No filter size on file' };
     // The filter that loads up first sets the pace.
     const interval = Math.min(...filters.map((e) => filterIntervalDays(filterCategory(e.filterSize, e.filterType))));
-    const lastVisit = liveVisits.filter((v) => v.status === 'done').map((v) => v.startsAt).sort().at(-1);
+    const lastVisit = liveVisits
+      .filter((v) => v.status === 'done')
+      .map((v) => v.startsAt)
+      .sort()
+      .at(-1);
     const lastFilterReminder = h.lastSent.filter;
-    const since = [lastVisit, lastFilterReminder].filter((x): x is string => !!x).sort().at(-1);
+    const since = [lastVisit, lastFilterReminder]
+      .filter((x): x is string => !!x)
+      .sort()
+      .at(-1);
     if (since && daysSince(since, today) < interval) return { due: false, reason: `Filter looked at ${daysSince(since, today)} days ago` };
     return { due: true, reason: `${filters.map((f) => f.filterSize).join(', ')} filter: change every ${interval} days` };
   }

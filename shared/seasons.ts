@@ -19,7 +19,11 @@ export interface SeasonSettings {
 export const DEFAULT_SEASON_SETTINGS: Readonly<SeasonSettings> = { coolingStartMonth: 3, heatingStartMonth: 9 };
 
 const month = (label: string) =>
-  z.number({ error: `${label} is a month from 1 to 12.` }).int(`${label} is a month from 1 to 12.`).min(1, `${label} is a month from 1 to 12.`).max(12, `${label} is a month from 1 to 12.`);
+  z
+    .number({ error: `${label} is a month from 1 to 12.` })
+    .int(`${label} is a month from 1 to 12.`)
+    .min(1, `${label} is a month from 1 to 12.`)
+    .max(12, `${label} is a month from 1 to 12.`);
 
 /** The owner's season months, for the company settings form and API. */
 export const seasonSettingsSchema = z

@@ -19,7 +19,11 @@ const ASHRAE = 'ASHRAE Handbook—HVAC Applications, Owning and Operating Costs,
 const NAHB = 'NAHB Study of Life Expectancy of Home Components (2007)';
 
 export const SERVICE_LIFE: Record<EquipmentKind, ServiceLife> = {
-  condensing_unit: { years: 15, source: `${ASHRAE}: air conditioners, residential single or split package, 15`, secondReference: `${NAHB}: air conditioners 10–15 years (from memory)` },
+  condensing_unit: {
+    years: 15,
+    source: `${ASHRAE}: air conditioners, residential single or split package, 15`,
+    secondReference: `${NAHB}: air conditioners 10–15 years (from memory)`,
+  },
   heat_pump: { years: 15, source: `${ASHRAE}: heat pumps, residential air-to-air, 15`, secondReference: `${NAHB}: heat pumps 16 years (from memory)` },
   gas_furnace: { years: 18, source: `${ASHRAE}: furnaces, gas or oil, 18`, secondReference: `${NAHB}: furnaces 15–20 years (from memory)` },
   thermostat: { years: 15, source: `${ASHRAE}: controls, electronic, 15` },
@@ -27,7 +31,10 @@ export const SERVICE_LIFE: Record<EquipmentKind, ServiceLife> = {
   geothermal_heat_pump: { years: 19, source: `${ASHRAE}: heat pumps, commercial water-to-air, 19 (the ground loop itself lasts far longer)` },
   air_handler: { years: 20, source: `${ASHRAE}: air terminals, induction and fan-coil units, 20` },
   ductless: { years: 15, source: `${ASHRAE}: heat pumps, residential air-to-air, 15 (a ductless split is one)` },
-  condensate_pump: { years: 6, source: "Common practice: small residential condensate pumps are replaced every 5 to 7 years (ASHRAE's 15-year condensate pump is a steam condensate return pump)" },
+  condensate_pump: {
+    years: 6,
+    source: "Common practice: small residential condensate pumps are replaced every 5 to 7 years (ASHRAE's 15-year condensate pump is a steam condensate return pump)",
+  },
   humidifier: { years: 8, source: `${NAHB}: humidifiers 8 years (from memory); common practice: pads are yearly` },
   air_cleaner: { years: 10, source: 'Common practice: whole-house electronic or media air cleaner cabinet' },
 };

@@ -116,7 +116,12 @@ export const VISIT_STATE_WORDS: Record<VisitStatus, VisitStateWords> = {
   on_site: { heading: 'Technician on site', meaning: 'On site: your technician is at your home.', calendarStatus: 'CONFIRMED', namesTechnician: true },
   done: { heading: 'Visit done', meaning: 'Done: the technician finished this visit.', calendarStatus: 'CONFIRMED', namesTechnician: true },
   canceled: { heading: 'Visit canceled', meaning: 'Canceled: this visit will not take place.', calendarStatus: 'CANCELLED', namesTechnician: false },
-  no_show: { heading: 'Visit missed', meaning: 'Missed: the technician could not reach anyone at the window. Please call the office to book again.', calendarStatus: 'CANCELLED', namesTechnician: false },
+  no_show: {
+    heading: 'Visit missed',
+    meaning: 'Missed: the technician could not reach anyone at the window. Please call the office to book again.',
+    calendarStatus: 'CANCELLED',
+    namesTechnician: false,
+  },
 };
 
 // ---- A visit's times: the arrival window promised to the homeowner, and the work booked within it ----
@@ -139,7 +144,10 @@ export function workLength(startsAt: Date | string, endsAt: Date | string): stri
  * One definition for every view of a visit's time: the arrival window (when the technician may
  * arrive, as promised to the homeowner) labelled "Arrival", and the booked work labelled with its length.
  */
-export function visitTimeLabels(v: { windowStart: Date | string; windowEnd: Date | string; startsAt: Date | string; endsAt: Date | string }, timeZone: string): { arrival: string; work: string } {
+export function visitTimeLabels(
+  v: { windowStart: Date | string; windowEnd: Date | string; startsAt: Date | string; endsAt: Date | string },
+  timeZone: string,
+): { arrival: string; work: string } {
   const a = clock(new Date(v.windowStart), timeZone);
   const b = clock(new Date(v.windowEnd), timeZone);
   const range = a.meridiem === b.meridiem ? `${a.time}–${b.time} ${b.meridiem}` : `${a.time} ${a.meridiem}–${b.time} ${b.meridiem}`;
@@ -160,7 +168,10 @@ export function windowMissed(v: { status: string; windowEnd: Date | string }, no
  * Coming up: visits not yet finished whose window has not passed, soonest first. Past: done,
  * missed and no-show visits, newest first. Sorted by instant, never by the text of a date.
  */
-export function groupServiceHistory<T extends { status: string; windowStart: Date | string; windowEnd: Date | string }>(visits: readonly T[], now: Date): { upcoming: T[]; past: T[] } {
+export function groupServiceHistory<T extends { status: string; windowStart: Date | string; windowEnd: Date | string }>(
+  visits: readonly T[],
+  now: Date,
+): { upcoming: T[]; past: T[] } {
   const at = (v: T) => new Date(v.windowStart).getTime();
   const open = ['requested', 'scheduled', 'on_the_way', 'on_site'];
   const upcoming = visits.filter((v) => open.includes(v.status) && !windowMissed(v, now));

@@ -256,7 +256,7 @@ interface Layer {
 /** Every METHOD + full path the routers declare, nested routers included. */
 function declaredRoutes(ctx: ReturnType<typeof testApp>): string[] {
   const out = new Set<string>();
-  const join = (a: string, b: string) => (`${a}/${b}`.replace(/\/+/g, '/').replace(/(.)\/$/, '$1'));
+  const join = (a: string, b: string) => `${a}/${b}`.replace(/\/+/g, '/').replace(/(.)\/$/, '$1');
   const walk = (stack: Layer[], prefix: string) => {
     for (const layer of stack) {
       if (layer.route) {
@@ -344,7 +344,9 @@ function fillPath(path: string, row: Row): string {
 async function call(s: Signed, method: string, path: string, body: unknown) {
   const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
   // Distinct documentation-range addresses (RFC 5737) keep per-address limits out of the way.
-  const req = s.agent[m](path).set('X-XSRF-TOKEN', s.csrf).set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
+  const req = s.agent[m](path)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
   return m === 'get' ? req : req.send((body ?? {}) as object);
 }
 
@@ -398,7 +400,9 @@ async function sendBodyRow(s: Signed, row: BodyIdRow) {
   const [method, route] = row.route.split(' ');
   const url = row.path ? row.path(bodyFx) : route;
   const m = method.toLowerCase() as 'get' | 'post';
-  const req = s.agent[m](url).set('X-XSRF-TOKEN', s.csrf).set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
+  const req = s.agent[m](url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .set('X-Forwarded-For', `203.0.113.${(ip++ % 200) + 20}`);
   if (row.query) req.query(row.query(bodyFx));
   if (row.form) {
     for (const [k, v] of Object.entries(row.form(bodyFx))) req.field(k, v);
@@ -414,12 +418,39 @@ describe('access matrix: ids in bodies and query strings', () => {
     await db.insert(users).values({ email: s.email, name: 'Matrix caller', role: 'homeowner', customerId: s.customerId });
     const v = await household('Matrix other household');
     const [unit] = await db.insert(equipment).values({ propertyId: v.propertyId, kind: 'gas_furnace' }).returning();
-    const [file] = await db.insert(files).values({ customerId: v.customerId, propertyId: v.propertyId, storageKey: `matrix/${randomUUID()}.png`, category: 'other', contentType: 'image/png', originalName: 'p.png', sizeBytes: 1 }).returning();
-    const [visitB] = await db.select({ id: visits.id }).from(visits).where(inArray(visits.status, ['requested', 'scheduled'])).orderBy(asc(visits.startsAt)).limit(1);
+    const [file] = await db
+      .insert(files)
+      .values({
+        customerId: v.customerId,
+        propertyId: v.propertyId,
+        storageKey: `matrix/${randomUUID()}.png`,
+        category: 'other',
+        contentType: 'image/png',
+        originalName: 'p.png',
+        sizeBytes: 1,
+      })
+      .returning();
+    const [visitB] = await db
+      .select({ id: visits.id })
+      .from(visits)
+      .where(inArray(visits.status, ['requested', 'scheduled']))
+      .orderBy(asc(visits.startsAt))
+      .limit(1);
     const [plan] = await db.select({ id: plans.id }).from(plans).where(eq(plans.active, true)).limit(1);
     homeownerS = await signInHomeowner(ctx, s.email);
     const offer = await homeownerS.agent.get('/api/booking/windows').query({ propertyId: s.propertyId, reason: 'tune_up' }).expect(200);
-    bodyFx = { customerS: s.customerId, propertyS: s.propertyId, customerV: v.customerId, propertyV: v.propertyId, equipmentV: unit.id, fileV: file.id, visitB: visitB.id, visitTech: fixtures.visitA, activePlan: plan.id, windowS: offer.body.windows[0].start };
+    bodyFx = {
+      customerS: s.customerId,
+      propertyS: s.propertyId,
+      customerV: v.customerId,
+      propertyV: v.propertyId,
+      equipmentV: unit.id,
+      fileV: file.id,
+      visitB: visitB.id,
+      visitTech: fixtures.visitA,
+      activePlan: plan.id,
+      windowS: offer.body.windows[0].start,
+    };
   });
 
   it('covers every route that takes an id in its body or query from a caller it serves', () => {

@@ -46,7 +46,19 @@ describe('renewing 20 days early', () => {
     const visit = async (day: string, kind: 'tune_up' | 'service_call') => {
       const [v] = await db
         .insert(visits)
-        .values({ customerId: hh.customerId, propertyId: hh.propertyId, agreementId: agreement.id, technicianId: null, kind, reason: kind === 'tune_up' ? 'tune_up' : 'no_heat', status: 'requested', windowStart: at(day, 9), windowEnd: at(day, 11), startsAt: at(day, 9), endsAt: at(day, 10) })
+        .values({
+          customerId: hh.customerId,
+          propertyId: hh.propertyId,
+          agreementId: agreement.id,
+          technicianId: null,
+          kind,
+          reason: kind === 'tune_up' ? 'tune_up' : 'no_heat',
+          status: 'requested',
+          windowStart: at(day, 9),
+          windowEnd: at(day, 11),
+          startsAt: at(day, 9),
+          endsAt: at(day, 10),
+        })
         .returning({ id: visits.id });
       return v!.id;
     };
@@ -102,7 +114,11 @@ describe('renewing 20 days early', () => {
     const receipt = await h.smtp.store.waitForLatest({ to: hh.email }, 8000);
     expect(receipt?.text).toContain(termRangeLabel(next));
     const sentAt = new Date();
-    await office.agent.post('/api/renewals/notices').set(CSRF_HEADER_NAME, office.csrf).send({ agreementIds: [agreement.id] }).expect(202);
+    await office.agent
+      .post('/api/renewals/notices')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ agreementIds: [agreement.id] })
+      .expect(202);
     const notice = await h.smtp.store.waitForLatest({ to: hh.email, after: sentAt }, 8000);
     expect(notice?.text).toContain(`covered through ${formatTermDay(termLastDay(next))}`);
   });

@@ -128,7 +128,10 @@ describe('enrolling', () => {
 
   it('names the field when the input is wrong', async () => {
     const hh = await newHousehold(h, 'enroll-bad');
-    const res = await hh.homeowner.agent.post('/api/agreements/enroll').set(CSRF_HEADER_NAME, hh.homeowner.csrf).send({ propertyId: 'nope', planId: hh.propertyId, systemsCount: 0 });
+    const res = await hh.homeowner.agent
+      .post('/api/agreements/enroll')
+      .set(CSRF_HEADER_NAME, hh.homeowner.csrf)
+      .send({ propertyId: 'nope', planId: hh.propertyId, systemsCount: 0 });
     expect(res.status).toBe(422);
     expect(Object.keys(res.body.error.fields)).toEqual(expect.arrayContaining(['propertyId', 'systemsCount']));
   });
@@ -140,7 +143,11 @@ describe('office actions', () => {
     const endsOn = addDays(today, -5);
     const { agreement, version } = await seedAgreement(h, hh, { endsOn, status: 'past_due' });
     const office = await staff(h);
-    const res = await office.agent.post(`/api/agreements/${agreement.id}/manual-renewal`).set(CSRF_HEADER_NAME, office.csrf).send({ method: 'check', reference: 'Check 2231' }).expect(200);
+    const res = await office.agent
+      .post(`/api/agreements/${agreement.id}/manual-renewal`)
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ method: 'check', reference: 'Check 2231' })
+      .expect(200);
     expect(res.body.invoice).toMatchObject({ status: 'paid', totalCents: version.yearlyPriceCents });
     expect(res.body.invoice.payments[0]).toMatchObject({ method: 'check', reference: 'Check 2231' });
     expect(res.body.agreement).toMatchObject({ status: 'active', startsOn: endsOn, endsOn: termEnd(endsOn) });

@@ -32,7 +32,10 @@ const nextIp = () => `198.51.100.${(ipSeq++ % 250) + 1}`;
 async function newHomeowner(): Promise<string> {
   const tag = randomUUID().slice(0, 8);
   const email = `home-${tag}@example.test`;
-  const [c] = await ctx.database.db.insert(customers).values({ name: `Test household ${tag}`, email }).returning();
+  const [c] = await ctx.database.db
+    .insert(customers)
+    .values({ name: `Test household ${tag}`, email })
+    .returning();
   await ctx.database.db.insert(users).values({ email, name: `Test homeowner ${tag}`, role: 'homeowner', customerId: c.id });
   return email;
 }
@@ -156,7 +159,14 @@ describe('homeowner sign-in by e-mailed link', () => {
     const token = await linkTokenFor(email);
     const { agent, csrf } = await anonymous(ctx);
     // A refused link leaves the visitor signed out.
-    expect((await agent.post('/api/auth/link/confirm').set('X-XSRF-TOKEN', csrf).send({ token: 'x'.repeat(30) })).status).toBe(400);
+    expect(
+      (
+        await agent
+          .post('/api/auth/link/confirm')
+          .set('X-XSRF-TOKEN', csrf)
+          .send({ token: 'x'.repeat(30) })
+      ).status,
+    ).toBe(400);
     expect((await agent.get('/api/session')).body.user).toBeNull();
     const first = await anonymous(ctx);
     const initial = cookieValue(first, 'sw.sid');
@@ -197,7 +207,10 @@ describe('no account enumeration on link requests', () => {
     expect(comparable(b.headers)).toEqual(comparable(a.headers));
     expect(Object.keys(b.headers).sort()).toEqual(Object.keys(a.headers).sort());
     // Only the known address leaves a stored link and an audit row.
-    const logged = await ctx.database.db.select().from(auditEvents).where(inArray(auditEvents.subject, [known, unknown]));
+    const logged = await ctx.database.db
+      .select()
+      .from(auditEvents)
+      .where(inArray(auditEvents.subject, [known, unknown]));
     expect(logged.map((e) => [e.subject, e.action])).toEqual([[known, 'link_requested']]);
     expect(await ctx.database.db.select().from(signInLinks).where(eq(signInLinks.email, unknown))).toEqual([]);
   });

@@ -22,8 +22,14 @@ afterAll(async () => {
 });
 
 async function keysLeft(): Promise<string[]> {
-  const a = await db.select({ key: rateLimitHits.key }).from(rateLimitHits).where(like(rateLimitHits.key, `${tag}%`));
-  const b = await db.select({ key: authThrottle.key }).from(authThrottle).where(like(authThrottle.key, `${tag}%`));
+  const a = await db
+    .select({ key: rateLimitHits.key })
+    .from(rateLimitHits)
+    .where(like(rateLimitHits.key, `${tag}%`));
+  const b = await db
+    .select({ key: authThrottle.key })
+    .from(authThrottle)
+    .where(like(authThrottle.key, `${tag}%`));
   return [...a, ...b].map((r) => r.key.slice(tag.length)).sort();
 }
 
@@ -59,10 +65,12 @@ describe('pruning the rate-limit and sign-in throttle tables', () => {
     await seedRows();
     const jobs = new Jobs(inject('databaseUrl'), pino({ level: 'silent' }));
     const registered: { name: string; cron?: string }[] = [];
-    const spy = { register: (name: string, handler: unknown, opts: { cron?: string } = {}) => {
-      registered.push({ name, cron: opts.cron });
-      jobs.register(name, handler as never, opts);
-    } } as unknown as Jobs;
+    const spy = {
+      register: (name: string, handler: unknown, opts: { cron?: string } = {}) => {
+        registered.push({ name, cron: opts.cron });
+        jobs.register(name, handler as never, opts);
+      },
+    } as unknown as Jobs;
     registerAuthJobs({ ...ctx.deps, jobs: spy });
     // Once a day (minute, hour, any day): pg-boss cron syntax.
     expect(registered).toEqual([{ name: PRUNE_LIMITS_JOB, cron: expect.stringMatching(/^\d+ \d+ \* \* \*$/) }]);

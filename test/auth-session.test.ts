@@ -19,7 +19,7 @@ describe('session and staff sign-in', () => {
     expect(cookie).not.toMatch(/HttpOnly/i); // Angular HttpClient must read it (Angular security guide)
   });
 
-  it('GET /api/session names the company\'s time zone and country, in which every screen writes dates and phone numbers', async () => {
+  it("GET /api/session names the company's time zone and country, in which every screen writes dates and phone numbers", async () => {
     const res = await request(ctx.app).get('/api/session').expect(200);
     // The demo company is in Larkspur Bend, Missouri: US Central time (IANA "America/Chicago").
     expect(res.body.company).toEqual({ timeZone: 'America/Chicago', country: 'US' });
@@ -61,7 +61,11 @@ describe('session and staff sign-in', () => {
     const missing = await agent.post('/api/auth/staff/sign-in').send({ email: OWNER, password: 'bluestem-demo-staff-2026' });
     expect(missing.status).toBe(403);
     expect(missing.body.error.code).toBe('csrf_failed');
-    const foreign = await agent.post('/api/auth/staff/sign-in').set('X-XSRF-TOKEN', csrf).set('Origin', 'https://elsewhere.example').send({ email: OWNER, password: 'bluestem-demo-staff-2026' });
+    const foreign = await agent
+      .post('/api/auth/staff/sign-in')
+      .set('X-XSRF-TOKEN', csrf)
+      .set('Origin', 'https://elsewhere.example')
+      .send({ email: OWNER, password: 'bluestem-demo-staff-2026' });
     expect(foreign.status).toBe(403);
   });
 });

@@ -32,7 +32,10 @@ const nextIp = () => `192.0.2.${(ipSeq++ % 250) + 1}`; // RFC 5737 documentation
 
 async function newStaff(role: 'technician' | 'office' = 'office'): Promise<{ id: string; email: string }> {
   const email = `staff-${randomUUID().slice(0, 8)}@bluestem-comfort.test`;
-  const [u] = await ctx.database.db.insert(users).values({ email, name: 'Test Staff', role, passwordHash: await hash(PASSWORD) }).returning();
+  const [u] = await ctx.database.db
+    .insert(users)
+    .values({ email, name: 'Test Staff', role, passwordHash: await hash(PASSWORD) })
+    .returning();
   return { id: u.id, email };
 }
 
@@ -328,7 +331,10 @@ describe('staff invitations and passwords', () => {
     const link = await mail.linkFor(s.email, after);
     expect(await mail.catcher.store.waitForLatest({ to: unknown, after }, 300)).toBeUndefined();
     const old = await signInStaff(ctx, s.email, PASSWORD);
-    const res = await a.agent.post('/api/auth/password/set').set('X-XSRF-TOKEN', a.csrf).send({ token: tokenOf(link), password: 'new harbor kettle 77' });
+    const res = await a.agent
+      .post('/api/auth/password/set')
+      .set('X-XSRF-TOKEN', a.csrf)
+      .send({ token: tokenOf(link), password: 'new harbor kettle 77' });
     expect(res.status).toBe(200);
     // A new password ends the sessions that used the old one.
     expect((await old.agent.get('/api/session')).body.user).toBeNull();
@@ -337,16 +343,21 @@ describe('staff invitations and passwords', () => {
 
   it('office invites a household; the link signs the homeowner into that household', async () => {
     const office = await signInStaff(ctx, OFFICE);
-    const [c] = await ctx.database.db.execute<{ id: string }>(
-      // A household with no portal sign-in yet.
-      (await import('drizzle-orm')).sql`insert into customers (name, email) values ('Invite test household', ${`inv-${randomUUID().slice(0, 6)}@example.test`}) returning id`,
-    ).then((r) => r.rows);
+    const [c] = await ctx.database.db
+      .execute<{ id: string }>(
+        // A household with no portal sign-in yet.
+        (await import('drizzle-orm')).sql`insert into customers (name, email) values ('Invite test household', ${`inv-${randomUUID().slice(0, 6)}@example.test`}) returning id`,
+      )
+      .then((r) => r.rows);
     const after = new Date(Date.now() - 1);
     const res = await office.agent.post('/api/auth/household-invitations').set('X-XSRF-TOKEN', office.csrf).send({ customerId: c.id });
     expect(res.status).toBe(201);
     const link = await mail.linkFor(res.body.email, after);
     const { agent, csrf } = await anonymous(ctx);
-    const ok = await agent.post('/api/auth/link/confirm').set('X-XSRF-TOKEN', csrf).send({ token: tokenOf(link) });
+    const ok = await agent
+      .post('/api/auth/link/confirm')
+      .set('X-XSRF-TOKEN', csrf)
+      .send({ token: tokenOf(link) });
     expect(ok.status).toBe(200);
     expect(ok.body.user).toMatchObject({ role: 'homeowner', customerId: c.id });
     const missing = await office.agent.post('/api/auth/household-invitations').set('X-XSRF-TOKEN', office.csrf).send({});

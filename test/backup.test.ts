@@ -52,7 +52,10 @@ describe('database backup and restore', () => {
     const database = createDatabase(source, 2);
     await seedDemo(database.db);
     // A stored sign-in, to show what a restore does to sessions.
-    await database.pool.query(`insert into session (sid, sess, expire) values ($1, $2, now() + interval '1 day')`, [SESSION_ID, JSON.stringify({ cookie: {}, passport: { user: 'x' } })]);
+    await database.pool.query(`insert into session (sid, sess, expire) values ($1, $2, now() + interval '1 day')`, [
+      SESSION_ID,
+      JSON.stringify({ cookie: {}, passport: { user: 'x' } }),
+    ]);
     await database.close();
     // pg-boss keeps its queues in a schema of its own in the same database; give it a job.
     const boss = new PgBoss({ connectionString: source, schema: 'pgboss', max: 2 });

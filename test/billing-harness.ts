@@ -68,7 +68,10 @@ export async function newHousehold(h: Harness, label = 'billing'): Promise<House
   const { db } = h.ctx.database;
   const tag = randomUUID().slice(0, 8);
   const email = `${label}.${tag}@example.test`;
-  const [c] = await db.insert(customers).values({ name: `Testwood household ${tag}`, email }).returning({ id: customers.id });
+  const [c] = await db
+    .insert(customers)
+    .values({ name: `Testwood household ${tag}`, email })
+    .returning({ id: customers.id });
   await db.insert(users).values({ email, name: `Robin Testwood ${tag}`, role: 'homeowner', customerId: c!.id });
   const [p] = await db
     .insert(properties)

@@ -5,7 +5,9 @@ import { createStripe, paymentErrorMessage } from '../server/integrations/stripe
 // The factory points the real SDK at the fake by URL alone; without a URL it talks to the real service.
 describe('createStripe', () => {
   it('takes host, port and protocol from the fake URL', () => {
-    const s = createStripe({ secretKey: 'sk_test_factory', apiUrl: 'http://127.0.0.1:3102' }) as unknown as { _api: { host: string; port: string | number; protocol: string; maxNetworkRetries: number } };
+    const s = createStripe({ secretKey: 'sk_test_factory', apiUrl: 'http://127.0.0.1:3102' }) as unknown as {
+      _api: { host: string; port: string | number; protocol: string; maxNetworkRetries: number };
+    };
     expect(s._api.host).toBe('127.0.0.1');
     expect(String(s._api.port)).toBe('3102');
     expect(s._api.protocol).toBe('http');
@@ -27,7 +29,8 @@ describe('createStripe', () => {
 });
 
 describe('paymentErrorMessage', () => {
-  const card = (decline: string) => new Stripe.errors.StripeCardError({ type: 'card_error', code: decline === 'expired_card' ? 'expired_card' : 'card_declined', decline_code: decline, message: 'x' });
+  const card = (decline: string) =>
+    new Stripe.errors.StripeCardError({ type: 'card_error', code: decline === 'expired_card' ? 'expired_card' : 'card_declined', decline_code: decline, message: 'x' });
   it('words the documented decline codes for the homeowner (docs.stripe.com/declines/codes)', () => {
     expect(paymentErrorMessage(card('insufficient_funds'))).toMatch(/insufficient funds/);
     expect(paymentErrorMessage(card('expired_card'))).toMatch(/expired/);

@@ -115,7 +115,10 @@ describe('paying an invoice in the portal', () => {
     const before = h.fake.fake.requests().length;
     const start = await hh.homeowner.agent.post(`/api/invoices/${res.body.id}/checkout`).set(CSRF_HEADER_NAME, hh.homeowner.csrf).send({});
     expect(start.status).toBe(200);
-    const posts = h.fake.fake.requests().slice(before).filter((r) => r.method === 'POST' && r.path === '/v1/checkout/sessions');
+    const posts = h.fake.fake
+      .requests()
+      .slice(before)
+      .filter((r) => r.method === 'POST' && r.path === '/v1/checkout/sessions');
     expect(posts.map((p) => p.status)).toEqual([500, 500, 200]);
     expect(new Set(posts.map((p) => p.idempotencyKey)).size).toBe(1);
     const sessions = (await h.stripe.checkout.sessions.list({ limit: 100 })).data.filter((s) => s.metadata?.['invoiceId'] === res.body.id);
@@ -146,11 +149,14 @@ describe('paying an invoice in the portal', () => {
     const listB = await b.homeowner.agent.get('/api/invoices').expect(200);
     expect(listB.body.rows).toEqual([]);
     await b.homeowner.agent.get(`/api/invoices/${res.body.id}`).expect(404);
-    const pdf = await a.homeowner.agent.get(`/api/invoices/${res.body.id}/pdf`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const pdf = await a.homeowner.agent
+      .get(`/api/invoices/${res.body.id}/pdf`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(pdf.status).toBe(200);
     expect(pdf.headers['content-type']).toBe('application/pdf');
     expect((pdf.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
@@ -163,7 +169,10 @@ describe('office payments and refunds', () => {
     const { office, res } = await officeInvoice(hh.customerId);
     const total = res.body.totalCents as number;
 
-    const tooMuch = await office.agent.post(`/api/invoices/${res.body.id}/payments`).set(CSRF_HEADER_NAME, office.csrf).send({ method: 'check', amountCents: total + 1 });
+    const tooMuch = await office.agent
+      .post(`/api/invoices/${res.body.id}/payments`)
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ method: 'check', amountCents: total + 1 });
     expect(tooMuch.status).toBe(422);
     expect(tooMuch.body.error.fields).toHaveProperty('amountCents');
     const part = await office.agent.post(`/api/invoices/${res.body.id}/payments`).set(CSRF_HEADER_NAME, office.csrf).send({ method: 'cash', amountCents: 5000 }).expect(201);
@@ -180,10 +189,20 @@ describe('office payments and refunds', () => {
     const card = inv.body.payments.find((p: { method: string }) => p.method === 'card');
     expect(card).toMatchObject({ amountCents: total - 5000, cardLast4: '4444' });
 
-    const r1 = await office.agent.post(`/api/invoices/${res.body.id}/refunds`).set(CSRF_HEADER_NAME, office.csrf).set('Idempotency-Key', 'refund-one-aaaa').send({ amountCents: 2000, paymentId: card.id, reason: 'Part returned' }).expect(201);
+    const r1 = await office.agent
+      .post(`/api/invoices/${res.body.id}/refunds`)
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .set('Idempotency-Key', 'refund-one-aaaa')
+      .send({ amountCents: 2000, paymentId: card.id, reason: 'Part returned' })
+      .expect(201);
     expect(r1.body).toMatchObject({ status: 'partially_refunded', refundedCents: 2000 });
     // Same click again (same key): no second refund.
-    await office.agent.post(`/api/invoices/${res.body.id}/refunds`).set(CSRF_HEADER_NAME, office.csrf).set('Idempotency-Key', 'refund-one-aaaa').send({ amountCents: 2000, paymentId: card.id }).expect(201);
+    await office.agent
+      .post(`/api/invoices/${res.body.id}/refunds`)
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .set('Idempotency-Key', 'refund-one-aaaa')
+      .send({ amountCents: 2000, paymentId: card.id })
+      .expect(201);
     const pay = (await h.ctx.database.db.select().from(payments).where(eq(payments.id, card.id)))[0]!;
     // The refunded amount is on the Charge (expand latest_charge), as the processor reports it.
     const pi = await h.stripe.paymentIntents.retrieve(pay.stripePaymentIntentId!, { expand: ['latest_charge'] });
@@ -191,7 +210,11 @@ describe('office payments and refunds', () => {
 
     const over = await office.agent.post(`/api/invoices/${res.body.id}/refunds`).set(CSRF_HEADER_NAME, office.csrf).send({ amountCents: total, paymentId: card.id });
     expect(over.status).toBe(422);
-    const rest = await office.agent.post(`/api/invoices/${res.body.id}/refunds`).set(CSRF_HEADER_NAME, office.csrf).send({ amountCents: total - 5000 - 2000, paymentId: card.id }).expect(201);
+    const rest = await office.agent
+      .post(`/api/invoices/${res.body.id}/refunds`)
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ amountCents: total - 5000 - 2000, paymentId: card.id })
+      .expect(201);
     expect(rest.body.status).toBe('partially_refunded'); // the cash part is still kept
     const cash = await office.agent.post(`/api/invoices/${res.body.id}/refunds`).set(CSRF_HEADER_NAME, office.csrf).send({ amountCents: 5000 }).expect(201);
     expect(cash.body).toMatchObject({ status: 'refunded', refundedCents: total });

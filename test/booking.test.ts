@@ -27,7 +27,10 @@ async function household(opts: { geo?: boolean; planCode?: string; homeowner?: b
   const db: Db = ctx.database.db;
   const tag = randomUUID().slice(0, 8);
   const email = `booking-${tag}@example.test`;
-  const [c] = await db.insert(t.customers).values({ name: `Test household ${tag}`, email }).returning();
+  const [c] = await db
+    .insert(t.customers)
+    .values({ name: `Test household ${tag}`, email })
+    .returning();
   const [p] = await db
     .insert(t.properties)
     .values({ customerId: c!.id, street: `${tag} Test Row`, city: 'Larkspur Bend', state: 'MO', zip: '64790', area: 'Riverside' })
@@ -40,7 +43,9 @@ async function household(opts: { geo?: boolean; planCode?: string; homeowner?: b
       .innerJoin(t.plans, eq(t.plans.id, t.planVersions.planId))
       .where(eq(t.plans.code, opts.planCode))
       .limit(1);
-    await db.insert(t.agreements).values({ customerId: c!.id, propertyId: p!.id, planVersionId: v!.id, status: 'active', startsOn: '2030-01-01', endsOn: '2032-12-31', priceCents: v!.price });
+    await db
+      .insert(t.agreements)
+      .values({ customerId: c!.id, propertyId: p!.id, planVersionId: v!.id, status: 'active', startsOn: '2030-01-01', endsOn: '2032-12-31', priceCents: v!.price });
   }
   if (opts.homeowner) await db.insert(t.users).values({ email, name: `Homeowner ${tag}`, role: 'homeowner', customerId: c!.id });
   return { customerId: c!.id, propertyId: p!.id, email };
@@ -140,7 +145,10 @@ describe('booking a visit', () => {
     await at('2031-06-09T15:00:00Z'); // Mon 9 Jun 2031, 10 am CDT
     const day = local('2031-06-10T00:00'); // Tue 10 Jun 2031
     // Only technicians with the geothermal skill can take these calls; leave one of them a single 10–12 slot.
-    const geo = await db.select({ id: t.technicians.id }).from(t.technicians).where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
+    const geo = await db
+      .select({ id: t.technicians.id })
+      .from(t.technicians)
+      .where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
     expect(geo.length).toBeGreaterThan(0);
     for (const [i, g] of geo.entries()) {
       const spans =
@@ -181,7 +189,12 @@ describe('booking a visit', () => {
     const booked = await db
       .select({ id: t.visits.id })
       .from(t.visits)
-      .where(inArray(t.visits.propertyId, homes.map((h) => h.propertyId)));
+      .where(
+        inArray(
+          t.visits.propertyId,
+          homes.map((h) => h.propertyId),
+        ),
+      );
     expect(booked).toHaveLength(1);
   }, 60_000);
 
@@ -222,7 +235,10 @@ describe('booking a visit', () => {
     expect(first.mail.text).toMatch(/You can change this visit online until Thu 6 Mar, 9:30 AM\./);
     const uid = first.event.uid;
 
-    const after = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'noise', from: '2031-03-10', days: 1, visitId: booked.body.visit.id }).expect(200);
+    const after = await me.agent
+      .get('/api/booking/windows')
+      .query({ propertyId: h.propertyId, reason: 'noise', from: '2031-03-10', days: 1, visitId: booked.body.visit.id })
+      .expect(200);
     const monday = (after.body.windows as { start: string }[]).find((w) => w.start === '2031-03-10T09:30:00-05:00');
     expect(monday).toBeDefined();
     await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/reschedule`).set(XSRF, me.csrf).send({ windowStart: monday!.start }).expect(200);
@@ -262,7 +278,11 @@ describe('booking a visit', () => {
     const me = await signInHomeowner(ctx, h.email);
     const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'water_leak', from: '2031-04-09', days: 1 }).expect(200);
     const w = offer.body.windows[0];
-    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true }).expect(201);
+    const booked = await me.agent
+      .post('/api/booking/visits')
+      .set(XSRF, me.csrf)
+      .send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true })
+      .expect(201);
     expect(booked.body.visit.canChange).toBe(true);
     expect(booked.body.visit.changeNotice).toMatch(/^You can change this visit online until Tue 8 Apr, /);
     now = new Date(Date.parse(w.start) - 23 * 3_600_000); // 23 h before: inside the 24 h default cut-off
@@ -283,7 +303,11 @@ describe('booking a visit', () => {
     const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'thermostat', from: '2031-04-21', days: 1 }).expect(200);
     const w = (offer.body.windows as { start: string }[]).find((x) => Date.parse(x.start) - now.getTime() < 24 * 3_600_000)!;
     expect(w).toBeDefined();
-    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'thermostat', windowStart: w.start, noEmergency: true }).expect(201);
+    const booked = await me.agent
+      .post('/api/booking/visits')
+      .set(XSRF, me.csrf)
+      .send({ propertyId: h.propertyId, reason: 'thermostat', windowStart: w.start, noEmergency: true })
+      .expect(201);
     expect(booked.body.visit.canChange).toBe(false);
     expect(booked.body.visit.changeNotice).toMatch(/^Changes to this visit are by phone: \+1\d{10}\.$/);
     await waitForMail(h.email, 'We have your visit request');
@@ -301,23 +325,41 @@ describe('booking a visit', () => {
     now = new Date('2031-04-28T13:00:00Z');
     const me = await signInHomeowner(ctx, h.email);
     const them = await signInHomeowner(ctx, other.email);
-    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#806040' } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#806040' } })
+      .jpeg()
+      .toBuffer();
     const uploadAs = async (s: Signed, propertyId: string) =>
-      (await s.agent.post('/api/files').set(XSRF, s.csrf).field('propertyId', propertyId).field('category', 'problem').attach('files', jpeg, { filename: 'leak.jpg', contentType: 'image/jpeg' }).expect(201)).body;
+      (
+        await s.agent
+          .post('/api/files')
+          .set(XSRF, s.csrf)
+          .field('propertyId', propertyId)
+          .field('category', 'problem')
+          .attach('files', jpeg, { filename: 'leak.jpg', contentType: 'image/jpeg' })
+          .expect(201)
+      ).body;
     const mine = await uploadAs(me, h.propertyId);
     const theirs = await uploadAs(them, other.propertyId);
     const mineId = (mine.files ?? mine)[0].id as string;
     const theirsId = (theirs.files ?? theirs)[0].id as string;
     const offer = await me.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'water_leak', from: '2031-04-30', days: 1 }).expect(200);
     const w = offer.body.windows[0];
-    const refused = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId, theirsId] }).expect(422);
+    const refused = await me.agent
+      .post('/api/booking/visits')
+      .set(XSRF, me.csrf)
+      .send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId, theirsId] })
+      .expect(422);
     expect(refused.body.error.fields.photoIds).toMatch(/not found/);
     const [still] = await ctx.database.db.select({ visitId: t.files.visitId }).from(t.files).where(eq(t.files.id, theirsId));
     expect(still!.visitId).toBeNull();
     const none = await ctx.database.db.select({ id: t.visits.id }).from(t.visits).where(eq(t.visits.propertyId, h.propertyId));
     expect(none).toHaveLength(0); // the refused booking left nothing behind
 
-    const booked = await me.agent.post('/api/booking/visits').set(XSRF, me.csrf).send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId] }).expect(201);
+    const booked = await me.agent
+      .post('/api/booking/visits')
+      .set(XSRF, me.csrf)
+      .send({ propertyId: h.propertyId, reason: 'water_leak', windowStart: w.start, noEmergency: true, photoIds: [mineId] })
+      .expect(201);
     const owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
     const field = await owner.agent.get(`/api/field/visits/${booked.body.visit.id}`).expect(200);
     expect(field.body.photos.map((p: { id: string }) => p.id)).toEqual([mineId]);
@@ -330,7 +372,17 @@ describe('booking a visit', () => {
       const s = local(`${day}T09:00`);
       const [v] = await db
         .insert(t.visits)
-        .values({ customerId: h.customerId, propertyId: h.propertyId, kind: reason === 'tune_up' ? 'tune_up' : 'service_call', reason, status, windowStart: s.toJSDate(), windowEnd: s.plus({ hours: 2 }).toJSDate(), startsAt: s.toJSDate(), endsAt: s.plus({ minutes: 90 }).toJSDate() })
+        .values({
+          customerId: h.customerId,
+          propertyId: h.propertyId,
+          kind: reason === 'tune_up' ? 'tune_up' : 'service_call',
+          reason,
+          status,
+          windowStart: s.toJSDate(),
+          windowEnd: s.plus({ hours: 2 }).toJSDate(),
+          startsAt: s.toJSDate(),
+          endsAt: s.plus({ minutes: 90 }).toJSDate(),
+        })
         .returning({ id: t.visits.id });
       return v!.id;
     };
@@ -361,7 +413,11 @@ describe('booking a visit', () => {
     await at('2031-04-14T13:00:00Z');
     const offer = await office.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'tune_up', from: '2031-04-15', days: 1 }).expect(200);
     const w = offer.body.windows[0];
-    await office.agent.post('/api/booking/visits').set(XSRF, office.csrf).send({ propertyId: h.propertyId, reason: 'tune_up', windowStart: w.start, noEmergency: true }).expect(201);
+    await office.agent
+      .post('/api/booking/visits')
+      .set(XSRF, office.csrf)
+      .send({ propertyId: h.propertyId, reason: 'tune_up', windowStart: w.start, noEmergency: true })
+      .expect(201);
     now = new Date(Date.parse(w.start) - 20 * 3_600_000);
     expect(await sendDayBeforeReminders(ctx.deps)).toBeGreaterThanOrEqual(1);
     await waitForMail(h.email, 'Reminder: your visit is tomorrow');

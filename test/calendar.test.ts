@@ -1,12 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { DateTime } from 'luxon';
-import {
-  CalendarInputError,
-  technicianFeed,
-  visitInvitation,
-  visitUid,
-  type VisitInvitation,
-} from '../server/integrations/calendar';
+import { CalendarInputError, technicianFeed, visitInvitation, visitUid, type VisitInvitation } from '../server/integrations/calendar';
 import { parseCalendar } from './support/calendar';
 
 // Expected instants are worked out from the IANA tz database (America/Chicago: CST = UTC−6, CDT = UTC−5;
@@ -65,10 +59,7 @@ describe('visitInvitation', () => {
     expect(ev.attendees[0]!.getParameter('cn')).toBe('Jordan Quill');
     // RFC 5545 §3.8.7.2: DTSTAMP is in UTC.
     expect(text).toMatch(/\r\nDTSTAMP:20260301T150000Z\r\n/);
-    expect(rawDtstart(text)).toEqual([
-      'DTSTART;TZID=America/Chicago:20260307T090000',
-      'DTEND;TZID=America/Chicago:20260307T103000',
-    ]);
+    expect(rawDtstart(text)).toEqual(['DTSTART;TZID=America/Chicago:20260307T090000', 'DTEND;TZID=America/Chicago:20260307T103000']);
   });
 
   it('keeps local times right on both sides of the spring change', () => {
@@ -110,12 +101,8 @@ describe('visitInvitation', () => {
 
   it('a reschedule keeps the UID and raises SEQUENCE; a cancellation uses METHOD:CANCEL and STATUS:CANCELLED', () => {
     const booked = parseCalendar(visitInvitation(base));
-    const moved = parseCalendar(
-      visitInvitation({ ...base, sequence: 1, start: '2026-03-10T13:00:00-05:00', end: '2026-03-10T14:30:00-05:00' }),
-    );
-    const canceled = parseCalendar(
-      visitInvitation({ ...base, sequence: 2, method: 'CANCEL', start: '2026-03-10T13:00:00-05:00', end: '2026-03-10T14:30:00-05:00' }),
-    );
+    const moved = parseCalendar(visitInvitation({ ...base, sequence: 1, start: '2026-03-10T13:00:00-05:00', end: '2026-03-10T14:30:00-05:00' }));
+    const canceled = parseCalendar(visitInvitation({ ...base, sequence: 2, method: 'CANCEL', start: '2026-03-10T13:00:00-05:00', end: '2026-03-10T14:30:00-05:00' }));
     const uids = [booked, moved, canceled].map((p) => p.events[0]!.uid);
     expect(new Set(uids)).toEqual(new Set(['visit-4107@seasonwell.local']));
     expect([booked, moved, canceled].map((p) => p.events[0]!.sequence)).toEqual([0, 1, 2]);
@@ -129,9 +116,7 @@ describe('visitInvitation', () => {
     const { zones } = parseCalendar(visitInvitation(base));
     const offsetTo = (name: string) => String(zones[0]!.getFirstSubcomponent(name)!.getFirstPropertyValue('tzoffsetto'));
     const intlOffset = (iso: string) =>
-      new Intl.DateTimeFormat('en-US', { timeZone: TZ, timeZoneName: 'longOffset' })
-        .formatToParts(new Date(iso))
-        .find((p) => p.type === 'timeZoneName')!.value;
+      new Intl.DateTimeFormat('en-US', { timeZone: TZ, timeZoneName: 'longOffset' }).formatToParts(new Date(iso)).find((p) => p.type === 'timeZoneName')!.value;
     expect(intlOffset('2026-07-14T12:00:00Z')).toBe('GMT-05:00');
     expect(intlOffset('2026-01-14T12:00:00Z')).toBe('GMT-06:00');
     expect(offsetTo('daylight')).toBe('-05:00');

@@ -30,7 +30,10 @@ describe('a campaign survives its worker being killed mid-send', () => {
     const { db } = ctx.database;
     const tag = Date.now().toString(36);
     const [office] = await db.select({ id: users.id }).from(users).where(eq(users.email, 'teo.marchetti@bluestem-comfort.test'));
-    const [camp] = await db.insert(reminderCampaigns).values({ kind: 'filter', createdById: office!.id, audienceCount: N, status: 'sending', startedAt: new Date() }).returning({ id: reminderCampaigns.id });
+    const [camp] = await db
+      .insert(reminderCampaigns)
+      .values({ kind: 'filter', createdById: office!.id, audienceCount: N, status: 'sending', startedAt: new Date() })
+      .returning({ id: reminderCampaigns.id });
     // Households and the outbox in two set-based statements.
     await db.execute(sql`insert into customers (name, email) select 'Resilience ' || g, 'resilience.' || ${tag} || '.' || g || '@example.test' from generate_series(1, ${N}) g`);
     await db.execute(sql`insert into reminder_sends (campaign_id, customer_id, kind, email, reason)

@@ -45,8 +45,14 @@ describe('campaigns: audience, schedule, pause, failures and the homeowner side'
   async function household(opts: { zip: string; filterSize: string; changedDaysAgo: number; factors?: string[]; prefix?: string }) {
     const { db } = ctx.database;
     const tag = randomUUID().slice(0, 8);
-    const [c] = await db.insert(customers).values({ name: `Audience ${tag}`, email: `${opts.prefix ?? 'aud'}.${tag}@example.test` }).returning({ id: customers.id });
-    const [p] = await db.insert(properties).values({ customerId: c!.id, street: '4 Sumac Way', city: 'Larkspur Bend', state: 'MO', zip: opts.zip }).returning({ id: properties.id });
+    const [c] = await db
+      .insert(customers)
+      .values({ name: `Audience ${tag}`, email: `${opts.prefix ?? 'aud'}.${tag}@example.test` })
+      .returning({ id: customers.id });
+    const [p] = await db
+      .insert(properties)
+      .values({ customerId: c!.id, street: '4 Sumac Way', city: 'Larkspur Bend', state: 'MO', zip: opts.zip })
+      .returning({ id: properties.id });
     const [e] = await db.insert(equipment).values({ propertyId: p!.id, kind: 'gas_furnace', filterSize: opts.filterSize }).returning({ id: equipment.id });
     const changedOn = new Date(Date.now() - opts.changedDaysAgo * 86_400_000).toISOString().slice(0, 10);
     await db.insert(filterChanges).values({ equipmentId: e!.id, customerId: c!.id, changedOn });
@@ -115,7 +121,12 @@ describe('campaigns: audience, schedule, pause, failures and the homeowner side'
     expect(byCustomer.get(flaky.customerId)).toMatchObject({ status: 'sent', attempts: 2 });
     const log = await db.select().from(reminderDeliveries).where(eq(reminderDeliveries.campaignId, camp!.id));
     expect(log.find((l) => l.customerId === refuse.customerId)).toMatchObject({ event: 'failed', permanent: true });
-    expect(log.filter((l) => l.customerId === flaky.customerId).map((l) => l.event).sort()).toEqual(['retry', 'sent']);
+    expect(
+      log
+        .filter((l) => l.customerId === flaky.customerId)
+        .map((l) => l.event)
+        .sort(),
+    ).toEqual(['retry', 'sent']);
     const office = await signInStaff(ctx, OFFICE);
     const summary = await office.agent.get(`/api/reminders/campaigns/${camp!.id}`);
     expect(summary.body).toMatchObject({ status: 'done', sent: 1, failed: 1, pending: 0 });
@@ -130,19 +141,33 @@ describe('campaigns: audience, schedule, pause, failures and the homeowner side'
     expect(Array.isArray(due.body.items)).toBe(true);
     for (const i of due.body.items) expect(i.label).toBeTruthy();
     const [me] = await ctx.database.db.select({ id: customers.id }).from(customers).where(eq(customers.email, DANA));
-    const [mine] = await ctx.database.db.select({ id: equipment.id }).from(equipment).innerJoin(properties, eq(properties.id, equipment.propertyId)).where(eq(properties.customerId, me!.id)).limit(1);
+    const [mine] = await ctx.database.db
+      .select({ id: equipment.id })
+      .from(equipment)
+      .innerJoin(properties, eq(properties.id, equipment.propertyId))
+      .where(eq(properties.customerId, me!.id))
+      .limit(1);
     const stranger = await household({ zip: '64790', filterSize: '16x25x1', changedDaysAgo: 1 });
     expect((await home.agent.post('/api/my-reminders/filter-changed').set(CSRF_HEADER_NAME, home.csrf).send({ equipmentId: stranger.equipmentId })).status).toBe(404);
     expect((await home.agent.post('/api/my-reminders/filter-changed').set(CSRF_HEADER_NAME, home.csrf).send({ equipmentId: 'nope' })).status).toBe(422);
     const changed = await home.agent.post('/api/my-reminders/filter-changed').set(CSRF_HEADER_NAME, home.csrf).send({ equipmentId: mine!.id });
     expect(changed.status).toBe(200);
     expect(changed.body.items.find((i: { kind: string; equipmentId?: string }) => i.kind === 'filter' && i.equipmentId === mine!.id)).toBeUndefined();
-    const [row] = await ctx.database.db.select().from(filterChanges).where(and(eq(filterChanges.equipmentId, mine!.id), eq(filterChanges.customerId, me!.id)));
+    const [row] = await ctx.database.db
+      .select()
+      .from(filterChanges)
+      .where(and(eq(filterChanges.equipmentId, mine!.id), eq(filterChanges.customerId, me!.id)));
     expect(row).toBeTruthy();
 
-    const bad = await home.agent.put('/api/my-reminders/preferences').set(CSRF_HEADER_NAME, home.csrf).send({ factors: ['goats'], emailOff: [] });
+    const bad = await home.agent
+      .put('/api/my-reminders/preferences')
+      .set(CSRF_HEADER_NAME, home.csrf)
+      .send({ factors: ['goats'], emailOff: [] });
     expect(bad.status).toBe(422);
-    const saved = await home.agent.put('/api/my-reminders/preferences').set(CSRF_HEADER_NAME, home.csrf).send({ factors: ['pets'], emailOff: ['cooling_tune_up'] });
+    const saved = await home.agent
+      .put('/api/my-reminders/preferences')
+      .set(CSRF_HEADER_NAME, home.csrf)
+      .send({ factors: ['pets'], emailOff: ['cooling_tune_up'] });
     expect(saved.body).toEqual({ factors: ['pets'], emailOff: ['cooling_tune_up'] });
     const office = await signInStaff(ctx, OFFICE);
     const preview = await office.agent.get('/api/reminders/preview?kind=cooling_tune_up');

@@ -84,7 +84,11 @@ describe('loadConfig', () => {
   });
 
   it('hands the proxy trust setting to the app', async () => {
-    for (const [value, expected] of [['false', false], ['2', 2], ['loopback', 'loopback']] as const) {
+    for (const [value, expected] of [
+      ['false', false],
+      ['2', 2],
+      ['loopback', 'loopback'],
+    ] as const) {
       const ctx = testApp({ env: { TRUST_PROXY: value } });
       expect(ctx.app.get('trust proxy')).toBe(expected);
       await ctx.close();

@@ -75,7 +75,12 @@ describe('coverage of a visit', () => {
     expect(c.notes).toContain('Diagnostic fee $89.00 waived by the plan.');
     expect(c.notes).toContain('Repairs 15 % off.');
 
-    const noWaiver = coverageFor({ agreement: agreement({ plan: { ...plan, diagnosticFeeWaived: false } }), visit: call('c', '2026-07-01'), termVisits: [], diagnosticFeeCents: FEE });
+    const noWaiver = coverageFor({
+      agreement: agreement({ plan: { ...plan, diagnosticFeeWaived: false } }),
+      visit: call('c', '2026-07-01'),
+      termVisits: [],
+      diagnosticFeeCents: FEE,
+    });
     expect(noWaiver.diagnosticFee).toEqual({ applies: true, feeCents: FEE, waived: false, chargeCents: FEE });
   });
 
@@ -105,15 +110,26 @@ describe('coverage of a visit', () => {
     const visit = call('c', '2026-07-01');
     expect(fieldOf(() => coverageFor({ agreement: agreement(), visit, termVisits: [], diagnosticFeeCents: 12.5 }))).toBe('diagnosticFeeCents');
     expect(fieldOf(() => coverageFor({ agreement: agreement({ endsOn: '2026-01-01' }), visit, termVisits: [], diagnosticFeeCents: FEE }))).toBe('agreement.endsOn');
-    expect(fieldOf(() => coverageFor({ agreement: agreement({ plan: { ...plan, coolingVisits: -1 } }), visit, termVisits: [], diagnosticFeeCents: FEE }))).toBe('agreement.plan.coolingVisits');
-    expect(fieldOf(() => coverageFor({ agreement: agreement({ plan: { ...plan, repairDiscountBps: 12000 } }), visit, termVisits: [], diagnosticFeeCents: FEE }))).toBe('agreement.plan.repairDiscountBps');
+    expect(fieldOf(() => coverageFor({ agreement: agreement({ plan: { ...plan, coolingVisits: -1 } }), visit, termVisits: [], diagnosticFeeCents: FEE }))).toBe(
+      'agreement.plan.coolingVisits',
+    );
+    expect(fieldOf(() => coverageFor({ agreement: agreement({ plan: { ...plan, repairDiscountBps: 12000 } }), visit, termVisits: [], diagnosticFeeCents: FEE }))).toBe(
+      'agreement.plan.repairDiscountBps',
+    );
     expect(fieldOf(() => coverageFor({ agreement: agreement(), visit: { ...visit, onDate: 'soon' }, termVisits: [], diagnosticFeeCents: FEE }))).toBe('visit.onDate');
-    expect(fieldOf(() => coverageFor({ agreement: agreement(), visit, termVisits: [{ ...visit, id: 'x', kind: 'repair' as never }], diagnosticFeeCents: FEE }))).toBe('termVisits[0].kind');
+    expect(fieldOf(() => coverageFor({ agreement: agreement(), visit, termVisits: [{ ...visit, id: 'x', kind: 'repair' as never }], diagnosticFeeCents: FEE }))).toBe(
+      'termVisits[0].kind',
+    );
   });
 
   it('never reports more used than done or more left than included (property)', () => {
     const day = fc.integer({ min: 0, max: 364 }).map((d) => new Date(Date.UTC(2026, 2, 10 + d)).toISOString().slice(0, 10));
-    const v = fc.record({ id: fc.uuid(), kind: fc.constantFrom('tune_up' as const, 'service_call' as const), status: fc.constantFrom('done', 'scheduled', 'canceled', 'no_show'), onDate: day });
+    const v = fc.record({
+      id: fc.uuid(),
+      kind: fc.constantFrom('tune_up' as const, 'service_call' as const),
+      status: fc.constantFrom('done', 'scheduled', 'canceled', 'no_show'),
+      onDate: day,
+    });
     fc.assert(
       fc.property(fc.array(v, { maxLength: 12 }), fc.integer({ min: 0, max: 4 }), fc.integer({ min: 0, max: 4 }), v, (visits, cool, heat, visit) => {
         const c = coverageFor({ agreement: agreement({ plan: { ...plan, coolingVisits: cool, heatingVisits: heat } }), visit, termVisits: visits, diagnosticFeeCents: FEE });

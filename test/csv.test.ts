@@ -21,7 +21,23 @@ afterAll(() => ctx.close());
 
 // Column headings as a spreadsheet from another system might name them.
 const HEAD = ['Name', 'Email', 'Phone', 'Address', 'City', 'State', 'Zip Code', 'Equipment Type', 'Brand', 'Model', 'Serial Number', 'Installed', 'Refrigerant', 'Tons', 'Filter'];
-const good = (i: number) => [`Import ${tag} ${i}`, `imp${i}.${tag}@example.test`, `816-555-01${String(10 + i).padStart(2, '0')}`, `${200 + i} Prairie Smoke Way`, 'Larkspur Bend', 'MO', zip, 'Condensing unit', 'Corvane', `AC36-${i}`, `CV${tag}${i}`, '6/15/2018', 'R-410A', '3', '16 x 25 x 1'];
+const good = (i: number) => [
+  `Import ${tag} ${i}`,
+  `imp${i}.${tag}@example.test`,
+  `816-555-01${String(10 + i).padStart(2, '0')}`,
+  `${200 + i} Prairie Smoke Way`,
+  'Larkspur Bend',
+  'MO',
+  zip,
+  'Condensing unit',
+  'Corvane',
+  `AC36-${i}`,
+  `CV${tag}${i}`,
+  '6/15/2018',
+  'R-410A',
+  '3',
+  '16 x 25 x 1',
+];
 
 function csvOf(rows: string[][]): Buffer {
   return Buffer.from(Papa.unparse({ fields: HEAD, data: rows }));
@@ -34,9 +50,18 @@ const send = (url: string, file: Buffer, mapping?: unknown) => {
 };
 
 async function countImported() {
-  const [c] = await ctx.database.db.select({ n: sql<number>`count(*)::int` }).from(customers).where(sql`${customers.name} like ${`Import ${tag}%`}`);
-  const [p] = await ctx.database.db.select({ n: sql<number>`count(*)::int` }).from(properties).where(eq(properties.zip, zip));
-  const [e] = await ctx.database.db.select({ n: sql<number>`count(*)::int` }).from(equipment).where(sql`${equipment.serial} like ${`CV${tag}%`}`);
+  const [c] = await ctx.database.db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(customers)
+    .where(sql`${customers.name} like ${`Import ${tag}%`}`);
+  const [p] = await ctx.database.db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(properties)
+    .where(eq(properties.zip, zip));
+  const [e] = await ctx.database.db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(equipment)
+    .where(sql`${equipment.serial} like ${`CV${tag}%`}`);
   return { customers: c!.n, properties: p!.n, equipment: e!.n };
 }
 
@@ -45,7 +70,17 @@ describe('CSV import', () => {
     const res = await send('/api/imports/preview', csvOf([good(1), good(2)])).expect(200);
     expect(res.body.rowCount).toBe(2);
     expect(res.body.sample[0].Name).toBe(`Import ${tag} 1`);
-    expect(res.body.mapping).toMatchObject({ customer_name: 'Name', customer_email: 'Email', street: 'Address', zip: 'Zip Code', equipment_kind: 'Equipment Type', make: 'Brand', serial: 'Serial Number', capacity_tons: 'Tons', filter_size: 'Filter' });
+    expect(res.body.mapping).toMatchObject({
+      customer_name: 'Name',
+      customer_email: 'Email',
+      street: 'Address',
+      zip: 'Zip Code',
+      equipment_kind: 'Equipment Type',
+      make: 'Brand',
+      serial: 'Serial Number',
+      capacity_tons: 'Tons',
+      filter_size: 'Filter',
+    });
   });
 
   it('reports exactly the three bad rows with their column and reason, and imports nothing', async () => {
@@ -73,7 +108,23 @@ describe('CSV import', () => {
   it('imports the corrected file completely, and a second import of it adds nothing', async () => {
     const rows = Array.from({ length: 8 }, (_, i) => good(i));
     // Row 9 is a second system at household 0's address: same household, same property.
-    rows.push([`Import ${tag} 0`, `imp0.${tag}@example.test`, '816-555-0110', '200 prairie smoke way', 'Larkspur Bend', 'mo', zip, 'Gas furnace', 'Corvane', 'GF80', `CV${tag}F`, '2018-06-15', '', '', '16x25x1']);
+    rows.push([
+      `Import ${tag} 0`,
+      `imp0.${tag}@example.test`,
+      '816-555-0110',
+      '200 prairie smoke way',
+      'Larkspur Bend',
+      'mo',
+      zip,
+      'Gas furnace',
+      'Corvane',
+      'GF80',
+      `CV${tag}F`,
+      '2018-06-15',
+      '',
+      '',
+      '16x25x1',
+    ]);
     const file = csvOf(rows);
     const { mapping } = (await send('/api/imports/preview', file).expect(200)).body;
     const check = await send('/api/imports/check', file, mapping).expect(200);
@@ -83,7 +134,10 @@ describe('CSV import', () => {
     const first = await send('/api/imports/run', file, mapping).expect(201);
     expect(first.body.counts).toEqual({ customers: { created: 8, matched: 0 }, properties: { created: 8, matched: 0 }, equipment: { created: 9, matched: 0 } });
     expect(await countImported()).toEqual({ customers: 8, properties: 8, equipment: 9 });
-    const [unit] = await ctx.database.db.select().from(equipment).where(eq(equipment.serial, `CV${tag}1`));
+    const [unit] = await ctx.database.db
+      .select()
+      .from(equipment)
+      .where(eq(equipment.serial, `CV${tag}1`));
     // 1 ton = 12,000 Btu/h (definition of the ton of refrigeration); 6/15/2018 read as a US date.
     expect(unit).toMatchObject({ kind: 'condensing_unit', capacityBtuh: 36000, installedOn: '2018-06-15', filterSize: '16x25x1', refrigerant: 'R-410A' });
 
@@ -101,7 +155,10 @@ describe('CSV import', () => {
   });
 
   it('exports the current table view in the import format, and that file imports back as all matches', async () => {
-    const res = await office.agent.get('/api/customers/export.csv').query({ q: `import ${tag}` }).expect(200);
+    const res = await office.agent
+      .get('/api/customers/export.csv')
+      .query({ q: `import ${tag}` })
+      .expect(200);
     expect(res.headers['content-type']).toMatch(/^text\/csv/);
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="households-\d{4}-\d{2}-\d{2}\.csv"$/);
     const parsed = Papa.parse<Record<string, string>>(res.text, { header: true, skipEmptyLines: true });
@@ -119,7 +176,11 @@ describe('CSV import', () => {
     const res = await send('/api/imports/run', csvOf([good(1)]), { customer_name: 'Name' }).expect(422);
     expect(Object.keys(res.body.error.fields)).toEqual(expect.arrayContaining(['street', 'city', 'state', 'zip']));
     const tech = await signInStaff(ctx, 'marcus.bellweather@bluestem-comfort.test');
-    await tech.agent.post('/api/imports/preview').set('X-XSRF-TOKEN', tech.csrf).attach('file', csvOf([good(1)]), 'a.csv').expect(403);
+    await tech.agent
+      .post('/api/imports/preview')
+      .set('X-XSRF-TOKEN', tech.csrf)
+      .attach('file', csvOf([good(1)]), 'a.csv')
+      .expect(403);
   });
 });
 
@@ -132,7 +193,15 @@ describe('CSV helpers', () => {
 
   it('guards cells a spreadsheet would run as a formula', () => {
     // OWASP CSV Injection: prefix cells starting with = + - @ with a single quote.
-    const cells = (values: (string | number)[]) => Papa.parse<string[]>(toCsv(['cell'], values.map((v) => [v])).trim()).data.slice(1).map((r) => r[0]);
+    const cells = (values: (string | number)[]) =>
+      Papa.parse<string[]>(
+        toCsv(
+          ['cell'],
+          values.map((v) => [v]),
+        ).trim(),
+      )
+        .data.slice(1)
+        .map((r) => r[0]);
     expect(cells(['=HYPERLINK("x")', '@SUM(A1)', '+1 816', '-2+3', 'Hollis household'])).toEqual([`'=HYPERLINK("x")`, `'@SUM(A1)`, `'+1 816`, `'-2+3`, 'Hollis household']);
     // A line break later in the cell does not let a formula through; a number is written as it is.
     expect(cells(['=1+1\nsecond line', -3])).toEqual([`'=1+1\nsecond line`, '-3']);

@@ -19,13 +19,27 @@ beforeAll(async () => {
 });
 afterAll(() => ctx.close());
 
-const post = (s: Signed, url: string, body: unknown) => s.agent.post(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
-const patch = (s: Signed, url: string, body: unknown) => s.agent.patch(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
+const post = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .post(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
+const patch = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .patch(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
 
 const home = (street: string) => ({ street, city: 'Larkspur Bend', state: 'mo', zip: '64790' });
 
 async function household(name: string, extra: Record<string, unknown> = {}) {
-  const res = await post(office, '/api/customers', { name, email: `${name.toLowerCase().replace(/\W+/g, '.')}.${tag}@example.test`, phone: '(816) 555-0199', property: home(`${Math.floor(Math.random() * 9000) + 100} Juniper Bluff Road ${tag}`), ...extra });
+  const res = await post(office, '/api/customers', {
+    name,
+    email: `${name.toLowerCase().replace(/\W+/g, '.')}.${tag}@example.test`,
+    phone: '(816) 555-0199',
+    property: home(`${Math.floor(Math.random() * 9000) + 100} Juniper Bluff Road ${tag}`),
+    ...extra,
+  });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body as { id: string; propertyId: string };
 }
@@ -43,7 +57,9 @@ describe('create, read and update a household', () => {
   });
 
   it('names every field that is wrong, with the same rules as the shared schema', async () => {
-    const res = await post(office, '/api/customers', { name: '', email: 'not-an-address', phone: '555-12', property: { street: '', city: 'X', state: 'ZZ', zip: '6479' } }).expect(422);
+    const res = await post(office, '/api/customers', { name: '', email: 'not-an-address', phone: '555-12', property: { street: '', city: 'X', state: 'ZZ', zip: '6479' } }).expect(
+      422,
+    );
     expect(res.body.error.code).toBe('validation_failed');
     expect(Object.keys(res.body.error.fields).sort()).toEqual(['email', 'name', 'phone', 'property.city', 'property.state', 'property.street', 'property.zip']);
     expect(res.body.error.fields.zip ?? res.body.error.fields['property.zip']).toMatch(/5 digits/);
@@ -77,7 +93,9 @@ describe('properties', () => {
     const bad = await patch(office, `/api/properties/${propertyId}`, { state: 'XX', zip: 'abc' }).expect(422);
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(['state', 'zip']);
     await patch(office, `/api/properties/${propertyId}`, {}).expect(422);
-    const second = await post(office, `/api/customers/${id}/properties`, { label: 'Rental', street: '14 Linden Court', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).expect(201);
+    const second = await post(office, `/api/customers/${id}/properties`, { label: 'Rental', street: '14 Linden Court', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).expect(
+      201,
+    );
     // The new street is searchable at once: the search column follows the household's properties.
     const found = await office.agent.get('/api/customers').query({ q: `14 linden court` }).expect(200);
     expect(found.body.items.map((i: { id: string }) => i.id)).toContain(id);
@@ -96,7 +114,12 @@ describe('search, paging and sort', () => {
     expect(await find(`saltgrass ${tag}`)).toContain(id);
     expect(await find(`4411 saltgrass`)).toContain(id);
     // The row shows the household's own first address and how many homes it has.
-    const row = (await office.agent.get('/api/customers').query({ q: `mdale.${tag}` }).expect(200)).body.items[0];
+    const row = (
+      await office.agent
+        .get('/api/customers')
+        .query({ q: `mdale.${tag}` })
+        .expect(200)
+    ).body.items[0];
     expect(row).toMatchObject({ id, street: `4411 Saltgrass ${tag} Lane`, city: 'Larkspur Bend', propertyCount: 1 });
     const byPhone = await office.agent.get('/api/customers').query({ q: '(816) 555-0177' }).expect(200);
     expect(byPhone.body.items.map((i: { id: string }) => i.id)).toContain(id);
@@ -131,9 +154,15 @@ describe('archive', () => {
     const { id } = await household(`Ferncastle ${tag}`);
     await post(office, `/api/customers/${id}/notes`, { body: 'Prefers morning visits.' }).expect(201);
     await post(office, `/api/customers/${id}/archive`, {}).expect(200);
-    const active = await office.agent.get('/api/customers').query({ q: `ferncastle ${tag}` }).expect(200);
+    const active = await office.agent
+      .get('/api/customers')
+      .query({ q: `ferncastle ${tag}` })
+      .expect(200);
     expect(active.body.total).toBe(0);
-    const archived = await office.agent.get('/api/customers').query({ q: `ferncastle ${tag}`, status: 'archived' }).expect(200);
+    const archived = await office.agent
+      .get('/api/customers')
+      .query({ q: `ferncastle ${tag}`, status: 'archived' })
+      .expect(200);
     expect(archived.body.items[0]).toMatchObject({ id, archived: true });
     const detail = await office.agent.get(`/api/customers/${id}`).expect(200);
     expect(detail.body.householdNotes).toHaveLength(1);
@@ -158,9 +187,24 @@ describe('merge', () => {
     const at = (h: number) => new Date(Date.UTC(1996, 0, 2, h));
     const [visit] = await db
       .insert(visits)
-      .values({ customerId: dup.id, propertyId: dup.propertyId, technicianId: tech!.id, kind: 'service_call', reason: 'no_heat', status: 'done', windowStart: at(14), windowEnd: at(16), startsAt: at(14), endsAt: at(15), findings: 'Cleaned flame sensor.' })
+      .values({
+        customerId: dup.id,
+        propertyId: dup.propertyId,
+        technicianId: tech!.id,
+        kind: 'service_call',
+        reason: 'no_heat',
+        status: 'done',
+        windowStart: at(14),
+        windowEnd: at(16),
+        startsAt: at(14),
+        endsAt: at(15),
+        findings: 'Cleaned flame sensor.',
+      })
       .returning({ id: visits.id });
-    const [user] = await db.insert(users).values({ email: `portal.${tag}@example.test`, name: 'Dup Portal', role: 'homeowner', customerId: dup.id }).returning({ id: users.id });
+    const [user] = await db
+      .insert(users)
+      .values({ email: `portal.${tag}@example.test`, name: 'Dup Portal', role: 'homeowner', customerId: dup.id })
+      .returning({ id: users.id });
 
     const res = await post(office, `/api/customers/${keep.id}/merge`, { sourceId: dup.id }).expect(200);
     expect(res.body.moved).toMatchObject({ properties: 1, visits: 1, contacts: 1, customer_notes: 1, users: 1 });
@@ -195,7 +239,9 @@ describe('merge', () => {
     const dup = await household(`Rollback Dup ${tag}`);
     const db = ctx.database.db;
     // A trigger that fails the notes insert at the end of the merge stands in for any failure.
-    await db.execute(`create or replace function fail_merge_note() returns trigger language plpgsql as $$ begin if new.body like 'Merged the duplicate record "Rollback Dup ${tag}"%' then raise exception 'boom'; end if; return new; end $$`);
+    await db.execute(
+      `create or replace function fail_merge_note() returns trigger language plpgsql as $$ begin if new.body like 'Merged the duplicate record "Rollback Dup ${tag}"%' then raise exception 'boom'; end if; return new; end $$`,
+    );
     await db.execute(`create trigger fail_merge_note_${tag} before insert on customer_notes for each row execute function fail_merge_note()`);
     try {
       await post(office, `/api/customers/${keep.id}/merge`, { sourceId: dup.id }).expect(500);

@@ -28,7 +28,10 @@ async function household(opts: { geo?: boolean } = {}) {
   const db = ctx.database.db;
   const tag = randomUUID().slice(0, 8);
   const email = `dispatch-${tag}@example.test`;
-  const [c] = await db.insert(t.customers).values({ name: `Dispatch household ${tag}`, email }).returning();
+  const [c] = await db
+    .insert(t.customers)
+    .values({ name: `Dispatch household ${tag}`, email })
+    .returning();
   const [p] = await db
     .insert(t.properties)
     .values({ customerId: c!.id, street: `${tag} Board Lane`, city: 'Larkspur Bend', state: 'MO', zip: '64790', area: `Area ${tag}` })
@@ -38,11 +41,7 @@ async function household(opts: { geo?: boolean } = {}) {
 }
 
 async function techId(email: string): Promise<string> {
-  const [row] = await ctx.database.db
-    .select({ id: t.technicians.id })
-    .from(t.technicians)
-    .innerJoin(t.users, eq(t.users.id, t.technicians.userId))
-    .where(eq(t.users.email, email));
+  const [row] = await ctx.database.db.select({ id: t.technicians.id }).from(t.technicians).innerJoin(t.users, eq(t.users.id, t.technicians.userId)).where(eq(t.users.email, email));
   return row!.id;
 }
 
@@ -126,7 +125,11 @@ describe('dispatch board', () => {
     const visit = await book(office, h.propertyId, 'noise', '2031-10-07');
     const [priya, eli, marcus] = await Promise.all([PRIYA, ELI, MARCUS].map(techId));
     const assign = (technicianId: string, startsAt?: string) =>
-      office.agent.post(`/api/dispatch/visits/${visit.id}/assign`).set(XSRF, office.csrf).send({ technicianId, ...(startsAt ? { startsAt } : {}) }).expect(200);
+      office.agent
+        .post(`/api/dispatch/visits/${visit.id}/assign`)
+        .set(XSRF, office.csrf)
+        .send({ technicianId, ...(startsAt ? { startsAt } : {}) })
+        .expect(200);
     const told = () => catcher.store.list({ to: h.email }).filter((m) => m.subject === 'Your visit is scheduled' || m.subject === 'Your visit has a new arrival window');
 
     // Hold the notice jobs the way pg-boss would for the delay, and look at how they are queued.
@@ -154,7 +157,9 @@ describe('dispatch board', () => {
     expect(told()[0]!.text).toMatch(/Marcus Bellweather/);
 
     // The same technician starts 30 minutes later, still inside the window the homeowner has: no e-mail.
-    const current = (await office.agent.get('/api/dispatch/board').query({ from: '2031-10-07', days: 1, area: h.area }).expect(200)).body.visits.find((v: { id: string }) => v.id === visit.id);
+    const current = (await office.agent.get('/api/dispatch/board').query({ from: '2031-10-07', days: 1, area: h.area }).expect(200)).body.visits.find(
+      (v: { id: string }) => v.id === visit.id,
+    );
     const later = new Date(Date.parse(current.startsAt) + 30 * 60_000).toISOString();
     const moved = await assign(marcus, later);
     expect(moved.body.visit.windowStart).toBe(current.windowStart);
@@ -191,7 +196,11 @@ describe('dispatch board', () => {
     const a = await book(office, h2.propertyId, 'noise', '2031-07-17');
     const b = await book(office, h3.propertyId, 'noise', '2031-07-17');
     await office.agent.post(`/api/dispatch/visits/${a.id}/assign`).set(XSRF, office.csrf).send({ technicianId: marcus, startsAt: '2031-07-17T10:00:00-05:00' }).expect(200);
-    const clash = await office.agent.post(`/api/dispatch/visits/${b.id}/assign`).set(XSRF, office.csrf).send({ technicianId: marcus, startsAt: '2031-07-17T10:30:00-05:00' }).expect(409);
+    const clash = await office.agent
+      .post(`/api/dispatch/visits/${b.id}/assign`)
+      .set(XSRF, office.csrf)
+      .send({ technicianId: marcus, startsAt: '2031-07-17T10:30:00-05:00' })
+      .expect(409);
     expect(clash.body.error.code).toBe('overlap');
     expect(clash.body.error.message).toMatch(/Marcus Bellweather already has a visit/);
   });

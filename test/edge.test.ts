@@ -48,10 +48,28 @@ function expectError(res: request.Response, status: number, code?: string) {
 }
 
 const countRows = async (table: string) => Number((await ctx.database.db.execute(sql`select count(*)::int as n from ${sql.identifier(table)}`)).rows[0]!.n);
-const rateKeys = async (fragment: string) => (await ctx.database.db.select({ key: t.rateLimitHits.key }).from(t.rateLimitHits).where(like(t.rateLimitHits.key, `%${fragment}%`))).length;
+const rateKeys = async (fragment: string) =>
+  (
+    await ctx.database.db
+      .select({ key: t.rateLimitHits.key })
+      .from(t.rateLimitHits)
+      .where(like(t.rateLimitHits.key, `%${fragment}%`))
+  ).length;
 
 describe('CSRF on every spelling of a path', () => {
-  const spellings = ['/API/invoices', '/api/Invoices/', '/%61pi/invoices', '/Api/customers', '/api/Customers', '/api/customers/', '/%61pi/customers', '/api/%63ustomers', '/api//customers', '/API/webhooks/stripe-not', '/api/Webhooks/stripe'];
+  const spellings = [
+    '/API/invoices',
+    '/api/Invoices/',
+    '/%61pi/invoices',
+    '/Api/customers',
+    '/api/Customers',
+    '/api/customers/',
+    '/%61pi/customers',
+    '/api/%63ustomers',
+    '/api//customers',
+    '/API/webhooks/stripe-not',
+    '/api/Webhooks/stripe',
+  ];
 
   it.each(spellings)('refuses POST %s without the token, before anything is written', async (path) => {
     const before = await countRows('customers');
@@ -158,17 +176,31 @@ describe('errors from parsing and decoding keep their status', () => {
   });
 
   it('a body over the limit is 413', async () => {
-    const res = await office.agent.post('/api/customers').set(CSRF_HEADER_NAME, office.csrf).set('Content-Type', 'application/json').send(JSON.stringify({ name: 'x'.repeat(1_100_000) }));
+    const res = await office.agent
+      .post('/api/customers')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .set('Content-Type', 'application/json')
+      .send(JSON.stringify({ name: 'x'.repeat(1_100_000) }));
     expectError(res, 413, 'too_large');
   });
 
   it('an unknown Content-Encoding is 415', async () => {
-    const res = await office.agent.post('/api/customers').set(CSRF_HEADER_NAME, office.csrf).set('Content-Type', 'application/json').set('Content-Encoding', 'compress').send('{"name":"x"}');
+    const res = await office.agent
+      .post('/api/customers')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .set('Content-Type', 'application/json')
+      .set('Content-Encoding', 'compress')
+      .send('{"name":"x"}');
     expectError(res, 415);
   });
 
   it('a gzip body that is not gzip is 400', async () => {
-    const res = await office.agent.post('/api/customers').set(CSRF_HEADER_NAME, office.csrf).set('Content-Type', 'application/json').set('Content-Encoding', 'gzip').send('{"name":"x"}');
+    const res = await office.agent
+      .post('/api/customers')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .set('Content-Type', 'application/json')
+      .set('Content-Encoding', 'gzip')
+      .send('{"name":"x"}');
     expectError(res, 400);
   });
 
@@ -202,7 +234,10 @@ describe('errors from parsing and decoding keep their status', () => {
       const bad = await request(withClient.app).get('/portal/%E0%A4%A');
       expect(bad.status).toBe(400);
       expect(bad.body).toEqual({ error: expect.objectContaining({ code: 'bad_uri' }) });
-      await request(withClient.app).get('/portal/visits').expect(200).expect(/Seasonwell/);
+      await request(withClient.app)
+        .get('/portal/visits')
+        .expect(200)
+        .expect(/Seasonwell/);
     } finally {
       await withClient.close();
     }
@@ -255,7 +290,10 @@ describe('NUL and lone surrogates are refused at the edge, naming the field', ()
     expectError(res, 400, 'bad_text');
     expect(res.body.error.fields).toHaveProperty('email');
     expect(await countRows('rate_limit_hits')).toBe(before);
-    const staff = await agent.post('/api/auth/staff/sign-in').set(CSRF_HEADER_NAME, csrf).send({ email: `${OWNER}\u0000`, password: 'x' });
+    const staff = await agent
+      .post('/api/auth/staff/sign-in')
+      .set(CSRF_HEADER_NAME, csrf)
+      .send({ email: `${OWNER}\u0000`, password: 'x' });
     expectError(staff, 400, 'bad_text');
   });
 
@@ -375,7 +413,10 @@ describe('dates', () => {
   it('time off and assignments far in the future are refused', async () => {
     const [tech] = await ctx.database.db.select({ id: t.technicians.id }).from(t.technicians).limit(1);
     const before = await countRows('technician_time_off');
-    const res = await office.agent.post('/api/dispatch/time-off').set(CSRF_HEADER_NAME, office.csrf).send({ technicianId: tech!.id, startsAt: '9999-12-30T10:00:00Z', endsAt: '9999-12-31T10:00:00Z' });
+    const res = await office.agent
+      .post('/api/dispatch/time-off')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ technicianId: tech!.id, startsAt: '9999-12-30T10:00:00Z', endsAt: '9999-12-31T10:00:00Z' });
     expectError(res, 422, 'validation_failed');
     expect(await countRows('technician_time_off')).toBe(before);
   });
@@ -386,7 +427,10 @@ describe('money has a stated maximum', () => {
 
   it('a line total past the maximum is 422 naming the line', async () => {
     const before = await countRows('invoices');
-    const res = await office.agent.post('/api/invoices').set(CSRF_HEADER_NAME, office.csrf).send({ customerId: danaCustomerId, lines: [line(100_000, 100_000_000)] });
+    const res = await office.agent
+      .post('/api/invoices')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ customerId: danaCustomerId, lines: [line(100_000, 100_000_000)] });
     expectError(res, 422, 'validation_failed');
     expect(Object.keys(res.body.error.fields).some((k) => k.startsWith('lines.0'))).toBe(true);
     expect(await countRows('invoices')).toBe(before);

@@ -11,12 +11,20 @@ let propertyId: string;
 const tag = randomUUID().slice(0, 8);
 const today = () => DateTime.now().setZone('America/Chicago');
 
-const post = (s: Signed, url: string, body: unknown) => s.agent.post(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
+const post = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .post(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
 
 beforeAll(async () => {
   ctx = testApp();
   office = await signInStaff(ctx, 'teo.marchetti@bluestem-comfort.test');
-  const res = await post(office, '/api/customers', { name: `Equipment Test ${tag}`, phone: '816-555-0190', property: { street: '5 Tallgrass Circle', city: 'Larkspur Bend', state: 'MO', zip: '64791' } }).expect(201);
+  const res = await post(office, '/api/customers', {
+    name: `Equipment Test ${tag}`,
+    phone: '816-555-0190',
+    property: { street: '5 Tallgrass Circle', city: 'Larkspur Bend', state: 'MO', zip: '64791' },
+  }).expect(201);
   propertyId = res.body.propertyId;
 });
 afterAll(() => ctx.close());
@@ -25,12 +33,33 @@ describe('equipment', () => {
   it('records a condensing unit with capacity in tons, and works out its age and service-life flag', async () => {
     const installed = today().minus({ years: 13, months: 2 }).toISODate()!;
     const res = await post(office, '/api/equipment', {
-      propertyId, kind: 'condensing_unit', make: 'Brakeson', model: 'AC36-2', serial: `BR${tag}`, installedOn: installed,
-      refrigerant: 'r410a', capacity: 3, capacityUnit: 'tons', volts: '230', phase: 1, ratedAmps: 15.6, filterSize: '16 X 25 X 1', merv: 8,
-      warrantyEndsOn: today().plus({ days: 30 }).toISODate(), location: 'Side yard',
+      propertyId,
+      kind: 'condensing_unit',
+      make: 'Brakeson',
+      model: 'AC36-2',
+      serial: `BR${tag}`,
+      installedOn: installed,
+      refrigerant: 'r410a',
+      capacity: 3,
+      capacityUnit: 'tons',
+      volts: '230',
+      phase: 1,
+      ratedAmps: 15.6,
+      filterSize: '16 X 25 X 1',
+      merv: 8,
+      warrantyEndsOn: today().plus({ days: 30 }).toISODate(),
+      location: 'Side yard',
     }).expect(201);
     // 1 ton = 12,000 Btu/h by definition of the ton of refrigeration.
-    expect(res.body).toMatchObject({ capacityBtuh: 36000, capacityTons: 3, refrigerant: 'R-410A', filterSize: '16x25x1', ageYears: 13, ageText: '13 years, 2 months', warranty: 'ending_soon' });
+    expect(res.body).toMatchObject({
+      capacityBtuh: 36000,
+      capacityTons: 3,
+      refrigerant: 'R-410A',
+      filterSize: '16x25x1',
+      ageYears: 13,
+      ageText: '13 years, 2 months',
+      warranty: 'ending_soon',
+    });
     // 13 of a typical 15 years (ASHRAE median, from memory) is past 80 %: nearing the end.
     expect(SERVICE_LIFE.condensing_unit.years).toBe(15);
     expect(res.body.life).toMatchObject({ status: 'nearing', typicalYears: 15 });
@@ -38,12 +67,29 @@ describe('equipment', () => {
   });
 
   it('flags a furnace past its typical life and keeps "none" as no refrigerant', async () => {
-    const res = await post(office, '/api/equipment', { propertyId, kind: 'gas_furnace', installedOn: today().minus({ years: 19 }).toISODate(), refrigerant: 'none', capacity: 80000 }).expect(201);
+    const res = await post(office, '/api/equipment', {
+      propertyId,
+      kind: 'gas_furnace',
+      installedOn: today().minus({ years: 19 }).toISODate(),
+      refrigerant: 'none',
+      capacity: 80000,
+    }).expect(201);
     expect(res.body).toMatchObject({ refrigerant: null, capacityBtuh: 80000, life: { status: 'past' }, warranty: 'unknown' });
   });
 
   it('names each bad field, and refuses an install date after today', async () => {
-    const res = await post(office, '/api/equipment', { propertyId, kind: 'boiler', refrigerant: 'R-12', capacity: -2, phase: 2, merv: 20, volts: 'lots', filterSize: 'big', installedOn: '2019-02-30', warrantyEndsOn: 'soon' }).expect(422);
+    const res = await post(office, '/api/equipment', {
+      propertyId,
+      kind: 'boiler',
+      refrigerant: 'R-12',
+      capacity: -2,
+      phase: 2,
+      merv: 20,
+      volts: 'lots',
+      filterSize: 'big',
+      installedOn: '2019-02-30',
+      warrantyEndsOn: 'soon',
+    }).expect(422);
     expect(Object.keys(res.body.error.fields).sort()).toEqual(['capacity', 'filterSize', 'installedOn', 'kind', 'merv', 'phase', 'refrigerant', 'volts', 'warrantyEndsOn']);
     const future = await post(office, '/api/equipment', { propertyId, kind: 'thermostat', installedOn: today().plus({ days: 2 }).toISODate() }).expect(422);
     expect(future.body.error.fields.installedOn).toMatch(/after today/);
@@ -53,8 +99,15 @@ describe('equipment', () => {
     expect(early.body.error.fields.warrantyEndsOn).toBeTruthy();
   });
 
-  it('records a variable-speed compressor with its maximum frequency and the blower\'s maximum static, and R-407C', async () => {
-    const res = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', refrigerant: 'r407c', compressorType: 'variable_speed', maxCompressorHz: '120', maxExternalStaticInWc: 0.8 }).expect(201);
+  it("records a variable-speed compressor with its maximum frequency and the blower's maximum static, and R-407C", async () => {
+    const res = await post(office, '/api/equipment', {
+      propertyId,
+      kind: 'heat_pump',
+      refrigerant: 'r407c',
+      compressorType: 'variable_speed',
+      maxCompressorHz: '120',
+      maxExternalStaticInWc: 0.8,
+    }).expect(201);
     expect(res.body).toMatchObject({ refrigerant: 'R-407C', compressorType: 'variable_speed', maxCompressorHz: 120, maxExternalStaticInWc: 0.8 });
     const got = await office.agent.get(`/api/equipment/${res.body.id}`).expect(200);
     expect(got.body).toMatchObject({ compressorType: 'variable_speed', maxCompressorHz: 120, maxExternalStaticInWc: 0.8 });
@@ -73,7 +126,11 @@ describe('equipment', () => {
     const vs = await post(office, '/api/equipment', { propertyId, kind: 'heat_pump', compressorType: 'variable_speed', maxCompressorHz: 100 }).expect(201);
     const upd = await office.agent.patch(`/api/equipment/${vs.body.id}`).set('X-XSRF-TOKEN', office.csrf).send({ compressorType: 'fixed_speed' }).expect(422);
     expect(Object.keys(upd.body.error.fields)).toEqual(['maxCompressorHz']);
-    const cleared = await office.agent.patch(`/api/equipment/${vs.body.id}`).set('X-XSRF-TOKEN', office.csrf).send({ compressorType: 'fixed_speed', maxCompressorHz: '' }).expect(200);
+    const cleared = await office.agent
+      .patch(`/api/equipment/${vs.body.id}`)
+      .set('X-XSRF-TOKEN', office.csrf)
+      .send({ compressorType: 'fixed_speed', maxCompressorHz: '' })
+      .expect(200);
     expect(cleared.body).toMatchObject({ compressorType: 'fixed_speed', maxCompressorHz: null });
   });
 

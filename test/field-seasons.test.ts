@@ -24,15 +24,28 @@ let boundaryMonth: number;
 let furnaceVisitId: string;
 let furnaceId: string;
 
-const put = (s: Signed, url: string, body: unknown) => s.agent.put(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
+const put = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .put(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
 
 beforeAll(async () => {
   ctx = testApp();
   const db = ctx.database.db;
   const email = `${tag}.tech@field.test`;
-  const [u] = await db.insert(t.users).values({ email, name: 'Sella Season-Tech', role: 'technician', passwordHash: await hash(DEMO_STAFF_PASSWORD) }).returning({ id: t.users.id });
-  const [techRow] = await db.insert(t.technicians).values({ userId: u!.id, skills: ['refrigerant'], weeklyHours: { '1': { start: '08:00', end: '17:00' } } }).returning({ id: t.technicians.id });
-  const [customer] = await db.insert(t.customers).values({ name: `${tag} household` }).returning({ id: t.customers.id });
+  const [u] = await db
+    .insert(t.users)
+    .values({ email, name: 'Sella Season-Tech', role: 'technician', passwordHash: await hash(DEMO_STAFF_PASSWORD) })
+    .returning({ id: t.users.id });
+  const [techRow] = await db
+    .insert(t.technicians)
+    .values({ userId: u!.id, skills: ['refrigerant'], weeklyHours: { '1': { start: '08:00', end: '17:00' } } })
+    .returning({ id: t.technicians.id });
+  const [customer] = await db
+    .insert(t.customers)
+    .values({ name: `${tag} household` })
+    .returning({ id: t.customers.id });
   const [property] = await db
     .insert(t.properties)
     .values({ customerId: customer!.id, street: '3 Test Season Row', city: 'Larkspur Bend', state: 'MO', zip: '64790', elevationFt: 900 })
@@ -40,7 +53,16 @@ beforeAll(async () => {
   // A variable-speed heat pump on an A2L refrigerant with an air handler: no fuel burning here.
   const [hp] = await db
     .insert(t.equipment)
-    .values({ propertyId: property!.id, kind: 'heat_pump', refrigerant: 'R-454B', meteringDevice: 'eev', capacityBtuh: 36000, compressorType: 'variable_speed', maxCompressorHz: 110, maxExternalStaticInWc: 0.8 })
+    .values({
+      propertyId: property!.id,
+      kind: 'heat_pump',
+      refrigerant: 'R-454B',
+      meteringDevice: 'eev',
+      capacityBtuh: 36000,
+      compressorType: 'variable_speed',
+      maxCompressorHz: 110,
+      maxExternalStaticInWc: 0.8,
+    })
     .returning({ id: t.equipment.id });
   await db.insert(t.equipment).values({ propertyId: property!.id, kind: 'air_handler' });
   heatPumpId = hp!.id;
@@ -50,8 +72,18 @@ beforeAll(async () => {
     const s = day.set({ hour: 15 });
     return { windowStart: s.toJSDate(), windowEnd: s.plus({ hours: 2 }).toJSDate(), startsAt: s.toJSDate(), endsAt: s.plus({ minutes: 90 }).toJSDate() };
   };
-  const base = { customerId: customer!.id, propertyId: property!.id, technicianId: techRow!.id, kind: 'tune_up' as const, reason: 'tune_up' as const, status: 'scheduled' as const };
-  const [v] = await db.insert(t.visits).values({ ...base, ...at(today) }).returning({ id: t.visits.id });
+  const base = {
+    customerId: customer!.id,
+    propertyId: property!.id,
+    technicianId: techRow!.id,
+    kind: 'tune_up' as const,
+    reason: 'tune_up' as const,
+    status: 'scheduled' as const,
+  };
+  const [v] = await db
+    .insert(t.visits)
+    .values({ ...base, ...at(today) })
+    .returning({ id: t.visits.id });
   todayVisitId = v!.id;
 
   // A season's first month that is neither this month nor last month, so moving it by one month
@@ -61,15 +93,24 @@ beforeAll(async () => {
   boundaryMonth = recent.has(coolingStartMonth) ? heatingStartMonth : coolingStartMonth;
   let day = today.set({ day: 10, month: boundaryMonth });
   if (day <= today) day = day.plus({ years: 1 });
-  const [b] = await db.insert(t.visits).values({ ...base, ...at(day) }).returning({ id: t.visits.id });
+  const [b] = await db
+    .insert(t.visits)
+    .values({ ...base, ...at(day) })
+    .returning({ id: t.visits.id });
   boundaryVisitId = b!.id;
 
   // The commonest system: a furnace with a cased coil under an outdoor condensing unit.
-  const [p2] = await db.insert(t.properties).values({ customerId: customer!.id, street: '5 Test Season Row', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).returning({ id: t.properties.id });
+  const [p2] = await db
+    .insert(t.properties)
+    .values({ customerId: customer!.id, street: '5 Test Season Row', city: 'Larkspur Bend', state: 'MO', zip: '64790' })
+    .returning({ id: t.properties.id });
   await db.insert(t.equipment).values({ propertyId: p2!.id, kind: 'condensing_unit', refrigerant: 'R-410A' });
   const [furnace] = await db.insert(t.equipment).values({ propertyId: p2!.id, kind: 'gas_furnace' }).returning({ id: t.equipment.id });
   furnaceId = furnace!.id;
-  const [fv] = await db.insert(t.visits).values({ ...base, propertyId: p2!.id, ...at(today.plus({ days: 1 })) }).returning({ id: t.visits.id });
+  const [fv] = await db
+    .insert(t.visits)
+    .values({ ...base, propertyId: p2!.id, ...at(today.plus({ days: 1 })) })
+    .returning({ id: t.visits.id });
   furnaceVisitId = fv!.id;
 
   tech = await signInStaff(ctx, email);
@@ -111,7 +152,10 @@ describe('the checklist of a furnace with a cased coil', () => {
     const section = page.checklist.find((s: { equipmentId: string }) => s.equipmentId === furnaceId);
     const ids = section.items.map((i: { id: string }) => i.id);
     expect(ids).toEqual(expect.arrayContaining(['gf.power_gas_off', 'gf.coil', 'gf.coil_drain', 'gf.coil_overflow']));
-    const saved = await put(tech, `/api/field/visits/${furnaceVisitId}/checklist`, { season: 'cooling', items: [{ equipmentId: furnaceId, itemId: 'gf.coil_overflow', result: 'done' }] }).expect(200);
+    const saved = await put(tech, `/api/field/visits/${furnaceVisitId}/checklist`, {
+      season: 'cooling',
+      items: [{ equipmentId: furnaceId, itemId: 'gf.coil_overflow', result: 'done' }],
+    }).expect(200);
     const item = saved.body.checklist.find((s: { equipmentId: string }) => s.equipmentId === furnaceId).items.find((i: { id: string }) => i.id === 'gf.coil_overflow');
     expect(item.result).toBe('done');
   });
@@ -128,7 +172,10 @@ describe('technician cautions', () => {
   });
 
   it('show the CO cautions with a furnace, and no A2L caution for R-410A', () => {
-    const ids = technicianCautions([{ kind: 'gas_furnace', refrigerant: null }, { kind: 'condensing_unit', refrigerant: 'R-410A' }]).map((c) => c.id);
+    const ids = technicianCautions([
+      { kind: 'gas_furnace', refrigerant: null },
+      { kind: 'condensing_unit', refrigerant: 'R-410A' },
+    ]).map((c) => c.id);
     expect(ids).toEqual(expect.arrayContaining(['co_hazard', 'fuel_burning_equipment', 'refrigerant_certification']));
     expect(ids).not.toContain('a2l_refrigerants');
     expect(technicianCautions([{ kind: 'thermostat', refrigerant: null }]).map((c) => c.id)).not.toContain('refrigerant_certification');
@@ -142,7 +189,17 @@ describe('variable-speed readings', () => {
 
     const partial = await put(tech, `/api/field/visits/${todayVisitId}/readings`, {
       equipmentId: heatPumpId,
-      readings: { mode: 'cooling', refrigerant: 'R-454B', meteringDevice: 'eev', suctionPressurePsig: 128, suctionLineTempF: 56, liquidPressurePsig: 390, liquidLineTempF: 100, compressorHz: 44, totalExternalStaticInWc: 0.7 },
+      readings: {
+        mode: 'cooling',
+        refrigerant: 'R-454B',
+        meteringDevice: 'eev',
+        suctionPressurePsig: 128,
+        suctionLineTempF: 56,
+        liquidPressurePsig: 390,
+        liquidLineTempF: 100,
+        compressorHz: 44,
+        totalExternalStaticInWc: 0.7,
+      },
     }).expect(200);
     expect(partial.body.readings).toMatchObject({ compressorType: 'variable_speed', maxCompressorHz: 110, maxExternalStaticInWc: 0.8, altitudeFt: 900 });
     // At 40 % (44 of 110 Hz) the charge is not judged; the screen asks for the test mode.
@@ -152,7 +209,16 @@ describe('variable-speed readings', () => {
 
     const full = await put(tech, `/api/field/visits/${todayVisitId}/readings`, {
       equipmentId: heatPumpId,
-      readings: { mode: 'cooling', refrigerant: 'R-454B', meteringDevice: 'eev', suctionPressurePsig: 128, suctionLineTempF: 56, liquidPressurePsig: 390, liquidLineTempF: 100, fullCapacityTest: true },
+      readings: {
+        mode: 'cooling',
+        refrigerant: 'R-454B',
+        meteringDevice: 'eev',
+        suctionPressurePsig: 128,
+        suctionLineTempF: 56,
+        liquidPressurePsig: 390,
+        liquidLineTempF: 100,
+        fullCapacityTest: true,
+      },
     }).expect(200);
     expect(JSON.stringify(full.body.checks)).not.toContain(FULL_CAPACITY_TEST_PROMPT);
     expect(full.body.checks.map((c: { check: string }) => c.check)).toEqual(expect.arrayContaining(['superheat']));

@@ -54,12 +54,23 @@ async function fixture(ctx: TestContext): Promise<Fixture> {
   const otherTechId = await technician(ctx, otherTechEmail, 'Pella Test-Tech', passwordHash);
 
   const homeownerEmail = `${tag}.home@example.test`;
-  const [customer] = await db.insert(t.customers).values({ name: `${tag} household`, email: homeownerEmail }).returning({ id: t.customers.id });
+  const [customer] = await db
+    .insert(t.customers)
+    .values({ name: `${tag} household`, email: homeownerEmail })
+    .returning({ id: t.customers.id });
   await db.insert(t.users).values({ email: homeownerEmail, name: 'Field Test Homeowner', role: 'homeowner', customerId: customer!.id });
   const elevationFt = 905;
   const [property] = await db
     .insert(t.properties)
-    .values({ customerId: customer!.id, street: '12 Test Furrow Lane', city: 'Larkspur Bend', state: 'MO', zip: '64790', elevationFt, accessNotes: 'Gate code 9911. Dog in the yard.' })
+    .values({
+      customerId: customer!.id,
+      street: '12 Test Furrow Lane',
+      city: 'Larkspur Bend',
+      state: 'MO',
+      zip: '64790',
+      elevationFt,
+      accessNotes: 'Gate code 9911. Dog in the yard.',
+    })
     .returning({ id: t.properties.id });
   const today = DateTime.now().setZone(ZONE).startOf('day');
   const [condenser] = await db
@@ -82,11 +93,21 @@ async function fixture(ctx: TestContext): Promise<Fixture> {
     .returning({ id: t.equipment.id });
   const [furnace] = await db
     .insert(t.equipment)
-    .values({ propertyId: property!.id, kind: 'gas_furnace', make: 'Vellmar', model: 'GF80', installedOn: today.minus({ years: 7 }).toISODate()!, warrantyEndsOn: today.minus({ days: 1 }).toISODate()! })
+    .values({
+      propertyId: property!.id,
+      kind: 'gas_furnace',
+      make: 'Vellmar',
+      model: 'GF80',
+      installedOn: today.minus({ years: 7 }).toISODate()!,
+      warrantyEndsOn: today.minus({ days: 1 }).toISODate()!,
+    })
     .returning({ id: t.equipment.id });
 
   // Another home's equipment, to prove readings cannot be filed against it.
-  const [otherCustomer] = await db.insert(t.customers).values({ name: `${tag} neighbours` }).returning({ id: t.customers.id });
+  const [otherCustomer] = await db
+    .insert(t.customers)
+    .values({ name: `${tag} neighbours` })
+    .returning({ id: t.customers.id });
   const [otherProperty] = await db
     .insert(t.properties)
     .values({ customerId: otherCustomer!.id, street: '14 Test Furrow Lane', city: 'Larkspur Bend', state: 'MO', zip: '64790' })
@@ -101,7 +122,15 @@ async function fixture(ctx: TestContext): Promise<Fixture> {
   const startsOn = today.minus({ days: 100 });
   const [agreement] = await db
     .insert(t.agreements)
-    .values({ customerId: customer!.id, propertyId: property!.id, planVersionId: pv!.id, status: 'active', startsOn: startsOn.toISODate()!, endsOn: startsOn.plus({ years: 1 }).toISODate()!, priceCents: 25900 })
+    .values({
+      customerId: customer!.id,
+      propertyId: property!.id,
+      planVersionId: pv!.id,
+      status: 'active',
+      startsOn: startsOn.toISODate()!,
+      endsOn: startsOn.plus({ years: 1 }).toISODate()!,
+      priceCents: 25900,
+    })
     .returning({ id: t.agreements.id });
 
   const at = (day: DateTime, hour: number, minutes: number) => {
@@ -126,7 +155,17 @@ async function fixture(ctx: TestContext): Promise<Fixture> {
   const past = today.minus({ days: 20 });
   const [pastVisit] = await db
     .insert(t.visits)
-    .values({ ...base, technicianId: otherTechId, kind: 'tune_up', reason: 'tune_up', status: 'done', findings: 'Flame sensor cleaned.', recommendations: 'Coil cleaning recommended.', completedAt: past.set({ hour: 11 }).toJSDate(), ...at(past, 9, 90) })
+    .values({
+      ...base,
+      technicianId: otherTechId,
+      kind: 'tune_up',
+      reason: 'tune_up',
+      status: 'done',
+      findings: 'Flame sensor cleaned.',
+      recommendations: 'Coil cleaning recommended.',
+      completedAt: past.set({ hour: 11 }).toJSDate(),
+      ...at(past, 9, 90),
+    })
     .returning({ id: t.visits.id });
 
   return {
@@ -166,8 +205,16 @@ afterAll(async () => {
   await ctx.close();
 });
 
-const put = (s: Signed, url: string, body: unknown) => s.agent.put(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
-const post = (s: Signed, url: string, body: unknown) => s.agent.post(url).set('X-XSRF-TOKEN', s.csrf).send(body as object);
+const put = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .put(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
+const post = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .post(url)
+    .set('X-XSRF-TOKEN', s.csrf)
+    .send(body as object);
 
 describe('access to the field API', () => {
   it('answers 401 without a session and 403 to a homeowner', async () => {
@@ -203,7 +250,7 @@ describe("today's visits", () => {
     expect(first.planStatus).toEqual({ covered: true, label: 'Priority Comfort · Active' });
   });
 
-  it('lets the owner open any technician\'s visit and see every assigned visit today', async () => {
+  it("lets the owner open any technician's visit and see every assigned visit today", async () => {
     const owner = await signInStaff(ctx, 'rosalind.okafor@bluestem-comfort.test');
     const list = await owner.agent.get('/api/field/visits/today').expect(200);
     const ids = list.body.visits.map((v: { id: string }) => v.id);
@@ -236,7 +283,12 @@ describe('visit page', () => {
     expect(page.troubleshootingKind).toBe('no_cooling');
     expect(page.season).toBe('cooling');
     // The seeded company's $89.00 diagnostic fee, waived on this plan.
-    expect(page.coverage).toMatchObject({ covered: true, planName: 'Priority Comfort', repairDiscountBps: 1500, diagnosticFee: { applies: true, feeCents: 8900, waived: true, chargeCents: 0 } });
+    expect(page.coverage).toMatchObject({
+      covered: true,
+      planName: 'Priority Comfort',
+      repairDiscountBps: 1500,
+      diagnosticFee: { applies: true, feeCents: 8900, waived: true, chargeCents: 0 },
+    });
     const ids = page.cautions.map((c: { id: string }) => c.id);
     expect(ids).toEqual(expect.arrayContaining(['refrigerant_certification', 'electrical_power_and_capacitors', 'fuel_burning_equipment']));
     for (const c of page.cautions) expect(c.text).toMatch(/local|licensed/i);
@@ -287,7 +339,10 @@ describe('readings', () => {
   it('replaces the first copy when the same save is retried', async () => {
     await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings }).expect(200);
     await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings }).expect(200);
-    const rows = await ctx.database.db.select().from(t.visitReadings).where(and(eq(t.visitReadings.visitId, f.callId), eq(t.visitReadings.equipmentId, f.condenserId)));
+    const rows = await ctx.database.db
+      .select()
+      .from(t.visitReadings)
+      .where(and(eq(t.visitReadings.visitId, f.callId), eq(t.visitReadings.equipmentId, f.condenserId)));
     expect(rows).toHaveLength(1);
     const page = await tech.agent.get(`/api/field/visits/${f.callId}`).expect(200);
     expect(page.body.readings).toHaveLength(1);
@@ -295,11 +350,17 @@ describe('readings', () => {
   });
 
   it('refuses impossible readings with the field named', async () => {
-    let res = await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings: { mode: 'cooling', returnDryBulbF: 70, supplyDryBulbF: 80 } }).expect(422);
+    let res = await put(tech, `/api/field/visits/${f.callId}/readings`, {
+      equipmentId: f.condenserId,
+      readings: { mode: 'cooling', returnDryBulbF: 70, supplyDryBulbF: 80 },
+    }).expect(422);
     expect(Object.keys(res.body.error.fields)).toContain('readings.supplyDryBulbF');
     res = await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings: { returnDryBulbF: 75, returnRelativeHumidityPct: 120 } }).expect(422);
     expect(res.body.error.fields['readings.returnRelativeHumidityPct']).toMatch(/100/);
-    res = await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.condenserId, readings: { suctionPressurePsig: -20, suctionLineTempF: 50, refrigerant: 'R-410A' } }).expect(422);
+    res = await put(tech, `/api/field/visits/${f.callId}/readings`, {
+      equipmentId: f.condenserId,
+      readings: { suctionPressurePsig: -20, suctionLineTempF: 50, refrigerant: 'R-410A' },
+    }).expect(422);
     expect(res.body.error.fields['readings.suctionPressurePsig']).toMatch(/vacuum/);
     res = await put(tech, `/api/field/visits/${f.callId}/readings`, { equipmentId: f.foreignEquipmentId, readings: { returnDryBulbF: 75 } }).expect(422);
     expect(res.body.error.fields).toHaveProperty('equipmentId');
@@ -325,9 +386,15 @@ describe('checklist and troubleshooting', () => {
     expect(saved[1]).toMatchObject({ id: b.id, result: 'needs_attention', note: 'Fins flattened on the north face' });
     expect(saved[2].result).toBeNull();
 
-    const bad = await put(tech, `/api/field/visits/${f.tuneUpId}/checklist`, { season: 'cooling', items: [{ equipmentId: f.condenserId, itemId: 'gf.burners', result: 'done' }] }).expect(422);
+    const bad = await put(tech, `/api/field/visits/${f.tuneUpId}/checklist`, {
+      season: 'cooling',
+      items: [{ equipmentId: f.condenserId, itemId: 'gf.burners', result: 'done' }],
+    }).expect(422);
     expect(bad.body.error.fields).toHaveProperty(['items.0.itemId']);
-    const wrong = await put(tech, `/api/field/visits/${f.tuneUpId}/checklist`, { season: 'cooling', items: [{ equipmentId: f.condenserId, itemId: a.id, result: 'maybe' }] }).expect(422);
+    const wrong = await put(tech, `/api/field/visits/${f.tuneUpId}/checklist`, {
+      season: 'cooling',
+      items: [{ equipmentId: f.condenserId, itemId: a.id, result: 'maybe' }],
+    }).expect(422);
     expect(wrong.body.error.fields).toHaveProperty(['items.0.result']);
   });
 
@@ -351,7 +418,9 @@ describe('checklist and troubleshooting', () => {
 
 describe('photos', () => {
   it('shows photos uploaded against the visit on the visit page', async () => {
-    const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: { r: 120, g: 140, b: 90 } } }).png().toBuffer();
+    const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: { r: 120, g: 140, b: 90 } } })
+      .png()
+      .toBuffer();
     await tech.agent
       .post('/api/files')
       .set('X-XSRF-TOKEN', tech.csrf)
@@ -414,7 +483,7 @@ describe('completing the visit', () => {
     expect(locked.body.error.code).toBe('conflict');
   });
 
-  it('closes a tune-up only with a reason for its open checklist items, and a repair only with the homeowner\'s signature, and keeps both', async () => {
+  it("closes a tune-up only with a reason for its open checklist items, and a repair only with the homeowner's signature, and keeps both", async () => {
     await post(tech, `/api/dispatch/visits/${f.tuneUpId}/status`, { status: 'on_the_way' }).expect(200);
     await post(tech, `/api/dispatch/visits/${f.tuneUpId}/status`, { status: 'on_site' }).expect(200);
     const findings = { findings: 'System cleaned and checked.', recommendations: '' };
@@ -422,18 +491,35 @@ describe('completing the visit', () => {
     const unexplained = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, findings).expect(422);
     expect(unexplained.body.error.fields.skippedReason).toMatch(/^Say why these \d+ checklist items were skipped: /);
 
-    const unsigned = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true }).expect(422);
+    const unsigned = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true }).expect(
+      422,
+    );
     expect(unsigned.body.error.fields).toEqual({ signature: expect.stringMatching(/homeowner signs/) });
 
-    const badImage = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, repairDone: true, signature: { image: 'data:text/html;base64,PHA+', signedBy: 'Dana' } }).expect(422);
+    const badImage = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, {
+      ...findings,
+      repairDone: true,
+      signature: { image: 'data:text/html;base64,PHA+', signedBy: 'Dana' },
+    }).expect(422);
     expect(badImage.body.error.fields['signature.image']).toMatch(/PNG/);
 
     // 1×1 transparent PNG (PNG specification: signature, IHDR, IDAT, IEND).
     const image = 'data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAQAAAC1HAwCAAAAC0lEQVR42mNkYAAAAAYAAjCB0C8AAAAASUVORK5CYII=';
-    const done = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, { ...findings, skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true, signature: { image, signedBy: 'Dana Whitfield' } }).expect(200);
+    const done = await post(tech, `/api/field/visits/${f.tuneUpId}/complete`, {
+      ...findings,
+      skippedReason: 'Homeowner asked us to skip the attic.',
+      repairDone: true,
+      signature: { image, signedBy: 'Dana Whitfield' },
+    }).expect(200);
     expect(done.body.status).toBe('done');
     const [row] = await ctx.database.db
-      .select({ skippedReason: t.visits.skippedReason, repairDone: t.visits.repairDone, signatureImage: t.visits.signatureImage, signedBy: t.visits.signedBy, signedAt: t.visits.signedAt })
+      .select({
+        skippedReason: t.visits.skippedReason,
+        repairDone: t.visits.repairDone,
+        signatureImage: t.visits.signatureImage,
+        signedBy: t.visits.signedBy,
+        signedAt: t.visits.signedAt,
+      })
       .from(t.visits)
       .where(eq(t.visits.id, f.tuneUpId));
     expect(row).toMatchObject({ skippedReason: 'Homeowner asked us to skip the attic.', repairDone: true, signatureImage: image, signedBy: 'Dana Whitfield' });

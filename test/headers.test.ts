@@ -31,11 +31,12 @@ function csp(res: request.Response): Record<string, string[]> {
   );
 }
 
-const answers = (ctx: typeof dev) => [
-  ['a page', () => request(ctx.app).get('/portal')],
-  ['an API answer', () => request(ctx.app).get('/api/health')],
-  ['an API error', () => request(ctx.app).get('/api/no-such-thing')],
-] as const;
+const answers = (ctx: typeof dev) =>
+  [
+    ['a page', () => request(ctx.app).get('/portal')],
+    ['an API answer', () => request(ctx.app).get('/api/health')],
+    ['an API error', () => request(ctx.app).get('/api/no-such-thing')],
+  ] as const;
 
 describe.each([
   ['development', dev],

@@ -35,7 +35,10 @@ describe('seasonwell/own-tables', () => {
       {
         filename: at('server/imports/csv.service.ts'),
         code: "import { customers, equipment as units } from '../db/schema'; await tx.insert(customers).values({}); await tx.insert(units).values({});",
-        errors: [{ messageId: 'foreign', data: { feature: 'imports', table: 'customers', owner: 'customers' } }, { messageId: 'foreign', data: { feature: 'imports', table: 'equipment', owner: 'equipment' } }],
+        errors: [
+          { messageId: 'foreign', data: { feature: 'imports', table: 'customers', owner: 'customers' } },
+          { messageId: 'foreign', data: { feature: 'imports', table: 'equipment', owner: 'equipment' } },
+        ],
       },
       {
         filename: at('server/dispatch/dispatch.service.ts'),

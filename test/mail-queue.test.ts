@@ -92,11 +92,17 @@ describe('the mail queue', () => {
   it('leaves a mail claimed by a live worker to it, and takes over a claim gone stale', async () => {
     const to = address('claimed');
     const id = await recordMail(ctx.deps, { kind: 'test_notice', message: { to, subject: 'Claimed', text: 'Hello.' } });
-    await ctx.database.db.update(t.mailSends).set({ status: 'sending', attempts: 1, claimedAt: new Date(now.getTime() - 10_000) }).where(eq(t.mailSends.id, id!));
+    await ctx.database.db
+      .update(t.mailSends)
+      .set({ status: 'sending', attempts: 1, claimedAt: new Date(now.getTime() - 10_000) })
+      .where(eq(t.mailSends.id, id!));
     // Thrown, so the job is retried later rather than finished with the mail unsent.
     await expect(deliverMail(ctx.deps, id!)).rejects.toThrow(/another worker/);
     expect(store.list({ to })).toHaveLength(0);
-    await ctx.database.db.update(t.mailSends).set({ claimedAt: new Date(now.getTime() - 3 * 60_000) }).where(eq(t.mailSends.id, id!));
+    await ctx.database.db
+      .update(t.mailSends)
+      .set({ claimedAt: new Date(now.getTime() - 3 * 60_000) })
+      .where(eq(t.mailSends.id, id!));
     expect(await deliverMail(ctx.deps, id!)).toBe('sent');
     const [row] = await rowsFor(to);
     expect(row).toMatchObject({ status: 'sent', attempts: 2 });
@@ -118,7 +124,10 @@ describe('the mail queue', () => {
   it('keeps attachments byte for byte', async () => {
     const to = address('attach');
     const bytes = Buffer.from([0x25, 0x50, 0x44, 0x46, 0x00, 0xff, 0x10]);
-    await queueMail(ctx.deps, { kind: 'test_notice', message: { to, subject: 'Attached', text: 'See the file.', attachments: [{ filename: 'x.pdf', content: bytes, contentType: 'application/pdf' }] } });
+    await queueMail(ctx.deps, {
+      kind: 'test_notice',
+      message: { to, subject: 'Attached', text: 'See the file.', attachments: [{ filename: 'x.pdf', content: bytes, contentType: 'application/pdf' }] },
+    });
     const mail = await until('the mail with its file', async () => store.latest({ to }));
     expect(Buffer.compare(mail.attachments[0].content, bytes)).toBe(0);
   });
@@ -172,7 +181,11 @@ describe('sign-in links through the queue', () => {
     // An address of its own (IPv6 documentation range, RFC 3849), so no other test's requests count against it.
     const { agent, csrf } = await anonymous(ctx);
     const t0 = performance.now();
-    const res = await agent.post('/api/auth/link').set('X-XSRF-TOKEN', csrf).set('X-Forwarded-For', `2001:db8:${randomUUID().slice(0, 4)}::77`).send({ email });
+    const res = await agent
+      .post('/api/auth/link')
+      .set('X-XSRF-TOKEN', csrf)
+      .set('X-Forwarded-For', `2001:db8:${randomUUID().slice(0, 4)}::77`)
+      .send({ email });
     const ms = performance.now() - t0;
     expect(res.status).toBe(202);
     // Generous for a loaded machine; an SMTP timeout is 10 s and more.
@@ -192,13 +205,29 @@ describe('the day-before reminder', () => {
     const db = ctx.database.db;
     const tag = randomUUID().slice(0, 8);
     const email = `reminder-${tag}@example.test`;
-    const [c] = await db.insert(t.customers).values({ name: `Reminder household ${tag}`, email }).returning();
-    const [p] = await db.insert(t.properties).values({ customerId: c.id, street: `${tag} Queue Row`, city: 'Larkspur Bend', state: 'MO', zip: '64790', area: 'Riverside' }).returning();
+    const [c] = await db
+      .insert(t.customers)
+      .values({ name: `Reminder household ${tag}`, email })
+      .returning();
+    const [p] = await db
+      .insert(t.properties)
+      .values({ customerId: c.id, street: `${tag} Queue Row`, city: 'Larkspur Bend', state: 'MO', zip: '64790', area: 'Riverside' })
+      .returning();
     // Far from any other test's visits, so this run claims only this one.
     const start = new Date(Date.UTC(2033, 2, 9 + Math.floor(Math.random() * 300), 15));
     const [v] = await db
       .insert(t.visits)
-      .values({ customerId: c.id, propertyId: p.id, kind: 'tune_up', reason: 'tune_up', status: 'scheduled', windowStart: start, windowEnd: new Date(start.getTime() + 2 * 3_600_000), startsAt: start, endsAt: new Date(start.getTime() + 5_400_000) })
+      .values({
+        customerId: c.id,
+        propertyId: p.id,
+        kind: 'tune_up',
+        reason: 'tune_up',
+        status: 'scheduled',
+        windowStart: start,
+        windowEnd: new Date(start.getTime() + 2 * 3_600_000),
+        startsAt: start,
+        endsAt: new Date(start.getTime() + 5_400_000),
+      })
       .returning();
     now = new Date(start.getTime() - 20 * 3_600_000);
     try {

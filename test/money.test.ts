@@ -18,12 +18,9 @@ import {
 describe('formatUsd', () => {
   // Reference: ICU's en-US currency format through Intl.NumberFormat.
   const icu = new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' });
-  it.each([0, 1, 5, 99, 100, 19_900, 123_456, 100_000_000, 987_654_321_01, -1_200, -5])(
-    'formats %i cents like ICU en-US',
-    (cents) => {
-      expect(formatUsd(cents)).toBe(icu.format(cents / 100));
-    },
-  );
+  it.each([0, 1, 5, 99, 100, 19_900, 123_456, 100_000_000, 987_654_321_01, -1_200, -5])('formats %i cents like ICU en-US', (cents) => {
+    expect(formatUsd(cents)).toBe(icu.format(cents / 100));
+  });
 
   it('stays exact past the point where cents / 100 as a double loses the last cent', () => {
     expect(formatUsd(9_007_199_254_740_899)).toBe('$90,071,992,547,408.99');
@@ -155,8 +152,7 @@ describe('invoiceTotals', () => {
   });
 
   it('names the offending line and field', () => {
-    const bad = (line: Partial<InvoiceLine>) =>
-      () => invoiceTotals({ lines: [repairInvoice[0]!, { ...repairInvoice[0]!, ...line }], taxRateBps: 825 });
+    const bad = (line: Partial<InvoiceLine>) => () => invoiceTotals({ lines: [repairInvoice[0]!, { ...repairInvoice[0]!, ...line }], taxRateBps: 825 });
     expect(bad({ unitCents: 48.5 })).toThrow(/lines\[1\]\.unitCents/);
     expect(bad({ quantity: -2 })).toThrow(/lines\[1\]\.quantity/);
     expect(bad({ kind: 'refund' as never })).toThrow(/lines\[1\]\.kind/);

@@ -50,7 +50,17 @@ async function startApi(): Promise<Api> {
   const port = await freePort();
   const child = spawn(process.execPath, [join(ROOT, 'dist', 'server', 'main.js')], {
     cwd: ROOT,
-    env: { PATH: process.env.PATH, NODE_ENV: 'test', HOST: '127.0.0.1', PORT: String(port), DATABASE_URL: dbUrl, LOG_LEVEL: 'warn', SMTP_URL: 'smtp://127.0.0.1:9', STORAGE_DIR: storage, RUN_JOBS: 'false' },
+    env: {
+      PATH: process.env.PATH,
+      NODE_ENV: 'test',
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      DATABASE_URL: dbUrl,
+      LOG_LEVEL: 'warn',
+      SMTP_URL: 'smtp://127.0.0.1:9',
+      STORAGE_DIR: storage,
+      RUN_JOBS: 'false',
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   const api: Api = { child, url: `http://127.0.0.1:${port}`, output: '' };
@@ -58,7 +68,13 @@ async function startApi(): Promise<Api> {
   child.stderr!.on('data', (c) => (api.output += c));
   for (let i = 0; i < 300; i++) {
     if (child.exitCode !== null) throw new Error(`the API exited ${child.exitCode}:\n${api.output}`);
-    if (await fetch(`${api.url}/api/health`).then((r) => r.ok, () => false)) return api;
+    if (
+      await fetch(`${api.url}/api/health`).then(
+        (r) => r.ok,
+        () => false,
+      )
+    )
+      return api;
     await sleep(200);
   }
   throw new Error(`the API did not answer:\n${api.output}`);
@@ -71,7 +87,12 @@ class Browser {
   async call(api: Api, method: string, path: string, body?: unknown, headers: Record<string, string> = {}) {
     const res = await fetch(`${api.url}${path}`, {
       method,
-      headers: { ...headers, cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '), ...(body ? { 'content-type': 'application/json' } : {}), ...(this.csrf ? { 'x-xsrf-token': this.csrf } : {}) },
+      headers: {
+        ...headers,
+        cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '),
+        ...(body ? { 'content-type': 'application/json' } : {}),
+        ...(this.csrf ? { 'x-xsrf-token': this.csrf } : {}),
+      },
       body: body ? JSON.stringify(body) : undefined,
     });
     for (const c of res.headers.getSetCookie()) {
@@ -81,7 +102,7 @@ class Browser {
     }
     const token = csrfFrom({ headers: { 'set-cookie': res.headers.getSetCookie() } });
     if (token) this.csrf = token;
-    return { status: res.status, body: (await res.json().catch(() => null)) as Record<string, any> | null };
+    return { status: res.status, body: (await res.json().catch(() => null)) as Record<string, any> | null }; // eslint-disable-line @typescript-eslint/no-explicit-any -- JSON bodies of many shapes, read field by field in the checks
   }
 }
 
@@ -126,21 +147,34 @@ describe('two API processes on one database', () => {
     await me.call(a, 'GET', '/api/session');
     const statuses: number[] = [];
     for (const api of [a, b, a, b]) statuses.push((await me.call(api, 'POST', '/api/auth/password/forgot', { email: 'rosalind.okafor@bluestem-comfort.test' })).status);
-    expect(statuses.slice(0, 3).every((s) => s < 300), `answers ${statuses}`).toBe(true);
+    expect(
+      statuses.slice(0, 3).every((s) => s < 300),
+      `answers ${statuses}`,
+    ).toBe(true);
     expect(statuses[3]).toBe(429);
   });
 });
 
 /** A renewal worker process (test/support/renewal-worker.ts): ready once connected, done with its output. */
 function worker(env: Record<string, string>) {
-  const p = spawn(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'test', 'support', 'renewal-worker.ts')], { cwd: ROOT, env: { PATH: process.env.PATH, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  const p = spawn(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'test', 'support', 'renewal-worker.ts')], {
+    cwd: ROOT,
+    env: { PATH: process.env.PATH, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let out = '';
   p.stdout!.on('data', (c) => (out += c));
   p.stderr!.on('data', (c) => (out += c));
   const ready = new Promise<void>((r) => p.stdout!.on('data', () => out.includes('ready') && r()));
   const exit = new Promise<{ code: number | null; signal: NodeJS.Signals | null; out: string }>((r) => p.on('exit', (code, signal) => r({ code, signal, out })));
   const done = () => exit.then(({ code, out: o }) => (code === 0 ? o : Promise.reject(new Error(`worker exited ${code}:\n${o}`))));
-  return { ready, get done() { return done(); }, exit };
+  return {
+    ready,
+    get done() {
+      return done();
+    },
+    exit,
+  };
 }
 
 describe('two renewal workers as separate processes', () => {

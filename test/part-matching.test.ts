@@ -53,7 +53,8 @@ const motor = (over: Record<string, unknown>, location?: PartCandidate['location
 const cap = (over: Partial<Record<keyof PartSpecInput & string, unknown>> & Record<string, unknown>, location?: PartCandidate['location'], quantity?: number) =>
   part({ category: 'capacitor', microfarads: '7.5', volts: 370, shape: 'round', ...over }, location, quantity);
 
-const search = (candidates: PartCandidate[], f: typeof failed | ReturnType<typeof failedCapacitorSchema.parse> = failed) => findReplacements({ failed: f, candidates, thisTruckId: MY_TRUCK.id });
+const search = (candidates: PartCandidate[], f: typeof failed | ReturnType<typeof failedCapacitorSchema.parse> = failed) =>
+  findReplacements({ failed: f, candidates, thisTruckId: MY_TRUCK.id });
 const reasonsOf = (r: ReturnType<typeof search>, c: PartCandidate) => r.refused.find((x) => x.candidate === c)?.reasons.map((x) => `${x.field}: ${x.text}`);
 
 describe('finding a replacement motor', () => {
@@ -150,7 +151,7 @@ describe('finding a replacement motor', () => {
     expect(search([motor({ volts: '230' })], { ...failed, supplyVolts: 240 }).fits).toHaveLength(1);
     // Without the supply, the old 208–230 V rating must be covered in full: 230 V alone does not.
     const r = search([motor({ volts: '230' })], { ...failed, supplyVolts: null });
-    expect(r.refused[0]!.reasons[0]!.text).toBe("Rated 230 V; the old motor ran on 208–230 V. Measure the supply to match on it alone.");
+    expect(r.refused[0]!.reasons[0]!.text).toBe('Rated 230 V; the old motor ran on 208–230 V. Measure the supply to match on it alone.');
   });
 
   it('refuses a motor rated for more amps than the old one, saying why', () => {
@@ -187,9 +188,13 @@ describe('finding a replacement motor', () => {
     expect(fit.needs).toContain('Speed taps: use the same taps as the old motor (medium and low); tape off the unused high, medium-high and medium-low leads.');
     // Old 3-speed high and medium on a 4-speed: medium sits halfway down, which lands on medium-low.
     const fourSpeed = motor({ speeds: 4 });
-    expect(search([fourSpeed], { ...failed, tapsInUse: ['high', 'medium'] }).fits[0]!.needs).toContain('Speed taps: old high → high, old medium → medium-low; tape off the unused medium-high and low leads.');
+    expect(search([fourSpeed], { ...failed, tapsInUse: ['high', 'medium'] }).fits[0]!.needs).toContain(
+      'Speed taps: old high → high, old medium → medium-low; tape off the unused medium-high and low leads.',
+    );
     // Taps not noted: the wiring is said in general.
-    expect(search([fourSpeed], { ...failed, tapsInUse: [] }).fits[0]!.needs).toContain("Speed taps: wire the 2 calls to the taps that match the old motor's (the highest stays on high), and tape off the 2 unused leads.");
+    expect(search([fourSpeed], { ...failed, tapsInUse: [] }).fits[0]!.needs).toContain(
+      "Speed taps: wire the 2 calls to the taps that match the old motor's (the highest stays on high), and tape off the 2 unused leads.",
+    );
     expect(fit.needs).toContain('Fit a shaft bushing: the wheel hub is bored for the larger old shaft.');
     expect(fit.needs).toContain("Check that the wheel's set screw still lands on the shorter shaft's flat.");
     expect(fit.differs.map((d) => d.field)).toEqual(['speeds', 'shaft', 'frame']);
@@ -242,6 +247,8 @@ describe('finding a replacement capacitor', () => {
 
   it('refuses a single can for a dual one, pointing to two singles', () => {
     const single = cap({ microfarads: '40' });
-    expect(reasonsOf(search([single], dual), single)![0]).toBe('microfarads: A single 40 µF can; the old one is a dual 40/5 µF. Two single capacitors can stand in for it: search for each section.');
+    expect(reasonsOf(search([single], dual), single)![0]).toBe(
+      'microfarads: A single 40 µF can; the old one is a dual 40/5 µF. Two single capacitors can stand in for it: search for each section.',
+    );
   });
 });

@@ -32,18 +32,34 @@ describe('plan tiers', () => {
   it('the owner creates a tier; editing its terms writes version 2 and an agreement sold on version 1 keeps it', async () => {
     const owner = await staff(h, OWNER);
     const code = `hp-care-${randomUUID().slice(0, 6)}`;
-    const created = await owner.agent.post('/api/plans').set(CSRF_HEADER_NAME, owner.csrf).send({ ...terms, code }).expect(201);
+    const created = await owner.agent
+      .post('/api/plans')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...terms, code })
+      .expect(201);
     expect(created.body).toMatchObject({ code, version: 1, yearlyPriceCents: 21900, repairDiscountBps: 1250 });
 
     const hh = await newHousehold(h, 'plans');
-    const enrolled = await hh.homeowner.agent.post('/api/agreements/enroll').set(CSRF_HEADER_NAME, hh.homeowner.csrf).send({ propertyId: hh.propertyId, planId: created.body.id }).expect(201);
+    const enrolled = await hh.homeowner.agent
+      .post('/api/agreements/enroll')
+      .set(CSRF_HEADER_NAME, hh.homeowner.csrf)
+      .send({ propertyId: hh.propertyId, planId: created.body.id })
+      .expect(201);
     await payOnHostedPage(enrolled.body.checkoutUrl, '4242424242424242');
     await h.fake.fake.webhooksIdle();
 
-    const edited = await owner.agent.put(`/api/plans/${created.body.id}`).set(CSRF_HEADER_NAME, owner.csrf).send({ ...terms, yearlyPriceCents: 23900, repairDiscountBps: 1500 }).expect(200);
+    const edited = await owner.agent
+      .put(`/api/plans/${created.body.id}`)
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...terms, yearlyPriceCents: 23900, repairDiscountBps: 1500 })
+      .expect(200);
     expect(edited.body).toMatchObject({ version: 2, yearlyPriceCents: 23900 });
     // Saving the same terms again writes no new version.
-    const same = await owner.agent.put(`/api/plans/${created.body.id}`).set(CSRF_HEADER_NAME, owner.csrf).send({ ...terms, yearlyPriceCents: 23900, repairDiscountBps: 1500 }).expect(200);
+    const same = await owner.agent
+      .put(`/api/plans/${created.body.id}`)
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...terms, yearlyPriceCents: 23900, repairDiscountBps: 1500 })
+      .expect(200);
     expect(same.body.version).toBe(2);
 
     const [a] = await h.ctx.database.db.select().from(agreements).where(eq(agreements.id, enrolled.body.agreementId));
@@ -64,7 +80,11 @@ describe('plan tiers', () => {
   it('a tier taken off offer is hidden from homeowners and cannot be joined', async () => {
     const owner = await staff(h, OWNER);
     const code = `retired-${randomUUID().slice(0, 6)}`;
-    const created = await owner.agent.post('/api/plans').set(CSRF_HEADER_NAME, owner.csrf).send({ ...terms, name: 'Retired Tier', code }).expect(201);
+    const created = await owner.agent
+      .post('/api/plans')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...terms, name: 'Retired Tier', code })
+      .expect(201);
     await owner.agent.patch(`/api/plans/${created.body.id}`).set(CSRF_HEADER_NAME, owner.csrf).send({ active: false }).expect(200);
     const hh = await newHousehold(h, 'retired');
     const list = await hh.homeowner.agent.get('/api/plans').expect(200);
@@ -78,9 +98,16 @@ describe('plan tiers', () => {
 
   it('only the owner edits tiers, and bad terms are named field by field', async () => {
     const office = await staff(h);
-    await office.agent.post('/api/plans').set(CSRF_HEADER_NAME, office.csrf).send({ ...terms, code: 'nope-office' }).expect(403);
+    await office.agent
+      .post('/api/plans')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ ...terms, code: 'nope-office' })
+      .expect(403);
     const owner = await staff(h, OWNER);
-    const bad = await owner.agent.post('/api/plans').set(CSRF_HEADER_NAME, owner.csrf).send({ ...terms, code: 'Bad Code', yearlyPriceCents: 199.5, repairDiscountBps: 12000, priorityWindowHours: 0 });
+    const bad = await owner.agent
+      .post('/api/plans')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...terms, code: 'Bad Code', yearlyPriceCents: 199.5, repairDiscountBps: 12000, priorityWindowHours: 0 });
     expect(bad.status).toBe(422);
     expect(Object.keys(bad.body.error.fields)).toEqual(expect.arrayContaining(['code', 'yearlyPriceCents', 'repairDiscountBps', 'priorityWindowHours']));
   });

@@ -55,7 +55,17 @@ describe('price-book CSV rows', () => {
   });
 
   it('exports every column and imports the export back unchanged', () => {
-    const capacitor = valueOf({ sku: 'CAP-40-5-R', name: 'Capacitor 40/5 µF 370 V round', kind: 'part', category: 'capacitor', unit_price: '47.99', taxable: 'yes', microfarads: '40/5', volts: '370', shape: 'round' });
+    const capacitor = valueOf({
+      sku: 'CAP-40-5-R',
+      name: 'Capacitor 40/5 µF 370 V round',
+      kind: 'part',
+      category: 'capacitor',
+      unit_price: '47.99',
+      taxable: 'yes',
+      microfarads: '40/5',
+      volts: '370',
+      shape: 'round',
+    });
     const labor = valueOf({ sku: 'LAB-HR', name: 'Repair labor, per hour', kind: 'labor', category: 'repair_labor', unit: 'hour', unit_price: '120' });
     expect(labor.taxable).toBe(false);
     for (const item of [valueOf(motorRow), capacitor, labor]) {
@@ -73,6 +83,8 @@ describe('price-book CSV rows', () => {
     expect(itemFromRow({ ...motorRow, shaft_length: '40' }).problems).toEqual([{ field: 'shaft_length', message: 'Shaft length is at most 12 in.' }]);
     expect(itemFromRow({ ...motorRow, capacitor_taps: '1:10' }).problems).toEqual([{ field: 'capacitor_taps', message: "Tap 1 hp is outside the motor's horsepower." }]);
     expect(itemFromRow({ ...motorRow, category: 'gizmo' }).problems).toEqual([{ field: 'category', message: 'Choose a category from the price book.' }]);
-    expect(itemFromRow({ sku: 'CAP-X', name: 'Cap', kind: 'part', category: 'cap', unit_price: '10', microfarads: '40', volts: '370', shape: 'square' }).problems).toEqual([{ field: 'shape', message: 'Shape is round or oval.' }]);
+    expect(itemFromRow({ sku: 'CAP-X', name: 'Cap', kind: 'part', category: 'cap', unit_price: '10', microfarads: '40', volts: '370', shape: 'square' }).problems).toEqual([
+      { field: 'shape', message: 'Shape is round or oval.' },
+    ]);
   });
 });

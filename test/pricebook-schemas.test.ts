@@ -83,13 +83,25 @@ describe('part specifications by category', () => {
     expect(m.horsepower.max).toBe(m.horsepower.min);
     expect(m.volts).toEqual([{ min: 208, max: 230 }]);
     expect(m).toMatchObject({ application: 'indoor_blower', phase: 1, rpm: 1075, rotation: 'ccw', rotationViewedFrom: 'lead_end', fla: 2.8 });
-    const multi = motorSpecSchema.parse({ ...motor, horsepower: '1/6-1/2', rotation: 'reversible', rotationViewedFrom: null, taps: [{ horsepower: '1/6', microfarads: 5 }, { horsepower: '1/2', microfarads: 10, amps: 3.6 }] });
+    const multi = motorSpecSchema.parse({
+      ...motor,
+      horsepower: '1/6-1/2',
+      rotation: 'reversible',
+      rotationViewedFrom: null,
+      taps: [
+        { horsepower: '1/6', microfarads: 5 },
+        { horsepower: '1/2', microfarads: 10, amps: 3.6 },
+      ],
+    });
     expect(multi.horsepower.max).toBe(0.5);
     expect(multi.taps[1]).toEqual({ horsepower: 0.5, microfarads: 10, amps: 3.6 });
   });
 
   it('refuses a bad motor, naming each field', () => {
-    expect(problems(motorSpecSchema, { ...motor, horsepower: 'big' })).toEqual({ 'horsepower.min': 'Horsepower is a number like 1/3 or 0.5.', 'horsepower.max': 'Horsepower is a number like 1/3 or 0.5.' });
+    expect(problems(motorSpecSchema, { ...motor, horsepower: 'big' })).toEqual({
+      'horsepower.min': 'Horsepower is a number like 1/3 or 0.5.',
+      'horsepower.max': 'Horsepower is a number like 1/3 or 0.5.',
+    });
     expect(problems(motorSpecSchema, { ...motor, horsepower: '1/2-1/6' })).toEqual({ 'horsepower.max': 'Horsepower range goes from the smaller to the larger value.' });
     expect(problems(motorSpecSchema, { ...motor, phase: 2 })).toEqual({ phase: 'Phase is 1 or 3.' });
     expect(problems(motorSpecSchema, { ...motor, rpm: 5000 })).toEqual({ rpm: 'RPM is at most 3600.' });
@@ -98,14 +110,24 @@ describe('part specifications by category', () => {
     expect(problems(motorSpecSchema, { ...motor, rotationViewedFrom: null })).toEqual({ rotationViewedFrom: 'Say whether rotation is seen from the shaft end or the lead end.' });
     expect(problems(motorSpecSchema, { ...motor, fla: 0 })).toEqual({ fla: 'Rated amps (FLA) is at least 0.1 A.' });
     expect(problems(motorSpecSchema, { ...motor, shaft: { diameterIn: 0.5, lengthIn: 40 } })).toEqual({ 'shaft.lengthIn': 'Shaft length is at most 12 in.' });
-    expect(problems(motorSpecSchema, { ...motor, taps: [{ horsepower: '1/2', microfarads: 10 }] })).toEqual({ 'taps.0.horsepower': "Tap 1/2 hp is outside the motor's horsepower." });
+    expect(problems(motorSpecSchema, { ...motor, taps: [{ horsepower: '1/2', microfarads: 10 }] })).toEqual({
+      'taps.0.horsepower': "Tap 1/2 hp is outside the motor's horsepower.",
+    });
     expect(problems(motorSpecSchema, { ...motor, capacitorVolts: null })).toEqual({ capacitorVolts: 'Give the capacitor volts (370 or 440) for the horsepower taps.' });
   });
 
   it('accepts a capacitor of one or two sections and refuses bad ones, naming the field', () => {
-    expect(capacitorSpecSchema.parse({ category: 'capacitor', microfarads: '40/5', volts: 440, shape: 'Oval' })).toEqual({ category: 'capacitor', microfarads: [40, 5], volts: 440, shape: 'oval', tolerancePct: 6 });
+    expect(capacitorSpecSchema.parse({ category: 'capacitor', microfarads: '40/5', volts: 440, shape: 'Oval' })).toEqual({
+      category: 'capacitor',
+      microfarads: [40, 5],
+      volts: 440,
+      shape: 'oval',
+      tolerancePct: 6,
+    });
     expect(capacitorSpecSchema.parse({ category: 'capacitor', microfarads: '7.5 MFD', volts: '370', shape: 'round', tolerancePct: 5 }).microfarads).toEqual([7.5]);
-    expect(problems(capacitorSpecSchema, { category: 'capacitor', microfarads: '40/5/5', volts: 370, shape: 'round' })).toEqual({ microfarads: 'A capacitor has one or two sections, like 40/5.' });
+    expect(problems(capacitorSpecSchema, { category: 'capacitor', microfarads: '40/5/5', volts: 370, shape: 'round' })).toEqual({
+      microfarads: 'A capacitor has one or two sections, like 40/5.',
+    });
     expect(problems(capacitorSpecSchema, { category: 'capacitor', microfarads: '40', volts: 370, shape: 'square' })).toEqual({ shape: 'Shape is round or oval.' });
     expect(problems(capacitorSpecSchema, { category: 'capacitor', microfarads: '40', volts: 50, shape: 'round' })).toEqual({ volts: 'Capacitor volts is at least 110.' });
     expect(problems(capacitorSpecSchema, { category: 'capacitor', microfarads: 'x', volts: 370, shape: 'round' })).toEqual({ 'microfarads.0': 'Capacitor µF is a number.' });
@@ -128,7 +150,17 @@ describe('part specifications by category', () => {
 });
 
 describe('price-book items and tasks', () => {
-  const item = { sku: 'cap-45-5-r', name: 'Capacitor 45/5 µF 440 V round', kind: 'part', category: 'capacitor', unitCents: 4_799, costCents: 1_250, taxable: true, partsWarrantyMonths: 12, spec: { category: 'capacitor', microfarads: '45/5', volts: 440, shape: 'round' } };
+  const item = {
+    sku: 'cap-45-5-r',
+    name: 'Capacitor 45/5 µF 440 V round',
+    kind: 'part',
+    category: 'capacitor',
+    unitCents: 4_799,
+    costCents: 1_250,
+    taxable: true,
+    partsWarrantyMonths: 12,
+    spec: { category: 'capacitor', microfarads: '45/5', volts: 440, shape: 'round' },
+  };
 
   it('accepts an item with defaults and an upper-case SKU', () => {
     expect(priceBookItemInputSchema.parse(item)).toMatchObject({ sku: 'CAP-45-5-R', unit: 'each', active: true, spec: { microfarads: [45, 5] } });
@@ -137,11 +169,25 @@ describe('price-book items and tasks', () => {
   it('refuses prices over the line maximum, a kind that does not fit the category, and a spec of another category', () => {
     expect(problems(priceBookItemInputSchema, { ...item, unitCents: 100_000_000 })).toEqual({ unitCents: 'Unit price can be at most $999,999.99.' });
     expect(problems(priceBookItemInputSchema, { ...item, unitCents: 12.5 })).toEqual({ unitCents: 'Unit price must be whole cents.' });
-    expect(problems(priceBookItemInputSchema, { ...item, kind: 'labor', partsWarrantyMonths: 0 })).toEqual({ category: 'Capacitor is a part category, not labor.', spec: 'Only parts have a specification.' });
+    expect(problems(priceBookItemInputSchema, { ...item, kind: 'labor', partsWarrantyMonths: 0 })).toEqual({
+      category: 'Capacitor is a part category, not labor.',
+      spec: 'Only parts have a specification.',
+    });
     expect(problems(priceBookItemInputSchema, { ...item, category: 'motor' })).toEqual({ 'spec.category': 'The specification is for a capacitor, but the item is a motor.' });
     expect(problems(priceBookItemInputSchema, { ...item, sku: 'no spaces' })).toEqual({ sku: 'SKU uses letters, digits, dots, dashes or slashes.' });
     expect(problems(priceBookItemInputSchema, { ...item, taxable: 'yes' })).toEqual({ taxable: 'Say whether the item is taxable.' });
-    expect(problems(priceBookItemInputSchema, { sku: 'LAB-1', name: 'Repair labor', kind: 'labor', category: 'repair_labor', unitCents: 12_000, costCents: 4_000, taxable: false, partsWarrantyMonths: 12 })).toEqual({ partsWarrantyMonths: 'Only parts carry a parts warranty.' });
+    expect(
+      problems(priceBookItemInputSchema, {
+        sku: 'LAB-1',
+        name: 'Repair labor',
+        kind: 'labor',
+        category: 'repair_labor',
+        unitCents: 12_000,
+        costCents: 4_000,
+        taxable: false,
+        partsWarrantyMonths: 12,
+      }),
+    ).toEqual({ partsWarrantyMonths: 'Only parts carry a parts warranty.' });
   });
 
   it('updates only what is sent', () => {
@@ -150,15 +196,37 @@ describe('price-book items and tasks', () => {
   });
 
   it('bundles parts and labor into a flat-rate task, each item once', () => {
-    expect(flatRateTaskInputSchema.parse({ sku: 'task-cap', name: 'Replace run capacitor', components: [{ itemId: ID, quantity: 1 }, { itemId: ID2, quantity: 0.5 }] }).components).toHaveLength(2);
+    expect(
+      flatRateTaskInputSchema.parse({
+        sku: 'task-cap',
+        name: 'Replace run capacitor',
+        components: [
+          { itemId: ID, quantity: 1 },
+          { itemId: ID2, quantity: 0.5 },
+        ],
+      }).components,
+    ).toHaveLength(2);
     expect(problems(flatRateTaskInputSchema, { sku: 'T', name: 'Replace', components: [] })).toEqual({ components: 'Add at least one part or labor item to the task.' });
-    expect(problems(flatRateTaskInputSchema, { sku: 'T', name: 'Replace', components: [{ itemId: ID, quantity: 1 }, { itemId: ID, quantity: 1 }] })).toEqual({ components: 'Each item appears once in a task; raise its quantity instead.' });
+    expect(
+      problems(flatRateTaskInputSchema, {
+        sku: 'T',
+        name: 'Replace',
+        components: [
+          { itemId: ID, quantity: 1 },
+          { itemId: ID, quantity: 1 },
+        ],
+      }),
+    ).toEqual({ components: 'Each item appears once in a task; raise its quantity instead.' });
   });
 
   it('maps CSV columns like the household import, requiring the key ones', () => {
     expect(problems(priceBookMappingSchema, { sku: 'Part #', name: 'Description', kind: 'Type', category: 'Group', unit_price: 'Price' })).toEqual({});
-    expect(problems(priceBookMappingSchema, { sku: 'Part #', name: 'Description', kind: 'Type', category: 'Group' })).toEqual({ unit_price: 'Choose the column that holds the unit price.' });
-    expect(problems(priceBookMappingSchema, { sku: 'A', name: 'B', kind: 'C', category: 'D', unit_price: 'E', colour: 'F' })).toEqual({ colour: 'colour is not a price-book column.' });
+    expect(problems(priceBookMappingSchema, { sku: 'Part #', name: 'Description', kind: 'Type', category: 'Group' })).toEqual({
+      unit_price: 'Choose the column that holds the unit price.',
+    });
+    expect(problems(priceBookMappingSchema, { sku: 'A', name: 'B', kind: 'C', category: 'D', unit_price: 'E', colour: 'F' })).toEqual({
+      colour: 'colour is not a price-book column.',
+    });
   });
 });
 
@@ -166,22 +234,35 @@ describe('quotes', () => {
   const quote = { visitId: ID, options: [{ title: 'Replace the motor', lines: [{ source: 'item', itemId: ID2, quantity: 1 }] }] };
 
   it('accepts a draft with one option and fills the defaults', () => {
-    expect(quoteCreateSchema.parse(quote)).toMatchObject({ note: '', photoIds: [], validDays: 30, options: [{ description: '', lines: [{ source: 'item', stockLocationId: null, equipmentId: null }] }] });
+    expect(quoteCreateSchema.parse(quote)).toMatchObject({
+      note: '',
+      photoIds: [],
+      validDays: 30,
+      options: [{ description: '', lines: [{ source: 'item', stockLocationId: null, equipmentId: null }] }],
+    });
   });
 
   it('refuses a quote without options, too many, and lines that are not lines', () => {
     expect(problems(quoteCreateSchema, { ...quote, options: [] })).toEqual({ options: 'Add at least one option.' });
     expect(problems(quoteCreateSchema, { ...quote, options: Array(5).fill(quote.options[0]) })).toEqual({ options: 'A quote has at most 4 options.' });
-    expect(problems(quoteCreateSchema, { ...quote, options: [{ title: '', lines: [] }] })).toEqual({ 'options.0.title': 'Name the option, like "Replace the motor".', 'options.0.lines': 'Add at least one line to the option.' });
+    expect(problems(quoteCreateSchema, { ...quote, options: [{ title: '', lines: [] }] })).toEqual({
+      'options.0.title': 'Name the option, like "Replace the motor".',
+      'options.0.lines': 'Add at least one line to the option.',
+    });
     expect(problems(quoteLineInputSchema, { source: 'wish' })).toEqual({ source: 'A line comes from the price book, a flat-rate task, or is written out.' });
     expect(problems(quoteLineInputSchema, { source: 'item', itemId: ID, quantity: 0 })).toEqual({ quantity: 'Quantity must be more than 0.' });
     expect(problems(quoteLineInputSchema, { source: 'task', taskId: ID, quantity: 1.5 })).toEqual({ quantity: 'A task is done a whole number of times.' });
-    expect(problems(quoteLineInputSchema, { source: 'custom', description: 'Compressor', kind: 'part', category: 'compressor', quantity: 2, unitCents: 60_000_000, taxable: true })).toEqual({ unitCents: 'A line can be at most $999,999.99.' });
+    expect(
+      problems(quoteLineInputSchema, { source: 'custom', description: 'Compressor', kind: 'part', category: 'compressor', quantity: 2, unitCents: 60_000_000, taxable: true }),
+    ).toEqual({ unitCents: 'A line can be at most $999,999.99.' });
   });
 
   it('approves with a typed name and a ticked box; a decline needs a reason', () => {
     expect(quoteApproveSchema.parse({ revision: 2, optionId: ID, typedName: '  Dana Whitfield ', agreed: true }).typedName).toBe('Dana Whitfield');
-    expect(problems(quoteApproveSchema, { revision: 2, optionId: ID, typedName: 'D', agreed: false })).toEqual({ typedName: 'Type your full name to approve.', agreed: 'Tick the box to approve the work and its price.' });
+    expect(problems(quoteApproveSchema, { revision: 2, optionId: ID, typedName: 'D', agreed: false })).toEqual({
+      typedName: 'Type your full name to approve.',
+      agreed: 'Tick the box to approve the work and its price.',
+    });
     expect(problems(quoteDeclineSchema, { revision: 1, reason: '' })).toEqual({ reason: 'Tell us why you are declining, so we can help.' });
     expect(problems(quoteDeclineSchema, { revision: 1 })).toEqual({ reason: 'Tell us why you are declining.' });
   });

@@ -96,7 +96,10 @@ async function measure(phase: number): Promise<Record<string, number>> {
     ['renewals', get(office, '/api/renewals?view=due30')],
     ['home-summary', get(home, '/api/my-home/summary')],
     ['office-home', get(office, '/api/office-home')],
-    ...REPORTS.map((r): [string, () => Promise<{ status: number }>] => [`report-${r}`, get(office, `/api/reports/${r}?from=${NOW.minus({ years: 3 }).toISODate()}&to=${NOW.toISODate()}`)]),
+    ...REPORTS.map((r): [string, () => Promise<{ status: number }>] => [
+      `report-${r}`,
+      get(office, `/api/reports/${r}?from=${NOW.minus({ years: 3 }).toISODate()}&to=${NOW.toISODate()}`),
+    ]),
   ];
   const out: Record<string, number> = {};
   for (const [name, run] of routes) {
@@ -165,4 +168,3 @@ describe('statements per request', () => {
     expect(small).toEqual(EXPECTED);
   }, 600_000);
 });
-

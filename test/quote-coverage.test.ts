@@ -33,12 +33,20 @@ const line = (over: Partial<CoverageLineInput> & Pick<CoverageLineInput, 'kind' 
 });
 const tuneUp = (quantity = 1) => line({ description: 'Cooling tune-up', kind: 'fee', category: 'tune_up', unitCents: 12_900, quantity, season: 'cooling' });
 const diagnostic = () => line({ description: 'Diagnostic fee', kind: 'fee', category: 'diagnostic_fee', unitCents: 8_900 });
-const laborHours = (hours: number, group: string | null = null) => line({ description: 'Repair labor', kind: 'labor', category: 'repair_labor', unitCents: 12_000, quantity: hours, group });
-const blowerMotor = (group: string | null = 'motor-task') => line({ description: 'Indoor blower motor 1/3 hp', kind: 'part', category: 'motor', unitCents: 38_900, taxable: true, group });
+const laborHours = (hours: number, group: string | null = null) =>
+  line({ description: 'Repair labor', kind: 'labor', category: 'repair_labor', unitCents: 12_000, quantity: hours, group });
+const blowerMotor = (group: string | null = 'motor-task') =>
+  line({ description: 'Indoor blower motor 1/3 hp', kind: 'part', category: 'motor', unitCents: 38_900, taxable: true, group });
 const WARRANTY = { partsEndsOn: '2029-03-14' };
 
 const cover = (lines: CoverageLineInput[], over: { agreement?: QuoteAgreement | null; warranty?: { partsEndsOn: string | null } | null; visitDate?: string } = {}) =>
-  coverOption({ agreement: over.agreement === undefined ? agreement() : over.agreement, warranty: over.warranty ?? null, visitDate: over.visitDate ?? VISIT, lines, taxRateBps: TAX });
+  coverOption({
+    agreement: over.agreement === undefined ? agreement() : over.agreement,
+    warranty: over.warranty ?? null,
+    visitDate: over.visitDate ?? VISIT,
+    lines,
+    taxRateBps: TAX,
+  });
 
 function fieldOf(fn: () => unknown): string | undefined {
   try {
@@ -145,7 +153,12 @@ describe('coverage on quote lines: worked examples', () => {
   it('9. a past-due agreement covers nothing until it is paid', () => {
     const o = cover([laborHours(1)], { agreement: agreement({ status: 'past_due' }) });
     // 12 000 charged in full.
-    expect(o.lines[0]).toMatchObject({ chargedCents: 12_000, savingsCents: 0, rules: ['regular'], reason: 'Your agreement is past due, so no plan benefits apply until it is paid.' });
+    expect(o.lines[0]).toMatchObject({
+      chargedCents: 12_000,
+      savingsCents: 0,
+      rules: ['regular'],
+      reason: 'Your agreement is past due, so no plan benefits apply until it is paid.',
+    });
   });
 
   it('10. the warranty ends on its last day, inclusive', () => {
@@ -164,15 +177,26 @@ describe('coverage on quote lines: worked examples', () => {
     expect(o.lines.every((l) => l.reason === 'No maintenance agreement for this home, so regular prices apply.')).toBe(true);
     // 1.25 × 12 000 = 15 000; capacitor 4 799; tax 4 799 × 8.25 % = 395.9175 → 396; total 20 195.
     expect(o).toMatchObject({ subtotalCents: 19_799, savingsCents: 0, taxCents: 396, totalCents: 20_195 });
-    const inv = invoiceTotals({ lines: lines.map((l) => ({ description: l.description, kind: l.kind === 'part' ? 'parts' : 'labor', quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable })), taxRateBps: TAX });
+    const inv = invoiceTotals({
+      lines: lines.map((l) => ({ description: l.description, kind: l.kind === 'part' ? 'parts' : 'labor', quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable })),
+      taxRateBps: TAX,
+    });
     expect([inv.subtotalCents, inv.taxCents, inv.totalCents]).toEqual([o.subtotalCents, o.taxCents, o.totalCents]);
   });
 
   it('12. the discount on parts and labor gives the same totals as the invoice rules with that discount', () => {
     // Odd amounts so every rounding step is exercised: 0.333 h × 12 000 = 3 996; 15 % = 599.4 → 599.
-    const lines = [laborHours(0.333), line({ description: 'Igniter', kind: 'part', category: 'igniter', unitCents: 6_733, taxable: true }), line({ description: 'Flame sensor', kind: 'part', category: 'flame_sensor', unitCents: 2_911, taxable: true })];
+    const lines = [
+      laborHours(0.333),
+      line({ description: 'Igniter', kind: 'part', category: 'igniter', unitCents: 6_733, taxable: true }),
+      line({ description: 'Flame sensor', kind: 'part', category: 'flame_sensor', unitCents: 2_911, taxable: true }),
+    ];
     const o = cover(lines);
-    const inv = invoiceTotals({ lines: lines.map((l) => ({ description: l.description, kind: l.kind === 'part' ? 'parts' : 'labor', quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable })), discountBps: 1500, taxRateBps: TAX });
+    const inv = invoiceTotals({
+      lines: lines.map((l) => ({ description: l.description, kind: l.kind === 'part' ? 'parts' : 'labor', quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable })),
+      discountBps: 1500,
+      taxRateBps: TAX,
+    });
     expect(o.lines[0]).toMatchObject({ grossCents: 3_996, savingsCents: 599 });
     expect([o.subtotalCents, o.savingsCents, o.taxCents, o.totalCents]).toEqual([inv.subtotalCents, inv.discountCents, inv.taxCents, inv.totalCents]);
     // Igniter 15 % of 6 733 = 1 009.95 → 1 010, charged 5 723; sensor 15 % of 2 911 = 436.65 → 437, charged 2 474;
@@ -196,7 +220,11 @@ describe('quotes with several options', () => {
   });
 
   it('names the option and line of a bad input', () => {
-    expect(fieldOf(() => coverQuote({ agreement: agreement(), warranty: null, visitDate: VISIT, options: [{ lines: [laborHours(1)] }, { lines: [laborHours(1.0001)] }], taxRateBps: TAX }))).toBe('options[1].lines[0].quantity');
+    expect(
+      fieldOf(() =>
+        coverQuote({ agreement: agreement(), warranty: null, visitDate: VISIT, options: [{ lines: [laborHours(1)] }, { lines: [laborHours(1.0001)] }], taxRateBps: TAX }),
+      ),
+    ).toBe('options[1].lines[0].quantity');
   });
 
   it('a flat-rate task becomes its part and labor lines, grouped so the warranty rule finds its labor', () => {
@@ -226,7 +254,12 @@ describe('quotes with several options', () => {
 
 describe('from the visit coverage', () => {
   it('takes the tune-ups left from the visit coverage, so a used season is charged', () => {
-    const base: CoverageAgreement = { status: 'active', startsOn: '2026-03-10', endsOn: '2027-03-10', plan: { name: 'Two-Season Care', coolingVisits: 1, heatingVisits: 1, repairDiscountBps: 1000, diagnosticFeeWaived: false, priorityWindowHours: 24 } };
+    const base: CoverageAgreement = {
+      status: 'active',
+      startsOn: '2026-03-10',
+      endsOn: '2027-03-10',
+      plan: { name: 'Two-Season Care', coolingVisits: 1, heatingVisits: 1, repairDiscountBps: 1000, diagnosticFeeWaived: false, priorityWindowHours: 24 },
+    };
     const visit = { id: 'today', kind: 'tune_up' as const, status: 'in_progress', onDate: VISIT };
     const c = coverageFor({ agreement: base, visit, termVisits: [{ id: 'spring', kind: 'tune_up', status: 'done', onDate: '2026-04-02' }, visit], diagnosticFeeCents: 8_900 });
     const qa = quoteAgreementFrom(base, c, { warrantyLaborCovered: false, discountCategories: ['repair_labor'] });
@@ -250,7 +283,9 @@ describe('input checks', () => {
     expect(fieldOf(() => cover([line({ kind: 'labor', category: 'motor', unitCents: 100 })]))).toBe('lines[0].category');
     expect(fieldOf(() => cover([line({ kind: 'fee', category: 'tune_up', unitCents: 100 })]))).toBe('lines[0].season');
     expect(fieldOf(() => cover([laborHours(1)], { agreement: agreement({ repairDiscountBps: 10_001 }) }))).toBe('agreement.repairDiscountBps');
-    expect(fieldOf(() => cover([laborHours(1)], { agreement: agreement({ tuneUps: { cooling: { included: 1, left: 2 }, heating: { included: 0, left: 0 } } }) }))).toBe('agreement.tuneUps.cooling.left');
+    expect(fieldOf(() => cover([laborHours(1)], { agreement: agreement({ tuneUps: { cooling: { included: 1, left: 2 }, heating: { included: 0, left: 0 } } }) }))).toBe(
+      'agreement.tuneUps.cooling.left',
+    );
     expect(fieldOf(() => cover([laborHours(1)], { visitDate: '2026-02-30' }))).toBe('visitDate');
     expect(fieldOf(() => cover([line({ kind: 'labor', category: 'repair_labor', unitCents: 10.5 })]))).toBe('lines[0].unitCents');
   });

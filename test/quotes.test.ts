@@ -18,8 +18,16 @@ let capId: string;
 let taskId: string;
 let laborId: string;
 
-const post = (s: Signed, url: string, body: unknown) => s.agent.post(url).set(CSRF_HEADER_NAME, s.csrf).send(body as object);
-const put = (s: Signed, url: string, body: unknown) => s.agent.put(url).set(CSRF_HEADER_NAME, s.csrf).send(body as object);
+const post = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .post(url)
+    .set(CSRF_HEADER_NAME, s.csrf)
+    .send(body as object);
+const put = (s: Signed, url: string, body: unknown) =>
+  s.agent
+    .put(url)
+    .set(CSRF_HEADER_NAME, s.csrf)
+    .send(body as object);
 
 beforeAll(async () => {
   ctx = testApp();
@@ -27,21 +35,37 @@ beforeAll(async () => {
   const marcus = STAFF.find((s) => s.role === 'technician')!;
   tech = await signInStaff(ctx, marcus.email);
   office = await signInStaff(ctx, STAFF.find((s) => s.role === 'office')!.email);
-  const [v] = await db.select().from(visits).where(and(eq(visits.reason, 'no_cooling'), like(visits.notes, 'House is warm%')));
+  const [v] = await db
+    .select()
+    .from(visits)
+    .where(and(eq(visits.reason, 'no_cooling'), like(visits.notes, 'House is warm%')));
   visitId = v!.id;
-  const [tr] = await db.select({ id: stockLocations.id }).from(stockLocations).innerJoin(technicians, eq(stockLocations.technicianId, technicians.id)).where(eq(technicians.id, v!.technicianId!));
+  const [tr] = await db
+    .select({ id: stockLocations.id })
+    .from(stockLocations)
+    .innerJoin(technicians, eq(stockLocations.technicianId, technicians.id))
+    .where(eq(technicians.id, v!.technicianId!));
   truckId = tr!.id;
   const item = async (sku: string) => (await db.select({ id: priceBookItems.id }).from(priceBookItems).where(eq(priceBookItems.sku, sku)))[0]!.id;
   motorId = await item(DEMO_BLOWER_MOTOR_SKU);
   capId = await item(DEMO_BLOWER_CAPACITOR_SKU);
   laborId = await item('LAB-REPAIR-CAP');
   taskId = (await db.select({ id: flatRateTasks.id }).from(flatRateTasks).where(eq(flatRateTasks.sku, 'TASK-BLOWER-050')))[0]!.id;
-  const [owner] = await db.select({ email: users.email }).from(users).where(and(eq(users.customerId, v!.customerId), eq(users.role, 'homeowner')));
+  const [owner] = await db
+    .select({ email: users.email })
+    .from(users)
+    .where(and(eq(users.customerId, v!.customerId), eq(users.role, 'homeowner')));
   home = await signInHomeowner(ctx, owner!.email);
 });
 afterAll(() => ctx.close());
 
-const stockOf = async (itemId: string) => (await ctx.database.db.select({ q: stockLevels.quantity }).from(stockLevels).where(and(eq(stockLevels.locationId, truckId), eq(stockLevels.itemId, itemId))))[0]?.q;
+const stockOf = async (itemId: string) =>
+  (
+    await ctx.database.db
+      .select({ q: stockLevels.quantity })
+      .from(stockLevels)
+      .where(and(eq(stockLevels.locationId, truckId), eq(stockLevels.itemId, itemId)))
+  )[0]?.q;
 
 describe('a quote on a no-cooling visit', () => {
   let quoteId: string;
@@ -50,7 +74,19 @@ describe('a quote on a no-cooling visit', () => {
   it('the technician finds the matching blower motor and its capacitor on their truck', async () => {
     const res = await post(tech, '/api/stock/replacements', {
       visitId,
-      failed: { category: 'motor', application: 'indoor_blower', horsepower: '1/2', volts: '115', phase: 1, rpm: 1075, speeds: 4, speedsUsed: 2, amps: 7.2, rotation: 'cw', rotationViewedFrom: 'shaft_end' },
+      failed: {
+        category: 'motor',
+        application: 'indoor_blower',
+        horsepower: '1/2',
+        volts: '115',
+        phase: 1,
+        rpm: 1075,
+        speeds: 4,
+        speedsUsed: 2,
+        amps: 7.2,
+        rotation: 'cw',
+        rotationViewedFrom: 'shaft_end',
+      },
     });
     expect(res.status).toBe(200);
     const first = res.body.fits[0];
@@ -66,7 +102,13 @@ describe('a quote on a no-cooling visit', () => {
       note: 'The blower motor has failed.',
       options: [
         { title: 'Replace the motor and the capacitor', lines: [{ source: 'task', taskId, quantity: 1, stockLocationId: truckId }] },
-        { title: 'Replace the capacitor only', lines: [{ source: 'item', itemId: capId, quantity: 1, stockLocationId: truckId }, { source: 'item', itemId: laborId, quantity: 1 }] },
+        {
+          title: 'Replace the capacitor only',
+          lines: [
+            { source: 'item', itemId: capId, quantity: 1, stockLocationId: truckId },
+            { source: 'item', itemId: laborId, quantity: 1 },
+          ],
+        },
       ],
     });
     expect(created.status).toBe(201);
@@ -133,7 +175,10 @@ describe('truck stock', () => {
   it('two requests take the last capacitor at once: exactly one succeeds, the other gets 409', async () => {
     expect((await put(office, `/api/stock/levels/${truckId}`, { itemId: capId, minimum: 2, quantity: 1 })).status).toBe(200);
     const body = { lines: [{ itemId: capId, quantity: 1 }] };
-    const [a, b] = await Promise.all([post(tech, `/api/stock/visits/${visitId}/parts-used`, body), post(office, `/api/stock/visits/${visitId}/parts-used`, { ...body, locationId: truckId })]);
+    const [a, b] = await Promise.all([
+      post(tech, `/api/stock/visits/${visitId}/parts-used`, body),
+      post(office, `/api/stock/visits/${visitId}/parts-used`, { ...body, locationId: truckId }),
+    ]);
     expect([a.status, b.status].sort()).toEqual([201, 409]);
     const loser = a.status === 409 ? a : b;
     expect(loser.body.error.code).toBe('out_of_stock');

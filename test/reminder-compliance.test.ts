@@ -31,7 +31,10 @@ describe('reminders carry the sender, the postal address and a working opt-out',
     const { db } = ctx.database;
     const tag = randomUUID().slice(0, 8);
     const email = `reminded.${tag}@example.test`;
-    const [c] = await db.insert(customers).values({ name: `Reminded ${tag}`, email }).returning({ id: customers.id });
+    const [c] = await db
+      .insert(customers)
+      .values({ name: `Reminded ${tag}`, email })
+      .returning({ id: customers.id });
     const [p] = await db.insert(properties).values({ customerId: c!.id, street: '12 Fern Row', city: 'Larkspur Bend', state: 'MO', zip: '64790' }).returning({ id: properties.id });
     return { customerId: c!.id, propertyId: p!.id, email };
   }
@@ -40,7 +43,10 @@ describe('reminders carry the sender, the postal address and a working opt-out',
     const { db } = ctx.database;
     const [office] = await db.select({ id: users.id }).from(users).where(eq(users.email, OFFICE));
     const [camp] = await db.insert(reminderCampaigns).values({ kind: 'cooling_tune_up', createdById: office!.id, audienceCount: 1 }).returning({ id: reminderCampaigns.id });
-    const [send] = await db.insert(reminderSends).values({ campaignId: camp!.id, customerId: h.customerId, propertyId: h.propertyId, kind: 'cooling_tune_up', email: h.email, reason: 'due' }).returning({ id: reminderSends.id });
+    const [send] = await db
+      .insert(reminderSends)
+      .values({ campaignId: camp!.id, customerId: h.customerId, propertyId: h.propertyId, kind: 'cooling_tune_up', email: h.email, reason: 'due' })
+      .returning({ id: reminderSends.id });
     const before = new Date();
     await sendCampaign(ctx.deps, camp!.id);
     const got = await smtp.store.waitForLatest({ to: h.email, after: before }, waitMs);
@@ -74,7 +80,11 @@ describe('reminders carry the sender, the postal address and a working opt-out',
     expect(await ctx.database.db.select().from(mailSuppressions).where(eq(mailSuppressions.customerId, h.customerId))).toHaveLength(0);
 
     // A tampered token is refused; the mail program's POST, from its own origin, works at once.
-    await request(ctx.app).post(path.replace(/.(?=$)/, 'x')).type('form').send('List-Unsubscribe=One-Click').expect(404);
+    await request(ctx.app)
+      .post(path.replace(/.(?=$)/, 'x'))
+      .type('form')
+      .send('List-Unsubscribe=One-Click')
+      .expect(404);
     const done = await request(ctx.app).post(path).set('Origin', 'https://mail.example.test').type('form').send('List-Unsubscribe=One-Click');
     expect(done.status).toBe(200);
     expect(done.headers['location']).toBeUndefined();

@@ -46,7 +46,10 @@ describe('seasonal reminder campaigns', () => {
     expect(dana?.reason).toMatch(/cooling tune-up/);
     const count = preview.body.audience.length as number;
 
-    const stale = await office.agent.post('/api/reminders/campaigns').set(CSRF_HEADER_NAME, office.csrf).send({ kind: 'cooling_tune_up', expectedCount: count + 5 });
+    const stale = await office.agent
+      .post('/api/reminders/campaigns')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ kind: 'cooling_tune_up', expectedCount: count + 5 });
     expect(stale.status).toBe(409);
     expect(stale.body.error.code).toBe('audience_changed');
 

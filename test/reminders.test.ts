@@ -10,7 +10,10 @@ const household = (over: Partial<ReminderHousehold> = {}): ReminderHousehold => 
   email: 'home@example.test',
   agreement: plan,
   visits: [],
-  equipment: [{ kind: 'condensing_unit', filterSize: '' }, { kind: 'gas_furnace', filterSize: '16x25x1' }],
+  equipment: [
+    { kind: 'condensing_unit', filterSize: '' },
+    { kind: 'gas_furnace', filterSize: '16x25x1' },
+  ],
   lastSent: {},
   ...over,
 });
@@ -83,10 +86,18 @@ describe('filter and coil reminders', () => {
   });
   it('suggest coil cleaning only where a technician recommended it or the plan includes it', () => {
     expect(reminderDecision('coil_cleaning', household(), day('2026-04-01')).due).toBe(false);
-    const recommended = household({ visits: [{ kind: 'service_call', status: 'done', startsAt: '2025-09-01T15:00:00Z', recommendations: 'Coil cleaning recommended before next summer.' }] });
+    const recommended = household({
+      visits: [{ kind: 'service_call', status: 'done', startsAt: '2025-09-01T15:00:00Z', recommendations: 'Coil cleaning recommended before next summer.' }],
+    });
     expect(reminderDecision('coil_cleaning', recommended, day('2026-04-01')).due).toBe(true);
     const included = household({ agreement: { ...plan, extras: ['Outdoor coil cleaning once a year'] } });
     expect(reminderDecision('coil_cleaning', included, day('2026-04-01')).due).toBe(true);
-    expect(reminderDecision('coil_cleaning', household({ agreement: { ...plan, extras: ['Outdoor coil cleaning once a year'] }, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x1' }] }), day('2026-04-01')).due).toBe(false);
+    expect(
+      reminderDecision(
+        'coil_cleaning',
+        household({ agreement: { ...plan, extras: ['Outdoor coil cleaning once a year'] }, equipment: [{ kind: 'gas_furnace', filterSize: '16x25x1' }] }),
+        day('2026-04-01'),
+      ).due,
+    ).toBe(false);
   });
 });

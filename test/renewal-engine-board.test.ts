@@ -15,7 +15,10 @@ beforeAll(async () => {
 });
 afterAll(() => h.close());
 
-type Board = { counts: Record<string, { count: number; totalCents: number }>; rows: { agreementId: string; priceCents: number; lastNoticeAt: string | null; customerName: string }[] };
+type Board = {
+  counts: Record<string, { count: number; totalCents: number }>;
+  rows: { agreementId: string; priceCents: number; lastNoticeAt: string | null; customerName: string }[];
+};
 
 describe('office renewals board', () => {
   it('places agreements in the 30/60/90-day, past-due, lapsed and renewed views with counts and money totals', async () => {
@@ -77,7 +80,11 @@ describe('office renewals board', () => {
     const b = await newHousehold(h, 'notice-b');
     const { agreement: ra } = await seedAgreement(h, a, { endsOn: addDays(today, 25), status: 'renewal_due' });
     const { agreement: rb } = await seedAgreement(h, b, { endsOn: addDays(today, 26), status: 'renewal_due', card: 'pm_card_visa' });
-    const sent = await office.agent.post('/api/renewals/notices').set(CSRF_HEADER_NAME, office.csrf).send({ agreementIds: [ra.id, rb.id] }).expect(202);
+    const sent = await office.agent
+      .post('/api/renewals/notices')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ agreementIds: [ra.id, rb.id] })
+      .expect(202);
     expect(sent.body.queued).toBe(2);
     const ma = await h.smtp.store.waitForLatest({ to: a.email }, 5000);
     const mb = await h.smtp.store.waitForLatest({ to: b.email }, 5000);
@@ -88,9 +95,16 @@ describe('office renewals board', () => {
     const board = (await office.agent.get('/api/renewals?view=due30').expect(200)).body as Board;
     expect(board.rows.find((r) => r.agreementId === ra.id)!.lastNoticeAt).not.toBeNull();
 
-    const bad = await office.agent.post('/api/renewals/notices').set(CSRF_HEADER_NAME, office.csrf).send({ agreementIds: ['x'] });
+    const bad = await office.agent
+      .post('/api/renewals/notices')
+      .set(CSRF_HEADER_NAME, office.csrf)
+      .send({ agreementIds: ['x'] });
     expect(bad.status).toBe(422);
     expect(bad.body.error.fields).toHaveProperty(['agreementIds.0']);
-    await a.homeowner.agent.post('/api/renewals/notices').set(CSRF_HEADER_NAME, a.homeowner.csrf).send({ agreementIds: [ra.id] }).expect(403);
+    await a.homeowner.agent
+      .post('/api/renewals/notices')
+      .set(CSRF_HEADER_NAME, a.homeowner.csrf)
+      .send({ agreementIds: [ra.id] })
+      .expect(403);
   });
 });

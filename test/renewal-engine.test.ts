@@ -126,7 +126,10 @@ describe('no double payment', () => {
     expect(report.charged).toBe(1);
     const late = await payOnHostedPage(start.body.checkoutUrl, '4242424242424242');
     expect(late.status).toBe(410);
-    const [inv] = await h.ctx.database.db.select().from(invoices).where(and(eq(invoices.agreementId, agreement.id), eq(invoices.purpose, 'renewal')));
+    const [inv] = await h.ctx.database.db
+      .select()
+      .from(invoices)
+      .where(and(eq(invoices.agreementId, agreement.id), eq(invoices.purpose, 'renewal')));
     expect(inv).toMatchObject({ status: 'paid', paidCents: inv!.totalCents });
   });
 });
@@ -154,7 +157,10 @@ describe('crash safety', () => {
     const replayed = h.fake.fake.requests().filter((r) => r.idempotencyKey?.startsWith(idempotencyKeyForRenewal(agreement.id, endsOn)));
     expect(replayed.map((r) => r.replayed)).toEqual([false, true]);
     expect(await row(agreement.id)).toMatchObject({ status: 'active', endsOn: termEnd(endsOn) });
-    const inv = await h.ctx.database.db.select().from(invoices).where(and(eq(invoices.agreementId, agreement.id), eq(invoices.purpose, 'renewal')));
+    const inv = await h.ctx.database.db
+      .select()
+      .from(invoices)
+      .where(and(eq(invoices.agreementId, agreement.id), eq(invoices.purpose, 'renewal')));
     expect(inv).toHaveLength(1);
     const pays = await h.ctx.database.db.select().from(payments).where(eq(payments.invoiceId, inv[0]!.id));
     expect(pays.filter((p) => p.status === 'succeeded')).toHaveLength(1);

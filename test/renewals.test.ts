@@ -188,24 +188,18 @@ describe('prorateTierChange', () => {
   it('$199 → $299 on day 100 of a 365-day term charges $72.60', () => {
     // 2026-01-01 + 100 days = 2026-04-11 (Jan 31 + Feb 28 + Mar 31 = 90, +10); 265 of 365 days remain.
     // (29900 − 19900) × 265 / 365 = 2 650 000 / 365 = 7260.27 ¢ → 7260 ¢ = $72.60
-    expect(
-      prorateTierChange({ termStart: '2026-01-01', termEnd: '2027-01-01', changeDate: '2026-04-11', oldPriceCents: 19_900, newPriceCents: 29_900 }),
-    ).toBe(7_260);
+    expect(prorateTierChange({ termStart: '2026-01-01', termEnd: '2027-01-01', changeDate: '2026-04-11', oldPriceCents: 19_900, newPriceCents: 29_900 })).toBe(7_260);
   });
 
   it('a downgrade on the same day credits the same amount', () => {
     // (19900 − 29900) × 265 / 365 = −7260.27 ¢ → −7260 ¢
-    expect(
-      prorateTierChange({ termStart: '2026-01-01', termEnd: '2027-01-01', changeDate: '2026-04-11', oldPriceCents: 29_900, newPriceCents: 19_900 }),
-    ).toBe(-7_260);
+    expect(prorateTierChange({ termStart: '2026-01-01', termEnd: '2027-01-01', changeDate: '2026-04-11', oldPriceCents: 29_900, newPriceCents: 19_900 })).toBe(-7_260);
   });
 
   it('counts 366 days in a leap-year term', () => {
     // 2028 is a leap year: 2028-01-01 → 2029-01-01 is 366 days. 2028-07-01 is day 182 (31+29+31+30+31+30),
     // so 184 days remain: 10000 × 184 / 366 = 5027.32 ¢ → 5027 ¢
-    expect(
-      prorateTierChange({ termStart: '2028-01-01', termEnd: '2029-01-01', changeDate: '2028-07-01', oldPriceCents: 19_900, newPriceCents: 29_900 }),
-    ).toBe(5_027);
+    expect(prorateTierChange({ termStart: '2028-01-01', termEnd: '2029-01-01', changeDate: '2028-07-01', oldPriceCents: 19_900, newPriceCents: 29_900 })).toBe(5_027);
   });
 
   it('an exact half cent rounds up (and a half-cent credit rounds to the larger credit)', () => {

@@ -33,30 +33,65 @@ async function q(text: string, values: unknown[] = []): Promise<string> {
 }
 
 async function fixture(): Promise<void> {
-  await q(`insert into company (id, name, phone, email, street, city, state, zip, time_zone, business_hours)
-           values (1, 'Test Heating', '+15555550100', 'office@test.test', '1 Main St', 'Town', 'KS', '66000', $1, '{}')`, [TZ]);
+  await q(
+    `insert into company (id, name, phone, email, street, city, state, zip, time_zone, business_hours)
+           values (1, 'Test Heating', '+15555550100', 'office@test.test', '1 Main St', 'Town', 'KS', '66000', $1, '{}')`,
+    [TZ],
+  );
   await q(`insert into users (email, name, role, password_hash) values ('office@reports.test', 'Office Person', 'office', $1)`, [await hashPassword(DEMO_STAFF_PASSWORD)]);
   const customer = await q(`insert into customers (name) values ('Fixture household') returning id`);
   const property = await q(`insert into properties (customer_id, street, city, state, zip) values ($1, '2 Elm St', 'Town', 'KS', '66000') returning id`, [customer]);
   const plan = await q(`insert into plans (code, name) values ('care', 'Care') returning id`);
-  const version = await q(`insert into plan_versions (plan_id, version, yearly_price_cents, additional_system_cents, cooling_visits, heating_visits, repair_discount_bps, diagnostic_fee_waived, priority_window_hours)
-                           values ($1, 1, 19900, 5000, 1, 1, 1000, true, 24) returning id`, [plan]);
+  const version = await q(
+    `insert into plan_versions (plan_id, version, yearly_price_cents, additional_system_cents, cooling_visits, heating_visits, repair_discount_bps, diagnostic_fee_waived, priority_window_hours)
+                           values ($1, 1, 19900, 5000, 1, 1, 1000, true, 24) returning id`,
+    [plan],
+  );
   ids = { customer, property, version };
 
   // Agreements: [name, status, canceled at, terms (start, exclusive end)].
   const agreements: [string, string, string | null, [string, string][]][] = [
-    ['A1', 'active', null, [['2030-01-10', '2031-01-10'], ['2031-01-10', '2032-01-10']]],
+    [
+      'A1',
+      'active',
+      null,
+      [
+        ['2030-01-10', '2031-01-10'],
+        ['2031-01-10', '2032-01-10'],
+      ],
+    ],
     ['A2', 'lapsed', null, [['2030-01-20', '2031-01-20']]],
-    ['A3', 'active', null, [['2030-02-05', '2031-02-05'], ['2031-02-05', '2032-02-05']]],
+    [
+      'A3',
+      'active',
+      null,
+      [
+        ['2030-02-05', '2031-02-05'],
+        ['2031-02-05', '2032-02-05'],
+      ],
+    ],
     ['A4', 'past_due', null, [['2030-02-15', '2031-02-15']]],
     ['A5', 'active', null, [['2031-03-01', '2032-03-01']]],
     // Known only from the agreement row (no term rows): still a term, as termsOf reads it.
     ['A6', 'active', null, []],
-    ['A7', 'active', null, [['2030-02-20', '2031-02-20'], ['2031-02-20', '2032-02-20']]],
+    [
+      'A7',
+      'active',
+      null,
+      [
+        ['2030-02-20', '2031-02-20'],
+        ['2031-02-20', '2032-02-20'],
+      ],
+    ],
     ['A8', 'canceled', at('2031-03-15T10:00'), [['2031-01-01', '2032-01-01']]],
   ];
   for (const [name, status, canceledAt, terms] of agreements) {
-    const [first, last] = terms.length ? [terms[0]!, terms[terms.length - 1]!] : [['2030-06-01', '2031-06-01'], ['2030-06-01', '2031-06-01']];
+    const [first, last] = terms.length
+      ? [terms[0]!, terms[terms.length - 1]!]
+      : [
+          ['2030-06-01', '2031-06-01'],
+          ['2030-06-01', '2031-06-01'],
+        ];
     const id = await q(
       `insert into agreements (customer_id, property_id, plan_version_id, status, starts_on, ends_on, price_cents, canceled_at)
        values ($1, $2, $3, $4, $5, $6, 19900, $7) returning id`,
@@ -97,7 +132,13 @@ async function fixture(): Promise<void> {
     ['I5', 'failed', 5000, 0, null],
   ];
   for (const [inv, status, amount, refunded, when] of payments) {
-    const id = await q(`insert into payments (invoice_id, method, status, amount_cents, refunded_cents, succeeded_at) values ($1, 'card', $2, $3, $4, $5) returning id`, [ids[inv], status, amount, refunded, when ? at(when) : null]);
+    const id = await q(`insert into payments (invoice_id, method, status, amount_cents, refunded_cents, succeeded_at) values ($1, 'card', $2, $3, $4, $5) returning id`, [
+      ids[inv],
+      status,
+      amount,
+      refunded,
+      when ? at(when) : null,
+    ]);
     if (refunded) await q(`insert into refunds (payment_id, amount_cents, created_at) values ($1, $2, $3)`, [id, refunded, at('2031-02-20T15:00')]);
   }
 
@@ -129,7 +170,17 @@ async function fixture(): Promise<void> {
     await q(
       `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at)
        values ($1, $2, $3, $4, $5, $6, $7, $8, $7, $9)`,
-      [customer, property, techId, kind, kind === 'tune_up' ? 'tune_up' : 'no_cooling', status, s.toUTC().toISO(), s.plus({ hours: 2 }).toUTC().toISO(), s.plus({ hours: h }).toUTC().toISO()],
+      [
+        customer,
+        property,
+        techId,
+        kind,
+        kind === 'tune_up' ? 'tune_up' : 'no_cooling',
+        status,
+        s.toUTC().toISO(),
+        s.plus({ hours: 2 }).toUTC().toISO(),
+        s.plus({ hours: h }).toUTC().toISO(),
+      ],
     );
   }
 }

@@ -115,7 +115,9 @@ async function send(key: string, who: Signed, c: Case) {
   const [method, path] = key.split(' ');
   const url = path.replace(/:(\w+)/g, (_m, n: string) => c.params[n]!);
   const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
-  const req = who.agent[m](url).set('X-XSRF-TOKEN', who.csrf).set('X-Forwarded-For', `198.51.100.${(ip++ % 200) + 20}`);
+  const req = who.agent[m](url)
+    .set('X-XSRF-TOKEN', who.csrf)
+    .set('X-Forwarded-For', `198.51.100.${(ip++ % 200) + 20}`);
   if (c.query) req.query(c.query as Record<string, string>);
   if (c.raw) return req.set('Content-Type', c.raw.contentType).send(c.raw.payload);
   return c.body === undefined ? req : req.send(c.body as object);
@@ -153,28 +155,41 @@ afterAll(async () => {
 describe('route fuzz', () => {
   it('has inputs registered for every routed path, and none for a path that is gone', () => {
     const routed = routedPaths();
-    expect(routed.filter((k) => !(k in ROUTE_INPUTS)), 'add each to ROUTE_INPUTS in server/route-inputs.ts').toEqual([]);
-    expect(Object.keys(ROUTE_INPUTS).filter((k) => !routed.includes(k)), 'these are registered but not routed').toEqual([]);
+    expect(
+      routed.filter((k) => !(k in ROUTE_INPUTS)),
+      'add each to ROUTE_INPUTS in server/route-inputs.ts',
+    ).toEqual([]);
+    expect(
+      Object.keys(ROUTE_INPUTS).filter((k) => !routed.includes(k)),
+      'these are registered but not routed',
+    ).toEqual([]);
   });
 
-  it.each(Object.entries(ROUTE_INPUTS))('%s answers invalid input with a 4xx and writes nothing', async (key, inputs) => {
-    const before = await rowCounts();
-    let sent = 0;
-    await fc.assert(
-      fc.asyncProperty(cases(key, inputs), async (c) => {
-        fc.pre(isInvalid(inputs, c));
-        sent++;
-        const res = await send(key, as[inputs.as], c);
-        const label = `${key} answered ${res.status} ${res.text.slice(0, 300)}`;
-        expect(res.status, label).toBeGreaterThanOrEqual(400);
-        expect(res.status, label).toBeLessThan(500);
-        if (HTML_ROUTES.has(key) && res.type === 'text/html') return;
-        expect(res.body, label).toEqual({ error: expect.objectContaining({ code: expect.any(String), message: expect.any(String) }) });
-        expect(Object.keys(res.body.error).every((k) => ['code', 'message', 'fields'].includes(k)), label).toBe(true);
-      }),
-      { numRuns: RUNS, seed: SEED, endOnFailure: true },
-    );
-    expect(sent, 'cases sent').toBeGreaterThan(0);
-    expect(await rowCounts(), 'no table changed').toEqual(before);
-  }, 60_000 + RUNS * 3_000);
+  it.each(Object.entries(ROUTE_INPUTS))(
+    '%s answers invalid input with a 4xx and writes nothing',
+    async (key, inputs) => {
+      const before = await rowCounts();
+      let sent = 0;
+      await fc.assert(
+        fc.asyncProperty(cases(key, inputs), async (c) => {
+          fc.pre(isInvalid(inputs, c));
+          sent++;
+          const res = await send(key, as[inputs.as], c);
+          const label = `${key} answered ${res.status} ${res.text.slice(0, 300)}`;
+          expect(res.status, label).toBeGreaterThanOrEqual(400);
+          expect(res.status, label).toBeLessThan(500);
+          if (HTML_ROUTES.has(key) && res.type === 'text/html') return;
+          expect(res.body, label).toEqual({ error: expect.objectContaining({ code: expect.any(String), message: expect.any(String) }) });
+          expect(
+            Object.keys(res.body.error).every((k) => ['code', 'message', 'fields'].includes(k)),
+            label,
+          ).toBe(true);
+        }),
+        { numRuns: RUNS, seed: SEED, endOnFailure: true },
+      );
+      expect(sent, 'cases sent').toBeGreaterThan(0);
+      expect(await rowCounts(), 'no table changed').toEqual(before);
+    },
+    60_000 + RUNS * 3_000,
+  );
 });

@@ -26,7 +26,9 @@ describe('faults that would otherwise go unseen', () => {
     try {
       database.pool.emit('error', new Error('terminating connection due to administrator command'), undefined as never);
       await settle();
-      expect(lines).toContainEqual(expect.objectContaining({ level: 50, msg: 'database pool error', err: expect.objectContaining({ message: 'terminating connection due to administrator command' }) }));
+      expect(lines).toContainEqual(
+        expect.objectContaining({ level: 50, msg: 'database pool error', err: expect.objectContaining({ message: 'terminating connection due to administrator command' }) }),
+      );
     } finally {
       await database.close();
     }

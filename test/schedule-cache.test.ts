@@ -14,16 +14,17 @@ const from = DateTime.now().setZone('America/Chicago').plus({ days: 150 }).toISO
 
 const version = async (ctx: TestContext) => Number((await ctx.database.pool.query('select version from schedule_version')).rows[0].version);
 const windows = async () =>
-  (await home.agent.get(`/api/booking/windows?propertyId=${propertyId}&reason=no_cooling&from=${from}&days=7`).expect(200)).body as { windows: { start: string; capacity: number }[] };
+  (await home.agent.get(`/api/booking/windows?propertyId=${propertyId}&reason=no_cooling&from=${from}&days=7`).expect(200)).body as {
+    windows: { start: string; capacity: number }[];
+  };
 
 beforeAll(async () => {
   a = testApp();
   b = testApp();
   home = await signInHomeowner(a, DEMO_HOMEOWNERS[0].email);
-  const { rows } = await a.database.pool.query(
-    `select p.id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 order by p.id limit 1`,
-    [DEMO_HOMEOWNERS[0].email],
-  );
+  const { rows } = await a.database.pool.query(`select p.id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 order by p.id limit 1`, [
+    DEMO_HOMEOWNERS[0].email,
+  ]);
   propertyId = rows[0].id;
 });
 

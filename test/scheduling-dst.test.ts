@@ -1,11 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  availableWindows,
-  planBooking,
-  wallClockOccurrences,
-  type AvailabilityInput,
-  type WeeklyHours,
-} from '../shared/scheduling';
+import { availableWindows, planBooking, wallClockOccurrences, type AvailabilityInput, type WeeklyHours } from '../shared/scheduling';
 import { IANAZone } from 'luxon';
 
 // The expected clock changes come from the IANA tz database as shipped in ICU (Intl), not from luxon:
@@ -64,7 +58,10 @@ describe('the calendar itself, per Intl', () => {
 
   it('wall-clock resolution matches Intl for every quarter hour of both change days', () => {
     const zone = IANAZone.create(TZ);
-    for (const [date, y, m, d] of [['2026-03-08', 2026, 3, 8], ['2026-11-01', 2026, 11, 1]] as const) {
+    for (const [date, y, m, d] of [
+      ['2026-03-08', 2026, 3, 8],
+      ['2026-11-01', 2026, 11, 1],
+    ] as const) {
       // Every instant Intl shows on that local date, grouped by the clock it shows.
       const byClock = new Map<string, number[]>();
       for (let t = Date.parse(`${date}T00:00:00Z`); t < Date.parse(`${date}T00:00:00Z`) + 36 * HOUR; t += HOUR / 4) {
@@ -83,13 +80,7 @@ describe('the calendar itself, per Intl', () => {
 describe('spring forward, Sun 8 Mar 2026', () => {
   it('no window starts in the hour that does not exist, and none is lost', () => {
     const ws = availableWindows(nightInput('2026-03-08', [{ open: '00:00', close: '06:00' }], 60));
-    expect(ws.map((w) => `${local(w.start).clock} ${local(w.start).offset}`)).toEqual([
-      '00:00 GMT-6',
-      '01:00 GMT-6',
-      '03:00 GMT-5',
-      '04:00 GMT-5',
-      '05:00 GMT-5',
-    ]);
+    expect(ws.map((w) => `${local(w.start).clock} ${local(w.start).offset}`)).toEqual(['00:00 GMT-6', '01:00 GMT-6', '03:00 GMT-5', '04:00 GMT-5', '05:00 GMT-5']);
     for (const w of ws) expect(local(w.start).clock.startsWith('02:')).toBe(false);
     expectContiguous(ws);
     // Six clock hours of business on a 23-hour day are five real hours.

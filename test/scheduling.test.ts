@@ -36,12 +36,14 @@ function at(clock: string, date = '2026-07-14'): string {
   return `${date}T${clock}:00-05:00`;
 }
 
-function input(over: {
-  settings?: Partial<SchedulingSettings>;
-  technicians?: Technician[];
-  booked?: BookedVisit[];
-  request?: Partial<AvailabilityInput['request']>;
-} = {}): AvailabilityInput {
+function input(
+  over: {
+    settings?: Partial<SchedulingSettings>;
+    technicians?: Technician[];
+    booked?: BookedVisit[];
+    request?: Partial<AvailabilityInput['request']>;
+  } = {},
+): AvailabilityInput {
   return {
     settings: { ...settings, ...over.settings },
     technicians: over.technicians ?? [tech('ana')],
@@ -71,13 +73,7 @@ describe('business hours', () => {
       // Shorter last window: business hours close at 17:00; the technician works on to finish.
       [at('16:00'), at('17:00')],
     ]);
-    expect(ws.map((w) => w.localLabel)).toEqual([
-      'Tue 14 Jul, 8–10 am',
-      'Tue 14 Jul, 10 am–12 pm',
-      'Tue 14 Jul, 12–2 pm',
-      'Tue 14 Jul, 2–4 pm',
-      'Tue 14 Jul, 4–5 pm',
-    ]);
+    expect(ws.map((w) => w.localLabel)).toEqual(['Tue 14 Jul, 8–10 am', 'Tue 14 Jul, 10 am–12 pm', 'Tue 14 Jul, 12–2 pm', 'Tue 14 Jul, 2–4 pm', 'Tue 14 Jul, 4–5 pm']);
   });
 
   it('offers Saturday morning only and nothing on a closed Sunday', () => {
@@ -311,9 +307,7 @@ describe('offered windows are really free (checked minute by minute)', () => {
   function freeMinute(techId: string, booked: BookedVisit[], from: number, to: number, len: number, buffer: number): number | null {
     for (let t = from; t < to; t += MIN) {
       if (t < shift.start || t + len > shift.end) continue;
-      const clash = booked.some(
-        (v) => v.technicianId === techId && t < Date.parse(v.end) + buffer && Date.parse(v.start) - buffer < t + len,
-      );
+      const clash = booked.some((v) => v.technicianId === techId && t < Date.parse(v.end) + buffer && Date.parse(v.start) - buffer < t + len);
       if (!clash) return t;
     }
     return null;
@@ -341,9 +335,7 @@ describe('offered windows are really free (checked minute by minute)', () => {
           if (w) {
             const plan = planBooking(i, w.start);
             if (!plan.ok) throw new Error('offered window could not be planned');
-            const earliest = Math.min(
-              ...free.map((id) => freeMinute(id, booked, ws, we, 90 * MIN, buffer * MIN)!),
-            );
+            const earliest = Math.min(...free.map((id) => freeMinute(id, booked, ws, we, 90 * MIN, buffer * MIN)!));
             expect(Date.parse(plan.visit.start)).toBe(earliest);
             expect(freeMinute(plan.visit.technicianId, booked, earliest, earliest + MIN, 90 * MIN, buffer * MIN)).toBe(earliest);
           }

@@ -62,7 +62,11 @@ describe('equipment age', () => {
 
   it('agrees with Date arithmetic on whole months for a spread of dates', () => {
     // Oracle: month difference computed independently through the JavaScript Date object.
-    for (const [from, to] of [['2003-01-31', '2026-03-30'], ['2010-12-01', '2026-11-30'], ['1999-07-04', '2026-07-04']] as const) {
+    for (const [from, to] of [
+      ['2003-01-31', '2026-03-30'],
+      ['2010-12-01', '2026-11-30'],
+      ['1999-07-04', '2026-07-04'],
+    ] as const) {
       const a = new Date(`${from}T00:00:00Z`);
       const b = new Date(`${to}T00:00:00Z`);
       let months = (b.getUTCFullYear() - a.getUTCFullYear()) * 12 + b.getUTCMonth() - a.getUTCMonth();

@@ -20,7 +20,14 @@ describe('company settings', () => {
     const res = await owner.agent
       .put('/api/settings/company')
       .set(CSRF_HEADER_NAME, owner.csrf)
-      .send({ ...before, zip: '6479', state: 'Missouri', timeZone: 'Mars/Olympus', businessHours: { ...before.businessHours, '1': { open: '18:00', close: '07:30' } }, arrivalWindowMinutes: 45 });
+      .send({
+        ...before,
+        zip: '6479',
+        state: 'Missouri',
+        timeZone: 'Mars/Olympus',
+        businessHours: { ...before.businessHours, '1': { open: '18:00', close: '07:30' } },
+        arrivalWindowMinutes: 45,
+      });
     expect(res.status).toBe(422);
     expect(res.body.error.fields).toMatchObject({
       zip: 'ZIP code has 5 digits (or ZIP+4).',
@@ -35,7 +42,10 @@ describe('company settings', () => {
   it('save a change, record it in the access log, and keep the rest', async () => {
     const owner = await signInStaff(ctx, OWNER);
     const before = (await owner.agent.get('/api/settings/company')).body;
-    const changed = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, phone: '+18165550199' });
+    const changed = await owner.agent
+      .put('/api/settings/company')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...before, phone: '+18165550199' });
     expect(changed.status).toBe(200);
     expect(changed.body).toEqual({ ...before, phone: '+18165550199' });
     const restored = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send(before);
@@ -49,10 +59,19 @@ describe('company settings', () => {
     const owner = await signInStaff(ctx, OWNER);
     const before = (await owner.agent.get('/api/settings/company')).body;
     expect(before).toMatchObject({ coolingStartMonth: expect.any(Number), heatingStartMonth: expect.any(Number) });
-    const bad = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, coolingStartMonth: 13, heatingStartMonth: 0 });
+    const bad = await owner.agent
+      .put('/api/settings/company')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...before, coolingStartMonth: 13, heatingStartMonth: 0 });
     expect(bad.status).toBe(422);
-    expect(bad.body.error.fields).toMatchObject({ coolingStartMonth: 'Cooling season start is a month from 1 to 12.', heatingStartMonth: 'Heating season start is a month from 1 to 12.' });
-    const same = await owner.agent.put('/api/settings/company').set(CSRF_HEADER_NAME, owner.csrf).send({ ...before, heatingStartMonth: before.coolingStartMonth });
+    expect(bad.body.error.fields).toMatchObject({
+      coolingStartMonth: 'Cooling season start is a month from 1 to 12.',
+      heatingStartMonth: 'Heating season start is a month from 1 to 12.',
+    });
+    const same = await owner.agent
+      .put('/api/settings/company')
+      .set(CSRF_HEADER_NAME, owner.csrf)
+      .send({ ...before, heatingStartMonth: before.coolingStartMonth });
     expect(same.status).toBe(422);
     expect(Object.keys(same.body.error.fields)).toEqual(['heatingStartMonth']);
     // Left out, the months stay as they are.

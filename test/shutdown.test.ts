@@ -86,7 +86,10 @@ afterAll(async () => {
 describe('stopping the compiled server', () => {
   it('finishes the request in flight on SIGTERM, refuses new connections, then exits 0', async () => {
     const started = Date.now();
-    const slow = fetch(`http://127.0.0.1:${port}/api/health/slow?ms=1500`).then(async (r) => ({ status: r.status, body: (await r.json()) as { waitedMs: number; database: string } }));
+    const slow = fetch(`http://127.0.0.1:${port}/api/health/slow?ms=1500`).then(async (r) => ({
+      status: r.status,
+      body: (await r.json()) as { waitedMs: number; database: string },
+    }));
     await sleep(300);
     const exit = exited(child);
     child.kill('SIGTERM');

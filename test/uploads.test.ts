@@ -99,11 +99,14 @@ describe('uploads', () => {
     expect(res.body).toHaveLength(1);
     const f = res.body[0];
     expect(f).toMatchObject({ contentType: 'image/jpeg', category: 'nameplate', width: 640, height: 480, originalName: 'nameplate.jpg' });
-    const got = await office.agent.get(f.url).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const got = await office.agent
+      .get(f.url)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(got.status).toBe(200);
     expect(got.headers['content-disposition']).toMatch(/^inline; filename="nameplate.jpg"/);
     expect(got.headers['content-type']).toBe('image/jpeg');
@@ -147,14 +150,18 @@ describe('uploads', () => {
 
   it('accepts a PDF and serves it as a download', async () => {
     const pdf = Buffer.from('%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n');
-    const res = await upload(office, { customerId, category: 'document' }).attach('files', pdf, { filename: 'warranty card.pdf', contentType: 'application/octet-stream' }).expect(201);
+    const res = await upload(office, { customerId, category: 'document' })
+      .attach('files', pdf, { filename: 'warranty card.pdf', contentType: 'application/octet-stream' })
+      .expect(201);
     const got = await office.agent.get(res.body[0].url).expect(200);
     expect(got.headers['content-disposition']).toBe(`attachment; filename="warranty card.pdf"; filename*=UTF-8''warranty%20card.pdf`);
     expect(got.headers['content-type']).toBe('application/pdf');
   });
 
   it('takes at most 10 files in one request', async () => {
-    const tiny = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#fff' } }).png().toBuffer();
+    const tiny = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#fff' } })
+      .png()
+      .toBuffer();
     let req = upload(office, { propertyId });
     for (let i = 0; i < 11; i++) req = req.attach('files', tiny, { filename: `p${i}.png`, contentType: 'image/png' });
     const res = await req;
@@ -163,21 +170,29 @@ describe('uploads', () => {
   });
 
   it('serves files only to people who may see the household (404 otherwise)', async () => {
-    const res = await upload(office, { propertyId, category: 'problem' }).attach('files', await photoWithGps(), { filename: 'leak.jpg', contentType: 'image/jpeg' }).expect(201);
+    const res = await upload(office, { propertyId, category: 'problem' })
+      .attach('files', await photoWithGps(), { filename: 'leak.jpg', contentType: 'image/jpeg' })
+      .expect(201);
     await sam.agent.get(res.body[0].url).expect(404);
     await dana.agent.get(res.body[0].url).expect(404);
     const tech = await signInStaff(ctx, 'priya.dunmore@bluestem-comfort.test');
     await tech.agent.get(res.body[0].url).expect(404);
     await request(ctx.app).get(res.body[0].url).expect(401);
-    await upload(sam, { propertyId }).attach('files', await photoWithGps(), { filename: 'x.jpg', contentType: 'image/jpeg' }).expect(422);
-    const wrong = await upload(office, { propertyId, category: 'selfie' }).attach('files', await photoWithGps(), { filename: 'x.jpg' }).expect(422);
+    await upload(sam, { propertyId })
+      .attach('files', await photoWithGps(), { filename: 'x.jpg', contentType: 'image/jpeg' })
+      .expect(422);
+    const wrong = await upload(office, { propertyId, category: 'selfie' })
+      .attach('files', await photoWithGps(), { filename: 'x.jpg' })
+      .expect(422);
     expect(wrong.body.error.fields.category).toBeTruthy();
   });
 
   it('lets a homeowner add a photo to their own home and see it in My home', async () => {
     const mine = (await dana.agent.get('/api/my-home').expect(200)).body;
     const pid = mine.properties[0].id;
-    const res = await upload(dana, { propertyId: pid, category: 'problem' }).attach('files', await photoWithGps(), { filename: 'drip.jpg', contentType: 'image/jpeg' }).expect(201);
+    const res = await upload(dana, { propertyId: pid, category: 'problem' })
+      .attach('files', await photoWithGps(), { filename: 'drip.jpg', contentType: 'image/jpeg' })
+      .expect(201);
     const after = (await dana.agent.get('/api/my-home').expect(200)).body;
     expect(after.files.map((f: { id: string }) => f.id)).toContain(res.body[0].id);
     await dana.agent.get(res.body[0].url).expect(200);

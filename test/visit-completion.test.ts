@@ -3,7 +3,13 @@ import { completionProblems, unfinishedItems } from '../shared/visit-completion'
 
 describe('closing a visit', () => {
   const sections = [
-    { equipmentLabel: 'Outdoor unit', items: [{ text: 'Clean the condenser coil', result: 'done' }, { text: 'Check the contactor', result: null }] },
+    {
+      equipmentLabel: 'Outdoor unit',
+      items: [
+        { text: 'Clean the condenser coil', result: 'done' },
+        { text: 'Check the contactor', result: null },
+      ],
+    },
     { equipmentLabel: 'Furnace', items: [{ text: 'Check the flame sensor', result: null }] },
   ];
 

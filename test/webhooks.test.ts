@@ -35,7 +35,12 @@ async function renewalPaidByWebhookOnly(card = '4242424242424242') {
 
 describe('signed webhooks', () => {
   it('a bad signature gets 400 and changes nothing', async () => {
-    const payload = JSON.stringify({ id: 'evt_forged_1', object: 'event', type: 'payment_intent.succeeded', data: { object: { id: 'pi_forged', object: 'payment_intent', metadata: {} } } });
+    const payload = JSON.stringify({
+      id: 'evt_forged_1',
+      object: 'event',
+      type: 'payment_intent.succeeded',
+      data: { object: { id: 'pi_forged', object: 'payment_intent', metadata: {} } },
+    });
     const forged = Stripe.webhooks.generateTestHeaderString({ payload, secret: 'whsec_someone_else' });
     const res = await request(h.ctx.app).post('/api/webhooks/stripe').set('Stripe-Signature', forged).set('Content-Type', 'application/json').send(payload);
     expect(res.status).toBe(400);
@@ -43,7 +48,12 @@ describe('signed webhooks', () => {
     await request(h.ctx.app).post('/api/webhooks/stripe').set('Content-Type', 'application/json').send(payload).expect(400);
     // The body altered after signing fails too.
     const good = Stripe.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET });
-    await request(h.ctx.app).post('/api/webhooks/stripe').set('Stripe-Signature', good).set('Content-Type', 'application/json').send(payload.replace('pi_forged', 'pi_forgef')).expect(400);
+    await request(h.ctx.app)
+      .post('/api/webhooks/stripe')
+      .set('Stripe-Signature', good)
+      .set('Content-Type', 'application/json')
+      .send(payload.replace('pi_forged', 'pi_forgef'))
+      .expect(400);
     expect(await db().select().from(stripeEvents).where(eq(stripeEvents.id, 'evt_forged_1'))).toEqual([]);
   });
 
@@ -56,7 +66,10 @@ describe('signed webhooks', () => {
     expect(after.endsOn).toBe(termEnd(endsOn));
     const [inv] = await db().select().from(invoices).where(eq(invoices.id, invoiceId));
     expect(inv!.status).toBe('paid');
-    const delivered = h.fake.fake.deliveries().filter((d) => d.status === 200).map((d) => d.eventId);
+    const delivered = h.fake.fake
+      .deliveries()
+      .filter((d) => d.status === 200)
+      .map((d) => d.eventId);
     const stored = await db().select().from(stripeEvents).where(inArray(stripeEvents.id, delivered));
     expect(stored.length).toBe(new Set(delivered).size);
     expect(stored.every((e) => e.processedAt !== null)).toBe(true);
@@ -66,7 +79,12 @@ describe('signed webhooks', () => {
     h.fake.fake.setWebhookBehaviour({ duplicate: true });
     const { agreement, invoiceId } = await renewalPaidByWebhookOnly();
     // A third copy of the completed-session event, signed as the processor signs it.
-    const event = h.fake.fake.events().find((e) => e.type === 'checkout.session.completed' && (e as unknown as { data: { object: { metadata: Record<string, string> } } }).data.object.metadata['invoiceId'] === invoiceId)!;
+    const event = h.fake.fake
+      .events()
+      .find(
+        (e) =>
+          e.type === 'checkout.session.completed' && (e as unknown as { data: { object: { metadata: Record<string, string> } } }).data.object.metadata['invoiceId'] === invoiceId,
+      )!;
     const payload = JSON.stringify(event);
     await request(h.ctx.app)
       .post('/api/webhooks/stripe')

@@ -19,7 +19,15 @@ export async function latestMail(to: string, { after = 0, timeoutMs = 15_000 } =
   while (Date.now() < until) {
     const res = await fetch(`${MAILBOX_URL}/api/messages/latest?to=${encodeURIComponent(to)}`);
     if (res.ok) {
-      const msg = (await res.json()) as { id: string; receivedAt: string; subject: string; text: string; html: string; links: string[]; attachments: { filename: string; contentType: string; index: number }[] };
+      const msg = (await res.json()) as {
+        id: string;
+        receivedAt: string;
+        subject: string;
+        text: string;
+        html: string;
+        links: string[];
+        attachments: { filename: string; contentType: string; index: number }[];
+      };
       if (new Date(msg.receivedAt).getTime() > after) return msg;
     }
     await new Promise((r) => setTimeout(r, 250));

@@ -22,7 +22,11 @@ export interface PageResult {
 export async function auditPage(page: Page, role: string, path: string): Promise<PageResult> {
   await page.goto(path, { waitUntil: 'load' });
   await page.waitForLoadState('networkidle', { timeout: 10_000 }).catch(() => undefined);
-  await page.locator('h1').first().waitFor({ state: 'visible', timeout: 10_000 }).catch(() => undefined);
+  await page
+    .locator('h1')
+    .first()
+    .waitFor({ state: 'visible', timeout: 10_000 })
+    .catch(() => undefined);
   // Late shifts and late paints count: give the page a beat after its data arrived.
   await page.waitForTimeout(500);
   const vitals = await readVitals(page);
@@ -34,6 +38,11 @@ export async function auditPage(page: Page, role: string, path: string): Promise
     lcpMs: vitals.lcpMs === null ? null : Math.round(vitals.lcpMs),
     cls: Number(vitals.cls.toFixed(4)),
     shifts: vitals.shifts,
-    violations: axe.violations.map((v) => ({ id: v.id, impact: v.impact ?? null, help: v.help, targets: v.nodes.slice(0, 5).map((n) => `${n.target.join(' ')}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, ' ').slice(0, 200)}` : ''}`) })),
+    violations: axe.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact ?? null,
+      help: v.help,
+      targets: v.nodes.slice(0, 5).map((n) => `${n.target.join(' ')}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, ' ').slice(0, 200)}` : ''}`),
+    })),
   };
 }

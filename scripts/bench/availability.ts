@@ -75,13 +75,17 @@ async function throughput(): Promise<void> {
   const { cookie, csrf } = await signIn(base);
   const property = (await pool.query(`select id from properties order by id limit 1`)).rows[0].id as string;
   // The generated calendar is nearly full; an urgent no-cooling call may use the held-back share.
-  const offer = (await (await fetch(`${base}/api/booking/windows?propertyId=${property}&reason=no_cooling&days=31`, { headers: { cookie } })).json()) as { windows: { start: string }[] };
+  const offer = (await (await fetch(`${base}/api/booking/windows?propertyId=${property}&reason=no_cooling&days=31`, { headers: { cookie } })).json()) as {
+    windows: { start: string }[];
+  };
   if (!offer.windows.length) throw new Error('no free window left for the booking run');
   const windowStart = offer.windows[0]!.start;
   const headers = { cookie, 'x-xsrf-token': csrf, 'content-type': 'application/json' };
 
   const windows = await autocannon({ url: `${base}/api/booking/windows?propertyId=${property}&reason=no_cooling&days=7`, connections: 50, duration: 8, headers });
-  console.log(`GET  /api/booking/windows  50 clients: ${windows.requests.average.toFixed(0)} req/s, p50 ${windows.latency.p50} ms, p99 ${windows.latency.p99} ms, non-2xx ${windows.non2xx}`);
+  console.log(
+    `GET  /api/booking/windows  50 clients: ${windows.requests.average.toFixed(0)} req/s, p50 ${windows.latency.p50} ms, p99 ${windows.latency.p99} ms, non-2xx ${windows.non2xx}`,
+  );
 
   const codes = new Map<number, number>();
   const book = await autocannon({

@@ -29,7 +29,9 @@ const demo = Number((await pool.query(`select count(*) from customers`)).rows[0]
 await generateHouseholds(pool, Math.max(0, HOUSEHOLDS - demo));
 await furnishHouseholds(pool, NOW.toISODate()!);
 // Filters on a share of the furnaces, of each depth, so the filter audience has work to do.
-await pool.query(`update equipment set filter_size = (array['16x25x1','20x25x1','20x25x2','20x25x4'])[1 + abs(hashtext(id::text)) % 4] where kind = 'gas_furnace' and abs(hashtext(id::text)) % 3 > 0`);
+await pool.query(
+  `update equipment set filter_size = (array['16x25x1','20x25x1','20x25x2','20x25x4'])[1 + abs(hashtext(id::text)) % 4] where kind = 'gas_furnace' and abs(hashtext(id::text)) % 3 > 0`,
+);
 await pool.query(`analyze equipment`);
 const households = Number((await pool.query(`select count(*) from customers`)).rows[0].count);
 
@@ -55,7 +57,12 @@ bare.close();
 
 // ---- The campaign: outbox written set-based, sent by a worker process ----
 const office = (await pool.query(`select id from users where role = 'office' limit 1`)).rows[0].id as string;
-const camp = (await pool.query(`insert into reminder_campaigns (kind, created_by_id, audience_count, status, started_at) values ('filter', $1, $2, 'sending', now()) returning id`, [office, CAMPAIGN_N])).rows[0].id as string;
+const camp = (
+  await pool.query(`insert into reminder_campaigns (kind, created_by_id, audience_count, status, started_at) values ('filter', $1, $2, 'sending', now()) returning id`, [
+    office,
+    CAMPAIGN_N,
+  ])
+).rows[0].id as string;
 await pool.query(
   `insert into reminder_sends (campaign_id, customer_id, property_id, kind, email, reason)
    select $1, c.id, (select p.id from properties p where p.customer_id = c.id limit 1), 'filter', c.email, 'due' from customers c where c.email is not null order by c.id limit $2`,

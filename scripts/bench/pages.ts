@@ -23,7 +23,16 @@ const [app, mailbox, stripe, smtp] = [await freePort(), await freePort(), await 
 const run = spawnSync(join(ROOT, 'node_modules', '.bin', 'playwright'), ['test', 'e2e/pages.spec.ts'], {
   cwd: ROOT,
   stdio: ['ignore', 'ignore', 'inherit'],
-  env: { ...process.env, E2E_DATABASE_URL: URL_, E2E_PORT: String(app), E2E_MAILBOX_PORT: String(mailbox), E2E_STRIPE_PORT: String(stripe), E2E_SMTP_PORT: String(smtp), PAGES_RESULTS: RESULTS, PW_JSON: join(ROOT, 'test-results', 'bench-pages.json') },
+  env: {
+    ...process.env,
+    E2E_DATABASE_URL: URL_,
+    E2E_PORT: String(app),
+    E2E_MAILBOX_PORT: String(mailbox),
+    E2E_STRIPE_PORT: String(stripe),
+    E2E_SMTP_PORT: String(smtp),
+    PAGES_RESULTS: RESULTS,
+    PW_JSON: join(ROOT, 'test-results', 'bench-pages.json'),
+  },
 });
 
 if (!existsSync(RESULTS)) {

@@ -79,7 +79,9 @@ try {
     );
     const bare = stats(await timed(() => database.db.execute(REPORT_SQL[name](q, NOW.toJSDate()))));
     const f = (x: number) => x.toFixed(1).padStart(8);
-    console.log(`${name.padEnd(13)} ${f(route.median)} ${' ' + f(route.p95)} ${f(bare.median)} ${f(bare.p95)} ${(route.median / bare.median).toFixed(2).padStart(9)} ${String(rows).padStart(5)}`);
+    console.log(
+      `${name.padEnd(13)} ${f(route.median)} ${' ' + f(route.p95)} ${f(bare.median)} ${f(bare.p95)} ${(route.median / bare.median).toFixed(2).padStart(9)} ${String(rows).padStart(5)}`,
+    );
   }
 } finally {
   await database.close();

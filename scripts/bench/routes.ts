@@ -52,7 +52,6 @@ const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const RESULTS = join(ROOT, 'bench', 'results', 'latest.json');
 const NEXT_BOOKING = join(dirname(fileURLToPath(import.meta.url)), 'lib', 'next-booking.cjs');
 
-
 interface Figures {
   rps: number;
   p50: number;
@@ -302,7 +301,11 @@ async function main(): Promise<void> {
     const myHome = await home.json<{ properties?: { id: string }[] }>('GET', '/api/my-home');
     const homePropertyId =
       myHome.properties?.[0]?.id ??
-      (await database.pool.query<{ id: string }>(`select p.id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 limit 1`, [DEMO_HOMEOWNERS[0].email])).rows[0]!.id;
+      (
+        await database.pool.query<{ id: string }>(`select p.id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 limit 1`, [
+          DEMO_HOMEOWNERS[0].email,
+        ])
+      ).rows[0]!.id;
 
     // Booking targets: windows on days past the generated calendar, so capacity is known to be
     // free. Each window is booked by several households (well under the technicians free in it),
@@ -428,9 +431,7 @@ async function main(): Promise<void> {
       }
       // One request alone, after one to warm any cache, counted to the last statement it causes
       // (BEGIN, COMMIT and lock statements included: each is a round trip).
-      const one =
-        spec.once ??
-        (() => fetch(`${base}${l.path ?? l.paths![0]}`, { method: l.method ?? 'GET', headers: l.headers }));
+      const one = spec.once ?? (() => fetch(`${base}${l.path ?? l.paths![0]}`, { method: l.method ?? 'GET', headers: l.headers }));
       if (!spec.once) await (await one()).arrayBuffer();
       await drain(database.pool);
       counter.reset();
@@ -455,7 +456,11 @@ async function main(): Promise<void> {
         const { rows } = await database.pool.query<{ booked: number; twice: number }>(
           `select count(*)::int as booked, (count(*) - count(distinct (property_id, window_start)))::int as twice
            from visits where status = 'requested' and window_start >= $1`,
-          [NOW.plus({ days: DAYS + 14 }).startOf('day').toJSDate()],
+          [
+            NOW.plus({ days: DAYS + 14 })
+              .startOf('day')
+              .toJSDate(),
+          ],
         );
         console.log(`${''.padEnd(16)} ${rows[0]!.booked} visits booked in all, ${rows[0]!.twice} of them twice`);
       }

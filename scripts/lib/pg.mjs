@@ -163,4 +163,3 @@ export function dropDatabase(bin, port, name) {
 export function databaseUrl(port, name) {
   return `postgres://postgres@127.0.0.1:${port}/${name}`;
 }
-

@@ -23,7 +23,6 @@ type AgreementRow = typeof agreements.$inferSelect;
 type PlanVersionRow = typeof planVersions.$inferSelect;
 type PlanRow = typeof plans.$inferSelect;
 
-
 /** Price for a term: the yearly price plus each system beyond the first. */
 export function termPriceCents(v: Pick<PlanVersionRow, 'yearlyPriceCents' | 'additionalSystemCents'>, systems: number): number {
   return v.yearlyPriceCents + v.additionalSystemCents * Math.max(systems - 1, 0);
@@ -77,8 +76,7 @@ export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: stri
   const latest = await currentVersion(db, sold.plan.id);
   const opens = renewalWindowOpens(a.endsOn);
   const termViews = await agreementTermViews(db, a, todayIso);
-  const canRenew =
-    (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && todayIso >= opens)) && sold.plan.active;
+  const canRenew = (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && todayIso >= opens)) && sold.plan.active;
   return {
     id: a.id,
     customerId: a.customerId,
@@ -121,7 +119,10 @@ export async function myAgreements(deps: Pick<AppDeps, 'database' | 'clock'>, us
 export async function myProperties(deps: Pick<AppDeps, 'database'>, user: SessionUser) {
   if (!user.customerId) return [];
   const { db } = deps.database;
-  const rows = await db.select().from(properties).where(and(eq(properties.customerId, user.customerId), isNull(properties.archivedAt)));
+  const rows = await db
+    .select()
+    .from(properties)
+    .where(and(eq(properties.customerId, user.customerId), isNull(properties.archivedAt)));
   const held = await db
     .select({ propertyId: agreements.propertyId })
     .from(agreements)
@@ -153,7 +154,11 @@ async function ownAgreement(deps: Pick<AppDeps, 'database'>, user: SessionUser, 
 // ---------- Enrolling ----------
 
 /** A pending agreement and its first invoice; the Checkout payment makes it active. */
-export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, input: EnrollInput): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
+export async function enroll(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>,
+  user: SessionUser,
+  input: EnrollInput,
+): Promise<{ agreementId: string; invoiceId: string; checkoutUrl: string }> {
   const { db } = deps.database;
   const prop = await ownedProperty(db, user, input.propertyId, 'propertyId');
   const [plan] = await db.select().from(plans).where(eq(plans.id, input.planId));
@@ -193,7 +198,15 @@ export async function enroll(deps: Pick<AppDeps, 'config' | 'database' | 'clock'
     await recordHistory(tx, { agreementId: a!.id, event: 'enrolled', toStatus: 'pending', note: `${plan.name} v${version.version}`, actorId: user.id });
     const inv = await insertInvoice(
       tx,
-      { customerId: prop.customerId, agreementId: a!.id, purpose: 'enrollment', planVersionId: version.id, termStartsOn: t, lines: termLines(plan, version, input.systemsCount, t, 0), issue: true },
+      {
+        customerId: prop.customerId,
+        agreementId: a!.id,
+        purpose: 'enrollment',
+        planVersionId: version.id,
+        termStartsOn: t,
+        lines: termLines(plan, version, input.systemsCount, t, 0),
+        issue: true,
+      },
       deps.clock(),
     );
     return { agreementId: a!.id, invoiceId: inv.id };
@@ -239,13 +252,19 @@ export async function ensureRenewalInvoice(deps: Pick<AppDeps, 'clock'>, tx: Tx,
 }
 
 function assertRenewable(a: AgreementRow, todayIso: string) {
-  if (a.status === 'canceled' || a.status === 'pending') throw conflict(a.status === 'pending' ? 'This agreement is waiting for its first payment.' : 'A canceled agreement cannot be renewed.');
+  if (a.status === 'canceled' || a.status === 'pending')
+    throw conflict(a.status === 'pending' ? 'This agreement is waiting for its first payment.' : 'A canceled agreement cannot be renewed.');
   if (a.status === 'active' && todayIso < renewalWindowOpens(a.endsOn)) {
     throw conflict(`Renewal opens on ${renewalWindowOpens(a.endsOn)}, 60 days before the agreement ends.`);
   }
 }
 
-export async function renewOnline(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, saveCard: boolean): Promise<{ invoiceId: string; checkoutUrl: string }> {
+export async function renewOnline(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>,
+  user: SessionUser,
+  id: string,
+  saveCard: boolean,
+): Promise<{ invoiceId: string; checkoutUrl: string }> {
   const a0 = await ownAgreement(deps, user, id);
   const t = await companyToday(deps);
   assertRenewable(a0, t);
@@ -255,7 +274,12 @@ export async function renewOnline(deps: Pick<AppDeps, 'config' | 'database' | 'c
 }
 
 /** The office records a check or cash renewal: renewal invoice, payment, new term, receipt. */
-export async function manualRenewal(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, user: SessionUser, id: string, input: { method: 'check' | 'cash'; reference: string }) {
+export async function manualRenewal(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>,
+  user: SessionUser,
+  id: string,
+  input: { method: 'check' | 'cash'; reference: string },
+) {
   const { db } = deps.database;
   const [a0] = await db.select().from(agreements).where(eq(agreements.id, id));
   if (!a0) throw notFound('That agreement');
@@ -268,7 +292,12 @@ export async function manualRenewal(deps: Pick<AppDeps, 'database' | 'clock' | '
 
 // ---------- Automatic renewal and saved card ----------
 
-export async function setAutoRenew(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>, user: SessionUser, id: string, enabled: boolean): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
+export async function setAutoRenew(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'stripe'>,
+  user: SessionUser,
+  id: string,
+  enabled: boolean,
+): Promise<{ agreement: AgreementView; checkoutUrl?: string }> {
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled' || a.status === 'lapsed') throw conflict('Automatic renewal is only for a current agreement.');
   if (enabled && !a.stripePaymentMethodId) {

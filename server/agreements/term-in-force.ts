@@ -29,7 +29,12 @@ export async function termsOf(db: Db | Tx, rows: readonly AgreementDates[]): Pro
     .select({ t: agreementTerms, number: invoices.number, paidCents: invoices.paidCents })
     .from(agreementTerms)
     .leftJoin(invoices, eq(invoices.id, agreementTerms.invoiceId))
-    .where(inArray(agreementTerms.agreementId, rows.map((r) => r.id)))
+    .where(
+      inArray(
+        agreementTerms.agreementId,
+        rows.map((r) => r.id),
+      ),
+    )
     .orderBy(asc(agreementTerms.startsOn));
   for (const { t, number, paidCents } of found) {
     out.get(t.agreementId)!.push({
@@ -47,7 +52,17 @@ export async function termsOf(db: Db | Tx, rows: readonly AgreementDates[]): Pro
   for (const r of rows) {
     const list = out.get(r.id)!;
     if (r.status === 'pending' || list.some((t) => t.startsOn === r.startsOn)) continue;
-    list.push({ id: null, startsOn: r.startsOn, endsOn: r.endsOn, planVersionId: r.planVersionId, priceCents: r.priceCents, invoiceId: null, invoiceNumber: null, paidCents: null, source: 'agreement' });
+    list.push({
+      id: null,
+      startsOn: r.startsOn,
+      endsOn: r.endsOn,
+      planVersionId: r.planVersionId,
+      priceCents: r.priceCents,
+      invoiceId: null,
+      invoiceNumber: null,
+      paidCents: null,
+      source: 'agreement',
+    });
     list.sort((a, b) => (a.startsOn < b.startsOn ? -1 : 1));
   }
   return out;
@@ -95,4 +110,3 @@ export async function agreementTermViewsFor(db: Db | Tx, rows: readonly Agreemen
   }
   return out;
 }
-

@@ -143,7 +143,12 @@ function creditUsed(invoice: InvoiceRow): number {
 }
 
 /** Keeps a card saved at the processor on the agreement for renewal charges, for the billing feature. */
-export async function saveCardOnAgreement(tx: Tx, agreementId: string, card: { paymentMethodId: string; brand: string; last4: string }, opts: { autoRenew?: boolean } = {}): Promise<void> {
+export async function saveCardOnAgreement(
+  tx: Tx,
+  agreementId: string,
+  card: { paymentMethodId: string; brand: string; last4: string },
+  opts: { autoRenew?: boolean } = {},
+): Promise<void> {
   await tx
     .update(agreements)
     .set({ stripePaymentMethodId: card.paymentMethodId, cardBrand: card.brand, cardLast4: card.last4, ...(opts.autoRenew ? { autoRenew: true } : {}) })

@@ -20,6 +20,15 @@ export async function listAuditEvents(deps: Pick<AppDeps, 'database'>, q: { page
     total,
     page: q.page,
     pageSize: q.pageSize,
-    items: rows.map(({ e, actorName }) => ({ id: e.id, at: e.at.toISOString(), actorUserId: e.actorUserId, actorName, action: e.action, subject: e.subject, ip: e.ip, details: e.details })),
+    items: rows.map(({ e, actorName }) => ({
+      id: e.id,
+      at: e.at.toISOString(),
+      actorUserId: e.actorUserId,
+      actorName,
+      action: e.action,
+      subject: e.subject,
+      ip: e.ip,
+      details: e.details,
+    })),
   };
 }

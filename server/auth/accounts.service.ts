@@ -13,7 +13,13 @@ import { hashPassword } from './passwords';
 import { endAllSessions, forgetSessionUser } from './session';
 
 // New technicians start on weekday days; the office adjusts them later.
-const DEFAULT_WEEKLY_HOURS = { '1': { start: '08:00', end: '17:00' }, '2': { start: '08:00', end: '17:00' }, '3': { start: '08:00', end: '17:00' }, '4': { start: '08:00', end: '17:00' }, '5': { start: '08:00', end: '17:00' } };
+const DEFAULT_WEEKLY_HOURS = {
+  '1': { start: '08:00', end: '17:00' },
+  '2': { start: '08:00', end: '17:00' },
+  '3': { start: '08:00', end: '17:00' },
+  '4': { start: '08:00', end: '17:00' },
+  '5': { start: '08:00', end: '17:00' },
+};
 
 export interface Delivery {
   email: string;
@@ -22,14 +28,24 @@ export interface Delivery {
 }
 
 /** Links a household to a new homeowner sign-in and returns the invitation link to send. */
-export async function inviteHousehold(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, actor: SessionUser, customerId: string | undefined, input: HouseholdInvite, ip: string): Promise<Delivery & { customerId: string; userId: string }> {
+export async function inviteHousehold(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock'>,
+  actor: SessionUser,
+  customerId: string | undefined,
+  input: HouseholdInvite,
+  ip: string,
+): Promise<Delivery & { customerId: string; userId: string }> {
   const db = deps.database.db;
   const now = deps.clock();
   if (!customerId && !input.email) throw new AppError(422, 'validation_failed', 'Enter a customer or an e-mail address.', { email: 'Enter a customer or an e-mail address.' });
   return db.transaction(async (tx) => {
     let customer: { id: string; name: string; email: string | null } | undefined;
     if (customerId) {
-      [customer] = await tx.select({ id: customers.id, name: customers.name, email: customers.email }).from(customers).where(and(eq(customers.id, customerId), isNull(customers.archivedAt))).limit(1);
+      [customer] = await tx
+        .select({ id: customers.id, name: customers.name, email: customers.email })
+        .from(customers)
+        .where(and(eq(customers.id, customerId), isNull(customers.archivedAt)))
+        .limit(1);
       if (!customer) throw notFound('That household');
     } else {
       const found = await tx
@@ -38,7 +54,10 @@ export async function inviteHousehold(deps: Pick<AppDeps, 'config' | 'database' 
         .where(and(sql`lower(${customers.email}) = ${input.email}`, isNull(customers.archivedAt)))
         .limit(2);
       if (found.length === 0) throw new AppError(404, 'not_found', 'No household has that e-mail address.', { email: 'No household has that e-mail address.' });
-      if (found.length > 1) throw new AppError(409, 'ambiguous', 'Several households have that e-mail address; invite from the household record.', { email: 'Several households have that e-mail address.' });
+      if (found.length > 1)
+        throw new AppError(409, 'ambiguous', 'Several households have that e-mail address; invite from the household record.', {
+          email: 'Several households have that e-mail address.',
+        });
       customer = found[0];
     }
     const email = input.email ?? (customer.email ? normaliseEmail(customer.email) : undefined);
@@ -49,7 +68,10 @@ export async function inviteHousehold(deps: Pick<AppDeps, 'config' | 'database' 
       throw new AppError(409, 'email_taken', 'That e-mail address already signs in to another account.', { email: 'That e-mail address already signs in to another account.' });
     }
     if (!user) {
-      [user] = await tx.insert(users).values({ email, name: input.name ?? customer.name, role: 'homeowner', customerId: customer.id }).returning();
+      [user] = await tx
+        .insert(users)
+        .values({ email, name: input.name ?? customer.name, role: 'homeowner', customerId: customer.id })
+        .returning();
     }
     const token = await issueLink(tx, deps.config.JWT_SECRET, now, user, 'sign_in', INVITATION_LINK_MINUTES);
     await recordAudit(tx, { action: 'household_invited', actorUserId: actor.id, subject: email, ip, at: now, details: { customerId: customer.id, userId: user.id } });
@@ -58,7 +80,12 @@ export async function inviteHousehold(deps: Pick<AppDeps, 'config' | 'database' 
 }
 
 /** The owner invites a technician or office member; the link sets the first password. */
-export async function inviteStaff(deps: Pick<AppDeps, 'config' | 'database' | 'clock'>, actor: SessionUser, input: StaffInvite, ip: string): Promise<Delivery & { userId: string }> {
+export async function inviteStaff(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock'>,
+  actor: SessionUser,
+  input: StaffInvite,
+  ip: string,
+): Promise<Delivery & { userId: string }> {
   const now = deps.clock();
   return deps.database.db.transaction(async (tx) => {
     const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).limit(1);
@@ -97,7 +124,10 @@ export async function setPasswordFromLink(deps: Pick<AppDeps, 'config' | 'databa
     .returning();
   if (!u) throw new AppError(400, 'link_invalid', 'This link is not valid. Please ask for a new one.', { token: 'This link is not valid.' });
   // Other unused links for this account stop working once a password is chosen.
-  await db.update(signInLinks).set({ usedAt: now }).where(and(eq(signInLinks.userId, u.id), eq(signInLinks.purpose, 'set_password'), isNull(signInLinks.usedAt)));
+  await db
+    .update(signInLinks)
+    .set({ usedAt: now })
+    .where(and(eq(signInLinks.userId, u.id), eq(signInLinks.purpose, 'set_password'), isNull(signInLinks.usedAt)));
   await endAllSessions(deps, u.id);
   await recordAudit(db, { action: 'password_set', actorUserId: u.id, subject: u.email, ip, at: now });
   return { id: u.id, name: u.name, email: u.email, role: u.role, customerId: u.customerId };
@@ -131,14 +161,20 @@ export async function updateStaff(deps: Pick<AppDeps, 'database' | 'clock'>, act
     if (change.role && change.role !== u.role) {
       await tx.update(users).set({ role: change.role }).where(eq(users.id, u.id));
       if (change.role === 'technician') {
-        await tx.insert(technicians).values({ userId: u.id, weeklyHours: DEFAULT_WEEKLY_HOURS }).onConflictDoUpdate({ target: technicians.userId, set: { active: true } });
+        await tx
+          .insert(technicians)
+          .values({ userId: u.id, weeklyHours: DEFAULT_WEEKLY_HOURS })
+          .onConflictDoUpdate({ target: technicians.userId, set: { active: true } });
       } else {
         await tx.update(technicians).set({ active: false }).where(eq(technicians.userId, u.id));
       }
       await recordAudit(tx, { action: 'role_changed', actorUserId: actor.id, subject: u.email, ip, at: now, details: { userId: u.id, from: u.role, to: change.role } });
     }
     if (change.disabled !== undefined && change.disabled !== !!u.disabledAt) {
-      await tx.update(users).set({ disabledAt: change.disabled ? now : null }).where(eq(users.id, u.id));
+      await tx
+        .update(users)
+        .set({ disabledAt: change.disabled ? now : null })
+        .where(eq(users.id, u.id));
       await recordAudit(tx, { action: change.disabled ? 'user_disabled' : 'user_enabled', actorUserId: actor.id, subject: u.email, ip, at: now, details: { userId: u.id } });
     }
   });

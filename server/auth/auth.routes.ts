@@ -95,7 +95,14 @@ export function authRoutes(deps: AppDeps): Router {
     const user = currentUser(req);
     const ended = await endAllSessions(deps, user.id);
     await endSession(req, res, deps);
-    await recordAudit(deps.database.db, { action: 'sign_out_everywhere', actorUserId: user.id, subject: user.email, ip: ipOf(req), at: deps.clock(), details: { sessions: ended } });
+    await recordAudit(deps.database.db, {
+      action: 'sign_out_everywhere',
+      actorUserId: user.id,
+      subject: user.email,
+      ip: ipOf(req),
+      at: deps.clock(),
+      details: { sessions: ended },
+    });
     res.json({ user: null, sessionsEnded: ended });
   });
 

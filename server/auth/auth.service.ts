@@ -39,7 +39,14 @@ export async function verifyStaffPassword(deps: Pick<AppDeps, 'database' | 'cloc
   if (!u || !ok) {
     const account = await recordFailure(db, keys.account, ACCOUNT_LOCK_AFTER, now);
     await recordFailure(db, keys.ip, IP_LOCK_AFTER, now);
-    await recordAudit(db, { action: account.locked ? 'sign_in_locked' : 'sign_in_failed', subject: email, ip, at: now, actorUserId: u?.id ?? null, details: { failures: account.failures } });
+    await recordAudit(db, {
+      action: account.locked ? 'sign_in_locked' : 'sign_in_failed',
+      subject: email,
+      ip,
+      at: now,
+      actorUserId: u?.id ?? null,
+      details: { failures: account.failures },
+    });
     throw badCredentials();
   }
   if (u.disabledAt) {

@@ -65,14 +65,7 @@ export async function storeLinkForAddress(
 }
 
 /** Issues and stores a link for a known user (invitations, test sign-ins). */
-export async function issueLink(
-  db: Db | Tx,
-  secret: string,
-  now: Date,
-  user: { id: string; email: string },
-  purpose: LinkPurpose,
-  minutes: number,
-): Promise<string> {
+export async function issueLink(db: Db | Tx, secret: string, now: Date, user: { id: string; email: string }, purpose: LinkPurpose, minutes: number): Promise<string> {
   const link = signLinkToken(secret, now, user.email, purpose, minutes);
   await db.insert(signInLinks).values({ jtiHash: link.jtiHash, email: user.email, userId: user.id, purpose, expiresAt: link.expiresAt });
   return link.token;
@@ -100,15 +93,7 @@ export async function consumeLink(db: Db | Tx, secret: string, now: Date, token:
   const [used] = await db
     .update(signInLinks)
     .set({ usedAt: now })
-    .where(
-      and(
-        eq(signInLinks.jtiHash, jtiHash),
-        eq(signInLinks.email, claims.sub),
-        eq(signInLinks.purpose, purpose),
-        isNull(signInLinks.usedAt),
-        gt(signInLinks.expiresAt, now),
-      ),
-    )
+    .where(and(eq(signInLinks.jtiHash, jtiHash), eq(signInLinks.email, claims.sub), eq(signInLinks.purpose, purpose), isNull(signInLinks.usedAt), gt(signInLinks.expiresAt, now)))
     .returning({ userId: signInLinks.userId, email: signInLinks.email });
   if (used?.userId) return { userId: used.userId, email: used.email };
 

@@ -17,20 +17,19 @@ export async function pruneLimits(deps: Pick<AppDeps, 'database' | 'clock'>): Pr
   const rateLimits = await db.delete(rateLimitHits).where(lte(rateLimitHits.resetAt, now)).returning({ key: rateLimitHits.key });
   const throttles = await db
     .delete(authThrottle)
-    .where(
-      and(
-        or(isNull(authThrottle.lockedUntil), lte(authThrottle.lockedUntil, now)),
-        or(isNull(authThrottle.lastFailureAt), lt(authThrottle.lastFailureAt, forgottenBefore)),
-      ),
-    )
+    .where(and(or(isNull(authThrottle.lockedUntil), lte(authThrottle.lockedUntil, now)), or(isNull(authThrottle.lastFailureAt), lt(authThrottle.lastFailureAt, forgottenBefore))))
     .returning({ key: authThrottle.key });
   return { rateLimits: rateLimits.length, throttles: throttles.length };
 }
 
 export function registerAuthJobs(deps: AppDeps): void {
   // Daily, in the quiet of the night (company time zone).
-  deps.jobs.register(PRUNE_LIMITS_JOB, async () => {
-    const pruned = await pruneLimits(deps);
-    deps.logger.info(pruned, 'pruned ended rate-limit windows and sign-in throttles');
-  }, { cron: '40 3 * * *' });
+  deps.jobs.register(
+    PRUNE_LIMITS_JOB,
+    async () => {
+      const pruned = await pruneLimits(deps);
+      deps.logger.info(pruned, 'pruned ended rate-limit windows and sign-in throttles');
+    },
+    { cron: '40 3 * * *' },
+  );
 }

@@ -98,9 +98,45 @@ export function limiter(deps: AppDeps, spec: LimitSpec): RequestHandler {
 
 const WAIT = 'Please wait a few minutes and try again.';
 export const authLimits = (deps: AppDeps) => ({
-  linkByEmail: limiter(deps, { name: 'link-email', schema: linkRequestSchema, windowMinutes: 15, limit: 5, by: 'email', message: `We have already sent several links to this address. ${WAIT}` }),
-  linkByIp: limiter(deps, { name: 'link-ip', schema: linkRequestSchema, windowMinutes: 15, limit: 30, by: 'ip', message: `Too many sign-in link requests from this network. ${WAIT}` }),
-  passwordByIp: limiter(deps, { name: 'password-ip', schema: staffSignInSchema, windowMinutes: 15, limit: 40, by: 'ip', failuresOnly: true, message: `Too many sign-in attempts from this network. ${WAIT}` }),
-  resetByEmail: limiter(deps, { name: 'reset-email', schema: forgotPasswordSchema, windowMinutes: 15, limit: 3, by: 'email', message: `We have already sent several links to this address. ${WAIT}` }),
-  resetByIp: limiter(deps, { name: 'reset-ip', schema: forgotPasswordSchema, windowMinutes: 15, limit: 20, by: 'ip', message: `Too many password reset requests from this network. ${WAIT}` }),
+  linkByEmail: limiter(deps, {
+    name: 'link-email',
+    schema: linkRequestSchema,
+    windowMinutes: 15,
+    limit: 5,
+    by: 'email',
+    message: `We have already sent several links to this address. ${WAIT}`,
+  }),
+  linkByIp: limiter(deps, {
+    name: 'link-ip',
+    schema: linkRequestSchema,
+    windowMinutes: 15,
+    limit: 30,
+    by: 'ip',
+    message: `Too many sign-in link requests from this network. ${WAIT}`,
+  }),
+  passwordByIp: limiter(deps, {
+    name: 'password-ip',
+    schema: staffSignInSchema,
+    windowMinutes: 15,
+    limit: 40,
+    by: 'ip',
+    failuresOnly: true,
+    message: `Too many sign-in attempts from this network. ${WAIT}`,
+  }),
+  resetByEmail: limiter(deps, {
+    name: 'reset-email',
+    schema: forgotPasswordSchema,
+    windowMinutes: 15,
+    limit: 3,
+    by: 'email',
+    message: `We have already sent several links to this address. ${WAIT}`,
+  }),
+  resetByIp: limiter(deps, {
+    name: 'reset-ip',
+    schema: forgotPasswordSchema,
+    windowMinutes: 15,
+    limit: 20,
+    by: 'ip',
+    message: `Too many password reset requests from this network. ${WAIT}`,
+  }),
 });

@@ -139,7 +139,13 @@ export function authMiddleware(deps: AppDeps, csrfExemptMounts: string[]): Route
     session({
       name: sessionCookieName(config.production),
       secret: config.SESSION_SECRET,
-      store: new PgStore({ pool: database.pool, tableName: SESSION_TABLE, createTableIfMissing: true, disableTouch: true, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
+      store: new PgStore({
+        pool: database.pool,
+        tableName: SESSION_TABLE,
+        createTableIfMissing: true,
+        disableTouch: true,
+        pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60,
+      }),
       resave: false,
       saveUninitialized: false,
       rolling: true,

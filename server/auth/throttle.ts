@@ -29,7 +29,10 @@ const tooMany = (ms: number) => {
 
 /** Throws 429 while the account or the address must wait. */
 export async function assertMayAttempt(db: Db, keys: { account: string; ip: string }, now: Date): Promise<void> {
-  const rows = await db.select().from(authThrottle).where(inArray(authThrottle.key, [keys.account, keys.ip]));
+  const rows = await db
+    .select()
+    .from(authThrottle)
+    .where(inArray(authThrottle.key, [keys.account, keys.ip]));
   for (const r of rows) {
     if (r.lockedUntil && r.lockedUntil > now) throw tooMany(r.lockedUntil.getTime() - now.getTime());
     if (r.key === keys.account && r.lastFailureAt && now.getTime() - r.lastFailureAt.getTime() < WINDOW_MS) {

@@ -14,9 +14,11 @@ import { queueReceipt } from './receipts';
 /** Processor outages and refusals become clear API errors; card declines are handled by the caller. */
 export function providerError(e: unknown): unknown {
   if (e instanceof Stripe.errors.StripeCardError) return new AppError(402, 'card_declined', paymentErrorMessage(e));
-  if (e instanceof Stripe.errors.StripeIdempotencyError) return new AppError(409, 'payment_conflict', 'This payment was already started with other details. Please reload and try again.');
+  if (e instanceof Stripe.errors.StripeIdempotencyError)
+    return new AppError(409, 'payment_conflict', 'This payment was already started with other details. Please reload and try again.');
   if (e instanceof Stripe.errors.StripeInvalidRequestError) return new AppError(409, 'payment_refused', e.message);
-  if (e instanceof Stripe.errors.StripeError) return new AppError(502, 'payment_provider_unavailable', 'The card processor is not answering. Nothing was recorded; please try again shortly.');
+  if (e instanceof Stripe.errors.StripeError)
+    return new AppError(502, 'payment_provider_unavailable', 'The card processor is not answering. Nothing was recorded; please try again shortly.');
   return e;
 }
 
@@ -82,7 +84,10 @@ async function openCheckout(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'
     if (inv.status !== 'open') throw conflict(inv.status === 'paid' ? 'This invoice is already paid.' : 'This invoice is not open for payment.');
     const due = inv.totalCents - inv.paidCents;
     if (due < 50) throw conflict('Nothing is left to pay on this invoice.');
-    const attempts = await tx.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.method, 'card')));
+    const attempts = await tx
+      .select()
+      .from(payments)
+      .where(and(eq(payments.invoiceId, invoiceId), eq(payments.method, 'card')));
     const pending = attempts.find((p) => p.status === 'pending' && p.stripeCheckoutSessionId && p.amountCents === due);
     if (pending?.stripeCheckoutSessionId) {
       const s = await stripe.checkout.sessions.retrieve(pending.stripeCheckoutSessionId);
@@ -90,10 +95,7 @@ async function openCheckout(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'
       if (s.status === 'complete') throw conflict('This payment is being recorded. Please refresh in a moment.');
       await tx.update(payments).set({ status: 'canceled' }).where(eq(payments.id, pending.id));
     }
-    const [payment] = await tx
-      .insert(payments)
-      .values({ invoiceId, method: 'card', status: 'pending', amountCents: due })
-      .returning({ id: payments.id });
+    const [payment] = await tx.insert(payments).values({ invoiceId, method: 'card', status: 'pending', amountCents: due }).returning({ id: payments.id });
     const metadata = { invoiceId, paymentId: payment!.id, ...(opts.saveCard && inv.agreementId ? { saveCard: 'true' } : {}) };
     const session = await stripe.checkout.sessions.create(
       {
@@ -139,7 +141,10 @@ interface CardPayment {
  * processor (webhook or direct retrieve), never from the browser's redirect. Idempotent by the
  * PaymentIntent id; the invoice row lock orders concurrent calls.
  */
-export async function recordCardPayment(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, p: CardPayment): Promise<{ recorded: boolean; paymentId: string }> {
+export async function recordCardPayment(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>,
+  p: CardPayment,
+): Promise<{ recorded: boolean; paymentId: string }> {
   const { db } = deps.database;
   const now = deps.clock();
   const result = await db.transaction(async (tx) => {
@@ -150,7 +155,14 @@ export async function recordCardPayment(deps: Pick<AppDeps, 'database' | 'clock'
     let paymentId: string;
     const candidate =
       already ??
-      (p.paymentId ? (await tx.select().from(payments).where(and(eq(payments.id, p.paymentId), eq(payments.invoiceId, p.invoiceId))))[0] : undefined) ??
+      (p.paymentId
+        ? (
+            await tx
+              .select()
+              .from(payments)
+              .where(and(eq(payments.id, p.paymentId), eq(payments.invoiceId, p.invoiceId)))
+          )[0]
+        : undefined) ??
       (p.checkoutSessionId ? (await tx.select().from(payments).where(eq(payments.stripeCheckoutSessionId, p.checkoutSessionId)))[0] : undefined);
     if (candidate && candidate.status !== 'succeeded') {
       await tx
@@ -185,24 +197,32 @@ export async function recordCardPayment(deps: Pick<AppDeps, 'database' | 'clock'
   return { recorded: result.recorded, paymentId: result.paymentId };
 }
 
-
 /**
  * Once an invoice is paid, any payment page still open for it is closed at the processor, so
  * nobody pays twice (for example a renewal charged automatically while a Checkout tab was open).
  */
 export async function closeOpenCheckouts(deps: Pick<AppDeps, 'database' | 'stripe'>, invoiceId: string): Promise<void> {
   const { stripe } = deps;
-  const open = await deps.database.db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'pending')));
+  const open = await deps.database.db
+    .select()
+    .from(payments)
+    .where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'pending')));
   for (const p of open) {
     if (p.stripeCheckoutSessionId) {
       await stripe.checkout.sessions.expire(p.stripeCheckoutSessionId).catch(() => undefined);
     }
-    await deps.database.db.update(payments).set({ status: 'canceled' }).where(and(eq(payments.id, p.id), eq(payments.status, 'pending')));
+    await deps.database.db
+      .update(payments)
+      .set({ status: 'canceled' })
+      .where(and(eq(payments.id, p.id), eq(payments.status, 'pending')));
   }
 }
 
 /** Reads a Checkout Session back from the processor and records what it says. */
-export async function syncCheckoutSession(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, sessionId: string): Promise<{ state: 'paid' | 'open' | 'expired' | 'saved' | 'unknown'; invoiceId: string | null }> {
+export async function syncCheckoutSession(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>,
+  sessionId: string,
+): Promise<{ state: 'paid' | 'open' | 'expired' | 'saved' | 'unknown'; invoiceId: string | null }> {
   const stripe = deps.stripe;
   let s: Stripe.Checkout.Session;
   try {
@@ -238,7 +258,12 @@ export async function syncPaymentIntent(deps: Pick<AppDeps, 'database' | 'clock'
   if (pi.status === 'succeeded' && pi.metadata?.['invoiceId']) await recordFromPaymentIntent(deps, pi, null);
 }
 
-export async function recordFromPaymentIntent(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, pi: Stripe.PaymentIntent, sessionId: string | null, source = 'card') {
+export async function recordFromPaymentIntent(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>,
+  pi: Stripe.PaymentIntent,
+  sessionId: string | null,
+  source = 'card',
+) {
   const invoiceId = pi.metadata?.['invoiceId'];
   if (!invoiceId) return null;
   const pm = pi.payment_method && typeof pi.payment_method === 'object' ? pi.payment_method : null;

@@ -91,7 +91,17 @@ export interface CoveredInvoice {
   customerId: string;
   agreementId: string | null;
   /** Lines whose coverage is already worked out (shared/quote-coverage.ts): the savings are each line's discount. */
-  lines: { description: string; kind: InvoiceLine['kind']; quantity: number; unitCents: number; taxable: boolean; grossCents: number; discountCents: number; netCents: number; reason: string }[];
+  lines: {
+    description: string;
+    kind: InvoiceLine['kind'];
+    quantity: number;
+    unitCents: number;
+    taxable: boolean;
+    grossCents: number;
+    discountCents: number;
+    netCents: number;
+    reason: string;
+  }[];
   taxRateBps: number;
   totals: { subtotalCents: number; discountCents: number; taxCents: number; totalCents: number };
   notes: string;
@@ -139,7 +149,11 @@ export async function createServiceInvoice(deps: Pick<AppDeps, 'database' | 'clo
     const [customer] = await tx.select({ id: customers.id }).from(customers).where(eq(customers.id, input.customerId));
     if (!customer) throw new AppError(422, 'validation_failed', 'That household was not found.', { customerId: 'That household was not found.' });
     const discountBps = await householdDiscountBps(tx, input.customerId);
-    const inv = await insertInvoice(tx, { customerId: input.customerId, purpose: 'service', lines: input.lines, discountBps, notes: input.notes, issue: input.issue }, deps.clock());
+    const inv = await insertInvoice(
+      tx,
+      { customerId: input.customerId, purpose: 'service', lines: input.lines, discountBps, notes: input.notes, issue: input.issue },
+      deps.clock(),
+    );
     return inv.id;
   });
   return invoiceView(db, id);
@@ -164,7 +178,10 @@ export async function voidInvoice(deps: Pick<AppDeps, 'database' | 'clock'>, id:
     if (inv.paidCents > 0) throw conflict('This invoice has payments; refund them instead of voiding.');
     // The number stays on the voided invoice, so the sequence keeps no gaps.
     await tx.update(invoices).set({ status: 'void', voidedAt: deps.clock() }).where(eq(invoices.id, id));
-    await tx.update(payments).set({ status: 'canceled' }).where(and(eq(payments.invoiceId, id), eq(payments.status, 'pending')));
+    await tx
+      .update(payments)
+      .set({ status: 'canceled' })
+      .where(and(eq(payments.invoiceId, id), eq(payments.status, 'pending')));
   });
   return invoiceView(db, id);
 }

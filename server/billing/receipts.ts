@@ -43,7 +43,10 @@ export function renderInvoicePdf(view: InvoiceView, company: CompanyRow, forPaym
     doc.font('bold').fontSize(18).text(company.name, left, 54);
     doc.font('body').fontSize(10).fillColor('#444').text(`${company.street}, ${company.city}, ${company.state} ${company.zip}`).text(`${company.phone}  ·  ${company.email}`);
     doc.moveDown(1.2).fillColor('#000');
-    doc.font('bold').fontSize(14).text(forPayment ? `Receipt for invoice ${view.number}` : `Invoice ${view.number ?? '(draft)'}`);
+    doc
+      .font('bold')
+      .fontSize(14)
+      .text(forPayment ? `Receipt for invoice ${view.number}` : `Invoice ${view.number ?? '(draft)'}`);
     doc.font('body').fontSize(10);
     doc.text(`Billed to: ${view.customerName}`);
     if (view.issuedAt) doc.text(`Issued: ${dateText(view.issuedAt, company.timeZone)}`);
@@ -107,7 +110,11 @@ export async function sendReceipt(deps: Pick<AppDeps, 'config'> & OutboxDeps, pa
   const payment = view.payments.find((p) => p.id === paymentId);
   const pdf = await renderInvoicePdf(view, company, payment);
   const what =
-    view.purpose === 'renewal' ? 'Your maintenance agreement is renewed.' : view.purpose === 'enrollment' ? 'Welcome: your maintenance agreement is active.' : 'Thank you for your payment.';
+    view.purpose === 'renewal'
+      ? 'Your maintenance agreement is renewed.'
+      : view.purpose === 'enrollment'
+        ? 'Welcome: your maintenance agreement is active.'
+        : 'Thank you for your payment.';
   // The term this payment bought, written as every screen writes it (shared/agreement-terms.ts).
   const [term] = await db.select({ startsOn: agreementTerms.startsOn, endsOn: agreementTerms.endsOn }).from(agreementTerms).where(eq(agreementTerms.invoiceId, view.id)).limit(1);
   const base = deps.config.publicUrl.replace(/\/$/, '');

@@ -13,7 +13,12 @@ import { queueReceipt } from './receipts';
 
 // ---------- Offline payments and refunds ----------
 
-export async function recordOfflinePayment(deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>, user: SessionUser, invoiceId: string, input: OfflinePaymentInput): Promise<InvoiceView> {
+export async function recordOfflinePayment(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'logger' | 'jobs' | 'stripe'>,
+  user: SessionUser,
+  invoiceId: string,
+  input: OfflinePaymentInput,
+): Promise<InvoiceView> {
   const { db } = deps.database;
   const now = deps.clock();
   const paymentId = await db.transaction(async (tx) => {
@@ -36,9 +41,18 @@ export async function recordOfflinePayment(deps: Pick<AppDeps, 'database' | 'clo
 }
 
 /** Full or partial refund: card payments through the processor, checks and cash recorded as paid back. */
-export async function refundInvoice(deps: Pick<AppDeps, 'database' | 'stripe'>, user: SessionUser, invoiceId: string, input: RefundInput, requestKey: string): Promise<InvoiceView> {
+export async function refundInvoice(
+  deps: Pick<AppDeps, 'database' | 'stripe'>,
+  user: SessionUser,
+  invoiceId: string,
+  input: RefundInput,
+  requestKey: string,
+): Promise<InvoiceView> {
   const { db } = deps.database;
-  const pays = await db.select().from(payments).where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'succeeded')));
+  const pays = await db
+    .select()
+    .from(payments)
+    .where(and(eq(payments.invoiceId, invoiceId), eq(payments.status, 'succeeded')));
   if (pays.length === 0) {
     const [inv] = await db.select({ id: invoices.id }).from(invoices).where(eq(invoices.id, invoiceId));
     if (!inv) throw notFound('That invoice');

@@ -43,7 +43,11 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
     assigned: [`${what}.`, `Arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
     reschedule: [`${what}.`, `New arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
     cancellation: [`Your visit (${what}, ${window}) is canceled.`, `To book again, visit ${publicUrl.replace(/\/$/, '')}/portal/booking or call ${c.phone}.`],
-    on_the_way: [`${v.technicianName ?? 'Your technician'} is driving to you now for ${what}.`, `Arrival window: ${window}.`, 'Please make sure someone over 18 is home and the units can be reached.'],
+    on_the_way: [
+      `${v.technicianName ?? 'Your technician'} is driving to you now for ${what}.`,
+      `Arrival window: ${window}.`,
+      'Please make sure someone over 18 is home and the units can be reached.',
+    ],
     reminder: [`A reminder of your visit tomorrow: ${what}.`, `Arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
   };
   const body = renderEmail({

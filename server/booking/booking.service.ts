@@ -2,7 +2,17 @@ import { and, asc, eq, gte, inArray, isNull, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import { availableWindows, nextFreeWindows, planBooking, SchedulingInputError, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
-import { URGENT_REASONS, visitKindFor, type ArrivalWindowView, type bookVisitSchema, type BookingOptions, type BookingProperty, type VisitView, type windowsQuerySchema, type WindowsResponse } from '../../shared/schemas/booking';
+import {
+  URGENT_REASONS,
+  visitKindFor,
+  type ArrivalWindowView,
+  type bookVisitSchema,
+  type BookingOptions,
+  type BookingProperty,
+  type VisitView,
+  type windowsQuerySchema,
+  type WindowsResponse,
+} from '../../shared/schemas/booking';
 import type { SessionUser } from '../../shared/schemas/session';
 import { canChangeOnline, changeCutoff, changeSentence, type VisitReason } from '../../shared/visits';
 import type { AppDeps } from '../deps';
@@ -91,7 +101,19 @@ function propertyView(
 
 export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
   const [p] = await db
-    .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area, archivedAt: properties.archivedAt })
+    .select({
+      id: properties.id,
+      customerId: properties.customerId,
+      customerName: customers.name,
+      label: properties.label,
+      street: properties.street,
+      unit: properties.unit,
+      city: properties.city,
+      state: properties.state,
+      zip: properties.zip,
+      area: properties.area,
+      archivedAt: properties.archivedAt,
+    })
     .from(properties)
     .innerJoin(customers, eq(customers.id, properties.customerId))
     .where(eq(properties.id, propertyId))
@@ -118,7 +140,18 @@ export async function bookingOptions(deps: Pick<AppDeps, 'database'>, user: Sess
   if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
   await assertCustomerAccess(db, user, target);
   const rows = await db
-    .select({ id: properties.id, customerId: properties.customerId, customerName: customers.name, label: properties.label, street: properties.street, unit: properties.unit, city: properties.city, state: properties.state, zip: properties.zip, area: properties.area })
+    .select({
+      id: properties.id,
+      customerId: properties.customerId,
+      customerName: customers.name,
+      label: properties.label,
+      street: properties.street,
+      unit: properties.unit,
+      city: properties.city,
+      state: properties.state,
+      zip: properties.zip,
+      area: properties.area,
+    })
     .from(properties)
     .innerJoin(customers, eq(customers.id, properties.customerId))
     .where(and(eq(properties.customerId, target), isNull(properties.archivedAt)))
@@ -163,7 +196,13 @@ export async function engineInput(
   const first = start < nowLocal.startOf('day') ? nowLocal : start;
   const last = first.plus({ days });
   // Widened by a day each side (visits straddling midnight), plus any look-ahead the next free windows need.
-  const range = { from: first.startOf('day').minus({ days: 1 }).toJSDate(), to: last.endOf('day').plus({ days: 1 + lookAheadDays }).toJSDate() };
+  const range = {
+    from: first.startOf('day').minus({ days: 1 }).toJSDate(),
+    to: last
+      .endOf('day')
+      .plus({ days: 1 + lookAheadDays })
+      .toJSDate(),
+  };
   const data = sources ? await sources.schedule(range) : await loadSchedulingData(db, range, { excludeVisitId });
   const urgent = URGENT_REASONS.includes(reason);
   return {
@@ -207,7 +246,12 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
       const nowLocal = DateTime.fromJSDate(now, { zone: tz });
       const asked = q.from ? DateTime.fromISO(q.from, { zone: tz }) : nowLocal;
       const first = (asked < nowLocal.startOf('day') ? nowLocal : asked).startOf('day').minus({ days: 1 }).toJSDate();
-      const snap = await scheduleSnapshot(db, { from: first, to: DateTime.fromJSDate(first).plus({ days: q.days + 3 }).toJSDate() });
+      const snap = await scheduleSnapshot(db, {
+        from: first,
+        to: DateTime.fromJSDate(first)
+          .plus({ days: q.days + 3 })
+          .toJSDate(),
+      });
       call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async (range) => within(snap.data, range) });
       windows = cachedWindows(snap, call.input);
     }
@@ -225,9 +269,7 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
 
 /** Serialises bookings per local day so the held-back share is counted once; the EXCLUDE stays the last line. */
 export async function lockDays(tx: Tx, instants: Date[], timeZone: string): Promise<void> {
-  const days = [...new Set(instants.map((d) => Math.floor(DateTime.fromJSDate(d, { zone: timeZone }).startOf('day').toSeconds() / 86_400)))].sort(
-    (a, b) => a - b,
-  );
+  const days = [...new Set(instants.map((d) => Math.floor(DateTime.fromJSDate(d, { zone: timeZone }).startOf('day').toSeconds() / 86_400)))].sort((a, b) => a - b);
   for (const day of days) await tx.execute(sql`select pg_advisory_xact_lock(${BOOKING_LOCK}, ${day})`);
 }
 
@@ -243,7 +285,11 @@ export async function loadVisitRow(db: Db | Tx, id: string): Promise<VisitRow> {
   return row;
 }
 
-export async function bookVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, body: z.output<typeof bookVisitSchema>): Promise<VisitView> {
+export async function bookVisit(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  user: SessionUser,
+  body: z.output<typeof bookVisitSchema>,
+): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   const property = await propertyContext(db, user, body.propertyId, body.reason);
@@ -338,7 +384,11 @@ export async function visitForChange(db: Db | Tx, user: SessionUser, id: string,
   if (user.role === 'homeowner') {
     const c = await loadCompanySettings(db);
     if (!canChangeOnline(row, c, now)) {
-      throw new AppError(409, 'past_cutoff', `Online changes closed ${c.cancelCutoffHours} hours before the arrival window. ${changeSentence(false, changeCutoff(row, c), c.phone, c.timeZone)}`);
+      throw new AppError(
+        409,
+        'past_cutoff',
+        `Online changes closed ${c.cancelCutoffHours} hours before the arrival window. ${changeSentence(false, changeCutoff(row, c), c.phone, c.timeZone)}`,
+      );
     }
   }
   return row;

@@ -27,7 +27,11 @@ export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config'> & Out
     const row = await loadVisitRow(db, id);
     const mail = visitMailToQueue('reminder', row, c, deps.config.publicUrl, now, `visit:${id}:reminder:${row.sequence}`);
     const mailId = await db.transaction(async (tx) => {
-      const [claimed] = await tx.update(visits).set({ reminderSentAt: now }).where(and(eq(visits.id, id), due)).returning({ id: visits.id });
+      const [claimed] = await tx
+        .update(visits)
+        .set({ reminderSentAt: now })
+        .where(and(eq(visits.id, id), due))
+        .returning({ id: visits.id });
       if (!claimed || !mail) return null;
       return recordMail(deps, mail, tx);
     });
@@ -38,7 +42,11 @@ export async function sendDayBeforeReminders(deps: Pick<AppDeps, 'config'> & Out
 }
 
 export function registerBookingJobs(deps: Pick<AppDeps, 'config'> & OutboxDeps): void {
-  deps.jobs.register(DAY_BEFORE_JOB, async () => {
-    await sendDayBeforeReminders(deps);
-  }, { cron: '15 * * * *' });
+  deps.jobs.register(
+    DAY_BEFORE_JOB,
+    async () => {
+      await sendDayBeforeReminders(deps);
+    },
+    { cron: '15 * * * *' },
+  );
 }

@@ -75,11 +75,7 @@ export interface SchedulingData {
 }
 
 /** Active technicians, their time off and the visits holding their time between two instants. */
-export async function loadSchedulingData(
-  db: Db | Tx,
-  range: { from: Date; to: Date },
-  options: { excludeVisitId?: string } = {},
-): Promise<SchedulingData> {
+export async function loadSchedulingData(db: Db | Tx, range: { from: Date; to: Date }, options: { excludeVisitId?: string } = {}): Promise<SchedulingData> {
   const techRows = await db
     .select({ id: technicians.id, weeklyHours: technicians.weeklyHours, skills: technicians.skills, name: users.name })
     .from(technicians)

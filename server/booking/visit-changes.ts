@@ -11,11 +11,27 @@ import { sendVisitMail } from './booking.mail';
 import { loadCompanySettings } from './scheduling-input';
 import { noticeSignature, toView } from './visit-views';
 import { recordNotice } from './assignment-notice';
-import { alternativesAfter, engineError, engineInput, isOverlap, loadVisitRow, lockDays, propertyContext, visitForChange, WindowFullError, type EngineCall } from './booking.service';
+import {
+  alternativesAfter,
+  engineError,
+  engineInput,
+  isOverlap,
+  loadVisitRow,
+  lockDays,
+  propertyContext,
+  visitForChange,
+  WindowFullError,
+  type EngineCall,
+} from './booking.service';
 
 // Changes to a booked visit: moving it to another window, and canceling it.
 
-export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof rescheduleSchema>): Promise<VisitView> {
+export async function rescheduleVisit(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  user: SessionUser,
+  id: string,
+  body: z.output<typeof rescheduleSchema>,
+): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   const before = await visitForChange(db, user, id, now);
@@ -66,7 +82,12 @@ export async function rescheduleVisit(deps: Pick<AppDeps, 'config' | 'database' 
   return toView(row, { timeZone: company.timeZone, cancelCutoffHours: company.cancelCutoffHours, phone: company.phone, now });
 }
 
-export async function cancelVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof cancelSchema>): Promise<VisitView> {
+export async function cancelVisit(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  user: SessionUser,
+  id: string,
+  body: z.output<typeof cancelSchema>,
+): Promise<VisitView> {
   const { db } = deps.database;
   const now = deps.clock();
   await db.transaction(async (tx) => {

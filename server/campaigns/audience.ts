@@ -45,7 +45,11 @@ export type AudienceRow = {
 
 /** Our own numeric constants, written into the statement (never user input). */
 const num = (x: number) => sql.raw(String(Number(x)));
-const list = (values: Iterable<string>) => sql.join([...values].map((v) => sql`${v}`), sql`, `);
+const list = (values: Iterable<string>) =>
+  sql.join(
+    [...values].map((v) => sql`${v}`),
+    sql`, `,
+  );
 
 /** The filter interval in days of equipment `e` for household factors `hh.factors`, in SQL. */
 function filterDaysSql(): SQL {
@@ -124,7 +128,10 @@ export function audienceSql(ctx: AudienceContext, opts: { after?: string | null;
   ];
   if (opts.after) where.push(sql`c.id > ${opts.after}::uuid`);
   if (f.area) where.push(sql`exists (select 1 from properties p where p.customer_id = c.id and p.archived_at is null and (p.zip = ${f.area} or lower(p.city) = lower(${f.area})))`);
-  if (f.equipmentKind) where.push(sql`exists (select 1 from properties p join equipment e on e.property_id = p.id where p.customer_id = c.id and p.archived_at is null and e.archived_at is null and e.kind = ${f.equipmentKind})`);
+  if (f.equipmentKind)
+    where.push(
+      sql`exists (select 1 from properties p join equipment e on e.property_id = p.id where p.customer_id = c.id and p.archived_at is null and e.archived_at is null and e.kind = ${f.equipmentKind})`,
+    );
   const planWhere: SQL[] = [];
   if (f.plan === 'none') planWhere.push(sql`pa.customer_id is null`);
   else if (f.plan === 'any') planWhere.push(sql`pa.customer_id is not null`);

@@ -60,7 +60,9 @@ export async function sendBatch(deps: SendDeps, campaignId: string, tuning: Send
 
   const company = await companyRow(db);
   const emails = claimed.rows.map((r) => r.email.toLowerCase());
-  const suppressed = await db.execute<{ email: string }>(sql`select lower(email) as email from mail_suppressions where purpose = 'reminders' and lower(email) in (select jsonb_array_elements_text(${JSON.stringify(emails)}::jsonb))`);
+  const suppressed = await db.execute<{ email: string }>(
+    sql`select lower(email) as email from mail_suppressions where purpose = 'reminders' and lower(email) in (select jsonb_array_elements_text(${JSON.stringify(emails)}::jsonb))`,
+  );
   const off = new Set(suppressed.rows.map((r) => r.email));
 
   const record = (id: string, status: string, event: string, detail: string, extra = sql``, permanent = false) =>
@@ -103,9 +105,12 @@ export async function sendBatch(deps: SendDeps, campaignId: string, tuning: Send
     }
   };
   const watch = setInterval(() => {
-    void db.execute<{ status: string }>(sql`select status from reminder_campaigns where id = ${campaignId}`).then((r) => {
-      if (r.rows[0]?.status !== 'sending') stopped = true;
-    }, () => undefined);
+    void db.execute<{ status: string }>(sql`select status from reminder_campaigns where id = ${campaignId}`).then(
+      (r) => {
+        if (r.rows[0]?.status !== 'sending') stopped = true;
+      },
+      () => undefined,
+    );
   }, 500);
   try {
     await Promise.all(Array.from({ length: Math.max(1, tuning.concurrency) }, work));

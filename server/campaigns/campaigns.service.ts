@@ -19,7 +19,14 @@ type Deps = Pick<AppDeps, 'database' | 'clock'>;
 
 async function context(deps: Deps, kind: ReminderKind, filter: AudienceFilter): Promise<AudienceContext & { companyName: string }> {
   const info = await companyRow(deps.database.db);
-  return { kind, filter, now: deps.clock(), timeZone: info.timeZone, seasons: { coolingStartMonth: info.coolingStartMonth, heatingStartMonth: info.heatingStartMonth }, companyName: info.name };
+  return {
+    kind,
+    filter,
+    now: deps.clock(),
+    timeZone: info.timeZone,
+    seasons: { coolingStartMonth: info.coolingStartMonth, heatingStartMonth: info.heatingStartMonth },
+    companyName: info.name,
+  };
 }
 
 /** The count and one keyset page of who is due. */
@@ -78,12 +85,22 @@ export async function createCampaign(
   const id = await db.transaction(async (tx) => {
     const [c] = await tx
       .insert(reminderCampaigns)
-      .values({ kind: input.kind, createdById: user.id, audienceCount: input.expectedCount, audience: filter, status: scheduledAt ? 'scheduled' : 'sending', scheduledAt, startedAt: scheduledAt ? null : ctx.now })
+      .values({
+        kind: input.kind,
+        createdById: user.id,
+        audienceCount: input.expectedCount,
+        audience: filter,
+        status: scheduledAt ? 'scheduled' : 'sending',
+        scheduledAt,
+        startedAt: scheduledAt ? null : ctx.now,
+      })
       .returning({ id: reminderCampaigns.id });
     if (scheduledAt) return c!.id;
     const n = await fillOutbox(tx, c!.id, ctx);
     if (n !== input.expectedCount) {
-      throw new AppError(409, 'audience_changed', `The audience changed: ${n} households are due now, not ${input.expectedCount}. Review the list and send again.`, { expectedCount: `Now ${n}` });
+      throw new AppError(409, 'audience_changed', `The audience changed: ${n} households are due now, not ${input.expectedCount}. Review the list and send again.`, {
+        expectedCount: `Now ${n}`,
+      });
     }
     if (n === 0) throw new AppError(422, 'empty_audience', 'Nobody is due for this reminder right now.', { kind: 'No households are due.' });
     return c!.id;
@@ -100,7 +117,10 @@ async function startScheduled(deps: Deps, campaignId: string): Promise<boolean> 
     if (!c || c.status !== 'scheduled' || (c.scheduledAt && c.scheduledAt > deps.clock())) return false;
     const ctx = await context(deps, c.kind, c.audience);
     const n = await fillOutbox(tx, c.id, ctx);
-    await tx.update(reminderCampaigns).set({ status: n ? 'sending' : 'done', audienceCount: n, startedAt: deps.clock(), finishedAt: n ? null : deps.clock(), updatedAt: deps.clock() }).where(eq(reminderCampaigns.id, c.id));
+    await tx
+      .update(reminderCampaigns)
+      .set({ status: n ? 'sending' : 'done', audienceCount: n, startedAt: deps.clock(), finishedAt: n ? null : deps.clock(), updatedAt: deps.clock() })
+      .where(eq(reminderCampaigns.id, c.id));
     return n > 0;
   });
 }
@@ -111,17 +131,35 @@ const NEXT: Record<'pause' | 'resume' | 'cancel', { from: CampaignStatus[]; to: 
   cancel: { from: ['draft', 'scheduled', 'sending', 'paused'], to: 'cancelled' },
 };
 
-export async function actOnCampaign(deps: Pick<AppDeps, 'database' | 'clock' | 'jobs'>, campaignId: string, action: 'pause' | 'resume' | 'cancel'): Promise<ReminderCampaignSummary> {
+export async function actOnCampaign(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'jobs'>,
+  campaignId: string,
+  action: 'pause' | 'resume' | 'cancel',
+): Promise<ReminderCampaignSummary> {
   const { db } = deps.database;
   const step = NEXT[action];
   const resumed = await db.transaction(async (tx) => {
-    const [c] = await tx.select({ status: reminderCampaigns.status, scheduledAt: reminderCampaigns.scheduledAt, startedAt: reminderCampaigns.startedAt }).from(reminderCampaigns).where(eq(reminderCampaigns.id, campaignId)).for('update');
+    const [c] = await tx
+      .select({ status: reminderCampaigns.status, scheduledAt: reminderCampaigns.scheduledAt, startedAt: reminderCampaigns.startedAt })
+      .from(reminderCampaigns)
+      .where(eq(reminderCampaigns.id, campaignId))
+      .for('update');
     if (!c) throw notFound('That reminder campaign');
-    if (!step.from.includes(c.status)) throw new AppError(409, 'campaign_state', `A campaign that is ${c.status} cannot be ${action === 'cancel' ? 'cancelled' : action + 'd'}.`, { action: `Not possible while ${c.status}.` });
+    if (!step.from.includes(c.status))
+      throw new AppError(409, 'campaign_state', `A campaign that is ${c.status} cannot be ${action === 'cancel' ? 'cancelled' : action + 'd'}.`, {
+        action: `Not possible while ${c.status}.`,
+      });
     // A paused campaign that never started goes back to waiting for its time.
     const to = action === 'resume' && !c.startedAt ? 'scheduled' : step.to;
-    await tx.update(reminderCampaigns).set({ status: to, updatedAt: deps.clock(), ...(to === 'cancelled' ? { finishedAt: deps.clock() } : {}) }).where(eq(reminderCampaigns.id, campaignId));
-    if (to === 'cancelled') await tx.update(reminderSends).set({ status: 'cancelled' }).where(and(eq(reminderSends.campaignId, campaignId), eq(reminderSends.status, 'pending')));
+    await tx
+      .update(reminderCampaigns)
+      .set({ status: to, updatedAt: deps.clock(), ...(to === 'cancelled' ? { finishedAt: deps.clock() } : {}) })
+      .where(eq(reminderCampaigns.id, campaignId));
+    if (to === 'cancelled')
+      await tx
+        .update(reminderSends)
+        .set({ status: 'cancelled' })
+        .where(and(eq(reminderSends.campaignId, campaignId), eq(reminderSends.status, 'pending')));
     return to === 'sending' || to === 'scheduled' ? (c.scheduledAt && to === 'scheduled' ? c.scheduledAt : 'now') : null;
   });
   if (resumed) await deps.jobs.send(CAMPAIGN_QUEUE, { campaignId }, resumed instanceof Date && resumed > deps.clock() ? { startAfter: resumed } : {});
@@ -184,7 +222,14 @@ export async function deliveryLog(deps: Pick<AppDeps, 'database'>, campaignId: s
   const { db } = deps.database;
   await campaignSummary(deps, campaignId);
   const rows = await db
-    .select({ customerId: reminderDeliveries.customerId, name: customers.name, event: reminderDeliveries.event, detail: reminderDeliveries.detail, permanent: reminderDeliveries.permanent, at: reminderDeliveries.createdAt })
+    .select({
+      customerId: reminderDeliveries.customerId,
+      name: customers.name,
+      event: reminderDeliveries.event,
+      detail: reminderDeliveries.detail,
+      permanent: reminderDeliveries.permanent,
+      at: reminderDeliveries.createdAt,
+    })
     .from(reminderDeliveries)
     .innerJoin(customers, eq(customers.id, reminderDeliveries.customerId))
     .where(and(eq(reminderDeliveries.campaignId, campaignId), customerId ? eq(reminderDeliveries.customerId, customerId) : undefined))
@@ -194,7 +239,11 @@ export async function deliveryLog(deps: Pick<AppDeps, 'database'>, campaignId: s
 }
 
 /** Runs one campaign job: starts a scheduled campaign when due, sends, and queues the next job. */
-export async function runCampaignJob(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'logger' | 'jobs'>, campaignId: string, tuning: SendTuning = DEFAULT_TUNING): Promise<void> {
+export async function runCampaignJob(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'logger' | 'jobs'>,
+  campaignId: string,
+  tuning: SendTuning = DEFAULT_TUNING,
+): Promise<void> {
   const [c] = await deps.database.db.select({ status: reminderCampaigns.status }).from(reminderCampaigns).where(eq(reminderCampaigns.id, campaignId));
   if (c?.status === 'scheduled' && !(await startScheduled(deps, campaignId))) return;
   if (c?.status !== 'scheduled' && c?.status !== 'sending') return;
@@ -203,8 +252,15 @@ export async function runCampaignJob(deps: Pick<AppDeps, 'config' | 'database' |
 }
 
 /** Sends a campaign to the end in this process (tests and one-off runs). */
-export async function sendCampaign(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'logger'>, campaignId: string, tuning: SendTuning = DEFAULT_TUNING): Promise<void> {
-  await deps.database.db.update(reminderCampaigns).set({ status: 'sending' }).where(and(eq(reminderCampaigns.id, campaignId), inArray(reminderCampaigns.status, ['draft'])));
+export async function sendCampaign(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'mailer' | 'logger'>,
+  campaignId: string,
+  tuning: SendTuning = DEFAULT_TUNING,
+): Promise<void> {
+  await deps.database.db
+    .update(reminderCampaigns)
+    .set({ status: 'sending' })
+    .where(and(eq(reminderCampaigns.id, campaignId), inArray(reminderCampaigns.status, ['draft'])));
   for (;;) {
     const next = await workCampaign(deps, campaignId, tuning);
     if (!(next instanceof Date)) return;
@@ -219,12 +275,16 @@ export function registerCampaignJobs(deps: Pick<AppDeps, 'config' | 'database' |
   });
   // After a crash or a lost job: every campaign still sending, or due to start, gets a job again.
   // Two jobs on one campaign are harmless: rows are claimed one worker at a time.
-  deps.jobs.register(CAMPAIGN_RESUME_QUEUE, async () => {
-    const open = await deps.database.db.execute<{ id: string }>(
-      sql`select id from reminder_campaigns where status = 'sending' or (status = 'scheduled' and scheduled_at <= now()) limit 100`,
-    );
-    for (const r of open.rows) await deps.jobs.send(CAMPAIGN_QUEUE, { campaignId: r.id });
-  }, { cron: '* * * * *' });
+  deps.jobs.register(
+    CAMPAIGN_RESUME_QUEUE,
+    async () => {
+      const open = await deps.database.db.execute<{ id: string }>(
+        sql`select id from reminder_campaigns where status = 'sending' or (status = 'scheduled' and scheduled_at <= now()) limit 100`,
+      );
+      for (const r of open.rows) await deps.jobs.send(CAMPAIGN_QUEUE, { campaignId: r.id });
+    },
+    { cron: '* * * * *' },
+  );
 }
 
 export { REMINDER_KINDS };

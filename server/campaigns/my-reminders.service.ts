@@ -28,7 +28,10 @@ export async function myReminders(deps: Deps, user: SessionUser): Promise<MyRemi
   const [info, prefs, homes, units, visitRows, changes, live, [me]] = await Promise.all([
     companyRow(db),
     preferences(deps, customerId),
-    db.select({ id: properties.id }).from(properties).where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt))),
+    db
+      .select({ id: properties.id })
+      .from(properties)
+      .where(and(eq(properties.customerId, customerId), isNull(properties.archivedAt))),
     db
       .select({ id: equipment.id, propertyId: equipment.propertyId, kind: equipment.kind, filterSize: equipment.filterSize, filterType: equipment.filterType })
       .from(equipment)
@@ -40,7 +43,14 @@ export async function myReminders(deps: Deps, user: SessionUser): Promise<MyRemi
       .where(and(eq(visits.customerId, customerId), sql`${visits.startsAt} > now() - interval '800 days'`)),
     db.select({ equipmentId: filterChanges.equipmentId, changedOn: filterChanges.changedOn }).from(filterChanges).where(eq(filterChanges.customerId, customerId)),
     db
-      .select({ id: agreements.id, propertyId: agreements.propertyId, status: agreements.status, endsOn: agreements.endsOn, coolingVisits: planVersions.coolingVisits, heatingVisits: planVersions.heatingVisits })
+      .select({
+        id: agreements.id,
+        propertyId: agreements.propertyId,
+        status: agreements.status,
+        endsOn: agreements.endsOn,
+        coolingVisits: planVersions.coolingVisits,
+        heatingVisits: planVersions.heatingVisits,
+      })
       .from(agreements)
       .innerJoin(planVersions, eq(planVersions.id, agreements.planVersionId))
       .where(and(eq(agreements.customerId, customerId), inArray(agreements.status, ['active', 'renewal_due'])))
@@ -48,10 +58,24 @@ export async function myReminders(deps: Deps, user: SessionUser): Promise<MyRemi
     db.select({ email: customers.email }).from(customers).where(eq(customers.id, customerId)),
   ]);
   const notices = live.length
-    ? await db.select({ agreementId: renewalNotices.agreementId, termEndsOn: renewalNotices.termEndsOn, daysBefore: renewalNotices.daysBefore }).from(renewalNotices).where(inArray(renewalNotices.agreementId, live.map((a) => a.id)))
+    ? await db
+        .select({ agreementId: renewalNotices.agreementId, termEndsOn: renewalNotices.termEndsOn, daysBefore: renewalNotices.daysBefore })
+        .from(renewalNotices)
+        .where(
+          inArray(
+            renewalNotices.agreementId,
+            live.map((a) => a.id),
+          ),
+        )
     : [];
   const suppressed = me?.email
-    ? (await db.select({ id: mailSuppressions.id }).from(mailSuppressions).where(and(sql`lower(${mailSuppressions.email}) = lower(${me.email})`, eq(mailSuppressions.purpose, 'reminders'))).limit(1)).length > 0
+    ? (
+        await db
+          .select({ id: mailSuppressions.id })
+          .from(mailSuppressions)
+          .where(and(sql`lower(${mailSuppressions.email}) = lower(${me.email})`, eq(mailSuppressions.purpose, 'reminders')))
+          .limit(1)
+      ).length > 0
     : false;
   const today = DateTime.fromISO(localDate(deps.clock(), info.timeZone), { zone: info.timeZone });
   const seasons = { coolingStartMonth: info.coolingStartMonth, heatingStartMonth: info.heatingStartMonth };

@@ -17,7 +17,14 @@ const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings hav
 
 // One read of the company row per request, so services can ask for it wherever they need it.
 const readRow = (db: Db | Tx): Promise<CompanyRow | undefined> =>
-  oncePerRequest('company', () => db.select().from(company).where(eq(company.id, 1)).limit(1).then(([row]) => row));
+  oncePerRequest('company', () =>
+    db
+      .select()
+      .from(company)
+      .where(eq(company.id, 1))
+      .limit(1)
+      .then(([row]) => row),
+  );
 
 /** The company row; an installation without one answers 503 until it is set up. */
 export async function companyRow(db: Db | Tx): Promise<CompanyRow> {
@@ -32,7 +39,11 @@ export async function companyTimeZone(db: Db | Tx): Promise<string | null> {
 }
 
 export async function updateCompanyRow(tx: Db | Tx, next: CompanyUpdate, at: Date): Promise<CompanyRow> {
-  const [row] = await tx.update(company).set({ ...next, updatedAt: at }).where(eq(company.id, 1)).returning();
+  const [row] = await tx
+    .update(company)
+    .set({ ...next, updatedAt: at })
+    .where(eq(company.id, 1))
+    .returning();
   if (!row) throw notSetUp();
   rememberForRequest('company', row);
   localeKept = null;

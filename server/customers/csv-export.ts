@@ -15,7 +15,9 @@ export const EXPORT_LIMIT = 50_000;
 export async function exportCustomersCsv(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<string> {
   const { db } = deps.database;
   const where = and(q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? sql`${customers.archivedAt} is not null` : undefined, searchWhere(q.q));
-  const order = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city: sql`lower(${properties.city})` }[q.sort];
+  const order = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city: sql`lower(${properties.city})` }[
+    q.sort
+  ];
   const rows = await db
     .select({ c: customers, p: properties, e: equipment })
     .from(customers)

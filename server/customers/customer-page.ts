@@ -36,11 +36,22 @@ export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: Cus
     .catch(duplicateEmail);
 }
 
-
-
 /** A household's visits, newest first, with labels and the technician's name. */
 export async function customerVisits(db: Db, customerId: string, now: Date): Promise<CustomerDetail['visits']> {
-  const visitRows = await db.execute<{ id: string; property_id: string; kind: string; reason: string; status: string; starts_at: Date; window_start: Date; window_end: Date; completed_at: Date | null; findings: string; recommendations: string; technician_name: string | null }>(sql`
+  const visitRows = await db.execute<{
+    id: string;
+    property_id: string;
+    kind: string;
+    reason: string;
+    status: string;
+    starts_at: Date;
+    window_start: Date;
+    window_end: Date;
+    completed_at: Date | null;
+    findings: string;
+    recommendations: string;
+    technician_name: string | null;
+  }>(sql`
       select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
       from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
       where v.customer_id = ${customerId} order by v.window_start desc, v.id`);
@@ -109,14 +120,46 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
     agreementRows.map(({ a }) => a),
     today,
   );
-  const agreementOut = agreementRows.map(({ a, plan }) => ({ id: a.id, propertyId: a.propertyId, plan, status: a.status, statusLabel: AGREEMENT_STATUS_LABELS[a.status], startsOn: a.startsOn, endsOn: a.endsOn, lastDayLabel: coveredThroughLabel(a), priceCents: a.priceCents, terms: termViews.get(a.id)! }));
-  const invoiceOut = invoiceRows.map((i) => ({ id: i.id, number: i.number, status: i.status, totalCents: i.totalCents, paidCents: i.paidCents, issuedAt: iso(i.issuedAt), createdAt: i.createdAt.toISOString() }));
-  const noteOut: Note[] = noteRows.map(({ n, author }) => ({ id: n.id, body: n.body, audience: n.audience, propertyId: n.propertyId, authorName: author, createdAt: n.createdAt.toISOString() }));
+  const agreementOut = agreementRows.map(({ a, plan }) => ({
+    id: a.id,
+    propertyId: a.propertyId,
+    plan,
+    status: a.status,
+    statusLabel: AGREEMENT_STATUS_LABELS[a.status],
+    startsOn: a.startsOn,
+    endsOn: a.endsOn,
+    lastDayLabel: coveredThroughLabel(a),
+    priceCents: a.priceCents,
+    terms: termViews.get(a.id)!,
+  }));
+  const invoiceOut = invoiceRows.map((i) => ({
+    id: i.id,
+    number: i.number,
+    status: i.status,
+    totalCents: i.totalCents,
+    paidCents: i.paidCents,
+    issuedAt: iso(i.issuedAt),
+    createdAt: i.createdAt.toISOString(),
+  }));
+  const noteOut: Note[] = noteRows.map(({ n, author }) => ({
+    id: n.id,
+    body: n.body,
+    audience: n.audience,
+    propertyId: n.propertyId,
+    authorName: author,
+    createdAt: n.createdAt.toISOString(),
+  }));
   const fileOut = fileRows.map(toFile);
 
   const timeline: TimelineEntry[] = [
     { at: c.createdAt.toISOString(), kind: 'created' as const, title: 'Household added', detail: c.name, refId: c.id },
-    ...propertyRows.map((p) => ({ at: p.createdAt.toISOString(), kind: 'property' as const, title: `Property added: ${p.label}`, detail: `${p.street}, ${p.city}, ${p.state} ${p.zip}`, refId: p.id })),
+    ...propertyRows.map((p) => ({
+      at: p.createdAt.toISOString(),
+      kind: 'property' as const,
+      title: `Property added: ${p.label}`,
+      detail: `${p.street}, ${p.city}, ${p.state} ${p.zip}`,
+      refId: p.id,
+    })),
     ...equipmentRows.map((e) => ({
       at: e.installedOn ? `${e.installedOn}T12:00:00.000Z` : c.createdAt.toISOString(),
       kind: 'equipment' as const,
@@ -124,12 +167,52 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       detail: [e.make, e.model].filter(Boolean).join(' '),
       refId: e.id,
     })),
-    ...agreementOut.map((a) => ({ at: `${a.startsOn}T12:00:00.000Z`, kind: 'agreement' as const, title: `Agreement: ${a.plan}`, detail: `${a.statusLabel}, ${termRangeLabel(a)}`, refId: a.id })),
-    ...visitOut.map((v) => ({ at: v.startsAt, kind: 'visit' as const, title: `${v.reasonLabel} visit (${v.statusLabel})${v.windowMissed ? ' · window passed, not started' : ''}`, detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '), refId: v.id })),
-    ...invoiceOut.map((i) => ({ at: i.issuedAt ?? i.createdAt, kind: 'invoice' as const, title: i.number ? `Invoice ${i.number}` : 'Draft invoice', detail: `${formatUsd(i.totalCents)}, ${i.status}`, refId: i.id })),
-    ...noteOut.map((n) => ({ at: n.createdAt, kind: 'note' as const, title: n.audience === 'technician' ? 'Note for the technician' : 'Office note', detail: n.body, refId: n.id })),
-    ...fileOut.map((f) => ({ at: f.createdAt, kind: 'file' as const, title: `${f.contentType === 'application/pdf' ? 'Document' : 'Photo'} added`, detail: f.originalName, refId: f.id })),
-    ...(c.archivedAt ? [{ at: c.archivedAt.toISOString(), kind: (c.mergedIntoId ? 'merged' : 'archived') as TimelineEntry['kind'], title: c.mergedIntoId ? 'Merged into another household' : 'Archived', detail: '', refId: c.mergedIntoId }] : []),
+    ...agreementOut.map((a) => ({
+      at: `${a.startsOn}T12:00:00.000Z`,
+      kind: 'agreement' as const,
+      title: `Agreement: ${a.plan}`,
+      detail: `${a.statusLabel}, ${termRangeLabel(a)}`,
+      refId: a.id,
+    })),
+    ...visitOut.map((v) => ({
+      at: v.startsAt,
+      kind: 'visit' as const,
+      title: `${v.reasonLabel} visit (${v.statusLabel})${v.windowMissed ? ' · window passed, not started' : ''}`,
+      detail: [v.findings, v.recommendations && `Recommended: ${v.recommendations}`].filter(Boolean).join(' '),
+      refId: v.id,
+    })),
+    ...invoiceOut.map((i) => ({
+      at: i.issuedAt ?? i.createdAt,
+      kind: 'invoice' as const,
+      title: i.number ? `Invoice ${i.number}` : 'Draft invoice',
+      detail: `${formatUsd(i.totalCents)}, ${i.status}`,
+      refId: i.id,
+    })),
+    ...noteOut.map((n) => ({
+      at: n.createdAt,
+      kind: 'note' as const,
+      title: n.audience === 'technician' ? 'Note for the technician' : 'Office note',
+      detail: n.body,
+      refId: n.id,
+    })),
+    ...fileOut.map((f) => ({
+      at: f.createdAt,
+      kind: 'file' as const,
+      title: `${f.contentType === 'application/pdf' ? 'Document' : 'Photo'} added`,
+      detail: f.originalName,
+      refId: f.id,
+    })),
+    ...(c.archivedAt
+      ? [
+          {
+            at: c.archivedAt.toISOString(),
+            kind: (c.mergedIntoId ? 'merged' : 'archived') as TimelineEntry['kind'],
+            title: c.mergedIntoId ? 'Merged into another household' : 'Archived',
+            detail: '',
+            refId: c.mergedIntoId,
+          },
+        ]
+      : []),
   ].sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));
 
   return {
@@ -158,7 +241,8 @@ export async function updateCustomer(deps: Pick<AppDeps, 'database'>, id: string
   if (c.mergedIntoId) throw conflict('This household was merged into another; edit that one instead.');
   const email = input.email !== undefined ? input.email : c.email;
   const phone = input.phone !== undefined ? input.phone : c.phone;
-  if (email === null && phone === null) throw new AppError(422, 'validation_failed', 'Please check email.', { email: 'Give an e-mail address or a phone number so we can reach the household.' });
+  if (email === null && phone === null)
+    throw new AppError(422, 'validation_failed', 'Please check email.', { email: 'Give an e-mail address or a phone number so we can reach the household.' });
   await db
     .update(customers)
     .set({ ...input, updatedAt: new Date() })
@@ -197,7 +281,11 @@ export async function addContact(deps: Pick<AppDeps, 'database'>, customerId: st
 export async function updateContact(deps: Pick<AppDeps, 'database'>, customerId: string, contactId: string, input: ContactInput): Promise<Contact> {
   const { db } = deps.database;
   return db.transaction(async (tx) => {
-    if (input.isPrimary) await tx.update(contacts).set({ isPrimary: false }).where(and(eq(contacts.customerId, customerId), ne(contacts.id, contactId)));
+    if (input.isPrimary)
+      await tx
+        .update(contacts)
+        .set({ isPrimary: false })
+        .where(and(eq(contacts.customerId, customerId), ne(contacts.id, contactId)));
     const [row] = await tx
       .update(contacts)
       .set(input)
@@ -222,9 +310,6 @@ export async function addNote(deps: Pick<AppDeps, 'database'>, customerId: strin
   const { db } = deps.database;
   await customerRow(db, customerId);
   if (input.propertyId) await ownedProperty(db, user, input.propertyId, 'propertyId', { within: customerId, archivedToo: true, what: 'That home' });
-  const [row] = await db
-    .insert(customerNotes)
-    .values({ customerId, propertyId: input.propertyId, audience: input.audience, body: input.body, authorUserId: user.id })
-    .returning();
+  const [row] = await db.insert(customerNotes).values({ customerId, propertyId: input.propertyId, audience: input.audience, body: input.body, authorUserId: user.id }).returning();
   return { id: row!.id, body: row!.body, audience: row!.audience, propertyId: row!.propertyId, authorName: user.name, createdAt: row!.createdAt.toISOString() };
 }

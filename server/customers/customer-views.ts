@@ -48,13 +48,22 @@ export function toFile(f: typeof files.$inferSelect): StoredFile {
   };
 }
 
-export const toContact = (c: typeof contacts.$inferSelect): Contact => ({ id: c.id, name: c.name, relationship: c.relationship, email: c.email, phone: c.phone, isPrimary: c.isPrimary });
+export const toContact = (c: typeof contacts.$inferSelect): Contact => ({
+  id: c.id,
+  name: c.name,
+  relationship: c.relationship,
+  email: c.email,
+  phone: c.phone,
+  isPrimary: c.isPrimary,
+});
 
 /** A duplicate live e-mail answers 409 naming the field, not a bare constraint name. */
 export function duplicateEmail(err: unknown): never {
   const e = err as { cause?: { code?: string; constraint?: string } };
   if (e?.cause?.code === '23505' && e.cause.constraint === 'customers_live_email_key') {
-    throw new AppError(409, 'duplicate', 'Another household already uses that e-mail address. Open it, or merge the two.', { email: 'Another household already uses this e-mail address.' });
+    throw new AppError(409, 'duplicate', 'Another household already uses that e-mail address. Open it, or merge the two.', {
+      email: 'Another household already uses this e-mail address.',
+    });
   }
   throw err;
 }

@@ -70,19 +70,24 @@ export async function mergeCustomers(deps: Pick<AppDeps, 'database' | 'clock'>, 
     // The duplicate's own details become a contact on the kept household, so none are lost.
     const sameEmail = !source.email || source.email === target.email;
     const samePhone = !source.phone || source.phone === target.phone;
-    await tx
-      .update(customers)
-      .set({ archivedAt: now, mergedIntoId: targetId, updatedAt: now })
-      .where(eq(customers.id, sourceId));
+    await tx.update(customers).set({ archivedAt: now, mergedIntoId: targetId, updatedAt: now }).where(eq(customers.id, sourceId));
     const fill: Partial<typeof customers.$inferInsert> = {};
     if (!target.email && source.email) fill.email = source.email;
     if (!target.phone && source.phone) fill.phone = source.phone;
     if (source.notes) fill.notes = [target.notes, source.notes].filter(Boolean).join('\n\n');
-    if (Object.keys(fill).length) await tx.update(customers).set({ ...fill, updatedAt: now }).where(eq(customers.id, targetId));
+    if (Object.keys(fill).length)
+      await tx
+        .update(customers)
+        .set({ ...fill, updatedAt: now })
+        .where(eq(customers.id, targetId));
     if ((!sameEmail && fill.email === undefined) || (!samePhone && fill.phone === undefined) || source.name !== target.name) {
-      await tx.insert(contacts).values({ customerId: targetId, name: source.name, relationship: 'From merged record', email: fill.email ? null : source.email, phone: fill.phone ? null : source.phone });
+      await tx
+        .insert(contacts)
+        .values({ customerId: targetId, name: source.name, relationship: 'From merged record', email: fill.email ? null : source.email, phone: fill.phone ? null : source.phone });
     }
-    await tx.insert(customerNotes).values({ customerId: targetId, authorUserId: user.id, audience: 'office', body: `Merged the duplicate record "${source.name}" into this household.` });
+    await tx
+      .insert(customerNotes)
+      .values({ customerId: targetId, authorUserId: user.id, audience: 'office', body: `Merged the duplicate record "${source.name}" into this household.` });
     return { targetId, sourceId, moved, keptOnSource };
   });
 }

@@ -5,7 +5,7 @@ import { groupServiceHistory } from '../../shared/visits';
 import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
-import { AppError, notFound, parse } from '../http/errors';
+import { notFound, parse } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
 import { customerVisits, updateCustomer } from './customer-page';
 import { toFile, toProperty } from './customer-views';
@@ -54,7 +54,19 @@ export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: Se
     properties: props.map((p) => ({ ...toProperty(p), equipment: equipment.filter((e) => e.propertyId === p.id) })),
     // Canceled visits are noise in a service history; the rest is grouped by the one rule.
     ...groupServiceHistory(
-      visitRows.map((v) => ({ id: v.id, propertyId: v.propertyId, reasonLabel: v.reasonLabel, statusLabel: v.statusLabel, status: v.status, startsAt: v.startsAt, windowStart: v.windowStart, windowEnd: v.windowEnd, findings: v.findings, recommendations: v.recommendations, technicianName: v.technicianName })),
+      visitRows.map((v) => ({
+        id: v.id,
+        propertyId: v.propertyId,
+        reasonLabel: v.reasonLabel,
+        statusLabel: v.statusLabel,
+        status: v.status,
+        startsAt: v.startsAt,
+        windowStart: v.windowStart,
+        windowEnd: v.windowEnd,
+        findings: v.findings,
+        recommendations: v.recommendations,
+        technicianName: v.technicianName,
+      })),
       deps.clock(),
     ),
     files: fileRows.map(toFile),

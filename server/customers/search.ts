@@ -30,10 +30,7 @@ const firstProperty = (col: 'street' | 'city') =>
 
 export async function listCustomers(deps: Pick<AppDeps, 'database'>, q: CustomerListQuery): Promise<CustomerPage> {
   const { db } = deps.database;
-  const where = and(
-    q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? isNotNull(customers.archivedAt) : undefined,
-    searchWhere(q.q),
-  );
+  const where = and(q.status === 'active' ? isNull(customers.archivedAt) : q.status === 'archived' ? isNotNull(customers.archivedAt) : undefined, searchWhere(q.q));
   const street = firstProperty('street');
   const city = firstProperty('city');
   const sortCol = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city }[q.sort];
@@ -56,7 +53,10 @@ export async function listCustomers(deps: Pick<AppDeps, 'database'>, q: Customer
       .orderBy(q.dir === 'desc' ? sql`${sortCol} desc nulls last` : sql`${sortCol} asc nulls last`, dir(customers.id))
       .limit(q.pageSize)
       .offset(q.page * q.pageSize),
-    db.select({ n: sql<number>`count(*)::int` }).from(customers).where(where),
+    db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(customers)
+      .where(where),
   ]);
   return {
     items: rows.map(({ archivedAt, createdAt, ...r }) => ({ ...r, archived: archivedAt !== null, createdAt: createdAt.toISOString() })),

@@ -81,9 +81,7 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
     timeZone: c.timeZone,
     technicians: techRows.map((t) => ({
       ...t,
-      timeOff: off
-        .filter((o) => o.technicianId === t.id)
-        .map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
+      timeOff: off.filter((o) => o.technicianId === t.id).map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
     })),
     // The queue ignores the technician filter: unassigned work belongs to no one yet.
     unassigned: queueRows.map((r) => toView(r, ctx)),
@@ -144,7 +142,12 @@ async function checkTechnicianFits(
   return tech.name;
 }
 
-export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof assignSchema>): Promise<VisitView> {
+export async function assignVisit(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  user: SessionUser,
+  id: string,
+  body: z.output<typeof assignSchema>,
+): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -202,7 +205,12 @@ export async function assignVisit(deps: Pick<AppDeps, 'config' | 'database' | 'c
 
 const TECHNICIAN_MAY_SET: readonly VisitStatus[] = ['on_the_way', 'on_site', 'done', 'no_show'];
 
-export async function changeStatus(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, user: SessionUser, id: string, body: z.output<typeof statusChangeSchema>): Promise<VisitView> {
+export async function changeStatus(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  user: SessionUser,
+  id: string,
+  body: z.output<typeof statusChangeSchema>,
+): Promise<VisitView> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const now = deps.clock();
@@ -251,7 +259,10 @@ export async function visitHistory(deps: Pick<AppDeps, 'database'>, id: string):
   const { db } = deps.database;
   await loadVisitRow(db, id);
   const techUsers = db.$with('tech_users').as(
-    db.select({ techId: technicians.id, techName: sql<string>`${users.name}`.as('tech_name') }).from(technicians).innerJoin(users, eq(users.id, technicians.userId)),
+    db
+      .select({ techId: technicians.id, techName: sql<string>`${users.name}`.as('tech_name') })
+      .from(technicians)
+      .innerJoin(users, eq(users.id, technicians.userId)),
   );
   const rows = await db
     .with(techUsers)
@@ -306,12 +317,7 @@ export async function findHouseholds(deps: Pick<AppDeps, 'database'>, q: string)
     .where(
       and(
         isNull(customers.archivedAt),
-        or(
-          ilike(customers.name, term),
-          ilike(customers.email, term),
-          ilike(properties.street, term),
-          digits.length >= 4 ? ilike(customers.phone, `%${digits}%`) : undefined,
-        ),
+        or(ilike(customers.name, term), ilike(customers.email, term), ilike(properties.street, term), digits.length >= 4 ? ilike(customers.phone, `%${digits}%`) : undefined),
       ),
     )
     .orderBy(asc(customers.name))

@@ -128,7 +128,8 @@ export async function updateEquipment(deps: Pick<AppDeps, 'database' | 'clock'>,
   assertNotFuture(input.installedOn, today);
   const installedOn = input.installedOn !== undefined ? input.installedOn : e.installedOn;
   const warrantyEndsOn = input.warrantyEndsOn !== undefined ? input.warrantyEndsOn : e.warrantyEndsOn;
-  if (installedOn && warrantyEndsOn && warrantyEndsOn < installedOn) throw new AppError(422, 'validation_failed', 'Please check warrantyEndsOn.', { warrantyEndsOn: 'Warranty end is after the install date.' });
+  if (installedOn && warrantyEndsOn && warrantyEndsOn < installedOn)
+    throw new AppError(422, 'validation_failed', 'Please check warrantyEndsOn.', { warrantyEndsOn: 'Warranty end is after the install date.' });
   // A maximum frequency belongs to a variable-speed compressor, whichever of the two the change sends.
   const compressorType = input.compressorType !== undefined ? input.compressorType : e.compressorType;
   const maxCompressorHz = input.maxCompressorHz !== undefined ? input.maxCompressorHz : e.maxCompressorHz;

@@ -54,9 +54,7 @@ export function fieldRoutes(deps: AppDeps): Router {
   router.post('/visits/:id/complete', async (req, res) => {
     const id = visitId(req.params.id);
     const body = parse(completeVisitSchema, req.body);
-    res.json(
-      await completeVisit(deps, currentUser(req), id, body, req.log),
-    );
+    res.json(await completeVisit(deps, currentUser(req), id, body, req.log));
   });
 
   return router;

@@ -212,7 +212,10 @@ export async function saveReadings(deps: Pick<AppDeps, 'database' | 'clock'>, us
   const [row] = await db
     .insert(visitReadings)
     .values(values)
-    .onConflictDoUpdate({ target: [visitReadings.visitId, visitReadings.equipmentId], set: { readings, checks, worstStatus: values.worstStatus, recordedAt: now, recordedBy: user.id } })
+    .onConflictDoUpdate({
+      target: [visitReadings.visitId, visitReadings.equipmentId],
+      set: { readings, checks, worstStatus: values.worstStatus, recordedAt: now, recordedBy: user.id },
+    })
     .returning();
   return savedReadings(row!);
 }
@@ -230,7 +233,8 @@ export async function saveChecklist(deps: Pick<AppDeps, 'database'>, user: Sessi
     const e = byId.get(it.equipmentId);
     if (!e) throw notInHousehold(`items.${i}.equipmentId`, 'That equipment');
     const known = checklistFor(e, body.season, kinds).some((c) => c.id === it.itemId);
-    if (!known) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: `Not a ${body.season} checklist item for this equipment` });
+    if (!known)
+      throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: `Not a ${body.season} checklist item for this equipment` });
     const k = `${it.equipmentId}/${it.itemId}`;
     if (seen.has(k)) throw new AppError(422, 'validation_failed', `Please check items.${i}.itemId.`, { [`items.${i}.itemId`]: 'This item appears twice' });
     seen.add(k);

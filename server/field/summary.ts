@@ -29,7 +29,11 @@ export function technicianCautions(items: readonly Pick<EquipmentRow, 'kind' | '
 
 /** Photos filed against the visit, oldest first. */
 export async function visitPhotos(db: Db | Tx, visitId: string) {
-  const rows = await db.select().from(files).where(and(eq(files.visitId, visitId), isNull(files.archivedAt))).orderBy(asc(files.createdAt));
+  const rows = await db
+    .select()
+    .from(files)
+    .where(and(eq(files.visitId, visitId), isNull(files.archivedAt)))
+    .orderBy(asc(files.createdAt));
   return rows.filter((f) => f.contentType.startsWith('image/')).map(toFile);
 }
 

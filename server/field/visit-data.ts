@@ -112,7 +112,11 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
   // A visit booked without the agreement still counts under the one whose term holds its date.
   const candidates = booked.length
     ? booked
-    : await db.select().from(agreements).where(and(eq(agreements.propertyId, visit.propertyId), ne(agreements.status, 'canceled'))).orderBy(desc(agreements.endsOn));
+    : await db
+        .select()
+        .from(agreements)
+        .where(and(eq(agreements.propertyId, visit.propertyId), ne(agreements.status, 'canceled')))
+        .orderBy(desc(agreements.endsOn));
   const terms = await termsOf(db, candidates);
   const pick = candidates.map((a) => ({ a, term: termOn(terms.get(a.id)!, onDate) })).find((x) => x.term) ?? (booked[0] ? { a: booked[0], term: null } : null);
   if (!pick) return none();
@@ -202,7 +206,14 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
   const held = new Map<string, Parameters<typeof termsOf>[1][number]>();
   for (const r of rows) {
     if (r.agreementId && r.agreementStatus && r.agreementStartsOn && r.agreementEndsOn && r.agreementPlanVersionId && r.agreementPriceCents !== null) {
-      held.set(r.agreementId, { id: r.agreementId, status: r.agreementStatus, startsOn: r.agreementStartsOn, endsOn: r.agreementEndsOn, planVersionId: r.agreementPlanVersionId, priceCents: r.agreementPriceCents });
+      held.set(r.agreementId, {
+        id: r.agreementId,
+        status: r.agreementStatus,
+        startsOn: r.agreementStartsOn,
+        endsOn: r.agreementEndsOn,
+        planVersionId: r.agreementPlanVersionId,
+        priceCents: r.agreementPriceCents,
+      });
     }
   }
   const terms = await termsOf(db, [...held.values()]);
@@ -211,9 +222,7 @@ export async function visitListRows(db: Db | Tx, where: SQL | undefined, info: C
     // The term in force on the visit's day, not the latest one paid.
     const inTerm = r.agreementId !== null && termOn(terms.get(r.agreementId) ?? [], onDate) !== null;
     const covered = inTerm && r.agreementStatus !== null && COVERING_STATUSES.includes(r.agreementStatus);
-    const label = r.agreementStatus
-      ? `${r.planName ?? 'Plan'} · ${inTerm ? AGREEMENT_STATUS_LABELS[r.agreementStatus] : 'Term ended'}`
-      : 'No plan';
+    const label = r.agreementStatus ? `${r.planName ?? 'Plan'} · ${inTerm ? AGREEMENT_STATUS_LABELS[r.agreementStatus] : 'Term ended'}` : 'No plan';
     const times = visitTimeLabels(r, info.timeZone);
     return {
       id: r.id,

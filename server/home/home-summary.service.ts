@@ -54,15 +54,30 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
     const all = terms.get(a.id) ?? [];
     const term = termOn(all, today) ?? all[all.length - 1] ?? { startsOn: a.startsOn, endsOn: a.endsOn };
     const cov = coverageFor({
-      agreement: { status: a.status, startsOn: term.startsOn, endsOn: term.endsOn, plan: { name: planName, coolingVisits: v.coolingVisits, heatingVisits: v.heatingVisits, repairDiscountBps: v.repairDiscountBps, diagnosticFeeWaived: v.diagnosticFeeWaived, priorityWindowHours: v.priorityWindowHours } },
+      agreement: {
+        status: a.status,
+        startsOn: term.startsOn,
+        endsOn: term.endsOn,
+        plan: {
+          name: planName,
+          coolingVisits: v.coolingVisits,
+          heatingVisits: v.heatingVisits,
+          repairDiscountBps: v.repairDiscountBps,
+          diagnosticFeeWaived: v.diagnosticFeeWaived,
+          priorityWindowHours: v.priorityWindowHours,
+        },
+      },
       visit: { id: 'today', kind: 'tune_up', status: 'requested', onDate: today },
-      termVisits: visitRows.filter((x) => x.propertyId === a.propertyId).map((x) => ({ id: x.id, kind: x.kind as 'tune_up' | 'service_call', status: x.status, onDate: localDate(new Date(x.startsAt), co.timeZone) })),
+      termVisits: visitRows
+        .filter((x) => x.propertyId === a.propertyId)
+        .map((x) => ({ id: x.id, kind: x.kind as 'tune_up' | 'service_call', status: x.status, onDate: localDate(new Date(x.startsAt), co.timeZone) })),
       diagnosticFeeCents: co.diagnosticFeeCents,
       seasons,
     });
     const season = cov.tuneUpSeason ?? 'cooling';
     const allowance = cov.allowances.find((x) => x.season === season);
-    const canRenew = (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && today >= renewalWindowOpens(a.endsOn))) && planActive;
+    const canRenew =
+      (a.status === 'renewal_due' || a.status === 'past_due' || a.status === 'lapsed' || (a.status === 'active' && today >= renewalWindowOpens(a.endsOn))) && planActive;
     return {
       id: a.id,
       propertyId: a.propertyId,

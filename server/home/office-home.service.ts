@@ -50,7 +50,18 @@ export async function officeHome(deps: Pick<AppDeps, 'database' | 'clock'>): Pro
         from payments where status = 'succeeded' and succeeded_at >= span.paid_from
       ) p`);
   const r = result.rows[0];
-  if (!r) return { today: '', tomorrow: '', visitsToday: {}, visitsTomorrow: {}, unassigned: 0, renewalsDue30: pair(0, 0), pastDue: pair(0, 0), recentPayments: pair(0, 0), recentPaymentDays: RECENT_PAYMENT_DAYS };
+  if (!r)
+    return {
+      today: '',
+      tomorrow: '',
+      visitsToday: {},
+      visitsTomorrow: {},
+      unassigned: 0,
+      renewalsDue30: pair(0, 0),
+      pastDue: pair(0, 0),
+      recentPayments: pair(0, 0),
+      recentPaymentDays: RECENT_PAYMENT_DAYS,
+    };
   return {
     today: String(r.today),
     tomorrow: String(r.tomorrow),

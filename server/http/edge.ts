@@ -86,7 +86,8 @@ export function unstorable(s: string): string | null {
   return null;
 }
 
-const badText = (field: string, why: string) => new AppError(400, 'bad_text', field === '_' ? 'The request contains text that cannot be stored.' : `Please check ${field}.`, { [field]: why });
+const badText = (field: string, why: string) =>
+  new AppError(400, 'bad_text', field === '_' ? 'The request contains text that cannot be stored.' : `Please check ${field}.`, { [field]: why });
 
 /**
  * Throws a 400 naming the first field (keys and values, at any depth, "lines.0.description"

@@ -86,7 +86,7 @@ export function fromDatabaseError(err: unknown): AppError | null {
 }
 
 export const apiNotFound: RequestHandler = (req) => {
-  throw new AppError(404, 'not_found', `No API route for ${req.method} ${req.originalUrl.split("?")[0]}.`);
+  throw new AppError(404, 'not_found', `No API route for ${req.method} ${req.originalUrl.split('?')[0]}.`);
 };
 
 /** Whatever nothing else answered (a write to a client path, a missing asset): 404 in the one shape. */
@@ -122,7 +122,8 @@ export const RETRY_AFTER_SECONDS = 5;
 // down or starting up; PostgreSQL manual, Appendix A), and the socket errors of a server that is
 // gone (Node "Common system errors"). None is the caller's fault and each passes by itself.
 const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', 'ENOTFOUND', 'EAI_AGAIN', '57P01', '57P02', '57P03']);
-const UNAVAILABLE_MESSAGES = /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down)/;
+const UNAVAILABLE_MESSAGES =
+  /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down)/;
 
 /** True when `err` (or what it wraps) says the database cannot be reached just now. */
 export function databaseUnavailable(err: unknown): boolean {

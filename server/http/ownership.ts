@@ -1,8 +1,8 @@
-import { and, eq, inArray, isNull } from 'drizzle-orm';
+import { eq } from 'drizzle-orm';
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { customers, equipment, files, properties, visits } from '../db/schema';
+import { customers, equipment, properties, visits } from '../db/schema';
 import { AppError } from './errors';
 
 // Ids a request names in its body or query string are checked the way ids in the path are:
@@ -71,20 +71,4 @@ export async function ownedEquipment(db: Db | Tx, user: SessionUser, id: string,
 export async function ownedVisit(db: Db | Tx, user: SessionUser, id: string, field: string, rule: OwnedRule = {}) {
   const [row] = await db.select({ id: visits.id, customerId: visits.customerId, propertyId: visits.propertyId }).from(visits).where(eq(visits.id, id)).limit(1);
   return assertOwnedRow(db, user, row, field, { what: 'That visit', ...rule });
-}
-
-/**
- * Attaches uploaded files to a visit: each must belong to the visit's household, be live and not
- * yet on another visit. One conditional update, so a file cannot be taken twice; a shortfall
- * throws inside the caller's transaction, undoing the visit and the links together.
- */
-export async function attachOwnedFiles(tx: Db | Tx, target: { customerId: string; visitId: string }, fileIds: readonly string[], field: string): Promise<void> {
-  const ids = [...new Set(fileIds)];
-  if (!ids.length) return;
-  const linked = await tx
-    .update(files)
-    .set({ visitId: target.visitId })
-    .where(and(inArray(files.id, ids), eq(files.customerId, target.customerId), isNull(files.archivedAt), isNull(files.visitId)))
-    .returning({ id: files.id });
-  if (linked.length !== ids.length) throw notInHousehold(field, 'A photo');
 }

@@ -18,7 +18,11 @@ interface Range {
 export const BOOKING_RANGE: Range = { before: { days: 1 }, after: { months: BOOKING_HORIZON_MONTHS }, describe: `Booking opens at most ${BOOKING_HORIZON_MONTHS} months ahead.` };
 
 /** The dispatch board, schedules, time off and assignments look at most this far either way. */
-export const OFFICE_RANGE: Range = { before: { years: BOARD_RANGE_YEARS }, after: { years: BOARD_RANGE_YEARS }, describe: `Choose a date within ${BOARD_RANGE_YEARS} years of today.` };
+export const OFFICE_RANGE: Range = {
+  before: { years: BOARD_RANGE_YEARS },
+  after: { years: BOARD_RANGE_YEARS },
+  describe: `Choose a date within ${BOARD_RANGE_YEARS} years of today.`,
+};
 
 /**
  * Throws a 422 naming each field whose date (YYYY-MM-DD, or the UTC day of an ISO instant) is

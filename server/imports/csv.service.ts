@@ -48,13 +48,18 @@ export function readCsv(buf: Buffer): CsvTable {
   const parsed = Papa.parse<Record<string, string>>(text.replace(/^\uFEFF/, ''), { header: true, skipEmptyLines: 'greedy', transformHeader: (h) => h.trim() });
   const headers = (parsed.meta.fields ?? []).filter((h) => h !== '');
   if (!headers.length) throw new AppError(422, 'validation_failed', 'Please check file.', { file: 'The file has no header row.' });
-  if (new Set(headers).size !== headers.length) throw new AppError(422, 'validation_failed', 'Please check file.', { file: 'Two columns have the same heading; give each a different name.' });
+  if (new Set(headers).size !== headers.length)
+    throw new AppError(422, 'validation_failed', 'Please check file.', { file: 'Two columns have the same heading; give each a different name.' });
   if (parsed.data.length > MAX_IMPORT_ROWS) throw new AppError(413, 'too_many_rows', `Import at most ${MAX_IMPORT_ROWS} rows at a time.`);
   const rows = parsed.data.map((r) => Object.fromEntries(headers.map((h) => [h, unguard(String(r[h] ?? '').trim())])));
   return { headers, rows };
 }
 
-const norm = (s: string) => s.toLowerCase().replace(/[^a-z0-9/]+/g, ' ').trim();
+const norm = (s: string) =>
+  s
+    .toLowerCase()
+    .replace(/[^a-z0-9/]+/g, ' ')
+    .trim();
 
 /** Our best guess at which column holds which field, from headings and their common variants. */
 export function suggestMapping(headers: string[]): ImportMapping {
@@ -159,7 +164,14 @@ export function checkRows(table: CsvTable, mapping: ImportMapping, today: string
 
     const c = customerRowSchema.safeParse({ name: get(r, 'customer_name'), email: get(r, 'customer_email'), phone: get(r, 'customer_phone') });
     if (!c.success) report(c.error, customerFieldOf);
-    const p = propertyInputSchema.safeParse({ label: get(r, 'property_label'), street: get(r, 'street'), unit: get(r, 'unit'), city: get(r, 'city'), state: get(r, 'state'), zip: get(r, 'zip') });
+    const p = propertyInputSchema.safeParse({
+      label: get(r, 'property_label'),
+      street: get(r, 'street'),
+      unit: get(r, 'unit'),
+      city: get(r, 'city'),
+      state: get(r, 'state'),
+      zip: get(r, 'zip'),
+    });
     if (!p.success) report(p.error, propertyFieldOf);
 
     let e: EquipmentInput | null = null;
@@ -206,9 +218,31 @@ export function checkRows(table: CsvTable, mapping: ImportMapping, today: string
 
 // USPS Publication 28 street suffix and directional abbreviations (common ones).
 const ABBREVIATIONS: Record<string, string> = {
-  street: 'st', avenue: 'ave', drive: 'dr', road: 'rd', lane: 'ln', court: 'ct', circle: 'cir', boulevard: 'blvd', place: 'pl',
-  terrace: 'ter', parkway: 'pkwy', highway: 'hwy', trail: 'trl', square: 'sq', hollow: 'holw', path: 'path', way: 'way',
-  north: 'n', south: 's', east: 'e', west: 'w', northeast: 'ne', northwest: 'nw', southeast: 'se', southwest: 'sw',
+  street: 'st',
+  avenue: 'ave',
+  drive: 'dr',
+  road: 'rd',
+  lane: 'ln',
+  court: 'ct',
+  circle: 'cir',
+  boulevard: 'blvd',
+  place: 'pl',
+  terrace: 'ter',
+  parkway: 'pkwy',
+  highway: 'hwy',
+  trail: 'trl',
+  square: 'sq',
+  hollow: 'holw',
+  path: 'path',
+  way: 'way',
+  north: 'n',
+  south: 's',
+  east: 'e',
+  west: 'w',
+  northeast: 'ne',
+  northwest: 'nw',
+  southeast: 'se',
+  southwest: 'sw',
 };
 
 /** One key per address, so "12 Kestrel Street" and "12 kestrel st." are the same house. */

@@ -1,10 +1,4 @@
-import ical, {
-  ICalAttendeeRole,
-  ICalAttendeeStatus,
-  ICalCalendarMethod,
-  ICalEventStatus,
-  type ICalCalendar,
-} from 'ical-generator';
+import ical, { ICalAttendeeRole, ICalAttendeeStatus, ICalCalendarMethod, ICalEventStatus, type ICalCalendar } from 'ical-generator';
 import { getVtimezoneComponent } from '@touch4it/ical-timezones';
 import { DateTime, IANAZone } from 'luxon';
 

@@ -30,9 +30,7 @@ export function renderEmail(content: EmailContent): { html: string; text: string
   }
   const footer = content.footer === undefined ? undefined : checkText(content.footer, 'footer', { allowEmpty: true });
 
-  const paragraphHtml = paragraphs
-    .map((p) => `<p style="margin:0 0 14px;font-family:${FONT};font-size:16px;line-height:1.55;color:${INK};">${lines(p)}</p>`)
-    .join('\n');
+  const paragraphHtml = paragraphs.map((p) => `<p style="margin:0 0 14px;font-family:${FONT};font-size:16px;line-height:1.55;color:${INK};">${lines(p)}</p>`).join('\n');
   const actionHtml = action
     ? `<table role="presentation" cellpadding="0" cellspacing="0" border="0" style="margin:22px 0 18px;"><tr>
 <td style="border-radius:8px;background:${ACCENT};"><a href="${escapeHtml(action.url)}" style="display:inline-block;padding:12px 24px;font-family:${FONT};font-size:16px;font-weight:700;color:#ffffff;text-decoration:none;border-radius:8px;">${escapeHtml(action.label)}</a></td>

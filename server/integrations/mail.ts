@@ -64,8 +64,19 @@ export interface Mailer {
 const ADDRESS = /^[^\s@<>()[\],;:"\\]+@[^\s@<>()[\],;:"\\]+\.[^\s@<>()[\],;:"\\.]+$/;
 // Fields the mailer sets itself; setting them as raw headers would fight the composer.
 const RESERVED_HEADERS = new Set([
-  'from', 'to', 'cc', 'bcc', 'subject', 'message-id', 'date', 'mime-version',
-  'content-type', 'content-transfer-encoding', 'list-unsubscribe', 'list-unsubscribe-post', 'list-id',
+  'from',
+  'to',
+  'cc',
+  'bcc',
+  'subject',
+  'message-id',
+  'date',
+  'mime-version',
+  'content-type',
+  'content-transfer-encoding',
+  'list-unsubscribe',
+  'list-unsubscribe-post',
+  'list-id',
 ]);
 const HEADER_NAME = /^[!-9;-~]+$/;
 
@@ -179,7 +190,9 @@ function compose(message: OutgoingMail, fromAddress: string): ComposedMail {
       if (url.protocol === 'https:') headers['List-Unsubscribe-Post'] = 'List-Unsubscribe=One-Click';
     }
     if (unsubscribeMailto !== undefined) {
-      const target = checkText(unsubscribeMailto, 'list.unsubscribeMailto').trim().replace(/^mailto:/i, '');
+      const target = checkText(unsubscribeMailto, 'list.unsubscribeMailto')
+        .trim()
+        .replace(/^mailto:/i, '');
       mailboxAddress(target.split('?')[0], 'list.unsubscribeMailto');
       unsubscribe.push(`mailto:${target}`);
     }

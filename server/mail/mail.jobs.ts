@@ -16,11 +16,19 @@ export interface MailRetry {
 export function registerMailJobs(deps: OutboxDeps, retry: MailRetry = { retryDelay: 30, retryBackoff: true }): void {
   const { jobs } = deps;
   const queue: PgBoss.Queue = { name: MAIL_SEND_JOB, retryLimit: MAIL_MAX_ATTEMPTS - 1, ...retry, expireInSeconds: 120 };
-  jobs.register<{ id: string }>(MAIL_SEND_JOB, async ({ id }) => {
-    await deliverMail(deps, id);
-  }, { queue, work: { pollingIntervalSeconds: 1 } });
-  jobs.register(MAIL_REQUEUE_JOB, async () => {
-    const n = await requeueStuckMail(deps);
-    if (n) deps.logger.warn({ requeued: n }, 'queued stuck e-mails again');
-  }, { cron: '*/10 * * * *' });
+  jobs.register<{ id: string }>(
+    MAIL_SEND_JOB,
+    async ({ id }) => {
+      await deliverMail(deps, id);
+    },
+    { queue, work: { pollingIntervalSeconds: 1 } },
+  );
+  jobs.register(
+    MAIL_REQUEUE_JOB,
+    async () => {
+      const n = await requeueStuckMail(deps);
+      if (n) deps.logger.warn({ requeued: n }, 'queued stuck e-mails again');
+    },
+    { cron: '*/10 * * * *' },
+  );
 }

@@ -57,9 +57,7 @@ function fromStored(stored: StoredMail, key: string): OutgoingMail {
     text: stored.text,
     ...(stored.html !== undefined ? { html: stored.html } : {}),
     ...(stored.headers ? { headers: stored.headers } : {}),
-    ...(stored.attachments
-      ? { attachments: stored.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.base64, 'base64') })) }
-      : {}),
+    ...(stored.attachments ? { attachments: stored.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.base64, 'base64') })) } : {}),
     idempotencyKey: key,
   };
 }
@@ -112,10 +110,7 @@ export async function deliverMail(deps: OutboxDeps, id: string, log: Pick<Logger
     .where(
       and(
         eq(mailSends.id, id),
-        or(
-          inArray(mailSends.status, ['queued', 'retrying']),
-          and(eq(mailSends.status, 'sending'), lt(mailSends.claimedAt, new Date(now.getTime() - STALE_CLAIM_MS))),
-        ),
+        or(inArray(mailSends.status, ['queued', 'retrying']), and(eq(mailSends.status, 'sending'), lt(mailSends.claimedAt, new Date(now.getTime() - STALE_CLAIM_MS)))),
       ),
     )
     .returning();
@@ -163,6 +158,9 @@ export async function requeueStuckMail(deps: OutboxDeps, olderThanMs = 30 * 60_0
     .from(mailSends)
     .where(and(inArray(mailSends.status, ['queued', 'retrying', 'sending']), lt(mailSends.updatedAt, before), lt(mailSends.attempts, MAIL_MAX_ATTEMPTS)))
     .limit(500);
-  await startSending(deps, rows.map((r) => r.id));
+  await startSending(
+    deps,
+    rows.map((r) => r.id),
+  );
   return rows.length;
 }

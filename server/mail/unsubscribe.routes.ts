@@ -7,10 +7,7 @@ import { readUnsubscribeToken, suppress } from './unsubscribe';
 const PURPOSE_LABEL = { reminders: 'seasonal reminders' } as const;
 
 function page(res: Response, status: number, title: string, body: string): void {
-  res
-    .status(status)
-    .type('html')
-    .setHeader('Cache-Control', 'no-store')
+  res.status(status).type('html').setHeader('Cache-Control', 'no-store')
     .send(`<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${escapeHtml(title)}</title>
 <style>body{font-family:system-ui,sans-serif;max-width:32rem;margin:3rem auto;padding:0 1rem;line-height:1.5}button{font:inherit;padding:.6rem 1.2rem;border-radius:.5rem;border:0;background:#1f5f8b;color:#fff;cursor:pointer}</style></head>
 <body><main><h1>${escapeHtml(title)}</h1>${body}</main></body></html>`);

@@ -82,7 +82,10 @@ export async function createPlan(deps: Pick<AppDeps, 'database'>, input: PlanTer
       .insert(plans)
       .values({ code: input.code, name: input.name, description: input.description, sortOrder: max + 1 })
       .returning();
-    const [v] = await tx.insert(planVersions).values(versionValues(p!.id, 1, input)).returning();
+    const [v] = await tx
+      .insert(planVersions)
+      .values(versionValues(p!.id, 1, input))
+      .returning();
     return planViewOf(p!, v!);
   });
 }
@@ -106,7 +109,10 @@ export async function updatePlan(deps: Pick<AppDeps, 'database'>, id: string, in
     const latest = await currentVersion(tx, id);
     const [updated] = await tx.update(plans).set({ name: input.name, description: input.description }).where(eq(plans.id, id)).returning();
     if (latest && sameTerms(latest, input)) return planViewOf(updated!, latest);
-    const [v] = await tx.insert(planVersions).values(versionValues(id, (latest?.version ?? 0) + 1, input)).returning();
+    const [v] = await tx
+      .insert(planVersions)
+      .values(versionValues(id, (latest?.version ?? 0) + 1, input))
+      .returning();
     return planViewOf(updated!, v!);
   });
 }
@@ -124,6 +130,10 @@ export async function planVersionsOf(deps: Pick<AppDeps, 'database'>, id: string
   const { db } = deps.database;
   const [p] = await db.select().from(plans).where(eq(plans.id, id));
   if (!p) throw notFound('That plan');
-  const vs = await db.select().from(planVersions).where(and(eq(planVersions.planId, id))).orderBy(desc(planVersions.version));
+  const vs = await db
+    .select()
+    .from(planVersions)
+    .where(and(eq(planVersions.planId, id)))
+    .orderBy(desc(planVersions.version));
   return vs.map((v) => planViewOf(p, v));
 }

@@ -22,7 +22,11 @@ import { applyItemChange, insertItem, itemView } from './pricebook.service';
 // and a suggested column mapping, check every row (problems name the row and column), then
 // import all or nothing. An existing SKU is updated (a new price version when a price changes).
 
-const norm = (s: string) => s.toLowerCase().replace(/[^a-z0-9/µ]+/g, ' ').trim();
+const norm = (s: string) =>
+  s
+    .toLowerCase()
+    .replace(/[^a-z0-9/µ]+/g, ' ')
+    .trim();
 
 export function suggestPriceBookMapping(headers: string[]): ImportMapping {
   const mapping: ImportMapping = {};
@@ -71,7 +75,18 @@ function checkTable(table: CsvTable, mapping: ImportMapping): { values: PriceBoo
 
 async function counts(tx: Tx, values: PriceBookItemInput[], now: Date, write: boolean): Promise<{ created: number; updated: number; unchanged: number }> {
   const c = { created: 0, updated: 0, unchanged: 0 };
-  const existing = values.length ? await tx.select().from(priceBookItems).where(inArray(priceBookItems.sku, values.map((v) => v.sku))).for('update') : [];
+  const existing = values.length
+    ? await tx
+        .select()
+        .from(priceBookItems)
+        .where(
+          inArray(
+            priceBookItems.sku,
+            values.map((v) => v.sku),
+          ),
+        )
+        .for('update')
+    : [];
   const bySku = new Map(existing.map((e) => [e.sku, e]));
   for (const v of values) {
     const before = bySku.get(v.sku);
@@ -122,4 +137,3 @@ export async function exportPriceBookCsv(deps: Pick<AppDeps, 'database'>): Promi
     }),
   );
 }
-

@@ -1,6 +1,13 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import { flatRateTaskInputSchema, flatRateTaskUpdateSchema, priceBookItemInputSchema, priceBookItemUpdateSchema, priceBookListQuerySchema, priceBookMappingSchema } from '../../shared/schemas/pricebook';
+import {
+  flatRateTaskInputSchema,
+  flatRateTaskUpdateSchema,
+  priceBookItemInputSchema,
+  priceBookItemUpdateSchema,
+  priceBookListQuerySchema,
+  priceBookMappingSchema,
+} from '../../shared/schemas/pricebook';
 import { taskListQuerySchema } from '../../shared/schemas/quotes';
 import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';

@@ -51,7 +51,10 @@ export async function listItems(deps: Pick<AppDeps, 'database'>, q: PriceBookLis
   if (q.category) where.push(eq(priceBookItems.category, q.category));
   if (q.status !== 'all') where.push(eq(priceBookItems.active, q.status === 'active'));
   const cond = where.length ? and(...where) : undefined;
-  const [{ total }] = (await db.select({ total: sql<number>`count(*)::int` }).from(priceBookItems).where(cond)) as [{ total: number }];
+  const [{ total }] = (await db
+    .select({ total: sql<number>`count(*)::int` })
+    .from(priceBookItems)
+    .where(cond)) as [{ total: number }];
   const col = SORT[q.sort];
   const rows = await db
     .select()
@@ -101,7 +104,10 @@ async function writeVersion(tx: Tx, item: ItemRow): Promise<ItemRow> {
 export async function insertItem(tx: Tx, input: PriceBookItemInput): Promise<ItemRow> {
   const [clash] = await tx.select({ id: priceBookItems.id }).from(priceBookItems).where(eq(priceBookItems.sku, input.sku));
   if (clash) throw skuTaken(input.sku);
-  const [row] = await tx.insert(priceBookItems).values({ ...input, spec: input.spec ?? null, version: 1 }).returning();
+  const [row] = await tx
+    .insert(priceBookItems)
+    .values({ ...input, spec: input.spec ?? null, version: 1 })
+    .returning();
   return writeVersion(tx, row!);
 }
 
@@ -164,7 +170,12 @@ export async function taskViews(db: Db | Tx, ids?: string[]): Promise<FlatRateTa
     .select({ line: flatRateTaskLines, item: priceBookItems })
     .from(flatRateTaskLines)
     .innerJoin(priceBookItems, eq(flatRateTaskLines.itemId, priceBookItems.id))
-    .where(inArray(flatRateTaskLines.taskId, tasks.map((t) => t.id)))
+    .where(
+      inArray(
+        flatRateTaskLines.taskId,
+        tasks.map((t) => t.id),
+      ),
+    )
     .orderBy(asc(flatRateTaskLines.position));
   return tasks.map((t) => {
     const components = lines
@@ -191,7 +202,15 @@ export async function listTasks(deps: Pick<AppDeps, 'database'>, status: 'active
 }
 
 async function writeComponents(tx: Tx, taskId: string, components: FlatRateTaskInput['components']): Promise<void> {
-  const found = await tx.select({ id: priceBookItems.id }).from(priceBookItems).where(inArray(priceBookItems.id, components.map((c) => c.itemId)));
+  const found = await tx
+    .select({ id: priceBookItems.id })
+    .from(priceBookItems)
+    .where(
+      inArray(
+        priceBookItems.id,
+        components.map((c) => c.itemId),
+      ),
+    );
   const known = new Set(found.map((f) => f.id));
   components.forEach((c, i) => {
     if (!known.has(c.itemId)) throw new AppError(422, 'validation_failed', 'Please check components.', { [`components.${i}.itemId`]: 'That price-book item was not found.' });
@@ -205,7 +224,10 @@ export async function createTask(deps: Deps, input: FlatRateTaskInput): Promise<
   const id = await db.transaction(async (tx) => {
     const [clash] = await tx.select({ id: flatRateTasks.id }).from(flatRateTasks).where(eq(flatRateTasks.sku, input.sku));
     if (clash) throw new AppError(409, 'sku_taken', `SKU ${input.sku} is already a task.`, { sku: `SKU ${input.sku} is already a task.` });
-    const [t] = await tx.insert(flatRateTasks).values({ sku: input.sku, name: input.name, description: input.description, active: input.active }).returning({ id: flatRateTasks.id });
+    const [t] = await tx
+      .insert(flatRateTasks)
+      .values({ sku: input.sku, name: input.name, description: input.description, active: input.active })
+      .returning({ id: flatRateTasks.id });
     await writeComponents(tx, t!.id, input.components);
     return t!.id;
   });
@@ -222,7 +244,10 @@ export async function updateTask(deps: Deps, id: string, change: FlatRateTaskUpd
       if (clash) throw new AppError(409, 'sku_taken', `SKU ${change.sku} is already a task.`, { sku: `SKU ${change.sku} is already a task.` });
     }
     const { components, ...fields } = change;
-    await tx.update(flatRateTasks).set({ ...fields, version: before.version + 1, updatedAt: deps.clock() }).where(eq(flatRateTasks.id, id));
+    await tx
+      .update(flatRateTasks)
+      .set({ ...fields, version: before.version + 1, updatedAt: deps.clock() })
+      .where(eq(flatRateTasks.id, id));
     if (components) await writeComponents(tx, id, components);
   });
   return (await taskViews(db, [id]))[0]!;

@@ -1,5 +1,4 @@
 import { and, eq } from 'drizzle-orm';
-import { DateTime } from 'luxon';
 import { formatUsd } from '../../shared/money';
 import { invoiceLinesOf } from '../../shared/quote-coverage';
 import type { DirectInvoice, QuoteApprove, QuoteDecline, QuoteView } from '../../shared/schemas/pricebook';
@@ -12,7 +11,8 @@ import { companyRow, localDate } from '../company/company';
 import { insertCoveredInvoice, invoiceView } from '../billing/invoices';
 import { queueMail } from '../mail/outbox';
 import { renderEmail } from '../integrations/mail-layout';
-import { recordBooked, type VisitRow } from '../visits/visit-status';
+import { followUpVisit } from '../visits/follow-up';
+import type { VisitRow } from '../visits/visit-status';
 import { OutOfStock, takeStock } from '../stock/stock.service';
 import { coverageContext, priceLines } from './pricing';
 import { frozen, readQuote, reachableQuote, staleRevision, type MailDeps } from './quotes.service';
@@ -36,42 +36,21 @@ async function openAnswer(tx: Tx, user: SessionUser, id: string, revision: numbe
   return q;
 }
 
-/** A requested visit, unassigned, a week out in the morning, for the office to schedule. */
-async function followUpVisit(tx: Tx, visit: VisitRow, parts: string[], actor: string, timeZone: string): Promise<string> {
-  let day = DateTime.fromJSDate(visit.startsAt, { zone: timeZone }).plus({ days: 7 }).startOf('day');
-  while (day.weekday > 5) day = day.plus({ days: 1 });
-  const windowStart = day.set({ hour: 8 }).toJSDate();
-  const windowEnd = day.set({ hour: 12 }).toJSDate();
-  const [row] = await tx
-    .insert(visits)
-    .values({
-      customerId: visit.customerId,
-      propertyId: visit.propertyId,
-      agreementId: visit.agreementId,
-      technicianId: null,
-      kind: 'service_call',
-      reason: 'other',
-      status: 'requested',
-      windowStart,
-      windowEnd,
-      startsAt: windowStart,
-      endsAt: day.set({ hour: 10 }).toJSDate(),
-      notes: `Fit the ordered part${parts.length === 1 ? '' : 's'}: ${parts.join(', ')}.`,
-      priority: visit.priority,
-    })
-    .returning({ id: visits.id });
-  await recordBooked(tx, { visitId: row!.id, actor, technicianId: null, note: 'Follow-up to fit ordered parts from an approved quote' });
-  return row!.id;
-}
-
 function payMail(deps: MailDeps, invoice: InvoiceView, to: string, companyName: string) {
   const url = `${deps.config.publicUrl}/portal/invoices/${invoice.id}`;
   const content = renderEmail({
     title: `Invoice ${invoice.number} from ${companyName}`,
-    paragraphs: [`Total ${formatUsd(invoice.totalCents)}${invoice.discountCents ? `, after ${formatUsd(invoice.discountCents)} of plan savings` : ''}.`, 'You can pay online with a card.'],
+    paragraphs: [
+      `Total ${formatUsd(invoice.totalCents)}${invoice.discountCents ? `, after ${formatUsd(invoice.discountCents)} of plan savings` : ''}.`,
+      'You can pay online with a card.',
+    ],
     action: { label: 'Pay online', url },
   });
-  return queueMail(deps, { kind: 'invoice_pay_link', key: `invoice-pay-link:${invoice.id}`, message: { to, subject: `Invoice ${invoice.number} from ${companyName}`, html: content.html, text: content.text } });
+  return queueMail(deps, {
+    kind: 'invoice_pay_link',
+    key: `invoice-pay-link:${invoice.id}`,
+    message: { to, subject: `Invoice ${invoice.number} from ${companyName}`, html: content.html, text: content.text },
+  });
 }
 
 export async function approveQuote(deps: MailDeps, user: SessionUser, id: string, body: QuoteApprove, answer: Answer): Promise<QuoteView> {
@@ -80,9 +59,22 @@ export async function approveQuote(deps: MailDeps, user: SessionUser, id: string
   const invoiceId = await db.transaction(async (tx) => {
     const q = await openAnswer(tx, user, id, body.revision, now);
     const rev = await revisionRow(tx, q.id, q.revision);
-    const [opt] = await tx.select().from(quoteOptions).where(and(eq(quoteOptions.id, body.optionId), eq(quoteOptions.revisionId, rev.id)));
+    const [opt] = await tx
+      .select()
+      .from(quoteOptions)
+      .where(and(eq(quoteOptions.id, body.optionId), eq(quoteOptions.revisionId, rev.id)));
     if (!opt) throw new AppError(422, 'validation_failed', 'Please check optionId.', { optionId: 'Choose one of the options on this quote.' });
-    await tx.insert(quoteApprovals).values({ quoteId: q.id, revision: q.revision, outcome: 'approved', optionId: opt.id, typedName: body.typedName, ip: answer.ip, onDevice: answer.onDevice, userId: user.id, at: now });
+    await tx.insert(quoteApprovals).values({
+      quoteId: q.id,
+      revision: q.revision,
+      outcome: 'approved',
+      optionId: opt.id,
+      typedName: body.typedName,
+      ip: answer.ip,
+      onDevice: answer.onDevice,
+      userId: user.id,
+      at: now,
+    });
     const lines = await tx.select().from(quoteLines).where(eq(quoteLines.optionId, opt.id)).orderBy(quoteLines.position);
     const [visit] = await tx.select().from(visits).where(eq(visits.id, q.visitId));
     const company = await companyRow(tx);
@@ -91,7 +83,14 @@ export async function approveQuote(deps: MailDeps, user: SessionUser, id: string
       {
         customerId: q.customerId,
         agreementId: visit!.agreementId,
-        lines: invoiceLinesOf({ lines: lines.map((l) => ({ ...l, quantity: Number(l.quantity), rules: [] })), subtotalCents: 0, savingsCents: 0, taxableCents: 0, taxCents: 0, totalCents: 0 }).map((l) => ({ ...l, description: l.description })),
+        lines: invoiceLinesOf({
+          lines: lines.map((l) => ({ ...l, quantity: Number(l.quantity), rules: [] })),
+          subtotalCents: 0,
+          savingsCents: 0,
+          taxableCents: 0,
+          taxCents: 0,
+          totalCents: 0,
+        }).map((l) => ({ ...l, description: l.description })),
         taxRateBps: rev.taxRateBps,
         totals: { subtotalCents: opt.subtotalCents, discountCents: opt.savingsCents, taxCents: opt.taxCents, totalCents: opt.totalCents },
         notes: `Quote #${q.number}, revision ${q.revision}: ${opt.title}`,
@@ -107,7 +106,16 @@ export async function approveQuote(deps: MailDeps, user: SessionUser, id: string
         continue;
       }
       try {
-        await takeStock(tx, { kind: 'use', locationId: l.stockLocationId, itemId: l.itemId, quantity: qty, visitId: q.visitId, quoteId: q.id, userId: user.id, note: `Quote #${q.number}` });
+        await takeStock(tx, {
+          kind: 'use',
+          locationId: l.stockLocationId,
+          itemId: l.itemId,
+          quantity: qty,
+          visitId: q.visitId,
+          quoteId: q.id,
+          userId: user.id,
+          note: `Quote #${q.number}`,
+        });
       } catch (err) {
         if (!(err instanceof OutOfStock)) throw err;
         toOrder.push(l.description);
@@ -134,8 +142,13 @@ export async function declineQuote(deps: MailDeps, user: SessionUser, id: string
   const now = deps.clock();
   await db.transaction(async (tx) => {
     const q = await openAnswer(tx, user, id, body.revision, now);
-    await tx.insert(quoteApprovals).values({ quoteId: q.id, revision: q.revision, outcome: 'declined', declineReason: body.reason, ip: answer.ip, onDevice: answer.onDevice, userId: user.id, at: now });
-    await tx.update(quoteRevisions).set({ status: 'declined' }).where(and(eq(quoteRevisions.quoteId, q.id), eq(quoteRevisions.revision, q.revision)));
+    await tx
+      .insert(quoteApprovals)
+      .values({ quoteId: q.id, revision: q.revision, outcome: 'declined', declineReason: body.reason, ip: answer.ip, onDevice: answer.onDevice, userId: user.id, at: now });
+    await tx
+      .update(quoteRevisions)
+      .set({ status: 'declined' })
+      .where(and(eq(quoteRevisions.quoteId, q.id), eq(quoteRevisions.revision, q.revision)));
     await tx.update(quotes).set({ status: 'declined', updatedAt: now }).where(eq(quotes.id, q.id));
   });
   return readQuote(deps, user, id);
@@ -173,7 +186,26 @@ async function priceWork(tx: Tx, user: SessionUser, body: DirectInvoice, now: Da
 export async function previewWorkInvoice(deps: MailDeps, user: SessionUser, body: DirectInvoice) {
   return deps.database.db.transaction(async (tx) => {
     const { coverage: c, lines } = await priceWork(tx, user, body, deps.clock());
-    return { id: 'preview', title: 'Invoice', description: '', subtotalCents: c.subtotalCents, savingsCents: c.savingsCents, taxableCents: c.taxableCents, taxCents: c.taxCents, totalCents: c.totalCents, lines: c.lines.map((l, i) => ({ ...l, id: `preview-${i + 1}`, itemId: lines[i]!.itemId, itemVersionId: lines[i]!.itemVersionId, taskId: lines[i]!.taskId, group: l.group ?? null, sku: lines[i]!.sku, stockLocationId: null })) };
+    return {
+      id: 'preview',
+      title: 'Invoice',
+      description: '',
+      subtotalCents: c.subtotalCents,
+      savingsCents: c.savingsCents,
+      taxableCents: c.taxableCents,
+      taxCents: c.taxCents,
+      totalCents: c.totalCents,
+      lines: c.lines.map((l, i) => ({
+        ...l,
+        id: `preview-${i + 1}`,
+        itemId: lines[i]!.itemId,
+        itemVersionId: lines[i]!.itemVersionId,
+        taskId: lines[i]!.taskId,
+        group: l.group ?? null,
+        sku: lines[i]!.sku,
+        stockLocationId: null,
+      })),
+    };
   });
 }
 
@@ -185,7 +217,14 @@ export async function createWorkInvoice(deps: MailDeps, user: SessionUser, body:
     const { taxRateBps } = await companyRow(tx);
     const inv = await insertCoveredInvoice(
       tx,
-      { customerId: body.customerId, agreementId: body.visitId ? visit.agreementId : null, lines: invoiceLinesOf(c), taxRateBps, totals: { subtotalCents: c.subtotalCents, discountCents: c.savingsCents, taxCents: c.taxCents, totalCents: c.totalCents }, notes: body.notes },
+      {
+        customerId: body.customerId,
+        agreementId: body.visitId ? visit.agreementId : null,
+        lines: invoiceLinesOf(c),
+        taxRateBps,
+        totals: { subtotalCents: c.subtotalCents, discountCents: c.savingsCents, taxCents: c.taxCents, totalCents: c.totalCents },
+        notes: body.notes,
+      },
       now,
     );
     return inv.id;
@@ -193,4 +232,3 @@ export async function createWorkInvoice(deps: MailDeps, user: SessionUser, body:
   if (body.sendPayLink) await mailInvoice(deps, id);
   return invoiceView(db, id);
 }
-

@@ -88,18 +88,70 @@ export async function priceLines(db: Db | Tx, lines: QuoteLineInput[], ctx: Cove
       const it = items.find((x) => x.id === l.itemId);
       if (!it || !it.active) throw bad(`${at}.itemId`, it ? 'That item is no longer offered.' : 'That price-book item was not found.');
       if (stockLocationId && it.kind !== 'part') throw bad(`${at}.stockLocationId`, 'Only parts come from a truck or the shop.');
-      out.push({ description: it.name, kind: it.kind, category: it.category, quantity: l.quantity, unitCents: it.unitCents, taxable: it.taxable, group: null, season: it.category === 'tune_up' ? season : null, itemId: it.id, itemVersionId: it.currentVersionId, taskId: null, sku: it.sku, stockLocationId, equipmentId });
+      out.push({
+        description: it.name,
+        kind: it.kind,
+        category: it.category,
+        quantity: l.quantity,
+        unitCents: it.unitCents,
+        taxable: it.taxable,
+        group: null,
+        season: it.category === 'tune_up' ? season : null,
+        itemId: it.id,
+        itemVersionId: it.currentVersionId,
+        taskId: null,
+        sku: it.sku,
+        stockLocationId,
+        equipmentId,
+      });
     } else if (l.source === 'task') {
       const t = tasks.find((x) => x.id === l.taskId);
       if (!t || !t.active) throw bad(`${at}.taskId`, t ? 'That task is no longer offered.' : 'That flat-rate task was not found.');
       const group = `${t.id}:${i}`;
-      const parts = taskLines({ id: group, components: t.components.map((c) => ({ description: `${t.name}: ${c.name}`, kind: c.kind, category: c.category, quantity: c.quantity, unitCents: c.unitCents, taxable: c.taxable })) }, l.quantity);
+      const parts = taskLines(
+        {
+          id: group,
+          components: t.components.map((c) => ({
+            description: `${t.name}: ${c.name}`,
+            kind: c.kind,
+            category: c.category,
+            quantity: c.quantity,
+            unitCents: c.unitCents,
+            taxable: c.taxable,
+          })),
+        },
+        l.quantity,
+      );
       parts.forEach((p, k) => {
         const c = t.components[k]!;
-        out.push({ ...p, season: c.category === 'tune_up' ? season : null, itemId: c.itemId, itemVersionId: c.itemVersionId, taskId: t.id, sku: c.sku, stockLocationId: c.kind === 'part' ? stockLocationId : null, equipmentId });
+        out.push({
+          ...p,
+          season: c.category === 'tune_up' ? season : null,
+          itemId: c.itemId,
+          itemVersionId: c.itemVersionId,
+          taskId: t.id,
+          sku: c.sku,
+          stockLocationId: c.kind === 'part' ? stockLocationId : null,
+          equipmentId,
+        });
       });
     } else {
-      out.push({ description: l.description, kind: l.kind, category: l.category, quantity: l.quantity, unitCents: l.unitCents, taxable: l.taxable, group: null, season: l.category === 'tune_up' ? season : null, itemId: null, itemVersionId: null, taskId: null, sku: null, stockLocationId: null, equipmentId });
+      out.push({
+        description: l.description,
+        kind: l.kind,
+        category: l.category,
+        quantity: l.quantity,
+        unitCents: l.unitCents,
+        taxable: l.taxable,
+        group: null,
+        season: l.category === 'tune_up' ? season : null,
+        itemId: null,
+        itemVersionId: null,
+        taskId: null,
+        sku: null,
+        stockLocationId: null,
+        equipmentId,
+      });
     }
   });
   return out;

@@ -1,7 +1,15 @@
 // Routes of quotes, the portal's quotes and work invoices: the full table is server/quotes/ROUTES.md.
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import { directInvoiceSchema, quoteApproveSchema, quoteCreateSchema, quoteDeclineSchema, quoteListQuerySchema, quoteSendSchema, quoteUpdateSchema } from '../../shared/schemas/pricebook';
+import {
+  directInvoiceSchema,
+  quoteApproveSchema,
+  quoteCreateSchema,
+  quoteDeclineSchema,
+  quoteListQuerySchema,
+  quoteSendSchema,
+  quoteUpdateSchema,
+} from '../../shared/schemas/pricebook';
 import { quoteReviseSchema, quoteRevisionQuerySchema, quoteStatsQuerySchema } from '../../shared/schemas/quotes';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';

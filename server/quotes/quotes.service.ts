@@ -54,7 +54,16 @@ export async function previewQuote(deps: Deps, user: SessionUser, body: QuoteCre
       taxableCents: o.coverage.taxableCents,
       taxCents: o.coverage.taxCents,
       totalCents: o.coverage.totalCents,
-      lines: o.coverage.lines.map((l, k) => ({ ...l, id: `preview-${i + 1}-${k + 1}`, itemId: o.lines[k]!.itemId, itemVersionId: o.lines[k]!.itemVersionId, taskId: o.lines[k]!.taskId, group: l.group ?? null, sku: o.lines[k]!.sku, stockLocationId: o.lines[k]!.stockLocationId })),
+      lines: o.coverage.lines.map((l, k) => ({
+        ...l,
+        id: `preview-${i + 1}-${k + 1}`,
+        itemId: o.lines[k]!.itemId,
+        itemVersionId: o.lines[k]!.itemVersionId,
+        taskId: o.lines[k]!.taskId,
+        group: l.group ?? null,
+        sku: o.lines[k]!.sku,
+        stockLocationId: o.lines[k]!.stockLocationId,
+      })),
     }));
     return { options: views, coverageNotes: priced.notes };
   });
@@ -68,7 +77,17 @@ export async function createQuote(deps: Deps, user: SessionUser, body: QuoteCrea
     const [q] = await tx.insert(quotes).values({ visitId: visit.id, customerId: visit.customerId, propertyId: visit.propertyId, createdBy: user.id }).returning({ id: quotes.id });
     const [rev] = await tx
       .insert(quoteRevisions)
-      .values({ quoteId: q!.id, revision: 1, equipmentId: body.equipmentId, note: body.note, photoIds: body.photoIds, validDays: body.validDays, taxRateBps: ctx.taxRateBps, coverageNotes: priced.notes, createdBy: user.id })
+      .values({
+        quoteId: q!.id,
+        revision: 1,
+        equipmentId: body.equipmentId,
+        note: body.note,
+        photoIds: body.photoIds,
+        validDays: body.validDays,
+        taxRateBps: ctx.taxRateBps,
+        coverageNotes: priced.notes,
+        createdBy: user.id,
+      })
       .returning({ id: quoteRevisions.id });
     await writeOptions(tx, rev!.id, priced.options);
     return q!.id;
@@ -86,7 +105,15 @@ export async function updateQuote(deps: Deps, user: SessionUser, id: string, bod
     const rev = await revisionRow(tx, q.id, q.revision);
     await tx
       .update(quoteRevisions)
-      .set({ status: 'draft', equipmentId: body.equipmentId, note: body.note, photoIds: body.photoIds, validDays: body.validDays, taxRateBps: ctx.taxRateBps, coverageNotes: priced.notes })
+      .set({
+        status: 'draft',
+        equipmentId: body.equipmentId,
+        note: body.note,
+        photoIds: body.photoIds,
+        validDays: body.validDays,
+        taxRateBps: ctx.taxRateBps,
+        coverageNotes: priced.notes,
+      })
       .where(eq(quoteRevisions.id, rev.id));
     await writeOptions(tx, rev.id, priced.options);
     // A changed quote is sent again before the homeowner can answer it.
@@ -104,9 +131,15 @@ export async function reviseQuote(deps: Deps, user: SessionUser, id: string, rev
     if (EDITABLE_QUOTE_STATUSES.includes(q.status)) throw new AppError(409, 'quote_editable', 'This quote can still be edited; no new revision is needed.');
     const from = await revisionRow(tx, q.id, q.revision);
     const { id: _id, createdAt: _c, ...rest } = from;
-    const [rev] = await tx.insert(quoteRevisions).values({ ...rest, revision: q.revision + 1, status: 'draft', createdBy: user.id }).returning({ id: quoteRevisions.id });
+    const [rev] = await tx
+      .insert(quoteRevisions)
+      .values({ ...rest, revision: q.revision + 1, status: 'draft', createdBy: user.id })
+      .returning({ id: quoteRevisions.id });
     await copyOptions(tx, from.id, rev!.id);
-    await tx.update(quotes).set({ revision: q.revision + 1, status: 'draft', sentAt: null, sentTo: null, validUntil: null, updatedAt: deps.clock() }).where(eq(quotes.id, q.id));
+    await tx
+      .update(quotes)
+      .set({ revision: q.revision + 1, status: 'draft', sentAt: null, sentTo: null, validUntil: null, updatedAt: deps.clock() })
+      .where(eq(quotes.id, q.id));
   });
   return readQuote(deps, user, id);
 }
@@ -133,11 +166,20 @@ export async function sendQuote(deps: MailDeps, user: SessionUser, id: string, b
     const validUntil = DateTime.fromISO(localDate(now, company.timeZone)).plus({ days: rev.validDays }).toISODate()!;
     await tx.update(quotes).set({ status: 'sent', sentAt: now, sentTo: to, validUntil, updatedAt: now }).where(eq(quotes.id, q.id));
     await tx.update(quoteRevisions).set({ status: 'sent' }).where(eq(quoteRevisions.id, rev.id));
-    const totals = await tx.select({ total: quoteOptions.totalCents, title: quoteOptions.title }).from(quoteOptions).where(eq(quoteOptions.revisionId, rev.id)).orderBy(quoteOptions.position);
+    const totals = await tx
+      .select({ total: quoteOptions.totalCents, title: quoteOptions.title })
+      .from(quoteOptions)
+      .where(eq(quoteOptions.revisionId, rev.id))
+      .orderBy(quoteOptions.position);
     const url = `${deps.config.publicUrl}/portal/quotes/${q.id}`;
     const content = renderEmail({
       title: `Your quote from ${company.name}`,
-      paragraphs: [`Hello ${c?.name ?? ''},`, ...(rev.note ? [rev.note] : []), ...totals.map((t) => `${t.title}: ${formatUsd(t.total)}`), `The prices hold until ${validUntil}. Choose an option and approve it online, or tell us why not.`],
+      paragraphs: [
+        `Hello ${c?.name ?? ''},`,
+        ...(rev.note ? [rev.note] : []),
+        ...totals.map((t) => `${t.title}: ${formatUsd(t.total)}`),
+        `The prices hold until ${validUntil}. Choose an option and approve it online, or tell us why not.`,
+      ],
       action: { label: 'See the quote', url },
     });
     return { key: `quote-sent:${q.id}:${q.revision}`, to, subject: `Your quote #${q.number} from ${company.name}`, ...content };
@@ -152,7 +194,13 @@ async function visibleWhere(db: Db | Tx, user: SessionUser): Promise<SQL | undef
   if (isStaffOffice(user)) return undefined;
   if (user.role === 'homeowner') return and(eq(quotes.customerId, user.customerId ?? '00000000-0000-0000-0000-000000000000'), sql`${quotes.status} <> 'draft'`);
   const t = await technicianOf(db, user);
-  return inArray(quotes.visitId, db.select({ id: visits.id }).from(visits).where(eq(visits.technicianId, t?.id ?? '00000000-0000-0000-0000-000000000000')));
+  return inArray(
+    quotes.visitId,
+    db
+      .select({ id: visits.id })
+      .from(visits)
+      .where(eq(visits.technicianId, t?.id ?? '00000000-0000-0000-0000-000000000000')),
+  );
 }
 
 export async function listQuotes(deps: Deps, user: SessionUser, q: QuoteListQuery): Promise<QuotePage> {
@@ -163,7 +211,10 @@ export async function listQuotes(deps: Deps, user: SessionUser, q: QuoteListQuer
   if (q.customerId) where.push(eq(quotes.customerId, q.customerId));
   if (q.visitId) where.push(eq(quotes.visitId, q.visitId));
   const cond = and(...where);
-  const [{ total }] = (await db.select({ total: sql<number>`count(*)::int` }).from(quotes).where(cond)) as [{ total: number }];
+  const [{ total }] = (await db
+    .select({ total: sql<number>`count(*)::int` })
+    .from(quotes)
+    .where(cond)) as [{ total: number }];
   const order = { createdAt: quotes.createdAt, totalCents: maxTotal, status: quotes.status }[q.sort];
   const rows = await db
     .select({ q: quotes, customerName: customers.name, totalCents: maxTotal })
@@ -175,7 +226,16 @@ export async function listQuotes(deps: Deps, user: SessionUser, q: QuoteListQuer
     .offset(q.page * q.pageSize);
   const now = deps.clock().getTime();
   return {
-    items: rows.map((r) => ({ id: r.q.id, number: r.q.number, customerName: r.customerName, status: r.q.status, revision: r.q.revision, totalCents: r.totalCents, ageDays: Math.floor((now - r.q.createdAt.getTime()) / 86_400_000), createdAt: r.q.createdAt.toISOString() })),
+    items: rows.map((r) => ({
+      id: r.q.id,
+      number: r.q.number,
+      customerName: r.customerName,
+      status: r.q.status,
+      revision: r.q.revision,
+      totalCents: r.totalCents,
+      ageDays: Math.floor((now - r.q.createdAt.getTime()) / 86_400_000),
+      createdAt: r.q.createdAt.toISOString(),
+    })),
     total,
     page: q.page,
     pageSize: q.pageSize,
@@ -185,9 +245,15 @@ export async function listQuotes(deps: Deps, user: SessionUser, q: QuoteListQuer
 export async function quoteStats(deps: Deps, periodDays: number): Promise<QuoteStats> {
   const { db } = deps.database;
   const since = new Date(deps.clock().getTime() - periodDays * 86_400_000);
-  const [open] = await db.select({ count: sql<number>`count(*)::int`, value: sql<number>`coalesce(sum(${maxTotal}), 0)::int` }).from(quotes).where(inArray(quotes.status, ['draft', 'sent']));
+  const [open] = await db
+    .select({ count: sql<number>`count(*)::int`, value: sql<number>`coalesce(sum(${maxTotal}), 0)::int` })
+    .from(quotes)
+    .where(inArray(quotes.status, ['draft', 'sent']));
   const [done] = await db
-    .select({ approved: sql<number>`count(*) filter (where ${quotes.status} = 'approved')::int`, decided: sql<number>`count(*) filter (where ${quotes.status} in ('approved', 'declined', 'expired'))::int` })
+    .select({
+      approved: sql<number>`count(*) filter (where ${quotes.status} = 'approved')::int`,
+      decided: sql<number>`count(*) filter (where ${quotes.status} in ('approved', 'declined', 'expired'))::int`,
+    })
     .from(quotes)
     .where(gte(quotes.createdAt, since));
   return { open: { count: open!.count, valueCents: open!.value }, approvalRateBps: done!.decided ? Math.round((done!.approved * 10_000) / done!.decided) : null, periodDays };
@@ -203,7 +269,20 @@ export async function planSavings(deps: Deps, user: SessionUser, customerId: str
   const [row] = await db
     .select({ cents: sql<number>`coalesce(sum(${invoices.discountCents}), 0)::int`, n: sql<number>`count(*) filter (where ${invoices.discountCents} > 0)::int` })
     .from(invoices)
-    .where(and(eq(invoices.customerId, customerId), eq(invoices.purpose, 'service'), inArray(invoices.status, ['open', 'paid', 'partially_refunded', 'refunded']), gte(invoices.issuedAt, start)));
+    .where(
+      and(
+        eq(invoices.customerId, customerId),
+        eq(invoices.purpose, 'service'),
+        inArray(invoices.status, ['open', 'paid', 'partially_refunded', 'refunded']),
+        gte(invoices.issuedAt, start),
+      ),
+    );
   const cents = row!.cents;
-  return { customerId, year, savingsCents: cents, invoiceCount: row!.n, sentence: cents > 0 ? `Your plan saved you ${formatUsd(cents)} this year.` : `No plan savings on repairs yet in ${year}.` };
+  return {
+    customerId,
+    year,
+    savingsCents: cents,
+    invoiceCount: row!.n,
+    sentence: cents > 0 ? `Your plan saved you ${formatUsd(cents)} this year.` : `No plan savings on repairs yet in ${year}.`,
+  };
 }

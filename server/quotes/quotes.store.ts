@@ -16,7 +16,17 @@ export async function writeOptions(tx: Tx, revisionId: string, options: PricedOp
     const c = o.coverage;
     const [row] = await tx
       .insert(quoteOptions)
-      .values({ revisionId, position: i + 1, title: o.title, description: o.description, subtotalCents: c.subtotalCents, savingsCents: c.savingsCents, taxableCents: c.taxableCents, taxCents: c.taxCents, totalCents: c.totalCents })
+      .values({
+        revisionId,
+        position: i + 1,
+        title: o.title,
+        description: o.description,
+        subtotalCents: c.subtotalCents,
+        savingsCents: c.savingsCents,
+        taxableCents: c.taxableCents,
+        taxCents: c.taxCents,
+        totalCents: c.totalCents,
+      })
       .returning({ id: quoteOptions.id });
     await tx.insert(quoteLines).values(
       o.lines.map((l, k) => {
@@ -53,7 +63,10 @@ export async function copyOptions(tx: Tx, fromRevisionId: string, toRevisionId: 
   const opts = await tx.select().from(quoteOptions).where(eq(quoteOptions.revisionId, fromRevisionId)).orderBy(asc(quoteOptions.position));
   for (const o of opts) {
     const { id, ...rest } = o;
-    const [row] = await tx.insert(quoteOptions).values({ ...rest, revisionId: toRevisionId }).returning({ id: quoteOptions.id });
+    const [row] = await tx
+      .insert(quoteOptions)
+      .values({ ...rest, revisionId: toRevisionId })
+      .returning({ id: quoteOptions.id });
     const lines = await tx.select().from(quoteLines).where(eq(quoteLines.optionId, id));
     if (lines.length) await tx.insert(quoteLines).values(lines.map(({ id: _id, ...l }) => ({ ...l, optionId: row!.id })));
   }
@@ -61,7 +74,18 @@ export async function copyOptions(tx: Tx, fromRevisionId: string, toRevisionId: 
 
 export async function optionViews(db: Db | Tx, revisionId: string): Promise<QuoteOptionView[]> {
   const opts = await db.select().from(quoteOptions).where(eq(quoteOptions.revisionId, revisionId)).orderBy(asc(quoteOptions.position));
-  const lines = opts.length ? await db.select().from(quoteLines).where(inArray(quoteLines.optionId, opts.map((o) => o.id))).orderBy(asc(quoteLines.position)) : [];
+  const lines = opts.length
+    ? await db
+        .select()
+        .from(quoteLines)
+        .where(
+          inArray(
+            quoteLines.optionId,
+            opts.map((o) => o.id),
+          ),
+        )
+        .orderBy(asc(quoteLines.position))
+    : [];
   return opts.map((o) => ({
     id: o.id,
     title: o.title,
@@ -97,7 +121,10 @@ export async function optionViews(db: Db | Tx, revisionId: string): Promise<Quot
 }
 
 export async function revisionRow(db: Db | Tx, quoteId: string, revision: number): Promise<RevisionRow> {
-  const [r] = await db.select().from(quoteRevisions).where(and(eq(quoteRevisions.quoteId, quoteId), eq(quoteRevisions.revision, revision)));
+  const [r] = await db
+    .select()
+    .from(quoteRevisions)
+    .where(and(eq(quoteRevisions.quoteId, quoteId), eq(quoteRevisions.revision, revision)));
   if (!r) throw notFound('That quote revision');
   return r;
 }
@@ -107,9 +134,28 @@ export async function quoteView(db: Db | Tx, q: QuoteRow, revision = q.revision)
   const [c] = await db.select({ name: customers.name }).from(customers).where(eq(customers.id, q.customerId));
   const options = await optionViews(db, rev.id);
   const revs = await db.select().from(quoteRevisions).where(eq(quoteRevisions.quoteId, q.id)).orderBy(asc(quoteRevisions.revision));
-  const totals = revs.length ? await db.select({ revisionId: quoteOptions.revisionId, total: quoteOptions.totalCents }).from(quoteOptions).where(inArray(quoteOptions.revisionId, revs.map((r) => r.id))).orderBy(asc(quoteOptions.position)) : [];
-  const [answer] = await db.select().from(quoteApprovals).where(and(eq(quoteApprovals.quoteId, q.id), eq(quoteApprovals.revision, revision)));
-  const photos = rev.photoIds.length ? await db.select({ id: files.id, caption: files.caption, thumbKey: files.thumbKey }).from(files).where(and(inArray(files.id, rev.photoIds), eq(files.visitId, q.visitId))) : [];
+  const totals = revs.length
+    ? await db
+        .select({ revisionId: quoteOptions.revisionId, total: quoteOptions.totalCents })
+        .from(quoteOptions)
+        .where(
+          inArray(
+            quoteOptions.revisionId,
+            revs.map((r) => r.id),
+          ),
+        )
+        .orderBy(asc(quoteOptions.position))
+    : [];
+  const [answer] = await db
+    .select()
+    .from(quoteApprovals)
+    .where(and(eq(quoteApprovals.quoteId, q.id), eq(quoteApprovals.revision, revision)));
+  const photos = rev.photoIds.length
+    ? await db
+        .select({ id: files.id, caption: files.caption, thumbKey: files.thumbKey })
+        .from(files)
+        .where(and(inArray(files.id, rev.photoIds), eq(files.visitId, q.visitId)))
+    : [];
   const current = revision === q.revision;
   return {
     id: q.id,
@@ -131,13 +177,17 @@ export async function quoteView(db: Db | Tx, q: QuoteRow, revision = q.revision)
     sentAt: current && q.sentAt ? q.sentAt.toISOString() : null,
     sentTo: current ? q.sentTo : null,
     approval:
-      answer?.outcome === 'approved'
-        ? { optionId: answer.optionId!, typedName: answer.typedName!, at: answer.at.toISOString(), ip: answer.ip, onDevice: answer.onDevice }
-        : null,
+      answer?.outcome === 'approved' ? { optionId: answer.optionId!, typedName: answer.typedName!, at: answer.at.toISOString(), ip: answer.ip, onDevice: answer.onDevice } : null,
     decline: answer?.outcome === 'declined' ? { reason: answer.declineReason!, at: answer.at.toISOString() } : null,
     invoiceId: q.invoiceId,
     followUpVisitRequestId: q.followUpVisitId,
-    revisions: revs.map((r) => ({ revision: r.revision, status: r.status, createdAt: r.createdAt.toISOString(), createdBy: r.createdBy, totalsCents: totals.filter((t) => t.revisionId === r.id).map((t) => t.total) })),
+    revisions: revs.map((r) => ({
+      revision: r.revision,
+      status: r.status,
+      createdAt: r.createdAt.toISOString(),
+      createdBy: r.createdBy,
+      totalsCents: totals.filter((t) => t.revisionId === r.id).map((t) => t.total),
+    })),
     createdAt: q.createdAt.toISOString(),
   };
 }

@@ -55,7 +55,10 @@ export interface RenewalRunReport {
  * attempt, and a term is added at most once. A run killed half-way and started again therefore
  * sends nobody a second notice and charges nobody twice.
  */
-export async function runRenewals(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, opts: RenewalRunOptions = {}): Promise<RenewalRunReport> {
+export async function runRenewals(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>,
+  opts: RenewalRunOptions = {},
+): Promise<RenewalRunReport> {
   const { db } = deps.database;
   const today = opts.today ?? (await companyToday(deps));
   const grace = opts.graceDays ?? DEFAULT_GRACE_DAYS;
@@ -81,7 +84,14 @@ export async function runRenewals(deps: Pick<AppDeps, 'config' | 'database' | 'c
   return report;
 }
 
-async function renewOne(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, grace: number, report: RenewalRunReport, opts: RenewalRunOptions) {
+async function renewOne(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>,
+  id: string,
+  today: string,
+  grace: number,
+  report: RenewalRunReport,
+  opts: RenewalRunOptions,
+) {
   const { db } = deps.database;
   // 1. The renewal window opens 60 days before the end.
   await db.transaction(async (tx) => {
@@ -149,7 +159,13 @@ async function renewOne(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'l
  * agreement, the term it pays for and the attempt number: the same attempt run twice (a
  * crashed job restarted) replays the processor's first answer instead of charging again.
  */
-export async function chargeRenewal(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>, id: string, today: string, attempt: number, opts: RenewalRunOptions = {}): Promise<boolean> {
+export async function chargeRenewal(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs' | 'stripe'>,
+  id: string,
+  today: string,
+  attempt: number,
+  opts: RenewalRunOptions = {},
+): Promise<boolean> {
   const { db } = deps.database;
   const prepared = await db.transaction(async (tx) => {
     const current = await lockAgreement(tx, id);
@@ -229,7 +245,11 @@ async function householdOf(deps: Pick<AppDeps, 'database'>, agreementId: string)
  * Sends one renewal notice. Automatic ones (60/30/7) are claimed with a unique row first, so two
  * runs never both send; the claim is released if the mail fails, so the next run tries again.
  */
-export async function sendRenewalNotice(deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>, agreementId: string, opts: { daysBefore?: RenewalNotice; sentById?: string } = {}): Promise<boolean> {
+export async function sendRenewalNotice(
+  deps: Pick<AppDeps, 'config' | 'database' | 'clock' | 'logger' | 'mailer' | 'jobs'>,
+  agreementId: string,
+  opts: { daysBefore?: RenewalNotice; sentById?: string } = {},
+): Promise<boolean> {
   const { db } = deps.database;
   const h = await householdOf(deps, agreementId);
   if (!h) return false;

@@ -4,7 +4,7 @@ import { reportNameSchema, reportQuerySchema } from '../../shared/schemas/report
 import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';
 import { parse } from '../http/errors';
-import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
+import { assertDatesWithin } from '../http/ranges';
 import { reportCsv, runReport } from './reports.service';
 
 const reportNameSchemaObject = z.object({ report: reportNameSchema });

@@ -9,7 +9,15 @@ const intOrNull = (v: unknown) => (v === null || v === undefined ? null : Number
 
 // Column renames only: the statement has already computed every number.
 const SHAPE: { [N in ReportName]: (r: Raw) => ReportRows[N] } = {
-  agreements: (r) => ({ month: String(r.month), active: int(r.active), new: int(r.new), due: int(r.due), renewed: int(r.renewed), lapsed: int(r.lapsed), renewalRate: intOrNull(r.renewal_rate) }),
+  agreements: (r) => ({
+    month: String(r.month),
+    active: int(r.active),
+    new: int(r.new),
+    due: int(r.due),
+    renewed: int(r.renewed),
+    lapsed: int(r.lapsed),
+    renewalRate: intOrNull(r.renewal_rate),
+  }),
   revenue: (r) => ({
     month: String(r.month),
     plansCents: int(r.plans_cents),
@@ -19,7 +27,14 @@ const SHAPE: { [N in ReportName]: (r: Raw) => ReportRows[N] } = {
     averageInvoiceCents: intOrNull(r.average_invoice_cents),
     savingsCents: int(r.savings_cents),
   }),
-  visits: (r) => ({ week: String(r.week), tuneUps: int(r.tune_ups), serviceCalls: int(r.service_calls), done: int(r.done), noShows: int(r.no_shows), noShowRate: intOrNull(r.no_show_rate) }),
+  visits: (r) => ({
+    week: String(r.week),
+    tuneUps: int(r.tune_ups),
+    serviceCalls: int(r.service_calls),
+    done: int(r.done),
+    noShows: int(r.no_shows),
+    noShowRate: intOrNull(r.no_show_rate),
+  }),
   utilisation: (r) => ({
     week: String(r.week),
     technicianId: String(r.technician_id),
@@ -43,12 +58,18 @@ const ratio = (v: number | null) => (v === null ? '' : v.toFixed(4));
 const hours = (minutes: number) => (minutes / 60).toFixed(2);
 
 const CSV: { [N in ReportName]: { fields: string[]; row: (r: ReportRows[N]) => (string | number)[] } } = {
-  agreements: { fields: ['month', 'active', 'new', 'due', 'renewed', 'lapsed', 'renewal_rate'], row: (r) => [r.month, r.active, r.new, r.due, r.renewed, r.lapsed, ratio(r.renewalRate)] },
+  agreements: {
+    fields: ['month', 'active', 'new', 'due', 'renewed', 'lapsed', 'renewal_rate'],
+    row: (r) => [r.month, r.active, r.new, r.due, r.renewed, r.lapsed, ratio(r.renewalRate)],
+  },
   revenue: {
     fields: ['month', 'plans_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd'],
     row: (r) => [r.month, dollars(r.plansCents), dollars(r.repairsCents), dollars(r.totalCents), r.invoices, dollars(r.averageInvoiceCents), dollars(r.savingsCents)],
   },
-  visits: { fields: ['week', 'tune_ups', 'service_calls', 'done', 'no_shows', 'no_show_rate'], row: (r) => [r.week, r.tuneUps, r.serviceCalls, r.done, r.noShows, ratio(r.noShowRate)] },
+  visits: {
+    fields: ['week', 'tune_ups', 'service_calls', 'done', 'no_shows', 'no_show_rate'],
+    row: (r) => [r.week, r.tuneUps, r.serviceCalls, r.done, r.noShows, ratio(r.noShowRate)],
+  },
   utilisation: {
     fields: ['week', 'technician', 'booked_hours', 'available_hours', 'utilisation'],
     row: (r) => [r.week, r.technicianName, hours(r.bookedMinutes), hours(r.availableMinutes), ratio(r.utilisation)],

@@ -17,12 +17,7 @@ async function technicianOf(deps: Pick<AppDeps, 'database'>, user: SessionUser, 
   const { db } = deps.database;
   const where = user.role === 'technician' ? eq(technicians.userId, user.id) : technicianId ? eq(technicians.id, technicianId) : undefined;
   if (!where) throw new AppError(422, 'validation_failed', 'Please choose the technician.', { technicianId: 'is required' });
-  const [tech] = await db
-    .select({ id: technicians.id, name: users.name })
-    .from(technicians)
-    .innerJoin(users, eq(users.id, technicians.userId))
-    .where(where)
-    .limit(1);
+  const [tech] = await db.select({ id: technicians.id, name: users.name }).from(technicians).innerJoin(users, eq(users.id, technicians.userId)).where(where).limit(1);
   if (!tech) throw notFound('That technician');
   return tech;
 }

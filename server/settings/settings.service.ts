@@ -28,7 +28,13 @@ export async function updateCompanySettings(deps: Pick<AppDeps, 'database' | 'cl
     });
     if (!seasons.success) throw validationError(seasons.error);
     const row = settingsOf(await updateCompanyRow(tx, { ...next, ...seasons.data }, now));
-    await recordAudit(tx, { actorUserId: actorId, action: 'settings_changed', subject: 'company', details: { name: next.name, taxRateBps: next.taxRateBps, ...seasons.data }, at: now });
+    await recordAudit(tx, {
+      actorUserId: actorId,
+      action: 'settings_changed',
+      subject: 'company',
+      details: { name: next.name, taxRateBps: next.taxRateBps, ...seasons.data },
+      at: now,
+    });
     return row;
   });
 }

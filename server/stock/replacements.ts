@@ -27,7 +27,12 @@ export async function searchReplacements(deps: Pick<AppDeps, 'database'>, user: 
     .select({ itemId: stockLevels.itemId, quantity: stockLevels.quantity, location: { id: stockLocations.id, kind: stockLocations.kind, name: stockLocations.name } })
     .from(stockLevels)
     .innerJoin(stockLocations, eq(stockLevels.locationId, stockLocations.id))
-    .where(inArray(stockLevels.itemId, items.map((i) => i.id)));
+    .where(
+      inArray(
+        stockLevels.itemId,
+        items.map((i) => i.id),
+      ),
+    );
   const candidates: PartCandidate[] = [];
   for (const item of items) {
     const base = { itemId: item.id, sku: item.sku, name: item.name, spec: item.spec ?? null };

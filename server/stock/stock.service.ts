@@ -112,11 +112,17 @@ async function mustLocation(db: Db | Tx, id: string, field: string): Promise<{ i
 }
 
 async function mustParts(db: Db | Tx, ids: string[]): Promise<Map<string, { sku: string; name: string; kind: string }>> {
-  const rows = await db.select({ id: priceBookItems.id, sku: priceBookItems.sku, name: priceBookItems.name, kind: priceBookItems.kind }).from(priceBookItems).where(inArray(priceBookItems.id, ids));
+  const rows = await db
+    .select({ id: priceBookItems.id, sku: priceBookItems.sku, name: priceBookItems.name, kind: priceBookItems.kind })
+    .from(priceBookItems)
+    .where(inArray(priceBookItems.id, ids));
   const map = new Map(rows.map((r) => [r.id, r]));
   ids.forEach((id, i) => {
     const r = map.get(id);
-    if (!r || r.kind !== 'part') throw new AppError(422, 'validation_failed', `Please check lines.${i}.itemId.`, { [`lines.${i}.itemId`]: r ? 'Only parts are stocked.' : 'That price-book item was not found.' });
+    if (!r || r.kind !== 'part')
+      throw new AppError(422, 'validation_failed', `Please check lines.${i}.itemId.`, {
+        [`lines.${i}.itemId`]: r ? 'Only parts are stocked.' : 'That price-book item was not found.',
+      });
   });
   return map;
 }
@@ -127,7 +133,11 @@ export async function setLevel(deps: Deps, locationId: string, input: StockRowIn
     const [l] = await tx.select({ id: stockLocations.id }).from(stockLocations).where(eq(stockLocations.id, locationId));
     if (!l) throw notFound('That stock location');
     await mustParts(tx, [input.itemId]);
-    const [before] = await tx.select().from(stockLevels).where(and(eq(stockLevels.locationId, locationId), eq(stockLevels.itemId, input.itemId))).for('update');
+    const [before] = await tx
+      .select()
+      .from(stockLevels)
+      .where(and(eq(stockLevels.locationId, locationId), eq(stockLevels.itemId, input.itemId)))
+      .for('update');
     const quantity = input.quantity ?? before?.quantity ?? 0;
     await tx
       .insert(stockLevels)
@@ -184,10 +194,17 @@ export async function restock(deps: Deps, user: SessionUser, input: Restock): Pr
   const { db } = deps.database;
   await db.transaction(async (tx) => {
     await mustLocation(tx, input.locationId, 'locationId');
-    await mustParts(tx, input.lines.map((l) => l.itemId));
+    await mustParts(
+      tx,
+      input.lines.map((l) => l.itemId),
+    );
     for (const l of input.lines) await putStock(tx, { kind: 'restock', locationId: input.locationId, itemId: l.itemId, quantity: l.quantity, userId: user.id, note: input.note });
   });
-  return rowsFor(db, [input.locationId], input.lines.map((l) => l.itemId));
+  return rowsFor(
+    db,
+    [input.locationId],
+    input.lines.map((l) => l.itemId),
+  );
 }
 
 export async function transfer(deps: Deps, user: SessionUser, input: Transfer): Promise<StockRow[]> {
@@ -195,14 +212,21 @@ export async function transfer(deps: Deps, user: SessionUser, input: Transfer): 
   await db.transaction(async (tx) => {
     await mustLocation(tx, input.fromLocationId, 'fromLocationId');
     await mustLocation(tx, input.toLocationId, 'toLocationId');
-    await mustParts(tx, input.lines.map((l) => l.itemId));
+    await mustParts(
+      tx,
+      input.lines.map((l) => l.itemId),
+    );
     const transferId = crypto.randomUUID();
     for (const l of input.lines) {
       await takeStock(tx, { kind: 'transfer_out', locationId: input.fromLocationId, itemId: l.itemId, quantity: l.quantity, transferId, userId: user.id, note: input.note });
       await putStock(tx, { kind: 'transfer_in', locationId: input.toLocationId, itemId: l.itemId, quantity: l.quantity, transferId, userId: user.id, note: input.note });
     }
   });
-  return rowsFor(db, [input.fromLocationId, input.toLocationId], input.lines.map((l) => l.itemId));
+  return rowsFor(
+    db,
+    [input.fromLocationId, input.toLocationId],
+    input.lines.map((l) => l.itemId),
+  );
 }
 
 /** Parts used on a visit leave the truck in the transaction that records them. */
@@ -213,13 +237,22 @@ export async function recordPartsUsed(deps: Deps, user: SessionUser, visitId: st
     const truck = await truckOf(tx, visit.technicianId);
     const from = input.locationId ?? truck?.id;
     if (!from) throw new AppError(422, 'validation_failed', 'Please check locationId.', { locationId: 'This visit has no technician truck; choose where the parts come from.' });
-    if (user.role === 'technician' && from !== truck?.id) throw new AppError(422, 'validation_failed', 'Please check locationId.', { locationId: 'Record parts from your own truck; the office moves stock between trucks.' });
+    if (user.role === 'technician' && from !== truck?.id)
+      throw new AppError(422, 'validation_failed', 'Please check locationId.', { locationId: 'Record parts from your own truck; the office moves stock between trucks.' });
     await mustLocation(tx, from, 'locationId');
-    await mustParts(tx, input.lines.map((l) => l.itemId));
-    for (const l of input.lines) await takeStock(tx, { kind: 'use', locationId: from, itemId: l.itemId, quantity: l.quantity, visitId, userId: user.id, note: 'Used on the visit' });
+    await mustParts(
+      tx,
+      input.lines.map((l) => l.itemId),
+    );
+    for (const l of input.lines)
+      await takeStock(tx, { kind: 'use', locationId: from, itemId: l.itemId, quantity: l.quantity, visitId, userId: user.id, note: 'Used on the visit' });
     return from;
   });
-  return rowsFor(db, [locationId], input.lines.map((l) => l.itemId));
+  return rowsFor(
+    db,
+    [locationId],
+    input.lines.map((l) => l.itemId),
+  );
 }
 
 export async function listMovements(deps: Pick<AppDeps, 'database'>, user: SessionUser, q: { locationId?: string; visitId?: string }): Promise<StockMovement[]> {

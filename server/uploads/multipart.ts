@@ -36,12 +36,16 @@ export function multipart(field: string, o: { maxFiles?: number; maxBytes?: numb
       if (err instanceof multer.MulterError) {
         switch (err.code) {
           case 'LIMIT_FILE_SIZE':
-            return next(new AppError(413, 'file_too_large', `Each file can be at most ${maxBytes / 1024 / 1024} MB.`, { [field]: `Each file can be at most ${maxBytes / 1024 / 1024} MB.` }));
+            return next(
+              new AppError(413, 'file_too_large', `Each file can be at most ${maxBytes / 1024 / 1024} MB.`, { [field]: `Each file can be at most ${maxBytes / 1024 / 1024} MB.` }),
+            );
           case 'LIMIT_FILE_COUNT':
           case 'LIMIT_UNEXPECTED_FILE':
             return next(
               err.code === 'LIMIT_FILE_COUNT' || err.field === field
-                ? new AppError(413, 'too_many_files', `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.`, { [field]: `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.` })
+                ? new AppError(413, 'too_many_files', `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.`, {
+                    [field]: `Send at most ${maxFiles} file${maxFiles === 1 ? '' : 's'} at a time.`,
+                  })
                 : new AppError(422, 'validation_failed', `Please check ${err.field}.`, { [err.field ?? field]: `Send files in the "${field}" field.` }),
             );
           case 'LIMIT_FIELD_COUNT':

@@ -7,9 +7,9 @@ import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';
 import { toFile } from '../customers/customer-views';
 import type { Db, Tx } from '../db/client';
-import { equipment, files, properties, visits } from '../db/schema';
+import { files } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
-import { attachOwnedFiles, notInHousehold, ownedCustomer, ownedEquipment, ownedProperty, ownedVisit } from '../http/ownership';
+import { notInHousehold, ownedCustomer, ownedEquipment, ownedProperty, ownedVisit } from '../http/ownership';
 import { newStorageKey } from '../integrations/storage';
 import type { AppDeps } from '../deps';
 
@@ -28,7 +28,10 @@ export const uploadTargetSchema = z
     category: z.enum(FILE_CATEGORIES, { error: `Category is one of ${FILE_CATEGORIES.join(', ')}.` }).default('other'),
     caption: z.preprocess(blankToUndefined, z.string().trim().max(200, 'Keep the caption under 200 characters.').default('')),
   })
-  .refine((t) => t.customerId || t.propertyId || t.equipmentId || t.visitId, { error: 'Say which household, property, equipment or visit the files belong to.', path: ['customerId'] });
+  .refine((t) => t.customerId || t.propertyId || t.equipmentId || t.visitId, {
+    error: 'Say which household, property, equipment or visit the files belong to.',
+    path: ['customerId'],
+  });
 export type UploadTarget = z.infer<typeof uploadTargetSchema>;
 
 export interface IncomingFile {
@@ -63,7 +66,9 @@ async function prepare(file: IncomingFile): Promise<Prepared> {
   const detected = await fileTypeFromBuffer(file.buffer);
   const ext = detected ? ACCEPTED[detected.mime] : undefined;
   if (!detected || !ext) {
-    throw new AppError(415, 'unsupported_type', `"${cleanName(file.originalname, 'x').replace(/\.x$/, '')}" is not a JPEG, PNG, WebP or PDF file.`, { files: 'Only JPEG, PNG and WebP photos and PDF documents are accepted.' });
+    throw new AppError(415, 'unsupported_type', `"${cleanName(file.originalname, 'x').replace(/\.x$/, '')}" is not a JPEG, PNG, WebP or PDF file.`, {
+      files: 'Only JPEG, PNG and WebP photos and PDF documents are accepted.',
+    });
   }
   if (detected.mime === 'application/pdf') {
     return { contentType: detected.mime, body: file.buffer, thumb: null, width: null, height: null, ext, originalName: cleanName(file.originalname, ext) };
@@ -71,7 +76,12 @@ async function prepare(file: IncomingFile): Promise<Prepared> {
   try {
     // rotate() applies the camera's orientation before the EXIF block that carried it is dropped.
     const pipeline = sharp(file.buffer, { failOn: 'error', limitInputPixels: 80_000_000 }).rotate().resize(MAX_EDGE, MAX_EDGE, { fit: 'inside', withoutEnlargement: true });
-    const encoded = detected.mime === 'image/png' ? pipeline.png({ compressionLevel: 9 }) : detected.mime === 'image/webp' ? pipeline.webp({ quality: 85 }) : pipeline.jpeg({ quality: 85, mozjpeg: true });
+    const encoded =
+      detected.mime === 'image/png'
+        ? pipeline.png({ compressionLevel: 9 })
+        : detected.mime === 'image/webp'
+          ? pipeline.webp({ quality: 85 })
+          : pipeline.jpeg({ quality: 85, mozjpeg: true });
     const { data, info } = await encoded.toBuffer({ resolveWithObject: true });
     const thumb = await sharp(data).resize(THUMB_EDGE, THUMB_EDGE, { fit: 'inside', withoutEnlargement: true }).webp({ quality: 75 }).toBuffer();
     return { contentType: detected.mime, body: data, thumb, width: info.width, height: info.height, ext, originalName: cleanName(file.originalname, ext) };
@@ -81,7 +91,11 @@ async function prepare(file: IncomingFile): Promise<Prepared> {
 }
 
 /** Works out the household from the most specific thing named, and that they all agree. */
-async function resolveTarget(db: Db, user: SessionUser, t: UploadTarget): Promise<{ customerId: string; propertyId: string | null; equipmentId: string | null; visitId: string | null }> {
+async function resolveTarget(
+  db: Db,
+  user: SessionUser,
+  t: UploadTarget,
+): Promise<{ customerId: string; propertyId: string | null; equipmentId: string | null; visitId: string | null }> {
   // Each id the form names must be reachable by the caller, and all of them in one household.
   let customerId = t.customerId ? (await ownedCustomer(db, user, t.customerId, 'customerId', { archivedToo: true })).id : null;
   let propertyId = t.propertyId ?? null;
@@ -106,7 +120,12 @@ async function resolveTarget(db: Db, user: SessionUser, t: UploadTarget): Promis
  * keys, then recorded in one transaction. Any failure removes what was stored, so a rejected
  * upload leaves nothing behind.
  */
-export async function storeUploads(deps: Pick<AppDeps, 'database' | 'clock' | 'storage'>, user: SessionUser, target: UploadTarget, incoming: IncomingFile[]): Promise<StoredFile[]> {
+export async function storeUploads(
+  deps: Pick<AppDeps, 'database' | 'clock' | 'storage'>,
+  user: SessionUser,
+  target: UploadTarget,
+  incoming: IncomingFile[],
+): Promise<StoredFile[]> {
   const { db } = deps.database;
   const { storage } = deps;
   const now = deps.clock();
@@ -128,7 +147,19 @@ export async function storeUploads(deps: Pick<AppDeps, 'database' | 'clock' | 's
         await storage.put(thumbKey, p.thumb, 'image/webp');
         written.push(thumbKey);
       }
-      rows.push({ ...where, storageKey, thumbKey, category: target.category, caption: target.caption, contentType: p.contentType, originalName: p.originalName, sizeBytes: p.body.length, width: p.width, height: p.height, uploadedByUserId: user.id });
+      rows.push({
+        ...where,
+        storageKey,
+        thumbKey,
+        category: target.category,
+        caption: target.caption,
+        contentType: p.contentType,
+        originalName: p.originalName,
+        sizeBytes: p.body.length,
+        width: p.width,
+        height: p.height,
+        uploadedByUserId: user.id,
+      });
     }
     const inserted = await db.transaction((tx) => tx.insert(files).values(rows).returning());
     return inserted.map(toFile);
@@ -173,4 +204,20 @@ export async function listFiles(deps: Pick<AppDeps, 'database'>, user: SessionUs
  */
 export async function linkFilesToVisit(tx: Db | Tx, target: { customerId: string; visitId: string }, fileIds: string[]): Promise<void> {
   await attachOwnedFiles(tx, target, fileIds, 'photoIds');
+}
+
+/**
+ * Attaches uploaded files to a visit: each must belong to the visit's household, be live and not
+ * yet on another visit. One conditional update, so a file cannot be taken twice; a shortfall
+ * throws inside the caller's transaction, undoing the visit and the links together.
+ */
+export async function attachOwnedFiles(tx: Db | Tx, target: { customerId: string; visitId: string }, fileIds: readonly string[], field: string): Promise<void> {
+  const ids = [...new Set(fileIds)];
+  if (!ids.length) return;
+  const linked = await tx
+    .update(files)
+    .set({ visitId: target.visitId })
+    .where(and(inArray(files.id, ids), eq(files.customerId, target.customerId), isNull(files.archivedAt), isNull(files.visitId)))
+    .returning({ id: files.id });
+  if (linked.length !== ids.length) throw notInHousehold(field, 'A photo');
 }

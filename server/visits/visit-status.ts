@@ -62,5 +62,7 @@ export async function changeVisitStatus(tx: Tx, change: VisitStatusChange): Prom
 
 /** The first line of a new visit's history: it starts as requested. */
 export async function recordBooked(tx: Tx, entry: { visitId: string; actor: string | null; technicianId: string | null; note: string }): Promise<void> {
-  await tx.insert(visitEvents).values({ visitId: entry.visitId, actorUserId: entry.actor, action: 'booked', toStatus: 'requested', technicianId: entry.technicianId, note: entry.note });
+  await tx
+    .insert(visitEvents)
+    .values({ visitId: entry.visitId, actorUserId: entry.actor, action: 'booked', toStatus: 'requested', technicianId: entry.technicianId, note: entry.note });
 }

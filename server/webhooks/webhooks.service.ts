@@ -44,7 +44,10 @@ export async function processStoredEvent(deps: Pick<AppDeps, 'database' | 'clock
         break;
     }
   } catch (err) {
-    await db.update(stripeEvents).set({ error: (err as Error).message.slice(0, 500) }).where(eq(stripeEvents.id, eventId));
+    await db
+      .update(stripeEvents)
+      .set({ error: (err as Error).message.slice(0, 500) })
+      .where(eq(stripeEvents.id, eventId));
     throw err;
   }
   await db.update(stripeEvents).set({ processedAt: deps.clock(), error: null }).where(eq(stripeEvents.id, eventId));

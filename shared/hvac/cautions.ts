@@ -45,7 +45,7 @@ export const cautions: readonly Caution[] = [
     // ASHRAE Standard 34 safety class A2L (lower flammability); UL 60335-2-40 for equipment using them.
     id: 'a2l_refrigerants',
     title: 'A2L refrigerant (R-32, R-454B)',
-    text: 'R-32 and R-454B are mildly flammable, safety class A2L in ASHRAE Standard 34. Use recovery machines, vacuum pumps and leak detectors rated for A2L refrigerants, keep ignition sources away from the work and ventilate, and follow the equipment\'s UL 60335-2-40 markings and the manufacturer\'s instructions. Local codes and licensed practice apply.',
+    text: "R-32 and R-454B are mildly flammable, safety class A2L in ASHRAE Standard 34. Use recovery machines, vacuum pumps and leak detectors rated for A2L refrigerants, keep ignition sources away from the work and ventilate, and follow the equipment's UL 60335-2-40 markings and the manufacturer's instructions. Local codes and licensed practice apply.",
     audience: ['technician'],
   },
   {

@@ -27,10 +27,7 @@ export const MIN_SAFE_SUPERHEAT_F = 5;
 /** Acceptable distance from the nameplate subcooling target (common practice). */
 export const SUBCOOLING_TOLERANCE_F = 3;
 
-export type FixedOrificeTarget =
-  | { kind: 'target'; targetF: number }
-  | { kind: 'below_minimum'; formulaF: number }
-  | { kind: 'outside_chart'; reason: string };
+export type FixedOrificeTarget = { kind: 'target'; targetF: number } | { kind: 'below_minimum'; formulaF: number } | { kind: 'outside_chart'; reason: string };
 
 /**
  * Fixed-orifice (piston, capillary) target superheat: ((3 × indoor WB) − 80 − outdoor DB) / 2,

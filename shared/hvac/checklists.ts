@@ -95,7 +95,11 @@ const CHECKLISTS: Record<EquipmentKind, readonly ChecklistItem[]> = {
     { id: 'dl.filters', text: 'Wash the indoor unit filters and let them dry before refitting', seasons: BOTH },
     { id: 'dl.indoor_coil', text: 'Clean the indoor coil and blower wheel', seasons: COOL },
     { id: 'dl.condensate', text: 'Flush the indoor unit drain and check the drain line outside', seasons: COOL },
-    { id: 'dl.condensate_pump', text: 'Where a pump lifts the indoor unit\'s water: unplug it, clean it, then test that it runs and its overflow switch stops cooling', seasons: COOL },
+    {
+      id: 'dl.condensate_pump',
+      text: "Where a pump lifts the indoor unit's water: unplug it, clean it, then test that it runs and its overflow switch stops cooling",
+      seasons: COOL,
+    },
     { id: 'dl.outdoor_coil', text: 'Rinse the outdoor coil and clear debris, snow and ice', seasons: BOTH },
     { id: 'dl.line_set', text: 'Inspect line set insulation and the wall sleeve', seasons: BOTH },
     { id: 'dl.operation', text: 'Run each indoor head in the season mode and check the split', seasons: BOTH },

@@ -73,7 +73,7 @@ export const READING_HELP: Readonly<Record<string, string>> = {
   totalExternalStaticInWc: 'Total external static pressure: supply plus return static, measured at the cabinet, in inches of water column.',
   maxExternalStaticInWc: 'The maximum external static pressure on the nameplate or in the blower table; 0.5 in. w.c. is assumed when left blank.',
   flueCoAirFreePpm: 'Carbon monoxide in the flue products, corrected to air-free, after the burner has run 5 minutes or more.',
-  ambientCoPpm: 'Carbon monoxide in the living space, measured before and during the appliance\'s run.',
+  ambientCoPpm: "Carbon monoxide in the living space, measured before and during the appliance's run.",
   compressorHz: "The compressor's running frequency, from the unit's display or the maker's service tool.",
   maxCompressorHz: "The model's maximum compressor frequency, from the nameplate or the maker's data.",
   capacityPct: 'Percent of full capacity, where the unit or its tool shows it; otherwise it is worked out from the frequency.',
@@ -104,7 +104,12 @@ function splitCheck(r: VisitReadings, cap: CapacityState): ReadingCheck | null {
   const base = { check: 'temperature_split', value, unit: '°F' };
   const shown = `Split ${value.toFixed(1)} °F`;
   const tableSource = `Target temperature split by return dry bulb and wet bulb, ±${SPLIT_TOLERANCE_F} °F (Title 24 Reference Appendix RA3.2 temperature split method; table cells from memory, see data/README.md)`;
-  const wb = returnWetBulbF({ returnDryBulbF: r.returnDryBulbF, returnWetBulbF: r.indoorWetBulbF, returnRelativeHumidityPct: r.returnRelativeHumidityPct, altitudeFt: r.altitudeFt });
+  const wb = returnWetBulbF({
+    returnDryBulbF: r.returnDryBulbF,
+    returnWetBulbF: r.indoorWetBulbF,
+    returnRelativeHumidityPct: r.returnRelativeHumidityPct,
+    altitudeFt: r.altitudeFt,
+  });
   if (!wb) {
     return { ...base, expected: {}, status: 'watch', message: `${shown}; return wet bulb or RH needed for the target`, source: tableSource };
   }
@@ -166,7 +171,12 @@ function riseCheck(r: VisitReadings): ReadingCheck | null {
 }
 
 function indoorWetBulb(r: VisitReadings): { wb: number; computed: boolean } | null {
-  const wb = returnWetBulbF({ returnDryBulbF: r.returnDryBulbF, returnWetBulbF: r.indoorWetBulbF, returnRelativeHumidityPct: r.returnRelativeHumidityPct, altitudeFt: r.altitudeFt });
+  const wb = returnWetBulbF({
+    returnDryBulbF: r.returnDryBulbF,
+    returnWetBulbF: r.indoorWetBulbF,
+    returnRelativeHumidityPct: r.returnRelativeHumidityPct,
+    altitudeFt: r.altitudeFt,
+  });
   return wb ? { wb: wb.wetBulbF, computed: wb.computed } : null;
 }
 
@@ -188,10 +198,7 @@ function superheatCheck(r: VisitReadings, cap: CapacityState): ReadingCheck | nu
   if ((r.mode ?? 'cooling') !== 'cooling' || r.suctionPressurePsig === undefined || r.suctionLineTempF === undefined || !r.refrigerant) {
     return null;
   }
-  const value = round(
-    superheatF({ refrigerant: r.refrigerant, suctionPressurePsig: r.suctionPressurePsig, suctionLineTempF: r.suctionLineTempF, altitudeFt: r.altitudeFt }),
-    1,
-  );
+  const value = round(superheatF({ refrigerant: r.refrigerant, suctionPressurePsig: r.suctionPressurePsig, suctionLineTempF: r.suctionLineTempF, altitudeFt: r.altitudeFt }), 1);
   const base = { check: 'superheat', value, unit: '°F' };
   const shown = `Superheat ${value.toFixed(1)} °F`;
   const alt = altitudeNote(r);
@@ -199,7 +206,13 @@ function superheatCheck(r: VisitReadings, cap: CapacityState): ReadingCheck | nu
 
   if (value < MIN_SAFE_SUPERHEAT_F) return floodbackCheck(base, shown, device, r);
   if (!cap.judgeCharge) {
-    return { ...base, expected: {}, status: 'watch', message: `${shown}${at(cap)}; ${FULL_CAPACITY_TEST_PROMPT}`, source: `Variable-speed unit: charge is judged only at forced full capacity (common practice; the maker's test or charge mode)${alt}` };
+    return {
+      ...base,
+      expected: {},
+      status: 'watch',
+      message: `${shown}${at(cap)}; ${FULL_CAPACITY_TEST_PROMPT}`,
+      source: `Variable-speed unit: charge is judged only at forced full capacity (common practice; the maker's test or charge mode)${alt}`,
+    };
   }
 
   if (r.meteringDevice === 'txv' || r.meteringDevice === 'eev') {
@@ -285,10 +298,7 @@ function subcoolingCheck(r: VisitReadings, cap: CapacityState): ReadingCheck | n
   if ((r.mode ?? 'cooling') !== 'cooling' || r.liquidPressurePsig === undefined || r.liquidLineTempF === undefined || !r.refrigerant) {
     return null;
   }
-  const value = round(
-    subcoolingF({ refrigerant: r.refrigerant, liquidPressurePsig: r.liquidPressurePsig, liquidLineTempF: r.liquidLineTempF, altitudeFt: r.altitudeFt }),
-    1,
-  );
+  const value = round(subcoolingF({ refrigerant: r.refrigerant, liquidPressurePsig: r.liquidPressurePsig, liquidLineTempF: r.liquidLineTempF, altitudeFt: r.altitudeFt }), 1);
   const alt = altitudeNote(r);
   if (!cap.judgeCharge) {
     return {
@@ -464,8 +474,7 @@ function capacityCheck(r: VisitReadings, cap: CapacityState): ReadingCheck | nul
   const expectedNominal = nominal * share;
   const min = Math.round(expectedNominal * SENSIBLE_SHARE.min);
   const max = Math.round(expectedNominal * SENSIBLE_SHARE.max);
-  const status: CheckStatus =
-    value < expectedNominal * SENSIBLE_SHARE.alertBelow ? 'alert' : value >= min && value <= max ? 'ok' : 'watch';
+  const status: CheckStatus = value < expectedNominal * SENSIBLE_SHARE.alertBelow ? 'alert' : value >= min && value <= max ? 'ok' : 'watch';
   return {
     check: 'sensible_capacity',
     value,

@@ -39,23 +39,9 @@ export {
   type AirflowBasis,
 } from './airflow';
 export { targetSplitF, returnWetBulbF, SPLIT_TOLERANCE_F, TARGET_SPLIT_RANGE } from './split';
-export {
-  capacityPctFromFrequency,
-  capacityState,
-  FULL_CAPACITY_TEST_PROMPT,
-  COMPRESSOR_TYPES,
-  type CompressorType,
-  type CapacityState,
-} from './capacity';
+export { capacityPctFromFrequency, capacityState, FULL_CAPACITY_TEST_PROMPT, COMPRESSOR_TYPES, type CompressorType, type CapacityState } from './capacity';
 export { microfaradsFromCurrent, RUN_CAPACITOR_DEFAULT_TOLERANCE_PCT, CONTROL_VOLTAGE_NOMINAL_VAC } from './electrical';
-export {
-  visitReadingsSchema,
-  capacitorReadingSchema,
-  CAPACITOR_POSITIONS,
-  type VisitReadings,
-  type CapacitorReading,
-  type CapacitorPosition,
-} from './readings';
+export { visitReadingsSchema, capacitorReadingSchema, CAPACITOR_POSITIONS, type VisitReadings, type CapacitorReading, type CapacitorPosition } from './readings';
 export {
   evaluateReadings,
   coolingSplitTargetF,

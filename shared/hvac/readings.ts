@@ -4,17 +4,13 @@ import { AIRFLOW_BASES } from './airflow';
 import { REFRIGERANTS, PERFECT_VACUUM_PSIG } from './refrigerants';
 
 const num = (label: string) => z.number({ error: `${label} must be a finite number` });
-const tempF = (label: string) =>
-  num(label).min(-148, `${label} must be at least -148 °F`).max(392, `${label} must be at most 392 °F`);
-const pressurePsig = (label: string) =>
-  num(label).min(PERFECT_VACUUM_PSIG, `${label} cannot be below a perfect vacuum (${PERFECT_VACUUM_PSIG} psig)`);
+const tempF = (label: string) => num(label).min(-148, `${label} must be at least -148 °F`).max(392, `${label} must be at most 392 °F`);
+const pressurePsig = (label: string) => num(label).min(PERFECT_VACUUM_PSIG, `${label} cannot be below a perfect vacuum (${PERFECT_VACUUM_PSIG} psig)`);
 const positive = (label: string) => num(label).gt(0, `${label} must be greater than 0`);
 const nonNegative = (label: string) => num(label).min(0, `${label} must not be negative`);
 
 const bandF = (label: string) =>
-  z
-    .strictObject({ min: tempF(`${label} min`), max: tempF(`${label} max`) })
-    .refine((b) => b.min <= b.max, { message: `${label} min must not exceed max`, path: ['max'] });
+  z.strictObject({ min: tempF(`${label} min`), max: tempF(`${label} max`) }).refine((b) => b.min <= b.max, { message: `${label} min must not exceed max`, path: ['max'] });
 
 /**
  * One run capacitor, or one section of a dual capacitor (enter a dual part as its
@@ -103,7 +99,6 @@ const shape = {
   temperatureRiseF: nonNegative('Temperature rise').max(200, 'Temperature rise must be at most 200 °F').optional(),
   riseRangeF: bandF('Nameplate rise range').optional(),
 };
-
 
 function needs(ctx: z.RefinementCtx, v: Record<string, unknown>, a: string, b: string, label: string): void {
   if (v[a] !== undefined && v[b] === undefined) {

@@ -37,10 +37,7 @@ export function tableGaugePsig(gaugePsig: number, altitudeFt?: number, field = '
 }
 
 function rowsFor(refrigerant: unknown, field = 'refrigerant'): SaturationRows {
-  const rows =
-    typeof refrigerant === 'string' && (REFRIGERANTS as readonly string[]).includes(refrigerant)
-      ? SATURATION_TABLE[refrigerant]
-      : undefined;
+  const rows = typeof refrigerant === 'string' && (REFRIGERANTS as readonly string[]).includes(refrigerant) ? SATURATION_TABLE[refrigerant] : undefined;
   if (!rows) {
     throw new ReadingInputError(field, `unknown refrigerant "${String(refrigerant)}"; expected one of ${REFRIGERANTS.join(', ')}`);
   }
@@ -69,12 +66,7 @@ function interpolate(xs: readonly number[], ys: readonly number[], x: number): n
   return x1 === x0 ? y0 : y0 + ((y1 - y0) * (x - x0)) / (x1 - x0);
 }
 
-export function saturationPressureAt(
-  refrigerant: Refrigerant,
-  temperatureF: number,
-  point: SaturationPoint,
-  field = 'temperatureF',
-): number {
+export function saturationPressureAt(refrigerant: Refrigerant, temperatureF: number, point: SaturationPoint, field = 'temperatureF'): number {
   const rows = rowsFor(refrigerant);
   const ps = pressures(rows, point);
   const t = requireFinite(field, temperatureF);
@@ -86,12 +78,7 @@ export function saturationPressureAt(
   return interpolate(rows.tempF, ps, t);
 }
 
-export function saturationTemperatureAt(
-  refrigerant: Refrigerant,
-  pressurePsig: number,
-  point: SaturationPoint,
-  field = 'pressurePsig',
-): number {
+export function saturationTemperatureAt(refrigerant: Refrigerant, pressurePsig: number, point: SaturationPoint, field = 'pressurePsig'): number {
   const rows = rowsFor(refrigerant);
   const ps = pressures(rows, point);
   const p = requireFinite(field, pressurePsig);
@@ -101,10 +88,7 @@ export function saturationTemperatureAt(
   const min = ps[0]!;
   const max = ps[ps.length - 1]!;
   if (p < min || p > max) {
-    throw new ReadingInputError(
-      field,
-      `${p} psig is outside the ${refrigerant} ${point}-point table (${min} to ${max} psig)`,
-    );
+    throw new ReadingInputError(field, `${p} psig is outside the ${refrigerant} ${point}-point table (${min} to ${max} psig)`);
   }
   // Pressure rises strictly with temperature, so the same table inverts.
   return interpolate(ps, rows.tempF, p);

@@ -45,7 +45,12 @@ export function targetSplitF(i: { returnDryBulbF: number; returnWetBulbF: number
 }
 
 /** The return wet bulb as read, or worked out from dry bulb and RH with psychrolib (ASHRAE Fundamentals ch. 1). */
-export function returnWetBulbF(i: { returnDryBulbF?: number; returnWetBulbF?: number; returnRelativeHumidityPct?: number; altitudeFt?: number }): { wetBulbF: number; computed: boolean } | null {
+export function returnWetBulbF(i: {
+  returnDryBulbF?: number;
+  returnWetBulbF?: number;
+  returnRelativeHumidityPct?: number;
+  altitudeFt?: number;
+}): { wetBulbF: number; computed: boolean } | null {
   if (i.returnWetBulbF !== undefined) return { wetBulbF: requireFinite('returnWetBulbF', i.returnWetBulbF), computed: false };
   if (i.returnDryBulbF !== undefined && i.returnRelativeHumidityPct !== undefined) {
     return { wetBulbF: wetBulbF({ dryBulbF: i.returnDryBulbF, relativeHumidityPct: i.returnRelativeHumidityPct, altitudeFt: i.altitudeFt }), computed: true };

@@ -49,7 +49,7 @@ function describe(c: ReadingCheck): { topic: string; reading: string } {
     case 'external_static_pressure':
       return { topic: 'Airflow check', reading: 'the resistance your ducts and filter put in the way of the air is' };
     case 'co_flue_air_free':
-      return { topic: 'Combustion safety check', reading: 'the carbon monoxide in your furnace\'s exhaust is' };
+      return { topic: 'Combustion safety check', reading: "the carbon monoxide in your furnace's exhaust is" };
     case 'co_ambient':
       return { topic: 'Carbon monoxide check', reading: 'the carbon monoxide in your living space is' };
     default:

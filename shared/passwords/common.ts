@@ -30,13 +30,42 @@ computer1 internet1 letmeinnow trustme ihateyou fuckyou fuckoff shit bitch assho
 sweetheart sweetie honey baby babygirl babyboy lover kisses hottie sexy beautiful pretty
 qwertzuiop asdfghjklzxcvbnm 1234qwer qweasd qweasdzxc asdqwe zxcasdqwe
 superman1 batman1 starwars1 pokemon1 minecraft fortnite roblox xbox playstation nintendo gamer
-`.split(/\s+/).filter(Boolean);
+`
+  .split(/\s+/)
+  .filter(Boolean);
 
 // Rows of a US keyboard and the number row, for walks like "qwertyuiop12" or "1qaz2wsx3edc".
 const ROWS = ['1234567890', 'qwertyuiop', 'asdfghjkl', 'zxcvbnm', '0987654321', 'poiuytrewq', 'lkjhgfdsa', 'mnbvcxz'];
 const COLUMNS = ['1qaz', '2wsx', '3edc', '4rfv', '5tgb', '6yhn', '7ujm', '8ik,', '9ol.', '0p;/'];
 
-const SUFFIXES = ['', '1', '12', '123', '1234', '12345', '123456', '1234567', '12345678', '!', '1!', '123!', '!!', '01', '69', '007', '99', '00', '11', '2', '22', '13', '21', '777', '@123', '#1'];
+const SUFFIXES = [
+  '',
+  '1',
+  '12',
+  '123',
+  '1234',
+  '12345',
+  '123456',
+  '1234567',
+  '12345678',
+  '!',
+  '1!',
+  '123!',
+  '!!',
+  '01',
+  '69',
+  '007',
+  '99',
+  '00',
+  '11',
+  '2',
+  '22',
+  '13',
+  '21',
+  '777',
+  '@123',
+  '#1',
+];
 const YEARS = Array.from({ length: 2030 - 1960 + 1 }, (_, i) => String(1960 + i));
 
 function generate(): Set<string> {
@@ -70,10 +99,11 @@ function generate(): Set<string> {
   // Counting up and down, whole and from each digit.
   const up = '01234567890123456789';
   const down = '98765432109876543210';
-  for (let start = 0; start < 10; start++) for (let len = 6; len <= 20; len++) {
-    add(up.slice(start, start + len));
-    add(down.slice(start, start + len));
-  }
+  for (let start = 0; start < 10; start++)
+    for (let len = 6; len <= 20; len++) {
+      add(up.slice(start, start + len));
+      add(down.slice(start, start + len));
+    }
   return out;
 }
 

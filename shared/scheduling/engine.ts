@@ -255,7 +255,10 @@ function planDay(ctx: Context, date: LocalDate): DayPlan {
   });
 
   // Each visit costs its time on site plus the drive to it.
-  const ordinaryUsedMinutes = picked(ctx.ordinaryBooked, day.start, day.end, Number.NEGATIVE_INFINITY).reduce((sum, v) => sum + (v.end - v.start) / MINUTE + settings.travelBufferMinutes, 0);
+  const ordinaryUsedMinutes = picked(ctx.ordinaryBooked, day.start, day.end, Number.NEGATIVE_INFINITY).reduce(
+    (sum, v) => sum + (v.end - v.start) / MINUTE + settings.travelBufferMinutes,
+    0,
+  );
 
   return {
     date,
@@ -269,9 +272,7 @@ function planDay(ctx: Context, date: LocalDate): DayPlan {
 
 /** Earliest start in [from, before) at which the visit fits the technician's shift and avoids every block. */
 function earliestStart(tech: TechDay, blocked: Span[], from: number, before: number, visitMs: number): number | null {
-  const candidates = [from, ...tech.shifts.map((s) => s.start), ...blocked.map((b) => b.end)]
-    .filter((t) => t >= from && t < before)
-    .sort((a, b) => a - b);
+  const candidates = [from, ...tech.shifts.map((s) => s.start), ...blocked.map((b) => b.end)].filter((t) => t >= from && t < before).sort((a, b) => a - b);
   for (const start of candidates) {
     const visit = { start, end: start + visitMs };
     const inShift = tech.shifts.some((s) => s.start <= visit.start && visit.end <= s.end);
@@ -386,9 +387,7 @@ export interface PlannedVisit {
   window: ArrivalWindow;
 }
 
-export type BookingPlan =
-  | { ok: true; visit: PlannedVisit }
-  | { ok: false; reason: 'window_full'; alternatives: ArrivalWindow[] };
+export type BookingPlan = { ok: true; visit: PlannedVisit } | { ok: false; reason: 'window_full'; alternatives: ArrivalWindow[] };
 
 /**
  * Picks the technician and exact start for a booking in the chosen window (identified by its start).
@@ -402,9 +401,7 @@ export function planBooking(input: AvailabilityInput, windowStart: string): Book
   for (const c of windowChoices(ctx)) {
     if (c.window.start !== wanted) continue;
     const load = new Map(c.day.techs.map((t) => [t.id, t.bookedMinutes]));
-    const [technicianId, starts] = [...c.starts.entries()].sort(
-      ([ia, sa], [ib, sb]) => sa[0]! - sb[0]! || load.get(ia)! - load.get(ib)! || ia.localeCompare(ib),
-    )[0]!;
+    const [technicianId, starts] = [...c.starts.entries()].sort(([ia, sa], [ib, sb]) => sa[0]! - sb[0]! || load.get(ia)! - load.get(ib)! || ia.localeCompare(ib))[0]!;
     const start = starts[0]!;
     const tz = ctx.input.settings.timeZone;
     return {

@@ -108,7 +108,11 @@ export const availabilityRequestSchema = z
     to: localDate,
     now: instantSchema,
     /** The member plan's promise: a technician arrives within this many hours. */
-    priorityPromiseHours: z.number().positive().max(24 * 14).optional(),
+    priorityPromiseHours: z
+      .number()
+      .positive()
+      .max(24 * 14)
+      .optional(),
   })
   .refine((r) => r.from <= r.to, { message: 'must not be before from', path: ['to'] })
   .refine((r) => DateTime.fromISO(r.to).diff(DateTime.fromISO(r.from), 'days').days <= 62, {

@@ -20,7 +20,10 @@ export type StaffSignIn = z.infer<typeof staffSignInSchema>;
 export const linkRequestSchema = z.object({ email });
 export type LinkRequest = z.infer<typeof linkRequestSchema>;
 
-const token = z.string({ error: 'The link is missing its token.' }).min(20, 'This link is not complete. Please open it again from the e-mail.').max(4096, 'This link is not valid.');
+const token = z
+  .string({ error: 'The link is missing its token.' })
+  .min(20, 'This link is not complete. Please open it again from the e-mail.')
+  .max(4096, 'This link is not valid.');
 
 export const linkConfirmSchema = z.object({ token });
 

@@ -36,17 +36,19 @@ function lineCents(l: { quantity: unknown; unitCents: unknown }): number {
   }
 }
 
-export const invoiceLineInputSchema = z.object({
-  description: z.string().trim().min(1, 'Describe the line.').max(200, 'Keep the description under 200 characters.'),
-  kind: z.enum(['labor', 'parts', 'plan_fee', 'other'], { error: 'Kind is labor, parts, plan_fee or other.' }),
-  quantity: z
-    .number({ error: 'Quantity must be a number.' })
-    .min(0, 'Quantity must not be negative.')
-    .max(100_000, 'Quantity is too large.')
-    .refine((q) => Math.abs(Math.round(q * 1000) - q * 1000) < 1e-6, 'Quantity allows at most 3 decimals.'),
-  unitCents: cents('Unit price'),
-  taxable: z.boolean({ error: 'Say whether the line is taxable.' }),
-}).refine((l) => lineCents(l) <= MAX_LINE_CENTS, { message: `A line can be at most ${formatUsd(MAX_LINE_CENTS)}.`, path: ['unitCents'] });
+export const invoiceLineInputSchema = z
+  .object({
+    description: z.string().trim().min(1, 'Describe the line.').max(200, 'Keep the description under 200 characters.'),
+    kind: z.enum(['labor', 'parts', 'plan_fee', 'other'], { error: 'Kind is labor, parts, plan_fee or other.' }),
+    quantity: z
+      .number({ error: 'Quantity must be a number.' })
+      .min(0, 'Quantity must not be negative.')
+      .max(100_000, 'Quantity is too large.')
+      .refine((q) => Math.abs(Math.round(q * 1000) - q * 1000) < 1e-6, 'Quantity allows at most 3 decimals.'),
+    unitCents: cents('Unit price'),
+    taxable: z.boolean({ error: 'Say whether the line is taxable.' }),
+  })
+  .refine((l) => lineCents(l) <= MAX_LINE_CENTS, { message: `A line can be at most ${formatUsd(MAX_LINE_CENTS)}.`, path: ['unitCents'] });
 export type InvoiceLineInput = z.infer<typeof invoiceLineInputSchema>;
 
 export const createInvoiceSchema = z.object({

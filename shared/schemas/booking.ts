@@ -79,7 +79,11 @@ export const statusChangeSchema = z.object({
 
 export const boardQuerySchema = z.object({
   from: localDate,
-  days: z.coerce.number().int().refine((d) => d === 1 || d === 7, 'must be 1 (day) or 7 (week)').default(1),
+  days: z.coerce
+    .number()
+    .int()
+    .refine((d) => d === 1 || d === 7, 'must be 1 (day) or 7 (week)')
+    .default(1),
   technicianId: uuid.optional(),
   kind: z.enum(VISIT_KINDS).optional(),
   area: z.string().trim().max(80).optional(),

@@ -7,9 +7,58 @@ import type { Equipment } from './equipment';
 // request with these schemas; the client uses the same ones for instant feedback.
 
 export const US_STATES = [
-  'AL', 'AK', 'AZ', 'AR', 'CA', 'CO', 'CT', 'DE', 'DC', 'FL', 'GA', 'HI', 'ID', 'IL', 'IN', 'IA', 'KS', 'KY', 'LA',
-  'ME', 'MD', 'MA', 'MI', 'MN', 'MS', 'MO', 'MT', 'NE', 'NV', 'NH', 'NJ', 'NM', 'NY', 'NC', 'ND', 'OH', 'OK', 'OR',
-  'PA', 'RI', 'SC', 'SD', 'TN', 'TX', 'UT', 'VT', 'VA', 'WA', 'WV', 'WI', 'WY', 'PR',
+  'AL',
+  'AK',
+  'AZ',
+  'AR',
+  'CA',
+  'CO',
+  'CT',
+  'DE',
+  'DC',
+  'FL',
+  'GA',
+  'HI',
+  'ID',
+  'IL',
+  'IN',
+  'IA',
+  'KS',
+  'KY',
+  'LA',
+  'ME',
+  'MD',
+  'MA',
+  'MI',
+  'MN',
+  'MS',
+  'MO',
+  'MT',
+  'NE',
+  'NV',
+  'NH',
+  'NJ',
+  'NM',
+  'NY',
+  'NC',
+  'ND',
+  'OH',
+  'OK',
+  'OR',
+  'PA',
+  'RI',
+  'SC',
+  'SD',
+  'TN',
+  'TX',
+  'UT',
+  'VT',
+  'VA',
+  'WA',
+  'WV',
+  'WI',
+  'WY',
+  'PR',
 ] as const;
 export type UsState = (typeof US_STATES)[number];
 
@@ -30,13 +79,12 @@ const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === 
 const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' && v.trim() === '') ? null : v);
 
 const text = (label: string, max: number) =>
-  z.string({ error: `${label} must be text.` }).trim().max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
 
-export const nameSchema = z
-  .string({ error: 'Enter a name.' })
-  .trim()
-  .min(1, 'Enter a name.')
-  .max(120, 'Keep the name under 120 characters.');
+export const nameSchema = z.string({ error: 'Enter a name.' }).trim().min(1, 'Enter a name.').max(120, 'Keep the name under 120 characters.');
 
 export const emailSchema = z
   .string({ error: 'Enter an e-mail address.' })
@@ -158,7 +206,12 @@ export const customerListQuerySchema = z.object({
   sort: z.enum(CUSTOMER_SORTS, { error: `Sort by ${CUSTOMER_SORTS.join(', ')}.` }).default('name'),
   dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('asc'),
   page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce.number({ error: 'Page size is a number.' }).int('Page size is a whole number.').min(1, 'Show at least 1 a page.').max(100, 'Show at most 100 a page.').default(25),
+  pageSize: z.coerce
+    .number({ error: 'Page size is a number.' })
+    .int('Page size is a whole number.')
+    .min(1, 'Show at least 1 a page.')
+    .max(100, 'Show at most 100 a page.')
+    .default(25),
   status: z.enum(['active', 'archived', 'all'], { error: 'Status is active, archived or all.' }).default('active'),
 });
 export type CustomerListQuery = z.infer<typeof customerListQuerySchema>;
@@ -264,9 +317,35 @@ export interface CustomerDetail {
   createdAt: string;
   contacts: Contact[];
   properties: (Property & { equipment: Equipment[] })[];
-  agreements: { id: string; propertyId: string; plan: string; status: string; statusLabel: string; startsOn: string; endsOn: string; lastDayLabel: string; priceCents: number; terms: AgreementTermView[] }[];
+  agreements: {
+    id: string;
+    propertyId: string;
+    plan: string;
+    status: string;
+    statusLabel: string;
+    startsOn: string;
+    endsOn: string;
+    lastDayLabel: string;
+    priceCents: number;
+    terms: AgreementTermView[];
+  }[];
   /** windowMissed: the window passed and the visit was never started (windowMissed in shared/visits.ts). */
-  visits: { id: string; propertyId: string; kind: string; reason: string; reasonLabel: string; status: string; statusLabel: string; startsAt: string; windowStart: string; windowEnd: string; windowMissed: boolean; findings: string; recommendations: string; technicianName: string | null }[];
+  visits: {
+    id: string;
+    propertyId: string;
+    kind: string;
+    reason: string;
+    reasonLabel: string;
+    status: string;
+    statusLabel: string;
+    startsAt: string;
+    windowStart: string;
+    windowEnd: string;
+    windowMissed: boolean;
+    findings: string;
+    recommendations: string;
+    technicianName: string | null;
+  }[];
   invoices: { id: string; number: number | null; status: string; totalCents: number; paidCents: number; issuedAt: string | null; createdAt: string }[];
   householdNotes: Note[];
   files: StoredFile[];
@@ -353,16 +432,14 @@ export type ImportFieldKey = (typeof IMPORT_FIELDS)[number]['key'];
 export const IMPORT_FIELD_KEYS = IMPORT_FIELDS.map((f) => f.key) as ImportFieldKey[];
 
 /** For each of our fields, the CSV column it reads from (or null to leave it out). */
-export const importMappingSchema = z
-  .record(z.string(), z.string().nullable())
-  .superRefine((m, ctx) => {
-    for (const key of Object.keys(m)) {
-      if (!(IMPORT_FIELD_KEYS as string[]).includes(key)) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is not an import field.` });
-    }
-    for (const f of IMPORT_FIELDS) {
-      if (f.required && !m[f.key]) ctx.addIssue({ code: 'custom', path: [f.key], message: `Choose the column that holds ${f.label.toLowerCase()}.` });
-    }
-  });
+export const importMappingSchema = z.record(z.string(), z.string().nullable()).superRefine((m, ctx) => {
+  for (const key of Object.keys(m)) {
+    if (!(IMPORT_FIELD_KEYS as string[]).includes(key)) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is not an import field.` });
+  }
+  for (const f of IMPORT_FIELDS) {
+    if (f.required && !m[f.key]) ctx.addIssue({ code: 'custom', path: [f.key], message: `Choose the column that holds ${f.label.toLowerCase()}.` });
+  }
+});
 export type ImportMapping = Record<string, string | null>;
 
 export interface ImportPreview {

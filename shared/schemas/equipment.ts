@@ -15,7 +15,14 @@ const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === 
 const numberish = (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? Number(v.trim().replace(/,/g, '')) : v);
 
 const text = (label: string, max: number) =>
-  z.preprocess(blankToUndefined, z.string({ error: `${label} must be text.` }).trim().max(max, `Keep ${label.toLowerCase()} under ${max} characters.`).default(''));
+  z.preprocess(
+    blankToUndefined,
+    z
+      .string({ error: `${label} must be text.` })
+      .trim()
+      .max(max, `Keep ${label.toLowerCase()} under ${max} characters.`)
+      .default(''),
+  );
 
 const isoDate = (label: string) =>
   z.preprocess(
@@ -72,10 +79,7 @@ const equipmentFields = {
     (v) => (typeof v === 'string' ? refrigerantWord(v) : (v ?? 'none')),
     z.enum(REFRIGERANT_CHOICES, { error: `Refrigerant is one of ${REFRIGERANT_CHOICES.join(', ')}.` }),
   ),
-  capacity: z.preprocess(
-    (v) => numberish(blankToNull(v)),
-    z.number({ error: 'Capacity is a number.' }).positive('Capacity is more than 0.').nullable(),
-  ),
+  capacity: z.preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Capacity is a number.' }).positive('Capacity is more than 0.').nullable()),
   capacityUnit: capacityUnitSchema.default('btuh'),
   volts: optionalInt('Volts', 12, 600),
   phase: z.preprocess((v) => numberish(blankToNull(v)), z.union([z.literal(1), z.literal(3), z.null()], { error: 'Phase is 1 or 3.' })),
@@ -95,14 +99,22 @@ const equipmentFields = {
   maxCompressorHz: z
     .preprocess(
       (v) => numberish(blankToNull(v)),
-      z.number({ error: 'Maximum compressor frequency is a number.' }).positive('Maximum compressor frequency is more than 0 Hz.').max(300, 'Maximum compressor frequency is at most 300 Hz.').nullable(),
+      z
+        .number({ error: 'Maximum compressor frequency is a number.' })
+        .positive('Maximum compressor frequency is more than 0 Hz.')
+        .max(300, 'Maximum compressor frequency is at most 300 Hz.')
+        .nullable(),
     )
     .optional(),
   /** Maximum total external static pressure from the nameplate or blower table, in. w.c. */
   maxExternalStaticInWc: z
     .preprocess(
       (v) => numberish(blankToNull(v)),
-      z.number({ error: 'Maximum external static pressure is a number.' }).positive('Maximum external static pressure is more than 0.').max(2, 'Maximum external static pressure is at most 2 in. w.c.').nullable(),
+      z
+        .number({ error: 'Maximum external static pressure is a number.' })
+        .positive('Maximum external static pressure is more than 0.')
+        .max(2, 'Maximum external static pressure is at most 2 in. w.c.')
+        .nullable(),
     )
     .optional(),
 };
@@ -149,7 +161,8 @@ export const equipmentInputSchema = z
     warrantyEndsOn: equipmentFields.warrantyEndsOn.default(null),
   })
   .superRefine((v, ctx) => {
-    if (v.installedOn && v.warrantyEndsOn && v.warrantyEndsOn < v.installedOn) ctx.addIssue({ code: 'custom', path: ['warrantyEndsOn'], message: 'Warranty end is after the install date.' });
+    if (v.installedOn && v.warrantyEndsOn && v.warrantyEndsOn < v.installedOn)
+      ctx.addIssue({ code: 'custom', path: ['warrantyEndsOn'], message: 'Warranty end is after the install date.' });
     variableSpeedFields(v, ctx);
   })
   .transform(withCapacity);

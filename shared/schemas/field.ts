@@ -17,7 +17,11 @@ export const CHECKLIST_RESULT_LABELS: Record<ChecklistResult, string> = {
   not_applicable: 'Not applicable',
 };
 
-const longText = (label: string, max = 4000) => z.string({ error: `${label} must be text` }).trim().max(max, `${label} must be at most ${max} characters`);
+const longText = (label: string, max = 4000) =>
+  z
+    .string({ error: `${label} must be text` })
+    .trim()
+    .max(max, `${label} must be at most ${max} characters`);
 
 // ---- Requests ----
 

@@ -29,7 +29,10 @@ const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' &
 const numberish = (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? Number(v.trim().replace(/,/g, '')) : v);
 
 const text = (label: string, max: number) =>
-  z.string({ error: `${label} must be text.` }).trim().max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
 
 const id = (message: string) => z.uuid({ error: message });
 
@@ -52,7 +55,14 @@ const amount = (label: string, min: number, max: number, unit: string) =>
   );
 
 const wholeNumber = (label: string, min: number, max: number) =>
-  z.preprocess(numberish, z.number({ error: `${label} is a number.` }).int(`${label} is a whole number.`).min(min, `${label} is at least ${min}.`).max(max, `${label} is at most ${max}.`));
+  z.preprocess(
+    numberish,
+    z
+      .number({ error: `${label} is a number.` })
+      .int(`${label} is a whole number.`)
+      .min(min, `${label} is at least ${min}.`)
+      .max(max, `${label} is at most ${max}.`),
+  );
 
 export const quantitySchema = z.preprocess(
   numberish,
@@ -128,7 +138,13 @@ export const MOTOR_APPLICATION_LABELS: Record<MotorApplication, string> = {
   other: 'other use',
 };
 
-const lowerWord = (v: unknown) => (typeof v === 'string' ? v.trim().toLowerCase().replace(/[\s-]+/g, '_') : v);
+const lowerWord = (v: unknown) =>
+  typeof v === 'string'
+    ? v
+        .trim()
+        .toLowerCase()
+        .replace(/[\s-]+/g, '_')
+    : v;
 
 const shaftSchema = z.object(
   {
@@ -143,7 +159,9 @@ const tapSchema = z.object(
     horsepower: horsepowerValue('Tap horsepower'),
     microfarads: amount('Capacitor µF', 1, 100, ' µF'),
     /** Full-load amps on this tap, when the nameplate lists them per tap. */
-    amps: z.preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Tap amps is a number.' }).positive('Tap amps is more than 0.').max(60, 'Tap amps is at most 60.').nullable()).default(null),
+    amps: z
+      .preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Tap amps is a number.' }).positive('Tap amps is more than 0.').max(60, 'Tap amps is at most 60.').nullable())
+      .default(null),
   },
   { error: 'Each horsepower tap has its horsepower and the capacitor µF it needs.' },
 );
@@ -159,30 +177,60 @@ export const motorSpecSchema = z
     speeds: wholeNumber('Speeds', 1, 5),
     rotation: z.preprocess(lowerWord, z.enum(ROTATIONS, { error: 'Rotation is reversible, CW or CCW.' })),
     /** Required for a fixed rotation: CW seen from the shaft end is CCW seen from the lead end. */
-    rotationViewedFrom: z.preprocess((v) => blankToNull(lowerWord(v)), z.enum(ROTATION_VIEWS, { error: 'Say whether rotation is seen from the shaft end or the lead end.' }).nullable()).default(null),
+    rotationViewedFrom: z
+      .preprocess((v) => blankToNull(lowerWord(v)), z.enum(ROTATION_VIEWS, { error: 'Say whether rotation is seen from the shaft end or the lead end.' }).nullable())
+      .default(null),
     shaft: shaftSchema.nullable().default(null),
-    frame: z.preprocess(blankToNull, text('Frame', 10).regex(/^[0-9A-Z.]+$/i, 'Frame is a size like 48 or 56.').nullable()).default(null),
+    frame: z
+      .preprocess(
+        blankToNull,
+        text('Frame', 10)
+          .regex(/^[0-9A-Z.]+$/i, 'Frame is a size like 48 or 56.')
+          .nullable(),
+      )
+      .default(null),
     /** Full-load amps at the highest horsepower. */
     fla: amount('Rated amps (FLA)', 0.1, 60, ' A'),
     /** Run-capacitor µF per horsepower tap; empty for motors without one (ECM, shaded pole). */
     taps: z.array(tapSchema, { error: 'Horsepower taps are a list.' }).max(6, 'List at most 6 horsepower taps.').default([]),
-    capacitorVolts: z.preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Capacitor volts is a number.' }).int('Capacitor volts is a whole number.').min(110, 'Capacitor volts is at least 110.').max(600, 'Capacitor volts is at most 600.').nullable()).default(null),
+    capacitorVolts: z
+      .preprocess(
+        (v) => numberish(blankToNull(v)),
+        z
+          .number({ error: 'Capacitor volts is a number.' })
+          .int('Capacitor volts is a whole number.')
+          .min(110, 'Capacitor volts is at least 110.')
+          .max(600, 'Capacitor volts is at most 600.')
+          .nullable(),
+      )
+      .default(null),
   })
   .superRefine((m, ctx) => {
-    if (m.rotation !== 'reversible' && !m.rotationViewedFrom) ctx.addIssue({ code: 'custom', path: ['rotationViewedFrom'], message: 'Say whether rotation is seen from the shaft end or the lead end.' });
+    if (m.rotation !== 'reversible' && !m.rotationViewedFrom)
+      ctx.addIssue({ code: 'custom', path: ['rotationViewedFrom'], message: 'Say whether rotation is seen from the shaft end or the lead end.' });
     m.taps.forEach((t, i) => {
       if (m.horsepower.max >= m.horsepower.min && (t.horsepower < m.horsepower.min - 0.002 || t.horsepower > m.horsepower.max + 0.002)) {
         ctx.addIssue({ code: 'custom', path: ['taps', i, 'horsepower'], message: `Tap ${formatHorsepower(t.horsepower)} is outside the motor's horsepower.` });
       }
-      if (m.taps.findIndex((o) => Math.abs(o.horsepower - t.horsepower) < 0.002) !== i) ctx.addIssue({ code: 'custom', path: ['taps', i, 'horsepower'], message: `Tap ${formatHorsepower(t.horsepower)} is listed twice.` });
+      if (m.taps.findIndex((o) => Math.abs(o.horsepower - t.horsepower) < 0.002) !== i)
+        ctx.addIssue({ code: 'custom', path: ['taps', i, 'horsepower'], message: `Tap ${formatHorsepower(t.horsepower)} is listed twice.` });
     });
-    if (m.taps.length && m.capacitorVolts === null) ctx.addIssue({ code: 'custom', path: ['capacitorVolts'], message: 'Give the capacitor volts (370 or 440) for the horsepower taps.' });
+    if (m.taps.length && m.capacitorVolts === null)
+      ctx.addIssue({ code: 'custom', path: ['capacitorVolts'], message: 'Give the capacitor volts (370 or 440) for the horsepower taps.' });
   });
 export type MotorSpec = z.infer<typeof motorSpecSchema>;
 
 /** "40/5", "45+5", "7.5" → capacitor sections in µF (herm first on a dual can). */
 const sectionsSchema = z.preprocess(
-  (v) => (typeof v === 'string' ? v.replace(/\s*(µ|u|m)?f(d)?\s*$/i, '').split(/\s*[/+]\s*/).map(numberish) : typeof v === 'number' ? [v] : v),
+  (v) =>
+    typeof v === 'string'
+      ? v
+          .replace(/\s*(µ|u|m)?f(d)?\s*$/i, '')
+          .split(/\s*[/+]\s*/)
+          .map(numberish)
+      : typeof v === 'number'
+        ? [v]
+        : v,
   z
     .array(amount('Capacitor µF', 0.5, 100, ' µF'), { error: 'µF is a value like 7.5, or two like 40/5.' })
     .min(1, 'Give the µF.')
@@ -231,9 +279,13 @@ export const plainPartSpecSchema = z.object({
 });
 
 /** A part's specification, checked by the schema of its category. */
-export const partSpecSchema = z.discriminatedUnion('category', [motorSpecSchema, capacitorSpecSchema, contactorSpecSchema, filterSpecSchema, refrigerantSpecSchema, plainPartSpecSchema], {
-  error: 'Choose the part category for its specification.',
-});
+export const partSpecSchema = z.discriminatedUnion(
+  'category',
+  [motorSpecSchema, capacitorSpecSchema, contactorSpecSchema, filterSpecSchema, refrigerantSpecSchema, plainPartSpecSchema],
+  {
+    error: 'Choose the part category for its specification.',
+  },
+);
 export type PartSpec = z.infer<typeof partSpecSchema>;
 export type PartSpecInput = z.input<typeof partSpecSchema>;
 
@@ -241,7 +293,11 @@ export type PartSpecInput = z.input<typeof partSpecSchema>;
 
 export const skuSchema = z.preprocess(
   (v) => (typeof v === 'string' ? v.trim().toUpperCase() : v),
-  z.string({ error: 'Enter the SKU.' }).min(1, 'Enter the SKU.').max(40, 'Keep the SKU under 40 characters.').regex(/^[A-Z0-9][A-Z0-9._\-/]*$/, 'SKU uses letters, digits, dots, dashes or slashes.'),
+  z
+    .string({ error: 'Enter the SKU.' })
+    .min(1, 'Enter the SKU.')
+    .max(40, 'Keep the SKU under 40 characters.')
+    .regex(/^[A-Z0-9][A-Z0-9._\-/]*$/, 'SKU uses letters, digits, dots, dashes or slashes.'),
 );
 
 const kindSchema = z.enum(ITEM_KINDS, { error: 'Kind is part, labor or fee.' });
@@ -265,9 +321,15 @@ function checkItem(v: { kind?: ItemKind; category?: ItemCategory; spec?: PartSpe
   if (v.kind && v.category && ITEM_CATEGORY_KIND[v.category] !== v.kind) {
     ctx.addIssue({ code: 'custom', path: ['category'], message: `${ITEM_CATEGORY_LABELS[v.category]} is a ${ITEM_CATEGORY_KIND[v.category]} category, not ${v.kind}.` });
   }
-  if (v.spec && v.category && v.spec.category !== v.category) ctx.addIssue({ code: 'custom', path: ['spec', 'category'], message: `The specification is for a ${v.spec.category}, but the item is a ${ITEM_CATEGORY_LABELS[v.category].toLowerCase()}.` });
+  if (v.spec && v.category && v.spec.category !== v.category)
+    ctx.addIssue({
+      code: 'custom',
+      path: ['spec', 'category'],
+      message: `The specification is for a ${v.spec.category}, but the item is a ${ITEM_CATEGORY_LABELS[v.category].toLowerCase()}.`,
+    });
   if (v.spec && v.kind && v.kind !== 'part') ctx.addIssue({ code: 'custom', path: ['spec'], message: 'Only parts have a specification.' });
-  if (v.kind && v.kind !== 'part' && (v.partsWarrantyMonths ?? 0) > 0) ctx.addIssue({ code: 'custom', path: ['partsWarrantyMonths'], message: 'Only parts carry a parts warranty.' });
+  if (v.kind && v.kind !== 'part' && (v.partsWarrantyMonths ?? 0) > 0)
+    ctx.addIssue({ code: 'custom', path: ['partsWarrantyMonths'], message: 'Only parts carry a parts warranty.' });
 }
 
 export const priceBookItemInputSchema = z
@@ -298,7 +360,12 @@ export const priceBookListQuerySchema = z.object({
   sort: z.enum(ITEM_SORTS, { error: `Sort by ${ITEM_SORTS.join(', ')}.` }).default('sku'),
   dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('asc'),
   page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce.number({ error: 'Page size is a number.' }).int('Page size is a whole number.').min(1, 'Show at least 1 a page.').max(100, 'Show at most 100 a page.').default(25),
+  pageSize: z.coerce
+    .number({ error: 'Page size is a number.' })
+    .int('Page size is a whole number.')
+    .min(1, 'Show at least 1 a page.')
+    .max(100, 'Show at most 100 a page.')
+    .default(25),
 });
 export type PriceBookListQuery = z.infer<typeof priceBookListQuerySchema>;
 
@@ -321,9 +388,7 @@ export const flatRateTaskInputSchema = z.object({
   active: z.boolean({ error: 'Say whether the task is offered.' }).default(true),
 });
 export type FlatRateTaskInput = z.infer<typeof flatRateTaskInputSchema>;
-export const flatRateTaskUpdateSchema = flatRateTaskInputSchema
-  .partial()
-  .refine((c) => Object.keys(c).length > 0, { error: 'Send at least one field to change.' });
+export const flatRateTaskUpdateSchema = flatRateTaskInputSchema.partial().refine((c) => Object.keys(c).length > 0, { error: 'Send at least one field to change.' });
 export type FlatRateTaskUpdate = z.infer<typeof flatRateTaskUpdateSchema>;
 
 // ---- Price-book responses ----
@@ -419,7 +484,10 @@ export type QuoteLineInput = z.infer<typeof quoteLineInputSchema>;
 export const quoteOptionInputSchema = z.object({
   title: z.string({ error: 'Name the option.' }).trim().min(1, 'Name the option, like "Replace the motor".').max(80, 'Keep the option name under 80 characters.'),
   description: z.preprocess(blankToUndefined, text('Option description', 1000).default('')),
-  lines: z.array(quoteLineInputSchema, { error: 'An option is a list of lines.' }).min(1, 'Add at least one line to the option.').max(LINES_PER_OPTION_MAX, `An option has at most ${LINES_PER_OPTION_MAX} lines.`),
+  lines: z
+    .array(quoteLineInputSchema, { error: 'An option is a list of lines.' })
+    .min(1, 'Add at least one line to the option.')
+    .max(LINES_PER_OPTION_MAX, `An option has at most ${LINES_PER_OPTION_MAX} lines.`),
 });
 export type QuoteOptionInput = z.infer<typeof quoteOptionInputSchema>;
 
@@ -427,7 +495,10 @@ const quoteBody = {
   equipmentId: z.preprocess(blankToNull, id('Choose the system the quote is for.').nullable()).default(null),
   note: z.preprocess(blankToUndefined, text('Note to the homeowner', 2000).default('')),
   photoIds: z.array(id('Choose photos from this visit.'), { error: 'Photos are a list.' }).max(12, 'Attach at most 12 photos.').default([]),
-  options: z.array(quoteOptionInputSchema, { error: 'A quote is a list of options.' }).min(1, 'Add at least one option.').max(OPTIONS_PER_QUOTE_MAX, `A quote has at most ${OPTIONS_PER_QUOTE_MAX} options.`),
+  options: z
+    .array(quoteOptionInputSchema, { error: 'A quote is a list of options.' })
+    .min(1, 'Add at least one option.')
+    .max(OPTIONS_PER_QUOTE_MAX, `A quote has at most ${OPTIONS_PER_QUOTE_MAX} options.`),
   /** Days the prices hold once sent. */
   validDays: wholeNumber('Days the quote holds', 1, 90).default(30),
 };
@@ -469,7 +540,12 @@ export const quoteListQuerySchema = z.object({
   sort: z.enum(QUOTE_SORTS, { error: `Sort by ${QUOTE_SORTS.join(', ')}.` }).default('createdAt'),
   dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('desc'),
   page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce.number({ error: 'Page size is a number.' }).int('Page size is a whole number.').min(1, 'Show at least 1 a page.').max(100, 'Show at most 100 a page.').default(25),
+  pageSize: z.coerce
+    .number({ error: 'Page size is a number.' })
+    .int('Page size is a whole number.')
+    .min(1, 'Show at least 1 a page.')
+    .max(100, 'Show at most 100 a page.')
+    .default(25),
 });
 export type QuoteListQuery = z.infer<typeof quoteListQuerySchema>;
 
@@ -654,29 +730,52 @@ export type SpeedTap = (typeof SPEED_TAPS)[number];
 export const failedMotorSchema = z
   .object({
     category: z.literal('motor'),
-    application: z.preprocess((v) => blankToNull(lowerWord(v)), z.enum(MOTOR_APPLICATIONS, { error: 'Use is indoor blower, condenser fan, draft inducer or other.' }).nullable()).default(null),
+    application: z
+      .preprocess((v) => blankToNull(lowerWord(v)), z.enum(MOTOR_APPLICATIONS, { error: 'Use is indoor blower, condenser fan, draft inducer or other.' }).nullable())
+      .default(null),
     horsepower: horsepowerValue('Horsepower'),
     /** The failed motor's nameplate volts. */
     volts: voltRanges('Volts'),
     /** The supply measured or known at the unit; matched on its own when given. */
-    supplyVolts: z.preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Supply volts is a number.' }).int('Supply volts is a whole number.').min(12, 'Supply volts is at least 12.').max(600, 'Supply volts is at most 600.').nullable()).default(null),
+    supplyVolts: z
+      .preprocess(
+        (v) => numberish(blankToNull(v)),
+        z
+          .number({ error: 'Supply volts is a number.' })
+          .int('Supply volts is a whole number.')
+          .min(12, 'Supply volts is at least 12.')
+          .max(600, 'Supply volts is at most 600.')
+          .nullable(),
+      )
+      .default(null),
     phase: phaseSchema,
     rpm: wholeNumber('RPM', 300, 3600),
     speeds: wholeNumber('Speeds', 1, 5),
     speedsUsed: wholeNumber('Speeds used', 1, 5),
     /** Which taps were wired, when the technician noted them. */
-    tapsInUse: z.array(z.enum(SPEED_TAPS, { error: `A speed tap is one of ${SPEED_TAPS.join(', ')}.` })).max(5, 'List at most 5 speed taps.').default([]),
+    tapsInUse: z
+      .array(z.enum(SPEED_TAPS, { error: `A speed tap is one of ${SPEED_TAPS.join(', ')}.` }))
+      .max(5, 'List at most 5 speed taps.')
+      .default([]),
     amps: amount('Rated amps', 0.1, 60, ' A'),
     /** The direction it turned in the unit; "unknown" when the nameplate said reversible and nobody checked. */
     rotation: z.preprocess(lowerWord, z.enum(['cw', 'ccw', 'unknown'], { error: 'Rotation is CW, CCW or unknown.' })),
-    rotationViewedFrom: z.preprocess((v) => blankToNull(lowerWord(v)), z.enum(ROTATION_VIEWS, { error: 'Say whether rotation is seen from the shaft end or the lead end.' }).nullable()).default(null),
+    rotationViewedFrom: z
+      .preprocess((v) => blankToNull(lowerWord(v)), z.enum(ROTATION_VIEWS, { error: 'Say whether rotation is seen from the shaft end or the lead end.' }).nullable())
+      .default(null),
     shaft: shaftSchema.nullable().default(null),
     frame: z.preprocess(blankToNull, text('Frame', 10).nullable()).default(null),
     /** The old run capacitor's µF, to say whether it can stay. */
-    oldCapacitorMicrofarads: z.preprocess((v) => numberish(blankToNull(v)), z.number({ error: 'Old capacitor µF is a number.' }).positive('Old capacitor µF is more than 0.').max(100, 'Old capacitor µF is at most 100.').nullable()).default(null),
+    oldCapacitorMicrofarads: z
+      .preprocess(
+        (v) => numberish(blankToNull(v)),
+        z.number({ error: 'Old capacitor µF is a number.' }).positive('Old capacitor µF is more than 0.').max(100, 'Old capacitor µF is at most 100.').nullable(),
+      )
+      .default(null),
   })
   .superRefine((m, ctx) => {
-    if (m.rotation !== 'unknown' && !m.rotationViewedFrom) ctx.addIssue({ code: 'custom', path: ['rotationViewedFrom'], message: 'Say whether rotation is seen from the shaft end or the lead end.' });
+    if (m.rotation !== 'unknown' && !m.rotationViewedFrom)
+      ctx.addIssue({ code: 'custom', path: ['rotationViewedFrom'], message: 'Say whether rotation is seen from the shaft end or the lead end.' });
     if (m.speedsUsed > m.speeds) ctx.addIssue({ code: 'custom', path: ['speedsUsed'], message: 'Speeds used cannot be more than the motor has.' });
     if (m.tapsInUse.length && m.tapsInUse.length !== m.speedsUsed) ctx.addIssue({ code: 'custom', path: ['tapsInUse'], message: 'List one tap for each speed used.' });
     if (new Set(m.tapsInUse).size !== m.tapsInUse.length) ctx.addIssue({ code: 'custom', path: ['tapsInUse'], message: 'List each tap once.' });
@@ -705,7 +804,10 @@ export const directInvoiceSchema = z.object({
   /** The visit the work was done on; its date decides the coverage. */
   visitId: z.preprocess(blankToNull, id('Choose the visit.').nullable()).default(null),
   equipmentId: z.preprocess(blankToNull, id('Choose the system the work was on.').nullable()).default(null),
-  lines: z.array(quoteLineInputSchema, { error: 'An invoice is a list of lines.' }).min(1, 'Add at least one line.').max(LINES_PER_OPTION_MAX, `At most ${LINES_PER_OPTION_MAX} lines.`),
+  lines: z
+    .array(quoteLineInputSchema, { error: 'An invoice is a list of lines.' })
+    .min(1, 'Add at least one line.')
+    .max(LINES_PER_OPTION_MAX, `At most ${LINES_PER_OPTION_MAX} lines.`),
   notes: z.preprocess(blankToUndefined, text('Notes', 2000).default('')),
   /** E-mail the homeowner a pay-online link as soon as it is issued. */
   sendPayLink: z.boolean({ error: 'Say whether to e-mail the pay-online link.' }).default(true),

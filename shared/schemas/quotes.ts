@@ -6,7 +6,11 @@ import type { QuoteOptionView, QuoteSummary } from './pricebook';
 // does not carry (lists, savings, parts used on a visit, stock movements).
 
 const wholeNumber = (label: string, min: number, max: number) =>
-  z.coerce.number({ error: `${label} is a number.` }).int(`${label} is a whole number.`).min(min, `${label} is at least ${min}.`).max(max, `${label} is at most ${max}.`);
+  z.coerce
+    .number({ error: `${label} is a number.` })
+    .int(`${label} is a whole number.`)
+    .min(min, `${label} is at least ${min}.`)
+    .max(max, `${label} is at most ${max}.`);
 
 export const quoteStatsQuerySchema = z.object({ periodDays: wholeNumber('Period', 1, 730).default(90) });
 export type QuoteStatsQuery = z.infer<typeof quoteStatsQuerySchema>;

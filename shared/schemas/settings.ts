@@ -24,16 +24,31 @@ const seasonMonth = seasonSettingsSchema.shape;
  */
 export const companySettingsSchema = z.object({
   name: z.string().trim().min(1, 'Company name is required.').max(120, 'Company name is at most 120 characters.'),
-  phone: z.string().trim().regex(/^\+[1-9]\d{6,14}$/, 'Phone in international form, for example +18165550142.'),
+  phone: z
+    .string()
+    .trim()
+    .regex(/^\+[1-9]\d{6,14}$/, 'Phone in international form, for example +18165550142.'),
   email: z.email('E-mail address is not valid.'),
   street: z.string().trim().min(1, 'Street is required.'),
   city: z.string().trim().min(1, 'City is required.'),
-  state: z.string().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'State is the two-letter code, for example MO.'),
-  zip: z.string().trim().regex(/^\d{5}(-\d{4})?$/, 'ZIP code has 5 digits (or ZIP+4).'),
+  state: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .regex(/^[A-Z]{2}$/, 'State is the two-letter code, for example MO.'),
+  zip: z
+    .string()
+    .trim()
+    .regex(/^\d{5}(-\d{4})?$/, 'ZIP code has 5 digits (or ZIP+4).'),
   timeZone: z.string().refine(validZone, 'Time zone is not one we know, for example America/Chicago.'),
   taxRateBps: z.number().int('Sales tax is a whole number of basis points.').min(0, 'Sales tax cannot be negative.').max(5000, 'Sales tax is at most 50 %.'),
   businessHours: z.object({ '1': day, '2': day, '3': day, '4': day, '5': day, '6': day, '7': day }),
-  arrivalWindowMinutes: z.number().int().min(30, 'Arrival windows are at least 30 minutes.').max(480, 'Arrival windows are at most 8 hours.').multipleOf(30, 'Arrival windows are in steps of 30 minutes.'),
+  arrivalWindowMinutes: z
+    .number()
+    .int()
+    .min(30, 'Arrival windows are at least 30 minutes.')
+    .max(480, 'Arrival windows are at most 8 hours.')
+    .multipleOf(30, 'Arrival windows are in steps of 30 minutes.'),
   leadTimeMinutes: z.number().int().min(0, 'Lead time cannot be negative.').max(10080, 'Lead time is at most a week.'),
   heldBackPct: z.number().int().min(0, 'Held-back share is 0–100 %.').max(100, 'Held-back share is 0–100 %.'),
   cancelCutoffHours: z.number().int().min(0, 'Cut-off cannot be negative.').max(168, 'Cut-off is at most a week.'),

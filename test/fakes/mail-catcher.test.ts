@@ -225,9 +225,7 @@ describe('SMTP catcher round trip', () => {
     expect(m.subject).toBe('Tune-up reminder — Ñandú Court');
     expect(m.headers.subject).toBe('Tune-up reminder — Ñandú Court');
     // RFC 2369 §3.2: angle-bracketed URLs, comma separated, in one field.
-    expect(m.headers['list-unsubscribe']).toBe(
-      '<https://portal.seasonwell.example.test/reminders/stop?r=abc>, <mailto:stop-reminders@seasonwell.example.test>',
-    );
+    expect(m.headers['list-unsubscribe']).toBe('<https://portal.seasonwell.example.test/reminders/stop?r=abc>, <mailto:stop-reminders@seasonwell.example.test>');
     // RFC 8058 §3.1: the one-click marker that accompanies an https unsubscribe URL.
     expect(m.headers['list-unsubscribe-post']).toBe('List-Unsubscribe=One-Click');
     // RFC 2919 §3: List-Id carries the identifier in angle brackets.
@@ -245,7 +243,10 @@ describe('SMTP catcher round trip', () => {
   });
 
   it('waits for mail that a background job sends a moment later', async () => {
-    const pending = request(app).get('/api/messages/latest').query({ to: 'late@example.test', waitMs: 5000 }).then((r) => r);
+    const pending = request(app)
+      .get('/api/messages/latest')
+      .query({ to: 'late@example.test', waitMs: 5000 })
+      .then((r) => r);
     setTimeout(() => void mailer.send({ to: 'late@example.test', subject: 'Renewal notice', text: 'Your agreement renews soon.' }), 150);
     const res = await pending;
     expect(res.status).toBe(200);
@@ -257,7 +258,10 @@ describe('SMTP catcher round trip', () => {
   it('serves the message source', async () => {
     await mailer.send({ to: 'dana.homeowner@example.test', subject: 'Source check', text: 'plain body' });
     const m = (await request(app).get('/api/messages/latest').expect(200)).body as MessageJson;
-    const src = await request(app).get(`/api/messages/${m.id}/raw`).expect(200).expect('Content-Type', /text\/plain/);
+    const src = await request(app)
+      .get(`/api/messages/${m.id}/raw`)
+      .expect(200)
+      .expect('Content-Type', /text\/plain/);
     expect(src.text).toMatch(/^Subject: Source check\r$/m);
   });
 });
@@ -267,9 +271,10 @@ describe('SMTP catcher limits and start-up', () => {
     const catcher = await startSmtpCatcher({ port: 0, sizeLimit: 4096 });
     const mailer = createMailer({ smtpUrl: `smtp://127.0.0.1:${catcher.port}`, from: FROM });
     try {
-      const err = await mailer
-        .send({ to: 'dana.homeowner@example.test', subject: 'Big', text: 'x'.repeat(20_000) })
-        .then(() => null, (e: unknown) => e);
+      const err = await mailer.send({ to: 'dana.homeowner@example.test', subject: 'Big', text: 'x'.repeat(20_000) }).then(
+        () => null,
+        (e: unknown) => e,
+      );
       expect(err).toBeInstanceOf(MailDeliveryError);
       // RFC 1870 §6 / RFC 5321 §4.2.3: 552 means the message exceeds the fixed maximum size.
       expect((err as MailDeliveryError).responseCode).toBe(552);
@@ -349,7 +354,10 @@ describe('SMTP catcher limits and start-up', () => {
     const mailer = createMailer({ smtpUrl: `smtp://user:pass@${external}:${catcher.port}`, from: FROM });
     try {
       // The catcher offers no STARTTLS, so a TLS-requiring client must stop before AUTH or DATA.
-      const err = await mailer.send({ to: 'dana.homeowner@example.test', subject: 'Secret', text: 'token=abc' }).then(() => null, (e: unknown) => e);
+      const err = await mailer.send({ to: 'dana.homeowner@example.test', subject: 'Secret', text: 'token=abc' }).then(
+        () => null,
+        (e: unknown) => e,
+      );
       expect(err).toBeInstanceOf(MailDeliveryError);
       expect((err as Error).message).toMatch(/STARTTLS/);
       expect(catcher.store.size).toBe(0);

@@ -26,7 +26,10 @@ describe('mailbox pages', () => {
   it('lists captured messages newest first with time, recipient and subject', async () => {
     await mailer.send({ to: 'first@example.test', subject: 'Fall tune-up booked', text: 'a' });
     await mailer.send({ to: 'second@example.test', subject: 'Repair quote ready', text: 'b' });
-    const res = await request(app).get('/').expect(200).expect('Content-Type', /text\/html/);
+    const res = await request(app)
+      .get('/')
+      .expect(200)
+      .expect('Content-Type', /text\/html/);
     const doc = parse(res.text);
     expect(doc.title).toBe('Seasonwell test mailbox');
     const rows = [...doc.querySelectorAll('tbody tr')];
@@ -94,9 +97,7 @@ describe('mailbox pages', () => {
     const res = await request(app).get(`/messages/${m.id}`).expect(200);
     const doc = parse(res.text);
 
-    const meta = Object.fromEntries(
-      [...doc.querySelectorAll('section[aria-label=Headers] dt')].map((dt) => [dt.textContent, dt.nextElementSibling?.textContent]),
-    );
+    const meta = Object.fromEntries([...doc.querySelectorAll('section[aria-label=Headers] dt')].map((dt) => [dt.textContent, dt.nextElementSibling?.textContent]));
     expect(meta.From).toContain('office@seasonwell.example.test');
     expect(meta.To).toBe('first@example.test');
     expect(meta.Subject).toBe('Visit confirmed');

@@ -72,7 +72,11 @@ describe('hosted payment page', () => {
     const html = await res.text();
     expect(html).toContain('<title>Test payment page</title>');
     expect(html).toContain('$199.00');
-    for (const [id, label] of [['card_number', 'Card number'], ['expiry', 'Expiry (MM/YY)'], ['cvc', 'CVC']]) {
+    for (const [id, label] of [
+      ['card_number', 'Card number'],
+      ['expiry', 'Expiry (MM/YY)'],
+      ['cvc', 'CVC'],
+    ]) {
       expect(html).toContain(`<label for="${id}">${label}</label>`);
       expect(html).toContain(`id="${id}"`);
     }

@@ -1,13 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  ReadingInputError,
-  evaluateReadings,
-  saturationPressurePsig,
-  visitReadingsSchema,
-  wetBulbF,
-  type ReadingCheck,
-  type VisitReadings,
-} from '../../shared/hvac';
+import { ReadingInputError, evaluateReadings, saturationPressurePsig, visitReadingsSchema, wetBulbF, type ReadingCheck, type VisitReadings } from '../../shared/hvac';
 
 function only(r: VisitReadings, check: string): ReadingCheck {
   const found = evaluateReadings(r).filter((c) => c.check === check);
@@ -80,9 +72,7 @@ describe('furnace temperature rise', () => {
   it('computes the rise from supply minus return in heating', () => {
     const c = only({ mode: 'heating', returnDryBulbF: 68, supplyDryBulbF: 118, riseRangeF: { min: 40, max: 70 } }, 'temperature_rise');
     expect(c.value).toBe(50);
-    expect(evaluateReadings({ mode: 'heating', returnDryBulbF: 68, supplyDryBulbF: 118 }).map((x) => x.check)).not.toContain(
-      'temperature_split',
-    );
+    expect(evaluateReadings({ mode: 'heating', returnDryBulbF: 68, supplyDryBulbF: 118 }).map((x) => x.check)).not.toContain('temperature_split');
   });
 
   it('asks for the nameplate range when none is entered', () => {

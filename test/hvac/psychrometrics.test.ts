@@ -30,19 +30,11 @@ describe('psychrometrics', () => {
 
   it('agrees with psychrolib across indoor and outdoor conditions', () => {
     fc.assert(
-      fc.property(
-        fc.double({ min: 40, max: 115, noNaN: true }),
-        fc.double({ min: 5, max: 100, noNaN: true }),
-        fc.double({ min: 0, max: 10000, noNaN: true }),
-        (db, rh, alt) => {
-          const p = ref.GetStandardAtmPressure(alt);
-          expect(wetBulbF({ dryBulbF: db, relativeHumidityPct: rh, altitudeFt: alt })).toBeCloseTo(
-            ref.GetTWetBulbFromRelHum(db, rh / 100, p),
-            9,
-          );
-          expect(dewPointF({ dryBulbF: db, relativeHumidityPct: rh })).toBeCloseTo(ref.GetTDewPointFromRelHum(db, rh / 100), 9);
-        },
-      ),
+      fc.property(fc.double({ min: 40, max: 115, noNaN: true }), fc.double({ min: 5, max: 100, noNaN: true }), fc.double({ min: 0, max: 10000, noNaN: true }), (db, rh, alt) => {
+        const p = ref.GetStandardAtmPressure(alt);
+        expect(wetBulbF({ dryBulbF: db, relativeHumidityPct: rh, altitudeFt: alt })).toBeCloseTo(ref.GetTWetBulbFromRelHum(db, rh / 100, p), 9);
+        expect(dewPointF({ dryBulbF: db, relativeHumidityPct: rh })).toBeCloseTo(ref.GetTDewPointFromRelHum(db, rh / 100), 9);
+      }),
       { numRuns: 200 },
     );
   });

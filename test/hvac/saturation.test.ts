@@ -3,15 +3,7 @@ import { fileURLToPath } from 'node:url';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { SATURATION_TABLE } from '../../shared/hvac/data/saturation-table';
-import {
-  REFRIGERANTS,
-  ReadingInputError,
-  saturationPressurePsig,
-  saturationTemperatureF,
-  subcoolingF,
-  superheatF,
-  type Refrigerant,
-} from '../../shared/hvac';
+import { REFRIGERANTS, ReadingInputError, saturationPressurePsig, saturationTemperatureF, subcoolingF, superheatF, type Refrigerant } from '../../shared/hvac';
 
 const csvPath = fileURLToPath(new URL('../../shared/hvac/data/refrigerant-saturation.csv', import.meta.url));
 const rows = readFileSync(csvPath, 'utf8')
@@ -35,9 +27,7 @@ function thrown(fn: () => unknown): ReadingInputError {
 
 describe('generated saturation table', () => {
   it('holds exactly the CSV rows', () => {
-    const fromModule = Object.entries(SATURATION_TABLE).flatMap(([refrigerant, r]) =>
-      r.tempF.map((t, k) => ({ refrigerant, t, bubble: r.bubblePsig[k], dew: r.dewPsig[k] })),
-    );
+    const fromModule = Object.entries(SATURATION_TABLE).flatMap(([refrigerant, r]) => r.tempF.map((t, k) => ({ refrigerant, t, bubble: r.bubblePsig[k], dew: r.dewPsig[k] })));
     expect(fromModule).toEqual(rows);
     expect(Object.keys(SATURATION_TABLE).sort()).toEqual([...REFRIGERANTS].sort());
   });
@@ -178,15 +168,9 @@ describe('superheat and subcooling', () => {
   });
 
   it('names the line reading that is out of range', () => {
-    expect(thrown(() => superheatF({ refrigerant: 'R-410A', suctionPressurePsig: -20, suctionLineTempF: 50 })).field).toBe(
-      'suctionPressurePsig',
-    );
-    expect(thrown(() => superheatF({ refrigerant: 'R-410A', suctionPressurePsig: 120, suctionLineTempF: Number.NaN })).field).toBe(
-      'suctionLineTempF',
-    );
-    expect(thrown(() => subcoolingF({ refrigerant: 'R-22', liquidPressurePsig: 5000, liquidLineTempF: 90 })).field).toBe(
-      'liquidPressurePsig',
-    );
+    expect(thrown(() => superheatF({ refrigerant: 'R-410A', suctionPressurePsig: -20, suctionLineTempF: 50 })).field).toBe('suctionPressurePsig');
+    expect(thrown(() => superheatF({ refrigerant: 'R-410A', suctionPressurePsig: 120, suctionLineTempF: Number.NaN })).field).toBe('suctionLineTempF');
+    expect(thrown(() => subcoolingF({ refrigerant: 'R-22', liquidPressurePsig: 5000, liquidLineTempF: 90 })).field).toBe('liquidPressurePsig');
   });
 });
 

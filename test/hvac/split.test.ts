@@ -19,7 +19,12 @@ describe('target split table', () => {
 
   it('interpolates between cells and gives no target outside the table', () => {
     const mid = targetSplitF({ returnDryBulbF: 75.5, returnWetBulbF: 61.5 })!;
-    const corners = [[75, 61], [75, 62], [76, 61], [76, 62]].map(([db, wb]) => targetSplitF({ returnDryBulbF: db!, returnWetBulbF: wb! })!);
+    const corners = [
+      [75, 61],
+      [75, 62],
+      [76, 61],
+      [76, 62],
+    ].map(([db, wb]) => targetSplitF({ returnDryBulbF: db!, returnWetBulbF: wb! })!);
     expect(mid).toBeCloseTo(corners.reduce((a, x) => a + x, 0) / 4, 6); // bilinear at the centre is the mean of the corners
     expect(targetSplitF({ returnDryBulbF: 69, returnWetBulbF: 60 })).toBeNull();
     expect(targetSplitF({ returnDryBulbF: 85, returnWetBulbF: 60 })).toBeNull();
@@ -27,9 +32,7 @@ describe('target split table', () => {
   });
 
   it('has no cell where the wet bulb would exceed the dry bulb', () => {
-    TARGET_SPLIT_TABLE.dryBulbF.forEach((db, i) =>
-      TARGET_SPLIT_TABLE.wetBulbF.forEach((wb, j) => expect(TARGET_SPLIT_TABLE.splitF[i]![j] === null).toBe(wb > db)),
-    );
+    TARGET_SPLIT_TABLE.dryBulbF.forEach((db, i) => TARGET_SPLIT_TABLE.wetBulbF.forEach((wb, j) => expect(TARGET_SPLIT_TABLE.splitF[i]![j] === null).toBe(wb > db)));
   });
 
   it('says the method does not apply outside the table', () => {
@@ -53,10 +56,7 @@ describe('the same air, entered two ways', () => {
       expect(byRh.status).toBe(byWb.status);
       expect(byRh.expected).toEqual(byWb.expected);
     }
-    expect(coolingSplitTargetF({ returnDryBulbF: db, returnRelativeHumidityPct: rh, altitudeFt })).toBeCloseTo(
-      coolingSplitTargetF({ returnDryBulbF: db, returnWetBulbF: wb })!,
-      2,
-    );
+    expect(coolingSplitTargetF({ returnDryBulbF: db, returnRelativeHumidityPct: rh, altitudeFt })).toBeCloseTo(coolingSplitTargetF({ returnDryBulbF: db, returnWetBulbF: wb })!, 2);
   });
 
   it('80 °F DB and 51 % RH is the 80/67 air and gets its target', () => {

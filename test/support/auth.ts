@@ -63,7 +63,11 @@ export async function signInHomeowner(app: AppLike, email: string): Promise<Sign
   const deps = depsOf(app);
   if (!deps) throw new Error('signInHomeowner needs the testApp() context ({ app, deps }), not the bare Express app');
   const db = deps.database.db;
-  const [user] = await db.select({ id: users.id, email: users.email, role: users.role }).from(users).where(eq(users.email, normaliseEmail(email))).limit(1);
+  const [user] = await db
+    .select({ id: users.id, email: users.email, role: users.role })
+    .from(users)
+    .where(eq(users.email, normaliseEmail(email)))
+    .limit(1);
   if (!user || user.role !== 'homeowner') throw new Error(`no homeowner with e-mail ${email}`);
   const token = await issueLink(db, deps.config.JWT_SECRET, deps.clock(), user, 'sign_in', SIGN_IN_LINK_MINUTES);
   const { agent, csrf } = await anonymous(app);

@@ -65,13 +65,46 @@ export const BODY_IDS: BodyIdRow[] = [
   { who: 'technician', route: 'POST /api/equipment', field: 'propertyId', expect: 'refused', body: (f) => ({ propertyId: f.propertyV, kind: 'gas_furnace' }) },
   { who: 'technician', route: 'POST /api/files', field: 'equipmentId', expect: 'refused', form: (f) => ({ equipmentId: f.equipmentV }) },
   { who: 'technician', route: 'POST /api/files', field: 'propertyId', expect: 'refused', form: (f) => ({ propertyId: f.propertyV }) },
-  { who: 'office', route: 'POST /api/customers/:id/notes', field: 'propertyId', expect: 'refused', path: (f) => `/api/customers/${f.customerS}/notes`, body: (f) => ({ propertyId: f.propertyV, audience: 'office', body: 'Dog in the yard.' }) },
-  { who: 'office', route: 'POST /api/customers/:id/merge', field: 'sourceId', expect: 'refused', path: (f) => `/api/customers/${f.customerS}/merge`, body: () => ({ sourceId: NO_SUCH_ID }) },
-  { who: 'office', route: 'POST /api/invoices', field: 'customerId', expect: 'refused', body: () => ({ customerId: NO_SUCH_ID, lines: [{ kind: 'parts', description: 'Capacitor', quantity: 1, unitCents: 4500, taxable: true }] }) },
+  {
+    who: 'office',
+    route: 'POST /api/customers/:id/notes',
+    field: 'propertyId',
+    expect: 'refused',
+    path: (f) => `/api/customers/${f.customerS}/notes`,
+    body: (f) => ({ propertyId: f.propertyV, audience: 'office', body: 'Dog in the yard.' }),
+  },
+  {
+    who: 'office',
+    route: 'POST /api/customers/:id/merge',
+    field: 'sourceId',
+    expect: 'refused',
+    path: (f) => `/api/customers/${f.customerS}/merge`,
+    body: () => ({ sourceId: NO_SUCH_ID }),
+  },
+  {
+    who: 'office',
+    route: 'POST /api/invoices',
+    field: 'customerId',
+    expect: 'refused',
+    body: () => ({ customerId: NO_SUCH_ID, lines: [{ kind: 'parts', description: 'Capacitor', quantity: 1, unitCents: 4500, taxable: true }] }),
+  },
   { who: 'office', route: 'POST /api/renewals/notices', field: 'agreementIds', expect: 'ignored', body: () => ({ agreementIds: [NO_SUCH_ID] }) },
   { who: 'office', route: 'POST /api/auth/household-invitations', field: 'customerId', expect: 'refused', body: () => ({ customerId: NO_SUCH_ID }) },
-  { who: 'office', route: 'POST /api/dispatch/visits/:id/assign', field: 'technicianId', expect: 'refused', path: (f) => `/api/dispatch/visits/${f.visitB}/assign`, body: () => ({ technicianId: NO_SUCH_ID }) },
-  { who: 'office', route: 'POST /api/dispatch/time-off', field: 'technicianId', expect: 'refused', body: () => ({ technicianId: NO_SUCH_ID, startsAt: new Date(Date.now() + 86_400_000).toISOString(), endsAt: new Date(Date.now() + 93_600_000).toISOString() }) },
+  {
+    who: 'office',
+    route: 'POST /api/dispatch/visits/:id/assign',
+    field: 'technicianId',
+    expect: 'refused',
+    path: (f) => `/api/dispatch/visits/${f.visitB}/assign`,
+    body: () => ({ technicianId: NO_SUCH_ID }),
+  },
+  {
+    who: 'office',
+    route: 'POST /api/dispatch/time-off',
+    field: 'technicianId',
+    expect: 'refused',
+    body: () => ({ technicianId: NO_SUCH_ID, startsAt: new Date(Date.now() + 86_400_000).toISOString(), endsAt: new Date(Date.now() + 93_600_000).toISOString() }),
+  },
 ];
 
 /**
@@ -82,7 +115,10 @@ export async function householdRowCounts(db: Db, customerIds: string[]): Promise
   const tables = await db.execute<{ table_name: string }>(
     sql`select table_name from information_schema.columns where table_schema = 'public' and column_name = 'customer_id' order by table_name`,
   );
-  const ids = sql.join(customerIds.map((id) => sql`${id}::uuid`), sql`, `);
+  const ids = sql.join(
+    customerIds.map((id) => sql`${id}::uuid`),
+    sql`, `,
+  );
   const parts = tables.rows.map((t) => sql`select ${t.table_name}::text as t, count(*)::int as n from ${sql.identifier(t.table_name)} where customer_id in (${ids})`);
   parts.push(sql`select 'equipment'::text as t, count(*)::int as n from equipment e join properties p on p.id = e.property_id where p.customer_id in (${ids})`);
   const rows = await db.execute<{ t: string; n: number }>(sql.join(parts, sql` union all `));

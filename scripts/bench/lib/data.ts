@@ -76,7 +76,13 @@ export interface CalendarShape {
 export async function generateCalendar(pool: pg.Pool, shape: CalendarShape): Promise<{ technicianIds: string[]; visits: number }> {
   const slots = shape.slots ?? ['08:00', '09:45', '11:30', '13:15', '15:00'];
   const have = Number((await pool.query(`select count(*) from technicians where active`)).rows[0].count);
-  const hours = JSON.stringify({ '1': { start: '08:00', end: '17:00' }, '2': { start: '08:00', end: '17:00' }, '3': { start: '08:00', end: '17:00' }, '4': { start: '08:00', end: '17:00' }, '5': { start: '08:00', end: '17:00' } });
+  const hours = JSON.stringify({
+    '1': { start: '08:00', end: '17:00' },
+    '2': { start: '08:00', end: '17:00' },
+    '3': { start: '08:00', end: '17:00' },
+    '4': { start: '08:00', end: '17:00' },
+    '5': { start: '08:00', end: '17:00' },
+  });
   if (shape.technicians > have) {
     await pool.query(
       `with u as (insert into users (email, name, role) select 'bench.tech' || i || '@example.test', 'Bench Technician ' || i, 'technician' from generate_series(1, $1) i returning id)

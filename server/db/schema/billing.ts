@@ -62,7 +62,9 @@ export const invoices = pgTable(
   (t) => [
     uniqueIndex('invoices_number_key').on(t.number),
     // One renewal invoice per agreement term: a re-run of the renewal engine finds the same one.
-    uniqueIndex('invoices_agreement_term_key').on(t.agreementId, t.termStartsOn, t.purpose).where(sql`${t.purpose} in ('enrollment', 'renewal') and ${t.status} <> 'void'`),
+    uniqueIndex('invoices_agreement_term_key')
+      .on(t.agreementId, t.termStartsOn, t.purpose)
+      .where(sql`${t.purpose} in ('enrollment', 'renewal') and ${t.status} <> 'void'`),
     index('invoices_customer_idx').on(t.customerId),
     index('invoices_status_idx').on(t.status),
     check('invoices_status', sql.raw(`status in (${inList(INVOICE_STATUSES)})`)),
@@ -170,7 +172,9 @@ export const renewalNotices = pgTable(
     sentAt: createdAt(),
   },
   (t) => [
-    uniqueIndex('renewal_notices_once_key').on(t.agreementId, t.termEndsOn, t.daysBefore).where(sql`${t.daysBefore} is not null`),
+    uniqueIndex('renewal_notices_once_key')
+      .on(t.agreementId, t.termEndsOn, t.daysBefore)
+      .where(sql`${t.daysBefore} is not null`),
     index('renewal_notices_agreement_idx').on(t.agreementId),
   ],
 );

@@ -25,10 +25,7 @@ export const visitEvents = pgTable(
     technicianId: uuid().references(() => technicians.id, { onDelete: 'set null' }),
     note: text().notNull().default(''),
   },
-  (t) => [
-    index('visit_events_visit_idx').on(t.visitId, t.at),
-    check('visit_events_action', sql.raw(`action in (${inList(VISIT_EVENT_ACTIONS)})`)),
-  ],
+  (t) => [index('visit_events_visit_idx').on(t.visitId, t.at), check('visit_events_action', sql.raw(`action in (${inList(VISIT_EVENT_ACTIONS)})`))],
 );
 
 // Days or hours a technician is not available (vacation, training, sick).
@@ -44,10 +41,7 @@ export const technicianTimeOff = pgTable(
     reason: text().notNull().default(''),
     createdAt: createdAt(),
   },
-  (t) => [
-    index('technician_time_off_tech_idx').on(t.technicianId, t.startsAt),
-    check('technician_time_off_span', sql`${t.endsAt} > ${t.startsAt}`),
-  ],
+  (t) => [index('technician_time_off_tech_idx').on(t.technicianId, t.startsAt), check('technician_time_off_span', sql`${t.endsAt} > ${t.startsAt}`)],
 );
 
 // Private calendar feed links; only the sha-256 of the token is kept, and revoking ends the link.
@@ -65,7 +59,9 @@ export const calendarFeedTokens = pgTable(
   (t) => [
     uniqueIndex('calendar_feed_tokens_hash_key').on(t.tokenHash),
     // At most one live link per technician.
-    uniqueIndex('calendar_feed_tokens_live_key').on(t.technicianId).where(sql`${t.revokedAt} is null`),
+    uniqueIndex('calendar_feed_tokens_live_key')
+      .on(t.technicianId)
+      .where(sql`${t.revokedAt} is null`),
   ],
 );
 

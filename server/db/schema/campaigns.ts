@@ -97,7 +97,7 @@ export const householdReminderSettings = pgTable(
     emailOff: text({ enum: REMINDER_KINDS }).array().notNull().default([]),
     updatedAt: updatedAt(),
   },
-  (t) => [
+  () => [
     check('household_reminder_factors', sql.raw(`factors <@ array[${inList(HOUSEHOLD_FACTORS)}]::text[]`)),
     check('household_reminder_email_off', sql.raw(`email_off <@ array[${inList(REMINDER_KINDS)}]::text[]`)),
   ],

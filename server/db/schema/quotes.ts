@@ -86,7 +86,10 @@ export const quoteOptions = pgTable(
     taxCents: integer().notNull(),
     totalCents: integer().notNull(),
   },
-  (t) => [uniqueIndex('quote_options_position_key').on(t.revisionId, t.position), check('quote_options_amounts', sql`${t.subtotalCents} >= 0 and ${t.savingsCents} >= 0 and ${t.taxCents} >= 0 and ${t.totalCents} >= 0`)],
+  (t) => [
+    uniqueIndex('quote_options_position_key').on(t.revisionId, t.position),
+    check('quote_options_amounts', sql`${t.subtotalCents} >= 0 and ${t.savingsCents} >= 0 and ${t.taxCents} >= 0 and ${t.totalCents} >= 0`),
+  ],
 );
 
 /** A line as quoted: its price copied from the item version, with the coverage outcome and reason. */
@@ -119,7 +122,10 @@ export const quoteLines = pgTable(
   },
   (t) => [
     uniqueIndex('quote_lines_position_key').on(t.optionId, t.position),
-    check('quote_lines_amounts', sql`${t.quantity} > 0 and ${t.unitCents} >= 0 and ${t.savingsCents} >= 0 and ${t.chargedCents} >= 0 and ${t.grossCents} = ${t.savingsCents} + ${t.chargedCents}`),
+    check(
+      'quote_lines_amounts',
+      sql`${t.quantity} > 0 and ${t.unitCents} >= 0 and ${t.savingsCents} >= 0 and ${t.chargedCents} >= 0 and ${t.grossCents} = ${t.savingsCents} + ${t.chargedCents}`,
+    ),
   ],
 );
 
@@ -143,6 +149,9 @@ export const quoteApprovals = pgTable(
   },
   (t) => [
     uniqueIndex('quote_approvals_revision_key').on(t.quoteId, t.revision),
-    check('quote_approvals_outcome', sql`(${t.outcome} = 'approved' and ${t.optionId} is not null and ${t.typedName} is not null) or (${t.outcome} = 'declined' and ${t.declineReason} is not null)`),
+    check(
+      'quote_approvals_outcome',
+      sql`(${t.outcome} = 'approved' and ${t.optionId} is not null and ${t.typedName} is not null) or (${t.outcome} = 'declined' and ${t.declineReason} is not null)`,
+    ),
   ],
 );

@@ -22,10 +22,7 @@ export const contacts = pgTable(
     isPrimary: boolean().notNull().default(false),
     createdAt: createdAt(),
   },
-  (t) => [
-    index('contacts_customer_idx').on(t.customerId),
-    check('contacts_phone_e164', sql`${t.phone} is null or ${t.phone} ~ '^\\+[1-9][0-9]{6,14}$'`),
-  ],
+  (t) => [index('contacts_customer_idx').on(t.customerId), check('contacts_phone_e164', sql`${t.phone} is null or ${t.phone} ~ '^\\+[1-9][0-9]{6,14}$'`)],
 );
 
 // Office notes and the homeowner's notes for the technician, on the household's timeline.

@@ -69,9 +69,39 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
   }
 
   const planRows = [
-    { code: 'two-season', name: 'Two-Season Care', description: 'A cooling tune-up in spring and a heating tune-up in fall.', price: 17900, extra: 8900, discount: 1000, waived: true, priority: 72, extras: [] as string[] },
-    { code: 'priority-comfort', name: 'Priority Comfort', description: 'Both tune-ups, front-of-the-line service and a bigger repair discount.', price: 25900, extra: 12900, discount: 1500, waived: true, priority: 24, extras: ['Standard 1-inch filters at each tune-up'] },
-    { code: 'whole-home', name: 'Whole Home Plus', description: 'Everything in Priority Comfort, plus coil cleaning, condensate line care and humidifier service.', price: 36900, extra: 16900, discount: 2000, waived: true, priority: 12, extras: ['Filters at each tune-up', 'Outdoor coil cleaning once a year', 'Condensate line flush', 'Humidifier pad'] },
+    {
+      code: 'two-season',
+      name: 'Two-Season Care',
+      description: 'A cooling tune-up in spring and a heating tune-up in fall.',
+      price: 17900,
+      extra: 8900,
+      discount: 1000,
+      waived: true,
+      priority: 72,
+      extras: [] as string[],
+    },
+    {
+      code: 'priority-comfort',
+      name: 'Priority Comfort',
+      description: 'Both tune-ups, front-of-the-line service and a bigger repair discount.',
+      price: 25900,
+      extra: 12900,
+      discount: 1500,
+      waived: true,
+      priority: 24,
+      extras: ['Standard 1-inch filters at each tune-up'],
+    },
+    {
+      code: 'whole-home',
+      name: 'Whole Home Plus',
+      description: 'Everything in Priority Comfort, plus coil cleaning, condensate line care and humidifier service.',
+      price: 36900,
+      extra: 16900,
+      discount: 2000,
+      waived: true,
+      priority: 12,
+      extras: ['Filters at each tune-up', 'Outdoor coil cleaning once a year', 'Condensate line flush', 'Humidifier pad'],
+    },
   ];
   const planVersionIds: { id: string; price: number; extra: number }[] = [];
   for (const [i, p] of planRows.entries()) {
@@ -137,7 +167,22 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
     const warranty = installed.plus({ years: 10 }).toISODate()!;
     const base = { propertyId, make, installedOn, warrantyEndsOn: warranty };
     if (geo) {
-      equipmentRows.push({ ...base, kind: 'geothermal_heat_pump', model: 'GW-036', serial: serial(), refrigerant: 'R-410A', meteringDevice: 'txv', capacityBtuh: 36000, volts: 230, phase: 1, ratedAmps: 17.9, filterSize: '20x25x4', filterType: 'Pleated media', merv: 11, location: 'Basement' });
+      equipmentRows.push({
+        ...base,
+        kind: 'geothermal_heat_pump',
+        model: 'GW-036',
+        serial: serial(),
+        refrigerant: 'R-410A',
+        meteringDevice: 'txv',
+        capacityBtuh: 36000,
+        volts: 230,
+        phase: 1,
+        ratedAmps: 17.9,
+        filterSize: '20x25x4',
+        filterType: 'Pleated media',
+        merv: 11,
+        location: 'Basement',
+      });
     } else {
       const outdoorKind: EquipmentKind = heatPump ? 'heat_pump' : 'condensing_unit';
       equipmentRows.push({
@@ -155,12 +200,43 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
         location: rnd.pick(['Side yard', 'Back yard', 'Roof']),
       });
       if (heatPump) {
-        equipmentRows.push({ ...base, kind: 'air_handler', model: `AH${Math.round(tons * 12)}`, serial: serial(), volts: 230, phase: 1, ratedAmps: 6.8, filterSize: '16x25x1', filterType: 'Pleated', merv: 8, location: 'Hall closet' });
+        equipmentRows.push({
+          ...base,
+          kind: 'air_handler',
+          model: `AH${Math.round(tons * 12)}`,
+          serial: serial(),
+          volts: 230,
+          phase: 1,
+          ratedAmps: 6.8,
+          filterSize: '16x25x1',
+          filterType: 'Pleated',
+          merv: 8,
+          location: 'Hall closet',
+        });
       } else {
-        equipmentRows.push({ ...base, kind: 'gas_furnace', model: `GF${rnd.pick([60, 80, 100])}`, serial: serial(), volts: 115, phase: 1, ratedAmps: 7.4, filterSize: rnd.pick(['16x25x1', '20x25x1', '16x25x4']), filterType: 'Pleated', merv: rnd.pick([8, 11, 13]), location: rnd.pick(['Basement', 'Attic', 'Garage']) });
+        equipmentRows.push({
+          ...base,
+          kind: 'gas_furnace',
+          model: `GF${rnd.pick([60, 80, 100])}`,
+          serial: serial(),
+          volts: 115,
+          phase: 1,
+          ratedAmps: 7.4,
+          filterSize: rnd.pick(['16x25x1', '20x25x1', '16x25x4']),
+          filterType: 'Pleated',
+          merv: rnd.pick([8, 11, 13]),
+          location: rnd.pick(['Basement', 'Attic', 'Garage']),
+        });
       }
     }
-    equipmentRows.push({ propertyId, kind: 'thermostat', make: rnd.pick(MAKES), model: 'T-7', installedOn: today.minus({ years: rnd.int(1, 6) }).toISODate()!, location: 'Hallway' });
+    equipmentRows.push({
+      propertyId,
+      kind: 'thermostat',
+      make: rnd.pick(MAKES),
+      model: 'T-7',
+      installedOn: today.minus({ years: rnd.int(1, 6) }).toISODate()!,
+      location: 'Hallway',
+    });
     if (h % 4 === 1) equipmentRows.push({ propertyId, kind: 'condensate_pump', make: rnd.pick(MAKES), model: 'CP-1', installedOn, location: 'Beside the furnace' });
     if (h === VARIABLE_SPEED_HOUSEHOLD) variableSpeedOutdoorUnit(equipmentRows);
     await tx.insert(t.equipment).values(equipmentRows);
@@ -176,7 +252,17 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
       const status = endsIn < 0 ? 'past_due' : endsIn <= 60 ? 'renewal_due' : 'active';
       const [agreement] = await tx
         .insert(t.agreements)
-        .values({ customerId, propertyId, planVersionId: tier.id, status, startsOn: startsOn.toISODate()!, endsOn: endsOn.toISODate()!, priceCents: tier.price, systemsCount: 1, autoRenew: rnd.chance(0.4) && !demoEndsSoon })
+        .values({
+          customerId,
+          propertyId,
+          planVersionId: tier.id,
+          status,
+          startsOn: startsOn.toISODate()!,
+          endsOn: endsOn.toISODate()!,
+          priceCents: tier.price,
+          systemsCount: 1,
+          autoRenew: rnd.chance(0.4) && !demoEndsSoon,
+        })
         .returning({ id: t.agreements.id });
       agreementId = agreement!.id;
     }
@@ -185,12 +271,23 @@ async function seedInto(tx: Tx, rnd: Random, today: DateTime) {
 
   await seedVisits(tx, rnd, today, households, technicianIds);
   const trucks = await tx.select({ id: t.technicians.id, truck: t.technicians.truck }).from(t.technicians);
-  await (await import('./pricebook')).seedPriceBook(tx, technicianIds.map((id) => ({ id, truck: trucks.find((x) => x.id === id)?.truck ?? '' })));
+  await (
+    await import('./pricebook')
+  ).seedPriceBook(
+    tx,
+    technicianIds.map((id) => ({ id, truck: trucks.find((x) => x.id === id)?.truck ?? '' })),
+  );
   await (await import('./field')).seedFieldReadings(tx, COMPANY.timeZone);
 }
 
 /** A year of past visits plus a few upcoming ones, one technician slot at a time so none overlap. */
-async function seedVisits(tx: Tx, rnd: Random, today: DateTime, households: { customerId: string; propertyId: string; agreementId: string | null; hasGas: boolean; geo: boolean }[], technicianIds: string[]) {
+async function seedVisits(
+  tx: Tx,
+  rnd: Random,
+  today: DateTime,
+  households: { customerId: string; propertyId: string; agreementId: string | null; hasGas: boolean; geo: boolean }[],
+  technicianIds: string[],
+) {
   const rows: (typeof t.visits.$inferInsert)[] = [];
   const slotHours = [8, 10, 13, 15];
   const used = new Set<string>();

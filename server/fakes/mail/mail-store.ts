@@ -129,8 +129,7 @@ export class MailStore {
    * Mail is sent from background jobs, so a test usually has to wait a moment for it.
    */
   waitForLatest(filter: { to?: string; after?: Date } = {}, timeoutMs = 5000): Promise<CapturedMessage | undefined> {
-    const matches = (m: CapturedMessage): boolean =>
-      (!filter.to || addressedTo(m, filter.to)) && (!filter.after || m.receivedAt > filter.after);
+    const matches = (m: CapturedMessage): boolean => (!filter.to || addressedTo(m, filter.to)) && (!filter.after || m.receivedAt > filter.after);
     const existing = this.list().find(matches);
     if (existing || timeoutMs <= 0) return Promise.resolve(existing);
     return new Promise((resolve) => {

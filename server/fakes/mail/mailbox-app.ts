@@ -3,8 +3,7 @@ import { toMessageJson, type CapturedMessage, type MailStore } from './mail-stor
 import { renderMessage, renderMessageList, renderNotFound } from './mailbox-pages';
 
 // Pages and srcdoc frames inherit this: no scripts anywhere, no remote images, fonts or styles.
-const PAGE_CSP =
-  "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'self'; frame-ancestors 'self'";
+const PAGE_CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'self'; frame-ancestors 'self'";
 
 const MAX_WAIT_MS = 30_000;
 

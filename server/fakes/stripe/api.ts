@@ -1,13 +1,7 @@
 import express, { type Request, type Response } from 'express';
 import { randomBytes } from 'node:crypto';
 import { listCharges, retrieveCharge } from './charges';
-import {
-  createCheckoutSession,
-  expireCheckoutSession,
-  listCheckoutLineItems,
-  listCheckoutSessions,
-  retrieveCheckoutSession,
-} from './checkout-sessions';
+import { createCheckoutSession, expireCheckoutSession, listCheckoutLineItems, listCheckoutSessions, retrieveCheckoutSession } from './checkout-sessions';
 import { createCustomer, deleteCustomer, listCustomers, retrieveCustomer, updateCustomer } from './customers';
 import { FAKE_API_VERSION, type Engine, type RequestInfo } from './engine';
 import { errorTypeForStatus, FakeStripeError } from './errors';
@@ -23,13 +17,7 @@ import {
   retrievePaymentIntent,
   updatePaymentIntent,
 } from './payment-intents';
-import {
-  attachPaymentMethod,
-  createPaymentMethod,
-  detachPaymentMethod,
-  listPaymentMethods,
-  retrievePaymentMethod,
-} from './payment-methods';
+import { attachPaymentMethod, createPaymentMethod, detachPaymentMethod, listPaymentMethods, retrievePaymentMethod } from './payment-methods';
 import { createRefund, listRefunds, retrieveRefund } from './refunds';
 import { cancelSetupIntent, confirmSetupIntent, createSetupIntent, retrieveSetupIntent } from './setup-intents';
 
@@ -91,9 +79,7 @@ function apiKeyOf(req: Request, deps: ApiDeps): string {
 }
 
 function takeFault(req: Request, faults: Fault[]): Fault | undefined {
-  const i = faults.findIndex(
-    (f) => f.times > 0 && req.originalUrl.split('?')[0]!.startsWith(f.path) && (!f.method || f.method.toUpperCase() === req.method),
-  );
+  const i = faults.findIndex((f) => f.times > 0 && req.originalUrl.split('?')[0]!.startsWith(f.path) && (!f.method || f.method.toUpperCase() === req.method));
   if (i < 0) return undefined;
   const f = faults[i]!;
   f.times--;
@@ -192,47 +178,149 @@ export function createApiRouter(deps: ApiDeps): express.Router {
 
   const id = (req: Request, name = 'id') => String(req.params[name]);
 
-  router.post('/customers', run((_r, _i, p) => createCustomer(e, p)));
-  router.get('/customers', run((_r, _i, p) => listCustomers(e, p)));
-  router.get('/customers/:id', run((r, _i, p) => retrieveCustomer(e, id(r), p)));
-  router.post('/customers/:id', run((r, _i, p) => updateCustomer(e, id(r), p)));
-  router.delete('/customers/:id', run((r) => deleteCustomer(e, id(r))));
-  router.get('/customers/:id/payment_methods', run((r, _i, p) => listPaymentMethods(e, p, id(r))));
+  router.post(
+    '/customers',
+    run((_r, _i, p) => createCustomer(e, p)),
+  );
+  router.get(
+    '/customers',
+    run((_r, _i, p) => listCustomers(e, p)),
+  );
+  router.get(
+    '/customers/:id',
+    run((r, _i, p) => retrieveCustomer(e, id(r), p)),
+  );
+  router.post(
+    '/customers/:id',
+    run((r, _i, p) => updateCustomer(e, id(r), p)),
+  );
+  router.delete(
+    '/customers/:id',
+    run((r) => deleteCustomer(e, id(r))),
+  );
+  router.get(
+    '/customers/:id/payment_methods',
+    run((r, _i, p) => listPaymentMethods(e, p, id(r))),
+  );
 
-  router.post('/payment_methods', run((_r, _i, p) => createPaymentMethod(e, p)));
-  router.get('/payment_methods', run((_r, _i, p) => listPaymentMethods(e, p)));
-  router.get('/payment_methods/:id', run((r) => retrievePaymentMethod(e, id(r))));
-  router.post('/payment_methods/:id/attach', run((r, _i, p) => attachPaymentMethod(e, id(r), p)));
-  router.post('/payment_methods/:id/detach', run((r) => detachPaymentMethod(e, id(r))));
+  router.post(
+    '/payment_methods',
+    run((_r, _i, p) => createPaymentMethod(e, p)),
+  );
+  router.get(
+    '/payment_methods',
+    run((_r, _i, p) => listPaymentMethods(e, p)),
+  );
+  router.get(
+    '/payment_methods/:id',
+    run((r) => retrievePaymentMethod(e, id(r))),
+  );
+  router.post(
+    '/payment_methods/:id/attach',
+    run((r, _i, p) => attachPaymentMethod(e, id(r), p)),
+  );
+  router.post(
+    '/payment_methods/:id/detach',
+    run((r) => detachPaymentMethod(e, id(r))),
+  );
 
-  router.post('/setup_intents', run((_r, i, p) => createSetupIntent(e, p, i)));
-  router.get('/setup_intents/:id', run((r, _i, p) => retrieveSetupIntent(e, id(r), p)));
-  router.post('/setup_intents/:id/confirm', run((r, i, p) => confirmSetupIntent(e, id(r), p, i)));
-  router.post('/setup_intents/:id/cancel', run((r, _i, p) => cancelSetupIntent(e, id(r), p)));
+  router.post(
+    '/setup_intents',
+    run((_r, i, p) => createSetupIntent(e, p, i)),
+  );
+  router.get(
+    '/setup_intents/:id',
+    run((r, _i, p) => retrieveSetupIntent(e, id(r), p)),
+  );
+  router.post(
+    '/setup_intents/:id/confirm',
+    run((r, i, p) => confirmSetupIntent(e, id(r), p, i)),
+  );
+  router.post(
+    '/setup_intents/:id/cancel',
+    run((r, _i, p) => cancelSetupIntent(e, id(r), p)),
+  );
 
-  router.post('/payment_intents', run((_r, i, p) => createPaymentIntent(e, p, i)));
-  router.get('/payment_intents', run((_r, _i, p) => listPaymentIntents(e, p)));
-  router.get('/payment_intents/:id', run((r, _i, p) => retrievePaymentIntent(e, id(r), p)));
-  router.post('/payment_intents/:id', run((r, _i, p) => updatePaymentIntent(e, id(r), p)));
-  router.post('/payment_intents/:id/confirm', run((r, i, p) => confirmPaymentIntent(e, id(r), p, i)));
-  router.post('/payment_intents/:id/capture', run((r, i, p) => capturePaymentIntent(e, id(r), p, i)));
-  router.post('/payment_intents/:id/cancel', run((r, i, p) => cancelPaymentIntent(e, id(r), p, i)));
+  router.post(
+    '/payment_intents',
+    run((_r, i, p) => createPaymentIntent(e, p, i)),
+  );
+  router.get(
+    '/payment_intents',
+    run((_r, _i, p) => listPaymentIntents(e, p)),
+  );
+  router.get(
+    '/payment_intents/:id',
+    run((r, _i, p) => retrievePaymentIntent(e, id(r), p)),
+  );
+  router.post(
+    '/payment_intents/:id',
+    run((r, _i, p) => updatePaymentIntent(e, id(r), p)),
+  );
+  router.post(
+    '/payment_intents/:id/confirm',
+    run((r, i, p) => confirmPaymentIntent(e, id(r), p, i)),
+  );
+  router.post(
+    '/payment_intents/:id/capture',
+    run((r, i, p) => capturePaymentIntent(e, id(r), p, i)),
+  );
+  router.post(
+    '/payment_intents/:id/cancel',
+    run((r, i, p) => cancelPaymentIntent(e, id(r), p, i)),
+  );
 
-  router.get('/charges', run((_r, _i, p) => listCharges(e, p)));
-  router.get('/charges/:id', run((r, _i, p) => retrieveCharge(e, id(r), p)));
+  router.get(
+    '/charges',
+    run((_r, _i, p) => listCharges(e, p)),
+  );
+  router.get(
+    '/charges/:id',
+    run((r, _i, p) => retrieveCharge(e, id(r), p)),
+  );
 
-  router.post('/refunds', run((_r, i, p) => createRefund(e, p, i)));
-  router.get('/refunds', run((_r, _i, p) => listRefunds(e, p)));
-  router.get('/refunds/:id', run((r, _i, p) => retrieveRefund(e, id(r), p)));
+  router.post(
+    '/refunds',
+    run((_r, i, p) => createRefund(e, p, i)),
+  );
+  router.get(
+    '/refunds',
+    run((_r, _i, p) => listRefunds(e, p)),
+  );
+  router.get(
+    '/refunds/:id',
+    run((r, _i, p) => retrieveRefund(e, id(r), p)),
+  );
 
-  router.post('/checkout/sessions', run((_r, i, p) => createCheckoutSession(e, p, i)));
-  router.get('/checkout/sessions', run((_r, _i, p) => listCheckoutSessions(e, p)));
-  router.get('/checkout/sessions/:id', run((r, _i, p) => retrieveCheckoutSession(e, id(r), p)));
-  router.get('/checkout/sessions/:id/line_items', run((r, _i, p) => listCheckoutLineItems(e, id(r), p)));
-  router.post('/checkout/sessions/:id/expire', run((r, i) => expireCheckoutSession(e, id(r), i)));
+  router.post(
+    '/checkout/sessions',
+    run((_r, i, p) => createCheckoutSession(e, p, i)),
+  );
+  router.get(
+    '/checkout/sessions',
+    run((_r, _i, p) => listCheckoutSessions(e, p)),
+  );
+  router.get(
+    '/checkout/sessions/:id',
+    run((r, _i, p) => retrieveCheckoutSession(e, id(r), p)),
+  );
+  router.get(
+    '/checkout/sessions/:id/line_items',
+    run((r, _i, p) => listCheckoutLineItems(e, id(r), p)),
+  );
+  router.post(
+    '/checkout/sessions/:id/expire',
+    run((r, i) => expireCheckoutSession(e, id(r), i)),
+  );
 
-  router.get('/events', run((_r, _i, p) => listEvents(e, p)));
-  router.get('/events/:id', run((r) => retrieveEvent(e, id(r))));
+  router.get(
+    '/events',
+    run((_r, _i, p) => listEvents(e, p)),
+  );
+  router.get(
+    '/events/:id',
+    run((r) => retrieveEvent(e, id(r))),
+  );
 
   router.use(
     run((req) => {

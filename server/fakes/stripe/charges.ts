@@ -25,7 +25,13 @@ export function newCharge(e: Engine, pi: WirePaymentIntent, pm: WirePaymentMetho
     failure_message: failure?.message ?? null,
     metadata: clone(pi.metadata),
     outcome: failure
-      ? { network_status: 'declined_by_network', reason: failure.decline_code ?? failure.code, risk_level: 'normal', seller_message: 'The bank did not return any further details with this decline.', type: 'issuer_declined' }
+      ? {
+          network_status: 'declined_by_network',
+          reason: failure.decline_code ?? failure.code,
+          risk_level: 'normal',
+          seller_message: 'The bank did not return any further details with this decline.',
+          type: 'issuer_declined',
+        }
       : { network_status: 'approved_by_network', reason: null, risk_level: 'normal', seller_message: 'Payment complete.', type: 'authorized' },
     paid: !failure,
     payment_intent: pi.id,

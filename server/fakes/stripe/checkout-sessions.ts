@@ -65,15 +65,34 @@ function parseLineItems(e: Engine, rawLines: unknown[], currencyParam: string | 
 
 export function createCheckoutSession(e: Engine, p: Params, req: RequestInfo): WireCheckoutSession {
   checkKnown(p, [
-    'mode', 'success_url', 'cancel_url', 'line_items', 'customer', 'customer_email', 'client_reference_id', 'metadata',
-    'payment_intent_data', 'setup_intent_data', 'payment_method_types', 'currency', 'expires_at', 'locale',
-    'submit_type', 'customer_creation', 'billing_address_collection', 'allow_promotion_codes', 'ui_mode',
+    'mode',
+    'success_url',
+    'cancel_url',
+    'line_items',
+    'customer',
+    'customer_email',
+    'client_reference_id',
+    'metadata',
+    'payment_intent_data',
+    'setup_intent_data',
+    'payment_method_types',
+    'currency',
+    'expires_at',
+    'locale',
+    'submit_type',
+    'customer_creation',
+    'billing_address_collection',
+    'allow_promotion_codes',
+    'ui_mode',
   ]);
   const mode = oneOf(p, 'mode', ['payment', 'setup', 'subscription'] as const);
   if (!mode) throw missingParam('mode');
   if (mode === 'subscription') throw invalidParam('mode', 'This test tool supports mode=payment and mode=setup only.');
   const successUrl = reqStr(p, 'success_url');
-  for (const [k, v] of [['success_url', successUrl], ['cancel_url', str(p, 'cancel_url')]] as const) {
+  for (const [k, v] of [
+    ['success_url', successUrl],
+    ['cancel_url', str(p, 'cancel_url')],
+  ] as const) {
     if (v !== undefined && !/^https?:\/\/[^\s]+$/.test(v)) throw invalidParam(k, `Not a valid URL`, 'url_invalid');
   }
   const cusId = str(p, 'customer');
@@ -96,7 +115,8 @@ export function createCheckoutSession(e: Engine, p: Params, req: RequestInfo): W
   if (mode === 'setup' && rawLines.length > 0) throw invalidParam('line_items', 'line_items cannot be used in setup mode.');
   const { lines, currency } = parseLineItems(e, rawLines, currencyParam);
   const amountTotal = mode === 'payment' ? lines.reduce((s, l) => s + l.amount_total, 0) : null;
-  if (amountTotal !== null && amountTotal < MIN_AMOUNT) throw invalidRequest('The Checkout Session\'s total amount due must add up to at least $0.50 usd', 'line_items', 'amount_too_small');
+  if (amountTotal !== null && amountTotal < MIN_AMOUNT)
+    throw invalidRequest("The Checkout Session's total amount due must add up to at least $0.50 usd", 'line_items', 'amount_too_small');
 
   const id = `cs_test_${randomId(58)}`;
   let setupIntentId: string | null = null;
@@ -138,7 +158,12 @@ export function createCheckoutSession(e: Engine, p: Params, req: RequestInfo): W
   };
   e.sessions.set(id, s);
   e.sessionLines.set(id, lines);
-  e.sessionExtras.set(id, { piMetadata, sfu: sfu ?? null, capture: capture ?? 'automatic_async', description: str(piData, 'description', 'payment_intent_data[description]') ?? null });
+  e.sessionExtras.set(id, {
+    piMetadata,
+    sfu: sfu ?? null,
+    capture: capture ?? 'automatic_async',
+    description: str(piData, 'description', 'payment_intent_data[description]') ?? null,
+  });
   return e.expand(s, expandList(p));
 }
 

@@ -56,11 +56,7 @@ function applyInvoiceSettings(e: Engine, c: WireCustomer, p: Params): void {
   }
   const pm = e.paymentMethods.get(pmId);
   if (!pm || pm.customer !== c.id) {
-    throw invalidRequest(
-      `The customer does not have a payment method with the ID ${pmId}. The payment method must be attached to the customer.`,
-      param,
-      'resource_missing',
-    );
+    throw invalidRequest(`The customer does not have a payment method with the ID ${pmId}. The payment method must be attached to the customer.`, param, 'resource_missing');
   }
   c.invoice_settings.default_payment_method = pmId;
 }

@@ -38,19 +38,15 @@ export function invalidRequest(message: string, param?: string, code?: string, s
   return new FakeStripeError(status, { type: 'invalid_request_error', message, ...(param ? { param } : {}), ...(code ? { code } : {}) });
 }
 
-export const missingParam = (param: string) =>
-  invalidRequest(`Missing required param: ${param}.`, param, 'parameter_missing');
+export const missingParam = (param: string) => invalidRequest(`Missing required param: ${param}.`, param, 'parameter_missing');
 
-export const unknownParam = (param: string) =>
-  invalidRequest(`Received unknown parameter: ${param}`, param, 'parameter_unknown');
+export const unknownParam = (param: string) => invalidRequest(`Received unknown parameter: ${param}`, param, 'parameter_unknown');
 
 export const invalidParam = (param: string, message: string, code = 'parameter_invalid') => invalidRequest(message, param, code);
 
-export const noSuch = (kind: string, id: string, param = 'id') =>
-  invalidRequest(`No such ${kind}: '${id}'`, param, 'resource_missing', 404);
+export const noSuch = (kind: string, id: string, param = 'id') => invalidRequest(`No such ${kind}: '${id}'`, param, 'resource_missing', 404);
 
-export const unexpectedState = (kind: 'payment_intent' | 'setup_intent' | 'checkout_session', message: string) =>
-  invalidRequest(message, undefined, `${kind}_unexpected_state`);
+export const unexpectedState = (kind: 'payment_intent' | 'setup_intent' | 'checkout_session', message: string) => invalidRequest(message, undefined, `${kind}_unexpected_state`);
 
 /** A refused card, with the objects the SDK attaches to the error (`payment_intent`, `setup_intent`, ...). */
 export function cardError(f: CardFailure, param?: string, extra: Partial<WireError> = {}): FakeStripeError {

@@ -20,5 +20,9 @@ export function listEvents(e: Engine, q: Params): WireList<WireEvent> {
     if (types) return types.includes(t);
     return true;
   };
-  return listOf(e.events.filter((ev) => match(ev.type)), q, '/v1/events');
+  return listOf(
+    e.events.filter((ev) => match(ev.type)),
+    q,
+    '/v1/events',
+  );
 }

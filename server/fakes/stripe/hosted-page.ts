@@ -50,9 +50,7 @@ interface FormValues {
 
 function checkoutForm(s: WireCheckoutSession, lines: WireLineItem[], error?: string, values: FormValues = {}): string {
   const setup = s.mode === 'setup';
-  const rows = lines
-    .map((l) => `<tr><td>${esc(l.description)} × ${esc(l.quantity)}</td><td class="amt">${esc(formatMoney(l.amount_total, l.currency))}</td></tr>`)
-    .join('');
+  const rows = lines.map((l) => `<tr><td>${esc(l.description)} × ${esc(l.quantity)}</td><td class="amt">${esc(formatMoney(l.amount_total, l.currency))}</td></tr>`).join('');
   const summary = setup
     ? '<p>Save a card for future charges. Nothing is charged now.</p>'
     : `<table aria-label="Order summary">${rows}<tr class="total"><td>Total</td><td class="amt">${esc(formatMoney(s.amount_total ?? 0, s.currency ?? 'usd'))}</td></tr></table>`;
@@ -101,7 +99,10 @@ export function createHostedPageRouter(engine: Engine, publicUrl: (req: Request)
 
   const closed = (res: Response, s: WireCheckoutSession) => {
     const text = s.status === 'complete' ? 'This payment is already complete.' : 'This payment page has expired.';
-    res.status(410).type('html').send(page('Test payment page', `<h1>Test payment page</h1><p role="status">${esc(text)}</p>`));
+    res
+      .status(410)
+      .type('html')
+      .send(page('Test payment page', `<h1>Test payment page</h1><p role="status">${esc(text)}</p>`));
   };
 
   router.get('/:id', (req, res) => {
@@ -124,7 +125,10 @@ export function createHostedPageRouter(engine: Engine, publicUrl: (req: Request)
     const lines = engine.sessionLines.get(s.id) ?? [];
     const again = (status: number, message: string) =>
       // The card number is never echoed back into the page.
-      res.status(status).type('html').send(checkoutForm(s, lines, message, { expiry: values.expiry }));
+      res
+        .status(status)
+        .type('html')
+        .send(checkoutForm(s, lines, message, { expiry: values.expiry }));
     const exp = parseExpiry(values.expiry);
     if (!exp) return again(400, 'Expiry must be written as MM/YY.');
     try {

@@ -178,9 +178,7 @@ export interface StartedFakeStripe {
 }
 
 /** Starts the fake on `host:port` (port 0 picks a free one). */
-export async function startFakeStripe(
-  opts: Omit<FakeStripeOptions, 'publicUrl'> & { port?: number; host?: string; publicUrl?: string },
-): Promise<StartedFakeStripe> {
+export async function startFakeStripe(opts: Omit<FakeStripeOptions, 'publicUrl'> & { port?: number; host?: string; publicUrl?: string }): Promise<StartedFakeStripe> {
   const host = opts.host ?? '127.0.0.1';
   const fake = createFakeStripe(opts);
   const server: Server = await new Promise((resolve, reject) => {

@@ -13,9 +13,24 @@ const PI_CANCEL_REASONS = ['duplicate', 'fraudulent', 'requested_by_customer', '
 
 export function createPaymentIntent(e: Engine, p: Params, req: RequestInfo): WirePaymentIntent {
   checkKnown(p, [
-    'amount', 'currency', 'customer', 'payment_method', 'confirm', 'off_session', 'capture_method', 'metadata',
-    'description', 'receipt_email', 'setup_future_usage', 'payment_method_types', 'automatic_payment_methods',
-    'return_url', 'error_on_requires_action', 'statement_descriptor', 'statement_descriptor_suffix', 'use_stripe_sdk',
+    'amount',
+    'currency',
+    'customer',
+    'payment_method',
+    'confirm',
+    'off_session',
+    'capture_method',
+    'metadata',
+    'description',
+    'receipt_email',
+    'setup_future_usage',
+    'payment_method_types',
+    'automatic_payment_methods',
+    'return_url',
+    'error_on_requires_action',
+    'statement_descriptor',
+    'statement_descriptor_suffix',
+    'use_stripe_sdk',
   ]);
   const amount = int(p, 'amount');
   if (amount === undefined) throw missingParam('amount');
@@ -125,7 +140,17 @@ export function updatePaymentIntent(e: Engine, id: string, p: Params): WirePayme
 
 export function confirmPaymentIntent(e: Engine, id: string, p: Params, req: RequestInfo): WirePaymentIntent {
   const pi = e.get(e.paymentIntents, 'payment_intent', id);
-  checkKnown(p, ['payment_method', 'off_session', 'return_url', 'setup_future_usage', 'error_on_requires_action', 'use_stripe_sdk', 'receipt_email', 'capture_method', 'mandate_data']);
+  checkKnown(p, [
+    'payment_method',
+    'off_session',
+    'return_url',
+    'setup_future_usage',
+    'error_on_requires_action',
+    'use_stripe_sdk',
+    'receipt_email',
+    'capture_method',
+    'mandate_data',
+  ]);
   if (pi.status !== 'requires_payment_method' && pi.status !== 'requires_confirmation') {
     throw unexpectedState('payment_intent', `You cannot confirm this PaymentIntent because it has a status of ${pi.status}.`);
   }
@@ -175,7 +200,10 @@ export function capturePaymentIntent(e: Engine, id: string, p: Params, req: Requ
   const pi = e.get(e.paymentIntents, 'payment_intent', id);
   checkKnown(p, ['amount_to_capture', 'metadata', 'final_capture', 'statement_descriptor']);
   if (pi.status !== 'requires_capture') {
-    throw unexpectedState('payment_intent', `This PaymentIntent could not be captured because it has a status of ${pi.status}. Only a PaymentIntent with one of the following statuses may be captured: requires_capture.`);
+    throw unexpectedState(
+      'payment_intent',
+      `This PaymentIntent could not be captured because it has a status of ${pi.status}. Only a PaymentIntent with one of the following statuses may be captured: requires_capture.`,
+    );
   }
   const amount = int(p, 'amount_to_capture') ?? pi.amount_capturable;
   if (amount < 1 || amount > pi.amount_capturable) {
@@ -211,5 +239,9 @@ export function cancelPaymentIntent(e: Engine, id: string, p: Params, req: Reque
 export function listPaymentIntents(e: Engine, q: Params): WireList<WirePaymentIntent> {
   checkKnown(q, [...LIST_PARAMS, 'customer']);
   const cus = str(q, 'customer');
-  return listOf([...e.paymentIntents.values()].reverse().filter((x) => !cus || x.customer === cus), q, '/v1/payment_intents');
+  return listOf(
+    [...e.paymentIntents.values()].reverse().filter((x) => !cus || x.customer === cus),
+    q,
+    '/v1/payment_intents',
+  );
 }

@@ -122,10 +122,13 @@ export class WebhookSender {
     const ok = status !== null && status >= 200 && status < 300;
     if (ok || n >= this.maxAttempts) return;
     this.busy++;
-    const timer = setTimeout(() => {
-      this.timers.delete(timer);
-      void this.attempt(event, n + 1, gen).finally(() => this.done(gen));
-    }, this.retryBaseMs * 2 ** (n - 1));
+    const timer = setTimeout(
+      () => {
+        this.timers.delete(timer);
+        void this.attempt(event, n + 1, gen).finally(() => this.done(gen));
+      },
+      this.retryBaseMs * 2 ** (n - 1),
+    );
     this.timers.add(timer);
   }
 

@@ -18,9 +18,26 @@ export interface WireList<T> {
 
 export type WireCustomer = Wire<
   Stripe.Customer,
-  | 'id' | 'object' | 'created' | 'livemode' | 'address' | 'balance' | 'currency' | 'default_source' | 'delinquent'
-  | 'description' | 'email' | 'invoice_prefix' | 'invoice_settings' | 'metadata' | 'name' | 'phone'
-  | 'preferred_locales' | 'shipping' | 'tax_exempt' | 'test_clock',
+  | 'id'
+  | 'object'
+  | 'created'
+  | 'livemode'
+  | 'address'
+  | 'balance'
+  | 'currency'
+  | 'default_source'
+  | 'delinquent'
+  | 'description'
+  | 'email'
+  | 'invoice_prefix'
+  | 'invoice_settings'
+  | 'metadata'
+  | 'name'
+  | 'phone'
+  | 'preferred_locales'
+  | 'shipping'
+  | 'tax_exempt'
+  | 'test_clock',
   { invoice_settings: Wire<Stripe.Customer.InvoiceSettings, 'custom_fields' | 'default_payment_method' | 'footer' | 'rendering_options'> }
 >;
 
@@ -48,20 +65,63 @@ export type WireLastError = Wire<
 
 export type WireSetupIntent = Wire<
   Stripe.SetupIntent,
-  | 'id' | 'object' | 'application' | 'automatic_payment_methods' | 'cancellation_reason' | 'client_secret' | 'created'
-  | 'customer' | 'description' | 'last_setup_error' | 'latest_attempt' | 'livemode' | 'metadata' | 'next_action'
-  | 'payment_method' | 'payment_method_types' | 'status' | 'usage',
+  | 'id'
+  | 'object'
+  | 'application'
+  | 'automatic_payment_methods'
+  | 'cancellation_reason'
+  | 'client_secret'
+  | 'created'
+  | 'customer'
+  | 'description'
+  | 'last_setup_error'
+  | 'latest_attempt'
+  | 'livemode'
+  | 'metadata'
+  | 'next_action'
+  | 'payment_method'
+  | 'payment_method_types'
+  | 'status'
+  | 'usage',
   { customer: string | null; payment_method: string | null; last_setup_error: WireLastError | null; cancellation_reason: string | null }
 >;
 
 export type WirePaymentIntent = Wire<
   Stripe.PaymentIntent,
-  | 'id' | 'object' | 'amount' | 'amount_capturable' | 'amount_details' | 'amount_received' | 'application'
-  | 'application_fee_amount' | 'automatic_payment_methods' | 'canceled_at' | 'cancellation_reason' | 'capture_method'
-  | 'client_secret' | 'confirmation_method' | 'created' | 'currency' | 'customer' | 'description' | 'last_payment_error'
-  | 'latest_charge' | 'livemode' | 'metadata' | 'next_action' | 'on_behalf_of' | 'payment_method' | 'payment_method_types'
-  | 'processing' | 'receipt_email' | 'setup_future_usage' | 'statement_descriptor' | 'statement_descriptor_suffix'
-  | 'status' | 'transfer_data' | 'transfer_group',
+  | 'id'
+  | 'object'
+  | 'amount'
+  | 'amount_capturable'
+  | 'amount_details'
+  | 'amount_received'
+  | 'application'
+  | 'application_fee_amount'
+  | 'automatic_payment_methods'
+  | 'canceled_at'
+  | 'cancellation_reason'
+  | 'capture_method'
+  | 'client_secret'
+  | 'confirmation_method'
+  | 'created'
+  | 'currency'
+  | 'customer'
+  | 'description'
+  | 'last_payment_error'
+  | 'latest_charge'
+  | 'livemode'
+  | 'metadata'
+  | 'next_action'
+  | 'on_behalf_of'
+  | 'payment_method'
+  | 'payment_method_types'
+  | 'processing'
+  | 'receipt_email'
+  | 'setup_future_usage'
+  | 'statement_descriptor'
+  | 'statement_descriptor_suffix'
+  | 'status'
+  | 'transfer_data'
+  | 'transfer_group',
   {
     amount_details: Pick<Stripe.PaymentIntent.AmountDetails, 'tip'>;
     customer: string | null;
@@ -73,10 +133,31 @@ export type WirePaymentIntent = Wire<
 
 export type WireCharge = Wire<
   Stripe.Charge,
-  | 'id' | 'object' | 'created' | 'livemode' | 'amount' | 'amount_captured' | 'amount_refunded' | 'billing_details'
-  | 'captured' | 'currency' | 'customer' | 'description' | 'disputed' | 'failure_code' | 'failure_message' | 'metadata'
-  | 'outcome' | 'paid' | 'payment_intent' | 'payment_method' | 'payment_method_details' | 'receipt_email'
-  | 'receipt_url' | 'refunded' | 'status',
+  | 'id'
+  | 'object'
+  | 'created'
+  | 'livemode'
+  | 'amount'
+  | 'amount_captured'
+  | 'amount_refunded'
+  | 'billing_details'
+  | 'captured'
+  | 'currency'
+  | 'customer'
+  | 'description'
+  | 'disputed'
+  | 'failure_code'
+  | 'failure_message'
+  | 'metadata'
+  | 'outcome'
+  | 'paid'
+  | 'payment_intent'
+  | 'payment_method'
+  | 'payment_method_details'
+  | 'receipt_email'
+  | 'receipt_url'
+  | 'refunded'
+  | 'status',
   {
     billing_details: WireBillingDetails;
     customer: string | null;
@@ -110,10 +191,32 @@ export type WireLineItem = Wire<
 
 export type WireCheckoutSession = Wire<
   Stripe.Checkout.Session,
-  | 'id' | 'object' | 'amount_subtotal' | 'amount_total' | 'cancel_url' | 'client_reference_id' | 'created' | 'currency'
-  | 'customer' | 'customer_creation' | 'customer_details' | 'customer_email' | 'expires_at' | 'livemode' | 'locale'
-  | 'metadata' | 'mode' | 'payment_intent' | 'payment_method_types' | 'payment_status' | 'setup_intent' | 'status'
-  | 'submit_type' | 'success_url' | 'ui_mode' | 'url',
+  | 'id'
+  | 'object'
+  | 'amount_subtotal'
+  | 'amount_total'
+  | 'cancel_url'
+  | 'client_reference_id'
+  | 'created'
+  | 'currency'
+  | 'customer'
+  | 'customer_creation'
+  | 'customer_details'
+  | 'customer_email'
+  | 'expires_at'
+  | 'livemode'
+  | 'locale'
+  | 'metadata'
+  | 'mode'
+  | 'payment_intent'
+  | 'payment_method_types'
+  | 'payment_status'
+  | 'setup_intent'
+  | 'status'
+  | 'submit_type'
+  | 'success_url'
+  | 'ui_mode'
+  | 'url',
   {
     customer: string | null;
     payment_intent: string | null;

@@ -32,11 +32,7 @@ for (const [n, line] of lines.entries()) {
 const body = Object.entries(table)
   .map(
     ([name, r]) =>
-      `  '${name}': {\n` +
-      `    tempF: [${r.tempF.join(',')}],\n` +
-      `    bubblePsig: [${r.bubblePsig.join(',')}],\n` +
-      `    dewPsig: [${r.dewPsig.join(',')}],\n` +
-      `  },`,
+      `  '${name}': {\n` + `    tempF: [${r.tempF.join(',')}],\n` + `    bubblePsig: [${r.bubblePsig.join(',')}],\n` + `    dewPsig: [${r.dewPsig.join(',')}],\n` + `  },`,
   )
   .join('\n');
 

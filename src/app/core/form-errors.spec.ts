@@ -12,9 +12,13 @@ describe('applyServerErrors', () => {
 
   it('puts each field message under its own control, through dotted paths and renamed fields', () => {
     const f = form();
-    const rest = applyServerErrors(f, new ApiError(400, 'invalid', 'Please check the form.', { name: 'Name is needed.', 'property.zip': 'ZIP code has 5 digits.', yearlyPriceCents: 'Enter a price.' }), {
-      yearlyPriceCents: 'yearlyPrice',
-    });
+    const rest = applyServerErrors(
+      f,
+      new ApiError(400, 'invalid', 'Please check the form.', { name: 'Name is needed.', 'property.zip': 'ZIP code has 5 digits.', yearlyPriceCents: 'Enter a price.' }),
+      {
+        yearlyPriceCents: 'yearlyPrice',
+      },
+    );
     expect(rest).toBeNull();
     expect(serverError(f.controls.name)).toBe('Name is needed.');
     expect(serverError(f.get('property.zip'))).toBe('ZIP code has 5 digits.');

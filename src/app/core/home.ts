@@ -23,12 +23,34 @@ import { Session } from './session';
     </section>
   `,
   styles: `
-    .hero { padding-top: 48px; }
-    .actions { display: flex; gap: 12px; flex-wrap: wrap; margin-bottom: 32px; }
-    .primary { --mat-button-filled-container-color: var(--sw-ember); --mat-button-filled-label-text-color: var(--sw-on-ember); }
-    .emergency { border-left: 6px solid var(--sw-alert); background: var(--sw-alert-soft); padding: 12px 16px; border-radius: 8px; max-width: 640px; }
-    .emergency h2 { font-size: 1.05rem; margin: 0 0 4px; color: var(--sw-on-alert-soft); }
-    .emergency p { margin: 0; }
+    .hero {
+      padding-top: 48px;
+    }
+    .actions {
+      display: flex;
+      gap: 12px;
+      flex-wrap: wrap;
+      margin-bottom: 32px;
+    }
+    .primary {
+      --mat-button-filled-container-color: var(--sw-ember);
+      --mat-button-filled-label-text-color: var(--sw-on-ember);
+    }
+    .emergency {
+      border-left: 6px solid var(--sw-alert);
+      background: var(--sw-alert-soft);
+      padding: 12px 16px;
+      border-radius: 8px;
+      max-width: 640px;
+    }
+    .emergency h2 {
+      font-size: 1.05rem;
+      margin: 0 0 4px;
+      color: var(--sw-on-alert-soft);
+    }
+    .emergency p {
+      margin: 0;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

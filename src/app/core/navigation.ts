@@ -16,7 +16,11 @@ const PORTAL: NavLink[] = [
   { label: 'Invoices', path: '/portal/invoices', icon: 'receipt' },
   { label: 'Book a visit', path: '/portal/booking', icon: 'calendar' },
 ];
-const FIELD: NavLink[] = [{ label: 'Today', path: '/field', icon: 'wrench' }, { label: 'My week', path: '/field/week', icon: 'calendar' }, { label: 'My truck', path: '/field/truck', icon: 'truck' }];
+const FIELD: NavLink[] = [
+  { label: 'Today', path: '/field', icon: 'wrench' },
+  { label: 'My week', path: '/field/week', icon: 'calendar' },
+  { label: 'My truck', path: '/field/truck', icon: 'truck' },
+];
 const OFFICE: NavLink[] = [
   { label: 'Office', path: '/office', icon: 'dispatch' },
   { label: 'Households', path: '/office/customers', icon: 'people' },
@@ -27,7 +31,12 @@ const OFFICE: NavLink[] = [
   { label: 'Reports', path: '/office/reports', icon: 'chart' },
   { label: 'Invite household', path: '/office/invite', icon: 'mail' },
 ];
-const ADMIN: NavLink[] = [{ label: 'Settings', path: '/admin', icon: 'settings' }, { label: 'Plans', path: '/admin/plans', icon: 'receipt' }, { label: 'Staff', path: '/admin/staff', icon: 'people' }, { label: 'Access log', path: '/admin/audit', icon: 'shield' }];
+const ADMIN: NavLink[] = [
+  { label: 'Settings', path: '/admin', icon: 'settings' },
+  { label: 'Plans', path: '/admin/plans', icon: 'receipt' },
+  { label: 'Staff', path: '/admin/staff', icon: 'people' },
+  { label: 'Access log', path: '/admin/audit', icon: 'shield' },
+];
 
 export function navigationFor(role: Role | null): NavLink[] {
   switch (role) {

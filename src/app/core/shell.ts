@@ -29,7 +29,9 @@ export class Shell {
   protected readonly barLinks = computed(() => this.links().filter((l) => !l.more));
   protected readonly moreLinks = computed(() => this.links().filter((l) => l.more));
   private readonly widths = inject(BreakpointObserver);
-  private readonly width = toSignal(this.widths.observe(BREAKPOINTS).pipe(map(() => window.innerWidth)), { initialValue: typeof window === 'undefined' ? 1280 : window.innerWidth });
+  private readonly width = toSignal(this.widths.observe(BREAKPOINTS).pipe(map(() => window.innerWidth)), {
+    initialValue: typeof window === 'undefined' ? 1280 : window.innerWidth,
+  });
   /** One labelled Menu button instead of the links, where the links with their words would not fit one row. */
   protected readonly compact = computed(() => this.width() < compactBelow(this.session.role()));
 

@@ -32,15 +32,23 @@ export interface AreaTile {
                 }
               </mat-card-title>
             </mat-card-header>
-            <mat-card-content><p>{{ tile.text }}</p></mat-card-content>
+            <mat-card-content
+              ><p>{{ tile.text }}</p></mat-card-content
+            >
           </mat-card>
         }
       </div>
     </section>
   `,
   styles: `
-    .tile mat-icon { color: var(--sw-teal); width: 32px; height: 32px; }
-    .tile a { color: inherit; }
+    .tile mat-icon {
+      color: var(--sw-teal);
+      width: 32px;
+      height: 32px;
+    }
+    .tile a {
+      color: inherit;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

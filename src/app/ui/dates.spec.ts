@@ -23,7 +23,9 @@ describe('dates on screen', () => {
   it('pipes follow the company zone the session names, and a phone number is a tel: link in national format', async () => {
     @Component({
       imports: [DayPipe, DateTimePipe, PhoneLink],
-      template: `<p id="d">{{ at() | swDay }}</p><p id="t">{{ at() | swDateTime }}</p><sw-phone-link [number]="'+18165550142'" prefix="Call " />`,
+      template: `<p id="d">{{ at() | swDay }}</p>
+        <p id="t">{{ at() | swDateTime }}</p>
+        <sw-phone-link [number]="'+18165550142'" prefix="Call " />`,
     })
     class Host {
       readonly at = signal('2026-12-02T03:30:00Z');

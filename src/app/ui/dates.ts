@@ -42,7 +42,9 @@ export function dateTimeLabel(value: string | Date, timeZone: string): string {
 /** The ISO date of the day an instant falls on in `timeZone` (for grouping, never for display). */
 export function localDay(value: string | Date, timeZone: string): string {
   const at = typeof value === 'string' ? new Date(value) : value;
-  const parts = Object.fromEntries(new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at).map((p) => [p.type, p.value]));
+  const parts = Object.fromEntries(
+    new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at).map((p) => [p.type, p.value]),
+  );
   return `${parts['year']}-${parts['month']}-${parts['day']}`;
 }
 

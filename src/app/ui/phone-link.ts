@@ -5,7 +5,11 @@ import { Session } from '../core/session';
 /** A phone number as a tap-to-call link, written in the company's national format. */
 @Component({
   selector: 'sw-phone-link',
-  template: `@if (href(); as h) {<a [href]="h" [class]="linkClass()"><ng-content />{{ prefix() }}{{ text() }}</a>} @else {{{ number() }}}`,
+  template: `@if (href(); as h) {
+      <a [href]="h" [class]="linkClass()"><ng-content />{{ prefix() }}{{ text() }}</a>
+    } @else {
+      {{ number() }}
+    }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PhoneLink {

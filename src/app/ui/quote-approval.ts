@@ -24,14 +24,20 @@ import { applyServerErrors, serverError } from '../core/form-errors';
           <mat-radio-button [value]="o.id">{{ o.title }}: {{ usd(o.totalCents) }}</mat-radio-button>
         }
       </mat-radio-group>
-      @if (err('optionId'); as e) { <p class="bad">{{ e }}</p> }
+      @if (err('optionId'); as e) {
+        <p class="bad">{{ e }}</p>
+      }
       <mat-form-field appearance="outline" class="wide">
         <mat-label>Type your full name</mat-label>
         <input matInput formControlName="typedName" autocomplete="name" />
-        @if (err('typedName'); as e) { <mat-error>{{ e }}</mat-error> }
+        @if (err('typedName'); as e) {
+          <mat-error>{{ e }}</mat-error>
+        }
       </mat-form-field>
       <mat-checkbox formControlName="agreed">I approve this work and its price.</mat-checkbox>
-      @if (err('agreed'); as e) { <p class="bad">{{ e }}</p> }
+      @if (err('agreed'); as e) {
+        <p class="bad">{{ e }}</p>
+      }
       <div class="actions">
         <button mat-flat-button type="submit" class="big" [disabled]="busy()">Approve {{ chosenTitle() }}</button>
         <button mat-button type="button" (click)="declining.set(!declining())">Decline the quote</button>
@@ -42,21 +48,53 @@ import { applyServerErrors, serverError } from '../core/form-errors';
         <mat-form-field appearance="outline" class="wide">
           <mat-label>Why are you declining?</mat-label>
           <textarea matInput formControlName="reason" rows="2"></textarea>
-          @if (declineErr(); as e) { <mat-error>{{ e }}</mat-error> }
+          @if (declineErr(); as e) {
+            <mat-error>{{ e }}</mat-error>
+          }
         </mat-form-field>
         <button mat-stroked-button type="submit" [disabled]="busy()">Decline</button>
       </form>
     }
-    @if (error(); as e) { <p role="alert" class="bad">{{ e }}</p> }
+    @if (error(); as e) {
+      <p role="alert" class="bad">{{ e }}</p>
+    }
   `,
   styles: `
-    .approve { border-top: 2px solid var(--sw-teal-soft); padding-top: 8px; margin-top: 12px; }
-    h3 { font-size: 1.1rem; font-weight: 800; margin: 8px 0; }
-    .choices { display: grid; gap: 6px; margin: 0 0 8px; }
-    .wide { width: 100%; margin-top: 8px; }
-    .actions { display: flex; flex-wrap: wrap; gap: 12px; align-items: center; margin: 12px 0; }
-    .big { min-height: 52px; min-width: 160px; font-size: 1.05rem; }
-    .bad { color: var(--sw-alert); font-weight: 700; }
+    .approve {
+      border-top: 2px solid var(--sw-teal-soft);
+      padding-top: 8px;
+      margin-top: 12px;
+    }
+    h3 {
+      font-size: 1.1rem;
+      font-weight: 800;
+      margin: 8px 0;
+    }
+    .choices {
+      display: grid;
+      gap: 6px;
+      margin: 0 0 8px;
+    }
+    .wide {
+      width: 100%;
+      margin-top: 8px;
+    }
+    .actions {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 12px;
+      align-items: center;
+      margin: 12px 0;
+    }
+    .big {
+      min-height: 52px;
+      min-width: 160px;
+      font-size: 1.05rem;
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -31,7 +31,8 @@ const ACTION_WORDS: Record<string, string> = {
   imports: [DateTimePipe, MatPaginatorModule, MatSelectModule, MatFormFieldModule, MatTableModule],
   template: `
     <section class="sw-page">
-      <h1>Sign-in and access log</h1><p class="sw-lead">Who signed in, who failed, and every invitation and role change, newest first.</p>
+      <h1>Sign-in and access log</h1>
+      <p class="sw-lead">Who signed in, who failed, and every invitation and role change, newest first.</p>
       <mat-form-field appearance="outline">
         <mat-label>Show</mat-label>
         <mat-select [value]="action()" (valueChange)="filter($event)">
@@ -46,36 +47,38 @@ const ACTION_WORDS: Record<string, string> = {
       }
       <!-- A page's worth of rows is reserved before they arrive, so the paginator does not jump. -->
       <div class="table-wrap" [style.--sw-page-rows]="pageSize()">
-      <table mat-table [dataSource]="items()" aria-label="Audit events">
-        <ng-container matColumnDef="at">
-          <th mat-header-cell *matHeaderCellDef>When</th>
-          <td mat-cell *matCellDef="let e">{{ e.at | swDateTime }}</td>
-        </ng-container>
-        <ng-container matColumnDef="action">
-          <th mat-header-cell *matHeaderCellDef>What</th>
-          <td mat-cell *matCellDef="let e">{{ word(e.action) }}</td>
-        </ng-container>
-        <ng-container matColumnDef="actor">
-          <th mat-header-cell *matHeaderCellDef>By</th>
-          <td mat-cell *matCellDef="let e">{{ e.actorName ?? '—' }}</td>
-        </ng-container>
-        <ng-container matColumnDef="subject">
-          <th mat-header-cell *matHeaderCellDef>About</th>
-          <td mat-cell *matCellDef="let e">{{ e.subject }}</td>
-        </ng-container>
-        <ng-container matColumnDef="ip">
-          <th mat-header-cell *matHeaderCellDef>Network address</th>
-          <td mat-cell *matCellDef="let e">{{ e.ip ?? '' }}</td>
-        </ng-container>
-        <tr mat-header-row *matHeaderRowDef="columns"></tr>
-        <tr mat-row *matRowDef="let row; columns: columns"></tr>
-      </table>
+        <table mat-table [dataSource]="items()" aria-label="Audit events">
+          <ng-container matColumnDef="at">
+            <th mat-header-cell *matHeaderCellDef>When</th>
+            <td mat-cell *matCellDef="let e">{{ e.at | swDateTime }}</td>
+          </ng-container>
+          <ng-container matColumnDef="action">
+            <th mat-header-cell *matHeaderCellDef>What</th>
+            <td mat-cell *matCellDef="let e">{{ word(e.action) }}</td>
+          </ng-container>
+          <ng-container matColumnDef="actor">
+            <th mat-header-cell *matHeaderCellDef>By</th>
+            <td mat-cell *matCellDef="let e">{{ e.actorName ?? '—' }}</td>
+          </ng-container>
+          <ng-container matColumnDef="subject">
+            <th mat-header-cell *matHeaderCellDef>About</th>
+            <td mat-cell *matCellDef="let e">{{ e.subject }}</td>
+          </ng-container>
+          <ng-container matColumnDef="ip">
+            <th mat-header-cell *matHeaderCellDef>Network address</th>
+            <td mat-cell *matCellDef="let e">{{ e.ip ?? '' }}</td>
+          </ng-container>
+          <tr mat-header-row *matHeaderRowDef="columns"></tr>
+          <tr mat-row *matRowDef="let row; columns: columns"></tr>
+        </table>
       </div>
       <mat-paginator [length]="total()" [pageIndex]="pageIndex()" [pageSize]="pageSize()" [pageSizeOptions]="[25, 50, 100]" (page)="turn($event)" aria-label="Pages of the log" />
     </section>
   `,
   styles: `
-    table { width: 100%; }
+    table {
+      width: 100%;
+    }
     .table-wrap {
       overflow-x: auto;
       min-height: calc(var(--mat-table-header-container-height, 56px) + var(--sw-page-rows, 25) * var(--mat-table-row-item-container-height, 52px));

@@ -24,7 +24,10 @@ const DAYS = [
   { key: '6', label: 'Saturday' },
   { key: '7', label: 'Sunday' },
 ] as const;
-const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'].map((label, i) => ({ value: i + 1, label }));
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'].map((label, i) => ({
+  value: i + 1,
+  label,
+}));
 type DayKey = (typeof DAYS)[number]['key'];
 type DayGroup = FormGroup<{ closed: FormControl<boolean>; open: FormControl<string>; close: FormControl<string> }>;
 
@@ -86,7 +89,9 @@ export class CompanySettingsPage {
           ...s,
           taxRatePct: s.taxRateBps / 100,
           diagnosticFee: s.diagnosticFeeCents / 100,
-          hours: Object.fromEntries(DAYS.map((d) => [d.key, s.businessHours[d.key] ? { closed: false, ...s.businessHours[d.key]! } : { closed: true, open: '08:00', close: '17:00' }])),
+          hours: Object.fromEntries(
+            DAYS.map((d) => [d.key, s.businessHours[d.key] ? { closed: false, ...s.businessHours[d.key]! } : { closed: true, open: '08:00', close: '17:00' }]),
+          ),
         }),
       );
     });

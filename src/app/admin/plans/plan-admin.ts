@@ -104,7 +104,10 @@ export class PlanAdmin {
       repairDiscountBps: Math.round(pct * 100),
       diagnosticFeeWaived: v.diagnosticFeeWaived,
       priorityWindowHours: Number(v.priorityWindowHours),
-      extras: v.extras.split('\n').map((x) => x.trim()).filter(Boolean),
+      extras: v.extras
+        .split('\n')
+        .map((x) => x.trim())
+        .filter(Boolean),
     };
     this.busy.set(true);
     const req = target === 'new' ? this.api.create({ ...terms, code: v.code }) : this.api.update(target.id, terms);

@@ -20,7 +20,9 @@ const component = () => new FormGroup({ itemId: new FormControl('', { nonNullabl
     <h2>Flat-rate tasks</h2>
     <ul class="tasks" aria-label="Flat-rate tasks">
       @for (t of tasks(); track t.id) {
-        <li><strong>{{ t.sku }} · {{ t.name }}</strong> · {{ usd(t.priceCents) }}{{ t.active ? '' : ' · retired' }}<br /><small>{{ componentsOf(t.id) }}</small></li>
+        <li>
+          <strong>{{ t.sku }} · {{ t.name }}</strong> · {{ usd(t.priceCents) }}{{ t.active ? '' : ' · retired' }}<br /><small>{{ componentsOf(t.id) }}</small>
+        </li>
       } @empty {
         <li>No flat-rate tasks yet. Add one below, such as "Replace run capacitor": the capacitor and the labor to fit it.</li>
       }
@@ -28,8 +30,18 @@ const component = () => new FormGroup({ itemId: new FormControl('', { nonNullabl
     <form [formGroup]="form" (ngSubmit)="save()" aria-label="New flat-rate task">
       <h3>New flat-rate task</h3>
       <div class="grid">
-        <mat-form-field appearance="outline"><mat-label>Task SKU</mat-label><input matInput formControlName="sku" />@if (err('sku'); as e) { <mat-error>{{ e }}</mat-error> }</mat-form-field>
-        <mat-form-field appearance="outline"><mat-label>Task name</mat-label><input matInput formControlName="name" />@if (err('name'); as e) { <mat-error>{{ e }}</mat-error> }</mat-form-field>
+        <mat-form-field appearance="outline"
+          ><mat-label>Task SKU</mat-label><input matInput formControlName="sku" />
+          @if (err('sku'); as e) {
+            <mat-error>{{ e }}</mat-error>
+          }
+        </mat-form-field>
+        <mat-form-field appearance="outline"
+          ><mat-label>Task name</mat-label><input matInput formControlName="name" />
+          @if (err('name'); as e) {
+            <mat-error>{{ e }}</mat-error>
+          }
+        </mat-form-field>
         <mat-form-field appearance="outline" class="wide"><mat-label>What the homeowner reads</mat-label><input matInput formControlName="description" /></mat-form-field>
       </div>
       <div formArrayName="components">
@@ -38,11 +50,21 @@ const component = () => new FormGroup({ itemId: new FormControl('', { nonNullabl
             <mat-form-field appearance="outline">
               <mat-label>Item {{ i + 1 }}</mat-label>
               <mat-select formControlName="itemId">
-                @for (it of items(); track it.id) { <mat-option [value]="it.id">{{ it.sku }} · {{ it.name }} · {{ usd(it.unitCents) }}</mat-option> }
+                @for (it of items(); track it.id) {
+                  <mat-option [value]="it.id">{{ it.sku }} · {{ it.name }} · {{ usd(it.unitCents) }}</mat-option>
+                }
               </mat-select>
-              @if (err('components.' + i + '.itemId'); as e) { <mat-error>{{ e }}</mat-error> }
+              @if (err('components.' + i + '.itemId'); as e) {
+                <mat-error>{{ e }}</mat-error>
+              }
             </mat-form-field>
-            <mat-form-field appearance="outline"><mat-label>Quantity {{ i + 1 }}</mat-label><input matInput formControlName="quantity" inputmode="decimal" />@if (err('components.' + i + '.quantity'); as e) { <mat-error>{{ e }}</mat-error> }</mat-form-field>
+            <mat-form-field appearance="outline"
+              ><mat-label>Quantity {{ i + 1 }}</mat-label
+              ><input matInput formControlName="quantity" inputmode="decimal" />
+              @if (err('components.' + i + '.quantity'); as e) {
+                <mat-error>{{ e }}</mat-error>
+              }
+            </mat-form-field>
           </div>
         }
       </div>
@@ -50,16 +72,46 @@ const component = () => new FormGroup({ itemId: new FormControl('', { nonNullabl
         <button mat-button type="button" (click)="form.controls.components.push(newComponent())">Add another item</button>
         <button mat-flat-button type="submit" [disabled]="busy()">Add the task</button>
       </div>
-      @if (message(); as m) { <p role="status" [class]="m.kind">{{ m.text }}</p> }
+      @if (message(); as m) {
+        <p role="status" [class]="m.kind">{{ m.text }}</p>
+      }
     </form>
   `,
   styles: `
-    .tasks { padding-left: 20px; } small { color: var(--mat-sys-on-surface-variant); }
-    form { border: 1px solid var(--sw-teal-soft); border-radius: var(--sw-radius); padding: 8px 12px; margin: 12px 0; }
-    .grid { display: grid; grid-template-columns: repeat(auto-fill, minmax(220px, 1fr)); gap: 0 12px; }
-    .buttons { display: flex; gap: 12px; }
-    h2, h3 { font-size: 1.1rem; font-weight: 800; }
-    .ok { color: var(--sw-ok); font-weight: 700; } .bad { color: var(--sw-alert); font-weight: 700; }
+    .tasks {
+      padding-left: 20px;
+    }
+    small {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    form {
+      border: 1px solid var(--sw-teal-soft);
+      border-radius: var(--sw-radius);
+      padding: 8px 12px;
+      margin: 12px 0;
+    }
+    .grid {
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(220px, 1fr));
+      gap: 0 12px;
+    }
+    .buttons {
+      display: flex;
+      gap: 12px;
+    }
+    h2,
+    h3 {
+      font-size: 1.1rem;
+      font-weight: 800;
+    }
+    .ok {
+      color: var(--sw-ok);
+      font-weight: 700;
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -71,7 +123,11 @@ export class FlatRateTasks {
   private readonly itemsRead = rxResource({ stream: () => this.api.items({ status: 'active', pageSize: 100 }) });
   protected readonly tasks = computed(() => (this.read.hasValue() ? this.read.value() : []));
   protected readonly items = computed(() => (this.itemsRead.hasValue() ? this.itemsRead.value().items : []));
-  protected readonly componentsOf = (id: string) => this.tasks().find((t) => t.id === id)?.components.map((c) => `${c.quantity} × ${c.name}`).join(', ') ?? '';
+  protected readonly componentsOf = (id: string) =>
+    this.tasks()
+      .find((t) => t.id === id)
+      ?.components.map((c) => `${c.quantity} × ${c.name}`)
+      .join(', ') ?? '';
   protected readonly busy = signal(false);
   protected readonly message = signal<{ kind: 'ok' | 'bad'; text: string } | null>(null);
   protected readonly form = new FormGroup({
@@ -88,7 +144,13 @@ export class FlatRateTasks {
     this.message.set(null);
     try {
       const task = await firstValueFrom(
-        this.api.createTask({ sku: v.sku, name: v.name, description: v.description, active: true, components: v.components.filter((c) => c.itemId).map((c) => ({ itemId: c.itemId, quantity: Number(c.quantity) })) }),
+        this.api.createTask({
+          sku: v.sku,
+          name: v.name,
+          description: v.description,
+          active: true,
+          components: v.components.filter((c) => c.itemId).map((c) => ({ itemId: c.itemId, quantity: Number(c.quantity) })),
+        }),
       );
       this.message.set({ kind: 'ok', text: `${task.name} added at ${formatUsd(task.priceCents)}.` });
       this.form.reset();

@@ -14,7 +14,22 @@ import { PriceBookApi } from './price-book-api';
 
 /** The specification values each category is matched on; other part categories carry notes. */
 const SPEC_FIELDS: Partial<Record<ItemCategory, PriceBookFieldKey[]>> = {
-  motor: ['application', 'hp', 'volts', 'phase', 'rpm', 'speeds', 'rotation', 'rotation_viewed_from', 'fla', 'capacitor_taps', 'capacitor_volts', 'shaft_diameter', 'shaft_length', 'frame'],
+  motor: [
+    'application',
+    'hp',
+    'volts',
+    'phase',
+    'rpm',
+    'speeds',
+    'rotation',
+    'rotation_viewed_from',
+    'fla',
+    'capacitor_taps',
+    'capacitor_volts',
+    'shaft_diameter',
+    'shaft_length',
+    'frame',
+  ],
   capacitor: ['microfarads', 'volts', 'shape', 'tolerance'],
   contactor: ['poles', 'coil_volts', 'fla'],
   filter: ['filter_size', 'merv'],
@@ -30,9 +45,26 @@ const HINTS: Partial<Record<PriceBookFieldKey, string>> = {
 };
 /** Server paths that land on a form column. */
 const ALIASES: Record<string, string> = {
-  unitCents: 'unit_price', costCents: 'cost', partsWarrantyMonths: 'warranty_months', 'spec.horsepower': 'hp', 'spec.horsepower.max': 'hp', 'spec.volts': 'volts', 'spec.phase': 'phase',
-  'spec.rpm': 'rpm', 'spec.speeds': 'speeds', 'spec.rotation': 'rotation', 'spec.rotationViewedFrom': 'rotation_viewed_from', 'spec.fla': 'fla', 'spec.taps': 'capacitor_taps',
-  'spec.capacitorVolts': 'capacitor_volts', 'spec.microfarads': 'microfarads', 'spec.shape': 'shape', 'spec.poles': 'poles', 'spec.coilVolts': 'coil_volts', 'spec.size': 'filter_size', 'spec.merv': 'merv',
+  unitCents: 'unit_price',
+  costCents: 'cost',
+  partsWarrantyMonths: 'warranty_months',
+  'spec.horsepower': 'hp',
+  'spec.horsepower.max': 'hp',
+  'spec.volts': 'volts',
+  'spec.phase': 'phase',
+  'spec.rpm': 'rpm',
+  'spec.speeds': 'speeds',
+  'spec.rotation': 'rotation',
+  'spec.rotationViewedFrom': 'rotation_viewed_from',
+  'spec.fla': 'fla',
+  'spec.taps': 'capacitor_taps',
+  'spec.capacitorVolts': 'capacitor_volts',
+  'spec.microfarads': 'microfarads',
+  'spec.shape': 'shape',
+  'spec.poles': 'poles',
+  'spec.coilVolts': 'coil_volts',
+  'spec.size': 'filter_size',
+  'spec.merv': 'merv',
 };
 
 /** Adds or changes one price-book item, with the specification fields of its category. */
@@ -41,11 +73,30 @@ const ALIASES: Record<string, string> = {
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   templateUrl: './item-form.html',
   styles: `
-    form { border: 1px solid var(--sw-teal-soft); border-radius: var(--sw-radius); padding: 8px 12px; margin: 12px 0; }
-    .grid { display: grid; grid-template-columns: repeat(auto-fill, minmax(200px, 1fr)); gap: 0 12px; }
-    h2, h3 { font-size: 1.1rem; font-weight: 800; }
-    .buttons { display: flex; gap: 12px; }
-    .bad { color: var(--sw-alert); font-weight: 700; }
+    form {
+      border: 1px solid var(--sw-teal-soft);
+      border-radius: var(--sw-radius);
+      padding: 8px 12px;
+      margin: 12px 0;
+    }
+    .grid {
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(200px, 1fr));
+      gap: 0 12px;
+    }
+    h2,
+    h3 {
+      font-size: 1.1rem;
+      font-weight: 800;
+    }
+    .buttons {
+      display: flex;
+      gap: 12px;
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -62,7 +113,9 @@ export class ItemForm {
   protected readonly categoryLabels = ITEM_CATEGORY_LABELS;
   protected readonly labels = Object.fromEntries(PRICE_BOOK_IMPORT_FIELDS.map((f) => [f.key, f.label])) as Record<PriceBookFieldKey, string>;
   protected readonly hints = HINTS;
-  protected readonly form = new FormGroup(Object.fromEntries(PRICE_BOOK_FIELD_KEYS.map((k) => [k, new FormControl('', { nonNullable: true })])) as Record<PriceBookFieldKey, FormControl<string>>);
+  protected readonly form = new FormGroup(
+    Object.fromEntries(PRICE_BOOK_FIELD_KEYS.map((k) => [k, new FormControl('', { nonNullable: true })])) as Record<PriceBookFieldKey, FormControl<string>>,
+  );
   private readonly kind = toSignal(this.form.controls.kind.valueChanges, { initialValue: '' });
   private readonly category = toSignal(this.form.controls.category.valueChanges, { initialValue: '' });
   protected readonly categories = computed(() => (this.kind() ? categoriesOfKind(this.kind() as ItemKind) : []));

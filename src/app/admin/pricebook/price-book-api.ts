@@ -20,7 +20,11 @@ export class PriceBookApi {
   readonly exportUrl = `${this.base}/export.csv`;
 
   items(q: Record<string, string | number | undefined>): Observable<PriceBookPage> {
-    const fromObject = Object.fromEntries(Object.entries(q).filter(([, v]) => v !== undefined && v !== '').map(([k, v]) => [k, String(v)]));
+    const fromObject = Object.fromEntries(
+      Object.entries(q)
+        .filter(([, v]) => v !== undefined && v !== '')
+        .map(([k, v]) => [k, String(v)]),
+    );
     return this.http.get<PriceBookPage>(`${this.base}/items`, { params: new HttpParams({ fromObject }) });
   }
   create(body: PriceBookItemInput): Observable<PriceBookItem> {

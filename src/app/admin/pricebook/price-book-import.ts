@@ -19,15 +19,57 @@ type Step = 'pick' | 'map' | 'done';
   imports: [FormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule, MatTableModule],
   templateUrl: './price-book-import.html',
   styles: `
-    :host { display: block; padding: 16px; }
-    .mapping { display: grid; grid-template-columns: repeat(auto-fill, minmax(220px, 1fr)); gap: 0 12px; }
-    .table-wrap { overflow-x: auto; }
-    .sample { border-collapse: collapse; } .sample th, .sample td { border: 1px solid var(--sw-teal-soft); padding: 4px 6px; white-space: nowrap; }
-    .buttons { display: flex; flex-wrap: wrap; gap: 12px; margin: 12px 0; }
-    .ok { color: var(--sw-ok); font-weight: 700; display: flex; gap: 6px; align-items: center; }
-    .error { color: var(--sw-alert); font-weight: 700; display: flex; gap: 6px; align-items: center; }
-    .pick { display: grid; gap: 6px; font-weight: 700; margin: 12px 0; }
-    h2 { font-size: 1.15rem; font-weight: 800; }
+    :host {
+      display: block;
+      padding: 16px;
+    }
+    .mapping {
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(220px, 1fr));
+      gap: 0 12px;
+    }
+    .table-wrap {
+      overflow-x: auto;
+    }
+    .sample {
+      border-collapse: collapse;
+    }
+    .sample th,
+    .sample td {
+      border: 1px solid var(--sw-teal-soft);
+      padding: 4px 6px;
+      white-space: nowrap;
+    }
+    .buttons {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 12px;
+      margin: 12px 0;
+    }
+    .ok {
+      color: var(--sw-ok);
+      font-weight: 700;
+      display: flex;
+      gap: 6px;
+      align-items: center;
+    }
+    .error {
+      color: var(--sw-alert);
+      font-weight: 700;
+      display: flex;
+      gap: 6px;
+      align-items: center;
+    }
+    .pick {
+      display: grid;
+      gap: 6px;
+      font-weight: 700;
+      margin: 12px 0;
+    }
+    h2 {
+      font-size: 1.15rem;
+      font-weight: 800;
+    }
   `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,

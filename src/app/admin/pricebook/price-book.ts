@@ -22,7 +22,20 @@ import { PriceBookApi } from './price-book-api';
 /** The price book: parts, labor and fees with their prices and specifications, and the flat-rate tasks. */
 @Component({
   selector: 'sw-price-book',
-  imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatPaginatorModule, MatProgressBarModule, MatSelectModule, MatSortModule, MatTableModule, FlatRateTasks, ItemForm],
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatPaginatorModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatSortModule,
+    MatTableModule,
+    FlatRateTasks,
+    ItemForm,
+  ],
   template: `
     <h1>Price book</h1>
     <div class="buttons">
@@ -33,14 +46,18 @@ import { PriceBookApi } from './price-book-api';
     @if (editing(); as e) {
       <sw-item-form [item]="e === 'new' ? null : e" (saved)="onSaved($event)" (canceled)="editing.set(null)" />
     }
-    @if (notice(); as n) { <p role="status" class="ok">{{ n }}</p> }
+    @if (notice(); as n) {
+      <p role="status" class="ok">{{ n }}</p>
+    }
     <div class="filters">
       <mat-form-field><mat-label>Search SKU or name</mat-label><input matInput [formControl]="search" /></mat-form-field>
       <mat-form-field>
         <mat-label>Kind</mat-label>
         <mat-select [value]="kind()" (selectionChange)="kind.set($event.value); pageIndex.set(0)">
           <mat-option value="">Any</mat-option>
-          @for (k of kinds; track k) { <mat-option [value]="k">{{ kindLabels[k] }}</mat-option> }
+          @for (k of kinds; track k) {
+            <mat-option [value]="k">{{ kindLabels[k] }}</mat-option>
+          }
         </mat-select>
       </mat-form-field>
       <mat-form-field>
@@ -50,22 +67,71 @@ import { PriceBookApi } from './price-book-api';
         </mat-select>
       </mat-form-field>
     </div>
-    @if (list.isLoading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading the price book" /> }
-    @if (error(); as e) { <p role="alert">{{ e }}</p> }
+    @if (list.isLoading()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading the price book" />
+    }
+    @if (error(); as e) {
+      <p role="alert">{{ e }}</p>
+    }
     <table mat-table [dataSource]="rows()" matSort (matSortChange)="sorted($event)" aria-label="Price-book items">
-      <ng-container matColumnDef="sku"><th mat-header-cell *matHeaderCellDef mat-sort-header>SKU</th><td mat-cell *matCellDef="let r">{{ r.sku }}</td></ng-container>
-      <ng-container matColumnDef="name"><th mat-header-cell *matHeaderCellDef mat-sort-header>Name</th><td mat-cell *matCellDef="let r"><button mat-button type="button" (click)="editing.set(r)">{{ r.name }}</button></td></ng-container>
-      <ng-container matColumnDef="category"><th mat-header-cell *matHeaderCellDef mat-sort-header>Category</th><td mat-cell *matCellDef="let r">{{ categoryOf(r) }}</td></ng-container>
-      <ng-container matColumnDef="unitCents"><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Price</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.unitCents) }}</td></ng-container>
-      <ng-container matColumnDef="version"><th mat-header-cell *matHeaderCellDef class="num">Version</th><td mat-cell *matCellDef="let r" class="num">{{ r.version }}</td></ng-container>
+      <ng-container matColumnDef="sku"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header>SKU</th>
+        <td mat-cell *matCellDef="let r">{{ r.sku }}</td></ng-container
+      >
+      <ng-container matColumnDef="name"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Name</th>
+        <td mat-cell *matCellDef="let r">
+          <button mat-button type="button" (click)="editing.set(r)">{{ r.name }}</button>
+        </td></ng-container
+      >
+      <ng-container matColumnDef="category"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Category</th>
+        <td mat-cell *matCellDef="let r">{{ categoryOf(r) }}</td></ng-container
+      >
+      <ng-container matColumnDef="unitCents"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Price</th>
+        <td mat-cell *matCellDef="let r" class="num">{{ usd(r.unitCents) }}</td></ng-container
+      >
+      <ng-container matColumnDef="version"
+        ><th mat-header-cell *matHeaderCellDef class="num">Version</th>
+        <td mat-cell *matCellDef="let r" class="num">{{ r.version }}</td></ng-container
+      >
       <tr mat-header-row *matHeaderRowDef="columns"></tr>
       <tr mat-row *matRowDef="let row; columns: columns"></tr>
-      <tr class="mat-row" *matNoDataRow><td class="mat-cell" [attr.colspan]="columns.length">No items match. Add an item, or import your price list from a CSV file.</td></tr>
+      <tr class="mat-row" *matNoDataRow>
+        <td class="mat-cell" [attr.colspan]="columns.length">No items match. Add an item, or import your price list from a CSV file.</td>
+      </tr>
     </table>
     <mat-paginator [length]="total()" [pageIndex]="pageIndex()" [pageSize]="25" [hidePageSize]="true" (page)="pageIndex.set($event.pageIndex)" aria-label="Price-book pages" />
     <sw-flat-rate-tasks />
   `,
-  styles: `:host { display: block; padding: 16px; } table { width: 100%; } .num { text-align: right; } .filters, .buttons { display: flex; flex-wrap: wrap; gap: 0 12px; align-items: center; } .buttons { gap: 12px; margin: 0 0 12px; } .ok { color: var(--sw-ok); font-weight: 700; }`,
+  styles: `
+    :host {
+      display: block;
+      padding: 16px;
+    }
+    table {
+      width: 100%;
+    }
+    .num {
+      text-align: right;
+    }
+    .filters,
+    .buttons {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 0 12px;
+      align-items: center;
+    }
+    .buttons {
+      gap: 12px;
+      margin: 0 0 12px;
+    }
+    .ok {
+      color: var(--sw-ok);
+      font-weight: 700;
+    }
+  `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

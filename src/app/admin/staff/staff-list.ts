@@ -25,7 +25,8 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, MatSlideToggleModule, MatSnackBarModule, MatTableModule],
   template: `
     <section class="sw-page">
-      <h1>Staff</h1><p class="sw-lead">Invite technicians and office staff, change their roles, or disable an account.</p>
+      <h1>Staff</h1>
+      <p class="sw-lead">Invite technicians and office staff, change their roles, or disable an account.</p>
       <h2>Invite someone</h2>
       <form [formGroup]="form" (ngSubmit)="invite()" class="invite" novalidate>
         <mat-form-field appearance="outline">
@@ -61,7 +62,9 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
       <table mat-table [dataSource]="staff() ?? []" aria-label="Staff members">
         <ng-container matColumnDef="name">
           <th mat-header-cell *matHeaderCellDef>Name</th>
-          <td mat-cell *matCellDef="let m">{{ m.name }}<br /><small>{{ m.email }}</small></td>
+          <td mat-cell *matCellDef="let m">
+            {{ m.name }}<br /><small>{{ m.email }}</small>
+          </td>
         </ng-container>
         <ng-container matColumnDef="role">
           <th mat-header-cell *matHeaderCellDef>Role</th>
@@ -108,10 +111,26 @@ const ROLE_WORDS: Record<StaffMember['role'], string> = { technician: 'Technicia
     </section>
   `,
   styles: `
-    .invite { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: flex-start; margin-bottom: 16px; }
-    .status { display: inline-flex; gap: 4px; align-items: center; }
-    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
-    table { width: 100%; }
+    .invite {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px 12px;
+      align-items: flex-start;
+      margin-bottom: 16px;
+    }
+    .status {
+      display: inline-flex;
+      gap: 4px;
+      align-items: center;
+    }
+    .problem {
+      color: var(--sw-alert);
+      display: flex;
+      gap: 8px;
+    }
+    table {
+      width: 100%;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -14,9 +14,12 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Forgot your password?</h1><p class="sw-lead">We e-mail staff a link to choose a new password.</p>
+      <h1>Forgot your password?</h1>
+      <p class="sw-lead">We e-mail staff a link to choose a new password.</p>
       @if (message(); as m) {
-        <p class="notice" role="status"><mat-icon svgIcon="mail" aria-hidden="true" /><span>{{ m }}</span></p>
+        <p class="notice" role="status">
+          <mat-icon svgIcon="mail" aria-hidden="true" /><span>{{ m }}</span>
+        </p>
         <p><a routerLink="/staff/sign-in">Back to staff sign-in</a></p>
       } @else {
         <p>Enter your staff e-mail address and we will send you a link to set a new one.</p>
@@ -29,7 +32,9 @@ import { firstValueFrom } from 'rxjs';
             }
           </mat-form-field>
           @if (problem(); as p) {
-            <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+            <p class="problem" role="alert">
+              <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+            </p>
           }
           <div class="row"><button mat-flat-button type="submit" [disabled]="busy()">Send the link</button></div>
         </form>

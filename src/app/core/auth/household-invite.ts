@@ -33,10 +33,14 @@ import { firstValueFrom } from 'rxjs';
           }
         </mat-form-field>
         @if (problem(); as p) {
-          <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+          <p class="problem" role="alert">
+            <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+          </p>
         }
         @if (sent(); as s) {
-          <p class="notice" role="status"><mat-icon svgIcon="status-ok" aria-hidden="true" /><span>Invitation sent to {{ s }}.</span></p>
+          <p class="notice" role="status">
+            <mat-icon svgIcon="status-ok" aria-hidden="true" /><span>Invitation sent to {{ s }}.</span>
+          </p>
         }
         <div class="row"><button mat-flat-button type="submit" [disabled]="busy()">Send invitation</button></div>
       </form>
@@ -67,7 +71,9 @@ export class HouseholdInvite {
     if (this.form.invalid) return this.form.markAllAsTouched();
     this.busy.set(true);
     try {
-      const res = await firstValueFrom(this.api.inviteHousehold({ ...(customerId.trim() ? { customerId: customerId.trim() } : {}), ...(email.trim() ? { email: email.trim() } : {}) }));
+      const res = await firstValueFrom(
+        this.api.inviteHousehold({ ...(customerId.trim() ? { customerId: customerId.trim() } : {}), ...(email.trim() ? { email: email.trim() } : {}) }),
+      );
       this.sent.set(res.email);
       this.form.reset();
     } catch (err) {

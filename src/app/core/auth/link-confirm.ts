@@ -16,13 +16,16 @@ import { firstValueFrom } from 'rxjs';
   imports: [MatButtonModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Sign in</h1><p class="sw-lead">Confirm the sign-in link from your e-mail.</p>
+      <h1>Sign in</h1>
+      <p class="sw-lead">Confirm the sign-in link from your e-mail.</p>
       @if (!token()) {
         <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>This link is not complete. Please open it again from the e-mail.</span></p>
       } @else {
         <p>Press the button to finish signing in on this device.</p>
         @if (problem(); as p) {
-          <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+          <p class="problem" role="alert">
+            <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+          </p>
         }
         <div class="row">
           <button mat-flat-button type="button" (click)="confirm()" [disabled]="busy()">Sign me in</button>

@@ -27,7 +27,9 @@ import { firstValueFrom } from 'rxjs';
           }
         </mat-form-field>
         @if (problem(); as p) {
-          <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+          <p class="problem" role="alert">
+            <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+          </p>
           <p><a routerLink="/forgot-password">Ask for a new link</a></p>
         }
         <div class="row"><button mat-flat-button type="submit" [disabled]="busy() || !token()">Save password and sign in</button></div>

@@ -17,11 +17,16 @@ import { firstValueFrom } from 'rxjs';
     <section class="card">
       @if (sentTo(); as address) {
         <h1>Check your e-mail</h1>
-        <p class="notice" role="status"><mat-icon svgIcon="mail" aria-hidden="true" /><span>{{ message() }}</span></p>
-        <p>We sent it to <strong>{{ address }}</strong> if that address has a portal account. Open the link on this device, then press “Sign me in”.</p>
+        <p class="notice" role="status">
+          <mat-icon svgIcon="mail" aria-hidden="true" /><span>{{ message() }}</span>
+        </p>
+        <p>
+          We sent it to <strong>{{ address }}</strong> if that address has a portal account. Open the link on this device, then press “Sign me in”.
+        </p>
         <div class="row"><button mat-stroked-button type="button" (click)="sentTo.set(null)">Use another address</button></div>
       } @else {
-        <h1>Sign in to your home portal</h1><p class="sw-lead">We e-mail you a link; no password needed.</p>
+        <h1>Sign in to your home portal</h1>
+        <p class="sw-lead">We e-mail you a link; no password needed.</p>
         <p>No password needed: enter the e-mail address your heating and cooling company has for you, and we will send you a sign-in link.</p>
         <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
           <mat-form-field appearance="outline">
@@ -32,7 +37,9 @@ import { firstValueFrom } from 'rxjs';
             }
           </mat-form-field>
           @if (problem(); as p) {
-            <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+            <p class="problem" role="alert">
+              <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+            </p>
           }
           <div class="row">
             <button mat-flat-button type="submit" [disabled]="busy()">Send me a sign-in link</button>

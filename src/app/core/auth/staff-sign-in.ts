@@ -15,7 +15,8 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatIconModule, RouterLink],
   template: `
     <section class="card">
-      <h1>Staff sign-in</h1><p class="sw-lead">For the office, technicians and the owner.</p>
+      <h1>Staff sign-in</h1>
+      <p class="sw-lead">For the office, technicians and the owner.</p>
       <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>E-mail address</mat-label>
@@ -32,7 +33,9 @@ import { firstValueFrom } from 'rxjs';
           }
         </mat-form-field>
         @if (problem(); as p) {
-          <p class="problem" role="alert"><mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span></p>
+          <p class="problem" role="alert">
+            <mat-icon svgIcon="status-alert" aria-hidden="true" /><span>{{ p }}</span>
+          </p>
         }
         <div class="row">
           <button mat-flat-button type="submit" [disabled]="busy()">Sign in</button>

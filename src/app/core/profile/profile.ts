@@ -14,7 +14,8 @@ const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: '
   imports: [MatButtonModule, MatIconModule],
   template: `
     <section class="sw-page profile">
-      <h1>Your profile</h1><p class="sw-lead">Your name, sign-in address and password.</p>
+      <h1>Your profile</h1>
+      <p class="sw-lead">Your name, sign-in address and password.</p>
       @if (session.user(); as u) {
         <dl>
           <dt>Name</dt>
@@ -34,12 +35,30 @@ const ROLE_WORDS = { homeowner: 'Homeowner', technician: 'Technician', office: '
     </section>
   `,
   styles: `
-    .profile { max-width: 560px; }
-    dl { display: grid; grid-template-columns: max-content 1fr; gap: 4px 16px; margin: 0 0 24px; }
-    dt { font-weight: 700; }
-    dd { margin: 0; overflow-wrap: anywhere; }
-    h2 { font-size: 1.1rem; }
-    .problem { color: var(--sw-alert); display: flex; gap: 8px; }
+    .profile {
+      max-width: 560px;
+    }
+    dl {
+      display: grid;
+      grid-template-columns: max-content 1fr;
+      gap: 4px 16px;
+      margin: 0 0 24px;
+    }
+    dt {
+      font-weight: 700;
+    }
+    dd {
+      margin: 0;
+      overflow-wrap: anywhere;
+    }
+    h2 {
+      font-size: 1.1rem;
+    }
+    .problem {
+      color: var(--sw-alert);
+      display: flex;
+      gap: 8px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

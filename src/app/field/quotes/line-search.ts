@@ -29,7 +29,9 @@ interface Hit {
       <mat-button-toggle-group [value]="where()" (change)="where.set($event.value)" [attr.aria-label]="'Search in'">
         <mat-button-toggle value="book">Price book</mat-button-toggle>
         <mat-button-toggle value="tasks">Flat-rate tasks</mat-button-toggle>
-        @if (truckId()) { <mat-button-toggle value="truck">My truck</mat-button-toggle> }
+        @if (truckId()) {
+          <mat-button-toggle value="truck">My truck</mat-button-toggle>
+        }
       </mat-button-toggle-group>
       <mat-form-field appearance="outline" class="wide">
         <mat-label>{{ label() }}</mat-label>
@@ -50,21 +52,53 @@ interface Hit {
           </li>
         } @empty {
           @if (!result().loading) {
-            <li class="empty">{{ where() === 'truck' ? 'Nothing on your truck matches. Try the price book, or find a replacement below.' : 'Nothing matches. Try part of the name or the SKU.' }}</li>
+            <li class="empty">
+              {{ where() === 'truck' ? 'Nothing on your truck matches. Try the price book, or find a replacement below.' : 'Nothing matches. Try part of the name or the SKU.' }}
+            </li>
           }
         }
       </ul>
     </div>
   `,
   styles: `
-    .wide { width: 100%; margin-top: 8px; }
-    mat-button-toggle-group { flex-wrap: wrap; }
-    .hits { list-style: none; padding: 0; margin: 0; display: grid; gap: 6px; }
-    .hits li { display: flex; justify-content: space-between; align-items: center; gap: 8px; padding: 6px 0; border-bottom: 1px solid var(--sw-teal-soft); }
-    .hits button { min-height: 44px; flex: none; }
-    .detail { font-size: 0.9rem; color: var(--mat-sys-on-surface-variant); overflow-wrap: anywhere; }
-    .empty { color: var(--mat-sys-on-surface-variant); }
-    .bad { color: var(--sw-alert); font-weight: 700; }
+    .wide {
+      width: 100%;
+      margin-top: 8px;
+    }
+    mat-button-toggle-group {
+      flex-wrap: wrap;
+    }
+    .hits {
+      list-style: none;
+      padding: 0;
+      margin: 0;
+      display: grid;
+      gap: 6px;
+    }
+    .hits li {
+      display: flex;
+      justify-content: space-between;
+      align-items: center;
+      gap: 8px;
+      padding: 6px 0;
+      border-bottom: 1px solid var(--sw-teal-soft);
+    }
+    .hits button {
+      min-height: 44px;
+      flex: none;
+    }
+    .detail {
+      font-size: 0.9rem;
+      color: var(--mat-sys-on-surface-variant);
+      overflow-wrap: anywhere;
+    }
+    .empty {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -27,8 +27,12 @@ import { QuotesApi } from './quotes-api';
             <ul class="stock" aria-label="Stock on your truck">
               @for (s of r.rows; track s.itemId) {
                 <li [class.low]="s.belowMinimum">
-                  <div><strong>{{ s.name }}</strong><span class="detail">{{ s.sku }} · {{ labels[s.category] }}</span></div>
-                  <div class="count"><span>{{ s.quantity }} on hand</span><span class="detail">minimum {{ s.minimum }}{{ s.belowMinimum ? ', ' + s.shortBy + ' short' : '' }}</span></div>
+                  <div>
+                    <strong>{{ s.name }}</strong><span class="detail">{{ s.sku }} · {{ labels[s.category] }}</span>
+                  </div>
+                  <div class="count">
+                    <span>{{ s.quantity }} on hand</span><span class="detail">minimum {{ s.minimum }}{{ s.belowMinimum ? ', ' + s.shortBy + ' short' : '' }}</span>
+                  </div>
                 </li>
               } @empty {
                 <li>Your truck carries nothing yet. The office records restocks from the shop.</li>
@@ -42,13 +46,41 @@ import { QuotesApi } from './quotes-api';
     </section>
   `,
   styles: `
-    .truck { max-width: 760px; }
-    .stock { list-style: none; padding: 0; margin: 0; }
-    .stock li { display: flex; flex-wrap: wrap; justify-content: space-between; gap: 4px 12px; padding: 8px 0; border-bottom: 1px solid var(--sw-teal-soft); overflow-wrap: anywhere; }
-    .stock li.low { border-left: 4px solid var(--sw-watch); padding-left: 8px; }
-    .count { text-align: right; font-weight: 800; }
-    .detail { display: block; font-weight: 400; font-size: 0.9rem; color: var(--mat-sys-on-surface-variant); }
-    .bad { color: var(--sw-alert); font-weight: 700; }
+    .truck {
+      max-width: 760px;
+    }
+    .stock {
+      list-style: none;
+      padding: 0;
+      margin: 0;
+    }
+    .stock li {
+      display: flex;
+      flex-wrap: wrap;
+      justify-content: space-between;
+      gap: 4px 12px;
+      padding: 8px 0;
+      border-bottom: 1px solid var(--sw-teal-soft);
+      overflow-wrap: anywhere;
+    }
+    .stock li.low {
+      border-left: 4px solid var(--sw-watch);
+      padding-left: 8px;
+    }
+    .count {
+      text-align: right;
+      font-weight: 800;
+    }
+    .detail {
+      display: block;
+      font-weight: 400;
+      font-size: 0.9rem;
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

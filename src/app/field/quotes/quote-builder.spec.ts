@@ -18,14 +18,37 @@ const visit = {
 } as unknown as FieldVisit;
 
 const item = (id: string, name: string, kind: 'part' | 'labor', category: 'motor' | 'repair_labor', unitCents: number, taxable: boolean) =>
-  ({ id, versionId: id, version: 1, sku: name.toUpperCase().slice(0, 6), name, kind, category, unit: kind === 'labor' ? 'hour' : 'each', unitCents, costCents: 0, taxable, partsWarrantyMonths: 0, spec: null, active: true, updatedAt: '' }) as PriceBookItem;
+  ({
+    id,
+    versionId: id,
+    version: 1,
+    sku: name.toUpperCase().slice(0, 6),
+    name,
+    kind,
+    category,
+    unit: kind === 'labor' ? 'hour' : 'each',
+    unitCents,
+    costCents: 0,
+    taxable,
+    partsWarrantyMonths: 0,
+    spec: null,
+    active: true,
+    updatedAt: '',
+  }) as PriceBookItem;
 const MOTOR = item('00000000-0000-4000-8000-0000000000a1', 'Blower motor 1/2 hp', 'part', 'motor', 30000, true);
 const LABOR = item('00000000-0000-4000-8000-0000000000a2', 'Repair labor', 'labor', 'repair_labor', 12000, false);
 const BOOK = [MOTOR, LABOR];
 
 const plan: QuoteAgreement = {
-  status: 'active', startsOn: '2026-03-01', endsOn: '2027-03-01', planName: 'Priority Comfort', repairDiscountBps: 1500, diagnosticFeeWaived: true,
-  warrantyLaborCovered: false, tuneUps: { cooling: { included: 1, left: 0 }, heating: { included: 1, left: 1 } }, discountCategories: DEFAULT_DISCOUNT_CATEGORIES,
+  status: 'active',
+  startsOn: '2026-03-01',
+  endsOn: '2027-03-01',
+  planName: 'Priority Comfort',
+  repairDiscountBps: 1500,
+  diagnosticFeeWaived: true,
+  warrantyLaborCovered: false,
+  tuneUps: { cooling: { included: 1, left: 0 }, heating: { included: 1, left: 1 } },
+  discountCategories: DEFAULT_DISCOUNT_CATEGORIES,
 };
 
 /** What the server answers for a preview: the shared coverage rules over the priced lines. */
@@ -36,7 +59,13 @@ function previewOf(body: QuoteCreate): { options: QuoteOptionView[]; coverageNot
       return { description: it.name, kind: it.kind, category: it.category, quantity: l.quantity, unitCents: it.unitCents, taxable: it.taxable };
     });
     const c = coverOption({ agreement: plan, warranty: null, visitDate: '2026-07-14', lines, taxRateBps: 825 });
-    return { id: `o${i}`, title: o.title, description: o.description, ...c, lines: c.lines.map((l, j) => ({ ...l, id: `l${i}-${j}`, itemId: null, itemVersionId: null, taskId: null, group: null, sku: null, stockLocationId: null })) };
+    return {
+      id: `o${i}`,
+      title: o.title,
+      description: o.description,
+      ...c,
+      lines: c.lines.map((l, j) => ({ ...l, id: `l${i}-${j}`, itemId: null, itemVersionId: null, taskId: null, group: null, sku: null, stockLocationId: null })),
+    };
   });
   return { options, coverageNotes: [] };
 }

@@ -11,7 +11,15 @@ import { catchError, debounceTime, firstValueFrom, map, of, startWith, switchMap
 import { formatUsd } from '../../../../shared/money';
 import { OPTIONS_PER_QUOTE_MAX } from '../../../../shared/pricebook';
 import type { FieldVisit } from '../../../../shared/schemas/field';
-import { EDITABLE_QUOTE_STATUSES, QUOTE_STATUS_LABELS, type QuoteApprove, type QuoteCreate, type QuoteDecline, type QuoteOptionView, type QuoteView } from '../../../../shared/schemas/pricebook';
+import {
+  EDITABLE_QUOTE_STATUSES,
+  QUOTE_STATUS_LABELS,
+  type QuoteApprove,
+  type QuoteCreate,
+  type QuoteDecline,
+  type QuoteOptionView,
+  type QuoteView,
+} from '../../../../shared/schemas/pricebook';
 import { toApiError } from '../../core/api-errors';
 import { QuoteApproval } from '../../ui/quote-approval';
 import { QuoteOptionTable } from '../../ui/quote-option-table';
@@ -23,7 +31,19 @@ import { ReplacementSearch } from './replacement-search';
 /** The quote for the repair, built on the visit: options, lines with coverage, note, photos, send. */
 @Component({
   selector: 'sw-quote-builder',
-  imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, QuoteApproval, QuoteOptionTable, LineSearch, ReplacementSearch],
+  imports: [
+    ReactiveFormsModule,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    QuoteApproval,
+    QuoteOptionTable,
+    LineSearch,
+    ReplacementSearch,
+  ],
   templateUrl: './quote-builder.html',
   styleUrl: './quote-builder.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -42,8 +62,7 @@ export class QuoteBuilder {
 
   private readonly existing = rxResource({
     params: () => this.visit().visit.id,
-    stream: ({ params }) =>
-      this.api.quotesOf(params).pipe(switchMap((page) => (page.items[0] ? this.api.quote(page.items[0].id) : of(null)))),
+    stream: ({ params }) => this.api.quotesOf(params).pipe(switchMap((page) => (page.items[0] ? this.api.quote(page.items[0].id) : of(null)))),
   });
   /** The quote as the server last answered; null until the first save. */
   protected readonly saved = signal<QuoteView | null>(null);
@@ -194,7 +213,10 @@ export class QuoteBuilder {
       return view;
     } catch (e) {
       const err = toApiError(e);
-      this.message.set({ kind: 'bad', text: err.code === 'revision_conflict' ? 'Someone changed this quote on another device. Reload the visit to see their version.' : err.message });
+      this.message.set({
+        kind: 'bad',
+        text: err.code === 'revision_conflict' ? 'Someone changed this quote on another device. Reload the visit to see their version.' : err.message,
+      });
       return null;
     } finally {
       this.busy.set(null);

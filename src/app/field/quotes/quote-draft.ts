@@ -43,11 +43,10 @@ export function optionInputs(options: DraftOption[], equipmentId: string | null)
   return options.map((o, i) => ({
     title: o.title.trim() || `Option ${i + 1}`,
     description: o.description.trim(),
-    lines: o.lines.map(
-      (l): QuoteLineInput =>
-        l.source === 'item'
-          ? { source: 'item', itemId: l.refId, quantity: l.quantity, stockLocationId: l.stockLocationId, equipmentId }
-          : { source: 'task', taskId: l.refId, quantity: l.quantity, stockLocationId: l.stockLocationId, equipmentId },
+    lines: o.lines.map((l): QuoteLineInput =>
+      l.source === 'item'
+        ? { source: 'item', itemId: l.refId, quantity: l.quantity, stockLocationId: l.stockLocationId, equipmentId }
+        : { source: 'task', taskId: l.refId, quantity: l.quantity, stockLocationId: l.stockLocationId, equipmentId },
     ),
   }));
 }
@@ -64,7 +63,16 @@ export function draftFrom(view: QuoteView): DraftOption[] {
         groups.add(g);
         lines.push({ key: newKey('l'), source: 'task', refId: l.taskId, sku: null, description: l.description, quantity: 1, stockLocationId: l.stockLocationId, from: null });
       } else if (l.itemId) {
-        lines.push({ key: newKey('l'), source: 'item', refId: l.itemId, sku: l.sku, description: l.description, quantity: l.quantity, stockLocationId: l.stockLocationId, from: null });
+        lines.push({
+          key: newKey('l'),
+          source: 'item',
+          refId: l.itemId,
+          sku: l.sku,
+          description: l.description,
+          quantity: l.quantity,
+          stockLocationId: l.stockLocationId,
+          from: null,
+        });
       }
     }
     return { key: newKey('o'), title: o.title, description: o.description, lines };

@@ -12,13 +12,33 @@ const TRUCK = { id: '00000000-0000-4000-8000-0000000000f1', kind: 'truck' as con
 const SHOP = { id: '00000000-0000-4000-8000-0000000000f9', kind: 'shop' as const, name: 'Shop' };
 
 const motor = (rpm: number, extra: Partial<MotorSpec> = {}): MotorSpec => ({
-  category: 'motor', application: 'indoor_blower', horsepower: { min: 0.5, max: 0.5 }, volts: [{ min: 115, max: 115 }], phase: 1, rpm, speeds: 3,
-  rotation: 'reversible', rotationViewedFrom: null, shaft: null, frame: '48', fla: 7.4, taps: [{ horsepower: 0.5, microfarads: 10, amps: null }], capacitorVolts: 370, ...extra,
+  category: 'motor',
+  application: 'indoor_blower',
+  horsepower: { min: 0.5, max: 0.5 },
+  volts: [{ min: 115, max: 115 }],
+  phase: 1,
+  rpm,
+  speeds: 3,
+  rotation: 'reversible',
+  rotationViewedFrom: null,
+  shaft: null,
+  frame: '48',
+  fla: 7.4,
+  taps: [{ horsepower: 0.5, microfarads: 10, amps: null }],
+  capacitorVolts: 370,
+  ...extra,
 });
 const candidates: PartCandidate[] = [
   { itemId: '00000000-0000-4000-8000-0000000000b1', sku: 'MTR-12-3S', name: 'Blower motor 1/2 hp 115 V 3-speed', spec: motor(1075), location: TRUCK, quantity: 1 },
   { itemId: '00000000-0000-4000-8000-0000000000b2', sku: 'MTR-12-HS', name: 'Blower motor 1/2 hp 1625 RPM', spec: motor(1625), location: SHOP, quantity: 2 },
-  { itemId: '00000000-0000-4000-8000-0000000000c1', sku: 'CAP-10-370', name: 'Run capacitor 10 µF 370 V', spec: { category: 'capacitor', microfarads: [10], volts: 370, shape: 'oval', tolerancePct: 6 }, location: TRUCK, quantity: 3 },
+  {
+    itemId: '00000000-0000-4000-8000-0000000000c1',
+    sku: 'CAP-10-370',
+    name: 'Run capacitor 10 µF 370 V',
+    spec: { category: 'capacitor', microfarads: [10], volts: 370, shape: 'oval', tolerancePct: 6 },
+    location: TRUCK,
+    quantity: 3,
+  },
 ];
 
 function setUp() {
@@ -66,7 +86,17 @@ describe('ReplacementSearch', () => {
     const req = http.expectOne('/api/stock/replacements');
     const body = req.request.body as SearchBody;
     // "1/2" is half a horsepower and "115" one rating of 115 V, as the server's own schema reads them.
-    expect(body.failed).toMatchObject({ category: 'motor', horsepower: 0.5, volts: [{ min: 115, max: 115 }], phase: 1, rpm: 1075, speeds: 3, speedsUsed: 2, amps: 7.6, rotation: 'unknown' });
+    expect(body.failed).toMatchObject({
+      category: 'motor',
+      horsepower: 0.5,
+      volts: [{ min: 115, max: 115 }],
+      phase: 1,
+      rpm: 1075,
+      speeds: 3,
+      speedsUsed: 2,
+      amps: 7.6,
+      rotation: 'unknown',
+    });
     const failed = failedMotorSchema.parse(body.failed);
     req.flush(findReplacements({ failed, candidates, thisTruckId: TRUCK.id }));
     await fixture.whenStable();

@@ -70,7 +70,8 @@ export class ReplacementSearch {
 
   protected search(): void {
     const form = this.kind() === 'motor' ? this.motor : this.capacitor;
-    const raw = this.kind() === 'motor' ? { category: 'motor', ...this.motorValue() } : { category: 'capacitor', ...this.capacitor.getRawValue(), shape: this.capacitor.value.shape || null };
+    const raw =
+      this.kind() === 'motor' ? { category: 'motor', ...this.motorValue() } : { category: 'capacitor', ...this.capacitor.getRawValue(), shape: this.capacitor.value.shape || null };
     // The same schema the server parses with, for an answer before the request.
     const checked = (this.kind() === 'motor' ? failedMotorSchema : failedCapacitorSchema).safeParse(raw);
     if (!checked.success) {

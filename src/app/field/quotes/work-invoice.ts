@@ -26,7 +26,9 @@ import { QuotesApi } from './quotes-api';
         <ul class="lines" aria-label="Invoice lines">
           @for (l of draft().lines; track l.key) {
             <li>
-              <div class="what"><strong>{{ l.description }}</strong><span class="detail">{{ l.sku }} × {{ l.quantity }}</span></div>
+              <div class="what">
+                <strong>{{ l.description }}</strong><span class="detail">{{ l.sku }} × {{ l.quantity }}</span>
+              </div>
               <button mat-icon-button type="button" (click)="remove(l.key)" [attr.aria-label]="'Remove ' + l.description"><mat-icon svgIcon="close" aria-hidden="true" /></button>
             </li>
           } @empty {
@@ -37,13 +39,17 @@ import { QuotesApi } from './quotes-api';
           @if (f.option; as o) {
             <sw-quote-option-table [option]="o" />
           }
-          @if (f.error; as e) { <p role="alert" class="bad">{{ e }}</p> }
+          @if (f.error; as e) {
+            <p role="alert" class="bad">{{ e }}</p>
+          }
         }
         <sw-line-search [truckId]="truckId()" (picked)="add($event)" />
         <div class="actions">
           <button mat-flat-button type="button" class="big" (click)="issue()" [disabled]="busy() || !draft().lines.length">Issue the invoice</button>
         </div>
-        @if (error(); as e) { <p role="alert" class="bad">{{ e }}</p> }
+        @if (error(); as e) {
+          <p role="alert" class="bad">{{ e }}</p>
+        }
       }
     </details>
   `,

@@ -28,7 +28,14 @@ describe('WeekSchedule', () => {
       member: false,
       planName: null,
     } as unknown as VisitView;
-    const week: WeekResponse = { start: '2031-07-07', end: '2031-07-13', timeZone: 'America/Chicago', technician: { id: 't', name: 'Priya Dunmore' }, visits: [visit], feed: { active: false, createdAt: null } };
+    const week: WeekResponse = {
+      start: '2031-07-07',
+      end: '2031-07-13',
+      timeZone: 'America/Chicago',
+      technician: { id: 't', name: 'Priya Dunmore' },
+      visits: [visit],
+      feed: { active: false, createdAt: null },
+    };
     http.expectOne((r) => r.url.startsWith('/api/schedule/week')).flush(week);
     await fixture.whenStable();
     const text = (fixture.nativeElement as HTMLElement).textContent ?? '';

@@ -34,7 +34,7 @@ describe('CompleteVisitDialog', () => {
     expect(closed()).toEqual({ skippedReason: 'No attic access today.', repairDone: false });
   });
 
-  it('asks for the homeowner\'s signature when a repair was done, and returns it with the signer', async () => {
+  it("asks for the homeowner's signature when a repair was done, and returns it with the signer", async () => {
     const { fixture, el, confirm, closed } = await open([]);
     el.querySelector<HTMLInputElement>('mat-checkbox input')!.click();
     await fixture.whenStable();

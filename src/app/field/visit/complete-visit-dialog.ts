@@ -26,7 +26,9 @@ export interface CompleteVisitData {
       @if (data.unfinished.length) {
         <h3 id="unfinished-title">Not ticked on the checklist ({{ data.unfinished.length }})</h3>
         <ul aria-labelledby="unfinished-title" class="unfinished">
-          @for (item of data.unfinished; track item) { <li>{{ item }}</li> }
+          @for (item of data.unfinished; track item) {
+            <li>{{ item }}</li>
+          }
         </ul>
         <mat-form-field appearance="outline" class="wide">
           <mat-label>Why were these skipped?</mat-label>
@@ -46,7 +48,9 @@ export interface CompleteVisitData {
           </mat-form-field>
         </div>
       }
-      @if (missing(); as m) { <p class="missing" role="status">{{ m }}</p> }
+      @if (missing(); as m) {
+        <p class="missing" role="status">{{ m }}</p>
+      }
     </mat-dialog-content>
     <mat-dialog-actions align="end">
       <button mat-button type="button" mat-dialog-close>Back to the visit</button>
@@ -54,11 +58,33 @@ export interface CompleteVisitData {
     </mat-dialog-actions>
   `,
   styles: `
-    .wide { width: 100%; }
-    .unfinished { margin: 0 0 12px; padding-left: 20px; }
-    .pad { display: block; width: 100%; max-width: 600px; aspect-ratio: 3 / 1; border: 2px solid var(--mat-sys-outline); border-radius: 8px; touch-action: none; background: var(--mat-sys-surface); }
-    .sign-row { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; margin-top: 8px; }
-    .missing { color: var(--mat-sys-on-surface-variant); }
+    .wide {
+      width: 100%;
+    }
+    .unfinished {
+      margin: 0 0 12px;
+      padding-left: 20px;
+    }
+    .pad {
+      display: block;
+      width: 100%;
+      max-width: 600px;
+      aspect-ratio: 3 / 1;
+      border: 2px solid var(--mat-sys-outline);
+      border-radius: 8px;
+      touch-action: none;
+      background: var(--mat-sys-surface);
+    }
+    .sign-row {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      align-items: center;
+      margin-top: 8px;
+    }
+    .missing {
+      color: var(--mat-sys-on-surface-variant);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

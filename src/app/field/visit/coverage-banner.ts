@@ -45,16 +45,55 @@ import { formatUsd } from '../../../../shared/money';
     </section>
   `,
   styles: `
-    .banner { border: 2px solid var(--sw-watch); background: var(--sw-watch-soft); border-radius: var(--sw-radius); padding: 12px 16px; margin: 0 0 16px; }
-    .banner.covered { border-color: var(--sw-ok); background: var(--sw-ok-soft); }
-    h2 { display: flex; flex-wrap: wrap; align-items: center; gap: 6px; font-size: 1.2rem; font-weight: 800; margin: 0 0 4px; }
-    h2 mat-icon { width: 24px; height: 24px; }
-    .status { font-weight: 600; }
-    .term { margin: 0 0 8px; }
-    .facts { display: grid; grid-template-columns: repeat(auto-fill, minmax(150px, 1fr)); gap: 8px 16px; margin: 0 0 8px; }
-    dt { font-size: 0.85rem; color: var(--mat-sys-on-surface-variant); }
-    dd { margin: 0; font-weight: 800; font-size: 1.05rem; }
-    .notes { margin: 0; padding-left: 20px; }
+    .banner {
+      border: 2px solid var(--sw-watch);
+      background: var(--sw-watch-soft);
+      border-radius: var(--sw-radius);
+      padding: 12px 16px;
+      margin: 0 0 16px;
+    }
+    .banner.covered {
+      border-color: var(--sw-ok);
+      background: var(--sw-ok-soft);
+    }
+    h2 {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      gap: 6px;
+      font-size: 1.2rem;
+      font-weight: 800;
+      margin: 0 0 4px;
+    }
+    h2 mat-icon {
+      width: 24px;
+      height: 24px;
+    }
+    .status {
+      font-weight: 600;
+    }
+    .term {
+      margin: 0 0 8px;
+    }
+    .facts {
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(150px, 1fr));
+      gap: 8px 16px;
+      margin: 0 0 8px;
+    }
+    dt {
+      font-size: 0.85rem;
+      color: var(--mat-sys-on-surface-variant);
+    }
+    dd {
+      margin: 0;
+      font-weight: 800;
+      font-size: 1.05rem;
+    }
+    .notes {
+      margin: 0;
+      padding-left: 20px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

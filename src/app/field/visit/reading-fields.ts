@@ -158,7 +158,11 @@ export interface Evaluation {
  * Runs the engine on what is typed so far. A bad field is reported and set aside, and the rest
  * is evaluated again, so one typo does not hide every other result.
  */
-export function evaluateTyped(readings: VisitReadings, evaluate: (r: VisitReadings) => ReadingCheck[], isInputError: (e: unknown) => e is { field: string; message: string }): Evaluation {
+export function evaluateTyped(
+  readings: VisitReadings,
+  evaluate: (r: VisitReadings) => ReadingCheck[],
+  isInputError: (e: unknown) => e is { field: string; message: string },
+): Evaluation {
   const errors: Record<string, string> = {};
   const r = structuredClone(readings) as Record<string, unknown>;
   for (let i = 0; i < 12; i++) {

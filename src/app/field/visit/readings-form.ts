@@ -84,9 +84,7 @@ export class ReadingsForm {
   protected readonly fullCapacityPrompt = FULL_CAPACITY_TEST_PROMPT.charAt(0).toUpperCase() + FULL_CAPACITY_TEST_PROMPT.slice(1) + '.';
   protected readonly groupTitles = GROUP_TITLES;
   protected readonly checkLabels = CHECK_LABELS;
-  protected readonly controls: Record<string, FormControl<string>> = Object.fromEntries(
-    READING_FIELDS.map((f) => [f.path, new FormControl('', { nonNullable: true })]),
-  );
+  protected readonly controls: Record<string, FormControl<string>> = Object.fromEntries(READING_FIELDS.map((f) => [f.path, new FormControl('', { nonNullable: true })]));
   protected readonly form = new FormGroup({
     equipmentId: new FormControl('', { nonNullable: true }),
     mode: new FormControl<Mode>('cooling', { nonNullable: true }),
@@ -106,8 +104,7 @@ export class ReadingsForm {
   protected readonly compressorType = computed(() => this.system()?.compressorType ?? null);
   protected readonly partCapacity = computed(() => this.compressorType() === 'variable_speed' || this.compressorType() === 'two_stage');
   protected readonly groups = computed(() => GROUPS_BY_MODE[this.mode()].filter((g) => this.partCapacity() || !PART_CAPACITY_GROUPS.has(g)));
-  protected readonly fieldsByGroup = (g: ReadingGroup): ReadingField[] =>
-    READING_FIELDS.filter((f) => f.group === g && (!f.only || f.only === this.compressorType()));
+  protected readonly fieldsByGroup = (g: ReadingGroup): ReadingField[] => READING_FIELDS.filter((f) => f.group === g && (!f.only || f.only === this.compressorType()));
   protected readonly helpByGroup = (g: ReadingGroup): { label: string; text: string }[] =>
     this.fieldsByGroup(g).flatMap((f) => (this.help[f.path] ? [{ label: f.label, text: this.help[f.path]! }] : []));
   protected readonly state = signal<SaveState>({ kind: 'idle' });
@@ -243,13 +240,22 @@ export class ReadingsForm {
     this.form.setValue({ equipmentId, mode, refrigerant, meteringDevice, airflowBasis, fullCapacityTest, values }, { emitEvent: false });
     this.value.set(this.form.getRawValue());
     this.restored.set(!!draft);
-    this.state.set(draft ? { kind: 'kept', message: 'Readings restored from this phone; not saved to the office yet.' } : saved ? { kind: 'saved', at: saved.recordedAt } : { kind: 'idle' });
+    this.state.set(
+      draft ? { kind: 'kept', message: 'Readings restored from this phone; not saved to the office yet.' } : saved ? { kind: 'saved', at: saved.recordedAt } : { kind: 'idle' },
+    );
   }
 
   private keepDraft(): void {
     const v = this.form.getRawValue();
     if (!v.equipmentId) return;
-    const draft: Draft = { mode: v.mode, refrigerant: v.refrigerant, meteringDevice: v.meteringDevice, airflowBasis: v.airflowBasis, fullCapacityTest: v.fullCapacityTest, values: v.values };
+    const draft: Draft = {
+      mode: v.mode,
+      refrigerant: v.refrigerant,
+      meteringDevice: v.meteringDevice,
+      airflowBasis: v.airflowBasis,
+      fullCapacityTest: v.fullCapacityTest,
+      values: v.values,
+    };
     this.drafts.write(this.visitId(), this.draftPart(v.equipmentId), draft);
   }
 

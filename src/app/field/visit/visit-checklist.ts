@@ -73,11 +73,18 @@ export class VisitChecklist {
   protected save(): void {
     const id = this.visit().visit.id;
     const season = this.season();
-    const items = this.checklist().flatMap((s) => s.items.filter((i) => i.result !== null).map((i) => ({ equipmentId: s.equipmentId, itemId: i.id, result: i.result!, note: i.note })));
-    void this.saves.run(id, `checklist.${season}`, async () => {
-      const res = await firstValueFrom(this.api.saveChecklist(id, { season, items }));
-      this.checklist.set(res.checklist);
-      this.saved.emit(res.checklist);
-    }, 'Checklist saved.');
+    const items = this.checklist().flatMap((s) =>
+      s.items.filter((i) => i.result !== null).map((i) => ({ equipmentId: s.equipmentId, itemId: i.id, result: i.result!, note: i.note })),
+    );
+    void this.saves.run(
+      id,
+      `checklist.${season}`,
+      async () => {
+        const res = await firstValueFrom(this.api.saveChecklist(id, { season, items }));
+        this.checklist.set(res.checklist);
+        this.saved.emit(res.checklist);
+      },
+      'Checklist saved.',
+    );
   }
 }

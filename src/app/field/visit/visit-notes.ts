@@ -69,7 +69,11 @@ export class VisitNotes {
     const p = this.visit();
     const id = p.visit.id;
     const data: CompleteVisitData = { unfinished: p.visit.reason === 'tune_up' ? unfinishedItems(this.checklist() ?? p.checklist) : [], householdName: p.customer.name };
-    const answers = await firstValueFrom(this.dialog.open<CompleteVisitDialog, CompleteVisitData, CompletionAnswers>(CompleteVisitDialog, { data, maxWidth: '640px', width: '100%', disableClose: true }).afterClosed());
+    const answers = await firstValueFrom(
+      this.dialog
+        .open<CompleteVisitDialog, CompleteVisitData, CompletionAnswers>(CompleteVisitDialog, { data, maxWidth: '640px', width: '100%', disableClose: true })
+        .afterClosed(),
+    );
     if (!answers) return;
     void this.saves.run(
       id,

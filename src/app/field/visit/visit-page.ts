@@ -27,7 +27,22 @@ import { DayPipe } from '../../ui/dates';
 /** One visit on site: header, coverage, checklist or troubleshooting, readings, findings, completion. */
 @Component({
   selector: 'sw-visit-page',
-  imports: [DayPipe, PhoneLink, RouterLink, MatButtonModule, MatIconModule, CautionNote, CoverageBanner, ReadingsForm, VisitChecklist, VisitNotes, VisitPhotos, VisitTroubleshooting, QuoteBuilder, WorkInvoice],
+  imports: [
+    DayPipe,
+    PhoneLink,
+    RouterLink,
+    MatButtonModule,
+    MatIconModule,
+    CautionNote,
+    CoverageBanner,
+    ReadingsForm,
+    VisitChecklist,
+    VisitNotes,
+    VisitPhotos,
+    VisitTroubleshooting,
+    QuoteBuilder,
+    WorkInvoice,
+  ],
   templateUrl: './visit-page.html',
   styleUrl: './visit-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

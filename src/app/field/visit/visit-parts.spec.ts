@@ -86,7 +86,10 @@ describe('VisitNotes', { timeout: 60_000 }, () => {
     await confirmCompletion(fixture);
     http
       .expectOne('/api/field/visits/v1/complete')
-      .flush({ error: { code: 'invalid', message: 'Please check the findings.', fields: { findings: 'Findings are needed to complete the visit' } } }, { status: 400, statusText: 'Bad Request' });
+      .flush(
+        { error: { code: 'invalid', message: 'Please check the findings.', fields: { findings: 'Findings are needed to complete the visit' } } },
+        { status: 400, statusText: 'Bad Request' },
+      );
     // The save runs after the dialog's answer: let its promise settle before reading the page.
     await new Promise((r) => setTimeout(r, 100));
     await fixture.whenStable();

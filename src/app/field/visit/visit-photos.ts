@@ -37,10 +37,15 @@ export class VisitPhotos {
     const chosen = [...(picker.files ?? [])];
     if (!chosen.length) return;
     const id = this.visitId();
-    const ok = await this.saves.run(id, 'photos', async () => {
-      const stored = await firstValueFrom(this.api.uploadPhotos(id, chosen, this.category.value, this.caption.value.trim()));
-      this.added.emit(stored.filter((s) => s.contentType.startsWith('image/')));
-    }, `${chosen.length} photo${chosen.length === 1 ? '' : 's'} added.`);
+    const ok = await this.saves.run(
+      id,
+      'photos',
+      async () => {
+        const stored = await firstValueFrom(this.api.uploadPhotos(id, chosen, this.category.value, this.caption.value.trim()));
+        this.added.emit(stored.filter((s) => s.contentType.startsWith('image/')));
+      },
+      `${chosen.length} photo${chosen.length === 1 ? '' : 's'} added.`,
+    );
     if (ok) {
       picker.value = '';
       this.caption.setValue('');

@@ -18,11 +18,34 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
   templateUrl: './customer-form.html',
   styles: `
-    :host { display: block; padding: 16px; max-width: 760px; margin: 0 auto; }
-    form { display: grid; gap: 4px 12px; grid-template-columns: repeat(auto-fit, minmax(220px, 1fr)); }
-    h2, .wide, .buttons, .error { grid-column: 1 / -1; }
-    .buttons { display: flex; gap: 8px; margin-top: 8px; }
-    .error { color: var(--mat-sys-error); display: flex; gap: 6px; align-items: center; }
+    :host {
+      display: block;
+      padding: 16px;
+      max-width: 760px;
+      margin: 0 auto;
+    }
+    form {
+      display: grid;
+      gap: 4px 12px;
+      grid-template-columns: repeat(auto-fit, minmax(220px, 1fr));
+    }
+    h2,
+    .wide,
+    .buttons,
+    .error {
+      grid-column: 1 / -1;
+    }
+    .buttons {
+      display: flex;
+      gap: 8px;
+      margin-top: 8px;
+    }
+    .error {
+      color: var(--mat-sys-error);
+      display: flex;
+      gap: 6px;
+      align-items: center;
+    }
   `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,

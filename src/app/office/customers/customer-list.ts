@@ -21,7 +21,21 @@ import { PhoneLink } from '../../ui/phone-link';
 /** The office's household table: server-side search as you type, sorting and paging. */
 @Component({
   selector: 'sw-customer-list',
-  imports: [PhoneLink, DayPipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatPaginatorModule, MatProgressBarModule, MatSortModule, MatTableModule],
+  imports: [
+    PhoneLink,
+    DayPipe,
+    ReactiveFormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatPaginatorModule,
+    MatProgressBarModule,
+    MatSortModule,
+    MatTableModule,
+  ],
   templateUrl: './customer-list.html',
   styleUrl: './customer-list.scss',
   host: { class: 'sw-dense' },

@@ -27,13 +27,37 @@ import { pageTitle } from '../../ui/page-title';
 import { photoLinkName } from '../../ui/photo-link';
 
 const TIMELINE_ICON: Record<TimelineKind, string> = {
-  created: 'add', property: 'home', equipment: 'wrench', agreement: 'shield', visit: 'calendar', invoice: 'receipt', note: 'info', file: 'upload', contact: 'person', merged: 'people', archived: 'info',
+  created: 'add',
+  property: 'home',
+  equipment: 'wrench',
+  agreement: 'shield',
+  visit: 'calendar',
+  invoice: 'receipt',
+  note: 'info',
+  file: 'upload',
+  contact: 'person',
+  merged: 'people',
+  archived: 'info',
 };
 
 /** One household: its people, homes, equipment, agreements, visits, invoices, notes and files. */
 @Component({
   selector: 'sw-customer-page',
-  imports: [PhoneLink, CurrencyPipe, DayPipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, EquipmentForm, FileUpload],
+  imports: [
+    PhoneLink,
+    CurrencyPipe,
+    DayPipe,
+    ReactiveFormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    EquipmentForm,
+    FileUpload,
+  ],
   templateUrl: './customer-page.html',
   styleUrl: './customer-page.scss',
   host: { class: 'sw-dense' },

@@ -1,7 +1,18 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { type Observable } from 'rxjs';
-import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerListQuery, CustomerPage, CustomerUpdate, Note, Property, PropertyInput } from '../../../../shared/schemas/customers';
+import type {
+  Contact,
+  ContactInput,
+  CustomerCreate,
+  CustomerDetail,
+  CustomerListQuery,
+  CustomerPage,
+  CustomerUpdate,
+  Note,
+  Property,
+  PropertyInput,
+} from '../../../../shared/schemas/customers';
 import type { Equipment } from '../../../../shared/schemas/equipment';
 
 export type ListQuery = Partial<Pick<CustomerListQuery, 'q' | 'sort' | 'dir' | 'page' | 'pageSize' | 'status'>>;

@@ -16,10 +16,23 @@ import { firstValueFrom } from 'rxjs';
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   templateUrl: './equipment-form.html',
   styles: `
-    form { display: grid; gap: 0 12px; grid-template-columns: repeat(auto-fit, minmax(160px, 1fr)); }
-    .wide, .buttons, .error { grid-column: 1 / -1; }
-    .buttons { display: flex; gap: 8px; }
-    .error { color: var(--mat-sys-error); }
+    form {
+      display: grid;
+      gap: 0 12px;
+      grid-template-columns: repeat(auto-fit, minmax(160px, 1fr));
+    }
+    .wide,
+    .buttons,
+    .error {
+      grid-column: 1 / -1;
+    }
+    .buttons {
+      display: flex;
+      gap: 8px;
+    }
+    .error {
+      color: var(--mat-sys-error);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

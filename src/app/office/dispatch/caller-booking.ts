@@ -23,7 +23,8 @@ import { DispatchApi, type Household } from './dispatch-api';
       </p>
       <sw-visit-request [customerId]="h.id" [forCaller]="true" />
     } @else {
-      <h1>Book a visit for a caller</h1><p class="sw-lead">Find the caller’s household, then pick an arrival window with them.</p>
+      <h1>Book a visit for a caller</h1>
+      <p class="sw-lead">Find the caller’s household, then pick an arrival window with them.</p>
       <mat-form-field appearance="outline" class="search">
         <mat-label>Find the household</mat-label>
         <input matInput [formControl]="query" autocomplete="off" />
@@ -39,10 +40,27 @@ import { DispatchApi, type Household } from './dispatch-api';
     }
   `,
   styles: `
-    :host { display: block; padding: 12px; }
-    .search { width: min(480px, 100%); }
-    .results { list-style: none; padding: 0; display: flex; flex-direction: column; gap: 6px; align-items: flex-start; }
-    .who { display: flex; gap: 8px; align-items: center; flex-wrap: wrap; }
+    :host {
+      display: block;
+      padding: 12px;
+    }
+    .search {
+      width: min(480px, 100%);
+    }
+    .results {
+      list-style: none;
+      padding: 0;
+      display: flex;
+      flex-direction: column;
+      gap: 6px;
+      align-items: flex-start;
+    }
+    .who {
+      display: flex;
+      gap: 8px;
+      align-items: center;
+      flex-wrap: wrap;
+    }
   `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,

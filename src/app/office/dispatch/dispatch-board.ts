@@ -124,7 +124,11 @@ export class DispatchBoard {
   }
 
   protected shift(step: number): void {
-    this.from.set(DateTime.fromISO(this.from()).plus({ days: step * this.days() }).toISODate()!);
+    this.from.set(
+      DateTime.fromISO(this.from())
+        .plus({ days: step * this.days() })
+        .toISODate()!,
+    );
   }
 
   protected today(): void {
@@ -215,6 +219,8 @@ export class DispatchBoard {
   }
 
   protected stamp(iso: string): string {
-    return DateTime.fromISO(iso).setZone(this.data()?.timeZone ?? 'America/Chicago').toFormat('ccc d LLL, h:mm a');
+    return DateTime.fromISO(iso)
+      .setZone(this.data()?.timeZone ?? 'America/Chicago')
+      .toFormat('ccc d LLL, h:mm a');
   }
 }

@@ -22,7 +22,40 @@ import { pageTitle } from '../../ui/page-title';
   selector: 'sw-office-invoice',
   imports: [DateTimePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSnackBarModule, InvoiceStatusBadge],
   templateUrl: './office-invoice.html',
-  styles: `:host { display: block; padding: 16px; max-width: 900px; } form { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; margin: 12px 0; } table { border-collapse: collapse; width: 100%; } td, th { padding: 4px; border-bottom: 1px solid var(--mat-sys-outline-variant); text-align: left; } .num { text-align: right; } .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); }`,
+  styles: `
+    :host {
+      display: block;
+      padding: 16px;
+      max-width: 900px;
+    }
+    form {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      align-items: center;
+      margin: 12px 0;
+    }
+    table {
+      border-collapse: collapse;
+      width: 100%;
+    }
+    td,
+    th {
+      padding: 4px;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+      text-align: left;
+    }
+    .num {
+      text-align: right;
+    }
+    .visually-hidden {
+      position: absolute;
+      width: 1px;
+      height: 1px;
+      overflow: hidden;
+      clip: rect(0 0 0 0);
+    }
+  `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -34,11 +67,18 @@ export class OfficeInvoice {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
-  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number ?? '(draft)'} · ${i.customerName}` : null; });
+  protected readonly titled = pageTitle(() => {
+    const i = this.invoice();
+    return i ? `Invoice ${i.number ?? '(draft)'} · ${i.customerName}` : null;
+  });
   protected readonly loadError = errorMessage(this.read);
   protected readonly busy = signal(false);
   protected readonly serverError = serverError;
-  protected readonly payForm = this.fb.group({ method: this.fb.control<'check' | 'cash'>('check'), amount: this.fb.control('', Validators.required), reference: this.fb.control('') });
+  protected readonly payForm = this.fb.group({
+    method: this.fb.control<'check' | 'cash'>('check'),
+    amount: this.fb.control('', Validators.required),
+    reference: this.fb.control(''),
+  });
   protected readonly refundForm = this.fb.group({ amount: this.fb.control('', Validators.required), reason: this.fb.control(''), paymentId: this.fb.control('') });
   private refundKey = crypto.randomUUID();
 

@@ -31,23 +31,61 @@ import { DayPipe } from '../../ui/dates';
         <mat-label>Status</mat-label>
         <mat-select [formControl]="status">
           <mat-option value="">Any</mat-option>
-          @for (s of statuses; track s) { <mat-option [value]="s">{{ labels[s] }}</mat-option> }
+          @for (s of statuses; track s) {
+            <mat-option [value]="s">{{ labels[s] }}</mat-option>
+          }
         </mat-select>
       </mat-form-field>
     </div>
     <table mat-table [dataSource]="rows()">
-      <ng-container matColumnDef="number"><th mat-header-cell *matHeaderCellDef>Number</th><td mat-cell *matCellDef="let r"><a [routerLink]="['/office/invoices', r.id]">{{ r.number ?? 'Draft' }}</a></td></ng-container>
-      <ng-container matColumnDef="customer"><th mat-header-cell *matHeaderCellDef>Household</th><td mat-cell *matCellDef="let r">{{ r.customerName }}</td></ng-container>
-      <ng-container matColumnDef="status"><th mat-header-cell *matHeaderCellDef>Status</th><td mat-cell *matCellDef="let r"><sw-invoice-status [status]="r.status" /></td></ng-container>
-      <ng-container matColumnDef="issued"><th mat-header-cell *matHeaderCellDef>Issued</th><td mat-cell *matCellDef="let r">{{ r.issuedAt | swDay }}</td></ng-container>
-      <ng-container matColumnDef="total"><th mat-header-cell *matHeaderCellDef class="num">Total</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.totalCents) }}</td></ng-container>
-      <ng-container matColumnDef="balance"><th mat-header-cell *matHeaderCellDef class="num">Balance</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.balanceCents) }}</td></ng-container>
+      <ng-container matColumnDef="number"
+        ><th mat-header-cell *matHeaderCellDef>Number</th>
+        <td mat-cell *matCellDef="let r">
+          <a [routerLink]="['/office/invoices', r.id]">{{ r.number ?? 'Draft' }}</a>
+        </td></ng-container
+      >
+      <ng-container matColumnDef="customer"
+        ><th mat-header-cell *matHeaderCellDef>Household</th>
+        <td mat-cell *matCellDef="let r">{{ r.customerName }}</td></ng-container
+      >
+      <ng-container matColumnDef="status"
+        ><th mat-header-cell *matHeaderCellDef>Status</th>
+        <td mat-cell *matCellDef="let r"><sw-invoice-status [status]="r.status" /></td
+      ></ng-container>
+      <ng-container matColumnDef="issued"
+        ><th mat-header-cell *matHeaderCellDef>Issued</th>
+        <td mat-cell *matCellDef="let r">{{ r.issuedAt | swDay }}</td></ng-container
+      >
+      <ng-container matColumnDef="total"
+        ><th mat-header-cell *matHeaderCellDef class="num">Total</th>
+        <td mat-cell *matCellDef="let r" class="num">{{ usd(r.totalCents) }}</td></ng-container
+      >
+      <ng-container matColumnDef="balance"
+        ><th mat-header-cell *matHeaderCellDef class="num">Balance</th>
+        <td mat-cell *matCellDef="let r" class="num">{{ usd(r.balanceCents) }}</td></ng-container
+      >
       <tr mat-header-row *matHeaderRowDef="columns"></tr>
       <tr mat-row *matRowDef="let row; columns: columns"></tr>
     </table>
     <mat-paginator [length]="total()" [pageSize]="50" [hidePageSize]="true" (page)="page($event)" aria-label="Invoice pages" />
   `,
-  styles: `:host { display: block; padding: 16px; } .filters { display: flex; gap: 12px; flex-wrap: wrap; } table { width: 100%; } .num { text-align: right; }`,
+  styles: `
+    :host {
+      display: block;
+      padding: 16px;
+    }
+    .filters {
+      display: flex;
+      gap: 12px;
+      flex-wrap: wrap;
+    }
+    table {
+      width: 100%;
+    }
+    .num {
+      text-align: right;
+    }
+  `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -60,7 +98,9 @@ export class OfficeInvoices {
   private readonly url = urlFilters();
   protected readonly search = new FormControl(this.url.read('q') ?? '', { nonNullable: true });
   protected readonly status = new FormControl<InvoiceStatus | ''>(asStatus(this.url.read('status')), { nonNullable: true });
-  private readonly filter = toSignal(merge(this.search.valueChanges, this.status.valueChanges).pipe(map(() => ({ q: this.search.value.trim() || null, status: this.status.value || null }))));
+  private readonly filter = toSignal(
+    merge(this.search.valueChanges, this.status.valueChanges).pipe(map(() => ({ q: this.search.value.trim() || null, status: this.status.value || null }))),
+  );
   protected readonly rows = signal<InvoiceSummary[]>([]);
   protected readonly total = signal(0);
   private readonly offset = signal(0);

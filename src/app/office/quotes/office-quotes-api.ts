@@ -5,7 +5,13 @@ import type { QuoteStats, Restock, StockLocation, StockRow, Transfer } from '../
 import type { PlanSavings, QuotePage } from '../../../../shared/schemas/quotes';
 
 const params = (q: Record<string, string | number | boolean | undefined>) =>
-  new HttpParams({ fromObject: Object.fromEntries(Object.entries(q).filter(([, v]) => v !== undefined && v !== '').map(([k, v]) => [k, String(v)])) });
+  new HttpParams({
+    fromObject: Object.fromEntries(
+      Object.entries(q)
+        .filter(([, v]) => v !== undefined && v !== '')
+        .map(([k, v]) => [k, String(v)]),
+    ),
+  });
 
 /** The office's view of quotes, savings and stock across every truck and the shop. */
 @Injectable({ providedIn: 'root' })

@@ -19,9 +19,18 @@ import { OfficeQuotesApi } from './office-quotes-api';
     @if (stats.hasValue()) {
       @if (stats.value(); as s) {
         <dl class="facts">
-          <div><dt>Open quotes</dt><dd>{{ s.open.count }}</dd></div>
-          <div><dt>Open value</dt><dd>{{ usd(s.open.valueCents) }}</dd></div>
-          <div><dt>Approved, last {{ s.periodDays }} days</dt><dd>{{ s.approvalRateBps === null ? 'No quotes decided yet' : pct(s.approvalRateBps) }}</dd></div>
+          <div>
+            <dt>Open quotes</dt>
+            <dd>{{ s.open.count }}</dd>
+          </div>
+          <div>
+            <dt>Open value</dt>
+            <dd>{{ usd(s.open.valueCents) }}</dd>
+          </div>
+          <div>
+            <dt>Approved, last {{ s.periodDays }} days</dt>
+            <dd>{{ s.approvalRateBps === null ? 'No quotes decided yet' : pct(s.approvalRateBps) }}</dd>
+          </div>
         </dl>
       }
     }
@@ -31,21 +40,66 @@ import { OfficeQuotesApi } from './office-quotes-api';
       <mat-button-toggle value="declined">Declined</mat-button-toggle>
       <mat-button-toggle value="">All</mat-button-toggle>
     </mat-button-toggle-group>
-    @if (list.isLoading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" /> }
-    @if (error(); as e) { <p role="alert">{{ e }}</p> }
+    @if (list.isLoading()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" />
+    }
+    @if (error(); as e) {
+      <p role="alert">{{ e }}</p>
+    }
     <table mat-table [dataSource]="rows()" matSort (matSortChange)="sorted($event)" aria-label="Quotes">
-      <ng-container matColumnDef="number"><th mat-header-cell *matHeaderCellDef>Quote</th><td mat-cell *matCellDef="let r">{{ r.number ? 'Q-' + r.number : 'Draft' }}</td></ng-container>
-      <ng-container matColumnDef="customer"><th mat-header-cell *matHeaderCellDef>Household</th><td mat-cell *matCellDef="let r">{{ r.customerName }}</td></ng-container>
-      <ng-container matColumnDef="status"><th mat-header-cell *matHeaderCellDef mat-sort-header>Status</th><td mat-cell *matCellDef="let r">{{ labelOf(r) }}</td></ng-container>
-      <ng-container matColumnDef="createdAt"><th mat-header-cell *matHeaderCellDef mat-sort-header>Age</th><td mat-cell *matCellDef="let r">{{ r.ageDays }} day{{ r.ageDays === 1 ? '' : 's' }}</td></ng-container>
-      <ng-container matColumnDef="totalCents"><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Value</th><td mat-cell *matCellDef="let r" class="num">{{ usd(r.totalCents) }}</td></ng-container>
+      <ng-container matColumnDef="number"
+        ><th mat-header-cell *matHeaderCellDef>Quote</th>
+        <td mat-cell *matCellDef="let r">{{ r.number ? 'Q-' + r.number : 'Draft' }}</td></ng-container
+      >
+      <ng-container matColumnDef="customer"
+        ><th mat-header-cell *matHeaderCellDef>Household</th>
+        <td mat-cell *matCellDef="let r">{{ r.customerName }}</td></ng-container
+      >
+      <ng-container matColumnDef="status"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Status</th>
+        <td mat-cell *matCellDef="let r">{{ labelOf(r) }}</td></ng-container
+      >
+      <ng-container matColumnDef="createdAt"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Age</th>
+        <td mat-cell *matCellDef="let r">{{ r.ageDays }} day{{ r.ageDays === 1 ? '' : 's' }}</td></ng-container
+      >
+      <ng-container matColumnDef="totalCents"
+        ><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Value</th>
+        <td mat-cell *matCellDef="let r" class="num">{{ usd(r.totalCents) }}</td></ng-container
+      >
       <tr mat-header-row *matHeaderRowDef="columns"></tr>
       <tr mat-row *matRowDef="let row; columns: columns"></tr>
-      <tr class="mat-row" *matNoDataRow><td class="mat-cell" [attr.colspan]="columns.length">No quotes here. Technicians build quotes on their visits; sent ones show here until the homeowner answers.</td></tr>
+      <tr class="mat-row" *matNoDataRow>
+        <td class="mat-cell" [attr.colspan]="columns.length">No quotes here. Technicians build quotes on their visits; sent ones show here until the homeowner answers.</td>
+      </tr>
     </table>
     <mat-paginator [length]="total()" [pageIndex]="pageIndex()" [pageSize]="25" [hidePageSize]="true" (page)="paged($event)" aria-label="Quote pages" />
   `,
-  styles: `:host { display: block; padding: 16px; } table { width: 100%; } .num { text-align: right; } .facts { display: flex; flex-wrap: wrap; gap: 12px 32px; } dt { font-size: 0.85rem; } dd { margin: 0; font-weight: 800; font-size: 1.3rem; }`,
+  styles: `
+    :host {
+      display: block;
+      padding: 16px;
+    }
+    table {
+      width: 100%;
+    }
+    .num {
+      text-align: right;
+    }
+    .facts {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 12px 32px;
+    }
+    dt {
+      font-size: 0.85rem;
+    }
+    dd {
+      margin: 0;
+      font-weight: 800;
+      font-size: 1.3rem;
+    }
+  `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

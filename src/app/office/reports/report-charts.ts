@@ -43,7 +43,16 @@ export function agreementsChart(r: Report<'agreements'>): Config {
         { label: 'New', data: rows.map((x) => x.new), backgroundColor: color('primary'), yAxisID: 'y' },
         { label: 'Renewed', data: rows.map((x) => x.renewed), backgroundColor: color('good'), yAxisID: 'y' },
         { label: 'Lapsed', data: rows.map((x) => x.lapsed), backgroundColor: color('alert'), yAxisID: 'y' },
-        { type: 'line', label: 'Renewal rate (%)', data: rows.map((x) => pct(x.renewalRate)), borderColor: color('accent'), backgroundColor: color('accent'), borderDash: [6, 4], yAxisID: 'y2', spanGaps: true },
+        {
+          type: 'line',
+          label: 'Renewal rate (%)',
+          data: rows.map((x) => pct(x.renewalRate)),
+          borderColor: color('accent'),
+          backgroundColor: color('accent'),
+          borderDash: [6, 4],
+          yAxisID: 'y2',
+          spanGaps: true,
+        },
       ],
     } as Config['data'],
     options: base('Agreements', 'Renewal rate, %'),
@@ -62,7 +71,15 @@ export function revenueChart(r: Report<'revenue'>): Config {
         { label: 'Plans', data: rows.map((x) => dollars(x.plansCents)), backgroundColor: color('primary'), stack: 'money', yAxisID: 'y' },
         { label: 'Repairs', data: rows.map((x) => dollars(x.repairsCents)), backgroundColor: color('accent'), stack: 'money', yAxisID: 'y' },
         { label: 'Coverage savings', data: rows.map((x) => dollars(x.savingsCents)), backgroundColor: color('good'), stack: 'savings', yAxisID: 'y' },
-        { type: 'line', label: 'Average invoice', data: rows.map((x) => dollars(x.averageInvoiceCents)), borderColor: color('ink'), backgroundColor: color('ink'), yAxisID: 'y2', spanGaps: true },
+        {
+          type: 'line',
+          label: 'Average invoice',
+          data: rows.map((x) => dollars(x.averageInvoiceCents)),
+          borderColor: color('ink'),
+          backgroundColor: color('ink'),
+          yAxisID: 'y2',
+          spanGaps: true,
+        },
       ],
     } as Config['data'],
     options: { ...options, scales: { ...options!.scales, x: { stacked: true } } },
@@ -79,7 +96,15 @@ export function visitsChart(r: Report<'visits'>): Config {
       datasets: [
         { label: 'Tune-ups', data: rows.map((x) => x.tuneUps), backgroundColor: color('primary'), stack: 'kind', yAxisID: 'y' },
         { label: 'Service calls', data: rows.map((x) => x.serviceCalls), backgroundColor: color('accent'), stack: 'kind', yAxisID: 'y' },
-        { type: 'line', label: 'No-show rate (%)', data: rows.map((x) => pct(x.noShowRate)), borderColor: color('alert'), backgroundColor: color('alert'), yAxisID: 'y2', spanGaps: true },
+        {
+          type: 'line',
+          label: 'No-show rate (%)',
+          data: rows.map((x) => pct(x.noShowRate)),
+          borderColor: color('alert'),
+          backgroundColor: color('alert'),
+          yAxisID: 'y2',
+          spanGaps: true,
+        },
       ],
     } as Config['data'],
     options: { ...options, scales: { ...options!.scales, x: { stacked: true } } },
@@ -96,7 +121,13 @@ export function utilisationChart(r: Report<'utilisation'>): Config {
       labels: weeks.map(weekLabel),
       datasets: techs.map(([id, name], i) => {
         const c = color(palette[i % palette.length]!);
-        return { label: name, data: weeks.map((w) => pct(r.rows.find((x) => x.week === w && x.technicianId === id)?.utilisation ?? null)), borderColor: c, backgroundColor: c, spanGaps: true };
+        return {
+          label: name,
+          data: weeks.map((w) => pct(r.rows.find((x) => x.week === w && x.technicianId === id)?.utilisation ?? null)),
+          borderColor: c,
+          backgroundColor: c,
+          spanGaps: true,
+        };
       }),
     },
     options: base('Booked ÷ available hours, %'),
@@ -116,15 +147,32 @@ export function tableOf(r: Report): { head: string[]; rows: string[][] } {
   const h = (m: number) => (m / 60).toFixed(1);
   switch (r.report) {
     case 'agreements':
-      return { head: ['Month', 'Active', 'New', 'Due', 'Renewed', 'Lapsed', 'Renewal rate'], rows: (r as Report<'agreements'>).rows.map((x) => [monthLabel(x.month), `${x.active}`, `${x.new}`, `${x.due}`, `${x.renewed}`, `${x.lapsed}`, p(x.renewalRate)]) };
+      return {
+        head: ['Month', 'Active', 'New', 'Due', 'Renewed', 'Lapsed', 'Renewal rate'],
+        rows: (r as Report<'agreements'>).rows.map((x) => [monthLabel(x.month), `${x.active}`, `${x.new}`, `${x.due}`, `${x.renewed}`, `${x.lapsed}`, p(x.renewalRate)]),
+      };
     case 'revenue':
       return {
         head: ['Month', 'Plans', 'Repairs', 'Total', 'Invoices', 'Average invoice', 'Coverage savings'],
-        rows: (r as Report<'revenue'>).rows.map((x) => [monthLabel(x.month), formatUsd(x.plansCents), formatUsd(x.repairsCents), formatUsd(x.totalCents), `${x.invoices}`, x.averageInvoiceCents === null ? '—' : formatUsd(x.averageInvoiceCents), formatUsd(x.savingsCents)]),
+        rows: (r as Report<'revenue'>).rows.map((x) => [
+          monthLabel(x.month),
+          formatUsd(x.plansCents),
+          formatUsd(x.repairsCents),
+          formatUsd(x.totalCents),
+          `${x.invoices}`,
+          x.averageInvoiceCents === null ? '—' : formatUsd(x.averageInvoiceCents),
+          formatUsd(x.savingsCents),
+        ]),
       };
     case 'visits':
-      return { head: ['Week of', 'Tune-ups', 'Service calls', 'Done', 'No-shows', 'No-show rate'], rows: (r as Report<'visits'>).rows.map((x) => [weekLabel(x.week), `${x.tuneUps}`, `${x.serviceCalls}`, `${x.done}`, `${x.noShows}`, p(x.noShowRate)]) };
+      return {
+        head: ['Week of', 'Tune-ups', 'Service calls', 'Done', 'No-shows', 'No-show rate'],
+        rows: (r as Report<'visits'>).rows.map((x) => [weekLabel(x.week), `${x.tuneUps}`, `${x.serviceCalls}`, `${x.done}`, `${x.noShows}`, p(x.noShowRate)]),
+      };
     case 'utilisation':
-      return { head: ['Week of', 'Technician', 'Booked h', 'Available h', 'Utilisation'], rows: (r as Report<'utilisation'>).rows.map((x) => [weekLabel(x.week), x.technicianName, h(x.bookedMinutes), h(x.availableMinutes), p(x.utilisation)]) };
+      return {
+        head: ['Week of', 'Technician', 'Booked h', 'Available h', 'Utilisation'],
+        rows: (r as Report<'utilisation'>).rows.map((x) => [weekLabel(x.week), x.technicianName, h(x.bookedMinutes), h(x.availableMinutes), p(x.utilisation)]),
+      };
   }
 }

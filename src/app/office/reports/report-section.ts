@@ -17,24 +17,52 @@ import { ReportsApi } from './reports-api';
         <h2 [id]="name() + '-h'">{{ definition().title }}</h2>
         <a mat-stroked-button [href]="csvUrl()" [attr.download]="name() + '.csv'">Download CSV</a>
       </div>
-      @if (error()) { <p role="alert" class="error">{{ error() }}</p> }
+      @if (error()) {
+        <p role="alert" class="error">{{ error() }}</p>
+      }
       <div class="chart">
         @if (config(); as c) {
-          <canvas baseChart [type]="c.type" [data]="c.data" [options]="c.options" role="img" [attr.aria-label]="definition().title + ' chart; the numbers are in the table below it'"></canvas>
-        } @else if (!error()) { <p class="loading">Loading…</p> }
+          <canvas
+            baseChart
+            [type]="c.type"
+            [data]="c.data"
+            [options]="c.options"
+            role="img"
+            [attr.aria-label]="definition().title + ' chart; the numbers are in the table below it'"
+          ></canvas>
+        } @else if (!error()) {
+          <p class="loading">Loading…</p>
+        }
       </div>
       <ul class="definitions">
-        @for (line of definition().lines; track $index) { <li>{{ line }}</li> }
+        @for (line of definition().lines; track $index) {
+          <li>{{ line }}</li>
+        }
       </ul>
       @if (table(); as t) {
         <details>
           <summary>Show the numbers</summary>
           <div class="scroll">
             <table>
-              <thead><tr>@for (h of t.head; track $index) { <th scope="col">{{ h }}</th> }</tr></thead>
+              <thead>
+                <tr>
+                  @for (h of t.head; track $index) {
+                    <th scope="col">{{ h }}</th>
+                  }
+                </tr>
+              </thead>
               <tbody>
-                @for (r of t.rows; track $index) { <tr>@for (c of r; track $index) { <td>{{ c }}</td> }</tr> }
-                @empty { <tr><td [attr.colspan]="t.head.length">Nothing in this range.</td></tr> }
+                @for (r of t.rows; track $index) {
+                  <tr>
+                    @for (c of r; track $index) {
+                      <td>{{ c }}</td>
+                    }
+                  </tr>
+                } @empty {
+                  <tr>
+                    <td [attr.colspan]="t.head.length">Nothing in this range.</td>
+                  </tr>
+                }
               </tbody>
             </table>
           </div>
@@ -43,17 +71,56 @@ import { ReportsApi } from './reports-api';
     </section>
   `,
   styles: `
-    .report { padding: 12px 0 20px; border-top: 1px solid var(--mat-sys-outline-variant); }
-    .head { display: flex; flex-wrap: wrap; align-items: center; justify-content: space-between; gap: 8px; }
-    h2 { margin: 0; font-size: 1.2rem; }
-    .chart { position: relative; height: 300px; }
-    .definitions { margin: 8px 0; padding-left: 18px; color: var(--mat-sys-on-surface-variant); font-size: 0.92rem; }
-    .scroll { overflow-x: auto; }
-    table { border-collapse: collapse; font-size: 0.9rem; }
-    th, td { padding: 2px 10px; text-align: right; border-bottom: 1px solid var(--mat-sys-outline-variant); white-space: nowrap; }
-    th:first-child, td:first-child { text-align: left; }
-    .error { color: var(--sw-alert); font-weight: 700; }
-    .loading { color: var(--mat-sys-on-surface-variant); }
+    .report {
+      padding: 12px 0 20px;
+      border-top: 1px solid var(--mat-sys-outline-variant);
+    }
+    .head {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      justify-content: space-between;
+      gap: 8px;
+    }
+    h2 {
+      margin: 0;
+      font-size: 1.2rem;
+    }
+    .chart {
+      position: relative;
+      height: 300px;
+    }
+    .definitions {
+      margin: 8px 0;
+      padding-left: 18px;
+      color: var(--mat-sys-on-surface-variant);
+      font-size: 0.92rem;
+    }
+    .scroll {
+      overflow-x: auto;
+    }
+    table {
+      border-collapse: collapse;
+      font-size: 0.9rem;
+    }
+    th,
+    td {
+      padding: 2px 10px;
+      text-align: right;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+      white-space: nowrap;
+    }
+    th:first-child,
+    td:first-child {
+      text-align: left;
+    }
+    .error {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
+    .loading {
+      color: var(--mat-sys-on-surface-variant);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -39,16 +39,24 @@ const dateOf = (iso: string) => new Date(Number(iso.slice(0, 4)), Number(iso.sli
       }
     </section>
   `,
-  styles: `.range { width: 100%; max-width: 360px; margin-bottom: 12px; }`,
+  styles: `
+    .range {
+      width: 100%;
+      max-width: 360px;
+      margin-bottom: 12px;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReportsPage {
   private readonly url = urlFilters();
   protected readonly reports = REPORTS;
-  private readonly from = signal(this.initial('from', () => {
-    const d = new Date();
-    return isoOf(new Date(d.getFullYear(), d.getMonth() - 11, 1));
-  }));
+  private readonly from = signal(
+    this.initial('from', () => {
+      const d = new Date();
+      return isoOf(new Date(d.getFullYear(), d.getMonth() - 11, 1));
+    }),
+  );
   private readonly to = signal(this.initial('to', () => isoOf(new Date())));
   protected readonly query = computed<ReportQuery>(() => ({ from: this.from(), to: this.to() }));
   protected readonly range = new FormGroup({

@@ -22,14 +22,41 @@ const ALIASES = { 'lines.0.itemId': 'itemId', 'lines.0.quantity': 'quantity', li
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatSlideToggleModule, MatTableModule],
   templateUrl: './restock-list.html',
   styles: `
-    :host { display: block; padding: 16px; }
-    table { width: 100%; }
-    .num { text-align: right; }
-    .filters, .row { display: flex; flex-wrap: wrap; gap: 0 12px; align-items: center; }
-    form { border: 1px solid var(--sw-teal-soft); border-radius: var(--sw-radius); padding: 8px 12px; margin: 12px 0; }
-    h2 { font-size: 1.15rem; font-weight: 800; }
-    .ok { color: var(--sw-ok); font-weight: 700; }
-    .bad { color: var(--sw-alert); font-weight: 700; }
+    :host {
+      display: block;
+      padding: 16px;
+    }
+    table {
+      width: 100%;
+    }
+    .num {
+      text-align: right;
+    }
+    .filters,
+    .row {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 0 12px;
+      align-items: center;
+    }
+    form {
+      border: 1px solid var(--sw-teal-soft);
+      border-radius: var(--sw-radius);
+      padding: 8px 12px;
+      margin: 12px 0;
+    }
+    h2 {
+      font-size: 1.15rem;
+      font-weight: 800;
+    }
+    .ok {
+      color: var(--sw-ok);
+      font-weight: 700;
+    }
+    .bad {
+      color: var(--sw-alert);
+      font-weight: 700;
+    }
   `,
   host: { class: 'sw-dense' },
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -78,12 +105,23 @@ export class RestockList {
 
   protected async saveRestock(): Promise<void> {
     const v = this.restock.getRawValue();
-    await this.run(this.restock, () => firstValueFrom(this.api.restock({ locationId: v.locationId, note: v.note, lines: [{ itemId: v.itemId, quantity: Number(v.quantity) }] })), 'Restock recorded.');
+    await this.run(
+      this.restock,
+      () => firstValueFrom(this.api.restock({ locationId: v.locationId, note: v.note, lines: [{ itemId: v.itemId, quantity: Number(v.quantity) }] })),
+      'Restock recorded.',
+    );
   }
 
   protected async saveTransfer(): Promise<void> {
     const v = this.transfer.getRawValue();
-    await this.run(this.transfer, () => firstValueFrom(this.api.transfer({ fromLocationId: v.fromLocationId, toLocationId: v.toLocationId, note: v.note, lines: [{ itemId: v.itemId, quantity: Number(v.quantity) }] })), 'Transfer recorded.');
+    await this.run(
+      this.transfer,
+      () =>
+        firstValueFrom(
+          this.api.transfer({ fromLocationId: v.fromLocationId, toLocationId: v.toLocationId, note: v.note, lines: [{ itemId: v.itemId, quantity: Number(v.quantity) }] }),
+        ),
+      'Transfer recorded.',
+    );
   }
 
   private async run(form: FormGroup, call: () => Promise<unknown>, done: string): Promise<void> {

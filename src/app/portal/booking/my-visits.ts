@@ -13,7 +13,8 @@ import { VisitStatusMark } from '../../ui/status/visit-status';
   selector: 'sw-my-visits',
   imports: [MatButtonModule, MatIconModule, RouterLink, VisitStatusMark],
   template: `
-    <h1>Your visits</h1><p class="sw-lead">Visits coming up and past; open one to change or cancel it.</p>
+    <h1>Your visits</h1>
+    <p class="sw-lead">Visits coming up and past; open one to change or cancel it.</p>
     <a mat-flat-button routerLink="/portal/booking"><mat-icon svgIcon="add" aria-hidden="true" /> Request a visit</a>
     @if (error(); as e) {
       <p role="alert">{{ e }}</p>
@@ -46,10 +47,33 @@ import { VisitStatusMark } from '../../ui/status/visit-status';
     </ul>
   `,
   styles: `
-    :host { display: block; max-width: 720px; margin: 0 auto; padding: 16px; }
-    .list { list-style: none; padding: 0; margin: 16px 0; display: flex; flex-direction: column; gap: 8px; }
-    .list a { display: flex; flex-direction: column; gap: 2px; padding: 12px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; color: inherit; text-decoration: none; }
-    .title { font-weight: 600; }
+    :host {
+      display: block;
+      max-width: 720px;
+      margin: 0 auto;
+      padding: 16px;
+    }
+    .list {
+      list-style: none;
+      padding: 0;
+      margin: 16px 0;
+      display: flex;
+      flex-direction: column;
+      gap: 8px;
+    }
+    .list a {
+      display: flex;
+      flex-direction: column;
+      gap: 2px;
+      padding: 12px;
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 8px;
+      color: inherit;
+      text-decoration: none;
+    }
+    .title {
+      font-weight: 600;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

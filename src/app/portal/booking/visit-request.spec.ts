@@ -35,7 +35,17 @@ describe('VisitRequest', { timeout: 60_000 }, () => {
     const fixture = TestBed.createComponent(VisitRequest);
     const http = TestBed.inject(HttpTestingController);
     TestBed.tick();
-    const home = { id: '00000000-0000-4000-8000-000000000001', customerId: '00000000-0000-4000-8000-000000000002', customerName: 'Oduya household', label: 'Home', address: '1 Kestrel Street, Larkspur Bend, MO 64790', area: 'Old Town', member: false, planName: null, priorityWindowHours: null };
+    const home = {
+      id: '00000000-0000-4000-8000-000000000001',
+      customerId: '00000000-0000-4000-8000-000000000002',
+      customerName: 'Oduya household',
+      label: 'Home',
+      address: '1 Kestrel Street, Larkspur Bend, MO 64790',
+      area: 'Old Town',
+      member: false,
+      planName: null,
+      priorityWindowHours: null,
+    };
     http.expectOne('/api/booking/options').flush({ properties: [home], cancelCutoffHours: 24, companyPhone: '+18165550142', timeZone: 'America/Chicago' });
     await fixture.whenStable();
     const el: HTMLElement = fixture.nativeElement;
@@ -66,7 +76,17 @@ describe('VisitRequest', { timeout: 60_000 }, () => {
     const fixture = TestBed.createComponent(VisitRequest);
     const http = TestBed.inject(HttpTestingController);
     TestBed.tick();
-    const home = { id: '00000000-0000-4000-8000-000000000001', customerId: '00000000-0000-4000-8000-000000000002', customerName: 'Oduya household', label: 'Home', address: '1 Kestrel Street, Larkspur Bend, MO 64790', area: 'Old Town', member: true, planName: 'Whole Home Plus', priorityWindowHours: 12 };
+    const home = {
+      id: '00000000-0000-4000-8000-000000000001',
+      customerId: '00000000-0000-4000-8000-000000000002',
+      customerName: 'Oduya household',
+      label: 'Home',
+      address: '1 Kestrel Street, Larkspur Bend, MO 64790',
+      area: 'Old Town',
+      member: true,
+      planName: 'Whole Home Plus',
+      priorityWindowHours: 12,
+    };
     http.expectOne('/api/booking/options').flush({ properties: [home], cancelCutoffHours: 24, companyPhone: '+18165550142', timeZone: 'America/Chicago' });
     await fixture.whenStable();
     const el: HTMLElement = fixture.nativeElement;
@@ -81,14 +101,20 @@ describe('VisitRequest', { timeout: 60_000 }, () => {
     await fixture.whenStable();
     await click('Next', 1);
     await click('Next', 2);
-    const windows = meets.map((m, i) => ({ start: `2026-12-0${i + 2}T08:00:00-06:00`, end: `2026-12-0${i + 2}T10:00:00-06:00`, localLabel: `Wed ${i + 2} Dec, 8–10 am`, capacity: 2, meetsPriorityPromise: m }));
+    const windows = meets.map((m, i) => ({
+      start: `2026-12-0${i + 2}T08:00:00-06:00`,
+      end: `2026-12-0${i + 2}T10:00:00-06:00`,
+      localLabel: `Wed ${i + 2} Dec, 8–10 am`,
+      capacity: 2,
+      meetsPriorityPromise: m,
+    }));
     http.expectOne((r) => r.url === '/api/booking/windows').flush({ windows, member: true, urgent: true, priorityWindowHours: 12, timeZone: 'America/Chicago' });
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
     return el;
   }
 
-  it('marks the windows that keep the plan\'s promised response time', async () => {
+  it("marks the windows that keep the plan's promised response time", async () => {
     const el = await toWindows([true, false]);
     expect(el.querySelector('#promise-note')?.textContent).toContain('the windows that keep that promise are marked Priority');
     const badges = [...el.querySelectorAll('.badge.small')].map((b) => b.textContent?.trim());
@@ -108,7 +134,11 @@ describe('VisitRequest', { timeout: 60_000 }, () => {
 
   it('groups arrival windows under their day', () => {
     const w = (start: string, localLabel: string) => ({ start, end: start, localLabel, capacity: 1, meetsPriorityPromise: false });
-    const days = groupByDay([w('2026-07-14T08:00:00-05:00', 'Tue 14 Jul, 8–10 am'), w('2026-07-14T10:00:00-05:00', 'Tue 14 Jul, 10 am–12 pm'), w('2026-07-15T08:00:00-05:00', 'Wed 15 Jul, 8–10 am')]);
+    const days = groupByDay([
+      w('2026-07-14T08:00:00-05:00', 'Tue 14 Jul, 8–10 am'),
+      w('2026-07-14T10:00:00-05:00', 'Tue 14 Jul, 10 am–12 pm'),
+      w('2026-07-15T08:00:00-05:00', 'Wed 15 Jul, 8–10 am'),
+    ]);
     expect(days.map((d) => d.day)).toEqual(['Tue 14 Jul', 'Wed 15 Jul']);
     expect(days[0]!.windows.map((x) => x.time)).toEqual(['8–10 am', '10 am–12 pm']);
   });

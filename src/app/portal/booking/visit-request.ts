@@ -10,15 +10,7 @@ import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatStepperModule, type MatStepper } from '@angular/material/stepper';
 import { RouterLink } from '@angular/router';
-import {
-  EMERGENCY_SIGN_LABELS,
-  EMERGENCY_SIGNS,
-  SYMPTOMS,
-  URGENT_REASONS,
-  type ArrivalWindowView,
-  type BookingOptions,
-  type VisitView,
-} from '../../../../shared/schemas/booking';
+import { EMERGENCY_SIGN_LABELS, EMERGENCY_SIGNS, SYMPTOMS, URGENT_REASONS, type ArrivalWindowView, type BookingOptions, type VisitView } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS, VISIT_REASONS, VISIT_STATE_WORDS, type VisitReason } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors } from '../../core/form-errors';
@@ -50,7 +42,8 @@ const MISSING_WORDS: Record<ChoiceStep, string> = {
 /** The visit request stepper: safety check first, then property, reason, details, window, review. */
 @Component({
   selector: 'sw-visit-request',
-  imports: [PhoneLink, 
+  imports: [
+    PhoneLink,
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,
@@ -94,7 +87,10 @@ export class VisitRequest {
   protected readonly submitError = signal<string | null>(null);
   protected readonly booked = signal<VisitView | null>(null);
   // After booking the tab says what happened, not "Request a visit".
-  protected readonly titled = pageTitle(() => { const v = this.booked(); return v ? VISIT_STATE_WORDS[v.status].heading : null; });
+  protected readonly titled = pageTitle(() => {
+    const v = this.booked();
+    return v ? VISIT_STATE_WORDS[v.status].heading : null;
+  });
   protected readonly stateWords = VISIT_STATE_WORDS;
   protected readonly photos = signal<File[]>([]);
   /** The step whose Next was pressed with nothing chosen; its message stays until a choice is made. */
@@ -210,15 +206,17 @@ export class VisitRequest {
     this.filled.set(null);
     try {
       const photoIds = this.photos().length ? (await firstValueFrom(this.api.uploadPhotos(this.propertyId(), this.photos()))).map((f) => f.id) : [];
-      const visit = await firstValueFrom(this.api.book({
-        propertyId: this.propertyId(),
-        reason,
-        symptoms: this.detailsForm.controls.symptoms.value,
-        notes: this.detailsForm.controls.notes.value,
-        photoIds,
-        windowStart: this.windowForm.controls.windowStart.value,
-        noEmergency: true,
-      }));
+      const visit = await firstValueFrom(
+        this.api.book({
+          propertyId: this.propertyId(),
+          reason,
+          symptoms: this.detailsForm.controls.symptoms.value,
+          notes: this.detailsForm.controls.notes.value,
+          photoIds,
+          windowStart: this.windowForm.controls.windowStart.value,
+          noEmergency: true,
+        }),
+      );
       this.booked.set(visit);
     } catch (err) {
       const e = toApiError(err);

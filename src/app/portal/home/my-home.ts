@@ -19,7 +19,6 @@ import { DayPipe } from '../../ui/dates';
 import { PhoneLink } from '../../ui/phone-link';
 import { photoLinkName } from '../../ui/photo-link';
 
-
 /** "My home": the homeowner's homes, equipment, service history, readings, photos and documents. */
 @Component({
   selector: 'sw-my-home',

@@ -29,7 +29,10 @@ export class InvoiceDetail {
   protected readonly usd = formatUsd;
   private readonly read = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
   protected readonly invoice = localCopy<InvoiceView>(this.read);
-  protected readonly titled = pageTitle(() => { const i = this.invoice(); return i ? `Invoice ${i.number}` : null; });
+  protected readonly titled = pageTitle(() => {
+    const i = this.invoice();
+    return i ? `Invoice ${i.number}` : null;
+  });
   private readonly loadError = errorMessage(this.read);
   private readonly actionError = signal<string | null>(null);
   protected readonly error = computed(() => this.actionError() ?? this.loadError());

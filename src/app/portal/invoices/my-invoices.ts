@@ -15,20 +15,39 @@ const PURPOSE = { enrollment: 'Plan enrollment', renewal: 'Plan renewal', tier_c
   selector: 'sw-my-invoices',
   imports: [DayPipe, RouterLink, MatListModule, MatProgressBarModule, InvoiceStatusBadge],
   template: `
-    <h1>Invoices</h1><p class="sw-lead">Your invoices: open ones to pay and paid ones for your records.</p>
-    @if (loading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading invoices" /> }
-    @if (error()) { <p role="alert">{{ error() }}</p> }
-    @if (!loading() && rows().length === 0) { <p>No invoices yet.</p> }
+    <h1>Invoices</h1>
+    <p class="sw-lead">Your invoices: open ones to pay and paid ones for your records.</p>
+    @if (loading()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading invoices" />
+    }
+    @if (error()) {
+      <p role="alert">{{ error() }}</p>
+    }
+    @if (!loading() && rows().length === 0) {
+      <p>No invoices yet.</p>
+    }
     <mat-nav-list aria-label="Invoices">
       @for (r of rows(); track r.id) {
         <a mat-list-item [routerLink]="['/portal/invoices', r.id]">
           <span matListItemTitle>Invoice {{ r.number }} · {{ purpose[r.purpose] }} · {{ usd(r.totalCents) }}</span>
-          <span matListItemLine><sw-invoice-status [status]="r.status" /> · {{ r.issuedAt | swDay }}@if (r.balanceCents) { · {{ usd(r.balanceCents) }} due }</span>
+          <span matListItemLine
+            ><sw-invoice-status [status]="r.status" /> · {{ r.issuedAt | swDay }}
+            @if (r.balanceCents) {
+              · {{ usd(r.balanceCents) }} due
+            }
+          </span>
         </a>
       }
     </mat-nav-list>
   `,
-  styles: `:host { display: block; max-width: 760px; margin: 0 auto; padding: 16px; }`,
+  styles: `
+    :host {
+      display: block;
+      max-width: 760px;
+      margin: 0 auto;
+      padding: 16px;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyInvoices {

@@ -16,11 +16,17 @@ import { DayPipe } from '../../ui/dates';
   imports: [DayPipe, RouterLink, MatListModule, MatProgressBarModule],
   template: `
     <h1>Quotes</h1>
-    @if (read.isLoading()) { <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" /> }
-    @if (error()) { <p role="alert">{{ error() }}</p> }
+    @if (read.isLoading()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" />
+    }
+    @if (error()) {
+      <p role="alert">{{ error() }}</p>
+    }
     @if (read.hasValue()) {
       <h2>Waiting for your answer</h2>
-      @if (!waiting().length) { <p>No quote is waiting. After a visit, your technician's quote arrives by e-mail and shows here.</p> }
+      @if (!waiting().length) {
+        <p>No quote is waiting. After a visit, your technician's quote arrives by e-mail and shows here.</p>
+      }
       <mat-nav-list aria-label="Quotes waiting for your answer">
         @for (q of waiting(); track q.id) {
           <a mat-list-item [routerLink]="['/portal/quotes', q.id]">
@@ -42,7 +48,18 @@ import { DayPipe } from '../../ui/dates';
       }
     }
   `,
-  styles: `:host { display: block; max-width: 760px; margin: 0 auto; padding: 16px; } h2 { font-size: 1.2rem; font-weight: 800; }`,
+  styles: `
+    :host {
+      display: block;
+      max-width: 760px;
+      margin: 0 auto;
+      padding: 16px;
+    }
+    h2 {
+      font-size: 1.2rem;
+      font-weight: 800;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyQuotes {

@@ -21,16 +21,55 @@ import { DateTimePipe, DayPipe } from '../../ui/dates';
   imports: [DayPipe, DateTimePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, QuoteApproval, QuoteOptionTable],
   templateUrl: './quote-page.html',
   styles: `
-    :host { display: block; max-width: 760px; margin: 0 auto; padding: 16px; }
-    h1 { overflow-wrap: anywhere; }
-    h2 { font-size: 1.2rem; font-weight: 800; margin: 0 0 4px; }
-    .option { border: 1px solid var(--sw-teal-soft); border-radius: var(--sw-radius); padding: 10px 12px; margin: 0 0 12px; }
-    .option.chosen { border: 2px solid var(--sw-ok); }
-    .notes { padding-left: 20px; }
-    .photos { list-style: none; padding: 0; display: grid; grid-template-columns: repeat(auto-fill, minmax(120px, 1fr)); gap: 8px; }
-    .photos img { width: 100%; aspect-ratio: 4 / 3; object-fit: cover; border-radius: 8px; }
-    .ok { color: var(--sw-ok); font-weight: 700; }
-    .note { white-space: pre-line; background: var(--sw-teal-soft); padding: 8px 12px; border-radius: 8px; }
+    :host {
+      display: block;
+      max-width: 760px;
+      margin: 0 auto;
+      padding: 16px;
+    }
+    h1 {
+      overflow-wrap: anywhere;
+    }
+    h2 {
+      font-size: 1.2rem;
+      font-weight: 800;
+      margin: 0 0 4px;
+    }
+    .option {
+      border: 1px solid var(--sw-teal-soft);
+      border-radius: var(--sw-radius);
+      padding: 10px 12px;
+      margin: 0 0 12px;
+    }
+    .option.chosen {
+      border: 2px solid var(--sw-ok);
+    }
+    .notes {
+      padding-left: 20px;
+    }
+    .photos {
+      list-style: none;
+      padding: 0;
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(120px, 1fr));
+      gap: 8px;
+    }
+    .photos img {
+      width: 100%;
+      aspect-ratio: 4 / 3;
+      object-fit: cover;
+      border-radius: 8px;
+    }
+    .ok {
+      color: var(--sw-ok);
+      font-weight: 700;
+    }
+    .note {
+      white-space: pre-line;
+      background: var(--sw-teal-soft);
+      padding: 8px 12px;
+      border-radius: 8px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

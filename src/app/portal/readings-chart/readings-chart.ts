@@ -26,7 +26,6 @@ function translucent(hex: string, alpha: number): string {
 }
 const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth watching', alert: 'out of range' };
 
-
 /** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
 @Component({
   selector: 'sw-readings-chart',

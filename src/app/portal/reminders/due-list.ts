@@ -25,7 +25,9 @@ import { MyRemindersApi } from './my-reminders-api';
         <ul>
           @for (i of items(); track i.kind + (i.equipmentId ?? '') + i.propertyId) {
             <li [class.overdue]="i.inDays < 0">
-              <span class="what"><strong>{{ i.label }}</strong> {{ words(i) }}</span>
+              <span class="what"
+                ><strong>{{ i.label }}</strong> {{ words(i) }}</span
+              >
               <span class="why">{{ i.why }}</span>
               <span class="do">
                 @if (i.bookingPath) {
@@ -43,12 +45,39 @@ import { MyRemindersApi } from './my-reminders-api';
     </section>
   `,
   styles: `
-    ul { list-style: none; padding: 0; margin: 0 0 8px; display: grid; gap: 8px; }
-    li { display: grid; grid-template-columns: 1fr auto; gap: 2px 12px; padding: 10px 12px; border: 1px solid var(--mat-sys-outline-variant); border-radius: var(--sw-radius, 8px); }
-    li.overdue { border-left: 5px solid var(--sw-ember, #b5532a); }
-    .why { grid-column: 1; color: var(--mat-sys-on-surface-variant); font-size: 0.9rem; }
-    .do { grid-column: 2; grid-row: 1 / span 2; display: flex; gap: 8px; align-items: center; }
-    .empty { color: var(--mat-sys-on-surface-variant); }
+    ul {
+      list-style: none;
+      padding: 0;
+      margin: 0 0 8px;
+      display: grid;
+      gap: 8px;
+    }
+    li {
+      display: grid;
+      grid-template-columns: 1fr auto;
+      gap: 2px 12px;
+      padding: 10px 12px;
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: var(--sw-radius, 8px);
+    }
+    li.overdue {
+      border-left: 5px solid var(--sw-ember, #b5532a);
+    }
+    .why {
+      grid-column: 1;
+      color: var(--mat-sys-on-surface-variant);
+      font-size: 0.9rem;
+    }
+    .do {
+      grid-column: 2;
+      grid-row: 1 / span 2;
+      display: flex;
+      gap: 8px;
+      align-items: center;
+    }
+    .empty {
+      color: var(--mat-sys-on-surface-variant);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -42,7 +42,13 @@ const flags = <K extends string>(keys: readonly K[], on: boolean) => Object.from
     </section>
   `,
   styles: `
-    fieldset { border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; margin: 16px 0; display: flex; flex-direction: column; }
+    fieldset {
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 8px;
+      margin: 16px 0;
+      display: flex;
+      flex-direction: column;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -7,7 +7,11 @@ describe('AgreementStatusBadge', () => {
   it('shows a word and an icon for every status, never colour alone', async () => {
     TestBed.configureTestingModule({ imports: [AgreementStatusBadge], providers: [provideHttpClient(), provideIcons()] });
     const fixture = TestBed.createComponent(AgreementStatusBadge);
-    for (const [status, word] of [['renewal_due', 'Renewal due'], ['past_due', 'Past due'], ['active', 'Active']] as const) {
+    for (const [status, word] of [
+      ['renewal_due', 'Renewal due'],
+      ['past_due', 'Past due'],
+      ['active', 'Active'],
+    ] as const) {
       fixture.componentRef.setInput('status', status);
       await fixture.whenStable();
       const el: HTMLElement = fixture.nativeElement;

@@ -17,10 +17,28 @@ const ICON: Record<AgreementStatus, string> = {
   imports: [MatIconModule],
   template: `<span class="status" [class]="'status ' + status()"><mat-icon [svgIcon]="icon()" aria-hidden="true" />{{ label() }}</span>`,
   styles: `
-    .status { display: inline-flex; align-items: center; gap: 4px; font-weight: 700; padding: 2px 10px 2px 6px; border-radius: 999px; background: var(--mat-sys-surface-container-high); }
-    mat-icon { width: 18px; height: 18px; }
-    .past_due, .lapsed { background: var(--mat-sys-error-container); color: var(--mat-sys-on-error-container); }
-    .renewal_due { background: var(--mat-sys-tertiary-container); color: var(--mat-sys-on-tertiary-container); }
+    .status {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+      font-weight: 700;
+      padding: 2px 10px 2px 6px;
+      border-radius: 999px;
+      background: var(--mat-sys-surface-container-high);
+    }
+    mat-icon {
+      width: 18px;
+      height: 18px;
+    }
+    .past_due,
+    .lapsed {
+      background: var(--mat-sys-error-container);
+      color: var(--mat-sys-on-error-container);
+    }
+    .renewal_due {
+      background: var(--mat-sys-tertiary-container);
+      color: var(--mat-sys-on-tertiary-container);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

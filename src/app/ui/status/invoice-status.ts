@@ -16,7 +16,18 @@ const ICON: Record<InvoiceStatus, string> = {
   selector: 'sw-invoice-status',
   imports: [MatIconModule],
   template: `<span class="status"><mat-icon [svgIcon]="icon()" aria-hidden="true" />{{ label() }}</span>`,
-  styles: `.status { display: inline-flex; gap: 4px; align-items: center; font-weight: 700; } mat-icon { width: 18px; height: 18px; }`,
+  styles: `
+    .status {
+      display: inline-flex;
+      gap: 4px;
+      align-items: center;
+      font-weight: 700;
+    }
+    mat-icon {
+      width: 18px;
+      height: 18px;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InvoiceStatusBadge {

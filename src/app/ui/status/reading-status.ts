@@ -10,11 +10,26 @@ const WORDS: Record<ReadingStatus, string> = { ok: 'In range', watch: 'Check', a
   imports: [MatIconModule],
   template: `<mat-icon [svgIcon]="'status-' + status()" aria-hidden="true" /><span>{{ word() }}</span>`,
   styles: `
-    :host { display: inline-flex; align-items: center; gap: 4px; font-weight: 700; white-space: nowrap; }
-    :host(.ok) { color: var(--sw-ok); }
-    :host(.watch) { color: var(--sw-watch); }
-    :host(.alert) { color: var(--sw-alert); }
-    mat-icon { width: 20px; height: 20px; }
+    :host {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+      font-weight: 700;
+      white-space: nowrap;
+    }
+    :host(.ok) {
+      color: var(--sw-ok);
+    }
+    :host(.watch) {
+      color: var(--sw-watch);
+    }
+    :host(.alert) {
+      color: var(--sw-alert);
+    }
+    mat-icon {
+      width: 20px;
+      height: 20px;
+    }
   `,
   host: { '[class]': 'status()' },
   changeDetection: ChangeDetectionStrategy.OnPush,

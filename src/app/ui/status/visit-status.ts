@@ -18,10 +18,24 @@ const ICONS: Record<VisitStatus, string> = {
   imports: [MatIconModule],
   template: `<span class="status" [class]="'status s-' + status()"><mat-icon [svgIcon]="icon()" aria-hidden="true" />{{ label() }}</span>`,
   styles: `
-    .status { display: inline-flex; align-items: center; gap: 4px; font-size: 0.8125rem; font-weight: 600; }
-    mat-icon { width: 16px; height: 16px; }
-    .s-canceled, .s-no_show { color: var(--mat-sys-error); }
-    .s-done { color: var(--mat-sys-primary); }
+    .status {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+      font-size: 0.8125rem;
+      font-weight: 600;
+    }
+    mat-icon {
+      width: 16px;
+      height: 16px;
+    }
+    .s-canceled,
+    .s-no_show {
+      color: var(--mat-sys-error);
+    }
+    .s-done {
+      color: var(--mat-sys-primary);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -38,12 +38,38 @@ const ACCEPT = 'image/jpeg,image/png,image/webp,application/pdf';
     </div>
   `,
   styles: `
-    .upload { display: flex; flex-wrap: wrap; align-items: center; gap: 8px 12px; }
-    .hint { font-size: 0.85rem; opacity: 0.8; }
-    mat-progress-bar { flex-basis: 100%; }
-    .error, .status { display: flex; align-items: center; gap: 6px; margin: 0; flex-basis: 100%; }
-    .error { color: var(--mat-sys-error); }
-    .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+    .upload {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      gap: 8px 12px;
+    }
+    .hint {
+      font-size: 0.85rem;
+      opacity: 0.8;
+    }
+    mat-progress-bar {
+      flex-basis: 100%;
+    }
+    .error,
+    .status {
+      display: flex;
+      align-items: center;
+      gap: 6px;
+      margin: 0;
+      flex-basis: 100%;
+    }
+    .error {
+      color: var(--mat-sys-error);
+    }
+    .visually-hidden {
+      position: absolute;
+      width: 1px;
+      height: 1px;
+      overflow: hidden;
+      clip: rect(0 0 0 0);
+      white-space: nowrap;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
