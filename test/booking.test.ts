@@ -10,6 +10,7 @@ import { createMailer } from '../server/integrations/mail';
 import * as t from '../server/db/schema';
 import { sendDayBeforeReminders } from '../server/booking/day-before-notices';
 import sharp from 'sharp';
+import { formatPhone } from '../shared/phone';
 
 const TZ = 'America/Chicago';
 const OFFICE = 'teo.marchetti@bluestem-comfort.test';
@@ -288,10 +289,10 @@ describe('booking a visit', () => {
     now = new Date(Date.parse(w.start) - 23 * 3_600_000); // 23 h before: inside the 24 h default cut-off
     const late = await me.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, me.csrf).send({}).expect(409);
     expect(late.body.error.code).toBe('past_cutoff');
-    expect(late.body.error.message).toMatch(/by phone: \+1/);
+    expect(late.body.error.message).toMatch(/by phone: \(\d{3}\) \d{3}-\d{4}\./);
     const page = await me.agent.get(`/api/booking/visits/${booked.body.visit.id}`).expect(200);
     expect(page.body.visit.canChange).toBe(false);
-    expect(page.body.visit.changeNotice).toBe(`Changes to this visit are by phone: ${page.body.visit.officePhone}.`);
+    expect(page.body.visit.changeNotice).toBe(`Changes to this visit are by phone: ${formatPhone(page.body.visit.officePhone, 'US')}.`);
     await at(now.toISOString());
     await office.agent.post(`/api/booking/visits/${booked.body.visit.id}/cancel`).set(XSRF, office.csrf).send({ reason: 'Caller phoned in' }).expect(200);
   });
@@ -309,7 +310,7 @@ describe('booking a visit', () => {
       .send({ propertyId: h.propertyId, reason: 'thermostat', windowStart: w.start, noEmergency: true })
       .expect(201);
     expect(booked.body.visit.canChange).toBe(false);
-    expect(booked.body.visit.changeNotice).toMatch(/^Changes to this visit are by phone: \+1\d{10}\.$/);
+    expect(booked.body.visit.changeNotice).toMatch(/^Changes to this visit are by phone: \(\d{3}\) \d{3}-\d{4}\.$/);
     await waitForMail(h.email, 'We have your visit request');
     const mail = catcher.store.list({ to: h.email }).find((m) => m.subject === 'We have your visit request')!;
     expect(mail.text).toContain(booked.body.visit.changeNotice);

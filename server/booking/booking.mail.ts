@@ -6,6 +6,8 @@ import { renderEmail } from '../integrations/mail-layout';
 import { queueMail, type MailToQueue, type OutboxDeps } from '../mail/outbox';
 import type { CompanySettings } from './scheduling-input';
 import { addressOf, labelFor, type VisitRow } from './visit-views';
+import { formatPhone } from '../../shared/phone';
+import { COMPANY_COUNTRY } from '../company/company';
 
 export type VisitMailKind = 'confirmation' | 'assigned' | 'reschedule' | 'cancellation' | 'on_the_way' | 'reminder';
 
@@ -25,8 +27,8 @@ const EXPECT =
 /** The same cut-off sentence as the confirmation page and the visit page, with where to change it. */
 function howToChange(v: VisitRow, c: CompanySettings, link: string, now: Date): string {
   const online = canChangeOnline(v, c, now);
-  const sentence = changeSentence(online, changeCutoff(v, c), c.phone, c.timeZone);
-  return online ? `${sentence} Reschedule or cancel at ${link}, or call ${c.phone}.` : sentence;
+  const sentence = changeSentence(online, changeCutoff(v, c), formatPhone(c.phone, COMPANY_COUNTRY), c.timeZone);
+  return online ? `${sentence} Reschedule or cancel at ${link}, or call ${formatPhone(c.phone, COMPANY_COUNTRY)}.` : sentence;
 }
 
 /** The e-mail for a visit change, with the calendar invitation attached where the time is set or freed. */
@@ -42,7 +44,10 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
     confirmation: [`We have your request: ${what}.`, `Arrival window: ${window}.`, words.meaning, EXPECT, change],
     assigned: [`${what}.`, `Arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
     reschedule: [`${what}.`, `New arrival window: ${window}.`, words.meaning, tech, EXPECT, change],
-    cancellation: [`Your visit (${what}, ${window}) is canceled.`, `To book again, visit ${publicUrl.replace(/\/$/, '')}/portal/booking or call ${c.phone}.`],
+    cancellation: [
+      `Your visit (${what}, ${window}) is canceled.`,
+      `To book again, visit ${publicUrl.replace(/\/$/, '')}/portal/booking or call ${formatPhone(c.phone, COMPANY_COUNTRY)}.`,
+    ],
     on_the_way: [
       `${v.technicianName ?? 'Your technician'} is driving to you now for ${what}.`,
       `Arrival window: ${window}.`,
@@ -54,7 +59,7 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
     title: SUBJECTS[kind],
     paragraphs: paragraphs[kind].filter((p) => p !== ''),
     ...(kind === 'cancellation' ? {} : { action: { label: 'See your visit', url: link } }),
-    footer: `${c.name} · ${c.phone}`,
+    footer: `${c.name} · ${formatPhone(c.phone, COMPANY_COUNTRY)}`,
   });
   const attachments: MailAttachment[] = [];
   if (kind !== 'on_the_way' && v.customerEmail) {

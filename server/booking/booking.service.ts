@@ -24,10 +24,11 @@ import { agreements, customers, equipment, plans, planVersions, properties, visi
 import { AppError, notFound } from '../http/errors';
 import { assertOwnedRow } from '../http/ownership';
 import { sendVisitMail } from './booking.mail';
-import { companyRow } from '../company/company';
+import { COMPANY_COUNTRY, companyRow } from '../company/company';
 import { cachedWindows, minuteAfter, scheduleSnapshot, within } from './schedule-cache';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
 import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
+import { formatPhone } from '../../shared/phone';
 
 const BOOKING_LOCK = 730_611;
 const MEMBER_STATUSES = ['active', 'renewal_due'] as const;
@@ -387,7 +388,7 @@ export async function visitForChange(db: Db | Tx, user: SessionUser, id: string,
       throw new AppError(
         409,
         'past_cutoff',
-        `Online changes closed ${c.cancelCutoffHours} hours before the arrival window. ${changeSentence(false, changeCutoff(row, c), c.phone, c.timeZone)}`,
+        `Online changes closed ${c.cancelCutoffHours} hours before the arrival window. ${changeSentence(false, changeCutoff(row, c), formatPhone(c.phone, COMPANY_COUNTRY), c.timeZone)}`,
       );
     }
   }

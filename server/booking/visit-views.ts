@@ -5,6 +5,8 @@ import { windowLabel } from '../../shared/scheduling/clock';
 import { canChangeOnline, changeCutoff, changeSentence, VISIT_STATE_WORDS, windowMissed } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
+import { formatPhone } from '../../shared/phone';
+import { COMPANY_COUNTRY } from '../company/company';
 
 // The plan behind a property: an agreement that is active or due for renewal.
 const memberPlan = sql<string | null>`(
@@ -125,7 +127,7 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     sequence: r.sequence,
     changeableUntil: DateTime.fromJSDate(until, { zone: ctx.timeZone }).toISO()!,
     canChange,
-    changeNotice: changeSentence(canChange, until, ctx.phone, ctx.timeZone),
+    changeNotice: changeSentence(canChange, until, formatPhone(ctx.phone, COMPANY_COUNTRY), ctx.timeZone),
     officePhone: ctx.phone,
     windowMissed: windowMissed(r, ctx.now),
   };

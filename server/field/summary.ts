@@ -7,8 +7,9 @@ import type { Db, Tx } from '../db/client';
 import { equipment, files, technicians, users, visitReadings } from '../db/schema';
 import { toFile } from '../customers/customer-views';
 import { renderEmail } from '../integrations/mail-layout';
-import { localDate } from '../company/company';
+import { COMPANY_COUNTRY, localDate } from '../company/company';
 import { equipmentLabel, propertyEquipment, type CompanyInfo, type EquipmentRow, type VisitRow } from './visit-data';
+import { formatPhone } from '../../shared/phone';
 
 const FUEL_BURNING = new Set(['gas_furnace']);
 
@@ -80,7 +81,7 @@ export function summaryEmail(summary: VisitSummary, info: CompanyInfo, portalUrl
   for (const group of summary.readings) {
     if (group.lines.length) paragraphs.push(`${group.system}\n${group.lines.map((l) => `• ${l.text}`).join('\n')}`);
   }
-  paragraphs.push(`Questions? Call ${info.name} at ${info.phone}.`);
+  paragraphs.push(`Questions? Call ${info.name} at ${formatPhone(info.phone, COMPANY_COUNTRY)}.`);
   const { html, text } = renderEmail({
     title: `Your ${summary.reasonLabel.toLowerCase()} summary`,
     paragraphs,

@@ -19,10 +19,11 @@ import { ensureStripeCustomer, recordFromPaymentIntent } from '../billing/checko
 import { renderEmail } from '../integrations/mail-layout';
 import { paymentErrorMessage } from '../integrations/stripe';
 import { ensureRenewalInvoice, termPriceCents } from '../agreements/agreements.service';
-import { companyRow, companyToday } from '../company/company';
+import { COMPANY_COUNTRY, companyRow, companyToday } from '../company/company';
 import { currentVersion } from '../plans/plans.service';
 import { lockAgreement, recordHistory, transition } from '../agreements/terms';
 import { queueMail } from '../mail/outbox';
+import { formatPhone } from '../../shared/phone';
 
 export const RENEWAL_DAILY_JOB = 'renewals-daily';
 export const RENEWAL_NOTICE_JOB = 'renewal-notice';
@@ -276,7 +277,7 @@ export async function sendRenewalNotice(
       `The renewal price is ${formatUsd(await renewalPrice(deps, a))} for the next 12 months.`,
     ],
     action: { label: auto ? 'Review your agreement' : 'Renew online', url: `${base}/portal/plan` },
-    footer: `${company.name} · ${company.phone}`,
+    footer: `${company.name} · ${formatPhone(company.phone, COMPANY_COUNTRY)}`,
   });
   try {
     // The mail queue sends and retries it; should queueing itself fail, the claim goes so a rerun tries again.
@@ -322,7 +323,7 @@ async function sendDunningMail(deps: Pick<AppDeps, 'config' | 'database' | 'cloc
       `Your agreement stays in place until ${lapses}; after that the priority service and repair discount end.`,
     ],
     action: { label: 'Update your card', url: `${base}/portal/plan?update-card=${agreementId}` },
-    footer: `${company.name} · ${company.phone}`,
+    footer: `${company.name} · ${formatPhone(company.phone, COMPANY_COUNTRY)}`,
   });
   try {
     await queueMail(deps, {
