@@ -12,7 +12,8 @@ import type { Db, Tx } from '../db/client';
 import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
-import { ensureStripeCustomer, providerError, startInvoiceCheckout } from '../billing/checkout';
+import { startInvoiceCheckout } from '../billing/checkout';
+import { startCardSetup } from './card-setup';
 import { insertInvoice, invoiceView, voidOpenInvoicesOf } from '../billing/invoices';
 import { recordOfflinePayment } from '../billing/refunds';
 import { companyToday } from '../company/company';
@@ -318,30 +319,6 @@ export async function updateCard(deps: Pick<AppDeps, 'config' | 'database' | 'st
   const a = await ownAgreement(deps, user, id);
   if (a.status === 'canceled') throw conflict('This agreement is canceled.');
   return startCardSetup(deps, a, false);
-}
-
-async function startCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
-  try {
-    return await openCardSetup(deps, a, enableAutoRenew);
-  } catch (e) {
-    throw providerError(e);
-  }
-}
-
-async function openCardSetup(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, a: AgreementRow, enableAutoRenew: boolean): Promise<{ checkoutUrl: string }> {
-  const customer = await ensureStripeCustomer(deps, a.customerId);
-  const base = deps.config.publicUrl.replace(/\/$/, '');
-  const metadata = { agreementId: a.id, enableAutoRenew: String(enableAutoRenew) };
-  const s = await deps.stripe.checkout.sessions.create({
-    mode: 'setup',
-    customer,
-    metadata,
-    setup_intent_data: { metadata },
-    success_url: `${base}/portal/plan?checkout={CHECKOUT_SESSION_ID}`,
-    cancel_url: `${base}/portal/plan?checkout=canceled`,
-  });
-  if (!s.url) throw new AppError(502, 'checkout_failed', 'The card page could not be opened. Please try again.');
-  return { checkoutUrl: s.url };
 }
 
 // ---------- Changing tier mid-term ----------

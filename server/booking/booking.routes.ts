@@ -5,7 +5,8 @@ import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { assertDatesWithin, BOOKING_RANGE } from '../http/ranges';
-import { authoriseVisit, bookingOptions, bookVisit, myVisits, visitDetail, windowsFor, WindowFullError } from './booking.service';
+import { authoriseVisit, bookingOptions, bookVisit, windowsFor, WindowFullError } from './booking.service';
+import { myVisits, visitDetail } from './my-visits';
 import { cancelVisit, rescheduleVisit } from './visit-changes';
 
 export const idParam = z.object({ id: z.uuid({ message: 'must be a visit id' }) });

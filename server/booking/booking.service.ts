@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, inArray, isNull, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import { availableWindows, nextFreeWindows, planBooking, SchedulingInputError, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
@@ -393,23 +393,4 @@ export async function visitForChange(db: Db | Tx, user: SessionUser, id: string,
     }
   }
   return row;
-}
-
-export async function myVisits(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, customerId: string | undefined): Promise<VisitView[]> {
-  const { db } = deps.database;
-  const target = user.role === 'homeowner' ? user.customerId : customerId;
-  if (!target) throw new AppError(422, 'validation_failed', 'Please choose the household.', { customerId: 'is required' });
-  await assertCustomerAccess(db, user, target);
-  const c = await loadCompanySettings(db);
-  const now = deps.clock();
-  const since = new Date(now.getTime() - 90 * 86_400_000);
-  const rows = await visitRows(db, and(eq(visits.customerId, target), gte(visits.windowEnd, since)), 'desc');
-  return rows.map((r) => toView(r, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now }));
-}
-
-export async function visitDetail(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, id: string): Promise<VisitView> {
-  const { db } = deps.database;
-  const row = await visitFor(db, user, id);
-  const c = await loadCompanySettings(db);
-  return toView(row, { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now: deps.clock() });
 }
