@@ -35,8 +35,8 @@ const EXPECTED: Record<string, number> = {
   'dispatch-day': 8,
   'dispatch-week': 8,
   renewals: 4,
-  // The homeowner's first screen beside "My home": company, agreements, visits, invoices, terms.
-  'home-summary': 6,
+  // The homeowner's first screen beside "My home": company, agreements, visits, invoices, quotes, terms.
+  'home-summary': 7,
   // The session, then one statement each.
   'office-home': 2,
   'report-agreements': 2,

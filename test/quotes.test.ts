@@ -120,12 +120,18 @@ describe('a quote on a no-cooling visit', () => {
     const o = created.body.options[0];
     expect(o.totalCents).toBe(o.subtotalCents - o.savingsCents + o.taxCents);
 
+    // The homeowner's first screen counts the quote as waiting once it is sent, and not once it is answered.
+    const waiting = async () => (await home.agent.get('/api/my-home/summary').expect(200)).body.quotesWaiting as { count: number; firstId: string | null };
+    const unsent = await waiting();
     expect((await post(tech, `/api/quotes/${quoteId}/send`, { revision: 1 })).body.status).toBe('sent');
+    expect((await waiting()).count).toBe(unsent.count + 1);
+    if (unsent.count === 0) expect((await waiting()).firstId).toBe(quoteId);
     const before = { motor: await stockOf(motorId), cap: await stockOf(capId) };
     const approved = await post(home, `/api/portal/quotes/${quoteId}/approve`, { revision: 1, optionId: optionA, typedName: 'Sam Oduya', agreed: true });
     expect(approved.status).toBe(200);
     expect(approved.body.status).toBe('approved');
     expect(approved.body.approval.onDevice).toBe('portal');
+    expect((await waiting()).count).toBe(unsent.count);
     expect(approved.body.approval.ip).toBeTruthy();
     expect(await stockOf(motorId)).toBe(before.motor! - 1);
     expect(await stockOf(capId)).toBe(before.cap! - 1);
@@ -152,6 +158,7 @@ describe('a quote on a no-cooling visit', () => {
     expect((await stranger.agent.get(`/api/portal/quotes/${quoteId}`)).status).toBe(404);
     expect((await post(stranger, `/api/portal/quotes/${quoteId}/decline`, { revision: 1, reason: 'Not mine at all' })).status).toBe(404);
     expect((await stranger.agent.get('/api/portal/quotes')).body.map((x: { id: string }) => x.id)).not.toContain(quoteId);
+    expect((await stranger.agent.get('/api/my-home/summary')).body.quotesWaiting.firstId).not.toBe(quoteId);
     expect((await office.agent.get(`/api/quotes/${quoteId}`)).status).toBe(200);
     const priya = await signInStaff(ctx, STAFF.filter((s) => s.role === 'technician')[1]!.email);
     expect((await priya.agent.get(`/api/quotes/${quoteId}`)).status).toBe(404);

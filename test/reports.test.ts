@@ -278,7 +278,7 @@ describe('report requests', () => {
 });
 
 describe('office home', () => {
-  it('counts today and tomorrow by status, the queue, renewals at risk and the week’s payments in one read', async () => {
+  it('counts today and tomorrow by status, the queue, renewals at risk, the week’s payments, open quotes and running campaigns in one read', async () => {
     // Today is Tue 10 June 2031 in the company's zone: one visit booked for Bo today, one request for tomorrow.
     const visit = (tech: string | null, status: string, local: string) => {
       const s = DateTime.fromISO(local, { zone: TZ });
@@ -292,6 +292,35 @@ describe('office home', () => {
     await visit(null, 'requested', '2031-06-11T09:00');
     // Paid 11:30 p.m. on Monday 9 June local time: inside the last seven days.
     await q(`insert into payments (invoice_id, method, status, amount_cents, succeeded_at) values ($1, 'check', 'succeeded', 5000, $2)`, [ids.I5, at('2031-06-09T23:30')]);
+    // Quotes on Bo's visit: a draft and a sent one are open, each at its current revision's dearest
+    // option (the quotes page's rule); the approved one and the superseded revision are not counted.
+    const quoteVisit = await q(`select id from visits where technician_id = $1 order by window_start limit 1`, [ids.bo]);
+    const quote = async (status: string, revision: number, totals: Record<number, number[]>) => {
+      const id = await q(`insert into quotes (visit_id, customer_id, property_id, status, revision) values ($1, $2, $3, $4, $5) returning id`, [
+        quoteVisit,
+        ids.customer,
+        ids.property,
+        status,
+        revision,
+      ]);
+      for (const [rev, options] of Object.entries(totals)) {
+        const r = await q(`insert into quote_revisions (quote_id, revision, status, tax_rate_bps) values ($1, $2, $3, 0) returning id`, [id, Number(rev), status]);
+        for (const [i, total] of options.entries()) {
+          await q(
+            `insert into quote_options (revision_id, position, title, subtotal_cents, savings_cents, taxable_cents, tax_cents, total_cents) values ($1, $2, 'Option', $3, 0, $3, 0, $3)`,
+            [r, i + 1, total],
+          );
+        }
+      }
+    };
+    await quote('draft', 1, { 1: [12000, 45000] });
+    await quote('sent', 2, { 1: [99900], 2: [30000] });
+    await quote('approved', 1, { 1: [70000] });
+    // Campaigns still going out: sending, scheduled and paused; a draft, a finished and a cancelled one are not.
+    const staff = await q(`select id from users where email = 'office@reports.test'`);
+    for (const status of ['sending', 'scheduled', 'paused', 'draft', 'done', 'cancelled']) {
+      await q(`insert into reminder_campaigns (kind, created_by_id, audience_count, status) values ('filter', $1, 3, $2)`, [staff, status]);
+    }
     const res = await get('/api/office-home').expect(200);
     expect(res.body).toEqual({
       today: '2031-06-10',
@@ -304,6 +333,9 @@ describe('office home', () => {
       pastDue: { count: 1, totalCents: 19900 },
       recentPayments: { count: 1, totalCents: 5000 },
       recentPaymentDays: 7,
+      // 45000 (the draft's dearer option) + 30000 (the sent quote's revision 2).
+      openQuotes: { count: 2, totalCents: 75000 },
+      runningCampaigns: 3,
     });
   });
 });

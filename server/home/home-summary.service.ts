@@ -6,7 +6,7 @@ import { daysBetween, renewalWindowOpens } from '../../shared/renewals';
 import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/schemas/home';
 import type { SessionUser } from '../../shared/schemas/session';
 import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
-import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
+import { agreements, invoices, plans, planVersions, properties, quotes } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
 import { termsOf } from '../agreements/term-in-force';
 import { customerVisits } from '../customers/customer-page';
@@ -17,7 +17,7 @@ const SHOWN = ['active', 'renewal_due', 'past_due', 'lapsed'] as const;
 
 /**
  * What the homeowner asks first: the plan and when it ends, the tune-ups left this season, the
- * next visit, and what is owed. A fixed number of statements, whatever the household holds.
+ * next visit, what is owed and the quotes waiting for an answer. A fixed number of statements, whatever the household holds.
  */
 export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<HomeSummary> {
   const { db } = deps.database;
@@ -26,7 +26,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
   const now = deps.clock();
   const co = await companyRow(db);
   const today = localDate(now, co.timeZone);
-  const [rows, visitRows, [owed]] = await Promise.all([
+  const [rows, visitRows, [owed], [waiting]] = await Promise.all([
     db
       .select({ a: agreements, planName: plans.name, planActive: plans.active, label: properties.label, v: planVersions })
       .from(agreements)
@@ -44,6 +44,10 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
       })
       .from(invoices)
       .where(and(eq(invoices.customerId, customerId), eq(invoices.status, 'open'))),
+    db
+      .select({ count: sql<number>`count(*)::int`, firstId: sql<string | null>`(array_agg(${quotes.id} order by ${quotes.sentAt}))[1]` })
+      .from(quotes)
+      .where(and(eq(quotes.customerId, customerId), eq(quotes.status, 'sent'))),
   ]);
   const terms = await termsOf(
     db,
@@ -110,5 +114,10 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
         technicianName: next.technicianName,
       }
     : null;
-  return { agreements: list, nextVisit, invoicesDue: { count: Number(owed?.count ?? 0), balanceCents: Number(owed?.balance ?? 0), firstId: owed?.firstId ?? null } };
+  return {
+    agreements: list,
+    nextVisit,
+    invoicesDue: { count: Number(owed?.count ?? 0), balanceCents: Number(owed?.balance ?? 0), firstId: owed?.firstId ?? null },
+    quotesWaiting: { count: Number(waiting?.count ?? 0), firstId: waiting?.firstId ?? null },
+  };
 }

@@ -39,6 +39,8 @@ export interface HomeSummary {
   agreements: HomeAgreement[];
   nextVisit: HomeNextVisit | null;
   invoicesDue: { count: number; balanceCents: number; firstId: string | null };
+  /** Sent quotes the household has not answered yet, as the quotes page's waiting list. */
+  quotesWaiting: { count: number; firstId: string | null };
 }
 
 export interface CountAndTotal {
@@ -60,4 +62,8 @@ export interface OfficeHome {
   /** Payments that succeeded in the last seven days of the company's calendar, today included. */
   recentPayments: CountAndTotal;
   recentPaymentDays: number;
+  /** Draft and sent quotes, each valued at its current revision's dearest option (the quotes page's "Open" view). */
+  openQuotes: CountAndTotal;
+  /** Reminder campaigns sending, scheduled or paused. */
+  runningCampaigns: number;
 }

@@ -1,10 +1,11 @@
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import { AreaLanding } from './area-landing';
+import { provideIcons } from './icons';
 
 describe('AreaLanding', () => {
   it('renders the heading and one card per task, linking where a path is given', async () => {
-    TestBed.configureTestingModule({ imports: [AreaLanding], providers: [provideRouter([])] });
+    TestBed.configureTestingModule({ imports: [AreaLanding], providers: [provideRouter([]), provideIcons()] });
     const fixture = TestBed.createComponent(AreaLanding);
     fixture.componentRef.setInput('heading', 'Office');
     fixture.componentRef.setInput('lead', 'Customers and visits.');

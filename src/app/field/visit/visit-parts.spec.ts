@@ -1,7 +1,8 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
 import type { Type } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import type { FieldVisit } from '../../../../shared/schemas/field';
 import { apiErrors } from '../../core/api-errors';
 import { provideIcons } from '../../ui/icons';
@@ -29,7 +30,16 @@ const visit = {
 
 function setUp<T>(component: Type<T>) {
   localStorage.clear();
-  TestBed.configureTestingModule({ imports: [component], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons()] });
+  TestBed.configureTestingModule({
+    imports: [component],
+    providers: [
+      provideHttpClient(withInterceptors([apiErrors])),
+      provideHttpClientTesting(),
+      provideIcons(),
+      // The completion dialog then closes on the next microtask instead of after its exit timer.
+      { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+    ],
+  });
   const fixture = TestBed.createComponent(component);
   fixture.componentRef.setInput('visit', visit);
   return { fixture, http: TestBed.inject(HttpTestingController), el: fixture.nativeElement as HTMLElement, drafts: TestBed.inject(VisitDrafts) };
@@ -65,14 +75,25 @@ describe('VisitChecklist', () => {
   });
 });
 
-/** Answers the completion dialog (nothing skipped, no repair) and waits for the request it sends. */
-async function confirmCompletion(fixture: { whenStable(): Promise<unknown> }) {
+const COMPLETE_URL = '/api/field/visits/v1/complete';
+
+/**
+ * Answers the completion dialog (nothing skipped, no repair) and returns the request it leads to.
+ * The save starts only after the dialog has closed, so this yields to the event loop until the
+ * request is there rather than guessing how long that takes; if it never comes, expectOne fails.
+ */
+async function confirmCompletion(fixture: { whenStable(): Promise<unknown> }, http: HttpTestingController): Promise<TestRequest> {
   await fixture.whenStable();
-  const dialog = document.querySelector('mat-dialog-container')!;
+  const dialog = [...document.querySelectorAll('mat-dialog-container')].at(-1)!;
   expect(dialog.textContent).toContain('Complete this visit?');
   [...dialog.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.trim() === 'Complete visit')!.click();
-  await new Promise((r) => setTimeout(r, 300));
-  await fixture.whenStable();
+  for (let turn = 0; turn < 100; turn++) {
+    const [req] = http.match(COMPLETE_URL);
+    if (req) return req;
+    await new Promise((r) => setTimeout(r, 0));
+    await fixture.whenStable();
+  }
+  return http.expectOne(COMPLETE_URL);
 }
 
 describe('VisitNotes', { timeout: 60_000 }, () => {
@@ -83,13 +104,11 @@ describe('VisitNotes', { timeout: 60_000 }, () => {
     await fixture.whenStable();
 
     button(el, 'Complete visit').click();
-    await confirmCompletion(fixture);
-    http
-      .expectOne('/api/field/visits/v1/complete')
-      .flush(
-        { error: { code: 'invalid', message: 'Please check the findings.', fields: { findings: 'Findings are needed to complete the visit' } } },
-        { status: 400, statusText: 'Bad Request' },
-      );
+    const rejected = await confirmCompletion(fixture, http);
+    rejected.flush(
+      { error: { code: 'invalid', message: 'Please check the findings.', fields: { findings: 'Findings are needed to complete the visit' } } },
+      { status: 400, statusText: 'Bad Request' },
+    );
     // The save runs after the dialog's answer: let its promise settle before reading the page.
     await new Promise((r) => setTimeout(r, 100));
     await fixture.whenStable();
@@ -100,8 +119,7 @@ describe('VisitNotes', { timeout: 60_000 }, () => {
     findings.value = 'Cleaned the drain.';
     findings.dispatchEvent(new Event('input'));
     button(el, 'Complete visit').click();
-    await confirmCompletion(fixture);
-    const req = http.expectOne('/api/field/visits/v1/complete');
+    const req = await confirmCompletion(fixture, http);
     expect(req.request.body).toEqual({ findings: 'Cleaned the drain.', recommendations: '', skippedReason: '', repairDone: false });
     req.flush({ id: 'v1', status: 'done', completedAt: '2026-07-14T15:00:00Z', summaryEmailed: true });
     await new Promise((r) => setTimeout(r, 100));

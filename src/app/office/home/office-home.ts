@@ -116,6 +116,26 @@ export class OfficeHome {
         linkText: 'See paid invoices',
         icon: 'receipt',
       },
+      {
+        id: 'quotes',
+        title: 'Open quotes',
+        count: h.openQuotes.count,
+        detail: `${usd(h.openQuotes.totalCents)} if each is approved at its dearest option.`,
+        link: '/office/quotes',
+        query: {},
+        linkText: 'Follow them up',
+        icon: 'wrench',
+      },
+      {
+        id: 'campaigns',
+        title: 'Running campaigns',
+        count: h.runningCampaigns,
+        detail: 'Reminder campaigns sending, scheduled or paused.',
+        link: '/office/reminders',
+        query: {},
+        linkText: 'See their progress',
+        icon: 'bell',
+      },
     ];
   });
 
