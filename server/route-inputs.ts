@@ -13,7 +13,7 @@ import {
 } from '../shared/schemas/auth';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../shared/schemas/billing';
 import { assignSchema, boardQuerySchema, bookVisitSchema, cancelSchema, rescheduleSchema, statusChangeSchema, timeOffSchema, windowsQuerySchema } from '../shared/schemas/booking';
-import { createCampaignSchema, reminderPreviewQuerySchema } from '../shared/schemas/campaigns';
+import { audienceQuerySchema, campaignActionSchema, createCampaignSchema, filterChangedSchema, reminderPreferencesSchema } from '../shared/schemas/campaigns';
 import {
   contactInputSchema,
   customerCreateSchema,
@@ -42,13 +42,37 @@ import {
   renewSchema,
   sendNoticesSchema,
 } from '../shared/schemas/plans';
+import {
+  directInvoiceSchema,
+  flatRateTaskInputSchema,
+  flatRateTaskUpdateSchema,
+  priceBookItemInputSchema,
+  priceBookItemUpdateSchema,
+  priceBookListQuerySchema,
+  quoteApproveSchema,
+  quoteCreateSchema,
+  quoteDeclineSchema,
+  quoteListQuerySchema,
+  quoteSendSchema,
+  quoteUpdateSchema,
+  replacementSearchSchema,
+  restockSchema,
+  stockListQuerySchema,
+  stockLocationInputSchema,
+  stockRowInputSchema,
+  transferSchema,
+} from '../shared/schemas/pricebook';
+import { partsUsedSchema, quoteReviseSchema, quoteRevisionQuerySchema, quoteStatsQuerySchema, stockMovementQuerySchema, taskListQuerySchema } from '../shared/schemas/quotes';
+import { reportNameSchema, reportQuerySchema } from '../shared/schemas/reports';
 import { companySettingsSchema } from '../shared/schemas/settings';
 import { checkoutReturnSchema, checkoutSchema } from './billing/billing.routes';
 import { customerQuery } from './booking/booking.routes';
+import { deliveryLogQuery, previewPageQuery } from './campaigns/campaigns.routes';
 import { householdQuery } from './dispatch/dispatch.routes';
 import { propertyRef } from './equipment/equipment.routes';
 import { seasonQuery } from './field/field.routes';
 import { mappingField } from './imports/imports.routes';
+import { priceBookMappingField } from './pricebook/pricebook.routes';
 import { feedParam, weekQuery } from './schedule/schedule.routes';
 import { uploadTargetSchema } from './uploads/uploads.service';
 
@@ -106,10 +130,13 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'GET /api/renewals': { as: 'office', query: renewalQuerySchema },
   'GET /api/renewals/export.csv': { as: 'office', query: renewalQuerySchema },
   'POST /api/renewals/notices': { as: 'office', body: sendNoticesSchema },
-  'GET /api/reminders/preview': { as: 'office', query: reminderPreviewQuerySchema },
+  'GET /api/reminders/preview': { as: 'office', query: audienceQuerySchema.and(previewPageQuery) },
+  'GET /api/reminders/preview/messages': { as: 'office', query: audienceQuerySchema },
   'GET /api/reminders/campaigns': { as: 'office' },
   'POST /api/reminders/campaigns': { as: 'office', body: createCampaignSchema },
   'GET /api/reminders/campaigns/:id': { as: 'office', params: id },
+  'POST /api/reminders/campaigns/:id/actions': { as: 'office', params: id, body: campaignActionSchema },
+  'GET /api/reminders/campaigns/:id/deliveries': { as: 'office', params: id, query: deliveryLogQuery },
   'GET /api/settings/company': { as: 'owner' },
   'PUT /api/settings/company': { as: 'owner', body: companySettingsSchema },
   'GET /api/session': { as: 'anonymous' },
@@ -187,4 +214,49 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'PATCH /api/my-home/contact': { as: 'homeowner', body: homeContactSchema },
   'PATCH /api/my-home/properties/:id': { as: 'homeowner', params: id, body: homeAccessSchema },
   'POST /api/my-home/notes': { as: 'homeowner', body: homeNoteSchema },
+  'GET /api/my-home/summary': { as: 'homeowner' },
+  'GET /api/my-reminders': { as: 'homeowner' },
+  'POST /api/my-reminders/filter-changed': { as: 'homeowner', body: filterChangedSchema },
+  'PUT /api/my-reminders/preferences': { as: 'homeowner', body: reminderPreferencesSchema },
+  'GET /api/office-home': { as: 'office' },
+  'GET /api/reports/:report': { as: 'office', params: z.object({ report: reportNameSchema }), query: reportQuerySchema },
+  'GET /api/reports/:report/export.csv': { as: 'office', params: z.object({ report: reportNameSchema }), query: reportQuerySchema },
+  'GET /api/price-book/items': { as: 'technician', query: priceBookListQuerySchema },
+  'POST /api/price-book/items': { as: 'owner', body: priceBookItemInputSchema },
+  'GET /api/price-book/items/:id': { as: 'technician', params: id },
+  'PATCH /api/price-book/items/:id': { as: 'owner', params: id, body: priceBookItemUpdateSchema },
+  'GET /api/price-book/tasks': { as: 'technician', query: taskListQuerySchema },
+  'POST /api/price-book/tasks': { as: 'owner', body: flatRateTaskInputSchema },
+  'PATCH /api/price-book/tasks/:id': { as: 'owner', params: id, body: flatRateTaskUpdateSchema },
+  'GET /api/price-book/export.csv': { as: 'office' },
+  'POST /api/price-book/import/preview': { as: 'owner' },
+  'POST /api/price-book/import/check': { as: 'owner', body: priceBookMappingField },
+  'POST /api/price-book/import/run': { as: 'owner', body: priceBookMappingField },
+  'GET /api/quotes': { as: 'office', query: quoteListQuerySchema },
+  'POST /api/quotes': { as: 'technician', body: quoteCreateSchema },
+  'GET /api/quotes/stats': { as: 'office', query: quoteStatsQuerySchema },
+  'GET /api/quotes/savings/:customerId': { as: 'office', params: ids('customerId') },
+  'POST /api/quotes/preview': { as: 'technician', body: quoteCreateSchema },
+  'GET /api/quotes/:id': { as: 'office', params: id, query: quoteRevisionQuerySchema },
+  'PUT /api/quotes/:id': { as: 'technician', params: id, body: quoteUpdateSchema },
+  'POST /api/quotes/:id/revise': { as: 'office', params: id, body: quoteReviseSchema },
+  'POST /api/quotes/:id/send': { as: 'office', params: id, body: quoteSendSchema },
+  'POST /api/quotes/:id/approve': { as: 'technician', params: id, body: quoteApproveSchema },
+  'POST /api/quotes/:id/decline': { as: 'technician', params: id, body: quoteDeclineSchema },
+  'GET /api/portal/quotes': { as: 'homeowner' },
+  'GET /api/portal/quotes/savings': { as: 'homeowner' },
+  'GET /api/portal/quotes/:id': { as: 'homeowner', params: id },
+  'POST /api/portal/quotes/:id/approve': { as: 'homeowner', params: id, body: quoteApproveSchema },
+  'POST /api/portal/quotes/:id/decline': { as: 'homeowner', params: id, body: quoteDeclineSchema },
+  'POST /api/work-invoices/preview': { as: 'technician', body: directInvoiceSchema },
+  'POST /api/work-invoices': { as: 'office', body: directInvoiceSchema },
+  'GET /api/stock/locations': { as: 'technician' },
+  'POST /api/stock/locations': { as: 'office', body: stockLocationInputSchema },
+  'GET /api/stock/levels': { as: 'technician', query: stockListQuerySchema },
+  'PUT /api/stock/levels/:locationId': { as: 'office', params: ids('locationId'), body: stockRowInputSchema },
+  'POST /api/stock/restocks': { as: 'office', body: restockSchema },
+  'POST /api/stock/transfers': { as: 'office', body: transferSchema },
+  'GET /api/stock/movements': { as: 'technician', query: stockMovementQuerySchema },
+  'POST /api/stock/visits/:visitId/parts-used': { as: 'technician', params: ids('visitId'), body: partsUsedSchema },
+  'POST /api/stock/replacements': { as: 'technician', body: replacementSearchSchema },
 };

@@ -7,8 +7,8 @@ import { parse } from '../http/errors';
 import { actOnCampaign, campaignSummary, createCampaign, deliveryLog, listCampaigns, previewMessages, previewReminders } from './campaigns.service';
 
 const idParams = z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) });
-const pageQuery = z.object({ after: z.uuid({ message: 'After is a household id.' }).optional() });
-const logQuery = z.object({ customerId: z.uuid({ message: 'Customer id is not valid.' }).optional() });
+export const previewPageQuery = z.object({ after: z.uuid({ message: 'After is a household id.' }).optional() });
+export const deliveryLogQuery = z.object({ customerId: z.uuid({ message: 'Customer id is not valid.' }).optional() });
 
 function filterOf(q: z.infer<typeof audienceQuerySchema>) {
   const { kind, ...rest } = q;
@@ -22,7 +22,7 @@ export function campaignRoutes(deps: AppDeps): Router {
 
   router.get('/preview', async (req, res) => {
     const { kind, filter } = filterOf(parse(audienceQuerySchema, req.query));
-    const { after } = parse(pageQuery, { after: req.query['after'] });
+    const { after } = parse(previewPageQuery, { after: req.query['after'] });
     res.json(await previewReminders(deps, kind, filter, after ?? null));
   });
 
@@ -52,7 +52,7 @@ export function campaignRoutes(deps: AppDeps): Router {
 
   router.get('/campaigns/:id/deliveries', async (req, res) => {
     const { id } = parse(idParams, req.params);
-    const { customerId } = parse(logQuery, req.query);
+    const { customerId } = parse(deliveryLogQuery, req.query);
     res.json({ deliveries: await deliveryLog(deps, id, customerId) });
   });
 

@@ -21,7 +21,7 @@ const idOf = (raw: unknown, what: string): string => {
   if (!r.success) throw notFound(what);
   return r.data;
 };
-const mappingField = z.object({
+export const priceBookMappingField = z.object({
   mapping: z.string({ error: 'Send the column mapping.' }).transform((s, ctx) => {
     try {
       return JSON.parse(s) as unknown;
@@ -43,7 +43,7 @@ export function priceBookRoutes(deps: AppDeps): Router {
     if (!f) throw new AppError(422, 'validation_failed', 'Please check file.', { file: 'Choose a CSV file.' });
     return f.buffer;
   };
-  const mappingOf = (req: Request) => parse(priceBookMappingSchema, parse(mappingField, req.body ?? {}).mapping) as Record<string, string | null>;
+  const mappingOf = (req: Request) => parse(priceBookMappingSchema, parse(priceBookMappingField, req.body ?? {}).mapping) as Record<string, string | null>;
 
   r.get('/items', readers, async (req, res) => {
     res.json(await listItems(deps, parse(priceBookListQuerySchema, req.query)));
