@@ -48,18 +48,18 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
 
   await expect(page.getByRole('radiogroup', { name: 'Property' })).toBeVisible();
   await expect(page.getByText(/Plan member:/)).toBeVisible();
-  await page.getByRole('button', { name: 'Next' }).click();
+  await page.getByRole('region', { name: 'Property' }).getByRole('button', { name: 'Next' }).click();
 
   // Next with no reason chosen says what is missing.
-  await page.getByRole('button', { name: 'Next' }).click();
+  await page.getByRole('region', { name: 'Reason' }).getByRole('button', { name: 'Next' }).click();
   await expect(page.getByRole('alert').filter({ hasText: 'Choose what the visit is for' })).toBeVisible();
   await page.getByRole('radio', { name: /No cooling/ }).check();
   await expect(page.getByText('Choose what the visit is for')).toHaveCount(0);
-  await page.getByRole('button', { name: 'Next' }).click();
+  await page.getByRole('region', { name: 'Reason' }).getByRole('button', { name: 'Next' }).click();
 
   await page.getByRole('checkbox', { name: 'Fan runs but air is warm' }).check();
   await page.getByLabel('Notes for the technician').fill('House is at 84 °F; outdoor fan spins, air inside is not cold.');
-  await page.getByRole('button', { name: 'Next' }).click();
+  await page.getByRole('region', { name: 'What is happening' }).getByRole('button', { name: 'Next' }).click();
 
   const windows = page.getByRole('radiogroup', { name: 'Arrival window' });
   await expect(windows.getByRole('radio').first()).toBeVisible();
@@ -69,7 +69,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   if (/marked Priority/.test(await promise.innerText())) await expect(windows.getByRole('radio', { name: /, priority$/ }).first()).toBeVisible();
   else await expect(promise.getByRole('link', { name: /^\(\d{3}\) \d{3}-\d{4}$/ })).toHaveAttribute('href', /^tel:\+1/);
   await windows.getByRole('radio').first().check();
-  await page.getByRole('button', { name: 'Next' }).click();
+  await page.getByRole('region', { name: 'Arrival window' }).getByRole('button', { name: 'Next' }).click();
 
   const confirmed = Date.now();
   await page.getByRole('button', { name: 'Confirm visit' }).click();

@@ -65,13 +65,13 @@ test('the office sends a seasonal tune-up campaign; one homeowner books from it,
   await home.getByRole('button', { name: 'No, none of these' }).click();
   const propertyId = new URL(link).searchParams.get('property')!;
   await expect(home.getByRole('radiogroup', { name: 'Property' }).locator(`input[value="${propertyId}"]`)).toBeChecked();
-  await home.getByRole('button', { name: 'Next' }).click();
+  await home.getByRole('region', { name: 'Property' }).getByRole('button', { name: 'Next' }).click();
   await expect(home.getByRole('radio', { name: /Tune-up/ })).toBeChecked();
-  await home.getByRole('button', { name: 'Next' }).click();
-  await home.getByRole('button', { name: 'Next' }).click();
+  await home.getByRole('region', { name: 'Reason' }).getByRole('button', { name: 'Next' }).click();
+  await home.getByRole('region', { name: 'What is happening' }).getByRole('button', { name: 'Next' }).click();
   const windows = home.getByRole('radiogroup', { name: 'Arrival window' });
   await windows.getByRole('radio').first().check();
-  await home.getByRole('button', { name: 'Next' }).click();
+  await home.getByRole('region', { name: 'Arrival window' }).getByRole('button', { name: 'Next' }).click();
   await home.getByRole('button', { name: 'Confirm visit' }).click();
   await expect(home.getByRole('heading', { name: 'Visit requested' })).toBeVisible();
 

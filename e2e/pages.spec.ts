@@ -82,6 +82,8 @@ test('every homeowner page', async ({ page, browser }) => {
     `/portal/booking/visits/${upcoming!.id}`,
     ...(done ? [`/portal/visits/${done.id}`] : []),
     '/portal/home',
+    '/portal/quotes',
+    '/portal/reminders',
     '/profile',
   ]);
 });
@@ -104,6 +106,9 @@ test('every office page', async ({ page, browser }) => {
     '/office/customers/new',
     `/office/customers/${customers.items[0]!.id}`,
     '/office/imports',
+    '/office/reports',
+    '/office/quotes',
+    '/office/stock',
     '/profile',
   ]);
 });
@@ -112,10 +117,20 @@ test('every technician page', async ({ page }) => {
   await signInStaff(page, DEMO.technician);
   const today = await json<{ visits: { id: string }[] }>(page.request, '/api/field/visits/today');
   expect(today.visits.length, 'the demo technician has visits today').toBeGreaterThan(0);
-  await auditAll(page, 'technician', ['/field', `/field/visits/${today.visits[0]!.id}`, '/field/week', '/profile']);
+  await auditAll(page, 'technician', ['/field', `/field/visits/${today.visits[0]!.id}`, '/field/week', '/field/truck', '/profile']);
 });
 
 test('every owner page', async ({ page }) => {
   await signInStaff(page, DEMO.owner);
-  await auditAll(page, 'owner', ['/admin', '/admin/company', '/admin/plans', '/admin/staff', '/admin/audit', '/profile']);
+  await auditAll(page, 'owner', [
+    '/admin',
+    '/admin/company',
+    '/admin/hours',
+    '/admin/plans',
+    '/admin/staff',
+    '/admin/audit',
+    '/admin/price-book',
+    '/admin/price-book/import',
+    '/profile',
+  ]);
 });

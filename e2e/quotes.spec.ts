@@ -4,14 +4,17 @@ import { DEMO, latestMail } from './support/env';
 // The demo's no-cooling call: a member's indoor blower motor has failed, and the technician's
 // truck carries a motor that fits and the run capacitor its horsepower tap needs (server/db/seed).
 const SEED = {
-  visitLink: /No cooling, Oduya household/,
+  // Today's 13:00–15:00 no-cooling service call, Marcus Bellweather's second stop.
+  visitLink: /No cooling.*Oduya household/,
   homeowner: DEMO.homeownerB,
   homeownerName: 'Sam Oduya',
   plan: /Covered: /,
-  // The failed motor's nameplate.
-  nameplate: { Horsepower: '1/2', 'Nameplate volts': '115', RPM: '1075', Speeds: '3', 'Speeds used': '2', 'Rated amps': '7.6' },
-  motor: 'Blower motor 1/2 hp',
-  capacitor: 'Run capacitor',
+  // The failed motor's nameplate: the demo's MTR-BLW-050-115-4S is 1/2 hp, 115 V, 1 ph, 1075 RPM,
+  // 4-speed, reversible, 7.0 A; the failed one reads 7.2 A.
+  nameplate: { Horsepower: '1/2', 'Nameplate volts': '115', RPM: '1075', Speeds: '4', 'Speeds used': '2', 'Rated amps': '7.2' },
+  motor: 'Indoor blower motor 1/2 hp 115 V 1075 RPM 4-speed',
+  // CAP-10-370-R, the 10 µF run capacitor the 1/2 hp tap needs.
+  capacitor: 'Run capacitor 10 µF 370 V round',
 };
 
 async function staffSignIn(page: Page, email: string) {
@@ -56,9 +59,10 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   await nameplate.getByRole('button', { name: 'Find motors that fit' }).click();
   const fits = page.getByRole('list', { name: 'Parts that fit' });
   const first = fits.getByRole('listitem').filter({ hasText: SEED.motor }).first();
-  await expect(first.getByText(/On your truck/)).toBeVisible();
+  await expect(first.locator('.fit-head').getByText(/On your truck/)).toBeVisible();
   await expect(first.getByText(/Run capacitor for this tap: [\d.]+ µF/)).toBeVisible();
   const motorName = (await first.locator('.fit-head strong').textContent())!.trim();
+  expect(motorName).toBe(SEED.motor);
 
   // 3. Option one: the motor alone. Option two: the motor and its capacitor.
   await page.getByLabel('Option name').fill('Replace the blower motor');
@@ -72,6 +76,7 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   await page.getByRole('option', { name: 'Replace the motor and the capacitor' }).click();
   const withCap = first.getByRole('button', { name: new RegExp(`^Add ${motorName} with `) }).first();
   const capName = (await withCap.getAttribute('aria-label'))!.replace(`Add ${motorName} with `, '');
+  expect(capName).toBe(SEED.capacitor);
   await withCap.click();
   const second = page.getByRole('tabpanel', { name: 'Replace the motor and the capacitor' });
   await expect(second.getByRole('list', { name: /Lines of/ }).getByText(capName)).toBeVisible();

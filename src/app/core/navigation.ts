@@ -38,6 +38,9 @@ const ADMIN: NavLink[] = [
   { label: 'Access log', path: '/admin/audit', icon: 'shield' },
 ];
 
+/** Office pages the owner opens less often, under "More" so the owner's bar fits a laptop's width. */
+const OWNER_MORE = ['/office/reports', '/office/invite'];
+
 export function navigationFor(role: Role | null): NavLink[] {
   switch (role) {
     case 'homeowner':
@@ -49,7 +52,12 @@ export function navigationFor(role: Role | null): NavLink[] {
     case 'owner':
       // The owner's settings pages hang off the Settings landing; the rarer pages sit under
       // "More", keeping the bar to one row at a laptop's width.
-      return [...OFFICE.filter((l) => l.path !== '/office/invite'), ADMIN[0]!, { ...OFFICE.find((l) => l.path === '/office/invite')!, more: true }, { ...FIELD[0]!, more: true }];
+      return [
+        ...OFFICE.filter((l) => !OWNER_MORE.includes(l.path)),
+        ADMIN[0]!,
+        ...OFFICE.filter((l) => OWNER_MORE.includes(l.path)).map((l) => ({ ...l, more: true })),
+        { ...FIELD[0]!, more: true },
+      ];
     default:
       return [];
   }
