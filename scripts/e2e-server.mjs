@@ -34,6 +34,7 @@ const env = {
   STORAGE_DIR: join(ROOT, '.data', `e2e-uploads-${process.pid}`),
   // Journeys read the assignment e-mail within seconds.
   VISIT_NOTICE_DELAY_SECONDS: '1',
+  AUTH_LIMIT_SCALE: '20',
 };
 const children = [];
 async function stop(code) {

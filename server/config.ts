@@ -44,6 +44,8 @@ const schema = z.object({
   // How long the office may keep moving a visit before the homeowner hears of it (common practice:
   // a few minutes covers a dispatcher trying two or three technicians).
   VISIT_NOTICE_DELAY_SECONDS: z.coerce.number().int().min(0).max(3600).default(180),
+  // Multiplies every sign-in rate limit; the browser journeys sign the same people in many times.
+  AUTH_LIMIT_SCALE: z.coerce.number().int().min(1).max(100).default(1),
   RUN_JOBS: z
     .enum(['true', 'false'])
     .default('true')

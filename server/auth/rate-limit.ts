@@ -85,7 +85,7 @@ interface LimitSpec {
 export function limiter(deps: AppDeps, spec: LimitSpec): RequestHandler {
   return rateLimit({
     windowMs: spec.windowMinutes * 60_000,
-    limit: spec.limit,
+    limit: spec.limit * deps.config.AUTH_LIMIT_SCALE,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     skipSuccessfulRequests: spec.failuresOnly ?? false,

@@ -67,41 +67,46 @@ import { PriceBookApi } from './price-book-api';
         </mat-select>
       </mat-form-field>
     </div>
-    @if (list.isLoading()) {
-      <mat-progress-bar mode="indeterminate" aria-label="Loading the price book" />
-    }
+    <div class="progress">
+      @if (list.isLoading()) {
+        <mat-progress-bar mode="indeterminate" aria-label="Loading the price book" />
+      }
+    </div>
     @if (error(); as e) {
       <p role="alert">{{ e }}</p>
     }
-    <table mat-table [dataSource]="rows()" matSort (matSortChange)="sorted($event)" aria-label="Price-book items">
-      <ng-container matColumnDef="sku"
-        ><th mat-header-cell *matHeaderCellDef mat-sort-header>SKU</th>
-        <td mat-cell *matCellDef="let r">{{ r.sku }}</td></ng-container
-      >
-      <ng-container matColumnDef="name"
-        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Name</th>
-        <td mat-cell *matCellDef="let r">
-          <button mat-button type="button" (click)="editing.set(r)">{{ r.name }}</button>
-        </td></ng-container
-      >
-      <ng-container matColumnDef="category"
-        ><th mat-header-cell *matHeaderCellDef mat-sort-header>Category</th>
-        <td mat-cell *matCellDef="let r">{{ categoryOf(r) }}</td></ng-container
-      >
-      <ng-container matColumnDef="unitCents"
-        ><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Price</th>
-        <td mat-cell *matCellDef="let r" class="num">{{ usd(r.unitCents) }}</td></ng-container
-      >
-      <ng-container matColumnDef="version"
-        ><th mat-header-cell *matHeaderCellDef class="num">Version</th>
-        <td mat-cell *matCellDef="let r" class="num">{{ r.version }}</td></ng-container
-      >
-      <tr mat-header-row *matHeaderRowDef="columns"></tr>
-      <tr mat-row *matRowDef="let row; columns: columns"></tr>
-      <tr class="mat-row" *matNoDataRow>
-        <td class="mat-cell" [attr.colspan]="columns.length">No items match. Add an item, or import your price list from a CSV file.</td>
-      </tr>
-    </table>
+    <!-- A page's worth of rows is reserved before they arrive, so the paginator and the tasks below do not jump. -->
+    <div class="table-wrap">
+      <table mat-table [dataSource]="rows()" matSort (matSortChange)="sorted($event)" aria-label="Price-book items">
+        <ng-container matColumnDef="sku"
+          ><th mat-header-cell *matHeaderCellDef mat-sort-header>SKU</th>
+          <td mat-cell *matCellDef="let r">{{ r.sku }}</td></ng-container
+        >
+        <ng-container matColumnDef="name"
+          ><th mat-header-cell *matHeaderCellDef mat-sort-header>Name</th>
+          <td mat-cell *matCellDef="let r">
+            <button mat-button type="button" (click)="editing.set(r)">{{ r.name }}</button>
+          </td></ng-container
+        >
+        <ng-container matColumnDef="category"
+          ><th mat-header-cell *matHeaderCellDef mat-sort-header>Category</th>
+          <td mat-cell *matCellDef="let r">{{ categoryOf(r) }}</td></ng-container
+        >
+        <ng-container matColumnDef="unitCents"
+          ><th mat-header-cell *matHeaderCellDef mat-sort-header class="num">Price</th>
+          <td mat-cell *matCellDef="let r" class="num">{{ usd(r.unitCents) }}</td></ng-container
+        >
+        <ng-container matColumnDef="version"
+          ><th mat-header-cell *matHeaderCellDef class="num">Version</th>
+          <td mat-cell *matCellDef="let r" class="num">{{ r.version }}</td></ng-container
+        >
+        <tr mat-header-row *matHeaderRowDef="columns"></tr>
+        <tr mat-row *matRowDef="let row; columns: columns"></tr>
+        <tr class="mat-row" *matNoDataRow>
+          <td class="mat-cell" [attr.colspan]="columns.length">No items match. Add an item, or import your price list from a CSV file.</td>
+        </tr>
+      </table>
+    </div>
     <mat-paginator [length]="total()" [pageIndex]="pageIndex()" [pageSize]="25" [hidePageSize]="true" (page)="pageIndex.set($event.pageIndex)" aria-label="Price-book pages" />
     <sw-flat-rate-tasks />
   `,
@@ -112,6 +117,13 @@ import { PriceBookApi } from './price-book-api';
     }
     table {
       width: 100%;
+    }
+    .progress {
+      height: 4px;
+    }
+    .table-wrap {
+      overflow-x: auto;
+      min-height: calc(var(--mat-table-header-container-height, 56px) + 25 * var(--mat-table-row-item-container-height, 52px));
     }
     .num {
       text-align: right;
