@@ -123,7 +123,7 @@ export class OfficeHome {
         detail: `${usd(h.openQuotes.totalCents)} if each is approved at its dearest option.`,
         link: '/office/quotes',
         query: {},
-        linkText: 'Follow them up',
+        linkText: 'See open quotes',
         icon: 'wrench',
       },
       {
