@@ -161,6 +161,8 @@ test('a technician records a variable-speed tune-up at forced full capacity; the
   await page.getByRole('link', { name: /Tune-up.*Calloway household/ }).click();
   await expect(page.getByRole('heading', { name: /Tune-up · Calloway household/ })).toBeVisible();
 
+  // Choose the system outright: other journeys may have saved readings against another one of this home's systems.
+  await page.locator('form.readings').getByRole('combobox', { name: 'System' }).selectOption({ label: 'Heat pump · VS36-1' });
   await page.getByRole('radiogroup', { name: 'Operating mode' }).getByText('Cooling').click();
   // The model's maximum comes from the equipment record; the percent is worked out from it.
   await expect(page.getByLabel('Model maximum frequency')).toHaveValue('110');
