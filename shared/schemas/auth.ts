@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { pageFields } from './lists';
 import { sessionUserSchema } from './session';
 
 const email = z
@@ -93,7 +94,6 @@ export type AuditEvent = z.infer<typeof auditEventSchema>;
 export const auditPageSchema = z.object({ items: z.array(auditEventSchema), total: z.number().int(), page: z.number().int(), pageSize: z.number().int() });
 export type AuditPage = z.infer<typeof auditPageSchema>;
 export const auditQuerySchema = z.object({
-  page: z.coerce.number({ error: 'Page is a number.' }).int().min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce.number({ error: 'Page size is a number.' }).int().min(1).max(100, 'Show at most 100 a page.').default(25),
+  ...pageFields,
   action: z.string().max(40).optional(),
 });

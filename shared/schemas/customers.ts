@@ -1,6 +1,7 @@
 import type { AgreementTermView } from './plans';
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
 import { z } from 'zod';
+import { blankToUndefined, pageFields, sortFields } from './lists';
 import type { Equipment } from './equipment';
 
 // The API contract for households, properties, contacts, notes and files. The server parses every
@@ -75,7 +76,6 @@ export const FILE_CATEGORY_LABELS: Record<FileCategory, string> = {
 };
 
 /** Empty strings from forms and CSV cells count as "not given". */
-const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' && v.trim() === '') ? null : v);
 
 const text = (label: string, max: number) =>
@@ -203,15 +203,8 @@ export const mergeSchema = z.object({
 export const CUSTOMER_SORTS = ['name', 'email', 'createdAt', 'city'] as const;
 export const customerListQuerySchema = z.object({
   q: z.preprocess(blankToUndefined, z.string().trim().max(100, 'Keep the search under 100 characters.').optional()),
-  sort: z.enum(CUSTOMER_SORTS, { error: `Sort by ${CUSTOMER_SORTS.join(', ')}.` }).default('name'),
-  dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('asc'),
-  page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce
-    .number({ error: 'Page size is a number.' })
-    .int('Page size is a whole number.')
-    .min(1, 'Show at least 1 a page.')
-    .max(100, 'Show at most 100 a page.')
-    .default(25),
+  ...sortFields(CUSTOMER_SORTS, 'name'),
+  ...pageFields,
   status: z.enum(['active', 'archived', 'all'], { error: 'Status is active, archived or all.' }).default('active'),
 });
 export type CustomerListQuery = z.infer<typeof customerListQuerySchema>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { blankToUndefined } from './lists';
 import { COMPRESSOR_TYPES, EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
 import { isIsoDate } from './dates';
 
@@ -11,7 +12,6 @@ export const REFRIGERANT_CHOICES = [...REFRIGERANTS, 'none'] as const;
 export type RefrigerantChoice = (typeof REFRIGERANT_CHOICES)[number];
 
 const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' && v.trim() === '') ? null : v);
-const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 const numberish = (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? Number(v.trim().replace(/,/g, '')) : v);
 
 const text = (label: string, max: number) =>

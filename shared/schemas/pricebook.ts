@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { blankToUndefined, pageFields, sortFields } from './lists';
 import { REFRIGERANTS } from '../equipment';
 import {
   ITEM_CATEGORIES,
@@ -24,7 +25,6 @@ import { filterSizeSchema } from './equipment';
 // Money is integer cents with a stated maximum; the server parses every request with these and
 // the client uses the same ones for instant feedback.
 
-const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 const blankToNull = (v: unknown) => (v === undefined || (typeof v === 'string' && v.trim() === '') ? null : v);
 const numberish = (v: unknown) => (typeof v === 'string' && v.trim() !== '' ? Number(v.trim().replace(/,/g, '')) : v);
 
@@ -357,15 +357,8 @@ export const priceBookListQuerySchema = z.object({
   kind: z.preprocess(blankToUndefined, kindSchema.optional()),
   category: z.preprocess(blankToUndefined, categorySchema.optional()),
   status: z.enum(['active', 'inactive', 'all'], { error: 'Status is active, inactive or all.' }).default('active'),
-  sort: z.enum(ITEM_SORTS, { error: `Sort by ${ITEM_SORTS.join(', ')}.` }).default('sku'),
-  dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('asc'),
-  page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce
-    .number({ error: 'Page size is a number.' })
-    .int('Page size is a whole number.')
-    .min(1, 'Show at least 1 a page.')
-    .max(100, 'Show at most 100 a page.')
-    .default(25),
+  ...sortFields(ITEM_SORTS, 'sku'),
+  ...pageFields,
 });
 export type PriceBookListQuery = z.infer<typeof priceBookListQuerySchema>;
 
@@ -537,15 +530,8 @@ export const quoteListQuerySchema = z.object({
   status: z.preprocess(blankToUndefined, z.enum([...QUOTE_STATUSES, 'open'], { error: 'Status is draft, sent, approved, declined, expired or open.' }).optional()),
   customerId: z.preprocess(blankToUndefined, id('Choose a household.').optional()),
   visitId: z.preprocess(blankToUndefined, id('Choose a visit.').optional()),
-  sort: z.enum(QUOTE_SORTS, { error: `Sort by ${QUOTE_SORTS.join(', ')}.` }).default('createdAt'),
-  dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('desc'),
-  page: z.coerce.number({ error: 'Page is a number.' }).int('Page is a whole number.').min(0, 'Page starts at 0.').default(0),
-  pageSize: z.coerce
-    .number({ error: 'Page size is a number.' })
-    .int('Page size is a whole number.')
-    .min(1, 'Show at least 1 a page.')
-    .max(100, 'Show at most 100 a page.')
-    .default(25),
+  ...sortFields(QUOTE_SORTS, 'createdAt', 'desc'),
+  ...pageFields,
 });
 export type QuoteListQuery = z.infer<typeof quoteListQuerySchema>;
 
