@@ -80,7 +80,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   await expect(page.getByText(/You can change this visit online until \w{3} \d{1,2} \w{3}, \d{1,2}:\d{2} [AP]M\.|Changes to this visit are by phone:/)).toBeVisible();
   await expect(page.locator('.change-notice a[href^="tel:"]')).toBeVisible();
 
-  const booking = await latestMail(HOMEOWNER, { after: confirmed - 1000 });
+  const booking = await latestMail(HOMEOWNER, { after: confirmed - 1000, subject: /visit request/ });
   expect(booking.subject).toBe('We have your visit request');
   const first = await calendarPart(booking);
   expect(first.cal.getFirstPropertyValue('method')).toBe('REQUEST'); // RFC 5546 §3.2.2
@@ -103,7 +103,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   await expect(office.getByText(`Assigned to ${held}.`)).toBeVisible();
   await expect(office.getByRole('region', { name: held }).getByRole('article', { name: 'No cooling for Oduya household' })).toBeVisible();
 
-  const update = await latestMail(HOMEOWNER, { after: assigned - 1000 });
+  const update = await latestMail(HOMEOWNER, { after: assigned - 1000, subject: /scheduled/ });
   expect(update.subject).toBe('Your visit is scheduled');
   expect(update.text).toContain(held);
   const second = await calendarPart(update);

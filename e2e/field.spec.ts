@@ -79,7 +79,7 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   expect(overflow, 'no sideways scrolling on a phone').toBeLessThanOrEqual(0);
 
   // The plain-words summary reaches the homeowner.
-  const summaryMail = await latestMail(DEMO.homeownerA, { after: completedAt - 1000 });
+  const summaryMail = await latestMail(DEMO.homeownerA, { after: completedAt - 1000, subject: /visit summary/i });
   expect(summaryMail.subject).toMatch(/tune-up visit summary/i);
   expect(summaryMail.text).toContain('Coil cleaning recommended.');
   const summaryLink = summaryMail.links.find((l) => /\/portal\/visits\/[0-9a-f-]{36}$/.test(l));

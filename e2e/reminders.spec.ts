@@ -24,7 +24,7 @@ test('the office sends seasonal tune-up reminders and each household gets one e-
   await page.getByRole('button', { name: 'Send now' }).click();
 
   await expect(page.getByText(`${count} sent`).first()).toBeVisible({ timeout: 30_000 });
-  const mail = await latestMail(DEMO.homeownerA, { after: startedAt - 1000 });
+  const mail = await latestMail(DEMO.homeownerA, { after: startedAt - 1000, subject: /tune-up/ });
   expect(mail.subject).toBe('Time to book your spring cooling tune-up');
   // The button opens the booking stepper with the tune-up and the home already chosen.
   expect(mail.links.some((l) => /\/portal\/booking\?kind=tune_up&property=[0-9a-f-]{36}$/.test(l))).toBe(true);

@@ -236,9 +236,11 @@ describe('no account enumeration on link requests', () => {
       u.push(await time(`ghost-${i}-${randomUUID().slice(0, 6)}@example.test`));
     }
     const median = (xs: number[]) => [...xs].sort((x, y) => x - y)[Math.floor(xs.length / 2)];
-    const gap = Math.abs(median(k) - median(u));
+    // Each known address is timed right beside an unknown one, so a busy machine slows both of a
+    // pair alike; the median of the pairs' differences is what the address itself costs.
+    const gap = Math.abs(median(k.map((ms, i) => ms - u[i])));
     // A gap of a database insert (a few ms) is tolerated; a mail round trip or a hash would not be.
-    expect(gap).toBeLessThan(Math.max(15, 0.5 * Math.min(median(k), median(u))));
+    expect(gap).toBeLessThan(Math.max(20, 0.5 * Math.min(median(k), median(u))));
   });
 });
 

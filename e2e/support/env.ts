@@ -13,8 +13,11 @@ export const DEMO = {
   homeownerB: 'sam.oduya@example.test',
 };
 
-/** The latest message the mailbox caught for an address, waiting for it to arrive. */
-export async function latestMail(to: string, { after = 0, timeoutMs = 15_000 } = {}) {
+/**
+ * The newest message to an address received after `after`; with `subject`, the newest one whose
+ * subject matches, so that a notice queued just before (an "on the way" mail) is not mistaken for it.
+ */
+export async function latestMail(to: string, { after = 0, timeoutMs = 15_000, subject }: { after?: number; timeoutMs?: number; subject?: RegExp } = {}) {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
     const res = await fetch(`${MAILBOX_URL}/api/messages/latest?to=${encodeURIComponent(to)}`);
@@ -28,9 +31,9 @@ export async function latestMail(to: string, { after = 0, timeoutMs = 15_000 } =
         links: string[];
         attachments: { filename: string; contentType: string; index: number }[];
       };
-      if (new Date(msg.receivedAt).getTime() > after) return msg;
+      if (new Date(msg.receivedAt).getTime() > after && (!subject || subject.test(msg.subject))) return msg;
     }
     await new Promise((r) => setTimeout(r, 250));
   }
-  throw new Error(`no mail for ${to} within ${timeoutMs} ms`);
+  throw new Error(`no mail for ${to}${subject ? ` with a subject like ${subject}` : ''} within ${timeoutMs} ms`);
 }

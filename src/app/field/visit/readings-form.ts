@@ -202,7 +202,11 @@ export class ReadingsForm {
     return `readings.${equipmentId}`;
   }
 
+  /** The system whose readings the form holds. */
+  private loadedId: string | null = null;
+
   private load(equipmentId: string): void {
+    this.loadedId = equipmentId;
     const system = this.equipment().find((e) => e.id === equipmentId);
     const draft = this.drafts.read<Draft>(this.visitId(), this.draftPart(equipmentId));
     const saved = this.saved().find((s) => s.equipmentId === equipmentId);
@@ -247,7 +251,9 @@ export class ReadingsForm {
 
   private keepDraft(): void {
     const v = this.form.getRawValue();
-    if (!v.equipmentId) return;
+    // Choosing another system changes the control before load() fills the form: what is in the form
+    // then still belongs to the system before, and must not become the new one's draft.
+    if (!v.equipmentId || v.equipmentId !== this.loadedId) return;
     const draft: Draft = {
       mode: v.mode,
       refrigerant: v.refrigerant,
