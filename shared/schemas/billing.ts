@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { formatUsd, lineTotalCents, MAX_INVOICE_CENTS, MAX_INVOICE_LINES, MAX_LINE_CENTS } from '../money';
 
 export const INVOICE_STATUSES = ['draft', 'open', 'paid', 'void', 'refunded', 'partially_refunded'] as const;

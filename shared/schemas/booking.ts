@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { isoDate, isoInstant } from './dates';
 import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, VISIT_TRANSITIONS, type VisitKind, type VisitReason } from '../visits';
 

@@ -1,6 +1,6 @@
 import type { AgreementTermView } from './plans';
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Equipment } from './equipment';
 
 // The API contract for households, properties, contacts, notes and files. The server parses every

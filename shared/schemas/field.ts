@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Coverage } from '../coverage';
 import type { CompressorType } from '../equipment';
 import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hvac';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AgreementStatus } from '../agreements';
 import { isoDate } from './dates';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { isoDate } from './dates';
 
 // The owner's and office's reports: one chart each, one SQL statement each. The definitions are
