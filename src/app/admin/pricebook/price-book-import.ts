@@ -7,7 +7,8 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom, type Observable } from 'rxjs';
-import { PRICE_BOOK_IMPORT_FIELDS, type ImportMapping, type ImportPreview, type PriceBookImportCheck } from '../../../../shared/schemas/pricebook';
+import { PRICE_BOOK_IMPORT_FIELDS } from '../../../../shared/pricebook';
+import type { ImportMapping, ImportPreview, PriceBookImportCheck } from '../../../../shared/schemas/pricebook';
 import { toApiError } from '../../core/api-errors';
 import { PriceBookApi } from './price-book-api';
 

@@ -115,8 +115,23 @@ import { PriceBookApi } from './price-book-api';
       display: block;
       padding: 16px;
     }
+    // Fixed columns: the header keeps its place when the rows arrive.
     table {
       width: 100%;
+      min-width: 720px;
+      table-layout: fixed;
+    }
+    .mat-column-sku {
+      width: 20%;
+    }
+    .mat-column-category {
+      width: 20%;
+    }
+    .mat-column-unitCents {
+      width: 12%;
+    }
+    .mat-column-version {
+      width: 9%;
     }
     .progress {
       height: 4px;

@@ -8,7 +8,8 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
-import { IMPORT_FIELDS, type ImportCheck, type ImportCounts, type ImportMapping, type ImportPreview } from '../../../../shared/schemas/customers';
+import { IMPORT_FIELDS } from '../../../../shared/customer-fields';
+import type { ImportCheck, ImportCounts, ImportMapping, ImportPreview } from '../../../../shared/schemas/customers';
 import { toApiError } from '../../core/api-errors';
 
 type Step = 'pick' | 'map' | 'done';

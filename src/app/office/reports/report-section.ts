@@ -1,7 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { REPORT_DEFINITIONS, type Report, type ReportName, type ReportQuery } from '../../../../shared/schemas/reports';
+import { REPORT_DEFINITIONS } from '../../../../shared/report-definitions';
+import type { Report, ReportName, ReportQuery } from '../../../../shared/schemas/reports';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { Chart } from '../../ui/chart';
 import { CHARTS, tableOf } from './report-charts';
