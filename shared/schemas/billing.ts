@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { formatUsd, lineTotalCents, MAX_INVOICE_CENTS, MAX_INVOICE_LINES, MAX_LINE_CENTS } from '../money';
-import { INVOICE_STATUSES, type InvoiceStatus, INVOICE_STATUS_LABELS } from '../invoice-status';
+import { INVOICE_STATUSES, type InvoiceStatus } from '../invoice-status';
 export { INVOICE_STATUSES, type InvoiceStatus, INVOICE_STATUS_LABELS } from '../invoice-status';
 
 export const INVOICE_PURPOSES = ['enrollment', 'renewal', 'tier_change', 'service'] as const;

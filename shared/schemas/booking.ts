@@ -1,7 +1,6 @@
 import * as z from 'zod';
 import { isoDate, isoInstant } from './dates';
 import { VISIT_KINDS, VISIT_REASONS, VISIT_STATUSES, VISIT_TRANSITIONS, type VisitKind, type VisitReason } from '../visits';
-import { EMERGENCY_SIGNS, type EmergencySign, EMERGENCY_SIGN_LABELS, SYMPTOMS, URGENT_REASONS } from '../visit-reasons';
 export { EMERGENCY_SIGNS, type EmergencySign, EMERGENCY_SIGN_LABELS, SYMPTOMS, URGENT_REASONS } from '../visit-reasons';
 
 // The booking and dispatch API contract: requests parsed on the server, types used by the client.

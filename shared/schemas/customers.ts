@@ -2,7 +2,9 @@ import type { AgreementTermView } from './plans';
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
 import * as z from 'zod';
 import type { Equipment } from './equipment';
-import { US_STATES, type UsState, IMPORT_FIELDS } from '../customer-fields';
+import { US_STATES, IMPORT_FIELDS } from '../customer-fields';
+import { emailSchema } from './email';
+export { emailSchema } from './email';
 export { US_STATES, type UsState, IMPORT_FIELDS } from '../customer-fields';
 
 // The API contract for households, properties, contacts, notes and files. The server parses every
@@ -31,13 +33,6 @@ const text = (label: string, max: number) =>
     .max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
 
 export const nameSchema = z.string({ error: 'Enter a name.' }).trim().min(1, 'Enter a name.').max(120, 'Keep the name under 120 characters.');
-
-export const emailSchema = z
-  .string({ error: 'Enter an e-mail address.' })
-  .trim()
-  .toLowerCase()
-  .max(254, 'That e-mail address is too long.')
-  .pipe(z.email({ error: 'Enter a valid e-mail address, like name@example.com.' }));
 
 /** Parses a US (or +country) phone number and returns it in E.164, e.g. +18165550142. */
 export function toE164(input: string): string | null {

@@ -5,7 +5,7 @@ import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hva
 import { visitReadingsSchema } from '../hvac/readings';
 import type { VisitKind, VisitReason, VisitStatus } from '../visits';
 import type { StoredFile } from './customers';
-import { CHECKLIST_RESULTS, type ChecklistResult, CHECKLIST_RESULT_LABELS, CHECK_LABELS } from '../checklist';
+import { CHECKLIST_RESULTS, type ChecklistResult } from '../checklist';
 export { CHECKLIST_RESULTS, type ChecklistResult, CHECKLIST_RESULT_LABELS, CHECK_LABELS } from '../checklist';
 
 export const READING_STATUSES = ['ok', 'watch', 'alert'] as const;

@@ -1,7 +1,7 @@
 import * as z from 'zod';
 import type { AgreementStatus } from '../agreements';
 import { isoDate } from './dates';
-import { RENEWAL_VIEWS, type RenewalView, RENEWAL_VIEW_LABELS } from '../renewal-views';
+import { RENEWAL_VIEWS, type RenewalView } from '../renewal-views';
 export { RENEWAL_VIEWS, type RenewalView, RENEWAL_VIEW_LABELS } from '../renewal-views';
 
 const cents = (what: string) =>

@@ -17,20 +17,10 @@ import {
   type ItemCategory,
   type ItemKind,
 } from '../pricebook';
-import { emailSchema, type ImportMapping, type ImportPreview, type ImportProblem } from './customers';
+import type { ImportMapping, ImportPreview, ImportProblem } from './customers';
+import { emailSchema } from './email';
 import { filterSizeSchema } from './equipment';
-import {
-  MOTOR_APPLICATIONS,
-  type MotorApplication,
-  MOTOR_APPLICATION_LABELS,
-  QUOTE_STATUSES,
-  type QuoteStatus,
-  QUOTE_STATUS_LABELS,
-  EDITABLE_QUOTE_STATUSES,
-  PRICE_BOOK_IMPORT_FIELDS,
-  type PriceBookFieldKey,
-  PRICE_BOOK_FIELD_KEYS,
-} from '../pricebook';
+import { MOTOR_APPLICATIONS, QUOTE_STATUSES, type QuoteStatus, PRICE_BOOK_IMPORT_FIELDS, type PriceBookFieldKey, PRICE_BOOK_FIELD_KEYS } from '../pricebook';
 export {
   MOTOR_APPLICATIONS,
   type MotorApplication,

@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { isoDate } from './dates';
-import { REPORTS, type ReportName, REPORT_DEFINITIONS } from '../report-definitions';
+import { REPORTS, type ReportName } from '../report-definitions';
 export { REPORTS, type ReportName, REPORT_DEFINITIONS } from '../report-definitions';
 
 // The owner's and office's reports: one chart each, one SQL statement each. The definitions are
