@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 // Values that live in this repository, for running locally with no set-up. Production must set
 // its own: a secret anyone can read here protects nothing.

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Role } from '../shared/roles';
 import {
   auditQuerySchema,

@@ -1,6 +1,6 @@
 // Which months are cooling season and which are heating season. One table for the whole product:
 // coverage counts tune-ups by it, reminders aim at it, and the checklist picks its items by it.
-import { z } from 'zod';
+import * as z from 'zod';
 
 export type Season = 'cooling' | 'heating';
 export const SEASONS: readonly Season[] = ['cooling', 'heating'];

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { autoRenewSchema, cancelAgreementSchema, changeTierSchema, enrollSchema, manualRenewalSchema, renewSchema } from '../../shared/schemas/plans';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole, requireUser } from '../auth/access';

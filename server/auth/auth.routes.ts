@@ -1,5 +1,5 @@
 import { Router, type Request } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AppDeps } from '../deps';
 import { AppError, notFound, parse } from '../http/errors';
 import {

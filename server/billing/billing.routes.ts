@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../../shared/schemas/billing';
 import type { AppDeps } from '../deps';
 import { assertCustomerAccess, currentUser, requireRole, requireUser } from '../auth/access';

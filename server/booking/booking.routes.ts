@@ -1,5 +1,5 @@
 import { Router, type Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { bookVisitSchema, cancelSchema, rescheduleSchema, windowsQuerySchema, type WindowFullBody } from '../../shared/schemas/booking';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { completeVisitSchema, saveChecklistSchema, saveReadingsSchema, troubleshootingSchema, visitNotesSchema } from '../../shared/schemas/field';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';

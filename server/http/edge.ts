@@ -1,5 +1,5 @@
 import type { Request, RequestHandler, Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Config } from '../config';
 import { AppError, notFound } from './errors';
 

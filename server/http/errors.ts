@@ -1,5 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { MoneyError } from '../../shared/money';
 
 /** An error with an HTTP status and a stable code; the message is safe to show to the user. */

@@ -1,6 +1,6 @@
 import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import Papa from 'papaparse';
-import { z } from 'zod';
+import * as z from 'zod';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS, type EquipmentKind } from '../../shared/equipment';
 import {
   emailSchema,

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { createPlanSchema, planActiveSchema, planTermsSchema } from '../../shared/schemas/plans';
 import type { AppDeps } from '../deps';
 import { currentUser, isStaffOffice, requireRole, requireUser } from '../auth/access';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AppDeps } from '../deps';
 import { currentUser, requireUser } from '../auth/access';
 import { notFound } from '../http/errors';

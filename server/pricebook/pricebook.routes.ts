@@ -1,5 +1,5 @@
 import { Router, type Request } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import {
   flatRateTaskInputSchema,
   flatRateTaskUpdateSchema,

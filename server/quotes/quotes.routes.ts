@@ -1,6 +1,6 @@
 // Routes of quotes, the portal's quotes and work invoices: the full table is server/quotes/ROUTES.md.
 import { Router, type Request } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import {
   directInvoiceSchema,
   quoteApproveSchema,

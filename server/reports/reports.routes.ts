@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { reportNameSchema, reportQuerySchema } from '../../shared/schemas/reports';
 import type { AppDeps } from '../deps';
 import { requireRole } from '../auth/access';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { replacementSearchSchema, restockSchema, stockListQuerySchema, stockLocationInputSchema, stockRowInputSchema, transferSchema } from '../../shared/schemas/pricebook';
 import { partsUsedSchema, stockMovementQuerySchema } from '../../shared/schemas/quotes';
 import type { AppDeps } from '../deps';

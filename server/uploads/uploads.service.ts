@@ -1,7 +1,7 @@
 import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { fileTypeFromBuffer } from 'file-type';
 import sharp from 'sharp';
-import { z } from 'zod';
+import * as z from 'zod';
 import { FILE_CATEGORIES, type StoredFile } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
 import { assertCustomerAccess } from '../auth/access';

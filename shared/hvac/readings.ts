@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { COMPRESSOR_TYPES } from '../equipment';
 import { AIRFLOW_BASES } from './airflow';
 import { REFRIGERANTS, PERFECT_VACUUM_PSIG } from './refrigerants';

@@ -1,5 +1,5 @@
 import { DateTime, IANAZone } from 'luxon';
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Luxon weekday order: 1 = Monday … 7 = Sunday. */
 export const WEEKDAYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;

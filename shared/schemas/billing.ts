@@ -1,16 +1,7 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { formatUsd, lineTotalCents, MAX_INVOICE_CENTS, MAX_INVOICE_LINES, MAX_LINE_CENTS } from '../money';
-
-export const INVOICE_STATUSES = ['draft', 'open', 'paid', 'void', 'refunded', 'partially_refunded'] as const;
-export type InvoiceStatus = (typeof INVOICE_STATUSES)[number];
-export const INVOICE_STATUS_LABELS: Record<InvoiceStatus, string> = {
-  draft: 'Draft',
-  open: 'Open',
-  paid: 'Paid',
-  void: 'Void',
-  refunded: 'Refunded',
-  partially_refunded: 'Partly refunded',
-};
+import { INVOICE_STATUSES, type InvoiceStatus } from '../invoice-status';
+export { INVOICE_STATUSES, type InvoiceStatus, INVOICE_STATUS_LABELS } from '../invoice-status';
 
 export const INVOICE_PURPOSES = ['enrollment', 'renewal', 'tier_change', 'service'] as const;
 export type InvoicePurpose = (typeof INVOICE_PURPOSES)[number];

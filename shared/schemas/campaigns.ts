@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { EQUIPMENT_KINDS } from '../equipment';
 import { HOUSEHOLD_FACTORS } from '../reminders';
 import { REMINDER_KINDS } from '../seasonal-reminders';

@@ -1,67 +1,15 @@
 import type { AgreementTermView } from './plans';
 import { parsePhoneNumberFromString } from 'libphonenumber-js';
-import { z } from 'zod';
+import * as z from 'zod';
 import { blankToUndefined, pageFields, sortFields } from './lists';
 import type { Equipment } from './equipment';
+import { US_STATES, IMPORT_FIELDS } from '../customer-fields';
+import { emailSchema } from './email';
+export { emailSchema } from './email';
+export { US_STATES, type UsState, IMPORT_FIELDS } from '../customer-fields';
 
 // The API contract for households, properties, contacts, notes and files. The server parses every
 // request with these schemas; the client uses the same ones for instant feedback.
-
-export const US_STATES = [
-  'AL',
-  'AK',
-  'AZ',
-  'AR',
-  'CA',
-  'CO',
-  'CT',
-  'DE',
-  'DC',
-  'FL',
-  'GA',
-  'HI',
-  'ID',
-  'IL',
-  'IN',
-  'IA',
-  'KS',
-  'KY',
-  'LA',
-  'ME',
-  'MD',
-  'MA',
-  'MI',
-  'MN',
-  'MS',
-  'MO',
-  'MT',
-  'NE',
-  'NV',
-  'NH',
-  'NJ',
-  'NM',
-  'NY',
-  'NC',
-  'ND',
-  'OH',
-  'OK',
-  'OR',
-  'PA',
-  'RI',
-  'SC',
-  'SD',
-  'TN',
-  'TX',
-  'UT',
-  'VT',
-  'VA',
-  'WA',
-  'WV',
-  'WI',
-  'WY',
-  'PR',
-] as const;
-export type UsState = (typeof US_STATES)[number];
 
 export const NOTE_AUDIENCES = ['office', 'technician'] as const;
 export type NoteAudience = (typeof NOTE_AUDIENCES)[number];
@@ -85,13 +33,6 @@ const text = (label: string, max: number) =>
     .max(max, `Keep ${label.toLowerCase()} under ${max} characters.`);
 
 export const nameSchema = z.string({ error: 'Enter a name.' }).trim().min(1, 'Enter a name.').max(120, 'Keep the name under 120 characters.');
-
-export const emailSchema = z
-  .string({ error: 'Enter an e-mail address.' })
-  .trim()
-  .toLowerCase()
-  .max(254, 'That e-mail address is too long.')
-  .pipe(z.email({ error: 'Enter a valid e-mail address, like name@example.com.' }));
 
 /** Parses a US (or +country) phone number and returns it in E.164, e.g. +18165550142. */
 export function toE164(input: string): string | null {
@@ -394,33 +335,6 @@ export interface MyHome {
 
 // ---- CSV import and export: one row per piece of equipment, with its household and property ----
 
-export const IMPORT_FIELDS = [
-  { key: 'customer_name', label: 'Household name', part: 'customer', required: true, aliases: ['name', 'household', 'customer', 'full name'] },
-  { key: 'customer_email', label: 'E-mail', part: 'customer', required: false, aliases: ['email', 'e-mail', 'email address'] },
-  { key: 'customer_phone', label: 'Phone', part: 'customer', required: false, aliases: ['phone', 'phone number', 'telephone', 'mobile'] },
-  { key: 'property_label', label: 'Property label', part: 'property', required: false, aliases: ['label', 'property'] },
-  { key: 'street', label: 'Street', part: 'property', required: true, aliases: ['address', 'street address', 'address 1', 'address1'] },
-  { key: 'unit', label: 'Unit', part: 'property', required: false, aliases: ['apt', 'suite', 'address 2', 'address2'] },
-  { key: 'city', label: 'City', part: 'property', required: true, aliases: ['town'] },
-  { key: 'state', label: 'State', part: 'property', required: true, aliases: ['st', 'province'] },
-  { key: 'zip', label: 'ZIP', part: 'property', required: true, aliases: ['zip code', 'zipcode', 'postal code'] },
-  { key: 'equipment_kind', label: 'Equipment kind', part: 'equipment', required: false, aliases: ['kind', 'equipment', 'type', 'equipment type'] },
-  { key: 'make', label: 'Make', part: 'equipment', required: false, aliases: ['brand', 'manufacturer'] },
-  { key: 'model', label: 'Model', part: 'equipment', required: false, aliases: ['model number'] },
-  { key: 'serial', label: 'Serial', part: 'equipment', required: false, aliases: ['serial number', 'serial no'] },
-  { key: 'installed_on', label: 'Install date', part: 'equipment', required: false, aliases: ['installed', 'install date', 'installation date'] },
-  { key: 'refrigerant', label: 'Refrigerant', part: 'equipment', required: false, aliases: [] },
-  { key: 'capacity_btuh', label: 'Capacity (Btu/h)', part: 'equipment', required: false, aliases: ['btuh', 'btu/h', 'capacity'] },
-  { key: 'capacity_tons', label: 'Capacity (tons)', part: 'equipment', required: false, aliases: ['tons', 'tonnage'] },
-  { key: 'volts', label: 'Volts', part: 'equipment', required: false, aliases: ['voltage'] },
-  { key: 'phase', label: 'Phase', part: 'equipment', required: false, aliases: [] },
-  { key: 'rated_amps', label: 'Rated amps', part: 'equipment', required: false, aliases: ['amps', 'rla', 'fla'] },
-  { key: 'filter_size', label: 'Filter size', part: 'equipment', required: false, aliases: ['filter'] },
-  { key: 'filter_type', label: 'Filter type', part: 'equipment', required: false, aliases: [] },
-  { key: 'merv', label: 'MERV', part: 'equipment', required: false, aliases: [] },
-  { key: 'warranty_ends_on', label: 'Warranty end', part: 'equipment', required: false, aliases: ['warranty', 'warranty end', 'warranty expires'] },
-  { key: 'location', label: 'Location', part: 'equipment', required: false, aliases: [] },
-] as const;
 export type ImportFieldKey = (typeof IMPORT_FIELDS)[number]['key'];
 export const IMPORT_FIELD_KEYS = IMPORT_FIELDS.map((f) => f.key) as ImportFieldKey[];
 

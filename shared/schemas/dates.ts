@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 // One strict date and one strict instant for every request schema. A date is a real calendar day
 // written YYYY-MM-DD (ISO 8601 calendar date); an instant is an ISO 8601 date-time with offset.

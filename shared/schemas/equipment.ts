@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { blankToUndefined } from './lists';
 import { COMPRESSOR_TYPES, EQUIPMENT_KINDS, REFRIGERANTS } from '../equipment';
 import { isIsoDate } from './dates';

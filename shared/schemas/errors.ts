@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** The one error shape every API route answers with. */
 export const apiErrorSchema = z.object({

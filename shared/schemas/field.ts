@@ -1,21 +1,15 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Coverage } from '../coverage';
 import type { CompressorType } from '../equipment';
 import type { Caution, ChecklistItem, ReadingCheck, VisitReadings } from '../hvac';
 import { visitReadingsSchema } from '../hvac/readings';
 import type { VisitKind, VisitReason, VisitStatus } from '../visits';
 import type { StoredFile } from './customers';
+import { CHECKLIST_RESULTS, type ChecklistResult } from '../checklist';
+export { CHECKLIST_RESULTS, type ChecklistResult, CHECKLIST_RESULT_LABELS, CHECK_LABELS } from '../checklist';
 
 export const READING_STATUSES = ['ok', 'watch', 'alert'] as const;
 export type ReadingStatus = (typeof READING_STATUSES)[number];
-
-export const CHECKLIST_RESULTS = ['done', 'needs_attention', 'not_applicable'] as const;
-export type ChecklistResult = (typeof CHECKLIST_RESULTS)[number];
-export const CHECKLIST_RESULT_LABELS: Record<ChecklistResult, string> = {
-  done: 'Done',
-  needs_attention: 'Needs attention',
-  not_applicable: 'Not applicable',
-};
 
 const longText = (label: string, max = 4000) =>
   z
@@ -223,26 +217,6 @@ export interface VisitSummary {
   photos: StoredFile[];
   cautions: Caution[];
 }
-
-/** Short names for each reading check, for charts and lists. */
-export const CHECK_LABELS: Readonly<Record<string, string | undefined>> = {
-  temperature_split: 'Temperature split',
-  temperature_rise: 'Temperature rise',
-  superheat: 'Superheat',
-  subcooling: 'Subcooling',
-  capacitor_compressor: 'Compressor capacitor',
-  capacitor_outdoor_fan: 'Outdoor fan capacitor',
-  capacitor_blower: 'Blower capacitor',
-  amps_compressor: 'Compressor amps',
-  amps_outdoor_fan: 'Outdoor fan amps',
-  amps_blower: 'Blower amps',
-  control_voltage: 'Control voltage',
-  sensible_capacity: 'Sensible capacity',
-  airflow_per_ton: 'Airflow per ton',
-  external_static_pressure: 'Total external static pressure',
-  co_flue_air_free: 'Flue CO (air-free)',
-  co_ambient: 'Living-space CO',
-};
 
 /** The worst status among checks: alert over watch over ok; null when nothing was checked. */
 export function worstStatus(checks: readonly { status: ReadingStatus }[]): ReadingStatus | null {

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 // The pieces every paged, sorted list query shares, so each list states its messages once.
 

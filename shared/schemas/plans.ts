@@ -1,6 +1,8 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AgreementStatus } from '../agreements';
 import { isoDate } from './dates';
+import { RENEWAL_VIEWS, type RenewalView } from '../renewal-views';
+export { RENEWAL_VIEWS, type RenewalView, RENEWAL_VIEW_LABELS } from '../renewal-views';
 
 const cents = (what: string) =>
   z
@@ -112,16 +114,6 @@ export interface AgreementView {
   openInvoiceId: string | null;
 }
 
-export const RENEWAL_VIEWS = ['due30', 'due60', 'due90', 'past_due', 'lapsed', 'renewed'] as const;
-export type RenewalView = (typeof RENEWAL_VIEWS)[number];
-export const RENEWAL_VIEW_LABELS: Record<RenewalView, string> = {
-  due30: 'Due in 30 days',
-  due60: 'Due in 60 days',
-  due90: 'Due in 90 days',
-  past_due: 'Past due',
-  lapsed: 'Lapsed',
-  renewed: 'Recently renewed',
-};
 export const renewalQuerySchema = z.object({ view: z.enum(RENEWAL_VIEWS).default('due30') });
 export const sendNoticesSchema = z.object({
   agreementIds: z.array(z.uuid('Each agreement id must be a UUID.')).min(1, 'Choose at least one agreement.').max(500, 'At most 500 at once.'),

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { blankToUndefined, pageFields, sortFields } from './lists';
 import { REFRIGERANTS } from '../equipment';
 import {
@@ -18,8 +18,22 @@ import {
   type ItemCategory,
   type ItemKind,
 } from '../pricebook';
-import { emailSchema, type ImportMapping, type ImportPreview, type ImportProblem } from './customers';
+import type { ImportMapping, ImportPreview, ImportProblem } from './customers';
+import { emailSchema } from './email';
 import { filterSizeSchema } from './equipment';
+import { MOTOR_APPLICATIONS, QUOTE_STATUSES, type QuoteStatus, PRICE_BOOK_IMPORT_FIELDS, type PriceBookFieldKey, PRICE_BOOK_FIELD_KEYS } from '../pricebook';
+export {
+  MOTOR_APPLICATIONS,
+  type MotorApplication,
+  MOTOR_APPLICATION_LABELS,
+  QUOTE_STATUSES,
+  type QuoteStatus,
+  QUOTE_STATUS_LABELS,
+  EDITABLE_QUOTE_STATUSES,
+  PRICE_BOOK_IMPORT_FIELDS,
+  type PriceBookFieldKey,
+  PRICE_BOOK_FIELD_KEYS,
+} from '../pricebook';
 
 // The API contract for the price book, quotes, truck stock and invoicing work without a quote.
 // Money is integer cents with a stated maximum; the server parses every request with these and
@@ -128,15 +142,6 @@ export type Rotation = (typeof ROTATIONS)[number];
 export const ROTATION_VIEWS = ['shaft_end', 'lead_end'] as const;
 export type RotationView = (typeof ROTATION_VIEWS)[number];
 export const ROTATION_LABELS: Record<Rotation, string> = { reversible: 'Reversible', cw: 'Clockwise (CW)', ccw: 'Counter-clockwise (CCW)' };
-
-export const MOTOR_APPLICATIONS = ['indoor_blower', 'condenser_fan', 'draft_inducer', 'other'] as const;
-export type MotorApplication = (typeof MOTOR_APPLICATIONS)[number];
-export const MOTOR_APPLICATION_LABELS: Record<MotorApplication, string> = {
-  indoor_blower: 'indoor blower',
-  condenser_fan: 'condenser fan',
-  draft_inducer: 'draft inducer',
-  other: 'other use',
-};
 
 const lowerWord = (v: unknown) =>
   typeof v === 'string'
@@ -426,12 +431,6 @@ export interface FlatRateTask {
 }
 
 // ---- Quotes ----
-
-export const QUOTE_STATUSES = ['draft', 'sent', 'approved', 'declined', 'expired'] as const;
-export type QuoteStatus = (typeof QUOTE_STATUSES)[number];
-export const QUOTE_STATUS_LABELS: Record<QuoteStatus, string> = { draft: 'Draft', sent: 'Sent', approved: 'Approved', declined: 'Declined', expired: 'Expired' };
-/** Only these may still change; an approved quote is frozen and a change makes a new revision. */
-export const EDITABLE_QUOTE_STATUSES: readonly QuoteStatus[] = ['draft', 'sent'];
 
 const equipmentIdField = z.preprocess(blankToNull, id('Choose the system this line is for.').nullable()).default(null);
 
@@ -802,43 +801,6 @@ export type DirectInvoice = z.infer<typeof directInvoiceSchema>;
 
 // ---- CSV import and export: one row per item, with the spec's values in their own columns ----
 
-export const PRICE_BOOK_IMPORT_FIELDS = [
-  { key: 'sku', label: 'SKU', part: 'item', required: true, aliases: ['item number', 'part number', 'code'] },
-  { key: 'name', label: 'Name', part: 'item', required: true, aliases: ['item', 'description', 'item name'] },
-  { key: 'kind', label: 'Kind', part: 'item', required: true, aliases: ['type', 'item type'] },
-  { key: 'category', label: 'Category', part: 'item', required: true, aliases: ['group'] },
-  { key: 'unit', label: 'Unit', part: 'item', required: false, aliases: ['uom', 'unit of measure'] },
-  { key: 'unit_price', label: 'Unit price', part: 'item', required: true, aliases: ['price', 'sell price', 'rate'] },
-  { key: 'cost', label: 'Cost', part: 'item', required: false, aliases: ['unit cost', 'our cost'] },
-  { key: 'taxable', label: 'Taxable', part: 'item', required: false, aliases: ['tax', 'taxed'] },
-  { key: 'warranty_months', label: 'Parts warranty (months)', part: 'item', required: false, aliases: ['warranty', 'parts warranty'] },
-  { key: 'active', label: 'Active', part: 'item', required: false, aliases: ['offered', 'enabled'] },
-  { key: 'application', label: 'Motor use', part: 'spec', required: false, aliases: ['use', 'motor use'] },
-  { key: 'hp', label: 'Horsepower', part: 'spec', required: false, aliases: ['horsepower'] },
-  { key: 'volts', label: 'Volts', part: 'spec', required: false, aliases: ['voltage', 'v'] },
-  { key: 'phase', label: 'Phase', part: 'spec', required: false, aliases: ['ph'] },
-  { key: 'rpm', label: 'RPM', part: 'spec', required: false, aliases: ['speed'] },
-  { key: 'speeds', label: 'Speeds', part: 'spec', required: false, aliases: ['number of speeds'] },
-  { key: 'rotation', label: 'Rotation', part: 'spec', required: false, aliases: ['rot'] },
-  { key: 'rotation_viewed_from', label: 'Rotation seen from', part: 'spec', required: false, aliases: ['rotation view', 'viewed from'] },
-  { key: 'shaft_diameter', label: 'Shaft diameter (in)', part: 'spec', required: false, aliases: ['shaft dia', 'shaft diameter'] },
-  { key: 'shaft_length', label: 'Shaft length (in)', part: 'spec', required: false, aliases: ['shaft length'] },
-  { key: 'frame', label: 'Frame', part: 'spec', required: false, aliases: ['frame size'] },
-  { key: 'fla', label: 'Rated amps (FLA)', part: 'spec', required: false, aliases: ['amps', 'rated amps'] },
-  { key: 'capacitor_taps', label: 'Capacitor µF by hp', part: 'spec', required: false, aliases: ['uf by hp', 'capacitor by hp', 'taps'] },
-  { key: 'capacitor_volts', label: 'Capacitor volts', part: 'spec', required: false, aliases: ['cap volts'] },
-  { key: 'microfarads', label: 'µF', part: 'spec', required: false, aliases: ['uf', 'mfd', 'microfarads'] },
-  { key: 'shape', label: 'Shape', part: 'spec', required: false, aliases: ['can shape'] },
-  { key: 'tolerance', label: 'Tolerance (%)', part: 'spec', required: false, aliases: ['tolerance'] },
-  { key: 'poles', label: 'Poles', part: 'spec', required: false, aliases: [] },
-  { key: 'coil_volts', label: 'Coil volts', part: 'spec', required: false, aliases: ['coil voltage'] },
-  { key: 'filter_size', label: 'Filter size', part: 'spec', required: false, aliases: ['size'] },
-  { key: 'merv', label: 'MERV', part: 'spec', required: false, aliases: [] },
-  { key: 'refrigerant', label: 'Refrigerant', part: 'spec', required: false, aliases: [] },
-  { key: 'spec_notes', label: 'Spec notes', part: 'spec', required: false, aliases: ['notes'] },
-] as const;
-export type PriceBookFieldKey = (typeof PRICE_BOOK_IMPORT_FIELDS)[number]['key'];
-export const PRICE_BOOK_FIELD_KEYS = PRICE_BOOK_IMPORT_FIELDS.map((f) => f.key) as PriceBookFieldKey[];
 /** Export writes these headings, in this order, so an export imports back unchanged. */
 export const PRICE_BOOK_EXPORT_COLUMNS = PRICE_BOOK_FIELD_KEYS;
 

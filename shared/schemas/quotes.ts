@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { ItemCategory } from '../pricebook';
 import type { QuoteOptionView, QuoteSummary } from './pricebook';
 

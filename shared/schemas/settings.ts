@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { seasonSettingsSchema } from '../seasons';
 
 const clock = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a time like 07:30.');

@@ -5,7 +5,6 @@ import { routes } from './app.routes';
 import { apiErrors } from './core/api-errors';
 import { AppErrorHandler } from './core/app-error-handler';
 import { countWrites } from './core/write-activity';
-import { provideIcons } from './ui/icons';
 
 export const appConfig: ApplicationConfig = {
   providers: [
@@ -14,6 +13,5 @@ export const appConfig: ApplicationConfig = {
     provideRouter(routes, withComponentInputBinding()),
     provideHttpClient(withXsrfConfiguration({ cookieName: 'XSRF-TOKEN', headerName: 'X-XSRF-TOKEN' }), withInterceptors([apiErrors, countWrites])),
     { provide: ErrorHandler, useClass: AppErrorHandler },
-    provideIcons(),
   ],
 };

@@ -6,7 +6,7 @@
  * caller must never be able to set (role, customerId, __proto__).
  */
 import fc from 'fast-check';
-import { z } from 'zod';
+import * as z from 'zod';
 
 interface Prop {
   type?: string | string[];

@@ -1,8 +1,7 @@
 import { Routes } from '@angular/router';
-import { AdminHome } from './admin-home';
 
 export const ADMIN_ROUTES: Routes = [
-  { path: '', component: AdminHome, title: 'Settings · Seasonwell' },
+  { path: '', loadComponent: () => import('./admin-home').then((m) => m.AdminHome), title: 'Settings · Seasonwell' },
   {
     path: 'company',
     loadComponent: () => import('./company/company-settings').then((m) => m.CompanySettingsPage),

@@ -1,20 +1,18 @@
 import { ChangeDetectionStrategy, Component, effect, inject } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
-import { MatIconModule } from '@angular/material/icon';
 import { Router, RouterLink } from '@angular/router';
 import { Session } from './session';
 
 /** The front door: signed-in people go to their own area; others choose how to sign in. */
 @Component({
   selector: 'sw-home',
-  imports: [MatButtonModule, MatIconModule, RouterLink],
+  imports: [RouterLink],
   template: `
     <section class="sw-page hero">
       <h1>Heating and cooling, looked after all year</h1>
       <p class="sw-lead">Book a visit, see your equipment and its service history, and keep your maintenance plan up to date.</p>
       <div class="actions">
-        <a mat-flat-button class="primary" routerLink="/sign-in">Homeowner sign-in</a>
-        <a mat-stroked-button routerLink="/staff/sign-in">Staff sign-in</a>
+        <a class="sw-button sw-button-filled primary" routerLink="/sign-in">Homeowner sign-in</a>
+        <a class="sw-button sw-button-outlined" routerLink="/staff/sign-in">Staff sign-in</a>
       </div>
       <aside class="emergency" role="note" aria-labelledby="emergency-title">
         <h2 id="emergency-title"><span aria-hidden="true">⚠</span> Smell gas, or a carbon monoxide alarm is sounding?</h2>
@@ -33,8 +31,8 @@ import { Session } from './session';
       margin-bottom: 32px;
     }
     .primary {
-      --mat-button-filled-container-color: var(--sw-ember);
-      --mat-button-filled-label-text-color: var(--sw-on-ember);
+      --sw-button-fill: var(--sw-ember);
+      --sw-button-ink: var(--sw-on-ember);
     }
     .emergency {
       border-left: 6px solid var(--sw-alert);

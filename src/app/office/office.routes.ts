@@ -1,15 +1,8 @@
 import { Routes } from '@angular/router';
-import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
-import { OfficeHome } from './home/office-home';
 
 export const OFFICE_ROUTES: Routes = [
-  { path: '', component: OfficeHome, title: 'Office · Seasonwell' },
-  {
-    path: 'reports',
-    loadComponent: () => import('./reports/reports-page').then((m) => m.ReportsPage),
-    providers: [provideCharts(withDefaultRegisterables())],
-    title: 'Reports · Seasonwell',
-  },
+  { path: '', loadComponent: () => import('./home/office-home').then((m) => m.OfficeHome), title: 'Office · Seasonwell' },
+  { path: 'reports', loadComponent: () => import('./reports/reports-page').then((m) => m.ReportsPage), title: 'Reports · Seasonwell' },
   { path: 'renewals', loadComponent: () => import('./renewals/renewals').then((m) => m.Renewals), title: 'Renewals · Seasonwell' },
   { path: 'invoices', loadComponent: () => import('./invoices/office-invoices').then((m) => m.OfficeInvoices), title: 'Invoices · Seasonwell' },
   { path: 'invoices/:id', loadComponent: () => import('./invoices/office-invoice').then((m) => m.OfficeInvoice), title: 'Invoice · Seasonwell' },

@@ -1,8 +1,7 @@
 import { Routes } from '@angular/router';
-import { PortalHome } from './start/portal-home';
 
 export const PORTAL_ROUTES: Routes = [
-  { path: '', component: PortalHome, title: 'Your home · Seasonwell' },
+  { path: '', loadComponent: () => import('./start/portal-home').then((m) => m.PortalHome), title: 'Your home · Seasonwell' },
   { path: 'plan', loadComponent: () => import('./plan/my-plan').then((m) => m.MyPlan), title: 'My plan · Seasonwell' },
   { path: 'invoices', loadComponent: () => import('./invoices/my-invoices').then((m) => m.MyInvoices), title: 'Invoices · Seasonwell' },
   { path: 'invoices/:id', loadComponent: () => import('./invoices/invoice-detail').then((m) => m.InvoiceDetail), title: 'Invoice · Seasonwell' },

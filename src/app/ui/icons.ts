@@ -41,11 +41,21 @@ export const ICONS: Record<string, string> = {
   truck: S('<rect x="2" y="6" width="12" height="10" rx="1"/><path d="M14 9h4l4 4v3h-8"/><circle cx="6.5" cy="17.5" r="1.8"/><circle cx="17.5" cy="17.5" r="1.8"/>'),
 };
 
-/** Registers the icon set once for the app: `<mat-icon svgIcon="home" />`. */
+const registered = new WeakSet<MatIconRegistry>();
+
+/** Adds the icon set to the app's registry, once: `<mat-icon svgIcon="home" />`. Call in an injection context. */
+export function registerIcons(): void {
+  const registry = inject(MatIconRegistry);
+  if (registered.has(registry)) return;
+  registered.add(registry);
+  const sanitizer = inject(DomSanitizer);
+  for (const [name, svg] of Object.entries(ICONS)) registry.addSvgIconLiteral(name, sanitizer.bypassSecurityTrustHtml(svg));
+}
+
+/**
+ * Registers the icon set where an injector is made: on the lazy routes (pages.routes.ts, loaded
+ * after the first chunk, which so carries no Material registry) and in component tests.
+ */
 export function provideIcons(): EnvironmentProviders {
-  return provideEnvironmentInitializer(() => {
-    const registry = inject(MatIconRegistry);
-    const sanitizer = inject(DomSanitizer);
-    for (const [name, svg] of Object.entries(ICONS)) registry.addSvgIconLiteral(name, sanitizer.bypassSecurityTrustHtml(svg));
-  });
+  return provideEnvironmentInitializer(registerIcons);
 }

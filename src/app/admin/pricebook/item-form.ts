@@ -8,7 +8,8 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { itemFromRow, rowFromItem } from '../../../../shared/pricebook-csv';
 import { categoriesOfKind, ITEM_CATEGORY_LABELS, ITEM_KIND_LABELS, ITEM_KINDS, ITEM_UNITS, type ItemCategory, type ItemKind } from '../../../../shared/pricebook';
-import { PRICE_BOOK_FIELD_KEYS, PRICE_BOOK_IMPORT_FIELDS, type PriceBookFieldKey, type PriceBookItem } from '../../../../shared/schemas/pricebook';
+import { PRICE_BOOK_FIELD_KEYS, PRICE_BOOK_IMPORT_FIELDS } from '../../../../shared/pricebook';
+import type { PriceBookFieldKey, PriceBookItem } from '../../../../shared/schemas/pricebook';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { PriceBookApi } from './price-book-api';
 

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { PRICE_BOOK_IMPORT_FIELDS, type PriceBookImportCheck } from '../../../../shared/schemas/pricebook';
+import { PRICE_BOOK_IMPORT_FIELDS } from '../../../../shared/pricebook';
+import type { PriceBookImportCheck } from '../../../../shared/schemas/pricebook';
 import { CsvImport, type CsvImportApi } from '../../ui/csv-import/csv-import';
 import { PriceBookApi } from './price-book-api';
 

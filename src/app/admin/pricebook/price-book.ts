@@ -43,8 +43,11 @@ import { PriceBookApi } from './price-book-api';
       <a mat-stroked-button routerLink="/admin/price-book/import">Import from CSV</a>
       <a mat-stroked-button [href]="api.exportUrl" download>Export CSV</a>
     </div>
-    @if (editing(); as e) {
-      <sw-item-form [item]="e === 'new' ? null : e" (saved)="onSaved($event)" (canceled)="editing.set(null)" />
+    <!-- The item form (with the validator it shares with the server) loads once the list is up, not before it. -->
+    @defer (when editing(); prefetch on idle) {
+      @if (editing(); as e) {
+        <sw-item-form [item]="e === 'new' ? null : e" (saved)="onSaved($event)" (canceled)="editing.set(null)" />
+      }
     }
     @if (notice(); as n) {
       <p role="status" class="ok">{{ n }}</p>
@@ -115,8 +118,23 @@ import { PriceBookApi } from './price-book-api';
       display: block;
       padding: 16px;
     }
+    // Fixed columns: the header keeps its place when the rows arrive.
     table {
       width: 100%;
+      min-width: 720px;
+      table-layout: fixed;
+    }
+    .mat-column-sku {
+      width: 20%;
+    }
+    .mat-column-category {
+      width: 20%;
+    }
+    .mat-column-unitCents {
+      width: 12%;
+    }
+    .mat-column-version {
+      width: 9%;
     }
     .progress {
       height: 4px;

@@ -79,8 +79,10 @@ async function render(fixture: Fixture) {
   await settle(0);
 }
 
-function setUp() {
+async function setUp() {
   TestBed.configureTestingModule({ imports: [QuoteBuilder], providers: [provideHttpClient(withInterceptors([apiErrors])), provideHttpClientTesting(), provideIcons()] });
+  // The replacement search is a @defer block: its component resolves here.
+  await TestBed.compileComponents();
   const fixture = TestBed.createComponent(QuoteBuilder);
   fixture.componentRef.setInput('visit', visit);
   fixture.componentRef.setInput('truckId', '00000000-0000-4000-8000-0000000000f1');
@@ -111,7 +113,7 @@ async function answerPreview(fixture: Fixture, http: HttpTestingController): Pro
 // The search and the preview wait out their debounce on the real clock, so each test allows for a busy machine.
 describe('QuoteBuilder totals', () => {
   it('shows the subtotal, plan savings, tax and total of an option as the coverage rules work them out', async () => {
-    const { fixture, http, el } = setUp();
+    const { fixture, http, el } = await setUp();
     await render(fixture);
     http.expectOne((r) => r.url === '/api/quotes' && r.params.get('visitId') === VISIT_ID).flush({ items: [], total: 0, page: 0, pageSize: 20 });
     await answerSearch(fixture, http);
@@ -143,7 +145,7 @@ describe('QuoteBuilder totals', () => {
   }, 30_000);
 
   it('keeps each option its own figures, and an option with no lines yet shows none', async () => {
-    const { fixture, http, el } = setUp();
+    const { fixture, http, el } = await setUp();
     await render(fixture);
     http.expectOne((r) => r.url === '/api/quotes').flush({ items: [], total: 0, page: 0, pageSize: 20 });
     await answerSearch(fixture, http);

@@ -11,15 +11,8 @@ import { catchError, debounceTime, firstValueFrom, map, of, startWith, switchMap
 import { formatUsd } from '../../../../shared/money';
 import { OPTIONS_PER_QUOTE_MAX } from '../../../../shared/pricebook';
 import type { FieldVisit } from '../../../../shared/schemas/field';
-import {
-  EDITABLE_QUOTE_STATUSES,
-  QUOTE_STATUS_LABELS,
-  type QuoteApprove,
-  type QuoteCreate,
-  type QuoteDecline,
-  type QuoteOptionView,
-  type QuoteView,
-} from '../../../../shared/schemas/pricebook';
+import { EDITABLE_QUOTE_STATUSES, QUOTE_STATUS_LABELS } from '../../../../shared/pricebook';
+import type { QuoteApprove, QuoteCreate, QuoteDecline, QuoteOptionView, QuoteView } from '../../../../shared/schemas/pricebook';
 import { toApiError } from '../../core/api-errors';
 import { QuoteApproval } from '../../ui/quote-approval';
 import { QuoteOptionTable } from '../../ui/quote-option-table';

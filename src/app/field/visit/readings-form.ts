@@ -17,7 +17,8 @@ import {
   type ReadingCheck,
   type VisitReadings,
 } from '../../../../shared/hvac';
-import { CHECK_LABELS, type FieldEquipment, type SavedReadings } from '../../../../shared/schemas/field';
+import { CHECK_LABELS } from '../../../../shared/checklist';
+import type { FieldEquipment, SavedReadings } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
 import { FieldApi } from '../field-api';

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, effect, inject, input, output, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, PendingTasks, effect, inject, input, output, untracked } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,7 +7,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatDialog } from '@angular/material/dialog';
 import { firstValueFrom } from 'rxjs';
 import { unfinishedItems, type CompletionAnswers } from '../../../../shared/visit-completion';
-import { CompleteVisitDialog, type CompleteVisitData } from './complete-visit-dialog';
+import type { CompleteVisitDialog, CompleteVisitData } from './complete-visit-dialog';
 import type { ChecklistSection, CompletedVisit, FieldVisit } from '../../../../shared/schemas/field';
 import { FieldApi } from '../field-api';
 import { VisitDrafts } from '../visit-drafts';
@@ -25,6 +25,7 @@ export class VisitNotes {
   private readonly api = inject(FieldApi);
   private readonly drafts = inject(VisitDrafts);
   private readonly dialog = inject(MatDialog);
+  private readonly pendingTasks = inject(PendingTasks);
 
   /** The visit as last loaded from the server. */
   readonly visit = input.required<FieldVisit>();
@@ -69,10 +70,11 @@ export class VisitNotes {
     const p = this.visit();
     const id = p.visit.id;
     const data: CompleteVisitData = { unfinished: p.visit.reason === 'tune_up' ? unfinishedItems(this.checklist() ?? p.checklist) : [], householdName: p.customer.name };
+    // The dialog, with its signature pad, loads when it is first asked for.
+    const loaded = this.pendingTasks.add();
+    const { CompleteVisitDialog: dialog } = await import('./complete-visit-dialog').finally(loaded);
     const answers = await firstValueFrom(
-      this.dialog
-        .open<CompleteVisitDialog, CompleteVisitData, CompletionAnswers>(CompleteVisitDialog, { data, maxWidth: '640px', width: '100%', disableClose: true })
-        .afterClosed(),
+      this.dialog.open<CompleteVisitDialog, CompleteVisitData, CompletionAnswers>(dialog, { data, maxWidth: '640px', width: '100%', disableClose: true }).afterClosed(),
     );
     if (!answers) return;
     void this.saves.run(

@@ -13,8 +13,8 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
 import { DateTime } from 'luxon';
-import { STATUS_TRANSITIONS, type BoardResponse, type BoardTechnician, type VisitEventView, type VisitView } from '../../../../shared/schemas/booking';
-import { VISIT_KINDS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
+import type { BoardResponse, BoardTechnician, VisitEventView, VisitView } from '../../../../shared/schemas/booking';
+import { VISIT_KINDS, VISIT_TRANSITIONS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { urlFilters } from '../../core/url-filters';
@@ -153,7 +153,7 @@ export class DispatchBoard {
   }
 
   protected nextStatuses(v: VisitView): VisitStatus[] {
-    return STATUS_TRANSITIONS[v.status].filter((s) => s !== 'requested');
+    return VISIT_TRANSITIONS[v.status].filter((s) => s !== 'requested');
   }
 
   protected eligible(v: VisitView): BoardTechnician[] {

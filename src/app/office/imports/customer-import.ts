@@ -1,7 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { IMPORT_FIELDS, type ImportCheck, type ImportCounts, type ImportPreview } from '../../../../shared/schemas/customers';
+import { IMPORT_FIELDS } from '../../../../shared/customer-fields';
+import type { ImportCheck, ImportCounts, ImportPreview } from '../../../../shared/schemas/customers';
 import { CsvImport, type CsvImportApi } from '../../ui/csv-import/csv-import';
 
 type ImportDone = { rowCount: number; counts: ImportCounts };

@@ -6,7 +6,8 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { formatUsd } from '../../../../shared/money';
-import { QUOTE_STATUS_LABELS, type QuoteSummary } from '../../../../shared/schemas/pricebook';
+import { QUOTE_STATUS_LABELS } from '../../../../shared/pricebook';
+import type { QuoteSummary } from '../../../../shared/schemas/pricebook';
 import { errorMessage } from '../../core/resource-state';
 import { OfficeQuotesApi } from './office-quotes-api';
 

@@ -1,16 +1,17 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { BaseChartDirective } from 'ng2-charts';
-import { REPORT_DEFINITIONS, type Report, type ReportName, type ReportQuery } from '../../../../shared/schemas/reports';
+import { REPORT_DEFINITIONS } from '../../../../shared/report-definitions';
+import type { Report, ReportName, ReportQuery } from '../../../../shared/schemas/reports';
 import { errorMessage, localCopy } from '../../core/resource-state';
+import { Chart } from '../../ui/chart';
 import { CHARTS, tableOf } from './report-charts';
 import { ReportsApi } from './reports-api';
 
 /** One report: its chart, what each number means, the numbers as a table, and the CSV. */
 @Component({
   selector: 'sw-report-section',
-  imports: [BaseChartDirective, MatButtonModule],
+  imports: [Chart, MatButtonModule],
   template: `
     <section [attr.aria-labelledby]="name() + '-h'" class="report">
       <div class="head">
@@ -22,14 +23,11 @@ import { ReportsApi } from './reports-api';
       }
       <div class="chart">
         @if (config(); as c) {
-          <canvas
-            baseChart
-            [type]="c.type"
-            [data]="c.data"
-            [options]="c.options"
-            role="img"
-            [attr.aria-label]="definition().title + ' chart; the numbers are in the table below it'"
-          ></canvas>
+          @defer (on viewport; prefetch on idle) {
+            <sw-chart [config]="c" [label]="definition().title + ' chart; the numbers are in the table below it'" />
+          } @placeholder {
+            <p class="loading">Loading…</p>
+          }
         } @else if (!error()) {
           <p class="loading">Loading…</p>
         }

@@ -4,7 +4,8 @@ import { provideNativeDateAdapter } from '@angular/material/core';
 import { MatDatepickerModule } from '@angular/material/datepicker';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { REPORTS, type ReportQuery } from '../../../../shared/schemas/reports';
+import { REPORTS } from '../../../../shared/report-definitions';
+import type { ReportQuery } from '../../../../shared/schemas/reports';
 import { urlFilters } from '../../core/url-filters';
 import { ReportSection } from './report-section';
 

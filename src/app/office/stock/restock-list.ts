@@ -26,8 +26,32 @@ const ALIASES = { 'lines.0.itemId': 'itemId', 'lines.0.quantity': 'quantity', li
       display: block;
       padding: 16px;
     }
+    .progress {
+      height: 4px;
+    }
+    .table-wrap {
+      overflow: auto;
+      height: calc(var(--mat-table-header-container-height, 56px) + 12 * var(--mat-table-row-item-container-height, 52px));
+    }
+    // Fixed columns: the header keeps its place when the rows arrive.
     table {
       width: 100%;
+      min-width: 720px;
+      table-layout: fixed;
+    }
+    .mat-column-location {
+      width: 10%;
+    }
+    .mat-column-sku {
+      width: 19%;
+    }
+    .mat-column-quantity,
+    .mat-column-minimum,
+    .mat-column-shortBy {
+      width: 9%;
+    }
+    .mat-column-act {
+      width: 11%;
     }
     .num {
       text-align: right;

@@ -4,7 +4,7 @@ import { MatListModule } from '@angular/material/list';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { formatUsd } from '../../../../shared/money';
-import { QUOTE_STATUS_LABELS } from '../../../../shared/schemas/pricebook';
+import { QUOTE_STATUS_LABELS } from '../../../../shared/pricebook';
 import { errorMessage } from '../../core/resource-state';
 import { PortalQuotesApi } from './portal-quotes-api';
 

@@ -1,13 +1,13 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
-import { CategoryScale, LineController, LineElement, LinearScale, PointElement, Tooltip, type ChartConfiguration, type PointStyle } from 'chart.js';
-import { BaseChartDirective, provideCharts } from 'ng2-charts';
+import type { ChartConfiguration, PointStyle } from 'chart.js';
 import type { PropertyReadings, ReadingSeries, ReadingStatus, SystemReadings } from '../../../../shared/schemas/field';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { bandPlugin, type Band } from './band-plugin';
 import { ReadingsApi } from './readings-api';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
+import { Chart } from '../../ui/chart';
 import { dayLabel } from '../../ui/dates';
 import { Session } from '../../core/session';
 
@@ -29,9 +29,7 @@ const WORDS: Record<ReadingStatus, string> = { ok: 'in range', watch: 'worth wat
 /** A home's readings over time, one chart per system, with the normal band shaded behind the line. */
 @Component({
   selector: 'sw-readings-chart',
-  imports: [BaseChartDirective, MatButtonToggleModule, ReadingStatusMark],
-  // Only what a line chart over visits needs, loaded with this component rather than with every portal page.
-  providers: [provideCharts({ registerables: [LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip] })],
+  imports: [Chart, MatButtonToggleModule, ReadingStatusMark],
   templateUrl: './readings-chart.html',
   styleUrl: './readings-chart.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

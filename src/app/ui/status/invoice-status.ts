@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { INVOICE_STATUS_LABELS, type InvoiceStatus } from '../../../../shared/schemas/billing';
+import { INVOICE_STATUS_LABELS } from '../../../../shared/invoice-status';
+import type { InvoiceStatus } from '../../../../shared/schemas/billing';
 
 const ICON: Record<InvoiceStatus, string> = {
   draft: 'info',
