@@ -55,14 +55,14 @@ describe('the card processor unreachable (its port closed)', () => {
     const intentsBefore = h.fake.fake.engine.paymentIntents.size;
     const before = await rowCounts();
 
-    const answers = [
-      await post(payer, `/api/invoices/${invoice.body.id}/checkout`),
-      await post(renewer, `/api/agreements/${agreement.id}/renew`),
-      await post(renewer, `/api/agreements/${agreement.id}/card`),
-      await post(newcomer, '/api/agreements/enroll', { propertyId: newcomer.propertyId, planId: plan.id, systemsCount: 1 }),
-    ];
-    for (const res of answers) {
-      expect(res.status, `${res.req.path}: ${JSON.stringify(res.body)}`).toBe(503);
+    const answers = {
+      'pay an invoice': await post(payer, `/api/invoices/${invoice.body.id}/checkout`),
+      renew: await post(renewer, `/api/agreements/${agreement.id}/renew`),
+      'save a card': await post(renewer, `/api/agreements/${agreement.id}/card`),
+      enrol: await post(newcomer, '/api/agreements/enroll', { propertyId: newcomer.propertyId, planId: plan.id, systemsCount: 1 }),
+    };
+    for (const [step, res] of Object.entries(answers)) {
+      expect(res.status, `${step}: ${JSON.stringify(res.body)}`).toBe(503);
       expect(res.headers['retry-after']).toBe('5');
       expect(Object.keys(res.body)).toEqual(['error']);
       expect(res.body.error).toEqual({ code: 'payments_unavailable', message: expect.stringMatching(/^Payments are unavailable right now\. Nothing was charged/) });
