@@ -41,6 +41,8 @@ export class Jobs implements JobQueue {
     private readonly logger: Logger,
     /** pg-boss's schema; tests that run workers use one of their own. */
     private readonly schema = 'pgboss',
+    /** pg-boss's own settings, e.g. a shorter maintenance interval in tests. */
+    private readonly bossOptions: Omit<PgBoss.ConstructorOptions, 'connectionString' | 'schema'> = {},
   ) {}
 
   /** Register a queue and its handler; `cron` schedules it in the zone given to start(). */
@@ -53,7 +55,7 @@ export class Jobs implements JobQueue {
    * starts the workers. Without a zone (no company row yet) nothing is scheduled until a restart.
    */
   async start({ work = true, timeZone }: { work?: boolean; timeZone: string | null }): Promise<void> {
-    const boss = new PgBoss({ connectionString: this.connectionString, schema: this.schema, max: 4 });
+    const boss = new PgBoss({ max: 4, ...this.bossOptions, connectionString: this.connectionString, schema: this.schema });
     boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
     // pg-boss installs its schema under a lock, but createQueue takes none: two processes creating
     // queues at once on a new database deadlock (40P01). One process at a time sets up.
