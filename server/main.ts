@@ -10,6 +10,7 @@ import { createStorage } from './integrations/storage';
 import { Jobs } from './jobs/queue';
 import { registerJobs } from './jobs/register';
 import type { AppDeps } from './deps';
+import { answerClientErrors } from './http/client-errors';
 import { closeHttpServer, logProcessFaults } from './runtime/shutdown';
 
 let config: Config;
@@ -55,6 +56,7 @@ const app = createApp(deps);
 const server = app.listen(config.PORT, config.HOST, () => {
   logger.info({ url: config.publicUrl }, 'Seasonwell API listening');
 });
+answerClientErrors(server, logger);
 server.on('error', (err) => {
   logger.fatal({ err }, 'could not start the HTTP server');
   process.exit(1);

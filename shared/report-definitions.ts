@@ -20,7 +20,7 @@ export const REPORT_DEFINITIONS: Record<ReportName, { title: string; lines: stri
     title: 'Revenue',
     lines: [
       'Money received: card, check and cash payments, in the month they succeeded (company time zone), less refunds in the month they were made.',
-      'Plans: payments on enrollment, renewal and plan-change invoices. Repairs: payments on service invoices.',
+      'Plans: payments on enrollment, renewal and plan-change invoices. Tune-ups: payments on service invoices for work done on a tune-up visit. Repairs: payments on every other service invoice (service calls, follow-up visits, and invoices the office typed without a visit).',
       'Average invoice: the mean total of the invoices issued in the month, drafts and voided ones left out.',
       'Coverage savings: the members’ plan discount taken off the invoices issued in the month.',
     ],
@@ -30,6 +30,8 @@ export const REPORT_DEFINITIONS: Record<ReportName, { title: string; lines: stri
     lines: [
       'Visits per week (Monday to Sunday, company time zone) by kind, canceled visits left out.',
       'No-show rate: visits marked “no one home” ÷ (completed visits + no-shows) in the week.',
+      'Repairs: visits in the week on which the homeowner approved a quote; a follow-up visit to fit an ordered part is counted with the repair’s first visit, not again.',
+      'First-visit fix: the share of those repairs where every part was on the truck, so no approved quote had to open a follow-up visit for an ordered part.',
     ],
   },
   utilisation: {

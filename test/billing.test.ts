@@ -127,15 +127,15 @@ describe('paying an invoice in the portal', () => {
     expect(paid.status).toBe(303);
   });
 
-  it('the processor down for good answers 502 with a clear message and records nothing', async () => {
+  it('the processor down for good answers 503 with a clear message and records nothing', async () => {
     const hh = await newHousehold(h, 'down');
     const { res } = await officeInvoice(hh.customerId);
     await hh.homeowner.agent.get(`/api/invoices/${res.body.id}`).expect(200); // warm the customer record
     h.fake.fake.addFault({ path: '/v1/', status: 500, times: 20 });
     const start = await hh.homeowner.agent.post(`/api/invoices/${res.body.id}/checkout`).set(CSRF_HEADER_NAME, hh.homeowner.csrf).send({});
     await fetch(`${h.fake.url}/_test/faults`, { method: 'DELETE' });
-    expect(start.status).toBe(502);
-    expect(start.body.error.code).toBe('payment_provider_unavailable');
+    expect(start.status).toBe(503);
+    expect(start.body.error.code).toBe('payments_unavailable');
     const pays = await h.ctx.database.db.select().from(payments).where(eq(payments.invoiceId, res.body.id));
     expect(pays).toHaveLength(0);
   });
@@ -256,6 +256,6 @@ describe('processor errors by class', () => {
     h.fake.fake.addFault({ path: '/v1/customers', status: 500, times: 3 });
     const api = await h.stripe.customers.create({}).catch((e: unknown) => e);
     expect(api).toBeInstanceOf(Stripe.errors.StripeAPIError);
-    expect(providerError(api)).toMatchObject({ status: 502, code: 'payment_provider_unavailable' });
+    expect(providerError(api)).toMatchObject({ status: 503, code: 'payments_unavailable' });
   });
 });

@@ -156,8 +156,8 @@ describe('two API processes on one database', () => {
 });
 
 /** A renewal worker process (test/support/renewal-worker.ts): ready once connected, done with its output. */
-function worker(env: Record<string, string>) {
-  const p = spawn(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'test', 'support', 'renewal-worker.ts')], {
+function worker(env: Record<string, string>, script = 'renewal-worker.ts') {
+  const p = spawn(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'test', 'support', script)], {
     cwd: ROOT,
     env: { PATH: process.env.PATH, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -174,6 +174,8 @@ function worker(env: Record<string, string>) {
       return done();
     },
     exit,
+    stop: () => (p.exitCode === null && p.signalCode === null ? (p.kill('SIGTERM'), exit) : exit),
+    output: () => out,
   };
 }
 
@@ -218,6 +220,39 @@ describe('two renewal workers as separate processes', () => {
     const [half] = await h.ctx.database.db.select().from(agreements).where(eq(agreements.id, agreement.id));
     expect(half!.status).toBe('renewal_due');
     await worker(env).done;
+    expect(await succeeded()).toHaveLength(1);
+    const [row] = await h.ctx.database.db.select().from(agreements).where(eq(agreements.id, agreement.id));
+    expect(row).toMatchObject({ status: 'active', endsOn: termEnd(endsOn) });
+  }, 120_000);
+
+  it('a pg-boss renewal job whose worker is killed (SIGKILL) after the charge is retried by the next worker, with one charge', async () => {
+    const today = localDate(new Date(), 'America/Chicago');
+    const hh = await newHousehold(h, 'killed-job');
+    const endsOn = addDays(today, 0);
+    const { agreement } = await seedAgreement(h, hh, { endsOn, status: 'renewal_due', card: 'pm_card_visa' });
+    const schema = `pgboss_kill_${Date.now().toString(36)}`;
+    const env = { DATABASE_URL: inject('databaseUrl'), STRIPE_API_URL: h.fake.url, BOSS_SCHEMA: schema, RENEW_ONLY: agreement.id, RENEW_TODAY: endsOn };
+    const killed = await worker({ ...env, RENEW_SEND: '1', RENEW_KILL: '1' }, 'renewal-job-worker.ts').exit;
+    expect(killed.signal === 'SIGKILL' || killed.code === 137, killed.out).toBe(true);
+    const succeeded = async () => (await h.stripe.paymentIntents.list({ limit: 100 })).data.filter((p) => p.metadata['agreementId'] === agreement.id && p.status === 'succeeded');
+    expect(await succeeded()).toHaveLength(1);
+    const c = new pg.Client({ connectionString: inject('databaseUrl') });
+    await c.connect();
+    try {
+      const state = async () => (await c.query<{ state: string; retry_count: number }>(`select state, retry_count from "${schema}".job where name = 'renewal-one'`)).rows;
+      expect(await state()).toEqual([{ state: 'active', retry_count: 0 }]);
+      const t0 = Date.now();
+      const next = worker(env, 'renewal-job-worker.ts');
+      await next.ready;
+      const deadline = Date.now() + 60_000;
+      while (Date.now() < deadline && (await state())[0]?.state !== 'completed') await sleep(200);
+      console.log(`killed job retried and completed ${Date.now() - t0} ms after the next worker started`);
+      await next.stop();
+      expect(await state(), next.output()).toEqual([{ state: 'completed', retry_count: 1 }]);
+      expect(next.output()).toMatch(/"errors":\[\]/);
+    } finally {
+      await c.query(`drop schema if exists "${schema}" cascade`).finally(() => c.end());
+    }
     expect(await succeeded()).toHaveLength(1);
     const [row] = await h.ctx.database.db.select().from(agreements).where(eq(agreements.id, agreement.id));
     expect(row).toMatchObject({ status: 'active', endsOn: termEnd(endsOn) });

@@ -1,7 +1,7 @@
 // Quotes from the price book with the plan's coverage, approval into an invoice, and truck stock.
-import { and, eq, like } from 'drizzle-orm';
+import { and, eq, inArray, like } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { priceBookItems, stockLevels, stockLocations, technicians, users, visits, flatRateTasks } from '../server/db/schema';
+import { invoices, priceBookItems, stockLevels, stockLocations, technicians, users, visits, flatRateTasks } from '../server/db/schema';
 import { STAFF } from '../server/db/seed/scenario';
 import { DEMO_BLOWER_CAPACITOR_SKU, DEMO_BLOWER_MOTOR_SKU } from '../server/db/seed/pricebook';
 import { testApp, type TestContext } from './support/app';
@@ -141,12 +141,31 @@ describe('a quote on a no-cooling visit', () => {
     expect(inv.body.lines).toHaveLength(o.lines.length);
     expect(inv.body.discountCents).toBe(o.savingsCents);
     expect(inv.body.totalCents).toBe(o.totalCents);
+    // The invoice keeps the visit the work was done on, for the revenue report's split by visit kind.
+    const [row] = await ctx.database.db.select({ visitId: invoices.visitId }).from(invoices).where(eq(invoices.id, approved.body.invoiceId));
+    expect(row!.visitId).toBe(visitId);
     inv.body.lines.forEach((l: { discountCents: number; reason: string }, i: number) => {
       expect(l.discountCents).toBe(o.lines[i].savingsCents);
       expect(l.reason).toBe(o.lines[i].reason);
     });
     const restock = await office.agent.get(`/api/stock/levels?locationId=${truckId}&belowMinimum=true`);
     expect(restock.body.map((r: { sku: string }) => r.sku)).toContain(DEMO_BLOWER_MOTOR_SKU);
+  });
+
+  it("a technician's invoice for work without a quote keeps its visit; the office's invoice without a visit has none", async () => {
+    const [v] = await ctx.database.db.select({ customerId: visits.customerId }).from(visits).where(eq(visits.id, visitId));
+    const work = await post(tech, '/api/work-invoices', { customerId: v!.customerId, visitId, lines: [{ source: 'item', itemId: laborId, quantity: 1 }], sendPayLink: false });
+    expect(work.status, JSON.stringify(work.body)).toBe(201);
+    const typed = await post(office, '/api/invoices', {
+      customerId: v!.customerId,
+      lines: [{ description: 'Labor: reset the float switch', kind: 'labor', quantity: 1, unitCents: 9500, taxable: false }],
+    });
+    expect(typed.status).toBe(201);
+    const rows = await ctx.database.db
+      .select({ id: invoices.id, visitId: invoices.visitId })
+      .from(invoices)
+      .where(inArray(invoices.id, [work.body.id, typed.body.id]));
+    expect(Object.fromEntries(rows.map((r) => [r.id, r.visitId]))).toEqual({ [work.body.id]: visitId, [typed.body.id]: null });
   });
 
   it('another household cannot see or approve the quote; its technician and the office can', async () => {

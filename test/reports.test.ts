@@ -104,22 +104,48 @@ async function fixture(): Promise<void> {
     }
   }
 
-  // Invoices: [name, purpose, status, subtotal, discount, total, paid, refunded, issued at (local)].
-  const invoices: [string, string, string, number, number, number, number, number, string | null][] = [
-    ['I1', 'renewal', 'paid', 19900, 0, 19900, 19900, 0, '2031-01-15T09:00'],
-    ['I2', 'service', 'paid', 38917, 3892, 35025, 35025, 0, '2031-01-31T23:00'],
-    ['I3', 'enrollment', 'paid', 24900, 0, 24900, 24900, 0, '2031-02-10T10:00'],
-    ['I4', 'service', 'partially_refunded', 13334, 1334, 12000, 12000, 2000, '2031-02-11T10:00'],
-    ['I5', 'service', 'open', 5000, 0, 5000, 0, 0, '2031-02-15T10:00'],
-    ['I6', 'service', 'void', 99999, 0, 99999, 0, 0, '2031-02-16T10:00'],
-    ['I7', 'service', 'draft', 7777, 0, 7777, 0, 0, null],
+  // Visits the service invoices were for, unassigned and done (so in no utilisation or queue count).
+  const visit = async (kind: string, status: string, local: string, hours: number, technician: string | null = null) => {
+    const s = DateTime.fromISO(local, { zone: TZ });
+    return q(
+      `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at)
+       values ($1, $2, $3, $4, $5, $6, $7, $8, $7, $9) returning id`,
+      [
+        customer,
+        property,
+        technician,
+        kind,
+        kind === 'tune_up' ? 'tune_up' : 'no_cooling',
+        status,
+        s.toUTC().toISO(),
+        s.plus({ hours: 2 }).toUTC().toISO(),
+        s.plus({ hours }).toUTC().toISO(),
+      ],
+    );
+  };
+  const tuneUpJan = await visit('tune_up', 'done', '2031-01-31T09:00', 2);
+  const callFeb = await visit('service_call', 'done', '2031-02-11T08:00', 2);
+  const tuneUpFeb = await visit('tune_up', 'done', '2031-02-27T08:00', 2);
+
+  // Invoices: [name, purpose, status, subtotal, discount, total, paid, refunded, issued at (local), visit].
+  const invoices: [string, string, string, number, number, number, number, number, string | null, string | null][] = [
+    ['I1', 'renewal', 'paid', 19900, 0, 19900, 19900, 0, '2031-01-15T09:00', null],
+    // A blower motor replaced at January's heating tune-up: tune-up money.
+    ['I2', 'service', 'paid', 38917, 3892, 35025, 35025, 0, '2031-01-31T23:00', tuneUpJan],
+    ['I3', 'enrollment', 'paid', 24900, 0, 24900, 24900, 0, '2031-02-10T10:00', null],
+    ['I4', 'service', 'partially_refunded', 13334, 1334, 12000, 12000, 2000, '2031-02-11T10:00', callFeb],
+    // Typed by the office with no visit: a repair.
+    ['I5', 'service', 'open', 5000, 0, 5000, 0, 0, '2031-02-15T10:00', null],
+    ['I6', 'service', 'void', 99999, 0, 99999, 0, 0, '2031-02-16T10:00', null],
+    ['I7', 'service', 'draft', 7777, 0, 7777, 0, 0, null, null],
+    ['I8', 'service', 'paid', 8900, 0, 8900, 8900, 0, '2031-02-27T10:00', tuneUpFeb],
   ];
   let number = 1000;
-  for (const [name, purpose, status, sub, disc, total, paid, refunded, issued] of invoices) {
+  for (const [name, purpose, status, sub, disc, total, paid, refunded, issued, visitId] of invoices) {
     ids[name] = await q(
-      `insert into invoices (number, customer_id, purpose, status, subtotal_cents, discount_cents, tax_cents, total_cents, paid_cents, refunded_cents, issued_at)
-       values ($1, $2, $3, $4, $5, $6, 0, $7, $8, $9, $10) returning id`,
-      [status === 'draft' ? null : ++number, customer, purpose, status, sub, disc, total, paid, refunded, issued ? at(issued) : null],
+      `insert into invoices (number, customer_id, purpose, status, subtotal_cents, discount_cents, tax_cents, total_cents, paid_cents, refunded_cents, issued_at, visit_id)
+       values ($1, $2, $3, $4, $5, $6, 0, $7, $8, $9, $10, $11) returning id`,
+      [status === 'draft' ? null : ++number, customer, purpose, status, sub, disc, total, paid, refunded, issued ? at(issued) : null, visitId],
     );
   }
   // Payments: [invoice, status, amount, refunded, succeeded at (local)].
@@ -130,6 +156,8 @@ async function fixture(): Promise<void> {
     ['I3', 'succeeded', 24900, 0, '2031-02-10T11:00'],
     ['I4', 'succeeded', 12000, 2000, '2031-02-12T11:00'],
     ['I5', 'failed', 5000, 0, null],
+    // 11:30 p.m. on 28 February is 1 March in UTC: February's tune-up money.
+    ['I8', 'succeeded', 8900, 0, '2031-02-28T23:30'],
   ];
   for (const [inv, status, amount, refunded, when] of payments) {
     const id = await q(`insert into payments (invoice_id, method, status, amount_cents, refunded_cents, succeeded_at) values ($1, 'card', $2, $3, $4, $5) returning id`, [
@@ -154,34 +182,44 @@ async function fixture(): Promise<void> {
   // Ada is off Wednesday from noon: 4 of her 8 hours that day.
   await q(`insert into technician_time_off (technician_id, starts_at, ends_at) values ($1, $2, $3)`, [ada, at('2031-06-04T12:00'), at('2031-06-04T18:00')]);
 
-  // Visits in the week of Monday 2 June 2031: [technician, kind, status, start (local), hours].
-  const visits: [string, string, string, string, number][] = [
-    [ada, 'tune_up', 'done', '2031-06-02T08:00', 2],
-    [ada, 'tune_up', 'done', '2031-06-03T09:00', 1.5],
-    [ada, 'service_call', 'no_show', '2031-06-05T10:00', 1],
-    [ada, 'service_call', 'canceled', '2031-06-06T10:00', 2],
-    [bo, 'service_call', 'done', '2031-06-02T07:00', 3],
-    [bo, 'tune_up', 'scheduled', '2031-06-05T13:00', 3],
+  // Visits in the week of Monday 2 June 2031: [name, technician, kind, status, start (local), hours].
+  const visits: [string, string, string, string, string, number][] = [
+    ['adaTuneUp', ada, 'tune_up', 'done', '2031-06-02T08:00', 2],
+    ['adaTuneUp2', ada, 'tune_up', 'done', '2031-06-03T09:00', 1.5],
+    ['adaNoShow', ada, 'service_call', 'no_show', '2031-06-05T10:00', 1],
+    ['adaCanceled', ada, 'service_call', 'canceled', '2031-06-06T10:00', 2],
+    ['boCall', bo, 'service_call', 'done', '2031-06-02T07:00', 3],
+    // The follow-up that fitted the part ordered at Ada's Monday tune-up.
+    ['boFollowUp', bo, 'service_call', 'done', '2031-06-04T08:00', 1],
+    ['boTuneUp', bo, 'tune_up', 'scheduled', '2031-06-05T13:00', 3],
     // The Sunday before the week: in no bucket of the range.
-    [bo, 'tune_up', 'done', '2031-06-01T10:00', 3],
+    ['boSunday', bo, 'tune_up', 'done', '2031-06-01T10:00', 3],
   ];
-  for (const [techId, kind, status, start, h] of visits) {
-    const s = DateTime.fromISO(start, { zone: TZ });
-    await q(
-      `insert into visits (customer_id, property_id, technician_id, kind, reason, status, window_start, window_end, starts_at, ends_at)
-       values ($1, $2, $3, $4, $5, $6, $7, $8, $7, $9)`,
-      [
-        customer,
-        property,
-        techId,
-        kind,
-        kind === 'tune_up' ? 'tune_up' : 'no_cooling',
-        status,
-        s.toUTC().toISO(),
-        s.plus({ hours: 2 }).toUTC().toISO(),
-        s.plus({ hours: h }).toUTC().toISO(),
-      ],
-    );
+  for (const [name, techId, kind, status, start, h] of visits) ids[name] = await visit(kind, status, start, h, techId);
+
+  // Quotes on those visits: [visit, status, follow-up visit].
+  const quotes: [string, string, string | null][] = [
+    // Fixed on the first visit, with two approved quotes: one repair.
+    ['boCall', 'approved', null],
+    ['boCall', 'approved', null],
+    // A part had to be ordered: a repair, not fixed on the first visit (its other quote does not change that).
+    ['adaTuneUp', 'approved', 'boFollowUp'],
+    ['adaTuneUp', 'approved', null],
+    // The follow-up's own quote: counted with the first visit's repair, not again.
+    ['boFollowUp', 'approved', null],
+    // Declined, canceled visit, outside the range: no repair.
+    ['adaTuneUp2', 'declined', null],
+    ['adaCanceled', 'approved', null],
+    ['boSunday', 'approved', null],
+  ];
+  for (const [v, status, followUp] of quotes) {
+    await q(`insert into quotes (visit_id, customer_id, property_id, status, follow_up_visit_id) values ($1, $2, $3, $4, $5)`, [
+      ids[v],
+      customer,
+      property,
+      status,
+      followUp ? ids[followUp] : null,
+    ]);
   }
 }
 
@@ -225,15 +263,17 @@ describe('agreements report', () => {
 });
 
 describe('revenue report', () => {
-  it('splits money received by month in the company time zone into plans and repairs', async () => {
+  it('splits money received by month in the company time zone into plans, tune-ups and repairs', async () => {
     const res = await get('/api/reports/revenue?from=2031-01-01&to=2031-02-28').expect(200);
     // Jan: I1's 199.00 paid 11:30 p.m. on the 31st (1 Feb in UTC) is January's; I2 issued 11 p.m. on the 31st too.
     //   Average of I1 and I2: (19900 + 35025) ÷ 2 = 27462.5 → 27463 (half away from zero, PostgreSQL round).
-    // Feb: plans I3 24900; repairs I2 35025 + I4 12000 − refund 2000 = 45025; the failed payment counts nothing.
-    //   Issued I3, I4, I5 (void I6 and draft I7 left out): (24900 + 12000 + 5000) ÷ 3 = 13966.67 → 13967.
+    // Feb: plans I3 24900; tune-ups I2 35025 (paid 12:15 a.m. on the 1st) + I8 8900 (paid 11:30 p.m. on the 28th,
+    //   1 March in UTC) = 43925; repairs I4 12000 − refund 2000 = 10000; the failed payment on I5 counts nothing.
+    //   Total 24900 + 43925 + 10000 = 78825.
+    //   Issued I3, I4, I5, I8 (void I6 and draft I7 left out): (24900 + 12000 + 5000 + 8900) ÷ 4 = 12700.
     expect(res.body.rows).toEqual([
-      { month: '2031-01-01', plansCents: 19900, repairsCents: 0, totalCents: 19900, invoices: 2, averageInvoiceCents: 27463, savingsCents: 3892 },
-      { month: '2031-02-01', plansCents: 24900, repairsCents: 45025, totalCents: 69925, invoices: 3, averageInvoiceCents: 13967, savingsCents: 1334 },
+      { month: '2031-01-01', plansCents: 19900, tuneUpsCents: 0, repairsCents: 0, totalCents: 19900, invoices: 2, averageInvoiceCents: 27463, savingsCents: 3892 },
+      { month: '2031-02-01', plansCents: 24900, tuneUpsCents: 43925, repairsCents: 10000, totalCents: 78825, invoices: 4, averageInvoiceCents: 12700, savingsCents: 1334 },
     ]);
   });
 
@@ -241,16 +281,28 @@ describe('revenue report', () => {
     const res = await get('/api/reports/revenue/export.csv?from=2031-01-01&to=2031-02-28').expect(200);
     expect(res.headers['content-type']).toMatch(/text\/csv/);
     const parsed = Papa.parse<string[]>(res.text.trim());
-    expect(parsed.data[0]).toEqual(['month', 'plans_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd']);
-    expect(parsed.data[2]).toEqual(['2031-02-01', '249.00', '450.25', '699.25', '3', '139.67', '13.34']);
+    expect(parsed.data[0]).toEqual(['month', 'plans_usd', 'tune_ups_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd']);
+    expect(parsed.data[2]).toEqual(['2031-02-01', '249.00', '439.25', '100.00', '788.25', '4', '127.00', '13.34']);
   });
 });
 
 describe('visits report', () => {
-  it('counts visits per kind per week and the no-show rate', async () => {
+  it('counts visits per kind per week, the no-show rate and the share of repairs fixed on the first visit', async () => {
     const res = await get('/api/reports/visits?from=2031-06-02&to=2031-06-08').expect(200);
-    // Canceled left out: tune-ups 2 done + 1 scheduled; service calls 1 no-show + 1 done. No-shows 1 ÷ (3 done + 1) = 0.25.
-    expect(res.body.rows).toEqual([{ week: '2031-06-02', tuneUps: 3, serviceCalls: 2, done: 3, noShows: 1, noShowRate: 0.25 }]);
+    // Canceled left out: tune-ups 2 done + 1 scheduled; service calls 1 no-show + 2 done. No-shows 1 ÷ (4 done + 1) = 0.2.
+    // Repairs: Bo's call (two approved quotes, one repair, fixed) and Ada's Monday tune-up (a part ordered: not fixed
+    // on the first visit); the follow-up, the declined quote, the canceled visit and the Sunday before are not counted.
+    // First-visit fix 1 ÷ 2 = 0.5.
+    expect(res.body.rows).toEqual([
+      { week: '2031-06-02', tuneUps: 3, serviceCalls: 3, done: 4, noShows: 1, noShowRate: 0.2, repairs: 2, firstVisitFixes: 1, firstVisitFixRate: 0.5 },
+    ]);
+  });
+
+  it('exports the first-visit fix columns as CSV', async () => {
+    const res = await get('/api/reports/visits/export.csv?from=2031-06-02&to=2031-06-08').expect(200);
+    const parsed = Papa.parse<string[]>(res.text.trim());
+    expect(parsed.data[0]!.slice(-3)).toEqual(['repairs', 'first_visit_fixes', 'first_visit_fix_rate']);
+    expect(parsed.data[1]!.slice(-3)).toEqual(['2', '1', '0.5000']);
   });
 });
 
@@ -258,10 +310,10 @@ describe('utilisation report', () => {
   it('divides booked by available hours per technician per week, less time off', async () => {
     const res = await get('/api/reports/utilisation?from=2031-06-02&to=2031-06-08').expect(200);
     // Ada: 5 × 8 h − 4 h off = 36 h = 2160 min; booked 2 + 1.5 + 1 h (no-show still booked, canceled not) = 270 min → 0.125.
-    // Bo: 4 × 10 h = 2400 min; booked 3 + 3 h = 360 min → 0.15 (the Sunday before is outside the range).
+    // Bo: 4 × 10 h = 2400 min; booked 3 + 1 + 3 h = 420 min → 0.175 (the Sunday before is outside the range).
     expect(res.body.rows).toEqual([
       { week: '2031-06-02', technicianId: ids.ada, technicianName: 'Ada', bookedMinutes: 270, availableMinutes: 2160, utilisation: 0.125 },
-      { week: '2031-06-02', technicianId: ids.bo, technicianName: 'Bo', bookedMinutes: 360, availableMinutes: 2400, utilisation: 0.15 },
+      { week: '2031-06-02', technicianId: ids.bo, technicianName: 'Bo', bookedMinutes: 420, availableMinutes: 2400, utilisation: 0.175 },
     ]);
   });
 });

@@ -12,7 +12,7 @@ import type { Db, Tx } from '../db/client';
 import { agreements, invoices, plans, planVersions, properties } from '../db/schema';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
-import { startInvoiceCheckout } from '../billing/checkout';
+import { assertPaymentsReachable, startInvoiceCheckout } from '../billing/checkout';
 import { startCardSetup } from './card-setup';
 import { insertInvoice, invoiceView, voidOpenInvoicesOf } from '../billing/invoices';
 import { recordOfflinePayment } from '../billing/refunds';
@@ -167,6 +167,7 @@ export async function enroll(
   const version = await currentVersion(db, plan.id);
   if (!version) throw new AppError(422, 'validation_failed', 'That plan has no price yet.', { planId: 'That plan has no price yet.' });
   const t = await companyToday(deps);
+  await assertPaymentsReachable(deps, prop.customerId);
 
   const { agreementId, invoiceId } = await db.transaction(async (tx) => {
     const held = await tx
@@ -269,6 +270,7 @@ export async function renewOnline(
   const a0 = await ownAgreement(deps, user, id);
   const t = await companyToday(deps);
   assertRenewable(a0, t);
+  await assertPaymentsReachable(deps, a0.customerId);
   const invoiceId = await deps.database.db.transaction(async (tx) => (await ensureRenewalInvoice(deps, tx, id, t)).invoice.id);
   const { checkoutUrl } = await startInvoiceCheckout(deps, invoiceId, { returnPath: '/portal/plan', saveCard });
   return { invoiceId, checkoutUrl };

@@ -17,9 +17,25 @@ export function providerError(e: unknown): unknown {
   if (e instanceof Stripe.errors.StripeIdempotencyError)
     return new AppError(409, 'payment_conflict', 'This payment was already started with other details. Please reload and try again.');
   if (e instanceof Stripe.errors.StripeInvalidRequestError) return new AppError(409, 'payment_refused', e.message);
-  if (e instanceof Stripe.errors.StripeError)
-    return new AppError(502, 'payment_provider_unavailable', 'The card processor is not answering. Nothing was recorded; please try again shortly.');
+  if (e instanceof Stripe.errors.StripeError) return paymentsUnavailable();
   return e;
+}
+
+/** The processor's port closed, timing out or answering 5xx: one clear answer, with Retry-After. */
+export const paymentsUnavailable = () =>
+  new AppError(503, 'payments_unavailable', 'Payments are unavailable right now. Nothing was charged or recorded; please try again in a few minutes.');
+
+/**
+ * Before a write that only makes sense with a payment page after it (an enrollment, a renewal
+ * invoice), ask the processor once, so an outage refuses the request with nothing recorded.
+ */
+export async function assertPaymentsReachable(deps: Pick<AppDeps, 'database' | 'stripe'>, customerId: string): Promise<void> {
+  try {
+    const id = await ensureStripeCustomer(deps, customerId);
+    await deps.stripe.customers.retrieve(id);
+  } catch (e) {
+    throw providerError(e);
+  }
 }
 
 // ---------- Processor customer ----------

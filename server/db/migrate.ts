@@ -3,6 +3,7 @@ import pg from 'pg';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { withSessionLock } from './advisory-lock';
 import { createDatabase } from './client';
 
 // From the source (server/db/) the folder is ../../migrations; compiled, every entry is a file in
@@ -42,14 +43,10 @@ export async function ensureDatabaseExists(url: string): Promise<void> {
 /** Runs pending migrations. migrate() takes no lock of its own, so we hold an advisory lock. */
 export async function runMigrations(url: string): Promise<void> {
   await ensureDatabaseExists(url);
-  const database = createDatabase(url, 2);
-  const lockClient = await database.pool.connect();
+  const database = createDatabase(url, 1);
   try {
-    await lockClient.query('select pg_advisory_lock($1)', [MIGRATION_LOCK]);
-    await migrate(database.db, { migrationsFolder: migrationsFolder() });
+    await withSessionLock(url, MIGRATION_LOCK, () => migrate(database.db, { migrationsFolder: migrationsFolder() }));
   } finally {
-    await lockClient.query('select pg_advisory_unlock($1)', [MIGRATION_LOCK]).catch(() => {});
-    lockClient.release();
     await database.close();
   }
 }

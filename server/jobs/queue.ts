@@ -1,5 +1,9 @@
 import PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
+import { withSessionLock } from '../db/advisory-lock';
+
+// Any fixed number, apart from the migration lock: every process starting the queue takes it.
+const QUEUE_SETUP_LOCK = 7_311_205;
 
 export type JobHandler<T extends object> = (data: T, job: { id: string; name: string }) => Promise<void>;
 
@@ -37,6 +41,8 @@ export class Jobs implements JobQueue {
     private readonly logger: Logger,
     /** pg-boss's schema; tests that run workers use one of their own. */
     private readonly schema = 'pgboss',
+    /** pg-boss's own settings, e.g. a shorter maintenance interval in tests. */
+    private readonly bossOptions: Omit<PgBoss.ConstructorOptions, 'connectionString' | 'schema'> = {},
   ) {}
 
   /** Register a queue and its handler; `cron` schedules it in the zone given to start(). */
@@ -49,14 +55,20 @@ export class Jobs implements JobQueue {
    * starts the workers. Without a zone (no company row yet) nothing is scheduled until a restart.
    */
   async start({ work = true, timeZone }: { work?: boolean; timeZone: string | null }): Promise<void> {
-    const boss = new PgBoss({ connectionString: this.connectionString, schema: this.schema, max: 4 });
+    const boss = new PgBoss({ max: 4, ...this.bossOptions, connectionString: this.connectionString, schema: this.schema });
     boss.on('error', (err) => this.logger.error({ err }, 'job queue error'));
-    await boss.start();
-    for (const r of this.registrations) {
-      await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
-      if (r.cron && timeZone) await boss.schedule(r.name, r.cron, {}, { tz: timeZone });
-      else if (r.cron) this.logger.warn({ queue: r.name }, 'the company is not set up: scheduled job not scheduled');
-      if (work) {
+    // pg-boss installs its schema under a lock, but createQueue takes none: two processes creating
+    // queues at once on a new database deadlock (40P01). One process at a time sets up.
+    await withSessionLock(this.connectionString, QUEUE_SETUP_LOCK, async () => {
+      await boss.start();
+      for (const r of this.registrations) {
+        await boss.createQueue(r.name, { name: r.name, retryLimit: 5, retryDelay: 30, retryBackoff: true, ...r.options });
+        if (r.cron && timeZone) await boss.schedule(r.name, r.cron, {}, { tz: timeZone });
+        else if (r.cron) this.logger.warn({ queue: r.name }, 'the company is not set up: scheduled job not scheduled');
+      }
+    });
+    if (work) {
+      for (const r of this.registrations) {
         const workerId = await boss.work<object>(r.name, r.work ?? {}, async (jobs) => {
           for (const job of jobs) await r.handler(job.data ?? {}, { id: job.id, name: job.name });
         });

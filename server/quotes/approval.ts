@@ -83,6 +83,7 @@ export async function approveQuote(deps: MailDeps, user: SessionUser, id: string
       {
         customerId: q.customerId,
         agreementId: visit!.agreementId,
+        visitId: q.visitId,
         lines: invoiceLinesOf({
           lines: lines.map((l) => ({ ...l, quantity: Number(l.quantity), rules: [] })),
           subtotalCents: 0,
@@ -220,6 +221,7 @@ export async function createWorkInvoice(deps: MailDeps, user: SessionUser, body:
       {
         customerId: body.customerId,
         agreementId: body.visitId ? visit.agreementId : null,
+        visitId: body.visitId ?? null,
         lines: invoiceLinesOf(c),
         taxRateBps,
         totals: { subtotalCents: c.subtotalCents, discountCents: c.savingsCents, taxCents: c.taxCents, totalCents: c.totalCents },

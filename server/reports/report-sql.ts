@@ -76,19 +76,22 @@ function agreementsSql(q: ReportQuery, now: Date): SQL {
 function revenueSql(q: ReportQuery, now: Date): SQL {
   return sql`with ${range(q, now)},
     months as (select m::date as month from rng, generate_series(date_trunc('month', rng.d0), date_trunc('month', rng.d1), interval '1 month') m),
+    -- What each payment paid for: plans (agreement invoices), tune-ups (service invoices for work
+    -- on a tune-up visit), repairs (every other service invoice). A refund counts against the same.
     received as (
-      select date_trunc('month', p.succeeded_at at time zone tz.z)::date as month, i.purpose, p.amount_cents::bigint as cents
-      from payments p join invoices i on i.id = p.invoice_id, tz, rng
+      select date_trunc('month', p.succeeded_at at time zone tz.z)::date as month, i.purpose, v.kind, p.amount_cents::bigint as cents
+      from payments p join invoices i on i.id = p.invoice_id left join visits v on v.id = i.visit_id, tz, rng
       where p.status = 'succeeded' and p.succeeded_at >= rng.t0 and p.succeeded_at < rng.t1
       union all
-      select date_trunc('month', r.created_at at time zone tz.z)::date, i.purpose, -r.amount_cents::bigint
-      from refunds r join payments p on p.id = r.payment_id join invoices i on i.id = p.invoice_id, tz, rng
+      select date_trunc('month', r.created_at at time zone tz.z)::date, i.purpose, v.kind, -r.amount_cents::bigint
+      from refunds r join payments p on p.id = r.payment_id join invoices i on i.id = p.invoice_id left join visits v on v.id = i.visit_id, tz, rng
       where r.created_at >= rng.t0 and r.created_at < rng.t1
     ),
     money as (
       select month,
         coalesce(sum(cents) filter (where purpose <> 'service'), 0) as plans,
-        coalesce(sum(cents) filter (where purpose = 'service'), 0) as repairs
+        coalesce(sum(cents) filter (where purpose = 'service' and kind is not distinct from 'tune_up'), 0) as tune_ups,
+        coalesce(sum(cents) filter (where purpose = 'service' and kind is distinct from 'tune_up'), 0) as repairs
       from received group by month
     ),
     issued as (
@@ -100,8 +103,9 @@ function revenueSql(q: ReportQuery, now: Date): SQL {
     )
     select to_char(m.month, 'YYYY-MM-DD') as month,
       coalesce(money.plans, 0)::bigint as plans_cents,
+      coalesce(money.tune_ups, 0)::bigint as tune_ups_cents,
       coalesce(money.repairs, 0)::bigint as repairs_cents,
-      (coalesce(money.plans, 0) + coalesce(money.repairs, 0))::bigint as total_cents,
+      (coalesce(money.plans, 0) + coalesce(money.tune_ups, 0) + coalesce(money.repairs, 0))::bigint as total_cents,
       coalesce(issued.n, 0) as invoices,
       issued.average as average_invoice_cents,
       coalesce(issued.savings, 0)::bigint as savings_cents
@@ -121,13 +125,27 @@ function visitsSql(q: ReportQuery, now: Date): SQL {
       from visits v, tz, rng
       where v.status <> 'canceled' and v.starts_at >= rng.t0 and v.starts_at < rng.t1
       group by 1
+    ),
+    -- A repair: a visit on which the homeowner approved a quote, unless the visit is itself the
+    -- follow-up of an earlier quote (that repair is counted on its first visit). Fixed on the
+    -- first visit: no approved quote on it had to open a follow-up visit for an ordered part.
+    repairs as (
+      select date_trunc('week', v.starts_at at time zone tz.z)::date as week, count(*)::int as repairs,
+        count(*) filter (where not exists (select 1 from quotes o where o.visit_id = v.id and o.status = 'approved' and o.follow_up_visit_id is not null))::int as first_visit
+      from visits v, tz, rng
+      where v.status <> 'canceled' and v.starts_at >= rng.t0 and v.starts_at < rng.t1
+        and exists (select 1 from quotes a where a.visit_id = v.id and a.status = 'approved')
+        and not exists (select 1 from quotes f where f.follow_up_visit_id = v.id)
+      group by 1
     )
     select to_char(w.week, 'YYYY-MM-DD') as week,
       coalesce(c.tune_ups, 0) as tune_ups, coalesce(c.service_calls, 0) as service_calls,
       coalesce(c.done, 0) as done, coalesce(c.no_shows, 0) as no_shows,
       case when coalesce(c.done, 0) + coalesce(c.no_shows, 0) = 0 then null
-        else c.no_shows::float8 / (c.done + c.no_shows) end as no_show_rate
-    from weeks w left join counted c using (week)
+        else c.no_shows::float8 / (c.done + c.no_shows) end as no_show_rate,
+      coalesce(r.repairs, 0) as repairs, coalesce(r.first_visit, 0) as first_visit_fixes,
+      case when coalesce(r.repairs, 0) = 0 then null else r.first_visit::float8 / r.repairs end as first_visit_fix_rate
+    from weeks w left join counted c using (week) left join repairs r using (week)
     order by w.week`;
 }
 

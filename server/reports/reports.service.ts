@@ -21,6 +21,7 @@ const SHAPE: { [N in ReportName]: (r: Raw) => ReportRows[N] } = {
   revenue: (r) => ({
     month: String(r.month),
     plansCents: int(r.plans_cents),
+    tuneUpsCents: int(r.tune_ups_cents),
     repairsCents: int(r.repairs_cents),
     totalCents: int(r.total_cents),
     invoices: int(r.invoices),
@@ -34,6 +35,9 @@ const SHAPE: { [N in ReportName]: (r: Raw) => ReportRows[N] } = {
     done: int(r.done),
     noShows: int(r.no_shows),
     noShowRate: intOrNull(r.no_show_rate),
+    repairs: int(r.repairs),
+    firstVisitFixes: int(r.first_visit_fixes),
+    firstVisitFixRate: intOrNull(r.first_visit_fix_rate),
   }),
   utilisation: (r) => ({
     week: String(r.week),
@@ -63,12 +67,21 @@ const CSV: { [N in ReportName]: { fields: string[]; row: (r: ReportRows[N]) => (
     row: (r) => [r.month, r.active, r.new, r.due, r.renewed, r.lapsed, ratio(r.renewalRate)],
   },
   revenue: {
-    fields: ['month', 'plans_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd'],
-    row: (r) => [r.month, dollars(r.plansCents), dollars(r.repairsCents), dollars(r.totalCents), r.invoices, dollars(r.averageInvoiceCents), dollars(r.savingsCents)],
+    fields: ['month', 'plans_usd', 'tune_ups_usd', 'repairs_usd', 'total_usd', 'invoices_issued', 'average_invoice_usd', 'coverage_savings_usd'],
+    row: (r) => [
+      r.month,
+      dollars(r.plansCents),
+      dollars(r.tuneUpsCents),
+      dollars(r.repairsCents),
+      dollars(r.totalCents),
+      r.invoices,
+      dollars(r.averageInvoiceCents),
+      dollars(r.savingsCents),
+    ],
   },
   visits: {
-    fields: ['week', 'tune_ups', 'service_calls', 'done', 'no_shows', 'no_show_rate'],
-    row: (r) => [r.week, r.tuneUps, r.serviceCalls, r.done, r.noShows, ratio(r.noShowRate)],
+    fields: ['week', 'tune_ups', 'service_calls', 'done', 'no_shows', 'no_show_rate', 'repairs', 'first_visit_fixes', 'first_visit_fix_rate'],
+    row: (r) => [r.week, r.tuneUps, r.serviceCalls, r.done, r.noShows, ratio(r.noShowRate), r.repairs, r.firstVisitFixes, ratio(r.firstVisitFixRate)],
   },
   utilisation: {
     fields: ['week', 'technician', 'booked_hours', 'available_hours', 'utilisation'],

@@ -38,7 +38,11 @@ export interface AgreementsMonth {
 
 export interface RevenueMonth {
   month: string;
+  /** Enrollment, renewal and plan-change invoices. */
   plansCents: number;
+  /** Service invoices for work on a tune-up visit. */
+  tuneUpsCents: number;
+  /** Every other service invoice: service calls, follow-up visits, invoices typed without a visit. */
   repairsCents: number;
   totalCents: number;
   invoices: number;
@@ -55,6 +59,12 @@ export interface VisitsWeek {
   noShows: number;
   /** no-shows ÷ (done + no-shows), 0–1; null in a week with neither. */
   noShowRate: number | null;
+  /** Visits on which the homeowner approved a quote, follow-up visits left out. */
+  repairs: number;
+  /** …of which no approved quote opened a follow-up visit for an ordered part. */
+  firstVisitFixes: number;
+  /** firstVisitFixes ÷ repairs, 0–1; null in a week with no repair. */
+  firstVisitFixRate: number | null;
 }
 
 export interface UtilisationWeek {

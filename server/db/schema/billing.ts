@@ -7,6 +7,7 @@ import { customers } from './customers';
 import { agreements } from './agreements';
 import { planVersions } from './plans';
 import { users } from './users';
+import { visits } from './visits';
 
 // One row per company: the next invoice number. Taken with UPDATE … RETURNING inside the
 // transaction that issues the invoice, so numbers never skip or repeat.
@@ -40,6 +41,9 @@ export const invoices = pgTable(
       .notNull()
       .references(() => customers.id, { onDelete: 'restrict' }),
     agreementId: uuid().references(() => agreements.id, { onDelete: 'restrict' }),
+    // The visit the work was done on (a service invoice from a quote or the technician's invoice),
+    // so revenue can be split by the kind of visit; null for plan invoices and office-typed ones.
+    visitId: uuid().references(() => visits.id, { onDelete: 'restrict' }),
     purpose: text({ enum: INVOICE_PURPOSES }).notNull(),
     status: text({ enum: INVOICE_STATUSES }).notNull(),
     // For agreement invoices: the plan version sold and the term it pays for.
@@ -66,6 +70,7 @@ export const invoices = pgTable(
       .on(t.agreementId, t.termStartsOn, t.purpose)
       .where(sql`${t.purpose} in ('enrollment', 'renewal') and ${t.status} <> 'void'`),
     index('invoices_customer_idx').on(t.customerId),
+    index('invoices_visit_idx').on(t.visitId),
     index('invoices_status_idx').on(t.status),
     check('invoices_status', sql.raw(`status in (${inList(INVOICE_STATUSES)})`)),
     check('invoices_purpose', sql.raw(`purpose in (${inList(INVOICE_PURPOSES)})`)),

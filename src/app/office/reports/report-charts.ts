@@ -69,14 +69,16 @@ export function revenueChart(r: Report<'revenue'>): Config {
       labels: rows.map((x) => monthLabel(x.month)),
       datasets: [
         { label: 'Plans', data: rows.map((x) => dollars(x.plansCents)), backgroundColor: color('primary'), stack: 'money', yAxisID: 'y' },
+        { label: 'Tune-ups', data: rows.map((x) => dollars(x.tuneUpsCents)), backgroundColor: color('ink'), stack: 'money', yAxisID: 'y' },
         { label: 'Repairs', data: rows.map((x) => dollars(x.repairsCents)), backgroundColor: color('accent'), stack: 'money', yAxisID: 'y' },
         { label: 'Coverage savings', data: rows.map((x) => dollars(x.savingsCents)), backgroundColor: color('good'), stack: 'savings', yAxisID: 'y' },
         {
           type: 'line',
           label: 'Average invoice',
           data: rows.map((x) => dollars(x.averageInvoiceCents)),
-          borderColor: color('ink'),
-          backgroundColor: color('ink'),
+          borderColor: color('alert'),
+          backgroundColor: color('alert'),
+          borderDash: [6, 4],
           yAxisID: 'y2',
           spanGaps: true,
         },
@@ -88,7 +90,7 @@ export function revenueChart(r: Report<'revenue'>): Config {
 
 export function visitsChart(r: Report<'visits'>): Config {
   const rows = r.rows;
-  const options = base('Visits', 'No-show rate, %');
+  const options = base('Visits', 'No-show and first-visit fix rates, %');
   return {
     type: 'bar',
     data: {
@@ -102,6 +104,16 @@ export function visitsChart(r: Report<'visits'>): Config {
           data: rows.map((x) => pct(x.noShowRate)),
           borderColor: color('alert'),
           backgroundColor: color('alert'),
+          yAxisID: 'y2',
+          spanGaps: true,
+        },
+        {
+          type: 'line',
+          label: 'First-visit fix (%)',
+          data: rows.map((x) => pct(x.firstVisitFixRate)),
+          borderColor: color('good'),
+          backgroundColor: color('good'),
+          borderDash: [6, 4],
           yAxisID: 'y2',
           spanGaps: true,
         },
@@ -153,10 +165,11 @@ export function tableOf(r: Report): { head: string[]; rows: string[][] } {
       };
     case 'revenue':
       return {
-        head: ['Month', 'Plans', 'Repairs', 'Total', 'Invoices', 'Average invoice', 'Coverage savings'],
+        head: ['Month', 'Plans', 'Tune-ups', 'Repairs', 'Total', 'Invoices', 'Average invoice', 'Coverage savings'],
         rows: (r as Report<'revenue'>).rows.map((x) => [
           monthLabel(x.month),
           formatUsd(x.plansCents),
+          formatUsd(x.tuneUpsCents),
           formatUsd(x.repairsCents),
           formatUsd(x.totalCents),
           `${x.invoices}`,
@@ -166,8 +179,18 @@ export function tableOf(r: Report): { head: string[]; rows: string[][] } {
       };
     case 'visits':
       return {
-        head: ['Week of', 'Tune-ups', 'Service calls', 'Done', 'No-shows', 'No-show rate'],
-        rows: (r as Report<'visits'>).rows.map((x) => [weekLabel(x.week), `${x.tuneUps}`, `${x.serviceCalls}`, `${x.done}`, `${x.noShows}`, p(x.noShowRate)]),
+        head: ['Week of', 'Tune-ups', 'Service calls', 'Done', 'No-shows', 'No-show rate', 'Repairs', 'Fixed on first visit', 'First-visit fix'],
+        rows: (r as Report<'visits'>).rows.map((x) => [
+          weekLabel(x.week),
+          `${x.tuneUps}`,
+          `${x.serviceCalls}`,
+          `${x.done}`,
+          `${x.noShows}`,
+          p(x.noShowRate),
+          `${x.repairs}`,
+          `${x.firstVisitFixes}`,
+          p(x.firstVisitFixRate),
+        ]),
       };
     case 'utilisation':
       return {
