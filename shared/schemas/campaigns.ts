@@ -110,6 +110,51 @@ export interface DeliveryLogEntry {
   at: string;
 }
 
+/** A page of a delivery log: one keyset cursor (from the previous page's `next`) and a status. */
+export const deliveryPageQuerySchema = z
+  .object({
+    status: z.enum(REMINDER_SEND_STATUSES, { message: 'Status is pending, sending, sent, failed, suppressed or cancelled.' }).optional(),
+    after: z
+      .string({ message: 'After is the next-page cursor.' })
+      .max(300, 'After is the next-page cursor.')
+      .regex(/^[A-Za-z0-9_-]+$/, 'After is the next-page cursor.')
+      .optional(),
+  })
+  .strict();
+export type DeliveryPageQuery = z.infer<typeof deliveryPageQuerySchema>;
+
+/** One household in a campaign's outbox: what became of its message, with the mail server's reply. */
+export interface CampaignRecipientEntry {
+  sendId: string;
+  customerId: string;
+  name: string;
+  email: string;
+  status: ReminderSendStatus;
+  /** The server's reply: its acceptance when sent, its refusal when failed or waiting for a retry. */
+  reply: string | null;
+  attempts: number;
+  sentAt: string | null;
+}
+
+/** One reminder a household was sent (or is queued for), for its page in the office. */
+export interface HouseholdReminderEntry {
+  sendId: string;
+  campaignId: string;
+  kind: (typeof REMINDER_KINDS)[number];
+  label: string;
+  email: string;
+  status: ReminderSendStatus;
+  reply: string | null;
+  queuedAt: string;
+  sentAt: string | null;
+}
+
+export interface KeysetPage<T> {
+  items: T[];
+  /** Cursor for the next page, or null at the end. */
+  next: string | null;
+}
+
 // ---- The homeowner's side ----
 
 export const reminderPreferencesSchema = z

@@ -54,7 +54,11 @@ export const reminderSends = pgTable(
     attempts: integer().notNull().default(0),
     nextAttemptAt: tstz(),
     claimedAt: tstz(),
+    /** The lease of the worker that holds the row: its updates count only while the token is theirs. */
+    claimToken: uuid(),
     error: text(),
+    /** The mail server's reply when it accepted the message. */
+    smtpReply: text(),
     sentAt: tstz(),
     createdAt: createdAt(),
   },
