@@ -7,6 +7,15 @@ export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'ca
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
 export const REMINDER_SEND_STATUSES = ['pending', 'sending', 'sent', 'failed', 'suppressed', 'cancelled'] as const;
 export type ReminderSendStatus = (typeof REMINDER_SEND_STATUSES)[number];
+/** One word per outbox state, the same in the campaign's log and on the household's page. */
+export const REMINDER_SEND_STATUS_LABELS: Record<ReminderSendStatus, string> = {
+  pending: 'Queued',
+  sending: 'Sending',
+  sent: 'Sent',
+  failed: 'Failed',
+  suppressed: 'Unsubscribed',
+  cancelled: 'Cancelled',
+};
 
 export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter, coil cleaning or condensate drain.' });
 
