@@ -1,21 +1,12 @@
 import { z } from 'zod';
 import { EQUIPMENT_KINDS } from '../equipment';
 import { HOUSEHOLD_FACTORS } from '../reminders';
+import { REMINDER_SEND_STATUSES, type ReminderSendStatus } from '../reminder-sends';
 import { REMINDER_KINDS } from '../seasonal-reminders';
 
 export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'cancelled', 'done'] as const;
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
-export const REMINDER_SEND_STATUSES = ['pending', 'sending', 'sent', 'failed', 'suppressed', 'cancelled'] as const;
-export type ReminderSendStatus = (typeof REMINDER_SEND_STATUSES)[number];
-/** One word per outbox state, the same in the campaign's log and on the household's page. */
-export const REMINDER_SEND_STATUS_LABELS: Record<ReminderSendStatus, string> = {
-  pending: 'Queued',
-  sending: 'Sending',
-  sent: 'Sent',
-  failed: 'Failed',
-  suppressed: 'Unsubscribed',
-  cancelled: 'Cancelled',
-};
+export { REMINDER_SEND_STATUSES, REMINDER_SEND_STATUS_LABELS, type ReminderSendStatus } from '../reminder-sends';
 
 export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter, coil cleaning or condensate drain.' });
 

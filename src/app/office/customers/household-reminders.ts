@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { MatTableModule } from '@angular/material/table';
 import type { HouseholdReminderEntry } from '../../../../shared/schemas/campaigns';
 import { KeysetPager } from '../../core/keyset-pager';
 import { errorMessage, localCopy } from '../../core/resource-state';
@@ -12,40 +11,40 @@ import { RemindersApi } from '../reminders/reminders-api';
 /** The reminders a household was sent, newest first, with what became of each. */
 @Component({
   selector: 'sw-household-reminders',
-  imports: [DateTimePipe, MatButtonModule, MatTableModule, ReminderSendStatusBadge],
+  imports: [DateTimePipe, MatButtonModule, ReminderSendStatusBadge],
   template: `
     <section class="log" aria-labelledby="household-reminders-title">
       <h2 id="household-reminders-title">Reminders sent</h2>
       @if (error(); as message) {
         <p class="error" role="alert">{{ message }}</p>
       }
+      <!-- A plain table: the customer page carries no Material table code for one small list. -->
       <div class="table-wrap" style="--sw-page-rows: 5">
-        <table mat-table [dataSource]="items()" aria-label="Reminders this household was sent">
-          <ng-container matColumnDef="label">
-            <th mat-header-cell *matHeaderCellDef scope="col">Reminder</th>
-            <td mat-cell *matCellDef="let r">{{ r.label }}</td>
-          </ng-container>
-          <ng-container matColumnDef="email">
-            <th mat-header-cell *matHeaderCellDef scope="col">To</th>
-            <td mat-cell *matCellDef="let r">{{ r.email }}</td>
-          </ng-container>
-          <ng-container matColumnDef="status">
-            <th mat-header-cell *matHeaderCellDef scope="col">Status</th>
-            <td mat-cell *matCellDef="let r"><sw-reminder-send-status [status]="r.status" /></td>
-          </ng-container>
-          <ng-container matColumnDef="reply">
-            <th mat-header-cell *matHeaderCellDef scope="col">Mail server's reply</th>
-            <td mat-cell *matCellDef="let r" class="reply">{{ r.reply ?? '—' }}</td>
-          </ng-container>
-          <ng-container matColumnDef="at">
-            <th mat-header-cell *matHeaderCellDef scope="col">When</th>
-            <td mat-cell *matCellDef="let r">{{ r.sentAt ?? r.queuedAt | swDateTime }}</td>
-          </ng-container>
-          <tr mat-header-row *matHeaderRowDef="columns"></tr>
-          <tr mat-row *matRowDef="let row; columns: columns"></tr>
-          <tr class="mat-mdc-row" *matNoDataRow>
-            <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">{{ page() ? 'No reminders sent to this household yet.' : 'Loading…' }}</td>
-          </tr>
+        <table class="plain-table" aria-label="Reminders this household was sent">
+          <thead>
+            <tr>
+              <th scope="col">Reminder</th>
+              <th scope="col">To</th>
+              <th scope="col">Status</th>
+              <th scope="col">Mail server's reply</th>
+              <th scope="col">When</th>
+            </tr>
+          </thead>
+          <tbody>
+            @for (r of items(); track r.sendId) {
+              <tr>
+                <td>{{ r.label }}</td>
+                <td>{{ r.email }}</td>
+                <td><sw-reminder-send-status [status]="r.status" /></td>
+                <td class="reply">{{ r.reply ?? '—' }}</td>
+                <td>{{ r.sentAt ?? r.queuedAt | swDateTime }}</td>
+              </tr>
+            } @empty {
+              <tr>
+                <td class="empty" colspan="5">{{ page() ? 'No reminders sent to this household yet.' : 'Loading…' }}</td>
+              </tr>
+            }
+          </tbody>
         </table>
       </div>
       @if (pager.hasPrevious() || page()?.next) {
@@ -63,7 +62,6 @@ import { RemindersApi } from '../reminders/reminders-api';
 export class HouseholdReminders {
   private readonly api = inject(RemindersApi);
   readonly customerId = input.required<string>();
-  protected readonly columns = ['label', 'email', 'status', 'reply', 'at'];
   protected readonly pager = new KeysetPager();
   private readonly read = rxResource({
     params: () => ({ id: this.customerId(), after: this.pager.after() }),

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { REMINDER_SEND_STATUS_LABELS, type ReminderSendStatus } from '../../../../shared/schemas/campaigns';
+import { REMINDER_SEND_STATUS_LABELS, type ReminderSendStatus } from '../../../../shared/reminder-sends';
 
 const ICON: Record<ReminderSendStatus, string> = {
   pending: 'status-watch',
