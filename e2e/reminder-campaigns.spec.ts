@@ -1,9 +1,9 @@
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test, type Browser, type Locator, type Page } from '@playwright/test';
 import { DEMO, MAILBOX_URL, latestMail } from './support/env';
 
-async function signInOffice(page: Page) {
+async function signIn(page: Page, email: string) {
   await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.office);
+  await page.getByLabel('E-mail address').fill(email);
   await page.getByLabel('Password').fill(DEMO.staffPassword);
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
   await expect(page.getByRole('button', { name: 'Account menu' })).toBeVisible();
@@ -31,20 +31,57 @@ async function sendToPlanMembers(page: Page, kind: RegExp, plan = 'Plan members'
   return count;
 }
 
-// In the demo's December every plan member already had the fall heating tune-up, so the journey
-// sends the coming season's cooling tune-up; the heating campaign is the same path.
-test('the office sends a seasonal tune-up campaign; one homeowner books from it, another unsubscribes and gets no more', async ({ page, browser }) => {
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
+
+/** The owner's season table: sets both months and returns the ones it replaced. */
+async function setSeasons(page: Page, seasons: { cooling: string; heating: string }): Promise<{ cooling: string; heating: string }> {
+  await page.goto('/admin/hours');
+  const cooling = page.getByLabel('Cooling season starts');
+  const heating = page.getByLabel('Heating season starts');
+  await expect(page.getByRole('button', { name: 'Save settings' })).toBeEnabled();
+  const chosen = (select: Locator) => select.evaluate((el: HTMLSelectElement) => el.options[el.selectedIndex]?.text.trim() ?? '', undefined, { timeout: 10_000 });
+  const before = { cooling: await chosen(cooling), heating: await chosen(heating) };
+  expect(MONTHS).toContain(before.heating);
+  await cooling.selectOption({ label: seasons.cooling });
+  await heating.selectOption({ label: seasons.heating });
+  await page.getByRole('button', { name: 'Save settings' }).click();
+  await expect(page.getByText('Saved. New bookings use these hours and rules from now on.')).toBeVisible();
+  return before;
+}
+
+// The demo's plan members all had a tune-up 40 to 65 days ago, which is this heating season's from
+// September to February. So that the journey runs on any date, the owner first has the heating
+// season start next month (cooling six months later): then every plan member is due for the fall
+// heating tune-up ahead, except those with one already booked. The table is put back at the end.
+test('the office sends a fall heating tune-up campaign; one homeowner books from it, another unsubscribes and gets no more', async ({ page, browser }) => {
   // Three campaigns and a booking: more than one journey's usual time.
   test.setTimeout(240_000);
-  await signInOffice(page);
+  const owner = await (await browser.newContext()).newPage();
+  await signIn(owner, DEMO.owner);
+  // The month in the company's zone (America/Chicago), as the server counts it.
+  const month = Number(new Intl.DateTimeFormat('en-US', { timeZone: 'America/Chicago', month: 'numeric' }).format(new Date()));
+  const original = await setSeasons(owner, { cooling: MONTHS[(month + 6) % 12]!, heating: MONTHS[month % 12]! });
+  try {
+    await heatingJourney(page, browser);
+  } finally {
+    await setSeasons(owner, original);
+  }
+});
+
+async function heatingJourney(page: Page, browser: Browser) {
+  await signIn(page, DEMO.office);
   const started = Date.now();
-  const count = await sendToPlanMembers(page, /Spring cooling tune-up/);
+  const count = await sendToPlanMembers(page, /Fall heating tune-up/);
   expect(count).toBeGreaterThan(1);
+  // The delivery log lists each household with the mail server's reply.
+  const log = page.getByRole('table', { name: 'Households in this campaign' });
+  await expect(log.getByText('Sent', { exact: true }).first()).toBeVisible();
+  await expect(log.getByText(/^250 /).first()).toBeVisible();
 
   // Two plan members' messages, from the test mailbox.
   const res = await fetch(`${MAILBOX_URL}/api/messages`);
   const list = (await res.json()) as { id: string; to: string[]; subject: string; receivedAt: string }[];
-  const tuneUps = list.filter((m) => m.subject === 'Time to book your spring cooling tune-up' && new Date(m.receivedAt).getTime() > started - 1000);
+  const tuneUps = list.filter((m) => m.subject === 'Time to book your fall heating tune-up' && new Date(m.receivedAt).getTime() > started - 1000);
   expect(tuneUps.length).toBeGreaterThan(1);
   const booker = tuneUps.find((m) => m.to.includes(DEMO.homeownerB)) ?? tuneUps[0]!;
 
@@ -57,8 +94,8 @@ test('the office sends a seasonal tune-up campaign; one homeowner books from it,
   const asked = Date.now();
   await home.getByLabel('E-mail address').fill(booker.to[0]!);
   await home.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const signIn = await latestMail(booker.to[0]!, { after: asked - 1000 });
-  await home.goto(signIn.links.find((l) => l.includes('/sign-in/confirm?token='))!);
+  const signInMail = await latestMail(booker.to[0]!, { after: asked - 1000 });
+  await home.goto(signInMail.links.find((l) => l.includes('/sign-in/confirm?token='))!);
   await home.getByRole('button', { name: 'Sign me in' }).click();
   await expect(home).toHaveURL(/\/portal/);
   await home.goto(new URL(link).pathname + new URL(link).search);
@@ -101,4 +138,7 @@ test('the office sends a seasonal tune-up campaign; one homeowner books from it,
   await sendToPlanMembers(page, /Outdoor coil cleaning/, 'No plan');
   await expect(page.getByText(/[1-9]\d* unsubscribed/).first()).toBeVisible();
   await expect(latestMail(leaver.to[0]!, { after: second - 500, timeoutMs: 3000 })).rejects.toThrow(/no mail/);
-});
+  await page.getByLabel('Show').click();
+  await page.getByRole('option', { name: 'Unsubscribed' }).click();
+  await expect(page.getByRole('table', { name: 'Households in this campaign' }).getByText(leaver.to[0]!)).toBeVisible();
+}

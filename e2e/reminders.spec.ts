@@ -13,7 +13,8 @@ test('the office sends seasonal tune-up reminders and each household gets one e-
   await page.getByRole('button', { name: /Spring cooling tune-up/ }).click();
 
   // The audience is listed, with why each household is due, before anything is sent.
-  const row = page.getByRole('row').filter({ hasText: DEMO.homeownerA });
+  const audience = page.getByRole('table', { name: /Households that will receive this reminder/ });
+  const row = audience.getByRole('row').filter({ hasText: DEMO.homeownerA });
   await expect(row).toContainText('cooling tune-up');
   const startedAt = Date.now();
   const send = page.getByRole('button', { name: /^Send to \d+ households/ });
@@ -29,6 +30,7 @@ test('the office sends seasonal tune-up reminders and each household gets one e-
   // The button opens the booking stepper with the tune-up and the home already chosen.
   expect(mail.links.some((l) => /\/portal\/booking\?kind=tune_up&property=[0-9a-f-]{36}$/.test(l))).toBe(true);
 
-  // Sent once: the household is no longer in the list of who is due.
-  await expect(page.getByRole('row').filter({ hasText: DEMO.homeownerA })).toHaveCount(0);
+  // Sent once: the household is no longer in the list of who is due, and the delivery log has it sent.
+  await expect(audience.getByRole('row').filter({ hasText: DEMO.homeownerA })).toHaveCount(0);
+  await expect(page.getByRole('table', { name: 'Households in this campaign' }).getByRole('row').filter({ hasText: DEMO.homeownerA })).toContainText('Sent');
 });

@@ -32,7 +32,8 @@ const deps: AppDeps = {
   database,
   clock: () => new Date(),
   logger,
-  mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM }),
+  // Outside production the test mailbox can say whether a message interrupted mid-send arrived.
+  mailer: createMailer({ smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, deliveryCheckUrl: config.production ? undefined : config.MAILBOX_URL }),
   jobs,
   stripe: createStripe({ secretKey: config.STRIPE_SECRET_KEY, apiUrl: config.STRIPE_API_URL }),
   storage: createStorage({

@@ -13,7 +13,14 @@ import {
 } from '../shared/schemas/auth';
 import { createInvoiceSchema, invoiceListQuerySchema, offlinePaymentSchema, refundSchema } from '../shared/schemas/billing';
 import { assignSchema, boardQuerySchema, bookVisitSchema, cancelSchema, rescheduleSchema, statusChangeSchema, timeOffSchema, windowsQuerySchema } from '../shared/schemas/booking';
-import { audienceQuerySchema, campaignActionSchema, createCampaignSchema, filterChangedSchema, reminderPreferencesSchema } from '../shared/schemas/campaigns';
+import {
+  audienceQuerySchema,
+  campaignActionSchema,
+  createCampaignSchema,
+  deliveryPageQuerySchema,
+  filterChangedSchema,
+  reminderPreferencesSchema,
+} from '../shared/schemas/campaigns';
 import {
   contactInputSchema,
   customerCreateSchema,
@@ -137,6 +144,8 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'GET /api/reminders/campaigns/:id': { as: 'office', params: id },
   'POST /api/reminders/campaigns/:id/actions': { as: 'office', params: id, body: campaignActionSchema },
   'GET /api/reminders/campaigns/:id/deliveries': { as: 'office', params: id, query: deliveryLogQuery },
+  'GET /api/reminders/campaigns/:id/recipients': { as: 'office', params: id, query: deliveryPageQuerySchema },
+  'GET /api/reminders/households/:customerId/sends': { as: 'office', params: ids('customerId'), query: deliveryPageQuerySchema },
   'GET /api/settings/company': { as: 'owner' },
   'PUT /api/settings/company': { as: 'owner', body: companySettingsSchema },
   'GET /api/session': { as: 'anonymous' },

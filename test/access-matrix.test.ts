@@ -116,6 +116,8 @@ const ROUTES: Record<string, Row> = {
   'GET /api/reminders/preview/messages': { allow: ['office', 'owner'] },
   'POST /api/reminders/campaigns/:id/actions': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
   'GET /api/reminders/campaigns/:id/deliveries': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/reminders/campaigns/:id/recipients': { allow: ['office', 'owner'], params: { id: () => NO_SUCH_ID } },
+  'GET /api/reminders/households/:customerId/sends': { allow: ['office', 'owner'], params: { customerId: () => NO_SUCH_ID } },
   'GET /api/session': { allow: 'public' },
   'POST /api/auth/staff/sign-in': { allow: 'public' },
   'POST /api/auth/link': { allow: 'public' },

@@ -3,6 +3,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MailDeliveryError, type Mailer, type OutgoingMail } from '../server/integrations/mail';
 import { sendCampaign } from '../server/campaigns/campaigns.service';
+import { campaignRecipients } from '../server/campaigns/delivery-log';
 import { DEFAULT_TUNING } from '../server/campaigns/campaign-send';
 import { customers, equipment, filterChanges, properties, reminderCampaigns, reminderDeliveries, reminderSends, users } from '../server/db/schema';
 import { testApp, type TestContext } from './support/app';
@@ -25,7 +26,7 @@ function scriptedMailer(): Mailer & { sent: OutgoingMail[] } {
         throw new MailDeliveryError('421 try again later', 421);
       }
       sent.push(m);
-      return { messageId: `<${randomUUID()}@test>` };
+      return { messageId: `<${randomUUID()}@test>`, response: `250 2.0.0 Ok: queued as ${sent.length}` };
     },
     async verify() {},
     close() {},
@@ -132,6 +133,57 @@ describe('campaigns: audience, schedule, pause, failures and the homeowner side'
     expect(summary.body).toMatchObject({ status: 'done', sent: 1, failed: 1, pending: 0 });
     const deliveries = await office.agent.get(`/api/reminders/campaigns/${camp!.id}/deliveries?customerId=${refuse.customerId}`);
     expect(deliveries.body.deliveries[0]).toMatchObject({ event: 'failed', permanent: true, detail: expect.stringContaining('550') });
+  });
+
+  it('the delivery log lists each household with the server reply, per campaign and per household, in keyset pages', async () => {
+    const { db } = ctx.database;
+    const [u] = await db.select({ id: users.id }).from(users).where(eq(users.email, OFFICE));
+    const homes = [
+      ...(await Promise.all([1, 2, 3].map(() => household({ zip: '64790', filterSize: '16x25x1', changedDaysAgo: 1, prefix: 'log' })))),
+      await household({ zip: '64790', filterSize: '16x25x1', changedDaysAgo: 1, prefix: 'refuse' }),
+      await household({ zip: '64790', filterSize: '16x25x1', changedDaysAgo: 1, prefix: 'gone' }),
+    ];
+    const [camp] = await db.insert(reminderCampaigns).values({ kind: 'filter', createdById: u!.id, audienceCount: 5, status: 'sending' }).returning({ id: reminderCampaigns.id });
+    for (const h of homes) {
+      const [c] = await db.select({ email: customers.email }).from(customers).where(eq(customers.id, h.customerId));
+      await db.insert(reminderSends).values({ campaignId: camp!.id, customerId: h.customerId, propertyId: h.propertyId, kind: 'filter', email: c!.email!, reason: 'due' });
+      if (c!.email!.startsWith('gone.'))
+        await db.execute(sql`insert into mail_suppressions (email, purpose, customer_id, source) values (${c!.email}, 'reminders', ${h.customerId}, 'test')`);
+    }
+    const office = await signInStaff(ctx, OFFICE);
+    // Before sending: everyone queued.
+    const queued = await office.agent.get(`/api/reminders/campaigns/${camp!.id}/recipients`);
+    expect(queued.body.items.map((r: { status: string }) => r.status)).toEqual(['pending', 'pending', 'pending', 'pending', 'pending']);
+    await sendCampaign(ctx.deps, camp!.id, { ...DEFAULT_TUNING, retryBaseMs: 20 });
+
+    const all = await office.agent.get(`/api/reminders/campaigns/${camp!.id}/recipients`);
+    expect(all.status).toBe(200);
+    expect(all.body.next).toBeNull();
+    const byStatus = (s: string) => all.body.items.filter((r: { status: string }) => r.status === s);
+    expect(byStatus('sent')).toHaveLength(3);
+    expect(byStatus('sent')[0].reply).toMatch(/^250 /);
+    expect(byStatus('failed')).toEqual([expect.objectContaining({ reply: expect.stringContaining('550'), attempts: 1 })]);
+    expect(byStatus('suppressed')).toEqual([expect.objectContaining({ reply: 'Unsubscribed: not sent.', sentAt: null })]);
+    const failed = await office.agent.get(`/api/reminders/campaigns/${camp!.id}/recipients?status=failed`);
+    expect(failed.body.items).toHaveLength(1);
+
+    // Pages of two, following the cursor: every household once, in name order.
+    const seen: string[] = [];
+    let after: string | undefined;
+    do {
+      const page = await campaignRecipients(ctx.deps, camp!.id, after ? { after } : {}, 2);
+      expect(page.items.length).toBeLessThanOrEqual(2);
+      seen.push(...page.items.map((r) => r.name));
+      after = page.next ?? undefined;
+    } while (after);
+    expect(seen).toHaveLength(5);
+    expect(seen).toEqual([...seen].sort());
+    expect((await office.agent.get(`/api/reminders/campaigns/${camp!.id}/recipients?after=bm90LWEtY3Vyc29y`)).status).toBe(422);
+
+    const mine = await office.agent.get(`/api/reminders/households/${homes[3]!.customerId}/sends`);
+    expect(mine.body.items).toEqual([expect.objectContaining({ campaignId: camp!.id, label: 'Filter change', status: 'failed', reply: expect.stringContaining('550') })]);
+    const homeowner = await signInHomeowner(ctx, DANA);
+    expect((await homeowner.agent.get(`/api/reminders/households/${homes[3]!.customerId}/sends`)).status).toBe(403);
   });
 
   it('the homeowner sees what is due, marks a filter changed, and turns a reminder off', async () => {

@@ -14,6 +14,9 @@ export interface CampaignRecipient {
   kind: ReminderKind;
 }
 
+/** The stable key (and so the Message-ID) of one outbox row's message, whoever sends it. */
+export const reminderMessageKey = (sendId: string) => `reminder-${sendId}`;
+
 export const postalAddress = (c: Pick<CompanyRow, 'street' | 'city' | 'state' | 'zip'>) => `${c.street}, ${c.city}, ${c.state} ${c.zip}`;
 
 /** The booking stepper on a tune-up for the household's home (the kind and the home already chosen). */
@@ -44,7 +47,7 @@ export function campaignMail(deps: Pick<AppDeps, 'config'>, company: CompanyRow,
     subject: words.subject,
     text,
     html,
-    idempotencyKey: `reminder-${r.id}`,
+    idempotencyKey: reminderMessageKey(r.id),
     list: { unsubscribeUrl: unsubscribe.url, unsubscribeMailto: unsubscribe.mailto },
   };
 }

@@ -1,13 +1,15 @@
 import { Router } from 'express';
 import * as z from 'zod';
-import { audienceQuerySchema, campaignActionSchema, createCampaignSchema } from '../../shared/schemas/campaigns';
+import { audienceQuerySchema, campaignActionSchema, createCampaignSchema, deliveryPageQuerySchema } from '../../shared/schemas/campaigns';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
+import { campaignRecipients, householdReminders } from './delivery-log';
 import { actOnCampaign, campaignSummary, createCampaign, deliveryLog, listCampaigns, previewMessages, previewReminders } from './campaigns.service';
 
 const idParams = z.object({ id: z.uuid({ message: 'Campaign id is not valid.' }) });
 export const previewPageQuery = z.object({ after: z.uuid({ message: 'After is a household id.' }).optional() });
+export const householdParams = z.object({ customerId: z.uuid({ message: 'Customer id is not valid.' }) });
 export const deliveryLogQuery = z.object({ customerId: z.uuid({ message: 'Customer id is not valid.' }).optional() });
 
 function filterOf(q: z.infer<typeof audienceQuerySchema>) {
@@ -54,6 +56,18 @@ export function campaignRoutes(deps: AppDeps): Router {
     const { id } = parse(idParams, req.params);
     const { customerId } = parse(deliveryLogQuery, req.query);
     res.json({ deliveries: await deliveryLog(deps, id, customerId) });
+  });
+
+  // Each household in the campaign and what became of its message, a keyset page at a time.
+  router.get('/campaigns/:id/recipients', async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    res.json(await campaignRecipients(deps, id, parse(deliveryPageQuerySchema, req.query)));
+  });
+
+  // The reminders one household was sent, newest first (staff see every household).
+  router.get('/households/:customerId/sends', async (req, res) => {
+    const { customerId } = parse(householdParams, req.params);
+    res.json(await householdReminders(deps, customerId, parse(deliveryPageQuerySchema, req.query)));
   });
 
   return router;

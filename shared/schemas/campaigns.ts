@@ -1,12 +1,12 @@
 import * as z from 'zod';
 import { EQUIPMENT_KINDS } from '../equipment';
 import { HOUSEHOLD_FACTORS } from '../reminders';
+import { REMINDER_SEND_STATUSES, type ReminderSendStatus } from '../reminder-sends';
 import { REMINDER_KINDS } from '../seasonal-reminders';
 
 export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'cancelled', 'done'] as const;
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
-export const REMINDER_SEND_STATUSES = ['pending', 'sending', 'sent', 'failed', 'suppressed', 'cancelled'] as const;
-export type ReminderSendStatus = (typeof REMINDER_SEND_STATUSES)[number];
+export { REMINDER_SEND_STATUSES, REMINDER_SEND_STATUS_LABELS, type ReminderSendStatus } from '../reminder-sends';
 
 export const reminderKindSchema = z.enum(REMINDER_KINDS, { message: 'Choose a reminder: cooling tune-up, heating tune-up, filter, coil cleaning or condensate drain.' });
 
@@ -108,6 +108,51 @@ export interface DeliveryLogEntry {
   detail: string;
   permanent: boolean;
   at: string;
+}
+
+/** A page of a delivery log: one keyset cursor (from the previous page's `next`) and a status. */
+export const deliveryPageQuerySchema = z
+  .object({
+    status: z.enum(REMINDER_SEND_STATUSES, { message: 'Status is pending, sending, sent, failed, suppressed or cancelled.' }).optional(),
+    after: z
+      .string({ message: 'After is the next-page cursor.' })
+      .max(300, 'After is the next-page cursor.')
+      .regex(/^[A-Za-z0-9_-]+$/, 'After is the next-page cursor.')
+      .optional(),
+  })
+  .strict();
+export type DeliveryPageQuery = z.infer<typeof deliveryPageQuerySchema>;
+
+/** One household in a campaign's outbox: what became of its message, with the mail server's reply. */
+export interface CampaignRecipientEntry {
+  sendId: string;
+  customerId: string;
+  name: string;
+  email: string;
+  status: ReminderSendStatus;
+  /** The server's reply: its acceptance when sent, its refusal when failed or waiting for a retry. */
+  reply: string | null;
+  attempts: number;
+  sentAt: string | null;
+}
+
+/** One reminder a household was sent (or is queued for), for its page in the office. */
+export interface HouseholdReminderEntry {
+  sendId: string;
+  campaignId: string;
+  kind: (typeof REMINDER_KINDS)[number];
+  label: string;
+  email: string;
+  status: ReminderSendStatus;
+  reply: string | null;
+  queuedAt: string;
+  sentAt: string | null;
+}
+
+export interface KeysetPage<T> {
+  items: T[];
+  /** Cursor for the next page, or null at the end. */
+  next: string | null;
 }
 
 // ---- The homeowner's side ----

@@ -148,3 +148,47 @@ export async function furnishHouseholds(pool: pg.Pool, today: string): Promise<v
   await pool.query(`analyze equipment`);
   await pool.query(`analyze agreements`);
 }
+
+/**
+ * A year of reminder history on top of furnishHouseholds: a done tune-up per agreement some 30 to
+ * 330 days ago, a service call at two homes in five (some advising a coil cleaning), and earlier
+ * campaigns' sent rows (filters to half the base, heating tune-ups to a fifth), so the audience
+ * statement's visit lookups and its resend guard read tables of a real size.
+ */
+export async function reminderHistory(pool: pg.Pool, today: string): Promise<{ visits: number; sends: number }> {
+  const visits = await pool.query(
+    `with h as (select a.customer_id, a.property_id, abs(hashtext(a.id::text)) as h, false as call from agreements a
+                union all
+                select p.customer_id, p.id, abs(hashtext(p.id::text || 'call')), true from properties p where abs(hashtext(p.id::text)) % 5 < 2),
+          t as (select *, ($1::date - (30 + h % 300) * interval '1 day' + interval '14 hours') at time zone 'America/Chicago' as at from h)
+     insert into visits (customer_id, property_id, kind, reason, status, window_start, window_end, starts_at, ends_at, completed_at, findings, recommendations)
+     select customer_id, property_id, case when call then 'service_call' else 'tune_up' end, case when call then 'noise' else 'tune_up' end, 'done',
+            at, at + interval '2 hours', at, at + interval '90 minutes', at + interval '90 minutes', 'Bench visit.',
+            case when call and h % 4 = 0 then 'Coil cleaning recommended.' else '' end
+     from t`,
+    [today],
+  );
+  const office = (await pool.query(`select id from users where role = 'office' limit 1`)).rows[0].id as string;
+  let sends = 0;
+  for (const [kind, share] of [
+    ['filter', 2],
+    ['heating_tune_up', 5],
+  ] as const) {
+    const camp = (
+      await pool.query(
+        `insert into reminder_campaigns (kind, created_by_id, audience_count, status, started_at, finished_at) values ($1, $2, 0, 'done', now(), now()) returning id`,
+        [kind, office],
+      )
+    ).rows[0].id as string;
+    const r = await pool.query(
+      `insert into reminder_sends (campaign_id, customer_id, kind, email, reason, status, attempts, sent_at)
+       select $1, c.id, $2, c.email, 'due', 'sent', 1, $3::date - (abs(hashtext(c.id::text)) % 60) * interval '1 day'
+       from customers c where c.email is not null and abs(hashtext(c.id::text || $2)) % $4 = 0`,
+      [camp, kind, today, share],
+    );
+    sends += r.rowCount ?? 0;
+  }
+  await pool.query('vacuum analyze visits');
+  await pool.query('vacuum analyze reminder_sends');
+  return { visits: visits.rowCount ?? 0, sends };
+}

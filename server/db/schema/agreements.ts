@@ -45,6 +45,10 @@ export const agreements = pgTable(
     index('agreements_customer_idx').on(t.customerId),
     index('agreements_property_idx').on(t.propertyId),
     index('agreements_ends_on_idx').on(t.endsOn, t.status),
+    // The reminder audience's "agreement in force" per household, read from the index alone.
+    index('agreements_customer_live_idx')
+      .on(t.customerId, t.endsOn, t.planVersionId, t.propertyId)
+      .where(sql`status in ('active', 'renewal_due')`),
     check('agreements_status', sql.raw(`status in (${inList(AGREEMENT_STATUSES)})`)),
     check('agreements_term', sql`${t.endsOn} > ${t.startsOn}`),
     check('agreements_systems', sql`${t.systemsCount} between 1 and 20`),

@@ -54,7 +54,11 @@ export const reminderSends = pgTable(
     attempts: integer().notNull().default(0),
     nextAttemptAt: tstz(),
     claimedAt: tstz(),
+    /** The lease of the worker that holds the row: its updates count only while the token is theirs. */
+    claimToken: uuid(),
     error: text(),
+    /** The mail server's reply when it accepted the message. */
+    smtpReply: text(),
     sentAt: tstz(),
     createdAt: createdAt(),
   },
@@ -62,6 +66,10 @@ export const reminderSends = pgTable(
     uniqueIndex('reminder_sends_campaign_customer_kind_key').on(t.campaignId, t.customerId, t.kind),
     index('reminder_sends_customer_kind_idx').on(t.customerId, t.kind, t.sentAt),
     index('reminder_sends_campaign_status_idx').on(t.campaignId, t.status),
+    // The resend guard: who was sent this kind recently, from the index alone.
+    index('reminder_sends_sent_idx')
+      .on(t.kind, t.sentAt, t.customerId)
+      .where(sql`status = 'sent'`),
     check('reminder_sends_status', sql.raw(`status in (${inList(REMINDER_SEND_STATUSES)})`)),
   ],
 );

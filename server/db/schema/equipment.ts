@@ -39,6 +39,10 @@ export const equipment = pgTable(
   },
   (t) => [
     index('equipment_property_idx').on(t.propertyId),
+    // The reminder audience asks "does this home have live equipment of these kinds" per household.
+    index('equipment_property_kind_live_idx')
+      .on(t.propertyId, t.kind)
+      .where(sql`archived_at is null`),
     check('equipment_kind', sql.raw(`kind in (${inList(EQUIPMENT_KINDS)})`)),
     check('equipment_refrigerant', sql.raw(`refrigerant is null or refrigerant in (${inList(REFRIGERANTS)})`)),
     check('equipment_metering', sql.raw(`metering_device is null or metering_device in (${inList(METERING_DEVICES)})`)),

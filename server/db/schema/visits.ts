@@ -56,6 +56,16 @@ export const visits = pgTable(
     index('visits_property_idx').on(t.propertyId),
     index('visits_customer_idx').on(t.customerId),
     index('visits_starts_idx').on(t.startsAt),
+    // The reminder audience: a household's and a home's last done visit, and tune-ups booked in a season.
+    index('visits_customer_done_idx')
+      .on(t.customerId, t.startsAt, t.kind)
+      .where(sql`status = 'done'`),
+    index('visits_property_done_idx')
+      .on(t.propertyId, t.startsAt)
+      .where(sql`status = 'done'`),
+    index('visits_tune_up_live_idx')
+      .on(t.startsAt, t.customerId)
+      .where(sql`kind = 'tune_up' and status not in ('canceled', 'no_show')`),
     check('visits_kind', sql.raw(`kind in (${inList(VISIT_KINDS)})`)),
     check('visits_reason', sql.raw(`reason in (${inList(VISIT_REASONS)})`)),
     check('visits_status', sql.raw(`status in (${inList(VISIT_STATUSES)})`)),

@@ -102,10 +102,10 @@ export class MailStore {
   }
 
   /** Newest first; `to` matches To, Cc or envelope recipients, ignoring case. */
-  list(filter: { to?: string } = {}): CapturedMessage[] {
+  list(filter: { to?: string | undefined; messageId?: string | undefined } = {}): CapturedMessage[] {
     const newestFirst = [...this.messages].reverse();
-    const to = filter.to;
-    return to ? newestFirst.filter((m) => addressedTo(m, to)) : newestFirst;
+    const { to, messageId } = filter;
+    return newestFirst.filter((m) => (!to || addressedTo(m, to)) && (!messageId || m.headers['message-id'] === messageId));
   }
 
   latest(filter: { to?: string } = {}): CapturedMessage | undefined {

@@ -54,7 +54,10 @@ export function createMailboxApp(store: MailStore): express.Express {
   app.get('/api/messages', (req, res) => {
     const to = queryText(req, res, 'to');
     if (to === null) return;
-    res.json(store.list({ to }).map(toMessageJson));
+    // A sender asks whether a message it may have sent before a crash arrived.
+    const messageId = queryText(req, res, 'messageId');
+    if (messageId === null) return;
+    res.json(store.list({ to, messageId }).map(toMessageJson));
   });
 
   app.get('/api/messages/latest', async (req, res) => {

@@ -16,6 +16,7 @@ import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { LIFE_ICON, WARRANTY_ICON } from '../../ui/status/equipment-icons';
 import { FileUpload } from '../../ui/upload/file-upload';
+import { HouseholdReminders } from './household-reminders';
 import { CustomersApi } from './customers-api';
 import { EquipmentForm } from './equipment-form';
 import { applyServerErrors, serverError } from '../../core/form-errors';
@@ -57,6 +58,7 @@ const TIMELINE_ICON: Record<TimelineKind, string> = {
     MatSelectModule,
     EquipmentForm,
     FileUpload,
+    HouseholdReminders,
   ],
   templateUrl: './customer-page.html',
   styleUrl: './customer-page.scss',

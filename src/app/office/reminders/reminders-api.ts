@@ -2,7 +2,17 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { ReminderKind } from '../../../../shared/seasonal-reminders';
-import type { AudienceFilter, DeliveryLogEntry, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
+import type {
+  AudienceFilter,
+  CampaignRecipientEntry,
+  DeliveryLogEntry,
+  DeliveryPageQuery,
+  HouseholdReminderEntry,
+  KeysetPage,
+  MessagePreview,
+  ReminderCampaignSummary,
+  ReminderPreview,
+} from '../../../../shared/schemas/campaigns';
 import type { PlanView } from '../../../../shared/schemas/plans';
 
 function params(kind: ReminderKind, filter: AudienceFilter): Record<string, string> {
@@ -40,6 +50,16 @@ export class RemindersApi {
 
   deliveries(id: string): Observable<{ deliveries: DeliveryLogEntry[] }> {
     return this.http.get<{ deliveries: DeliveryLogEntry[] }>(`/api/reminders/campaigns/${id}/deliveries`);
+  }
+
+  /** One keyset page of the campaign's households and what became of each message. */
+  recipients(id: string, q: DeliveryPageQuery = {}): Observable<KeysetPage<CampaignRecipientEntry>> {
+    return this.http.get<KeysetPage<CampaignRecipientEntry>>(`/api/reminders/campaigns/${id}/recipients`, { params: { ...q } });
+  }
+
+  /** One keyset page of the reminders a household was sent, newest first. */
+  householdSends(customerId: string, q: DeliveryPageQuery = {}): Observable<KeysetPage<HouseholdReminderEntry>> {
+    return this.http.get<KeysetPage<HouseholdReminderEntry>>(`/api/reminders/households/${customerId}/sends`, { params: { ...q } });
   }
 
   campaigns(): Observable<{ campaigns: ReminderCampaignSummary[] }> {

@@ -19,6 +19,7 @@ import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../
 import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
+import { CampaignRecipients } from './campaign-recipients';
 import { RemindersApi } from './reminders-api';
 import { DateTimePipe } from '../../ui/dates';
 
@@ -34,6 +35,7 @@ const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
 @Component({
   selector: 'sw-reminders',
   imports: [
+    CampaignRecipients,
     DateTimePipe,
     ReactiveFormsModule,
     MatButtonModule,
