@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { MatIconModule } from '@angular/material/icon';
 import { INVOICE_STATUS_LABELS } from '../../../../shared/invoice-status';
 import type { InvoiceStatus } from '../../../../shared/schemas/billing';
+import { StatusBadge } from './status-badge';
 
 const ICON: Record<InvoiceStatus, string> = {
   draft: 'info',
@@ -15,20 +15,8 @@ const ICON: Record<InvoiceStatus, string> = {
 /** An invoice status as an icon and a word. */
 @Component({
   selector: 'sw-invoice-status',
-  imports: [MatIconModule],
-  template: `<span class="status"><mat-icon [svgIcon]="icon()" aria-hidden="true" />{{ label() }}</span>`,
-  styles: `
-    .status {
-      display: inline-flex;
-      gap: 4px;
-      align-items: center;
-      font-weight: 700;
-    }
-    mat-icon {
-      width: 18px;
-      height: 18px;
-    }
-  `,
+  imports: [StatusBadge],
+  template: `<sw-status-badge [icon]="icon()" [label]="label()" />`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InvoiceStatusBadge {

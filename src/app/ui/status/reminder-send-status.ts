@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { MatIconModule } from '@angular/material/icon';
 import { REMINDER_SEND_STATUS_LABELS, type ReminderSendStatus } from '../../../../shared/reminder-sends';
+import { StatusBadge } from './status-badge';
 
 const ICON: Record<ReminderSendStatus, string> = {
   pending: 'status-watch',
@@ -14,20 +14,8 @@ const ICON: Record<ReminderSendStatus, string> = {
 /** What became of one reminder e-mail, as an icon and a word. */
 @Component({
   selector: 'sw-reminder-send-status',
-  imports: [MatIconModule],
-  template: `<span class="status"><mat-icon [svgIcon]="icon()" aria-hidden="true" />{{ label() }}</span>`,
-  styles: `
-    .status {
-      display: inline-flex;
-      gap: 4px;
-      align-items: center;
-      font-weight: 700;
-    }
-    mat-icon {
-      width: 18px;
-      height: 18px;
-    }
-  `,
+  imports: [StatusBadge],
+  template: `<sw-status-badge [icon]="icon()" [label]="label()" />`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReminderSendStatusBadge {
