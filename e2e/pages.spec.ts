@@ -8,7 +8,7 @@ import { CLS_GOOD, watchVitals } from './support/vitals';
 
 // Every page of every role (the routes in src/app/**/*.routes.ts and app.routes.ts), each with a
 // full load: zero WCAG 2.1 AA violations from axe-core, and layout shift under web.dev's "good"
-// CLS of 0.1. Largest paint is recorded for `npm run bench pages`, never asserted here.
+// CLS of 0.1, and a line under the heading that says what the page is for. Largest paint is recorded for `npm run bench pages`, never asserted here.
 const RESULTS = process.env.PAGES_RESULTS ?? join(process.cwd(), 'bench', 'results', 'pages.json');
 
 /** Adds one role's pages to the results file, replacing that role's earlier figures. */
@@ -33,6 +33,7 @@ async function auditAll(page: Page, role: string, paths: string[]): Promise<void
     record(role, results);
     expect.soft(r.violations, `${role} ${path}: WCAG 2.1 AA violations`).toEqual([]);
     expect.soft(r.cls, `${role} ${path}: CLS ${r.cls} (${JSON.stringify(r.shifts)})`).toBeLessThan(CLS_GOOD);
+    expect.soft(r.helpLine, `${role} ${path}: a line under the heading says what the page is for`).not.toBeNull();
   }
 }
 

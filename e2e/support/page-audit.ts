@@ -13,6 +13,21 @@ export interface PageResult {
   cls: number;
   shifts: { value: number; at: number; sources: string[] }[];
   violations: { id: string; impact: string | null; help: string; targets: string[] }[];
+  /** The line under the page's heading that says what the page is for; null when there is none. */
+  helpLine: string | null;
+}
+
+/** The first plain paragraph among the few elements after the page's main heading. */
+function readHelpLine(page: Page): Promise<string | null> {
+  return page.evaluate(() => {
+    const h1 = document.querySelector('main h1') ?? document.querySelector('h1');
+    let el = h1?.nextElementSibling ?? null;
+    for (let i = 0; el && i < 4; i++, el = el.nextElementSibling) {
+      const text = el.textContent?.replace(/\s+/g, ' ').trim() ?? '';
+      if (el.tagName === 'P' && !el.getAttribute('role') && text.length >= 20) return text;
+    }
+    return null;
+  });
 }
 
 /**
@@ -37,6 +52,7 @@ export async function auditPage(page: Page, role: string, path: string): Promise
     title: await page.title(),
     lcpMs: vitals.lcpMs === null ? null : Math.round(vitals.lcpMs),
     cls: Number(vitals.cls.toFixed(4)),
+    helpLine: await readHelpLine(page),
     shifts: vitals.shifts,
     violations: axe.violations.map((v) => ({
       id: v.id,

@@ -38,6 +38,7 @@ import { PriceBookApi } from './price-book-api';
   ],
   template: `
     <h1>Price book</h1>
+    <p class="sw-lead">Parts, labor and fees with their prices. Quotes and invoices take their lines from here, and keep the price they were made with.</p>
     <div class="buttons">
       <button mat-flat-button type="button" (click)="editing.set('new')">Add an item</button>
       <a mat-stroked-button routerLink="/admin/price-book/import">Import from CSV</a>

@@ -15,6 +15,7 @@ import { QuotesApi } from './quotes-api';
   template: `
     <section class="sw-page truck">
       <h1>{{ title() }}</h1>
+      <p class="sw-lead">What is on the truck now and what it is short of. Parts leave it as you record them on a visit.</p>
       @if (error(); as e) {
         <p role="alert" class="bad">{{ e }}</p>
         <button mat-stroked-button type="button" (click)="read.reload()">Try again</button>

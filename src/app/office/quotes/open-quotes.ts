@@ -17,6 +17,7 @@ import { OfficeQuotesApi } from './office-quotes-api';
   imports: [MatButtonToggleModule, MatPaginatorModule, MatProgressBarModule, MatSortModule, MatTableModule],
   template: `
     <h1>Quotes</h1>
+    <p class="sw-lead">Quotes sent to homeowners, with their age and value, and how many are approved.</p>
     @if (stats.hasValue()) {
       @if (stats.value(); as s) {
         <dl class="facts">

@@ -16,6 +16,7 @@ import { DayPipe } from '../../ui/dates';
   imports: [DayPipe, RouterLink, MatListModule, MatProgressBarModule],
   template: `
     <h1>Quotes</h1>
+    <p class="sw-lead">Repairs your technician has quoted. Open one to approve an option or decline.</p>
     @if (read.isLoading()) {
       <mat-progress-bar mode="indeterminate" aria-label="Loading quotes" />
     }

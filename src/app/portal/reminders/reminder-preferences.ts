@@ -20,6 +20,7 @@ const flags = <K extends string>(keys: readonly K[], on: boolean) => Object.from
   template: `
     <section class="sw-page">
       <h1>Reminders</h1>
+      <p class="sw-lead">What is due at your home, and which reminders we send you by e-mail.</p>
       <sw-due-list />
       <form [formGroup]="form" (ngSubmit)="save()">
         <fieldset formGroupName="email">
