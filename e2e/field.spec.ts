@@ -189,6 +189,7 @@ test('a technician records a variable-speed tune-up at forced full capacity; the
   await page.getByRole('button', { name: 'Save readings' }).click();
   await expect(page.getByText(/Saved .*checked again by the office system/)).toBeVisible();
   await page.reload();
+  await page.locator('form.readings').getByRole('combobox', { name: 'System' }).selectOption({ label: 'Heat pump · VS36-1' });
   await expect(page.getByLabel('Forced to full capacity (test or charge mode)')).toBeChecked();
   await expect(superheat.getByText('In range')).toBeVisible();
   const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);

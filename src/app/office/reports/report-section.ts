@@ -23,7 +23,7 @@ import { ReportsApi } from './reports-api';
       }
       <div class="chart">
         @if (config(); as c) {
-          @defer (on viewport; prefetch on idle) {
+          @defer (on idle) {
             <sw-chart [config]="c" [label]="definition().title + ' chart; the numbers are in the table below it'" />
           } @placeholder {
             <p class="loading">Loading…</p>
