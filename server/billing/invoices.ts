@@ -90,6 +90,8 @@ export async function insertInvoice(tx: Tx, input: NewInvoice, now: Date): Promi
 export interface CoveredInvoice {
   customerId: string;
   agreementId: string | null;
+  /** The visit the work was done on, when there is one. */
+  visitId: string | null;
   /** Lines whose coverage is already worked out (shared/quote-coverage.ts): the savings are each line's discount. */
   lines: {
     description: string;
@@ -121,6 +123,7 @@ export async function insertCoveredInvoice(tx: Tx, input: CoveredInvoice, now: D
       number,
       customerId: input.customerId,
       agreementId: input.agreementId,
+      visitId: input.visitId,
       purpose: 'service',
       status: 'open',
       taxRateBps: input.taxRateBps,

@@ -7,6 +7,7 @@ import { customers } from './customers';
 import { agreements } from './agreements';
 import { planVersions } from './plans';
 import { users } from './users';
+import { visits } from './visits';
 
 // One row per company: the next invoice number. Taken with UPDATE … RETURNING inside the
 // transaction that issues the invoice, so numbers never skip or repeat.
@@ -40,6 +41,8 @@ export const invoices = pgTable(
       .notNull()
       .references(() => customers.id, { onDelete: 'restrict' }),
     agreementId: uuid().references(() => agreements.id, { onDelete: 'restrict' }),
+    /** The visit the work was done on, for work invoiced from a visit (a quote's or a direct one). */
+    visitId: uuid().references(() => visits.id, { onDelete: 'set null' }),
     purpose: text({ enum: INVOICE_PURPOSES }).notNull(),
     status: text({ enum: INVOICE_STATUSES }).notNull(),
     // For agreement invoices: the plan version sold and the term it pays for.
@@ -66,6 +69,7 @@ export const invoices = pgTable(
       .on(t.agreementId, t.termStartsOn, t.purpose)
       .where(sql`${t.purpose} in ('enrollment', 'renewal') and ${t.status} <> 'void'`),
     index('invoices_customer_idx').on(t.customerId),
+    index('invoices_visit_idx').on(t.visitId),
     index('invoices_status_idx').on(t.status),
     check('invoices_status', sql.raw(`status in (${inList(INVOICE_STATUSES)})`)),
     check('invoices_purpose', sql.raw(`purpose in (${inList(INVOICE_PURPOSES)})`)),
