@@ -104,7 +104,7 @@ describe('direct work invoices', () => {
     expect((await home.homeowner.agent.get(`/api/work-invoices?visitId=${visitId}`)).status).toBe(403);
   });
 
-  it('pays on the technician\'s device: the hosted page returns to the visit, which then shows it paid', async () => {
+  it("pays on the technician's device: the hosted page returns to the visit, which then shows it paid", async () => {
     expect((await post(other.signed, `/api/work-invoices/${invoiceId}/checkout`, { visitId })).status).toBe(404);
     expect((await post(home.homeowner, `/api/work-invoices/${invoiceId}/checkout`, { visitId })).status).toBe(403);
     const otherVisit = await visitToday(h.ctx, tech, home, 'scheduled');

@@ -1,5 +1,5 @@
 import { and, eq, inArray, lt } from 'drizzle-orm';
-import { formatDay } from '../../shared/pricebook';
+import { formatTermDay } from '../../shared/agreement-terms';
 import { QUOTE_STATUS_LABELS } from '../../shared/schemas/pricebook';
 import type { AppDeps } from '../deps';
 import { customers, quoteRevisions, quotes } from '../db/schema';
@@ -15,7 +15,7 @@ export const EXPIRE_QUOTES_JOB = 'quotes.expire';
 
 /** The 409 an answer gets once the prices no longer hold. */
 export const quoteExpired = (validUntil: string) =>
-  new AppError(409, 'quote_expired', `This quote is ${QUOTE_STATUS_LABELS.expired.toLowerCase()}: its prices held through ${formatDay(validUntil)}. Ask us for a new quote.`);
+  new AppError(409, 'quote_expired', `This quote is ${QUOTE_STATUS_LABELS.expired.toLowerCase()}: its prices held through ${formatTermDay(validUntil)}. Ask us for a new quote.`);
 
 /** Has a sent quote's valid-until day passed on `today` (both local ISO dates)? */
 export const pastValidUntil = (validUntil: string | null, today: string) => validUntil !== null && validUntil < today;
@@ -61,7 +61,7 @@ export async function expireQuotes(deps: Pick<AppDeps, 'config'> & OutboxDeps): 
       const subject = `Your quote #${r.number} from ${company.name}: ${QUOTE_STATUS_LABELS.expired}`;
       const content = renderEmail({
         title: subject,
-        paragraphs: [`Hello ${c?.name ?? ''},`, `The prices on this quote held through ${formatDay(r.validUntil!)}. Call us or reply to this e-mail for a new quote.`],
+        paragraphs: [`Hello ${c?.name ?? ''},`, `The prices on this quote held through ${formatTermDay(r.validUntil!)}. Call us or reply to this e-mail for a new quote.`],
         action: { label: 'See the quote', url: `${deps.config.publicUrl}/portal/quotes/${r.id}` },
       });
       ids.push(await recordMail(deps, { kind: 'quote_expired', key: `quote-expired:${r.id}:${r.revision}`, message: { to, subject, html: content.html, text: content.text } }, tx));
