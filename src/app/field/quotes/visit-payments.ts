@@ -57,7 +57,12 @@ export class VisitPayments {
   readonly changes = input(0);
 
   protected readonly usd = formatUsd;
-  private readonly read = rxResource({ params: () => ({ id: this.visitId(), n: this.changes() }), stream: ({ params }) => this.api.visitInvoices(params.id) });
+  /** Bumped once a return from the payment page is recorded: a read still in flight may predate it. */
+  private readonly synced = signal(0);
+  private readonly read = rxResource({
+    params: () => ({ id: this.visitId(), n: this.changes(), synced: this.synced() }),
+    stream: ({ params }) => this.api.visitInvoices(params.id),
+  });
   protected readonly invoices = computed<VisitInvoice[]>(() => (this.read.hasValue() ? this.read.value() : []));
   private readonly actionError = signal<string | null>(null);
   private readonly loadError = errorMessage(this.read);
@@ -77,7 +82,7 @@ export class VisitPayments {
             text: paid ? 'Paid on this device. The receipt is on its way to the homeowner by e-mail.' : 'The payment was not completed. Nothing was charged.',
           });
           void this.router.navigate([], { queryParams: {}, replaceUrl: true });
-          this.read.reload();
+          this.synced.update((n) => n + 1);
         },
         error: (e: unknown) => this.actionError.set(toApiError(e).message),
       });
