@@ -22,6 +22,8 @@ async function staffSignIn(page: Page, email: string) {
   await page.getByLabel('E-mail address').fill(email);
   await page.getByLabel('Password').fill(DEMO.staffPassword);
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  // Signed in once the page leaves the form: a navigation before then would cancel the request.
+  await expect(page).not.toHaveURL(/\/staff\/sign-in/);
 }
 
 /** On hand of each part on the technician's truck, by name. */

@@ -69,7 +69,16 @@ import {
   stockRowInputSchema,
   transferSchema,
 } from '../shared/schemas/pricebook';
-import { partsUsedSchema, quoteReviseSchema, quoteRevisionQuerySchema, quoteStatsQuerySchema, stockMovementQuerySchema, taskListQuerySchema } from '../shared/schemas/quotes';
+import {
+  partsUsedSchema,
+  quoteReviseSchema,
+  quoteRevisionQuerySchema,
+  quoteStatsQuerySchema,
+  stockMovementQuerySchema,
+  taskListQuerySchema,
+  visitCheckoutSchema,
+  visitInvoicesQuerySchema,
+} from '../shared/schemas/quotes';
 import { reportNameSchema, reportQuerySchema } from '../shared/schemas/reports';
 import { companySettingsSchema } from '../shared/schemas/settings';
 import { checkoutReturnSchema, checkoutSchema } from './billing/billing.routes';
@@ -259,6 +268,8 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'POST /api/portal/quotes/:id/decline': { as: 'homeowner', params: id, body: quoteDeclineSchema },
   'POST /api/work-invoices/preview': { as: 'technician', body: directInvoiceSchema },
   'POST /api/work-invoices': { as: 'office', body: directInvoiceSchema },
+  'GET /api/work-invoices': { as: 'technician', query: visitInvoicesQuerySchema },
+  'POST /api/work-invoices/:id/checkout': { as: 'technician', params: id, body: visitCheckoutSchema },
   'GET /api/stock/locations': { as: 'technician' },
   'POST /api/stock/locations': { as: 'office', body: stockLocationInputSchema },
   'GET /api/stock/levels': { as: 'technician', query: stockListQuerySchema },
@@ -268,4 +279,5 @@ export const ROUTE_INPUTS: Record<string, RouteInputs> = {
   'GET /api/stock/movements': { as: 'technician', query: stockMovementQuerySchema },
   'POST /api/stock/visits/:visitId/parts-used': { as: 'technician', params: ids('visitId'), body: partsUsedSchema },
   'POST /api/stock/replacements': { as: 'technician', body: replacementSearchSchema },
+  'GET /api/stock/parts-to-load': { as: 'technician' },
 };

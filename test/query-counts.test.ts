@@ -43,6 +43,8 @@ const EXPECTED: Record<string, number> = {
   'report-revenue': 2,
   'report-visits': 2,
   'report-utilisation': 2,
+  // The technician's "parts to load": the session, then one statement.
+  'parts-to-load': 2,
 };
 
 let admin: pg.Client;
@@ -53,6 +55,7 @@ let ctx: { app: ReturnType<typeof createApp>; deps: AppDeps };
 let count = 0;
 let home: Signed;
 let office: Signed;
+let tech: Signed;
 let propertyId: string;
 let customerId: string;
 const bookFrom = [NOW.plus({ days: 45 }), NOW.plus({ days: 80 })];
@@ -96,6 +99,7 @@ async function measure(phase: number): Promise<Record<string, number>> {
     ['renewals', get(office, '/api/renewals?view=due30')],
     ['home-summary', get(home, '/api/my-home/summary')],
     ['office-home', get(office, '/api/office-home')],
+    ['parts-to-load', get(tech, '/api/stock/parts-to-load')],
     ...REPORTS.map((r): [string, () => Promise<{ status: number }>] => [
       `report-${r}`,
       get(office, `/api/reports/${r}?from=${NOW.minus({ years: 3 }).toISODate()}&to=${NOW.toISODate()}`),
@@ -141,6 +145,7 @@ beforeAll(async () => {
   ctx = { app: createApp(deps), deps };
   home = await signInHomeowner(ctx, DEMO_HOMEOWNERS[0].email);
   office = await signInStaff(ctx, STAFF.find((s) => s.role === 'office')!.email);
+  tech = await signInStaff(ctx, STAFF.find((s) => s.role === 'technician')!.email);
   const { rows } = await database.pool.query<{ id: string; customer_id: string }>(
     `select p.id, p.customer_id from properties p join users u on u.customer_id = p.customer_id where u.email = $1 order by p.id limit 1`,
     [DEMO_HOMEOWNERS[0].email],

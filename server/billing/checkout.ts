@@ -58,15 +58,18 @@ export async function ensureStripeCustomer(deps: Pick<AppDeps, 'database' | 'str
 // ---------- Card payments through Checkout ----------
 
 export interface CheckoutOptions {
-  /** A portal path to come back to, e.g. /portal/plan. */
+  /** A portal path to come back to, e.g. /portal/plan (or with `onDevice`, the visit's screen). */
   returnPath: string;
+  /** Paid on the technician's device: the page returns to the visit, /field/visits/:id. */
+  onDevice?: boolean;
   /** Keep the card for automatic renewal charges. */
   saveCard?: boolean;
 }
 
-function returnUrls(deps: Pick<AppDeps, 'config'>, returnPath: string) {
-  if (!/^\/portal(\/[A-Za-z0-9/_-]*)?$/.test(returnPath)) {
-    throw new AppError(422, 'validation_failed', 'The return page is not valid.', { returnPath: 'Must be a portal page.' });
+function returnUrls(deps: Pick<AppDeps, 'config'>, returnPath: string, onDevice = false) {
+  const allowed = onDevice ? /^\/field\/visits\/[0-9a-f-]{36}$/ : /^\/portal(\/[A-Za-z0-9/_-]*)?$/;
+  if (!allowed.test(returnPath)) {
+    throw new AppError(422, 'validation_failed', 'The return page is not valid.', { returnPath: onDevice ? 'Must be a visit.' : 'Must be a portal page.' });
   }
   const base = deps.config.publicUrl.replace(/\/$/, '');
   return {
@@ -89,7 +92,7 @@ export async function startInvoiceCheckout(deps: Pick<AppDeps, 'config' | 'datab
 
 async function openCheckout(deps: Pick<AppDeps, 'config' | 'database' | 'stripe'>, invoiceId: string, opts: CheckoutOptions): Promise<{ checkoutUrl: string }> {
   const stripe = deps.stripe;
-  const urls = returnUrls(deps, opts.returnPath);
+  const urls = returnUrls(deps, opts.returnPath, opts.onDevice);
   const { db } = deps.database;
   const [pre] = await db.select().from(invoices).where(eq(invoices.id, invoiceId));
   if (!pre) throw notFound('That invoice');

@@ -3,6 +3,7 @@ import { DateTime } from 'luxon';
 import { EQUIPMENT_KIND_LABELS, type EquipmentKind } from '../../shared/equipment';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { COVERING_STATUSES, coverageFor, type Coverage, type CoverageVisit } from '../../shared/coverage';
+import type { ItemCategory } from '../../shared/pricebook';
 import type { SeasonSettings } from '../../shared/seasons';
 import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
@@ -105,9 +106,23 @@ export async function propertyEquipment(db: Db | Tx, propertyId: string): Promis
  * place until its last day.
  */
 export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyInfo): Promise<Coverage> {
+  return (await visitCoverageAndPlan(db, visit, info)).coverage;
+}
+
+/** The plan's choices that quotes price with: which categories take the repair discount, and labor on warranty parts. */
+export interface QuotePlanChoices {
+  discountCategories: ItemCategory[];
+  warrantyLaborCovered: boolean;
+}
+
+/** visitCoverage, with the quote choices of the plan version in force (null without an agreement). */
+export async function visitCoverageAndPlan(db: Db | Tx, visit: VisitRow, info: CompanyInfo): Promise<{ coverage: Coverage; plan: QuotePlanChoices | null }> {
   const onDate = localDate(visit.startsAt, info.timeZone);
   const current: CoverageVisit = { id: visit.id, kind: visit.kind, status: visit.status, onDate };
-  const none = () => coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents, seasons: info.seasons });
+  const none = () => ({
+    coverage: coverageFor({ agreement: null, visit: current, termVisits: [], diagnosticFeeCents: info.diagnosticFeeCents, seasons: info.seasons }),
+    plan: null,
+  });
   const booked = visit.agreementId ? await db.select().from(agreements).where(eq(agreements.id, visit.agreementId)).limit(1) : [];
   // A visit booked without the agreement still counts under the one whose term holds its date.
   const candidates = booked.length
@@ -132,6 +147,8 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
       repairDiscountBps: planVersions.repairDiscountBps,
       diagnosticFeeWaived: planVersions.diagnosticFeeWaived,
       priorityWindowHours: planVersions.priorityWindowHours,
+      discountCategories: planVersions.discountCategories,
+      warrantyLaborCovered: planVersions.warrantyLaborCovered,
     })
     .from(planVersions)
     .innerJoin(plans, eq(planVersions.planId, plans.id))
@@ -145,7 +162,7 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
     .select({ id: visits.id, kind: visits.kind, status: visits.status, startsAt: visits.startsAt })
     .from(visits)
     .where(and(eq(visits.propertyId, visit.propertyId), gte(visits.startsAt, zoneStart), lt(visits.startsAt, zoneEnd)));
-  return coverageFor({
+  const coverage = coverageFor({
     agreement: {
       status: a.status,
       startsOn: term.startsOn,
@@ -164,6 +181,7 @@ export async function visitCoverage(db: Db | Tx, visit: VisitRow, info: CompanyI
     diagnosticFeeCents: info.diagnosticFeeCents,
     seasons: info.seasons,
   });
+  return { coverage, plan: { discountCategories: p.discountCategories as ItemCategory[], warrantyLaborCovered: p.warrantyLaborCovered } };
 }
 
 /** Rows for the today list (and the visit header), joined the way the list shows them. */

@@ -6,6 +6,7 @@ import { registerBookingJobs } from '../booking/day-before-notices';
 import { registerNoticeJobs } from '../booking/assignment-notice';
 import { registerRenewalJobs } from '../renewals/renewal.jobs';
 import { registerCampaignJobs } from '../campaigns/campaigns.service';
+import { registerQuoteJobs } from '../quotes/expiry';
 
 /**
  * Every job queue, one line per feature: `registerRenewalJobs(deps)` and so on. Each feature's
@@ -15,6 +16,7 @@ export function registerJobs(deps: AppDeps): void {
   registerBillingJobs(deps);
   registerRenewalJobs(deps);
   registerCampaignJobs(deps);
+  registerQuoteJobs(deps);
   registerBookingJobs(deps);
   registerNoticeJobs(deps);
   registerAuthJobs(deps);

@@ -1,4 +1,5 @@
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
+import type { ItemCategory } from '../../shared/pricebook';
 import type { PlanTerms, PlanView } from '../../shared/schemas/plans';
 import type { Db, Tx } from '../db/client';
 import { agreements, plans, planVersions } from '../db/schema';
@@ -31,6 +32,8 @@ export function planViewOf(p: PlanRow, v: VersionRow): PlanView {
     diagnosticFeeWaived: v.diagnosticFeeWaived,
     priorityWindowHours: v.priorityWindowHours,
     extras: v.extras,
+    discountCategories: v.discountCategories as ItemCategory[],
+    warrantyLaborCovered: v.warrantyLaborCovered,
   };
 }
 
@@ -71,6 +74,8 @@ function versionValues(planId: string, version: number, t: PlanTerms) {
     diagnosticFeeWaived: t.diagnosticFeeWaived,
     priorityWindowHours: t.priorityWindowHours,
     extras: t.extras,
+    discountCategories: t.discountCategories,
+    warrantyLaborCovered: t.warrantyLaborCovered,
   };
 }
 
@@ -98,7 +103,9 @@ const sameTerms = (v: VersionRow, t: PlanTerms) =>
   v.repairDiscountBps === t.repairDiscountBps &&
   v.diagnosticFeeWaived === t.diagnosticFeeWaived &&
   v.priorityWindowHours === t.priorityWindowHours &&
-  JSON.stringify(v.extras) === JSON.stringify(t.extras);
+  JSON.stringify(v.extras) === JSON.stringify(t.extras) &&
+  JSON.stringify([...v.discountCategories].sort()) === JSON.stringify([...t.discountCategories].sort()) &&
+  v.warrantyLaborCovered === t.warrantyLaborCovered;
 
 /** Saving terms writes a new version; agreements already sold keep pointing at theirs. */
 export async function updatePlan(deps: Pick<AppDeps, 'database'>, id: string, input: PlanTerms): Promise<PlanView> {

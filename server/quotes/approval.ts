@@ -15,6 +15,7 @@ import { followUpVisit } from '../visits/follow-up';
 import type { VisitRow } from '../visits/visit-status';
 import { OutOfStock, takeStock } from '../stock/stock.service';
 import { coverageContext, priceLines } from './pricing';
+import { pastValidUntil, quoteExpired } from './expiry';
 import { frozen, readQuote, reachableQuote, staleRevision, type MailDeps } from './quotes.service';
 import { revisionRow } from './quotes.store';
 import { reachableVisit } from './visit-access';
@@ -28,11 +29,12 @@ type Answer = { ip: string; onDevice: 'portal' | 'technician' };
 
 async function openAnswer(tx: Tx, user: SessionUser, id: string, revision: number, now: Date) {
   const q = await reachableQuote(tx, user, id, true);
-  if (q.status === 'approved' || q.status === 'declined' || q.status === 'expired') throw frozen(q.status);
+  if (q.status === 'expired') throw quoteExpired(q.validUntil ?? localDate(now, (await companyRow(tx)).timeZone));
+  if (q.status === 'approved' || q.status === 'declined') throw frozen(q.status);
   if (user.role === 'homeowner' && q.status !== 'sent') throw new AppError(409, 'quote_not_sent', 'This quote is not ready to answer yet.');
   if (revision !== q.revision) throw staleRevision();
   const { timeZone } = await companyRow(tx);
-  if (q.validUntil && q.validUntil < localDate(now, timeZone)) throw new AppError(409, 'quote_expired', `These prices held until ${q.validUntil}; ask us for a new quote.`);
+  if (q.status === 'sent' && pastValidUntil(q.validUntil, localDate(now, timeZone))) throw quoteExpired(q.validUntil!);
   return q;
 }
 

@@ -1,11 +1,10 @@
 import { eq, inArray } from 'drizzle-orm';
 import { CoverageInputError, tuneUpSeasonOf, type Coverage } from '../../shared/coverage';
-import { DEFAULT_DISCOUNT_CATEGORIES, type ItemCategory } from '../../shared/pricebook';
 import { coverQuote, taskLines, type CoverageLineInput, type OptionCoverage, type QuoteAgreement } from '../../shared/quote-coverage';
 import type { QuoteLineInput, QuoteOptionInput } from '../../shared/schemas/pricebook';
 import type { Db, Tx } from '../db/client';
 import { equipment, priceBookItems, stockLocations } from '../db/schema';
-import { companyInfo, visitCoverage, type CompanyInfo } from '../field/visit-data';
+import { companyInfo, visitCoverageAndPlan, type CompanyInfo, type QuotePlanChoices } from '../field/visit-data';
 import { localDate } from '../company/company';
 import { AppError } from '../http/errors';
 import { taskViews } from '../pricebook/pricebook.service';
@@ -33,11 +32,9 @@ export interface CoverageContext {
   taxRateBps: number;
 }
 
-/** Owner choices the plan record does not carry yet: which categories take the repair discount. */
-const DISCOUNT_CATEGORIES: readonly ItemCategory[] = DEFAULT_DISCOUNT_CATEGORIES;
-
-export function quoteAgreementOf(c: Coverage): QuoteAgreement | null {
-  if (!c.hasAgreement || !c.status || !c.term) return null;
+/** The quote's view of the visit's agreement, with the plan version's discount categories and warranty-labor choice. */
+export function quoteAgreementOf(c: Coverage, plan: QuotePlanChoices | null): QuoteAgreement | null {
+  if (!c.hasAgreement || !c.status || !c.term || !plan) return null;
   const of = (s: 'cooling' | 'heating') => {
     const a = c.allowances.find((x) => x.season === s);
     return { included: a?.included ?? 0, left: Math.min(a?.left ?? 0, a?.included ?? 0) };
@@ -49,22 +46,22 @@ export function quoteAgreementOf(c: Coverage): QuoteAgreement | null {
     planName: c.planName ?? 'Maintenance plan',
     repairDiscountBps: c.repairDiscountBps,
     diagnosticFeeWaived: c.diagnosticFee.waived,
-    warrantyLaborCovered: false,
+    warrantyLaborCovered: plan.warrantyLaborCovered,
     tuneUps: { cooling: of('cooling'), heating: of('heating') },
-    discountCategories: DISCOUNT_CATEGORIES,
+    discountCategories: plan.discountCategories,
   };
 }
 
 export async function coverageContext(db: Db | Tx, visit: VisitRow, equipmentId: string | null, taxRateBps: number): Promise<CoverageContext> {
   const info = await companyInfo(db);
-  const coverage = await visitCoverage(db, visit, info);
+  const { coverage, plan } = await visitCoverageAndPlan(db, visit, info);
   let warranty: CoverageContext['warranty'] = null;
   if (equipmentId) {
     const [e] = await db.select({ propertyId: equipment.propertyId, warrantyEndsOn: equipment.warrantyEndsOn }).from(equipment).where(eq(equipment.id, equipmentId));
     if (!e || e.propertyId !== visit.propertyId) throw new AppError(422, 'validation_failed', 'Please check equipmentId.', { equipmentId: 'Choose a system at this home.' });
     warranty = { partsEndsOn: e.warrantyEndsOn };
   }
-  return { info, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage), warranty, taxRateBps };
+  return { info, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage, plan), warranty, taxRateBps };
 }
 
 const bad = (field: string, message: string) => new AppError(422, 'validation_failed', `Please check ${field}.`, { [field]: message });

@@ -10,12 +10,13 @@ import {
   quoteSendSchema,
   quoteUpdateSchema,
 } from '../../shared/schemas/pricebook';
-import { quoteReviseSchema, quoteRevisionQuerySchema, quoteStatsQuerySchema } from '../../shared/schemas/quotes';
+import { quoteReviseSchema, quoteRevisionQuerySchema, quoteStatsQuerySchema, visitCheckoutSchema, visitInvoicesQuerySchema } from '../../shared/schemas/quotes';
 import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { AppError, notFound, parse } from '../http/errors';
 import { createQuote, listQuotes, planSavings, previewQuote, quoteStats, readQuote, reviseQuote, sendQuote, updateQuote } from './quotes.service';
 import { approveQuote, createWorkInvoice, declineQuote, previewWorkInvoice } from './approval';
+import { startVisitCheckout, visitInvoices } from './visit-invoices';
 
 const idOf = (raw: unknown, what = 'That quote'): string => {
   const r = z.uuid().safeParse(raw);
@@ -106,6 +107,13 @@ export function workInvoiceRoutes(deps: AppDeps): Router {
   });
   r.post('/', async (req, res) => {
     res.status(201).json(await createWorkInvoice(deps, currentUser(req), parse(directInvoiceSchema, req.body)));
+  });
+  r.get('/', async (req, res) => {
+    res.json(await visitInvoices(deps, currentUser(req), parse(visitInvoicesQuerySchema, req.query).visitId));
+  });
+  r.post('/:id/checkout', async (req, res) => {
+    const id = idOf(req.params.id, 'That invoice');
+    res.json(await startVisitCheckout(deps, currentUser(req), id, parse(visitCheckoutSchema, req.body).visitId));
   });
   return r;
 }

@@ -1,6 +1,7 @@
 import { and, desc, eq, gte, inArray, sql, type SQL } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { formatUsd } from '../../shared/money';
+import { formatTermDay } from '../../shared/agreement-terms';
 import { EDITABLE_QUOTE_STATUSES, type QuoteCreate, type QuoteListQuery, type QuoteSend, type QuoteStats, type QuoteUpdate, type QuoteView } from '../../shared/schemas/pricebook';
 import type { PlanSavings, QuotePage, QuotePreview } from '../../shared/schemas/quotes';
 import type { SessionUser } from '../../shared/schemas/session';
@@ -178,7 +179,7 @@ export async function sendQuote(deps: MailDeps, user: SessionUser, id: string, b
         `Hello ${c?.name ?? ''},`,
         ...(rev.note ? [rev.note] : []),
         ...totals.map((t) => `${t.title}: ${formatUsd(t.total)}`),
-        `The prices hold until ${validUntil}. Choose an option and approve it online, or tell us why not.`,
+        `The prices hold through ${formatTermDay(validUntil)}. Choose an option and approve it online, or tell us why not.`,
       ],
       action: { label: 'See the quote', url },
     });

@@ -7,6 +7,7 @@ import { currentUser, requireRole } from '../auth/access';
 import { notFound, parse } from '../http/errors';
 import { createLocation, listLevels, listLocations, listMovements, recordPartsUsed, restock, setLevel, transfer } from './stock.service';
 import { searchReplacements } from './replacements';
+import { partsToLoad } from './parts-to-load';
 
 const idOf = (raw: unknown, what: string): string => {
   const r = z.uuid().safeParse(raw);
@@ -45,6 +46,9 @@ export function stockRoutes(deps: AppDeps): Router {
   r.post('/visits/:visitId/parts-used', staff, async (req, res) => {
     const id = idOf(req.params.visitId, 'That visit');
     res.status(201).json(await recordPartsUsed(deps, currentUser(req), id, parse(partsUsedSchema, req.body)));
+  });
+  r.get('/parts-to-load', requireRole('technician'), async (req, res) => {
+    res.json(await partsToLoad(deps, currentUser(req)));
   });
   r.post('/replacements', staff, async (req, res) => {
     res.json(await searchReplacements(deps, currentUser(req), parse(replacementSearchSchema, req.body)));

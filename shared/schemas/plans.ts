@@ -1,5 +1,6 @@
 import * as z from 'zod';
 import type { AgreementStatus } from '../agreements';
+import { DEFAULT_DISCOUNT_CATEGORIES, ITEM_CATEGORIES } from '../pricebook';
 import { isoDate } from './dates';
 import { RENEWAL_VIEWS, type RenewalView } from '../renewal-views';
 export { RENEWAL_VIEWS, type RenewalView, RENEWAL_VIEW_LABELS } from '../renewal-views';
@@ -23,6 +24,14 @@ export const planTermsSchema = z.object({
   diagnosticFeeWaived: z.boolean(),
   priorityWindowHours: z.number().int('Priority window is whole hours.').min(1, 'At least 1 hour.').max(720, 'At most 720 hours.'),
   extras: z.array(z.string().trim().min(1, 'An extra cannot be empty.').max(120, 'Keep each extra under 120 characters.')).max(12, 'At most 12 extras.').default([]),
+  /** Price-book categories the repair discount applies to. */
+  discountCategories: z
+    .array(z.enum(ITEM_CATEGORIES, { error: 'Choose price-book categories.' }))
+    .max(ITEM_CATEGORIES.length, 'Each category once.')
+    .refine((cs) => new Set(cs).size === cs.length, 'Each category once.')
+    .default([...DEFAULT_DISCOUNT_CATEGORIES]),
+  /** Does the plan pay the labor to fit a part the manufacturer's warranty replaces? */
+  warrantyLaborCovered: z.boolean({ error: 'Say whether the plan covers labor on warranty parts.' }).default(false),
 });
 export type PlanTerms = z.infer<typeof planTermsSchema>;
 

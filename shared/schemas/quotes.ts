@@ -1,6 +1,7 @@
 import * as z from 'zod';
 import type { ItemCategory } from '../pricebook';
-import type { QuoteOptionView, QuoteSummary } from './pricebook';
+import type { InvoiceStatus } from './billing';
+import type { QuoteOptionView, QuoteSummary, StockLocationKind } from './pricebook';
 
 // The rest of the quotes and stock contract: the requests and answers that shared/schemas/pricebook.ts
 // does not carry (lists, savings, parts used on a visit, stock movements).
@@ -90,4 +91,41 @@ export interface StockMovement {
   byName: string | null;
   note: string;
   at: string;
+}
+
+// ---- Invoices on a visit, paid on the technician's device ----
+
+export const visitInvoicesQuerySchema = z.object({ visitId: z.uuid({ error: 'Choose a visit.' }) });
+export const visitCheckoutSchema = z.object({ visitId: z.uuid({ error: 'Choose the visit the work was done on.' }) });
+export type VisitCheckout = z.infer<typeof visitCheckoutSchema>;
+
+/** An invoice issued for work on the visit (an approved quote's or a direct one). */
+export interface VisitInvoice {
+  id: string;
+  number: number | null;
+  status: InvoiceStatus;
+  totalCents: number;
+  discountCents: number;
+  balanceCents: number;
+  notes: string;
+}
+
+// ---- Parts to load: today's booked repairs against the technician's own truck ----
+
+export interface PartToLoad {
+  itemId: string;
+  sku: string;
+  name: string;
+  /** Parts the approved quotes of today's visits still need from this truck. */
+  needed: number;
+  onTruck: number;
+  short: number;
+  /** Today's visits that need it. */
+  visits: { visitId: string; customerName: string }[];
+  /** Where the rest is: the shop and other trucks holding any. */
+  elsewhere: { locationId: string; name: string; kind: StockLocationKind; quantity: number }[];
+}
+
+export interface PartsToLoad {
+  parts: PartToLoad[];
 }

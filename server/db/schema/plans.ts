@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { boolean, check, integer, pgTable, smallint, text, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { DEFAULT_DISCOUNT_CATEGORIES } from '../../../shared/pricebook';
 import { createdAt, id } from './columns';
 
 export const plans = pgTable(
@@ -33,6 +34,13 @@ export const planVersions = pgTable(
     diagnosticFeeWaived: boolean().notNull(),
     priorityWindowHours: integer().notNull(),
     extras: text().array().notNull().default([]),
+    /** Price-book categories the repair discount applies to. */
+    discountCategories: text()
+      .array()
+      .notNull()
+      .default([...DEFAULT_DISCOUNT_CATEGORIES]),
+    /** The plan pays the labor to fit a part the manufacturer's warranty replaces. */
+    warrantyLaborCovered: boolean().notNull().default(false),
     createdAt: createdAt(),
   },
   (t) => [

@@ -6,9 +6,11 @@ import { MatCardModule } from '@angular/material/card';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { formatUsd } from '../../../../shared/money';
+import { DEFAULT_DISCOUNT_CATEGORIES, ITEM_CATEGORIES, ITEM_CATEGORY_LABELS, type ItemCategory } from '../../../../shared/pricebook';
 import type { PlanTerms, PlanView } from '../../../../shared/schemas/plans';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
@@ -25,7 +27,7 @@ const centsText = (c: number) => (c / 100).toFixed(2);
 /** Plan tiers for the owner. Saving new terms writes a new version; agreements sold keep theirs. */
 @Component({
   selector: 'sw-plan-admin',
-  imports: [ReactiveFormsModule, MatButtonModule, MatCardModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatSlideToggleModule, MatSnackBarModule],
+  imports: [ReactiveFormsModule, MatButtonModule, MatCardModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, MatSnackBarModule],
   templateUrl: './plan-admin.html',
   styleUrl: './plan-admin.scss',
   host: { class: 'sw-dense' },
@@ -37,6 +39,7 @@ export class PlanAdmin {
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly usd = formatUsd;
   protected readonly features = planFeatures;
+  protected readonly categories = ITEM_CATEGORIES.map((c) => ({ value: c, label: ITEM_CATEGORY_LABELS[c] }));
   private readonly read = rxResource({ stream: () => this.api.list() });
   protected readonly plans = computed<PlanView[]>(() => (this.read.hasValue() ? this.read.value().plans : []));
   protected readonly loadError = errorMessage(this.read);
@@ -55,6 +58,8 @@ export class PlanAdmin {
     diagnosticFeeWaived: this.fb.control(true),
     priorityWindowHours: this.fb.control(48),
     extras: this.fb.control(''),
+    discountCategories: this.fb.control<ItemCategory[]>([...DEFAULT_DISCOUNT_CATEGORIES]),
+    warrantyLaborCovered: this.fb.control(false),
   });
 
   private reload() {
@@ -79,6 +84,8 @@ export class PlanAdmin {
       diagnosticFeeWaived: p.diagnosticFeeWaived,
       priorityWindowHours: p.priorityWindowHours,
       extras: p.extras.join('\n'),
+      discountCategories: [...p.discountCategories],
+      warrantyLaborCovered: p.warrantyLaborCovered,
     });
   }
 
@@ -108,6 +115,8 @@ export class PlanAdmin {
         .split('\n')
         .map((x) => x.trim())
         .filter(Boolean),
+      discountCategories: v.discountCategories,
+      warrantyLaborCovered: v.warrantyLaborCovered,
     };
     this.busy.set(true);
     const req = target === 'new' ? this.api.create({ ...terms, code: v.code }) : this.api.update(target.id, terms);

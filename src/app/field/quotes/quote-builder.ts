@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
 import { rxResource, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -47,6 +47,8 @@ export class QuoteBuilder {
   /** This technician's truck, for stock search and where parts come from. */
   readonly truckId = input<string | null>(null);
   readonly locked = input(false);
+  /** The quote was approved here and its invoice issued: the invoice's id. */
+  readonly invoiced = output<string>();
 
   protected readonly usd = (cents: number) => formatUsd(cents);
   protected readonly totals = (cents: number[]) => cents.map((c) => formatUsd(c)).join(' / ');
@@ -253,5 +255,6 @@ export class QuoteBuilder {
 
   protected onDecided(view: QuoteView): void {
     this.load(view);
+    if (view.invoiceId) this.invoiced.emit(view.invoiceId);
   }
 }

@@ -18,7 +18,7 @@ import type {
   StockLocation,
   StockRow,
 } from '../../../../shared/schemas/pricebook';
-import type { PartsUsed, PlanSavings, QuotePage, QuotePreview } from '../../../../shared/schemas/quotes';
+import type { PartsToLoad, PartsUsed, PlanSavings, QuotePage, QuotePreview, VisitInvoice } from '../../../../shared/schemas/quotes';
 
 type Query = Record<string, string | number | boolean | undefined>;
 const params = (q: Query) => new HttpParams({ fromObject: Object.fromEntries(Object.entries(q).filter(([, v]) => v !== undefined && v !== '')) as Record<string, string> });
@@ -99,5 +99,25 @@ export class QuotesApi {
 
   invoice(body: DirectInvoice): Observable<InvoiceView> {
     return this.http.post<InvoiceView>('/api/work-invoices', body);
+  }
+
+  /** The invoices issued for work on a visit. */
+  visitInvoices(visitId: string): Observable<VisitInvoice[]> {
+    return this.http.get<VisitInvoice[]>('/api/work-invoices', { params: params({ visitId }) });
+  }
+
+  /** The processor's payment page for one of them, opened on this device; it returns to the visit. */
+  payOnDevice(invoiceId: string, visitId: string): Observable<{ checkoutUrl: string }> {
+    return this.http.post<{ checkoutUrl: string }>(`/api/work-invoices/${invoiceId}/checkout`, { visitId });
+  }
+
+  /** Back from the payment page: the server reads what happened there from the processor. */
+  checkoutReturn(sessionId: string): Observable<{ state: string; invoiceId: string | null }> {
+    return this.http.post<{ state: string; invoiceId: string | null }>('/api/invoices/checkout-return', { sessionId });
+  }
+
+  /** Parts today's approved repairs need beyond this technician's truck. */
+  partsToLoad(): Observable<PartsToLoad> {
+    return this.http.get<PartsToLoad>('/api/stock/parts-to-load');
   }
 }

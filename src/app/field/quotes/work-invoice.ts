@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -21,7 +21,9 @@ import { QuotesApi } from './quotes-api';
     <details class="block option" [open]="open()" (toggle)="open.set($any($event.target).open)">
       <summary><h2>Invoice work without a quote</h2></summary>
       @if (issued(); as inv) {
-        <p role="status" class="ok">Invoice {{ inv.number }} issued for {{ usd(inv.totalCents) }}. The homeowner has the pay-online link by e-mail and in their portal.</p>
+        <p role="status" class="ok">
+          Invoice {{ inv.number }} issued for {{ usd(inv.totalCents) }}. The homeowner has the pay-online link by e-mail and in their portal, or can pay now on this device below.
+        </p>
       } @else {
         <ul class="lines" aria-label="Invoice lines">
           @for (l of draft().lines; track l.key) {
@@ -60,6 +62,8 @@ export class WorkInvoice {
   private readonly api = inject(QuotesApi);
   readonly visit = input.required<FieldVisit>();
   readonly truckId = input<string | null>(null);
+  /** An invoice was issued for this visit. */
+  readonly invoiced = output<InvoiceView>();
 
   protected readonly usd = (cents: number) => formatUsd(cents);
   protected readonly open = signal(false);
@@ -105,7 +109,9 @@ export class WorkInvoice {
     this.busy.set(true);
     this.error.set(null);
     try {
-      this.issued.set(await firstValueFrom(this.api.invoice(b)));
+      const inv = await firstValueFrom(this.api.invoice(b));
+      this.issued.set(inv);
+      this.invoiced.emit(inv);
     } catch (e) {
       this.error.set(toApiError(e).message);
     } finally {

@@ -7,11 +7,12 @@ import { errorMessage } from '../../core/resource-state';
 import { FieldApi } from '../field-api';
 import { dayLabel } from '../../ui/dates';
 import { Session } from '../../core/session';
+import { PartsToLoad } from './parts-to-load';
 
 /** The technician's visits today, in time order, one big tap target each. */
 @Component({
   selector: 'sw-today-visits',
-  imports: [MatButtonModule, MatIconModule, RouterLink],
+  imports: [MatButtonModule, MatIconModule, RouterLink, PartsToLoad],
   templateUrl: './today-visits.html',
   styleUrl: './today-visits.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -23,6 +24,8 @@ export class TodayVisits {
   protected readonly visits = computed(() => (this.today.hasValue() ? this.today.value().visits : []));
   protected readonly date = computed(() => (this.today.hasValue() ? this.today.value().date : null));
   protected readonly loading = this.today.isLoading;
+  /** Parts to load are a technician's own truck against their own visits. */
+  protected readonly technician = computed(() => this.session.role() === 'technician');
   protected readonly error = errorMessage(this.today);
   protected readonly heading = computed(() => {
     const d = this.date();

@@ -11,6 +11,7 @@ import { Session } from '../../core/session';
 import { FieldApi } from '../field-api';
 import { QuoteBuilder } from '../quotes/quote-builder';
 import { QuotesApi } from '../quotes/quotes-api';
+import { VisitPayments } from '../quotes/visit-payments';
 import { WorkInvoice } from '../quotes/work-invoice';
 import { VisitDrafts } from '../visit-drafts';
 import { CautionNote } from './caution-note';
@@ -41,6 +42,7 @@ import { DayPipe } from '../../ui/dates';
     VisitPhotos,
     VisitTroubleshooting,
     QuoteBuilder,
+    VisitPayments,
     WorkInvoice,
   ],
   templateUrl: './visit-page.html',
@@ -86,6 +88,8 @@ export class VisitPage {
   });
 
   protected readonly saves = new VisitSaves(inject(VisitDrafts));
+  /** Counts invoices issued on this page, so the payment list reads them again. */
+  protected readonly invoiced = signal(0);
   protected readonly locked = computed(() => {
     const s = this.page()?.visit.status;
     return s === 'done' || s === 'canceled' || s === 'no_show';

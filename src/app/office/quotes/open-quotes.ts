@@ -40,6 +40,7 @@ import { OfficeQuotesApi } from './office-quotes-api';
       <mat-button-toggle value="open">Open</mat-button-toggle>
       <mat-button-toggle value="approved">Approved</mat-button-toggle>
       <mat-button-toggle value="declined">Declined</mat-button-toggle>
+      <mat-button-toggle value="expired">Expired</mat-button-toggle>
       <mat-button-toggle value="">All</mat-button-toggle>
     </mat-button-toggle-group>
     @if (list.isLoading()) {

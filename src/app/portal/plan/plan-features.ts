@@ -10,6 +10,7 @@ export function planFeatures(p: PlanView): string[] {
     `${(p.repairDiscountBps / 100).toLocaleString('en-US', { maximumFractionDigits: 2 })} % off repairs`,
     `Priority service: a visit within ${p.priorityWindowHours} hours`,
     p.diagnosticFeeWaived ? 'No diagnostic fee on service calls' : 'Standard diagnostic fee',
+    ...(p.warrantyLaborCovered ? ["Labor included to fit parts under the manufacturer's warranty"] : []),
     ...p.extras,
   ];
 }

@@ -1,0 +1,2 @@
+ALTER TABLE "plan_versions" ADD COLUMN "discount_categories" text[] DEFAULT '{"motor","capacitor","contactor","control_board","igniter","flame_sensor","gas_valve","pressure_switch","relay","thermostat","coil","metering_device","compressor","other_part","repair_labor"}' NOT NULL;--> statement-breakpoint
+ALTER TABLE "plan_versions" ADD COLUMN "warranty_labor_covered" boolean DEFAULT false NOT NULL;
