@@ -191,15 +191,6 @@ export function parseVoltRanges(value: unknown): VoltRange[] | null {
 
 export const formatVoltRanges = (rs: readonly VoltRange[]) => `${rs.map((r) => (r.min === r.max ? `${r.min}` : `${r.min}–${r.max}`)).join('/')} V`;
 
-// ---- Dates in sentences ----
-
-const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
-/** "2029-03-14" → "14 Mar 2029". */
-export function formatDay(iso: string): string {
-  const [y, m, d] = iso.split('-').map(Number);
-  return `${d} ${MONTHS[(m ?? 1) - 1]} ${y}`;
-}
-
 export const MOTOR_APPLICATIONS = ['indoor_blower', 'condenser_fan', 'draft_inducer', 'other'] as const;
 
 export type MotorApplication = (typeof MOTOR_APPLICATIONS)[number];

@@ -3,20 +3,11 @@
 // Rounding is the invoices' own (shared/money.ts): each line's gross is rounded half up to the
 // cent, a discount is taken per line and rounded half up, and sales tax is computed once on the
 // sum of the taxable lines' charged amounts.
+import { formatTermDay, termLastDay } from './agreement-terms';
 import { AGREEMENT_STATUSES, type AgreementStatus } from './agreements';
 import { COVERING_STATUSES, CoverageInputError, TUNE_UP_SEASONS, type Coverage, type CoverageAgreement, type TuneUpSeason } from './coverage';
 import { assertBps, discountCents, formatUsd, lineTotalCents, MoneyError, taxCents, type InvoiceLineKind } from './money';
-import {
-  formatDay,
-  ITEM_CATEGORIES,
-  ITEM_CATEGORY_KIND,
-  ITEM_KINDS,
-  LINE_MAX_CENTS,
-  QUOTE_MAX_CENTS,
-  WARRANTY_PART_CATEGORIES,
-  type ItemCategory,
-  type ItemKind,
-} from './pricebook';
+import { ITEM_CATEGORIES, ITEM_CATEGORY_KIND, ITEM_KINDS, LINE_MAX_CENTS, QUOTE_MAX_CENTS, WARRANTY_PART_CATEGORIES, type ItemCategory, type ItemKind } from './pricebook';
 import type { CoverageRuleName } from './schemas/pricebook';
 import { isCalendarDate, warrantyStatus } from './service-life';
 
@@ -127,8 +118,8 @@ export function planStanding(agreement: QuoteAgreement | null, visitDate: string
     case 'pending':
       return { covered: false, sentence: 'Your agreement starts once its first payment is made, so no plan benefits apply yet.' };
   }
-  if (visitDate < a.startsOn) return { covered: false, sentence: `Your agreement starts on ${formatDay(a.startsOn)}, so no plan benefits apply yet.` };
-  if (visitDate >= a.endsOn) return { covered: false, sentence: `Your agreement's term ended on ${formatDay(a.endsOn)}, so no plan benefits apply until it is renewed.` };
+  if (visitDate < a.startsOn) return { covered: false, sentence: `Your agreement starts on ${formatTermDay(a.startsOn)}, so no plan benefits apply yet.` };
+  if (visitDate >= a.endsOn) return { covered: false, sentence: `Your agreement's term ended on ${formatTermDay(termLastDay(a))}, so no plan benefits apply until it is renewed.` };
   if (!COVERING_STATUSES.includes(a.status)) return { covered: false, sentence: 'Your agreement is on hold, so no plan benefits apply.' };
   return { covered: true, sentence: `Your ${a.planName} plan applies.` };
 }
@@ -204,7 +195,7 @@ export function coverOption(input: {
     // The manufacturer replaces the part whatever the agreement's standing.
     if (isWarrantyPart(l)) {
       const labor = a?.warrantyLaborCovered ? 'your plan covers the labor to fit it' : 'labor is charged';
-      return done(gross, ['warranty_part'], [`Part under the manufacturer's warranty until ${formatDay(warrantyEnd!)}: no charge; ${labor}.`]);
+      return done(gross, ['warranty_part'], [`Part under the manufacturer's warranty until ${formatTermDay(warrantyEnd!)}: no charge; ${labor}.`]);
     }
     const fitsWarrantyPart = l.kind === 'labor' && !!l.group && warrantyGroups.has(l.group);
     if (fitsWarrantyPart && a?.warrantyLaborCovered) {
@@ -284,8 +275,8 @@ export function coverQuote(input: {
   const standing = planStanding(input.agreement, input.visitDate);
   const notes = [standing.sentence];
   const end = warrantyEndOn(input.warranty, input.visitDate);
-  if (end) notes.push(`The system's parts are under the manufacturer's warranty until ${formatDay(end)}.`);
-  else if (input.warranty?.partsEndsOn) notes.push(`The system's manufacturer's parts warranty ended on ${formatDay(input.warranty.partsEndsOn)}.`);
+  if (end) notes.push(`The system's parts are under the manufacturer's warranty until ${formatTermDay(end)}.`);
+  else if (input.warranty?.partsEndsOn) notes.push(`The system's manufacturer's parts warranty ended on ${formatTermDay(input.warranty.partsEndsOn)}.`);
   return { options, notes };
 }
 

@@ -117,7 +117,7 @@ describe('coverage on quote lines: worked examples', () => {
     const o = cover([blowerMotor(), laborHours(2, 'motor-task')], { warranty: WARRANTY });
     // Motor 38 900 → 0 under warranty (so no tax on it).
     expect(o.lines[0]).toMatchObject({ grossCents: 38_900, savingsCents: 38_900, chargedCents: 0, rules: ['warranty_part'] });
-    expect(o.lines[0]!.reason).toBe("Part under the manufacturer's warranty until 14 Mar 2029: no charge; labor is charged.");
+    expect(o.lines[0]!.reason).toBe("Part under the manufacturer's warranty until March 14, 2029: no charge; labor is charged.");
     // Labor 2 h × 12 000 = 24 000; 15 % = 3 600 → charged 20 400.
     expect(o.lines[1]).toMatchObject({ grossCents: 24_000, savingsCents: 3_600, chargedCents: 20_400, rules: ['repair_discount'] });
     expect(o.lines[1]!.reason).toBe("Labor to fit a part under the manufacturer's warranty is charged. Repair discount 15 %: −$36.00.");
@@ -128,7 +128,7 @@ describe('coverage on quote lines: worked examples', () => {
   it('7. a plan that covers labor on warranty parts makes the warranty repair free; refrigerant is still charged and taxed', () => {
     const refrigerant = line({ description: 'R-410A', kind: 'part', category: 'refrigerant', unitCents: 8_500, quantity: 2, taxable: true });
     const o = cover([blowerMotor(), laborHours(2, 'motor-task'), refrigerant], { agreement: agreement({ warrantyLaborCovered: true }), warranty: WARRANTY });
-    expect(o.lines[0]!.reason).toBe("Part under the manufacturer's warranty until 14 Mar 2029: no charge; your plan covers the labor to fit it.");
+    expect(o.lines[0]!.reason).toBe("Part under the manufacturer's warranty until March 14, 2029: no charge; your plan covers the labor to fit it.");
     // Labor 24 000 → 0.
     expect(o.lines[1]).toMatchObject({ chargedCents: 0, savingsCents: 24_000, rules: ['warranty_labor'] });
     expect(o.lines[1]!.reason).toBe("Labor to fit a part under the manufacturer's warranty: included in your plan.");
@@ -144,7 +144,7 @@ describe('coverage on quote lines: worked examples', () => {
     const lapsed = 'Your agreement has lapsed, so no plan benefits apply until it is renewed.';
     expect(o.lines[0]).toMatchObject({ chargedCents: 12_900, reason: lapsed });
     expect(o.lines[1]).toMatchObject({ chargedCents: 8_900, reason: lapsed });
-    expect(o.lines[2]).toMatchObject({ chargedCents: 0, reason: "Part under the manufacturer's warranty until 14 Mar 2029: no charge; labor is charged." });
+    expect(o.lines[2]).toMatchObject({ chargedCents: 0, reason: "Part under the manufacturer's warranty until March 14, 2029: no charge; labor is charged." });
     expect(o.lines[3]).toMatchObject({ chargedCents: 24_000, reason: `Labor to fit a part under the manufacturer's warranty is charged. ${lapsed}` });
     // Subtotal 12 900 + 8 900 + 38 900 + 24 000 = 84 700; savings 38 900 (the warranty part); total 45 800.
     expect(o).toMatchObject({ subtotalCents: 84_700, savingsCents: 38_900, taxCents: 0, totalCents: 45_800 });
@@ -204,11 +204,11 @@ describe('coverage on quote lines: worked examples', () => {
     expect(o).toMatchObject({ taxableCents: 8_197, taxCents: 676 });
   });
 
-  it('13. outside the term no plan benefits apply, and the reason gives the date', () => {
+  it('13. outside the term no plan benefits apply, and the reason gives the last covered day (the day before the exclusive end)', () => {
     const after = cover([laborHours(1)], { visitDate: '2027-03-10' });
-    expect(after.lines[0]).toMatchObject({ chargedCents: 12_000, reason: "Your agreement's term ended on 10 Mar 2027, so no plan benefits apply until it is renewed." });
+    expect(after.lines[0]).toMatchObject({ chargedCents: 12_000, reason: "Your agreement's term ended on March 9, 2027, so no plan benefits apply until it is renewed." });
     const before = cover([laborHours(1)], { visitDate: '2026-03-09' });
-    expect(before.lines[0]!.reason).toBe('Your agreement starts on 10 Mar 2026, so no plan benefits apply yet.');
+    expect(before.lines[0]!.reason).toBe('Your agreement starts on March 10, 2026, so no plan benefits apply yet.');
   });
 });
 
@@ -216,7 +216,7 @@ describe('quotes with several options', () => {
   it('gives each option the same tune-ups left, since the homeowner approves only one', () => {
     const q = coverQuote({ agreement: agreement(), warranty: WARRANTY, visitDate: VISIT, options: [{ lines: [tuneUp()] }, { lines: [tuneUp(), laborHours(1)] }], taxRateBps: TAX });
     expect(q.options.map((o) => o.lines[0]!.chargedCents)).toEqual([0, 0]);
-    expect(q.notes).toEqual(['Your Two-Season Care plan applies.', "The system's parts are under the manufacturer's warranty until 14 Mar 2029."]);
+    expect(q.notes).toEqual(['Your Two-Season Care plan applies.', "The system's parts are under the manufacturer's warranty until March 14, 2029."]);
   });
 
   it('names the option and line of a bad input', () => {

@@ -129,6 +129,23 @@ describe('direct work invoices', () => {
     expect(again.status).toBe(409);
   });
 
+  it('work the plan covers in full is settled as issued, and the mail asks for nothing', async () => {
+    // A member's diagnostic fee is waived by the plan: the invoice comes to $0.00.
+    const startedAt = new Date();
+    const res = await post(tech.signed, '/api/work-invoices', { customerId: home.customerId, visitId, lines: [diag] });
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ totalCents: 0, status: 'paid' });
+    const [row] = await h.ctx.database.db.select().from(invoices).where(eq(invoices.id, res.body.id));
+    expect(row!.paidAt).not.toBeNull();
+    expect(await payLinkMails(res.body.id)).toHaveLength(1);
+    const mail = await h.smtp.store.waitForLatest({ to: home.email, after: startedAt }, 8000);
+    expect(mail?.subject.startsWith(`Invoice ${res.body.number} from `)).toBe(true);
+    expect(mail?.text).toContain('there is nothing to pay');
+    expect(mail?.text).not.toContain('Pay online');
+    const open = (await home.homeowner.agent.get('/api/invoices').expect(200)).body.rows.find((r: { id: string }) => r.id === res.body.id);
+    expect(open).toMatchObject({ status: 'paid' });
+  });
+
   it('the portal keeps its own return pages: a homeowner cannot send the payment page back to a visit', async () => {
     const res = await post(office, '/api/work-invoices', { customerId: home.customerId, visitId, lines: [{ source: 'item', itemId: relayId, quantity: 1 }], sendPayLink: false });
     const bad = await post(home.homeowner, `/api/invoices/${res.body.id}/checkout`, { returnPath: `/field/visits/${visitId}` });

@@ -125,7 +125,9 @@ export async function insertCoveredInvoice(tx: Tx, input: CoveredInvoice, now: D
       agreementId: input.agreementId,
       visitId: input.visitId,
       purpose: 'service',
-      status: 'open',
+      // Work the plan or a warranty covered in full leaves nothing to pay: it is settled as issued.
+      status: input.totals.totalCents === 0 ? 'paid' : 'open',
+      paidAt: input.totals.totalCents === 0 ? now : null,
       taxRateBps: input.taxRateBps,
       ...input.totals,
       notes: input.notes,

@@ -40,13 +40,14 @@ async function openAnswer(tx: Tx, user: SessionUser, id: string, revision: numbe
 
 function payMail(deps: MailDeps, invoice: InvoiceView, to: string, companyName: string) {
   const url = `${deps.config.publicUrl}/portal/invoices/${invoice.id}`;
+  const settled = invoice.totalCents === 0;
   const content = renderEmail({
     title: `Invoice ${invoice.number} from ${companyName}`,
     paragraphs: [
       `Total ${formatUsd(invoice.totalCents)}${invoice.discountCents ? `, after ${formatUsd(invoice.discountCents)} of plan savings` : ''}.`,
-      'You can pay online with a card.',
+      settled ? 'This work is covered in full: there is nothing to pay.' : 'You can pay online with a card.',
     ],
-    action: { label: 'Pay online', url },
+    action: { label: settled ? 'See the invoice' : 'Pay online', url },
   });
   return queueMail(deps, {
     kind: 'invoice_pay_link',
