@@ -31,8 +31,10 @@ export async function ensureDatabaseExists(url: string): Promise<void> {
       try {
         await client.query(`create database "${name.replace(/"/g, '""')}"`);
       } catch (err) {
-        // Another process created it first.
-        if ((err as { code?: string }).code !== '42P04') throw err;
+        // Another process created it first: 42P04 once its row is visible, 23505 on the catalog's
+        // unique index while both creations are still in flight.
+        const code = (err as { code?: string }).code;
+        if (code !== '42P04' && code !== '23505') throw err;
       }
     }
   } finally {
