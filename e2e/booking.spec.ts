@@ -1,5 +1,6 @@
 import { expect, test, type Browser } from '@playwright/test';
 import ICAL from 'ical.js';
+import { signInStaff } from './support/sign-in';
 import { DEMO, MAILBOX_URL, latestMail } from './support/env';
 
 // Sam Oduya's household holds a plan agreement in the demo data, so the portal offers priority windows.
@@ -18,10 +19,7 @@ async function calendarPart(mail: Awaited<ReturnType<typeof latestMail>>) {
 async function officePage(browser: Browser) {
   const context = await browser.newContext();
   const page = await context.newPage();
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.office);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.office);
   await expect(page.getByRole('button', { name: 'Account menu' })).toBeVisible();
   return page;
 }

@@ -1,14 +1,12 @@
 import { expect, test } from '@playwright/test';
 import sharp from 'sharp';
+import { signInStaff } from './support/sign-in';
 import { DEMO, latestMail } from './support/env';
 
 test('a technician records a tune-up with an out-of-range reading and completes it; the homeowner sees the summary and chart', async ({ page, browser }) => {
   // Phone-sized, as on site.
   await page.setViewportSize({ width: 390, height: 844 });
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.technician);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.technician);
   await expect(page).toHaveURL(/\/field$/);
 
   await expect(page.getByRole('heading', { name: "Today's visits" })).toBeVisible();
@@ -115,10 +113,7 @@ test('a technician records a tune-up with an out-of-range reading and completes 
 
 test('readings typed on a no-cooling call survive a reload and a dropped signal until the server has them', async ({ page, context }) => {
   await page.setViewportSize({ width: 360, height: 740 });
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.technician);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.technician);
   await page.getByRole('link', { name: /No cooling.*Oduya household/ }).click();
   await expect(page.getByRole('heading', { name: 'No cooling: troubleshooting' })).toBeVisible();
 
@@ -154,10 +149,7 @@ test('readings typed on a no-cooling call survive a reload and a dropped signal 
 
 test('a technician records a variable-speed tune-up at forced full capacity; the charge is judged only in test mode', async ({ page }) => {
   await page.setViewportSize({ width: 360, height: 740 });
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.technician);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.technician);
   await page.getByRole('link', { name: /Tune-up.*Calloway household/ }).click();
   await expect(page.getByRole('heading', { name: /Tune-up · Calloway household/ })).toBeVisible();
 

@@ -1,5 +1,6 @@
 import { expect, test } from '@playwright/test';
 import sharp from 'sharp';
+import { signInStaff } from './support/sign-in';
 import { DEMO, latestMail } from './support/env';
 
 test('the office records a household, its home and a heat pump with a nameplate photo; the homeowner sees them in My home', async ({ page, browser }) => {
@@ -7,10 +8,7 @@ test('the office records a household, its home and a heat pump with a nameplate 
   const email = `linden.${tag}@example.test`;
   const household = `Linden ${tag} household`;
 
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.office);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.office);
   await expect(page).toHaveURL(/\/office/);
 
   await page.getByRole('link', { name: 'Households' }).first().click();

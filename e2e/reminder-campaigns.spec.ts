@@ -1,11 +1,9 @@
 import { expect, test, type Browser, type Locator, type Page } from '@playwright/test';
 import { DEMO, MAILBOX_URL, latestMail } from './support/env';
+import { signInStaff } from './support/sign-in';
 
 async function signIn(page: Page, email: string) {
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(email);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, email);
   await expect(page.getByRole('button', { name: 'Account menu' })).toBeVisible();
 }
 

@@ -1,4 +1,5 @@
 import { expect, test } from '@playwright/test';
+import { signInStaff } from './support/sign-in';
 import { DEMO, STRIPE_URL } from './support/env';
 
 // Today's 15:00 tune-up of the demo technician (server/db/seed/seed.ts): the other journeys record
@@ -11,10 +12,7 @@ const nextYear = String((new Date().getUTCFullYear() + 2) % 100).padStart(2, '0'
 test('approved on the technician’s phone, paid on it through the payment page, and the part to order shows under parts to load', async ({ page }) => {
   test.setTimeout(150_000);
   await page.setViewportSize({ width: 390, height: 844 });
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(DEMO.technician);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(page, DEMO.technician);
   await expect(page).toHaveURL(/\/field$/);
   await expect(page.getByRole('region', { name: 'Parts to load' })).toBeVisible();
   await expect(page.getByRole('list', { name: 'Parts to load' }).getByText(SHOP_MOTOR)).toHaveCount(0);

@@ -5,14 +5,14 @@
  * one process exits. Also checks, on a real process, that a request Node's parser refuses is
  * answered in the one error shape.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { setTimeout as sleep } from 'node:timers/promises';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { ROOT, buildServer, freePort } from '../scripts/lib/proc.mjs';
+import { buildServer } from '../scripts/lib/proc.mjs';
+import { startCompiledApi, type CompiledApi } from './support/compiled-api';
 import { rawRequest } from './support/raw-http';
 
 const ROUNDS = 3;
@@ -32,37 +32,11 @@ async function admin(sql: string): Promise<void> {
   await c.query(sql).finally(() => c.end());
 }
 
-/** Starts the compiled API with its workers; resolves once health answers, rejects if it exits. */
-async function startApi(databaseUrl: string): Promise<{ port: number; output: () => string }> {
-  const port = await freePort();
-  const child = spawn(process.execPath, [join(ROOT, 'dist', 'server', 'main.js')], {
-    cwd: ROOT,
-    env: {
-      PATH: process.env.PATH,
-      NODE_ENV: 'test',
-      HOST: '127.0.0.1',
-      PORT: String(port),
-      DATABASE_URL: databaseUrl,
-      LOG_LEVEL: 'warn',
-      SMTP_URL: 'smtp://127.0.0.1:9',
-      STORAGE_DIR: storage,
-    },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  started.push(child);
-  let out = '';
-  child.stdout!.on('data', (c) => (out += c));
-  child.stderr!.on('data', (c) => (out += c));
-  for (let i = 0; i < 300; i++) {
-    if (child.exitCode !== null) throw new Error(`the API exited ${child.exitCode}:\n${out}`);
-    const up = await fetch(`http://127.0.0.1:${port}/api/health`).then(
-      (r) => r.ok,
-      () => false,
-    );
-    if (up) return { port, output: () => out };
-    await sleep(100);
-  }
-  throw new Error(`the API did not answer:\n${out}`);
+/** The compiled API with its workers, on a database of its own. */
+async function startApi(databaseUrl: string): Promise<CompiledApi> {
+  const api = await startCompiledApi({ DATABASE_URL: databaseUrl, STORAGE_DIR: storage });
+  started.push(api.child);
+  return api;
 }
 
 beforeAll(() => buildServer(), 240_000);

@@ -3,7 +3,7 @@
  * renewal workers. A session made on one API process works on the other, a rate limit counts
  * requests to both, and a renewal run by both workers at once charges the card once.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -12,18 +12,15 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { inject } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { ROOT, buildServer, freePort } from '../scripts/lib/proc.mjs';
+import { ROOT, buildServer } from '../scripts/lib/proc.mjs';
 import { termEnd, addDays } from '../shared/renewals';
 import { localDate } from '../server/company/company';
 import { agreements } from '../server/db/schema';
 import { csrfFrom } from './support/auth';
+import { startCompiledApi, type CompiledApi } from './support/compiled-api';
 import { newHousehold, seedAgreement, startHarness, type Harness } from './billing-harness';
 
-interface Api {
-  child: ChildProcess;
-  url: string;
-  output: string;
-}
+type Api = CompiledApi;
 const apis: Api[] = [];
 const storage = mkdtempSync(join(tmpdir(), 'sw-multi-'));
 let dbUrl = '';
@@ -46,39 +43,7 @@ function run(file: string, env: Record<string, string>): Promise<void> {
   });
 }
 
-async function startApi(): Promise<Api> {
-  const port = await freePort();
-  const child = spawn(process.execPath, [join(ROOT, 'dist', 'server', 'main.js')], {
-    cwd: ROOT,
-    env: {
-      PATH: process.env.PATH,
-      NODE_ENV: 'test',
-      HOST: '127.0.0.1',
-      PORT: String(port),
-      DATABASE_URL: dbUrl,
-      LOG_LEVEL: 'warn',
-      SMTP_URL: 'smtp://127.0.0.1:9',
-      STORAGE_DIR: storage,
-      RUN_JOBS: 'false',
-    },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  const api: Api = { child, url: `http://127.0.0.1:${port}`, output: '' };
-  child.stdout!.on('data', (c) => (api.output += c));
-  child.stderr!.on('data', (c) => (api.output += c));
-  for (let i = 0; i < 300; i++) {
-    if (child.exitCode !== null) throw new Error(`the API exited ${child.exitCode}:\n${api.output}`);
-    if (
-      await fetch(`${api.url}/api/health`).then(
-        (r) => r.ok,
-        () => false,
-      )
-    )
-      return api;
-    await sleep(200);
-  }
-  throw new Error(`the API did not answer:\n${api.output}`);
-}
+const startApi = () => startCompiledApi({ DATABASE_URL: dbUrl, STORAGE_DIR: storage, RUN_JOBS: 'false' }, 200);
 
 /** A cookie jar of one: the session and CSRF cookies, sent to either process. */
 class Browser {
