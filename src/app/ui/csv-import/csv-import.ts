@@ -72,6 +72,12 @@ export class CsvImport<C extends CsvImportCheck, R> {
       .filter((f) => f.required && !this.mapping()[f.key])
       .map((f) => f.label),
   );
+  /** A problem's column as the file names it; a column the file lacks, by our field's label. */
+  protected columnLabel(column: string | null | undefined): string {
+    if (!column) return '—';
+    return this.fields().find((f) => f.key === column)?.label ?? column;
+  }
+
   protected restart(): void {
     this.step.set('pick');
     this.file.set(null);
