@@ -126,10 +126,27 @@ export const VISIT_STATE_WORDS: Record<VisitStatus, VisitStateWords> = {
 
 // ---- A visit's times: the arrival window promised to the homeowner, and the work booked within it ----
 
-function clock(at: Date, timeZone: string): { time: string; meridiem: string } {
-  // ICU writes a narrow no-break space before AM/PM; split on any space.
-  const [time, meridiem] = new Intl.DateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hour12: true }).format(at).split(/\s/);
-  return { time: time!, meridiem: meridiem ?? '' };
+const clockFormats = new Map<string, Intl.DateTimeFormat>();
+
+/** The hour and minute in `timeZone`, 12-hour: "9", "7:30", with "am" or "pm". */
+function clock(at: Date, timeZone: string): { time: string; meridiem: 'am' | 'pm' } {
+  let f = clockFormats.get(timeZone);
+  if (!f) clockFormats.set(timeZone, (f = new Intl.DateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hourCycle: 'h23' })));
+  const parts = Object.fromEntries(f.formatToParts(at).map((p) => [p.type, p.value]));
+  const hour = Number(parts['hour']) % 24;
+  const minute = parts['minute'] ?? '00';
+  const hour12 = hour % 12 === 0 ? 12 : hour % 12;
+  return { time: minute === '00' ? String(hour12) : `${hour12}:${minute}`, meridiem: hour < 12 ? 'am' : 'pm' };
+}
+
+/**
+ * The one way a time range is written: "8–10 am", "7:30–9:30 am", "10 am–12 pm" across noon, in
+ * the company's zone. Booking windows, the technician's day, the homeowner's visits and e-mails use it.
+ */
+export function timeRangeLabel(start: Date | string | number, end: Date | string | number, timeZone: string): string {
+  const a = clock(new Date(start), timeZone);
+  const b = clock(new Date(end), timeZone);
+  return a.meridiem === b.meridiem ? `${a.time}–${b.time} ${b.meridiem}` : `${a.time} ${a.meridiem}–${b.time} ${b.meridiem}`;
 }
 
 /** "1 h 30 min": how long the work is booked for. */
@@ -148,10 +165,7 @@ export function visitTimeLabels(
   v: { windowStart: Date | string; windowEnd: Date | string; startsAt: Date | string; endsAt: Date | string },
   timeZone: string,
 ): { arrival: string; work: string } {
-  const a = clock(new Date(v.windowStart), timeZone);
-  const b = clock(new Date(v.windowEnd), timeZone);
-  const range = a.meridiem === b.meridiem ? `${a.time}–${b.time} ${b.meridiem}` : `${a.time} ${a.meridiem}–${b.time} ${b.meridiem}`;
-  return { arrival: `Arrival ${range}`, work: `${workLength(v.startsAt, v.endsAt)} of work booked` };
+  return { arrival: `Arrival ${timeRangeLabel(v.windowStart, v.windowEnd, timeZone)}`, work: `${workLength(v.startsAt, v.endsAt)} of work booked` };
 }
 
 // ---- Service history: what is coming up, what is past, and windows that passed unstarted ----

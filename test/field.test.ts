@@ -239,10 +239,10 @@ describe("today's visits", () => {
     expect(res.body.visits.map((v: { id: string }) => v.id)).toEqual([f.tuneUpId, f.callId]);
     const [first, second] = res.body.visits;
     expect(first.address).toBe('12 Test Furrow Lane, Larkspur Bend, MO 64790');
-    expect(first.windowLabel).toBe('9:00–11:00 AM');
-    expect(second.windowLabel).toBe('1:00–3:00 PM');
+    expect(first.windowLabel).toBe('9–11 am');
+    expect(second.windowLabel).toBe('1–3 pm');
     // One definition of a visit's time in every view: the arrival window, and the work booked within it.
-    expect([first.arrivalLabel, first.workLabel]).toEqual(['Arrival 9:00–11:00 AM', '1 h 30 min of work booked']);
+    expect([first.arrivalLabel, first.workLabel]).toEqual(['Arrival 9–11 am', '1 h 30 min of work booked']);
     const week = await tech.agent.get('/api/schedule/week').expect(200);
     const same = week.body.visits.find((v: { id: string }) => v.id === f.tuneUpId);
     expect(visitTimeLabels(same, week.body.timeZone)).toEqual({ arrival: first.arrivalLabel, work: first.workLabel });

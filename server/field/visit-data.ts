@@ -7,7 +7,7 @@ import type { ItemCategory } from '../../shared/pricebook';
 import type { SeasonSettings } from '../../shared/seasons';
 import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
-import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, visitTimeLabels } from '../../shared/visits';
+import { timeRangeLabel, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, visitTimeLabels } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
 import { termOn } from '../../shared/agreement-terms';
 import { termsOf } from '../agreements/term-in-force';
@@ -33,12 +33,9 @@ export async function companyInfo(db: Db | Tx): Promise<CompanyInfo> {
   return { name, timeZone, diagnosticFeeCents, phone, seasons: { coolingStartMonth, heatingStartMonth } };
 }
 
-/** "9:00–11:00 AM", or "11:00 AM–1:00 PM" across noon, in the company's zone. */
+/** "9–11 am" in the company's zone: the one range style (timeRangeLabel). */
 export function windowLabel(start: Date, end: Date, zone: string): string {
-  const s = DateTime.fromJSDate(start, { zone });
-  const e = DateTime.fromJSDate(end, { zone });
-  const same = s.toFormat('a') === e.toFormat('a');
-  return `${s.toFormat(same ? 'h:mm' : 'h:mm a')}–${e.toFormat('h:mm a')}`;
+  return timeRangeLabel(start, end, zone);
 }
 
 export function addressOf(p: Pick<PropertyRow, 'street' | 'unit' | 'city' | 'state' | 'zip'>): string {

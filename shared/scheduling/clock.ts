@@ -1,4 +1,5 @@
 import { DateTime, IANAZone } from 'luxon';
+import { timeRangeLabel } from '../visits';
 
 const MINUTE = 60_000;
 const HOUR = 60 * MINUTE;
@@ -133,8 +134,7 @@ export function windowLabel(startMs: number, endMs: number, timeZone: string, sh
     if (za === zb && a.meridiem === b.meridiem) return `${day}, ${a.text}–${b.text} ${b.meridiem} ${zb}`;
     return `${day}, ${a.text} ${a.meridiem} ${za}–${b.text} ${b.meridiem} ${zb}`;
   }
-  if (a.meridiem === b.meridiem) return `${day}, ${a.text}–${b.text} ${b.meridiem}`;
-  return `${day}, ${a.text} ${a.meridiem}–${b.text} ${b.meridiem}`;
+  return `${day}, ${timeRangeLabel(startMs, endMs, timeZone)}`;
 }
 
 export function toIso(ms: number, timeZone: string): string {

@@ -90,9 +90,9 @@ export interface TodayVisit {
   statusLabel: string;
   windowStart: string;
   windowEnd: string;
-  /** "9:00–11:00 AM" in the company's time zone. */
+  /** "9–11 am" in the company's time zone. */
   windowLabel: string;
-  /** "Arrival 9:00–11:00 AM" and "1 h 30 min of work booked" (visitTimeLabels in shared/visits.ts). */
+  /** "Arrival 9–11 am" and "1 h 30 min of work booked" (visitTimeLabels in shared/visits.ts). */
   arrivalLabel: string;
   workLabel: string;
   customerName: string;

@@ -30,7 +30,7 @@ export interface HomeNextVisit {
   statusLabel: string;
   /** "Tue 1 Dec", in the company's time zone. */
   dayLabel: string;
-  /** "Arrival 9:00–11:00 AM". */
+  /** "Arrival 9–11 am". */
   arrivalLabel: string;
   technicianName: string | null;
 }

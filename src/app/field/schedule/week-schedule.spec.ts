@@ -39,7 +39,7 @@ describe('WeekSchedule', () => {
     http.expectOne((r) => r.url.startsWith('/api/schedule/week')).flush(week);
     await fixture.whenStable();
     const text = (fixture.nativeElement as HTMLElement).textContent ?? '';
-    expect(text).toContain('Arrival 9:00–11:00 AM');
+    expect(text).toContain('Arrival 9–11 am');
     expect(text).toContain('1 h 30 min of work booked');
     expect(text).not.toContain('9:00–10:30');
   });
