@@ -389,7 +389,9 @@ describe('dates', () => {
     const company = await ctx.database.db.execute(sql`select time_zone from company limit 1`);
     const zone = String(company.rows[0]?.time_zone ?? 'America/Chicago');
     const inside = DateTime.now().setZone(zone).plus({ months: 12 }).minus({ days: 2 }).toISODate()!;
-    const outside = DateTime.now().setZone(zone).plus({ months: 12 }).plus({ days: 2 }).toISODate()!;
+    // The bound is the UTC day plus one day of time-zone slack, so three days past the horizon is
+    // outside at every hour of the company's day.
+    const outside = DateTime.now().setZone(zone).plus({ months: 12 }).plus({ days: 3 }).toISODate()!;
     await dana.agent.get('/api/booking/windows').query({ propertyId: danaPropertyId, reason: 'noise', from: inside, days: 1 }).expect(200);
     expectError(await dana.agent.get('/api/booking/windows').query({ propertyId: danaPropertyId, reason: 'noise', from: outside, days: 1 }), 422, 'validation_failed');
   });
