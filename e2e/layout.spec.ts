@@ -51,7 +51,7 @@ async function headerRows(page: Page) {
     const items = [...bar.querySelectorAll<HTMLElement>(':scope > *')].filter((el) => el.offsetWidth > 0 && el.offsetHeight > 0 && getComputedStyle(el).position !== 'absolute');
     const tops = items.map((el) => Math.round(el.getBoundingClientRect().top + el.getBoundingClientRect().height / 2));
     const tallest = Math.max(...items.map((el) => el.getBoundingClientRect().height));
-    return { spread: Math.max(...tops) - Math.min(...tops), height: bar.getBoundingClientRect().height, tallest };
+    return { spread: Math.max(...tops) - Math.min(...tops), height: bar.getBoundingClientRect().height, tallest, overflow: bar.scrollWidth - bar.clientWidth };
   });
 }
 
@@ -60,6 +60,8 @@ async function expectOneRow(page: Page) {
   expect.soft(rows.spread, 'every header item on one line').toBeLessThanOrEqual(4);
   // One row: the bar is its tallest item plus its own padding (8 px above and below), never two rows.
   expect.soft(rows.height).toBeLessThan(rows.tallest * 2);
+  // Nothing runs past the edge (the account name stays whole).
+  expect.soft(rows.overflow, 'header content past the right edge, px').toBeLessThanOrEqual(0);
 }
 
 test("the homeowner's header is one row at 390 px with a labelled menu; My home and a visit summary hold still", async ({ browser }) => {
@@ -93,6 +95,15 @@ test("the technician's header is one row at 390 px with a labelled menu", async 
   await page.getByRole('banner').screenshot({ path: `${SHOTS}/technician-header-390.png` });
   await page.getByRole('button', { name: 'Menu', exact: true }).click();
   for (const name of ['Today', 'My week']) await expect(page.getByRole('menuitem', { name })).toBeVisible();
+});
+
+test('the office header fits one row at 1280 and 1366 px, with the account name whole', async ({ browser }) => {
+  for (const width of [1280, 1366]) {
+    const page = await staff(browser, DEMO.office, { width, height: 768 });
+    await expectOneRow(page);
+    await page.getByRole('banner').screenshot({ path: `${SHOTS}/office-header-${width}.png` });
+    await page.context().close();
+  }
 });
 
 test("the owner's header is one row at 1366 px; the households table and the access log hold still", async ({ browser }) => {
