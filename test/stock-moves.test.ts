@@ -68,6 +68,29 @@ describe('restocks and transfers', () => {
     expect(moves).toMatchObject([{ kind: 'restock', quantity: 6, note: 'Supplier delivery' }]);
   });
 
+  it('refuses a restock that would take a location past the most it holds, and keeps nothing of it', async () => {
+    const first = await post(office, '/api/stock/restocks', { locationId: shop, lines: [{ itemId: fuse, quantity: 9000 }] });
+    expect(first.status).toBe(201);
+    const had = await qty(shop, fuse);
+    const relayBefore = await qty(shop, relay);
+    const over = await post(office, '/api/stock/restocks', {
+      locationId: shop,
+      lines: [
+        { itemId: relay, quantity: 2 },
+        { itemId: fuse, quantity: 9999 },
+      ],
+    });
+    expect(over.status).toBe(422);
+    expect(over.body.error.fields['lines.1.quantity']).toMatch(/at most 9,999 of one part/);
+    expect(await qty(shop, fuse)).toBe(had);
+    expect(await qty(shop, relay), 'the first line of the refused restock is not kept').toBe(relayBefore);
+    // The same ceiling holds for a transfer into a location.
+    const moved = await post(office, '/api/stock/transfers', { fromLocationId: a.truckId, toLocationId: shop, lines: [{ itemId: fuse, quantity: 9999 }] });
+    expect(moved.status).toBeGreaterThanOrEqual(400);
+    expect(moved.status).toBeLessThan(500);
+    expect(await qty(shop, fuse)).toBe(had);
+  });
+
   it('refuses labor, nothing, and the technician', async () => {
     const notPart = await post(office, '/api/stock/restocks', { locationId: shop, lines: [{ itemId: labor, quantity: 1 }] });
     expect(notPart.status).toBe(422);

@@ -1,5 +1,14 @@
 import { and, asc, desc, eq, ilike, inArray, lt, or, sql, type SQL } from 'drizzle-orm';
-import type { Restock, StockListQuery, StockLocation, StockLocationInput, StockRow, StockRowInput, Transfer } from '../../shared/schemas/pricebook';
+import {
+  STOCK_MAX,
+  type Restock,
+  type StockListQuery,
+  type StockLocation,
+  type StockLocationInput,
+  type StockRow,
+  type StockRowInput,
+  type Transfer,
+} from '../../shared/schemas/pricebook';
 import type { PartsUsed, StockMovement, StockMovementKind } from '../../shared/schemas/quotes';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
@@ -180,11 +189,22 @@ export async function takeStock(tx: Tx, move: Move): Promise<void> {
   await tx.insert(stockMovements).values({ ...move, quantity: -move.quantity, note: move.note ?? '' });
 }
 
-export async function putStock(tx: Tx, move: Move): Promise<void> {
-  await tx
+/**
+ * Puts parts into a location. Past STOCK_MAX of one part the whole write is refused with a 422 on
+ * `field` (the line's quantity), before anything is kept: the caller's transaction rolls back.
+ */
+export async function putStock(tx: Tx, move: Move, field = 'quantity'): Promise<void> {
+  const [row] = await tx
     .insert(stockLevels)
     .values({ locationId: move.locationId, itemId: move.itemId, quantity: move.quantity })
-    .onConflictDoUpdate({ target: [stockLevels.locationId, stockLevels.itemId], set: { quantity: sql`${stockLevels.quantity} + ${move.quantity}`, updatedAt: sql`now()` } });
+    .onConflictDoUpdate({ target: [stockLevels.locationId, stockLevels.itemId], set: { quantity: sql`${stockLevels.quantity} + ${move.quantity}`, updatedAt: sql`now()` } })
+    .returning({ q: stockLevels.quantity });
+  if (row && row.q > STOCK_MAX) {
+    const had = row.q - move.quantity;
+    throw new AppError(422, 'validation_failed', `Please check ${field}.`, {
+      [field]: `A location holds at most ${STOCK_MAX.toLocaleString('en-US')} of one part; it has ${had.toLocaleString('en-US')}, so at most ${Math.max(0, STOCK_MAX - had).toLocaleString('en-US')} more fit.`,
+    });
+  }
   await tx.insert(stockMovements).values({ ...move, note: move.note ?? '' });
 }
 
@@ -198,7 +218,8 @@ export async function restock(deps: Deps, user: SessionUser, input: Restock): Pr
       tx,
       input.lines.map((l) => l.itemId),
     );
-    for (const l of input.lines) await putStock(tx, { kind: 'restock', locationId: input.locationId, itemId: l.itemId, quantity: l.quantity, userId: user.id, note: input.note });
+    for (const [i, l] of input.lines.entries())
+      await putStock(tx, { kind: 'restock', locationId: input.locationId, itemId: l.itemId, quantity: l.quantity, userId: user.id, note: input.note }, `lines.${i}.quantity`);
   });
   return rowsFor(
     db,
@@ -217,9 +238,13 @@ export async function transfer(deps: Deps, user: SessionUser, input: Transfer): 
       input.lines.map((l) => l.itemId),
     );
     const transferId = crypto.randomUUID();
-    for (const l of input.lines) {
+    for (const [i, l] of input.lines.entries()) {
       await takeStock(tx, { kind: 'transfer_out', locationId: input.fromLocationId, itemId: l.itemId, quantity: l.quantity, transferId, userId: user.id, note: input.note });
-      await putStock(tx, { kind: 'transfer_in', locationId: input.toLocationId, itemId: l.itemId, quantity: l.quantity, transferId, userId: user.id, note: input.note });
+      await putStock(
+        tx,
+        { kind: 'transfer_in', locationId: input.toLocationId, itemId: l.itemId, quantity: l.quantity, transferId, userId: user.id, note: input.note },
+        `lines.${i}.quantity`,
+      );
     }
   });
   return rowsFor(

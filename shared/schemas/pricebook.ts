@@ -87,7 +87,10 @@ export const quantitySchema = z.preprocess(
     .refine((q) => Math.abs(Math.round(q * 1000) - q * 1000) < 1e-6, 'Quantity allows at most 3 decimals.'),
 );
 
-const stockCount = (label: string, min: number) => wholeNumber(label, min, 9999);
+/** The most of one part a location holds; a restock or transfer past it is refused. */
+export const STOCK_MAX = 9999;
+
+const stockCount = (label: string, min: number) => wholeNumber(label, min, STOCK_MAX);
 
 // ---- Part specifications, one schema per category ----
 
