@@ -396,6 +396,16 @@ describe('dates', () => {
     expectError(await dana.agent.get('/api/booking/windows').query({ propertyId: danaPropertyId, reason: 'noise', from: outside, days: 1 }), 422, 'validation_failed');
   });
 
+  it('a report outside its dates names the field in its message', async () => {
+    const res = await office.agent.get('/api/reports/revenue').query({ from: '1990-01-01', to: '1990-01-31' });
+    expectError(res, 422, 'validation_failed');
+    expect(res.body.error.fields.from).toMatch(/^From: /);
+    expect(res.body.error.fields.to).toMatch(/^To: /);
+    expect(res.body.error.message).toBe('Please check From, To.');
+    const far = await dana.agent.get('/api/booking/windows').query({ propertyId: danaPropertyId, reason: 'noise', from: '2099-01-01', days: 1 });
+    expect(far.body.error.fields.from).toMatch(/^From: Booking opens at most 12 months ahead/);
+  });
+
   it('the dispatch board and the week schedule cap their range', async () => {
     const res = await office.agent.get('/api/dispatch/board').query({ from: '9999-12-27', days: 7 });
     expectError(res, 422, 'validation_failed');

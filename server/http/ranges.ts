@@ -24,11 +24,17 @@ export const OFFICE_RANGE: Range = {
   describe: `Choose a date within ${BOARD_RANGE_YEARS} years of today.`,
 };
 
+/** "windowStart" → "Window start": a field's name as a person reads it. */
+function labelOf(name: string): string {
+  const words = name.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
 /**
  * Throws a 422 naming each field whose date (YYYY-MM-DD, or the UTC day of an ISO instant) is
- * outside the range around `now`. Absent fields pass.
+ * outside the range around `now`, each message starting with the field's label. Absent fields pass.
  */
-export function assertDatesWithin(now: Date, range: Range, values: Record<string, string | null | undefined>): void {
+export function assertDatesWithin(now: Date, range: Range, values: Record<string, string | null | undefined>, labels: Record<string, string> = {}): void {
   const today = DateTime.fromJSDate(now, { zone: 'utc' }).startOf('day');
   const earliest = today.minus(range.before).toISODate()!;
   const latest = today.plus(range.after).plus({ days: 1 }).toISODate()!;
@@ -36,8 +42,8 @@ export function assertDatesWithin(now: Date, range: Range, values: Record<string
   for (const [name, value] of Object.entries(values)) {
     if (!value) continue;
     const day = value.length === 10 ? value : new Date(value).toISOString().slice(0, 10);
-    if (day < earliest || day > latest) fields[name] = range.describe;
+    if (day < earliest || day > latest) fields[name] = `${labels[name] ?? labelOf(name)}: ${range.describe}`;
   }
   const names = Object.keys(fields);
-  if (names.length) throw new AppError(422, 'validation_failed', `Please check ${names.join(', ')}.`, fields);
+  if (names.length) throw new AppError(422, 'validation_failed', `Please check ${names.map((n) => labels[n] ?? labelOf(n)).join(', ')}.`, fields);
 }

@@ -18,7 +18,7 @@ export function reportRoutes(deps: AppDeps): Router {
   const read = (req: { params: Record<string, unknown>; query: unknown }) => {
     const { report } = parse(reportNameSchemaObject, { report: req.params.report });
     const q = parse(reportQuerySchema, req.query);
-    assertDatesWithin(deps.clock(), REPORT_RANGE, { from: q.from, to: q.to });
+    assertDatesWithin(deps.clock(), REPORT_RANGE, { from: q.from, to: q.to }, { from: 'From', to: 'To' });
     return { report, q };
   };
   router.get('/:report', async (req, res) => {
