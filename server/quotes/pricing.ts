@@ -25,6 +25,8 @@ export interface PricedLine extends CoverageLineInput {
 
 export interface CoverageContext {
   info: CompanyInfo;
+  /** The home the work is at: every system a line names must be there. */
+  propertyId: string;
   visitDate: string;
   coverage: Coverage;
   agreement: QuoteAgreement | null;
@@ -61,10 +63,12 @@ export async function coverageContext(db: Db | Tx, visit: VisitRow, equipmentId:
     if (!e || e.propertyId !== visit.propertyId) throw new AppError(422, 'validation_failed', 'Please check equipmentId.', { equipmentId: 'Choose a system at this home.' });
     warranty = { partsEndsOn: e.warrantyEndsOn };
   }
-  return { info, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage, plan), warranty, taxRateBps };
+  return { info, propertyId: visit.propertyId, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage, plan), warranty, taxRateBps };
 }
 
-const bad = (field: string, message: string) => new AppError(422, 'validation_failed', `Please check ${field}.`, { [field]: message });
+/** One 422 naming every field in `fields`, in the usual shape. */
+export const invalidFields = (fields: Record<string, string>) => new AppError(422, 'validation_failed', `Please check ${Object.keys(fields).join(', ')}.`, fields);
+const bad = (field: string, message: string) => invalidFields({ [field]: message });
 
 /** Prices one option's lines; `path` names the option in field errors (e.g. "options.0"). */
 export async function priceLines(db: Db | Tx, lines: QuoteLineInput[], ctx: CoverageContext, path: string): Promise<PricedLine[]> {
@@ -74,6 +78,12 @@ export async function priceLines(db: Db | Tx, lines: QuoteLineInput[], ctx: Cove
   const items = itemIds.length ? await db.select().from(priceBookItems).where(inArray(priceBookItems.id, itemIds)) : [];
   const tasks = taskIds.length ? await taskViews(db, taskIds) : [];
   const locs = locIds.length ? await db.select({ id: stockLocations.id }).from(stockLocations).where(inArray(stockLocations.id, locIds)) : [];
+  const unitIds = [...new Set(lines.flatMap((l) => (l.equipmentId ? [l.equipmentId] : [])))];
+  const units = unitIds.length ? await db.select({ id: equipment.id, propertyId: equipment.propertyId }).from(equipment).where(inArray(equipment.id, unitIds)) : [];
+  const here = new Set(units.filter((u) => u.propertyId === ctx.propertyId).map((u) => u.id));
+  // A line's system is one at the home the work is at: another household's (or a made-up id) is refused.
+  const elsewhere = lines.flatMap((l, i) => (l.equipmentId && !here.has(l.equipmentId) ? [[`${path}.lines.${i}.equipmentId`, 'Choose a system at this home.'] as const] : []));
+  if (elsewhere.length) throw invalidFields(Object.fromEntries(elsewhere));
   const season = ctx.coverage.tuneUpSeason ?? tuneUpSeasonOf(ctx.visitDate, ctx.info.seasons);
   const out: PricedLine[] = [];
   lines.forEach((l, i) => {
