@@ -24,6 +24,8 @@ export interface BodyFixtures {
   visitB: string;
   /** A visit the technician session is assigned to. */
   visitTech: string;
+  /** The household of that visit. */
+  customerTech: string;
   activePlan: string;
   /** An arrival window open at the caller's home, for a booking that is valid but for one field. */
   windowS: string;
@@ -82,6 +84,20 @@ export const BODY_IDS: BodyIdRow[] = [
   { who: 'technician', route: 'POST /api/quotes', field: 'photoIds.0', expect: 'refused', body: (f) => quote(f, { photoIds: [f.fileV] }) },
   { who: 'technician', route: 'POST /api/quotes/preview', field: 'options.0.lines.0.equipmentId', expect: 'refused', body: (f) => quote(f, { equipmentId: f.equipmentV }) },
   { who: 'technician', route: 'POST /api/quotes/preview', field: 'photoIds.0', expect: 'refused', body: (f) => quote(f, { photoIds: [f.fileV] }) },
+  {
+    who: 'technician',
+    route: 'POST /api/work-invoices',
+    field: 'lines.0.equipmentId',
+    expect: 'refused',
+    body: (f) => ({ customerId: f.customerTech, visitId: f.visitTech, lines: [labor(f.equipmentV)], sendPayLink: false }),
+  },
+  {
+    who: 'technician',
+    route: 'POST /api/work-invoices/preview',
+    field: 'lines.0.equipmentId',
+    expect: 'refused',
+    body: (f) => ({ customerId: f.customerTech, visitId: f.visitTech, lines: [labor(f.equipmentV)] }),
+  },
   { who: 'technician', route: 'POST /api/files', field: 'equipmentId', expect: 'refused', form: (f) => ({ equipmentId: f.equipmentV }) },
   { who: 'technician', route: 'POST /api/files', field: 'propertyId', expect: 'refused', form: (f) => ({ propertyId: f.propertyV }) },
   {
