@@ -87,7 +87,8 @@ test("after renewing early the current term stays in force: the technician sees 
   await tech.getByRole('button', { name: 'Sign in', exact: true }).click();
   await tech.getByRole('link', { name: /Tune-up.*Whitfield household/ }).click();
   await expect(tech.getByRole('heading', { name: /Covered: Priority Comfort/ })).toBeVisible();
-  await expect(tech.getByText(`Covered through ${currentLastDay}`)).toBeVisible();
+  // The term in force is the current one; covered through the last paid day, the new term's.
+  await expect(tech.getByText(`to ${currentLastDay} · Covered through ${through}`)).toBeVisible();
   await tech.close();
 
   const office = await browser.newPage();
