@@ -1,5 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { DEMO, latestMail } from './support/env';
+import { signInHomeowner, signInStaff } from './support/sign-in';
 
 // The demo's no-cooling call: a member's indoor blower motor has failed, and the technician's
 // truck carries a motor that fits and the run capacitor its horsepower tap needs (server/db/seed).
@@ -16,15 +17,6 @@ const SEED = {
   // CAP-10-370-R, the 10 µF run capacitor the 1/2 hp tap needs.
   capacitor: 'Run capacitor 10 µF 370 V round',
 };
-
-async function staffSignIn(page: Page, email: string) {
-  await page.goto('/staff/sign-in');
-  await page.getByLabel('E-mail address').fill(email);
-  await page.getByLabel('Password').fill(DEMO.staffPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  // Signed in once the page leaves the form: a navigation before then would cancel the request.
-  await expect(page).not.toHaveURL(/\/staff\/sign-in/);
-}
 
 /** On hand of each part on the technician's truck, by name. */
 async function truckCounts(page: Page): Promise<Map<string, number>> {
@@ -44,7 +36,7 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   test.setTimeout(180_000);
   // Phone-sized, as on site.
   await page.setViewportSize({ width: 390, height: 844 });
-  await staffSignIn(page, DEMO.technician);
+  await signInStaff(page, DEMO.technician);
   await expect(page).toHaveURL(/\/field$/);
   const before = await truckCounts(page);
 
@@ -100,14 +92,7 @@ test('a technician finds the replacement motor on the truck, quotes two options,
 
   const home = await browser.newContext({ viewport: { width: 390, height: 844 } });
   const hp = await home.newPage();
-  await hp.goto('/sign-in');
-  const asked = Date.now();
-  await hp.getByLabel('E-mail address').fill(SEED.homeowner);
-  await hp.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const signIn = await latestMail(SEED.homeowner, { after: asked - 500 });
-  await hp.goto(signIn.links.find((l) => l.includes('/sign-in/confirm?token='))!);
-  await hp.getByRole('button', { name: 'Sign me in' }).click();
-  await expect(hp).toHaveURL(/\/portal$/);
+  await signInHomeowner(hp, SEED.homeowner);
 
   await hp.goto(new URL(quoteLink!).pathname);
   await expect(hp.getByRole('heading', { name: /^Quote .*Oduya household/ })).toBeVisible();
@@ -139,7 +124,7 @@ test('a technician finds the replacement motor on the truck, quotes two options,
   // The office's restock list shows what fell below its minimum on the truck.
   const office = await browser.newContext();
   const op = await office.newPage();
-  await staffSignIn(op, DEMO.office);
+  await signInStaff(op, DEMO.office);
   await op.goto('/office/stock');
   const restock = op.getByRole('table', { name: 'Restock list' });
   await expect(restock).toBeVisible();

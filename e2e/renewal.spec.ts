@@ -1,5 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { DEMO, latestMail, STRIPE_URL } from './support/env';
+import { signInHomeowner, signInStaff } from './support/sign-in';
 
 // Dana's Priority Comfort agreement ends in 20 days (demo data): the renewal window is open.
 test.describe.configure({ mode: 'serial' });
@@ -7,16 +8,7 @@ test.describe.configure({ mode: 'serial' });
 const nextYear = String((new Date().getFullYear() + 2) % 100).padStart(2, '0');
 
 async function signInAsDana(page: Page) {
-  await page.goto('/sign-in');
-  const asked = Date.now();
-  await page.getByLabel('E-mail address').fill(DEMO.homeownerA);
-  await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 });
-  const link = mail.links.find((l) => l.includes('/sign-in/confirm?token='));
-  expect(link, 'the e-mail carries a sign-in link').toBeTruthy();
-  await page.goto(link!);
-  await page.getByRole('button', { name: 'Sign me in' }).click();
-  await expect(page).toHaveURL(/\/portal/);
+  await signInHomeowner(page, DEMO.homeownerA);
   await page.getByRole('link', { name: 'My plan' }).first().click();
   await expect(page).toHaveURL(/\/portal\/plan$/);
 }
@@ -81,20 +73,15 @@ test("after renewing early the current term stays in force: the technician sees 
   await expect(page.getByTestId('current-term').first()).toContainText(`to ${currentLastDay}`);
 
   const tech = await browser.newPage();
-  await tech.goto('/staff/sign-in');
-  await tech.getByLabel('E-mail address').fill(DEMO.technician);
-  await tech.getByLabel('Password').fill(DEMO.staffPassword);
-  await tech.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(tech, DEMO.technician);
   await tech.getByRole('link', { name: /Tune-up.*Whitfield household/ }).click();
   await expect(tech.getByRole('heading', { name: /Covered: Priority Comfort/ })).toBeVisible();
-  await expect(tech.getByText(`Covered through ${currentLastDay}`)).toBeVisible();
+  // The term in force is the current one; covered through the last paid day, the new term's.
+  await expect(tech.getByText(`to ${currentLastDay} · Covered through ${through}`)).toBeVisible();
   await tech.close();
 
   const office = await browser.newPage();
-  await office.goto('/staff/sign-in');
-  await office.getByLabel('E-mail address').fill(DEMO.office);
-  await office.getByLabel('Password').fill(DEMO.staffPassword);
-  await office.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await signInStaff(office, DEMO.office);
   await expect(office).toHaveURL(/\/office$/);
   await office.goto('/office/customers');
   await office.getByLabel('Search households').fill('Whitfield');

@@ -22,6 +22,18 @@ export function termOn<T extends TermRange>(terms: readonly T[], date: string): 
   return found;
 }
 
+/**
+ * The agreement's latest paid term: the one that ends last (the range the agreement row holds).
+ * A renewal paid early adds the next term after the current one, so from the moment it is paid
+ * this is the new term while `termOn` still gives the current one. "Covered through" on every
+ * screen, e-mail and PDF names this term's last day: `coveredThroughLabel(lastPaidTerm(terms))`.
+ */
+export function lastPaidTerm<T extends TermRange>(terms: readonly T[]): T | null {
+  let found: T | null = null;
+  for (const t of terms) if (!found || t.endsOn > found.endsOn) found = t;
+  return found;
+}
+
 /** The last day a term covers: the day before its exclusive end. The only definition of it. */
 export function termLastDay(term: TermRange): string {
   const d = new Date(`${term.endsOn}T00:00:00Z`);

@@ -36,6 +36,11 @@ export interface CoverageAgreement {
   startsOn: string;
   /** The day the term ends (not covered), local ISO date. */
   endsOn: string;
+  /**
+   * The exclusive end of the agreement's latest paid term (`lastPaidTerm`), which a renewal paid
+   * early puts after this one; left out, this term's end.
+   */
+  paidUntil?: string;
   plan: CoveragePlan;
 }
 
@@ -65,8 +70,10 @@ export interface Coverage {
   status: AgreementStatus | null;
   statusLabel: string;
   planName: string | null;
-  /** The term in force on the visit's date (end exclusive), with its last day and how screens show it. */
-  term: { startsOn: string; endsOn: string; lastDay: string; label: string; lastDayLabel: string } | null;
+  /** The term in force on the visit's date (end exclusive), with its last day and its range as screens show it. */
+  term: { startsOn: string; endsOn: string; lastDay: string; label: string } | null;
+  /** The agreement's last paid day ("Covered through …"): the latest paid term's, an early renewal's once it is paid. */
+  coveredThrough: { lastDay: string; label: string } | null;
   allowances: SeasonAllowance[];
   /** The season this visit's tune-up belongs to; null for service calls. */
   tuneUpSeason: TuneUpSeason | null;
@@ -154,6 +161,7 @@ export function coverageFor(input: {
       statusLabel: 'No plan',
       planName: null,
       term: null,
+      coveredThrough: null,
       allowances: [],
       tuneUpSeason,
       tuneUpIncluded: false,
@@ -168,6 +176,8 @@ export function coverageFor(input: {
   const startsOn = isoDate(a.startsOn, 'agreement.startsOn');
   const endsOn = isoDate(a.endsOn, 'agreement.endsOn');
   if (endsOn <= startsOn) throw new CoverageInputError('agreement.endsOn', 'must be after the start of the term');
+  const paidUntil = a.paidUntil === undefined ? endsOn : isoDate(a.paidUntil, 'agreement.paidUntil');
+  if (paidUntil < endsOn) throw new CoverageInputError('agreement.paidUntil', 'must not be before the end of the term');
   const p = a.plan;
   if (!p || typeof p !== 'object') throw new CoverageInputError('agreement.plan', 'must be the plan version');
   const included: Record<TuneUpSeason, number> = {
@@ -224,7 +234,8 @@ export function coverageFor(input: {
     status: a.status,
     statusLabel: AGREEMENT_STATUS_LABELS[a.status],
     planName: typeof p.name === 'string' ? p.name : null,
-    term: { startsOn, endsOn, lastDay: termLastDay({ startsOn, endsOn }), label: termRangeLabel({ startsOn, endsOn }), lastDayLabel: coveredThroughLabel({ startsOn, endsOn }) },
+    term: { startsOn, endsOn, lastDay: termLastDay({ startsOn, endsOn }), label: termRangeLabel({ startsOn, endsOn }) },
+    coveredThrough: { lastDay: termLastDay({ startsOn, endsOn: paidUntil }), label: coveredThroughLabel({ startsOn, endsOn: paidUntil }) },
     allowances,
     tuneUpSeason,
     tuneUpIncluded,

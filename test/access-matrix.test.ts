@@ -441,6 +441,7 @@ describe('access matrix: ids in bodies and query strings', () => {
       .where(inArray(visits.status, ['requested', 'scheduled']))
       .orderBy(asc(visits.startsAt))
       .limit(1);
+    const [visitTech] = await db.select({ customerId: visits.customerId }).from(visits).where(eq(visits.id, fixtures.visitA));
     const [plan] = await db.select({ id: plans.id }).from(plans).where(eq(plans.active, true)).limit(1);
     homeownerS = await signInHomeowner(ctx, s.email);
     const offer = await homeownerS.agent.get('/api/booking/windows').query({ propertyId: s.propertyId, reason: 'tune_up' }).expect(200);
@@ -453,6 +454,7 @@ describe('access matrix: ids in bodies and query strings', () => {
       fileV: file.id,
       visitB: visitB.id,
       visitTech: fixtures.visitA,
+      customerTech: visitTech!.customerId,
       activePlan: plan.id,
       windowS: offer.body.windows[0].start,
     };

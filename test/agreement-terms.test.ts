@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DateTime } from 'luxon';
-import { coveredThroughLabel, formatTermDay, termLastDay, termOn, termRangeLabel } from '../shared/agreement-terms';
+import { coveredThroughLabel, formatTermDay, lastPaidTerm, termLastDay, termOn, termRangeLabel } from '../shared/agreement-terms';
 import { addDays, termEnd } from '../shared/renewals';
 import { visits } from '../server/db/schema';
 import { localDate } from '../server/company/company';
@@ -26,6 +26,12 @@ describe('the term in force', () => {
     expect(termOn(terms, '2027-03-15')).toBe(terms[1]);
     expect(termOn(terms, '2026-03-14')).toBeNull();
     expect(termOn(terms, '2028-03-15')).toBeNull();
+  });
+  it('is covered through the last day of the latest paid term, whichever term is in force', () => {
+    expect(lastPaidTerm(terms)).toBe(terms[1]);
+    expect(lastPaidTerm([terms[1]!, terms[0]!])).toBe(terms[1]);
+    expect(lastPaidTerm([])).toBeNull();
+    expect(coveredThroughLabel(lastPaidTerm(terms)!)).toBe('Covered through March 14, 2028');
   });
   it('has one last day and one way of writing it', () => {
     expect(termLastDay(terms[0]!)).toBe('2027-03-14');
@@ -78,16 +84,24 @@ describe('renewing 20 days early', () => {
     const current = { startsOn: agreement.startsOn, endsOn };
     const next = { startsOn: endsOn, endsOn: termEnd(endsOn) };
 
-    // Today's tune-up is still under the current term.
+    // Today's tune-up is still under the current term, and the banner names the last paid day.
     const t = await coverage(tuneUpToday);
-    expect(t).toMatchObject({ covered: true, term: { startsOn: current.startsOn, endsOn, lastDayLabel: coveredThroughLabel(current) } });
+    expect(t).toMatchObject({
+      covered: true,
+      term: { startsOn: current.startsOn, endsOn, label: termRangeLabel(current) },
+      coveredThrough: { lastDay: termLastDay(next), label: coveredThroughLabel(next) },
+    });
     // Tomorrow's service call still waives the diagnostic fee and takes the repair discount.
     const c = await coverage(callTomorrow);
     expect(c).toMatchObject({ covered: true, diagnosticFee: { waived: true, chargeCents: 0 }, term: { startsOn: current.startsOn } });
     expect(c.repairDiscountBps).toBeGreaterThan(0);
     // The day after the old term's last day the new term applies.
     const n = await coverage(callAfterEnd);
-    expect(n).toMatchObject({ covered: true, term: { startsOn: next.startsOn, endsOn: next.endsOn, label: termRangeLabel(next) } });
+    expect(n).toMatchObject({
+      covered: true,
+      term: { startsOn: next.startsOn, endsOn: next.endsOn, label: termRangeLabel(next) },
+      coveredThrough: { label: coveredThroughLabel(next) },
+    });
 
     // The technician's today list reads covered too.
     const list = (await owner.agent.get('/api/field/visits/today').expect(200)).body;
@@ -98,6 +112,10 @@ describe('renewing 20 days early', () => {
     const mine = (await agent.get('/api/agreements/mine').expect(200)).body.agreements.find((a: { id: string }) => a.id === agreement.id);
     expect(mine).toMatchObject({ lastDayLabel: coveredThroughLabel(next), currentTerm: { startsOn: current.startsOn, lastDayLabel: coveredThroughLabel(current) } });
     expect(mine.terms).toHaveLength(2);
+    expect(mine.lastCoveredDay).toBe(termLastDay(next));
+    // The portal's home says the same last paid day.
+    const home = (await agent.get('/api/my-home/summary').expect(200)).body.agreements.find((a: { id: string }) => a.id === agreement.id);
+    expect(home.lastDayLabel).toBe(coveredThroughLabel(next));
 
     // The office sees both terms, with dates, price and payment.
     const office = await staff(h);

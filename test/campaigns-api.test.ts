@@ -92,11 +92,23 @@ describe('campaigns: audience, schedule, pause, failures and the homeowner side'
     const past = await post({ kind: 'heating_tune_up', expectedCount: 1, sendAt: '2020-01-01T08:00' });
     expect(past.status).toBe(422);
     expect(past.body.error.fields.sendAt).toMatch(/future/);
-    const c = await post({ kind: 'heating_tune_up', audience: { plan: 'any' }, expectedCount: 0, sendAt: '2099-09-01T08:00' });
+    // No schedule beyond the horizon, and none that is not a real time.
+    for (const sendAt of ['9999-12-31T23:00', '9999-12-31T23:00:00Z', '2026-02-30T08:00', '2026-09-01T24:30']) {
+      const far = await post({ kind: 'heating_tune_up', expectedCount: 0, sendAt });
+      expect(far.status, sendAt).toBe(422);
+      expect(far.body.error.fields.sendAt, sendAt).toBeTruthy();
+    }
+    const tooFar = await post({ kind: 'heating_tune_up', expectedCount: 0, sendAt: `${new Date().getUTCFullYear() + 2}-01-15T08:00` });
+    expect(tooFar.status).toBe(422);
+    expect(tooFar.body.error.fields.sendAt).toMatch(/12 months/);
+    // The next 1 September, always within the horizon.
+    const thisYear = new Date().getUTCFullYear();
+    const year = Date.now() < Date.UTC(thisYear, 8, 1, 13) ? thisYear : thisYear + 1;
+    const c = await post({ kind: 'heating_tune_up', audience: { plan: 'any' }, expectedCount: 0, sendAt: `${year}-09-01T08:00` });
     expect(c.status).toBe(201);
     expect(c.body).toMatchObject({ status: 'scheduled', pending: 0 });
     // 08:00 in Larkspur Bend (America/Chicago, daylight time in September) is 13:00 UTC.
-    expect(c.body.scheduledAt).toBe('2099-09-01T13:00:00.000Z');
+    expect(c.body.scheduledAt).toBe(`${year}-09-01T13:00:00.000Z`);
     const act = (action: string) => office.agent.post(`/api/reminders/campaigns/${c.body.id}/actions`).set(CSRF_HEADER_NAME, office.csrf).send({ action });
     expect((await act('resume')).status).toBe(409);
     expect((await act('pause')).body.status).toBe('paused');

@@ -96,6 +96,20 @@ describe('coverage of a visit', () => {
     expect(none).toMatchObject({ hasAgreement: false, covered: false, statusLabel: 'No plan', diagnosticFee: { chargeCents: FEE } });
   });
 
+  it("names the agreement's last paid day: a renewal paid early moves it, the term in force stays", () => {
+    const before = coverageFor({ agreement: agreement(), visit: call('c', '2027-03-01'), termVisits: [], diagnosticFeeCents: FEE });
+    expect(before.coveredThrough).toEqual({ lastDay: '2027-03-09', label: 'Covered through March 9, 2027' });
+    const renewed = coverageFor({ agreement: agreement({ paidUntil: '2028-03-10' }), visit: call('c', '2027-03-01'), termVisits: [], diagnosticFeeCents: FEE });
+    expect(renewed).toMatchObject({
+      covered: true,
+      term: { endsOn: '2027-03-10', lastDay: '2027-03-09' },
+      coveredThrough: { lastDay: '2028-03-09', label: 'Covered through March 9, 2028' },
+    });
+    expect(fieldOf(() => coverageFor({ agreement: agreement({ paidUntil: '2026-12-01' }), visit: call('c', '2027-03-01'), termVisits: [], diagnosticFeeCents: FEE }))).toBe(
+      'agreement.paidUntil',
+    );
+  });
+
   it('puts benefits on hold while the agreement is not in good standing', () => {
     for (const status of ['pending', 'past_due', 'lapsed', 'canceled'] as const) {
       const c = coverageFor({ agreement: agreement({ status }), visit: call('c', '2026-07-01'), termVisits: [], diagnosticFeeCents: FEE });

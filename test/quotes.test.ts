@@ -1,7 +1,8 @@
 // Quotes from the price book with the plan's coverage, approval into an invoice, and truck stock.
-import { and, eq, inArray, like } from 'drizzle-orm';
+import { randomUUID } from 'node:crypto';
+import { and, eq, inArray, like, ne } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { invoices, priceBookItems, stockLevels, stockLocations, technicians, users, visits, flatRateTasks } from '../server/db/schema';
+import { equipment, files, invoices, priceBookItems, properties, quotes, stockLevels, stockLocations, technicians, users, visits, flatRateTasks } from '../server/db/schema';
 import { STAFF } from '../server/db/seed/scenario';
 import { DEMO_BLOWER_CAPACITOR_SKU, DEMO_BLOWER_MOTOR_SKU } from '../server/db/seed/pricebook';
 import { testApp, type TestContext } from './support/app';
@@ -214,5 +215,73 @@ describe('truck stock', () => {
   it('a technician sees only their own truck', async () => {
     const res = await tech.agent.get('/api/stock/locations');
     expect(res.body.map((l: { id: string }) => l.id)).toEqual([truckId]);
+  });
+});
+
+describe("a quote names only the visit's own systems and photos", () => {
+  const photo = async (customerId: string, propertyId: string, onVisit: string | null) => {
+    const [f] = await ctx.database.db
+      .insert(files)
+      .values({
+        customerId,
+        propertyId,
+        visitId: onVisit,
+        storageKey: `quotes-test/${randomUUID()}.png`,
+        category: 'other',
+        contentType: 'image/png',
+        originalName: 'p.png',
+        sizeBytes: 1,
+      })
+      .returning({ id: files.id });
+    return f!.id;
+  };
+  const line = (equipmentId: string | null) => ({ source: 'item', itemId: laborId, quantity: 1, equipmentId });
+
+  it("refuses another household's system on a line and another visit's photo, naming the field, and saves nothing", async () => {
+    const db = ctx.database.db;
+    const [v] = await db.select().from(visits).where(eq(visits.id, visitId));
+    const [own] = await db.select({ id: equipment.id }).from(equipment).where(eq(equipment.propertyId, v!.propertyId)).limit(1);
+    const [foreign] = await db
+      .select({ id: equipment.id })
+      .from(equipment)
+      .innerJoin(properties, eq(properties.id, equipment.propertyId))
+      .where(ne(properties.customerId, v!.customerId))
+      .limit(1);
+    const [otherVisit] = await db.select().from(visits).where(ne(visits.id, visitId)).limit(1);
+    expect(own && foreign && otherVisit, 'the demo has a system at this home, one elsewhere and another visit').toBeTruthy();
+    const mine = await photo(v!.customerId, v!.propertyId, visitId);
+    const elsewhere = await photo(otherVisit!.customerId, otherVisit!.propertyId, otherVisit!.id);
+    const loose = await photo(v!.customerId, v!.propertyId, null);
+    const count = async () => (await db.select({ id: quotes.id }).from(quotes).where(eq(quotes.visitId, visitId))).length;
+    const before = await count();
+    const body = (o: { lines?: unknown[]; photoIds?: string[] }) => ({
+      visitId,
+      photoIds: o.photoIds ?? [],
+      options: [{ title: 'Clean the coil', lines: o.lines ?? [line(own!.id)] }],
+    });
+
+    for (const url of ['/api/quotes', '/api/quotes/preview']) {
+      const sys = await post(tech, url, body({ lines: [line(own!.id), line(foreign!.id)] }));
+      expect(sys.status, url).toBe(422);
+      expect(Object.keys(sys.body.error.fields)).toEqual(['options.0.lines.1.equipmentId']);
+      const pics = await post(tech, url, body({ photoIds: [mine, elsewhere, loose] }));
+      expect(pics.status, url).toBe(422);
+      expect(Object.keys(pics.body.error.fields).sort()).toEqual(['photoIds.1', 'photoIds.2']);
+    }
+    expect(await count()).toBe(before);
+
+    const ok = await post(tech, '/api/quotes', body({ photoIds: [mine] }));
+    expect(ok.status, JSON.stringify(ok.body)).toBe(201);
+    expect(ok.body.photos.map((p: { id: string }) => p.id)).toEqual([mine]);
+    const edit = (photoIds: string[], unit: string) =>
+      put(tech, `/api/quotes/${ok.body.id}`, { revision: 1, photoIds, options: [{ title: 'Clean the coil', lines: [line(unit)] }] });
+    const pics = await edit([elsewhere], own!.id);
+    expect(pics.status).toBe(422);
+    expect(pics.body.error.fields).toEqual({ 'photoIds.0': 'Choose a photo from this visit.' });
+    const sys = await edit([mine], foreign!.id);
+    expect(sys.status).toBe(422);
+    expect(sys.body.error.fields).toEqual({ 'options.0.lines.0.equipmentId': 'Choose a system at this home.' });
+    const kept = await tech.agent.get(`/api/quotes/${ok.body.id}`).expect(200);
+    expect(kept.body.photos.map((p: { id: string }) => p.id)).toEqual([mine]);
   });
 });

@@ -1,7 +1,8 @@
 // Work invoiced without a quote (office and technician), the invoices of a visit, and paying one
 // on the technician's device through the fake processor's hosted page, back to the visit.
+import { randomUUID } from 'node:crypto';
 import { eq } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { invoices, mailSends } from '../server/db/schema';
 import { payOnHostedPage, startHarness, type Harness } from './billing-harness';
 import type { Signed } from './support/auth';
@@ -16,6 +17,19 @@ let home: Home;
 let visitId: string;
 let relayId: string;
 let planVersionId: string;
+
+// The pure coverage code, with a switch that makes it fail the way a bug would (not an input problem).
+const coverageBug = vi.hoisted(() => ({ on: false }));
+vi.mock('../shared/quote-coverage', async (original) => {
+  const real = await original<typeof import('../shared/quote-coverage')>();
+  return {
+    ...real,
+    coverOption: (...args: Parameters<typeof real.coverOption>) => {
+      if (coverageBug.on) throw new TypeError("Cannot read properties of undefined (reading 'left')");
+      return real.coverOption(...args);
+    },
+  };
+});
 
 const diag = { source: 'custom', description: 'Diagnostic fee', kind: 'fee', category: 'diagnostic_fee', quantity: 1, unitCents: 8900, taxable: false };
 
@@ -91,6 +105,31 @@ describe('direct work invoices', () => {
     expect(await payLinkMails(res.body.id)).toHaveLength(0);
     const [row] = await h.ctx.database.db.select().from(invoices).where(eq(invoices.id, res.body.id));
     expect(row!.visitId).toBeNull();
+  });
+
+  it('only input problems are 422, each naming its field; a missing visit is 404 and a fault of ours stays a 500', async () => {
+    for (const url of ['/api/work-invoices', '/api/work-invoices/preview']) {
+      const missing = await post(office, url, { customerId: home.customerId, visitId: randomUUID(), lines: [diag], sendPayLink: false });
+      expect(missing.status, url).toBe(404);
+      expect(missing.body.error.code).toBe('not_found');
+      // The coverage code's own input check, named where the caller sent it.
+      const halfTuneUp = { source: 'custom', description: 'Tune-up', kind: 'fee', category: 'tune_up', quantity: 1.5, unitCents: 12900, taxable: false };
+      const half = await post(tech.signed, url, { customerId: home.customerId, visitId, lines: [diag, halfTuneUp], sendPayLink: false });
+      expect(half.status, url).toBe(422);
+      expect(half.body.error.fields).toEqual({ 'lines.1.quantity': 'counts whole tune-ups' });
+      const nowhere = await post(tech.signed, url, { customerId: home.customerId, visitId, lines: [{ source: 'item', itemId: randomUUID(), quantity: 1 }], sendPayLink: false });
+      expect(nowhere.status, url).toBe(422);
+      expect(Object.keys(nowhere.body.error.fields)).toEqual(['lines.0.itemId']);
+      coverageBug.on = true;
+      try {
+        const bug = await post(tech.signed, url, { customerId: home.customerId, visitId, lines: [diag], sendPayLink: false });
+        expect(bug.status, url).toBe(500);
+        expect(bug.body.error.code).toBe('internal');
+        expect(JSON.stringify(bug.body)).not.toContain('reading');
+      } finally {
+        coverageBug.on = false;
+      }
+    }
   });
 
   it("lists the visit's invoices to its technician and the office, not to another technician", async () => {

@@ -3,7 +3,7 @@ import type { InvoiceLine } from '../../shared/money';
 import { formatUsd } from '../../shared/money';
 import { daysBetween, DEFAULT_GRACE_DAYS, lapseDate, prorateTierChange, renewalWindowOpens, termEnd } from '../../shared/renewals';
 import type { AgreementView, EnrollInput, PlanView } from '../../shared/schemas/plans';
-import { coveredThroughLabel, termLastDay, termRangeLabel } from '../../shared/agreement-terms';
+import { coveredThroughLabel, lastPaidTerm, termLastDay, termRangeLabel } from '../../shared/agreement-terms';
 import { agreementTermViews } from './term-in-force';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
@@ -88,8 +88,8 @@ export async function agreementView(db: Db | Tx, a: AgreementRow, todayIso: stri
     status: a.status,
     startsOn: a.startsOn,
     endsOn: a.endsOn,
-    lastCoveredDay: termLastDay(a),
-    lastDayLabel: coveredThroughLabel(a),
+    lastCoveredDay: termLastDay(lastPaidTerm(termViews) ?? a),
+    lastDayLabel: coveredThroughLabel(lastPaidTerm(termViews) ?? a),
     currentTerm: termViews.find((t) => t.inForce) ?? null,
     terms: termViews,
     daysLeft: daysBetween(todayIso, a.endsOn),

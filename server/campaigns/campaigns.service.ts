@@ -1,7 +1,15 @@
 import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { REMINDER_KINDS, REMINDER_LABELS, reminderWording, type ReminderKind } from '../../shared/seasonal-reminders';
-import type { AudienceFilter, CampaignStatus, DeliveryLogEntry, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../shared/schemas/campaigns';
+import {
+  CAMPAIGN_SCHEDULE_MONTHS,
+  type AudienceFilter,
+  type CampaignStatus,
+  type DeliveryLogEntry,
+  type MessagePreview,
+  type ReminderCampaignSummary,
+  type ReminderPreview,
+} from '../../shared/schemas/campaigns';
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import { customers, reminderCampaigns, reminderDeliveries, reminderSends, users } from '../db/schema';
@@ -60,11 +68,14 @@ export async function previewMessages(deps: Pick<AppDeps, 'database' | 'clock' |
   });
 }
 
-/** "2026-09-01T08:00" in the company's zone, as an instant in the future. */
+/** "2026-09-01T08:00" in the company's zone, as an instant in the future and within the schedule horizon. */
 function scheduleInstant(local: string, timeZone: string, now: Date): Date {
   const at = DateTime.fromISO(local, { zone: timeZone });
   if (!at.isValid) throw new AppError(422, 'invalid_input', 'Send at is not a valid time.', { sendAt: 'Not a valid date and time.' });
   if (at.toMillis() <= now.getTime()) throw new AppError(422, 'invalid_input', 'Send at is in the past.', { sendAt: 'Choose a time in the future, or send now.' });
+  if (at > DateTime.fromJSDate(now, { zone: timeZone }).plus({ months: CAMPAIGN_SCHEDULE_MONTHS })) {
+    throw new AppError(422, 'invalid_input', 'Send at is too far ahead.', { sendAt: `Schedule a campaign at most ${CAMPAIGN_SCHEDULE_MONTHS} months ahead.` });
+  }
   return at.toJSDate();
 }
 

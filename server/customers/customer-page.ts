@@ -12,7 +12,7 @@ import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
 import { companyToday } from '../company/company';
 import { agreementTermViewsFor } from '../agreements/term-in-force';
-import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
+import { coveredThroughLabel, lastPaidTerm, termRangeLabel } from '../../shared/agreement-terms';
 import type { AppDeps } from '../deps';
 import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
 
@@ -128,7 +128,7 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
     statusLabel: AGREEMENT_STATUS_LABELS[a.status],
     startsOn: a.startsOn,
     endsOn: a.endsOn,
-    lastDayLabel: coveredThroughLabel(a),
+    lastDayLabel: coveredThroughLabel(lastPaidTerm(termViews.get(a.id)!) ?? a),
     priceCents: a.priceCents,
     terms: termViews.get(a.id)!,
   }));

@@ -9,7 +9,7 @@ import type { FieldEquipment, TodayVisit } from '../../shared/schemas/field';
 import type { SessionUser } from '../../shared/schemas/session';
 import { timeRangeLabel, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, visitTimeLabels } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
-import { termOn } from '../../shared/agreement-terms';
+import { lastPaidTerm, termOn } from '../../shared/agreement-terms';
 import { termsOf } from '../agreements/term-in-force';
 import { agreements, customers, equipment, planVersions, plans, properties, technicians, users, visits } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
@@ -164,6 +164,7 @@ export async function visitCoverageAndPlan(db: Db | Tx, visit: VisitRow, info: C
       status: a.status,
       startsOn: term.startsOn,
       endsOn: term.endsOn,
+      paidUntil: (lastPaidTerm(list) ?? a).endsOn,
       plan: {
         name: p.planName,
         coolingVisits: p.coolingVisits,

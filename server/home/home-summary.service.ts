@@ -1,5 +1,5 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
-import { coveredThroughLabel, termOn } from '../../shared/agreement-terms';
+import { coveredThroughLabel, lastPaidTerm, termOn } from '../../shared/agreement-terms';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { coverageFor } from '../../shared/coverage';
 import { daysBetween, renewalWindowOpens } from '../../shared/renewals';
@@ -89,7 +89,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
       planName,
       status: a.status,
       statusLabel: AGREEMENT_STATUS_LABELS[a.status],
-      lastDayLabel: coveredThroughLabel(term),
+      lastDayLabel: coveredThroughLabel(lastPaidTerm(all) ?? a),
       daysLeft: daysBetween(today, a.endsOn),
       canRenew,
       season,

@@ -14,7 +14,7 @@ import { renderEmail } from '../integrations/mail-layout';
 import { followUpVisit } from '../visits/follow-up';
 import type { VisitRow } from '../visits/visit-status';
 import { OutOfStock, takeStock } from '../stock/stock.service';
-import { coverageContext, priceLines } from './pricing';
+import { coverageContext, coverageOf, priceLines } from './pricing';
 import { pastValidUntil, quoteExpired } from './expiry';
 import { frozen, readQuote, reachableQuote, staleRevision, type MailDeps } from './quotes.service';
 import { revisionRow } from './quotes.store';
@@ -179,12 +179,8 @@ async function priceWork(tx: Tx, user: SessionUser, body: DirectInvoice, now: Da
   const visit = await workVisit(tx, user, body, now);
   const { taxRateBps } = await companyRow(tx);
   const ctx = await coverageContext(tx, visit, body.equipmentId, taxRateBps);
-  const lines = await priceLines(tx, body.lines, ctx, 'invoice');
-  try {
-    return { visit, lines, coverage: coverOption({ agreement: ctx.agreement, warranty: ctx.warranty, visitDate: ctx.visitDate, lines, taxRateBps }) };
-  } catch (err) {
-    throw new AppError(422, 'validation_failed', (err as Error).message, { lines: (err as Error).message });
-  }
+  const lines = await priceLines(tx, body.lines, ctx, '');
+  return { visit, lines, coverage: coverageOf(() => coverOption({ agreement: ctx.agreement, warranty: ctx.warranty, visitDate: ctx.visitDate, lines, taxRateBps })) };
 }
 
 export async function previewWorkInvoice(deps: MailDeps, user: SessionUser, body: DirectInvoice) {

@@ -25,6 +25,8 @@ export interface PricedLine extends CoverageLineInput {
 
 export interface CoverageContext {
   info: CompanyInfo;
+  /** The home the work is at: every system a line names must be there. */
+  propertyId: string;
   visitDate: string;
   coverage: Coverage;
   agreement: QuoteAgreement | null;
@@ -61,23 +63,46 @@ export async function coverageContext(db: Db | Tx, visit: VisitRow, equipmentId:
     if (!e || e.propertyId !== visit.propertyId) throw new AppError(422, 'validation_failed', 'Please check equipmentId.', { equipmentId: 'Choose a system at this home.' });
     warranty = { partsEndsOn: e.warrantyEndsOn };
   }
-  return { info, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage, plan), warranty, taxRateBps };
+  return { info, propertyId: visit.propertyId, visitDate: localDate(visit.startsAt, info.timeZone), coverage, agreement: quoteAgreementOf(coverage, plan), warranty, taxRateBps };
 }
 
-const bad = (field: string, message: string) => new AppError(422, 'validation_failed', `Please check ${field}.`, { [field]: message });
+/** One 422 naming every field in `fields`, in the usual shape. */
+export const invalidFields = (fields: Record<string, string>) => new AppError(422, 'validation_failed', `Please check ${Object.keys(fields).join(', ')}.`, fields);
+const bad = (field: string, message: string) => invalidFields({ [field]: message });
 
-/** Prices one option's lines; `path` names the option in field errors (e.g. "options.0"). */
+/**
+ * Runs the pure coverage code. Its input errors (CoverageInputError) are the one kind that
+ * becomes a 422, naming the field as the request does ("lines[1].quantity" is "lines.1.quantity");
+ * anything else it throws passes on unchanged, keeping its own status (or a 500).
+ */
+export function coverageOf<T>(work: () => T): T {
+  try {
+    return work();
+  } catch (err) {
+    if (err instanceof CoverageInputError) throw bad(err.field.replace(/\[(\d+)\]/g, '.$1'), err.message.replace(/^[^:]+: /, ''));
+    throw err;
+  }
+}
+
+/** Prices lines; `path` names the option in field errors ("options.0"), or is empty when the lines are the body's own. */
 export async function priceLines(db: Db | Tx, lines: QuoteLineInput[], ctx: CoverageContext, path: string): Promise<PricedLine[]> {
+  const prefix = path ? `${path}.lines` : 'lines';
   const itemIds = lines.flatMap((l) => (l.source === 'item' ? [l.itemId] : []));
   const taskIds = lines.flatMap((l) => (l.source === 'task' ? [l.taskId] : []));
   const locIds = lines.flatMap((l) => (l.source !== 'custom' && l.stockLocationId ? [l.stockLocationId] : []));
   const items = itemIds.length ? await db.select().from(priceBookItems).where(inArray(priceBookItems.id, itemIds)) : [];
   const tasks = taskIds.length ? await taskViews(db, taskIds) : [];
   const locs = locIds.length ? await db.select({ id: stockLocations.id }).from(stockLocations).where(inArray(stockLocations.id, locIds)) : [];
+  const unitIds = [...new Set(lines.flatMap((l) => (l.equipmentId ? [l.equipmentId] : [])))];
+  const units = unitIds.length ? await db.select({ id: equipment.id, propertyId: equipment.propertyId }).from(equipment).where(inArray(equipment.id, unitIds)) : [];
+  const here = new Set(units.filter((u) => u.propertyId === ctx.propertyId).map((u) => u.id));
+  // A line's system is one at the home the work is at: another household's (or a made-up id) is refused.
+  const elsewhere = lines.flatMap((l, i) => (l.equipmentId && !here.has(l.equipmentId) ? [[`${prefix}.${i}.equipmentId`, 'Choose a system at this home.'] as const] : []));
+  if (elsewhere.length) throw invalidFields(Object.fromEntries(elsewhere));
   const season = ctx.coverage.tuneUpSeason ?? tuneUpSeasonOf(ctx.visitDate, ctx.info.seasons);
   const out: PricedLine[] = [];
   lines.forEach((l, i) => {
-    const at = `${path}.lines.${i}`;
+    const at = `${prefix}.${i}`;
     const equipmentId = l.equipmentId ?? null;
     const stockLocationId = l.source !== 'custom' ? (l.stockLocationId ?? null) : null;
     if (stockLocationId && !locs.some((x) => x.id === stockLocationId)) throw bad(`${at}.stockLocationId`, 'That truck or shop was not found.');
@@ -165,13 +190,9 @@ export interface PricedOption {
 export async function priceOptions(db: Db | Tx, options: QuoteOptionInput[], ctx: CoverageContext): Promise<{ options: PricedOption[]; notes: string[] }> {
   const priced: PricedLine[][] = [];
   for (const [i, o] of options.entries()) priced.push(await priceLines(db, o.lines, ctx, `options.${i}`));
-  let covered;
-  try {
-    covered = coverQuote({ agreement: ctx.agreement, warranty: ctx.warranty, visitDate: ctx.visitDate, options: priced.map((lines) => ({ lines })), taxRateBps: ctx.taxRateBps });
-  } catch (err) {
-    if (err instanceof CoverageInputError) throw bad(err.field.replace(/\[(\d+)\]/g, '.$1'), err.message.replace(/^[^:]+: /, ''));
-    throw err;
-  }
+  const covered = coverageOf(() =>
+    coverQuote({ agreement: ctx.agreement, warranty: ctx.warranty, visitDate: ctx.visitDate, options: priced.map((lines) => ({ lines })), taxRateBps: ctx.taxRateBps }),
+  );
   return {
     options: options.map((o, i) => ({ title: o.title, description: o.description, lines: priced[i]!, coverage: covered.options[i]! })),
     notes: covered.notes,

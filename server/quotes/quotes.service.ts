@@ -7,13 +7,13 @@ import type { PlanSavings, QuotePage, QuotePreview } from '../../shared/schemas/
 import type { SessionUser } from '../../shared/schemas/session';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
-import { customers, invoices, quoteOptions, quoteRevisions, quotes, visits } from '../db/schema';
+import { customers, files, invoices, quoteOptions, quoteRevisions, quotes, visits } from '../db/schema';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import { AppError, notFound } from '../http/errors';
 import { companyRow, localDate } from '../company/company';
 import { queueMail } from '../mail/outbox';
 import { renderEmail } from '../integrations/mail-layout';
-import { coverageContext, priceOptions } from './pricing';
+import { coverageContext, invalidFields, priceOptions } from './pricing';
 import { copyOptions, quoteView, revisionRow, writeOptions, type QuoteRow } from './quotes.store';
 import { reachableVisit, technicianOf } from './visit-access';
 
@@ -34,7 +34,20 @@ export async function reachableQuote(db: Db | Tx, user: SessionUser, id: string,
   return q;
 }
 
+/** Every photo a quote shows is one taken on its visit; any other id is refused, naming its place in the list. */
+async function assertVisitPhotos(tx: Tx, visitId: string, photoIds: readonly string[]): Promise<void> {
+  if (!photoIds.length) return;
+  const found = await tx
+    .select({ id: files.id })
+    .from(files)
+    .where(and(inArray(files.id, [...new Set(photoIds)]), eq(files.visitId, visitId)));
+  const ours = new Set(found.map((f) => f.id));
+  const refused = photoIds.flatMap((id, i) => (ours.has(id) ? [] : [[`photoIds.${i}`, 'Choose a photo from this visit.'] as const]));
+  if (refused.length) throw invalidFields(Object.fromEntries(refused));
+}
+
 async function build(tx: Tx, visitId: string, body: Omit<QuoteCreate, 'visitId'>) {
+  await assertVisitPhotos(tx, visitId, body.photoIds);
   const [v] = await tx.select().from(visits).where(eq(visits.id, visitId));
   const { taxRateBps } = await companyRow(tx);
   const ctx = await coverageContext(tx, v!, body.equipmentId, taxRateBps);

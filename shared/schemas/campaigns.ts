@@ -3,6 +3,8 @@ import { EQUIPMENT_KINDS } from '../equipment';
 import { HOUSEHOLD_FACTORS } from '../reminders';
 import { REMINDER_SEND_STATUSES, type ReminderSendStatus } from '../reminder-sends';
 import { REMINDER_KINDS } from '../seasonal-reminders';
+import { BOOKING_HORIZON_MONTHS } from './booking';
+import { isIsoDate, withinDateBounds } from './dates';
 
 export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'cancelled', 'done'] as const;
 export type CampaignStatus = (typeof CAMPAIGN_STATUSES)[number];
@@ -40,16 +42,32 @@ export const audienceQuerySchema = z.object({
 
 export const reminderPreviewQuerySchema = audienceQuerySchema;
 
+/** A campaign is scheduled at most this far ahead (months): the booking horizon, so its reminders can be booked. */
+export const CAMPAIGN_SCHEDULE_MONTHS = BOOKING_HORIZON_MONTHS;
+
+const LOCAL_TIME = /^(\d{4}-\d{2}-\d{2})T(\d{2}):(\d{2})$/;
+/** "2026-09-01T08:00": a real calendar day, hours 00–23, minutes 00–59. */
+function isLocalTime(value: string): boolean {
+  const m = LOCAL_TIME.exec(value);
+  return !!m && isIsoDate(m[1]!) && Number(m[2]) <= 23 && Number(m[3]) <= 59;
+}
+
 export const createCampaignSchema = z
   .object({
     kind: reminderKindSchema,
     audience: audienceFilterSchema.default({}),
     /** The audience size the sender saw; if it changed since, the send is refused and re-shown. */
     expectedCount: z.number({ message: 'Expected count is a whole number.' }).int('Expected count is a whole number.').min(0, 'Expected count is a whole number.'),
-    /** Left out: send now. Otherwise the local time in the company's zone, "YYYY-MM-DDTHH:mm". */
+    /**
+     * Left out: send now. Otherwise the local time in the company's zone, "YYYY-MM-DDTHH:mm", a
+     * real day and hour, and at most CAMPAIGN_SCHEDULE_MONTHS ahead (the service checks that
+     * against the clock).
+     */
     sendAt: z
       .string({ message: 'Send at is a date and time.' })
-      .regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/, 'Send at is a date and time like 2026-09-01T08:00.')
+      .regex(LOCAL_TIME, { message: 'Send at is a date and time like 2026-09-01T08:00.', abort: true })
+      .refine(isLocalTime, { message: 'Send at is not a real date and time.', abort: true })
+      .refine((s) => withinDateBounds(s.slice(0, 10)), `Schedule a campaign at most ${CAMPAIGN_SCHEDULE_MONTHS} months ahead.`)
       .optional(),
   })
   .strict();

@@ -11,7 +11,7 @@ export interface HomeAgreement {
   planName: string;
   status: AgreementStatus;
   statusLabel: string;
-  /** "Covered through March 14, 2027" for the term in force (or the latest paid one). */
+  /** "Covered through March 14, 2027": the agreement's last paid day (`lastPaidTerm`), a renewal's once paid early. */
   lastDayLabel: string;
   /** Days until the latest paid term ends (exclusive end), negative once it has ended. */
   daysLeft: number;

@@ -24,6 +24,8 @@ export interface BodyFixtures {
   visitB: string;
   /** A visit the technician session is assigned to. */
   visitTech: string;
+  /** The household of that visit. */
+  customerTech: string;
   activePlan: string;
   /** An arrival window open at the caller's home, for a booking that is valid but for one field. */
   windowS: string;
@@ -45,6 +47,21 @@ export interface BodyIdRow {
 }
 
 const NO_SUCH_ID = '00000000-0000-4000-8000-000000000000';
+const labor = (equipmentId: string | null = null) => ({
+  source: 'custom',
+  description: 'Clean the coil',
+  kind: 'labor',
+  category: 'repair_labor',
+  quantity: 1,
+  unitCents: 9500,
+  taxable: false,
+  equipmentId,
+});
+const quote = (f: BodyFixtures, extra: { equipmentId?: string; photoIds?: string[] }) => ({
+  visitId: f.visitTech,
+  photoIds: extra.photoIds ?? [],
+  options: [{ title: 'Clean the coil', lines: [labor(extra.equipmentId)] }],
+});
 const book = (f: BodyFixtures, extra: Record<string, unknown>) => ({ propertyId: f.propertyS, reason: 'tune_up', windowStart: f.windowS, noEmergency: true, ...extra });
 
 export const BODY_IDS: BodyIdRow[] = [
@@ -63,6 +80,24 @@ export const BODY_IDS: BodyIdRow[] = [
   { who: 'homeownerS', route: 'POST /api/files', field: 'visitId', expect: 'refused', form: (f) => ({ visitId: f.visitB }) },
   { who: 'homeownerS', route: 'POST /api/files', field: 'propertyId', expect: 'refused', form: (f) => ({ customerId: f.customerS, propertyId: f.propertyV }) },
   { who: 'technician', route: 'POST /api/equipment', field: 'propertyId', expect: 'refused', body: (f) => ({ propertyId: f.propertyV, kind: 'gas_furnace' }) },
+  { who: 'technician', route: 'POST /api/quotes', field: 'options.0.lines.0.equipmentId', expect: 'refused', body: (f) => quote(f, { equipmentId: f.equipmentV }) },
+  { who: 'technician', route: 'POST /api/quotes', field: 'photoIds.0', expect: 'refused', body: (f) => quote(f, { photoIds: [f.fileV] }) },
+  { who: 'technician', route: 'POST /api/quotes/preview', field: 'options.0.lines.0.equipmentId', expect: 'refused', body: (f) => quote(f, { equipmentId: f.equipmentV }) },
+  { who: 'technician', route: 'POST /api/quotes/preview', field: 'photoIds.0', expect: 'refused', body: (f) => quote(f, { photoIds: [f.fileV] }) },
+  {
+    who: 'technician',
+    route: 'POST /api/work-invoices',
+    field: 'lines.0.equipmentId',
+    expect: 'refused',
+    body: (f) => ({ customerId: f.customerTech, visitId: f.visitTech, lines: [labor(f.equipmentV)], sendPayLink: false }),
+  },
+  {
+    who: 'technician',
+    route: 'POST /api/work-invoices/preview',
+    field: 'lines.0.equipmentId',
+    expect: 'refused',
+    body: (f) => ({ customerId: f.customerTech, visitId: f.visitTech, lines: [labor(f.equipmentV)] }),
+  },
   { who: 'technician', route: 'POST /api/files', field: 'equipmentId', expect: 'refused', form: (f) => ({ equipmentId: f.equipmentV }) },
   { who: 'technician', route: 'POST /api/files', field: 'propertyId', expect: 'refused', form: (f) => ({ propertyId: f.propertyV }) },
   {

@@ -17,7 +17,7 @@ import { formatUsd } from '../../../../shared/money';
         }
       </h2>
       @if (coverage().term; as term) {
-        <p class="term">Term {{ term.label }} · {{ term.lastDayLabel }}</p>
+        <p class="term">Term {{ term.label }} · {{ coverage().coveredThrough?.label }}</p>
       }
       @if (coverage().allowances.length) {
         <dl class="facts">
