@@ -15,7 +15,7 @@ import { DomSanitizer } from '@angular/platform-browser';
 import { ActivatedRoute, Router } from '@angular/router';
 import { Subscription, debounceTime, of, switchMap, takeWhile, timer } from 'rxjs';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
-import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/seasonal-reminders';
+import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/reminder-labels';
 import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
