@@ -1,20 +1,18 @@
 // Which stocked parts can replace a failed motor or capacitor, and what the swap needs. Pure:
 // the server lists the candidates (price-book items with their specs and where they are stocked),
 // and this decides from the failed part's nameplate.
-import { formatHorsepower, formatHpRange, formatVoltRanges, HP_EPSILON, type VoltRange } from './pricebook';
 import {
   DEFAULT_CAPACITOR_TOLERANCE_PCT,
+  formatHorsepower,
+  formatHpRange,
+  formatVoltRanges,
+  HP_EPSILON,
   MOTOR_APPLICATION_LABELS,
   SPEED_TAPS,
-  type CapacitorSpec,
-  type FailedCapacitor,
-  type FailedMotor,
-  type MotorSpec,
-  type PartSpec,
-  type RotationView,
   type SpeedTap,
-  type StockLocationKind,
-} from './schemas/pricebook';
+  type VoltRange,
+} from './pricebook';
+import type { CapacitorSpec, FailedCapacitor, FailedMotor, MotorSpec, PartSpec, RotationView, StockLocationKind } from './schemas/pricebook';
 
 export type Place = 'this_truck' | 'other_truck' | 'shop' | 'order';
 export const PLACE_ORDER: readonly Place[] = ['this_truck', 'other_truck', 'shop', 'order'];

@@ -191,6 +191,13 @@ export function parseVoltRanges(value: unknown): VoltRange[] | null {
 
 export const formatVoltRanges = (rs: readonly VoltRange[]) => `${rs.map((r) => (r.min === r.max ? `${r.min}` : `${r.min}–${r.max}`)).join('/')} V`;
 
+/** ±6 % is the usual tolerance printed on a run capacitor (common practice); some cans say ±5 % or ±10 %. */
+export const DEFAULT_CAPACITOR_TOLERANCE_PCT = 6;
+
+/** A multi-speed motor's speed taps, fastest first. */
+export const SPEED_TAPS = ['high', 'medium_high', 'medium', 'medium_low', 'low'] as const;
+export type SpeedTap = (typeof SPEED_TAPS)[number];
+
 export const MOTOR_APPLICATIONS = ['indoor_blower', 'condenser_fan', 'draft_inducer', 'other'] as const;
 
 export type MotorApplication = (typeof MOTOR_APPLICATIONS)[number];

@@ -1,4 +1,5 @@
 import { DateTime } from 'luxon';
+import type { HouseholdFactor } from './reminder-labels';
 import { renewalNoticesDue, type NoticeAgreement, type RenewalNotice } from './renewals';
 import { seasonMonths, seasonOfMonth, type Season, type SeasonSettings } from './seasons';
 import { FILTER_CATEGORY_LABELS, FILTER_INTERVAL_DAYS, filterCategory, type FilterCategory } from './service-life';
@@ -8,15 +9,7 @@ import { FILTER_CATEGORY_LABELS, FILTER_INTERVAL_DAYS, filterCategory, type Filt
  * "today" in the company's time zone; the audience SQL on the server applies the same numbers.
  */
 
-export const HOUSEHOLD_FACTORS = ['pets', 'allergies', 'smokers', 'renovation_dust'] as const;
-export type HouseholdFactor = (typeof HOUSEHOLD_FACTORS)[number];
-
-export const HOUSEHOLD_FACTOR_LABELS: Record<HouseholdFactor, string> = {
-  pets: 'Pets in the home',
-  allergies: 'Someone with allergies or asthma',
-  smokers: 'Someone smokes indoors',
-  renovation_dust: 'Renovation or construction dust',
-};
+export { HOUSEHOLD_FACTORS, HOUSEHOLD_FACTOR_LABELS, dueWords, type HouseholdFactor } from './reminder-labels';
 
 /** Share of the filter's normal interval that each factor leaves; several factors multiply. */
 export const FILTER_FACTOR_SHARE: Record<HouseholdFactor, { share: number; source: string }> = {
@@ -105,13 +98,6 @@ const local = (iso: string, zone: DateTime) => DateTime.fromISO(iso, { zone: zon
 
 function item(kind: DueKind, label: string, due: DateTime, today: DateTime, why: string, equipmentId?: string): DueItem {
   return { kind, label, dueOn: due.toISODate()!, inDays: Math.round(due.startOf('day').diff(today.startOf('day'), 'days').days), why, ...(equipmentId ? { equipmentId } : {}) };
-}
-
-/** "due in 5 days", "due today", "3 days overdue". */
-export function dueWords(inDays: number): string {
-  if (inDays === 0) return 'due today';
-  if (inDays > 0) return `due in ${inDays} day${inDays === 1 ? '' : 's'}`;
-  return `${-inDays} day${inDays === -1 ? '' : 's'} overdue`;
 }
 
 /** The tune-up of one season, if the plan includes it, the home has equipment for it and none is booked. */

@@ -1,4 +1,5 @@
 import { DateTime } from 'luxon';
+import type { ReminderKind } from './reminder-labels';
 import { seasonMonths, seasonOfMonth, type Season, type SeasonSettings } from './seasons';
 import { FILTER_INTERVAL_DAYS, filterCategory, filterIntervalDays } from './service-life';
 
@@ -9,16 +10,7 @@ import { FILTER_INTERVAL_DAYS, filterCategory, filterIntervalDays } from './serv
  * same table coverage and the checklists use. A household on a plan that includes that tune-up,
  * with none done or booked in the current or coming season of that kind, is due.
  */
-export const REMINDER_KINDS = ['cooling_tune_up', 'heating_tune_up', 'filter', 'coil_cleaning', 'condensate_drain'] as const;
-export type ReminderKind = (typeof REMINDER_KINDS)[number];
-
-export const REMINDER_LABELS: Record<ReminderKind, string> = {
-  cooling_tune_up: 'Spring cooling tune-up',
-  heating_tune_up: 'Fall heating tune-up',
-  filter: 'Filter change',
-  coil_cleaning: 'Outdoor coil cleaning',
-  condensate_drain: 'Condensate drain service',
-};
+export { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from './reminder-labels';
 
 /** Days between changes for a 1-inch pleated filter (see FILTER_INTERVAL_DAYS for each filter type and its source). */
 export const FILTER_INTERVAL_DAYS_THIN = FILTER_INTERVAL_DAYS.one_inch_pleated;

@@ -1,6 +1,5 @@
 // Which months are cooling season and which are heating season. One table for the whole product:
 // coverage counts tune-ups by it, reminders aim at it, and the checklist picks its items by it.
-import * as z from 'zod';
 
 export type Season = 'cooling' | 'heating';
 export const SEASONS: readonly Season[] = ['cooling', 'heating'];
@@ -18,20 +17,33 @@ export interface SeasonSettings {
 /** Cooling tune-ups from March, heating tune-ups from September (common practice: cool in spring, heat in fall). */
 export const DEFAULT_SEASON_SETTINGS: Readonly<SeasonSettings> = { coolingStartMonth: 3, heatingStartMonth: 9 };
 
-const month = (label: string) =>
-  z
-    .number({ error: `${label} is a month from 1 to 12.` })
-    .int(`${label} is a month from 1 to 12.`)
-    .min(1, `${label} is a month from 1 to 12.`)
-    .max(12, `${label} is a month from 1 to 12.`);
+/** The two months of SeasonSettings, with the words a problem with each is named by. */
+export const SEASON_MONTH_LABELS = {
+  coolingStartMonth: 'Cooling season start',
+  heatingStartMonth: 'Heating season start',
+} as const satisfies Record<keyof SeasonSettings, string>;
+export type SeasonMonthField = keyof typeof SEASON_MONTH_LABELS;
 
-/** The owner's season months, for the company settings form and API. */
-export const seasonSettingsSchema = z
-  .object({
-    coolingStartMonth: month('Cooling season start'),
-    heatingStartMonth: month('Heating season start'),
-  })
-  .refine((s) => s.coolingStartMonth !== s.heatingStartMonth, { message: 'Heating must start in a different month from cooling.', path: ['heatingStartMonth'] });
+/** What is wrong with one season month (a whole number from 1 to 12), or null. */
+export function seasonMonthIssue(field: SeasonMonthField, value: unknown): string | null {
+  return typeof value === 'number' && Number.isInteger(value) && value >= 1 && value <= 12 ? null : `${SEASON_MONTH_LABELS[field]} is a month from 1 to 12.`;
+}
+
+/**
+ * The one check of the owner's season months: the first problem, named by its field, or null.
+ * Both are months from 1 to 12 and heating starts in another month than cooling. Plain code, no
+ * zod, so that pages reading seasons stay light; seasonSettingsSchema (schemas/settings.ts) is
+ * built on it for the API.
+ */
+export function seasonSettingsIssue(settings: unknown): { field: SeasonMonthField; message: string } | null {
+  const s = (typeof settings === 'object' && settings !== null ? settings : {}) as Partial<Record<SeasonMonthField, unknown>>;
+  for (const field of Object.keys(SEASON_MONTH_LABELS) as SeasonMonthField[]) {
+    const message = seasonMonthIssue(field, s[field]);
+    if (message) return { field, message };
+  }
+  if (s.coolingStartMonth === s.heatingStartMonth) return { field: 'heatingStartMonth', message: 'Heating must start in a different month from cooling.' };
+  return null;
+}
 
 export class SeasonInputError extends Error {
   constructor(
@@ -45,12 +57,10 @@ export class SeasonInputError extends Error {
 
 function settingsOrDefault(settings: Partial<SeasonSettings> | null | undefined): SeasonSettings {
   const s = { ...DEFAULT_SEASON_SETTINGS, ...Object.fromEntries(Object.entries(settings ?? {}).filter(([, v]) => v !== undefined && v !== null)) };
-  const parsed = seasonSettingsSchema.safeParse(s);
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0]!;
-    throw new SeasonInputError(issue.path.join('.') || 'seasons', issue.message);
-  }
-  return parsed.data;
+  const issue = seasonSettingsIssue(s);
+  if (issue) throw new SeasonInputError(issue.field, issue.message);
+  const { coolingStartMonth, heatingStartMonth } = s as SeasonSettings;
+  return { coolingStartMonth, heatingStartMonth };
 }
 
 /** The season a month (1–12) belongs to. */

@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { coverageFor, tuneUpSeasonOf } from '../shared/coverage';
 import { tuneUpChecklistOn } from '../shared/hvac';
 import { seasonOf as reminderSeason } from '../shared/seasonal-reminders';
-import { DEFAULT_SEASON_SETTINGS, SeasonInputError, seasonMonths, seasonOf, seasonOfMonth, seasonSettingsSchema, type Season, type SeasonSettings } from '../shared/seasons';
+import { DEFAULT_SEASON_SETTINGS, SeasonInputError, seasonMonths, seasonOf, seasonOfMonth, seasonSettingsIssue, type Season, type SeasonSettings } from '../shared/seasons';
+import { companySettingsSchema, seasonSettingsSchema } from '../shared/schemas/settings';
 
 const zone = 'America/Chicago';
 const iso = (year: number, month: number, day = 15) => `${year}-${String(month).padStart(2, '0')}-${String(day).padStart(2, '0')}`;
@@ -58,7 +59,24 @@ describe('one season table', () => {
     expect(() => seasonOf('2026-05-01', { coolingStartMonth: 13, heatingStartMonth: 9 })).toThrow(SeasonInputError);
     expect(() => seasonOf('2026-05-01', { coolingStartMonth: 5, heatingStartMonth: 5 })).toThrow(/heatingStartMonth/);
     expect(() => seasonOf('May 1')).toThrow(/date/);
+    expect(seasonSettingsIssue({ coolingStartMonth: 4, heatingStartMonth: 10 })).toBeNull();
+    expect(seasonSettingsIssue({ coolingStartMonth: 4, heatingStartMonth: 4 })).toEqual({
+      field: 'heatingStartMonth',
+      message: 'Heating must start in a different month from cooling.',
+    });
+    expect(seasonSettingsIssue({ coolingStartMonth: 0, heatingStartMonth: 9 })).toEqual({ field: 'coolingStartMonth', message: 'Cooling season start is a month from 1 to 12.' });
+    expect(seasonSettingsIssue({ coolingStartMonth: 3, heatingStartMonth: 9.5 })?.field).toBe('heatingStartMonth');
+    expect(seasonSettingsIssue({ coolingStartMonth: '3', heatingStartMonth: 9 })?.field).toBe('coolingStartMonth');
+    expect(seasonSettingsIssue(null)?.field).toBe('coolingStartMonth');
+  });
+
+  it('checks the months through the same rule in the API schema', () => {
     expect(seasonSettingsSchema.safeParse({ coolingStartMonth: 4, heatingStartMonth: 10 }).success).toBe(true);
-    expect(seasonSettingsSchema.safeParse({ coolingStartMonth: 4, heatingStartMonth: 4 }).error?.issues[0]?.path).toEqual(['heatingStartMonth']);
+    expect(seasonSettingsSchema.safeParse({ coolingStartMonth: 4, heatingStartMonth: 4 }).error?.issues.map((i) => [i.path, i.message])).toEqual([
+      [['heatingStartMonth'], 'Heating must start in a different month from cooling.'],
+    ]);
+    expect(seasonSettingsSchema.safeParse({ coolingStartMonth: 13, heatingStartMonth: 9 }).error?.issues[0]?.path).toEqual(['coolingStartMonth']);
+    expect(companySettingsSchema.shape.heatingStartMonth.safeParse(undefined).success).toBe(true);
+    expect(companySettingsSchema.shape.heatingStartMonth.safeParse(0).error?.issues[0]?.message).toBe('Heating season start is a month from 1 to 12.');
   });
 });

@@ -1,5 +1,4 @@
-import type { CompanySettings, CompanySettingsInput } from '../../shared/schemas/settings';
-import { seasonSettingsSchema } from '../../shared/seasons';
+import { seasonSettingsSchema, type CompanySettings, type CompanySettingsInput } from '../../shared/schemas/settings';
 import { recordAudit } from '../audit/audit.service';
 import { companyRow, updateCompanyRow, type CompanyRow } from '../company/company';
 import type { AppDeps } from '../deps';

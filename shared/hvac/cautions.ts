@@ -1,4 +1,4 @@
-import { A2L_REFRIGERANTS } from './refrigerants';
+import { A2L_REFRIGERANTS } from './refrigerant-names';
 
 export interface Caution {
   id: string;

@@ -12,6 +12,7 @@ import {
 } from './charge';
 import { CONTROL_VOLTAGE_NOMINAL_VAC, RUN_CAPACITOR_DEFAULT_TOLERANCE_PCT, microfaradsFromCurrent } from './electrical';
 import { ReadingInputError } from './errors';
+export { READING_HELP } from './reading-help';
 import { CAPACITOR_POSITIONS, type CapacitorPosition, type VisitReadings, visitReadingsSchema } from './readings';
 import { subcoolingF, superheatF } from './refrigerants';
 import { SPLIT_TOLERANCE_F, TARGET_SPLIT_RANGE, returnWetBulbF, targetSplitF } from './split';
@@ -64,21 +65,6 @@ export const FLUE_CO_AIR_FREE_PPM = { service: 100, hazard: 400 } as const;
  * 8 hours and 35 ppm over 1 hour: above 9 ppm look for the source; above 35 ppm it is hazardous.
  */
 export const AMBIENT_CO_PPM = { investigate: 9, hazard: 35 } as const;
-
-/** Help text for readings whose meaning is easy to mistake. */
-export const READING_HELP: Readonly<Record<string, string>> = {
-  compressorRatedLoadAmps:
-    'RLA is a rating, not the current the compressor is expected to draw: it sizes wiring and protection (UL 1995 sets it at the maximum continuous current ÷ 1.56, from memory). A healthy compressor usually runs below it, and its current moves with the load.',
-  airflowBasis: 'Standard CFM is air at sea-level density, as blower tables state it; actual CFM is what a flow hood reads at the home. At elevation the two differ.',
-  totalExternalStaticInWc: 'Total external static pressure: supply plus return static, measured at the cabinet, in inches of water column.',
-  maxExternalStaticInWc: 'The maximum external static pressure on the nameplate or in the blower table; 0.5 in. w.c. is assumed when left blank.',
-  flueCoAirFreePpm: 'Carbon monoxide in the flue products, corrected to air-free, after the burner has run 5 minutes or more.',
-  ambientCoPpm: "Carbon monoxide in the living space, measured before and during the appliance's run.",
-  compressorHz: "The compressor's running frequency, from the unit's display or the maker's service tool.",
-  maxCompressorHz: "The model's maximum compressor frequency, from the nameplate or the maker's data.",
-  capacityPct: 'Percent of full capacity, where the unit or its tool shows it; otherwise it is worked out from the frequency.',
-  fullCapacityTest: 'Most variable-speed systems have a test or charge mode that holds the compressor at full capacity. The charge is judged only there.',
-};
 
 const round = (x: number, digits: number): number => {
   const f = 10 ** digits;

@@ -21,8 +21,20 @@ import {
 import type { ImportMapping, ImportPreview, ImportProblem } from './customers';
 import { emailSchema } from './email';
 import { filterSizeSchema } from './equipment';
-import { MOTOR_APPLICATIONS, QUOTE_STATUSES, type QuoteStatus, PRICE_BOOK_IMPORT_FIELDS, type PriceBookFieldKey, PRICE_BOOK_FIELD_KEYS } from '../pricebook';
+import {
+  DEFAULT_CAPACITOR_TOLERANCE_PCT,
+  MOTOR_APPLICATIONS,
+  QUOTE_STATUSES,
+  SPEED_TAPS,
+  type QuoteStatus,
+  PRICE_BOOK_IMPORT_FIELDS,
+  type PriceBookFieldKey,
+  PRICE_BOOK_FIELD_KEYS,
+} from '../pricebook';
 export {
+  DEFAULT_CAPACITOR_TOLERANCE_PCT,
+  SPEED_TAPS,
+  type SpeedTap,
   MOTOR_APPLICATIONS,
   type MotorApplication,
   MOTOR_APPLICATION_LABELS,
@@ -247,9 +259,6 @@ const sectionsSchema = z.preprocess(
 
 export const CAPACITOR_SHAPES = ['round', 'oval'] as const;
 export type CapacitorShape = (typeof CAPACITOR_SHAPES)[number];
-
-/** ±6 % is the usual tolerance printed on a run capacitor (common practice); some cans say ±5 % or ±10 %. */
-export const DEFAULT_CAPACITOR_TOLERANCE_PCT = 6;
 
 export const capacitorSpecSchema = z.object({
   category: z.literal('capacitor'),
@@ -711,9 +720,6 @@ export interface StockRow {
 }
 
 // ---- Finding a replacement: the failed part's nameplate ----
-
-export const SPEED_TAPS = ['high', 'medium_high', 'medium', 'medium_low', 'low'] as const;
-export type SpeedTap = (typeof SPEED_TAPS)[number];
 
 export const failedMotorSchema = z
   .object({

@@ -1,5 +1,5 @@
 import * as z from 'zod';
-import { seasonSettingsSchema } from '../seasons';
+import { seasonMonthIssue, seasonSettingsIssue, type SeasonMonthField, type SeasonSettings } from '../seasons';
 
 const clock = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a time like 07:30.');
 const day = z
@@ -16,7 +16,18 @@ function validZone(name: string): boolean {
   }
 }
 
-const seasonMonth = seasonSettingsSchema.shape;
+/** One season month, checked by seasons.ts's own rule. */
+const seasonMonth = (field: SeasonMonthField) =>
+  z.custom<number>().superRefine((value, ctx) => {
+    const message = seasonMonthIssue(field, value);
+    if (message) ctx.addIssue({ code: 'custom', message });
+  });
+
+/** The owner's season months, for the API: seasonSettingsIssue as a schema, its problem under its field. */
+export const seasonSettingsSchema = z.custom<SeasonSettings>().superRefine((value, ctx) => {
+  const issue = seasonSettingsIssue(value);
+  if (issue) ctx.addIssue({ code: 'custom', path: [issue.field], message: issue.message });
+});
 
 /**
  * The company's details and booking rules, set by the owner. The season months are optional on a
@@ -53,8 +64,8 @@ export const companySettingsSchema = z.object({
   heldBackPct: z.number().int().min(0, 'Held-back share is 0–100 %.').max(100, 'Held-back share is 0–100 %.'),
   cancelCutoffHours: z.number().int().min(0, 'Cut-off cannot be negative.').max(168, 'Cut-off is at most a week.'),
   diagnosticFeeCents: z.number().int('Diagnostic fee is in whole cents.').min(0, 'Diagnostic fee cannot be negative.').max(100000, 'Diagnostic fee is at most $1,000.'),
-  coolingStartMonth: seasonMonth.coolingStartMonth.optional(),
-  heatingStartMonth: seasonMonth.heatingStartMonth.optional(),
+  coolingStartMonth: seasonMonth('coolingStartMonth').optional(),
+  heatingStartMonth: seasonMonth('heatingStartMonth').optional(),
 });
 export type CompanySettingsInput = z.infer<typeof companySettingsSchema>;
 /** The settings as the API answers them: the season months always present. */

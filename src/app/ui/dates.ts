@@ -82,3 +82,56 @@ export function shortDayLabel(value: string, timeZone: string): string {
   const at = calendar ? new Date(`${value}T00:00:00Z`) : new Date(value);
   return plain(new Intl.DateTimeFormat('en-US', { weekday: 'short', month: 'short', day: 'numeric', timeZone: calendar ? 'UTC' : timeZone }).format(at));
 }
+
+// Calendar arithmetic and wall-clock instants without a date library: calendar days are
+// "YYYY-MM-DD" strings counted in UTC (no zone, so no daylight-saving change can shift them), and
+// an instant is found from the zone's offset as Intl reports it.
+
+const DAY_MS = 86_400_000;
+
+function calendarTime(day: string): number {
+  const t = CALENDAR_DAY.test(day) ? Date.parse(`${day}T00:00:00Z`) : Number.NaN;
+  if (Number.isNaN(t)) throw new RangeError(`day: must be a date as YYYY-MM-DD, got ${String(day)}`);
+  return t;
+}
+
+/** The calendar day `days` after `day` (before it when negative): addDays('2027-02-28', 1) is '2027-03-01'. */
+export function addDays(day: string, days: number): string {
+  return new Date(calendarTime(day) + Math.round(days) * DAY_MS).toISOString().slice(0, 10);
+}
+
+/** The Monday of the week `day` is in (weeks run Monday to Sunday, as ISO 8601 counts them). */
+export function weekStart(day: string): string {
+  const weekday = new Date(calendarTime(day)).getUTCDay();
+  return addDays(day, -((weekday + 6) % 7));
+}
+
+const clockFormats = new Map<string, Intl.DateTimeFormat>();
+/** How far the clock in `timeZone` is ahead of UTC at instant `t`, in milliseconds. */
+function offsetAt(t: number, timeZone: string): number {
+  let f = clockFormats.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric' });
+    clockFormats.set(timeZone, f);
+  }
+  const p = Object.fromEntries(f.formatToParts(new Date(t)).map((x) => [x.type, Number(x.value)]));
+  const wall = Date.UTC(p['year']!, p['month']! - 1, p['day']!, p['hour']!, p['minute']!, p['second']!);
+  return wall - (t - (((t % 1000) + 1000) % 1000));
+}
+
+/**
+ * The instant at which the clock in `timeZone` reads `time` ("09:30") on `day`. A time that a
+ * change to daylight saving skips (2:30 AM on a spring-forward night) moves on by the gap, as the
+ * clock does (3:30 AM); a time that occurs twice when the clocks go back is its first occurrence.
+ */
+export function zonedInstant(day: string, time: string, timeZone: string): Date {
+  const m = /^([01]\d|2[0-3]):([0-5]\d)$/.exec(time);
+  if (!m) throw new RangeError(`time: must be a time as HH:MM, got ${String(time)}`);
+  const local = calendarTime(day) + (Number(m[1]) * 60 + Number(m[2])) * 60_000;
+  // A zone changes its offset at most once in a day: the offsets a day either side are the candidates.
+  const before = offsetAt(local - DAY_MS, timeZone);
+  const after = offsetAt(local + DAY_MS, timeZone);
+  const fits = [before, after].map((o) => local - o).filter((t) => offsetAt(t, timeZone) === local - t);
+  if (fits.length) return new Date(Math.min(...fits));
+  return new Date(local - before);
+}

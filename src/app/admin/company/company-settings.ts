@@ -7,7 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { companySettingsSchema, type CompanySettings } from '../../../../shared/schemas/settings';
-import { seasonSettingsSchema } from '../../../../shared/seasons';
+import { seasonSettingsIssue } from '../../../../shared/seasons';
 import { toApiError } from '../../core/api-errors';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
 import { CompanySettingsApi } from './company-settings-api';
@@ -134,9 +134,9 @@ export class CompanySettingsPage {
     };
     // The same schema the server uses: errors show next to their fields before a round trip.
     const checked = companySettingsSchema.safeParse(body);
-    const seasons = seasonSettingsSchema.safeParse(body);
-    if (checked.success && !seasons.success) {
-      applyFieldErrors(this.form, Object.fromEntries(seasons.error.issues.map((i) => [i.path.join('.'), i.message])), FORM_NAMES);
+    const seasons = seasonSettingsIssue(body);
+    if (checked.success && seasons) {
+      applyFieldErrors(this.form, { [seasons.field]: seasons.message }, FORM_NAMES);
       return;
     }
     if (!checked.success) {

@@ -6,12 +6,16 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
-import { itemFromRow, rowFromItem } from '../../../../shared/pricebook-csv';
 import { categoriesOfKind, ITEM_CATEGORY_LABELS, ITEM_KIND_LABELS, ITEM_KINDS, ITEM_UNITS, type ItemCategory, type ItemKind } from '../../../../shared/pricebook';
 import { PRICE_BOOK_FIELD_KEYS, PRICE_BOOK_IMPORT_FIELDS } from '../../../../shared/pricebook';
 import type { PriceBookFieldKey, PriceBookItem } from '../../../../shared/schemas/pricebook';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
+import { lazyModule } from '../../core/lazy-module';
 import { PriceBookApi } from './price-book-api';
+
+// The row reading the import uses (zod with the price-book schemas) loads in a chunk of its own
+// beside the form, which draws without it.
+const rows = lazyModule(() => import('../../../../shared/pricebook-csv'));
 
 /** The specification values each category is matched on; other part categories carry notes. */
 const SPEC_FIELDS: Partial<Record<ItemCategory, PriceBookFieldKey[]>> = {
@@ -130,18 +134,27 @@ export class ItemForm {
   protected readonly err = (k: string) => serverError(this.form.get(k));
 
   constructor() {
+    rows.preload();
     effect(() => {
       const it = this.item();
+      // An item to edit fills the form once the row reading is in.
+      const csv = it ? rows.value() : null;
+      if (it && !csv) return;
       untracked(() => {
         this.form.reset();
-        if (it) this.form.setValue(rowFromItem(it));
+        if (it && csv) this.form.setValue(csv.rowFromItem(it));
         else this.form.patchValue({ kind: 'part', unit: 'each', taxable: 'yes', active: 'yes', warranty_months: '0', cost: '0' });
       });
     });
   }
 
   protected async save(): Promise<void> {
-    const read = itemFromRow(this.form.getRawValue());
+    const csv = rows.value() ?? (await rows.load().catch(() => null));
+    if (!csv) {
+      this.error.set('The form could not load its checks. Check the connection and try again.');
+      return;
+    }
+    const read = csv.itemFromRow(this.form.getRawValue());
     if (!read.value) {
       applyFieldErrors(this.form, Object.fromEntries(read.problems.map((p) => [p.field, p.message])));
       this.error.set(read.problems.find((p) => p.field === '_')?.message ?? 'Check the values marked below.');

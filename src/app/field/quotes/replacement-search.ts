@@ -7,10 +7,14 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { PLACE_LABELS, type ReplacementFit, type ReplacementResult } from '../../../../shared/part-matching';
 import { MOTOR_APPLICATION_LABELS, MOTOR_APPLICATIONS } from '../../../../shared/pricebook';
-import { failedCapacitorSchema, failedMotorSchema } from '../../../../shared/schemas/pricebook';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
+import { lazyModule } from '../../core/lazy-module';
 import type { PickedLine } from './quote-draft';
 import { QuotesApi } from './quotes-api';
+
+// The nameplate schemas the server parses with (zod and the price-book schemas) load in a chunk
+// of their own while the form is filled in.
+const schemas = lazyModule(() => import('../../../../shared/schemas/pricebook'));
 
 const text = () => new FormControl('', { nonNullable: true });
 
@@ -69,12 +73,21 @@ export class ReplacementSearch {
 
   protected readonly optionTitles = computed(() => (this.options().length ? this.options() : ['Option 1']));
 
-  protected search(): void {
+  constructor() {
+    schemas.preload();
+  }
+
+  protected async search(): Promise<void> {
     const form = this.kind() === 'motor' ? this.motor : this.capacitor;
     const raw =
       this.kind() === 'motor' ? { category: 'motor', ...this.motorValue() } : { category: 'capacitor', ...this.capacitor.getRawValue(), shape: this.capacitor.value.shape || null };
     // The same schema the server parses with, for an answer before the request.
-    const checked = (this.kind() === 'motor' ? failedMotorSchema : failedCapacitorSchema).safeParse(raw);
+    const checks = schemas.value() ?? (await schemas.load().catch(() => null));
+    if (!checks) {
+      this.error.set('The form could not load its checks. Check the connection and try again.');
+      return;
+    }
+    const checked = (this.kind() === 'motor' ? checks.failedMotorSchema : checks.failedCapacitorSchema).safeParse(raw);
     if (!checked.success) {
       const fields = Object.fromEntries(checked.error.issues.map((i) => [String(i.path[0] ?? '_'), i.message]));
       applyFieldErrors(form, fields);

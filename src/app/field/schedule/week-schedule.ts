@@ -4,7 +4,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { DateTime } from 'luxon';
 import type { VisitView, WeekResponse } from '../../../../shared/schemas/booking';
 import { VISIT_REASON_LABELS, visitTimeLabels } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
@@ -12,7 +11,7 @@ import { errorMessage, localCopy } from '../../core/resource-state';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { ScheduleApi } from './schedule-api';
 import { firstValueFrom } from 'rxjs';
-import { dayLabel } from '../../ui/dates';
+import { addDays, dayLabel } from '../../ui/dates';
 
 /** The technician's week, day by day, and the private calendar link for their phone. */
 @Component({
@@ -36,8 +35,7 @@ export class WeekSchedule {
     const w = this.week();
     if (!w) return [];
     return Array.from({ length: 7 }, (_, i) => {
-      const d = DateTime.fromISO(w.start, { zone: w.timeZone }).plus({ days: i });
-      const iso = d.toISODate()!;
+      const iso = addDays(w.start.slice(0, 10), i);
       return { iso, label: dayLabel(iso, w.timeZone, { weekday: true }), visits: w.visits.filter((v) => v.startsAt.slice(0, 10) === iso) };
     });
   });
@@ -49,7 +47,7 @@ export class WeekSchedule {
   protected shift(weeks: number): void {
     const w = this.week();
     if (!w) return;
-    this.start.set(DateTime.fromISO(w.start).plus({ weeks }).toISODate()!);
+    this.start.set(addDays(w.start.slice(0, 10), weeks * 7));
   }
 
   /** The same arrival window and booked length as Today's visits (visitTimeLabels). */

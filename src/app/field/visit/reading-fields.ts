@@ -1,4 +1,5 @@
-import { READING_HELP, type ReadingCheck, type VisitReadings } from '../../../../shared/hvac';
+import type { ReadingCheck, VisitReadings } from '../../../../shared/hvac';
+import { READING_HELP } from '../../../../shared/hvac/reading-help';
 
 export type ReadingGroup = 'capacity' | 'air' | 'refrigerant' | 'electrical' | 'airflow' | 'heating' | 'combustion';
 

@@ -6,20 +6,15 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import {
-  capacityState,
-  cautions as ALL_CAUTIONS,
-  evaluateReadings,
-  FULL_CAPACITY_TEST_PROMPT,
-  ReadingInputError,
-  REFRIGERANTS,
-  type Caution,
-  type ReadingCheck,
-  type VisitReadings,
-} from '../../../../shared/hvac';
+import type { Caution, ReadingCheck, VisitReadings } from '../../../../shared/hvac';
+import { capacityState, FULL_CAPACITY_TEST_PROMPT } from '../../../../shared/hvac/capacity';
+import { cautions as ALL_CAUTIONS } from '../../../../shared/hvac/cautions';
+import { ReadingInputError } from '../../../../shared/hvac/errors';
+import { REFRIGERANTS } from '../../../../shared/hvac/refrigerant-names';
 import { CHECK_LABELS } from '../../../../shared/checklist';
 import type { FieldEquipment, SavedReadings } from '../../../../shared/schemas/field';
 import { toApiError } from '../../core/api-errors';
+import { lazyModule } from '../../core/lazy-module';
 import { ReadingStatusMark } from '../../ui/status/reading-status';
 import { FieldApi } from '../field-api';
 import { VisitDrafts } from '../visit-drafts';
@@ -55,6 +50,9 @@ interface Draft {
 type SaveState = { kind: 'idle' } | { kind: 'saving' } | { kind: 'saved'; at: string } | { kind: 'kept'; message: string } | { kind: 'error'; message: string };
 
 const isInputError = (e: unknown): e is ReadingInputError => e instanceof ReadingInputError;
+// The readings engine (its zod schema, saturation tables and psychrometrics) loads in a chunk of
+// its own beside the form; the checks appear as soon as it is in.
+const engine = lazyModule(() => import('../../../../shared/hvac/evaluate'));
 const OUTDOOR = new Set(['condensing_unit', 'heat_pump', 'geothermal_heat_pump', 'ductless']);
 
 /** Readings for one system, checked by the engine as each field is typed, saved with the visit. */
@@ -141,7 +139,9 @@ export class ReadingsForm {
 
   protected readonly evaluation = computed(() => {
     const { readings, errors } = this.typed();
-    const result = evaluateTyped(readings, evaluateReadings, isInputError);
+    // Until the engine is in (a moment after the form) only typing errors show.
+    const run = engine.value()?.evaluateReadings;
+    const result = run ? evaluateTyped(readings, run, isInputError) : { checks: [], errors: {} };
     return { checks: result.checks, errors: { ...result.errors, ...errors, ...this.serverErrors() } };
   });
   protected readonly checksByGroup = computed(() => {
@@ -170,6 +170,7 @@ export class ReadingsForm {
   protected readonly hasErrors = computed(() => Object.keys(this.evaluation().errors).length > 0);
 
   constructor() {
+    engine.preload();
     const sub = this.form.valueChanges.subscribe(() => {
       this.value.set(this.form.getRawValue());
       this.serverErrors.set({});

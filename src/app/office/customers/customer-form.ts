@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -8,10 +9,14 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { US_STATES } from '../../../../shared/customer-fields';
-import { customerCreateSchema, toE164 } from '../../../../shared/schemas/customers';
 import { applyFieldErrors, applyServerErrors, serverError } from '../../core/form-errors';
+import { lazyModule } from '../../core/lazy-module';
 import { CustomersApi } from './customers-api';
 import { firstValueFrom } from 'rxjs';
+
+// The household schema the server parses with (zod, and libphonenumber-js for phone numbers)
+// loads in a chunk of its own beside the form, which draws without it.
+const schemas = lazyModule(() => import('../../../../shared/schemas/customers'));
 
 /** New household with its first property. The shared schema checks here and again on the server. */
 @Component({
@@ -59,7 +64,6 @@ export class CustomerForm {
   protected readonly saving = signal(false);
   protected readonly error = signal<string | null>(null);
   protected readonly serverError = serverError;
-  protected readonly phonePreview = signal<string | null>(null);
 
   protected readonly form = new FormGroup({
     name: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.maxLength(120)] }),
@@ -77,15 +81,28 @@ export class CustomerForm {
     }),
   });
 
+  private readonly phone = toSignal(this.form.controls.phone.valueChanges, { initialValue: '' });
+  /** The number as it will be stored (E.164), once the phone rules are in. */
+  protected readonly phonePreview = computed(() => {
+    const v = this.phone().trim();
+    const rules = v ? schemas.value() : null;
+    return rules ? rules.toE164(v) : null;
+  });
+
   constructor() {
-    this.form.controls.phone.valueChanges.subscribe((v) => this.phonePreview.set(v.trim() ? toE164(v) : null));
+    schemas.preload();
   }
 
   protected async save(): Promise<void> {
     this.error.set(null);
     const value = this.form.getRawValue();
     // Same schema as the server: errors show at once, under their fields.
-    const check = customerCreateSchema.safeParse(value);
+    const rules = schemas.value() ?? (await schemas.load().catch(() => null));
+    if (!rules) {
+      this.error.set('The form could not load its checks. Check the connection and try again.');
+      return;
+    }
+    const check = rules.customerCreateSchema.safeParse(value);
     if (!check.success) {
       applyFieldErrors(this.form, Object.fromEntries(check.error.issues.map((issue) => [issue.path.join('.'), issue.message])));
       return;

@@ -2,17 +2,12 @@ import { CdkDrag, CdkDragDrop, CdkDropList, CdkDropListGroup } from '@angular/cd
 import { NgTemplateOutlet } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
-import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { DateTime } from 'luxon';
 import type { BoardResponse, BoardTechnician, VisitEventView, VisitView } from '../../../../shared/schemas/booking';
 import { VISIT_KINDS, VISIT_TRANSITIONS, VISIT_REASON_LABELS, VISIT_STATUS_LABELS, type VisitKind, type VisitStatus } from '../../../../shared/visits';
 import { toApiError } from '../../core/api-errors';
@@ -21,7 +16,7 @@ import { urlFilters } from '../../core/url-filters';
 import { VisitStatusMark } from '../../ui/status/visit-status';
 import { DispatchApi } from './dispatch-api';
 import { firstValueFrom } from 'rxjs';
-import { dayLabel, shortDayLabel, timeLabel } from '../../ui/dates';
+import { addDays, dateTimeLabel, dayLabel, localDay, shortDayLabel, timeLabel, weekStart, zonedInstant } from '../../ui/dates';
 import { Session } from '../../core/session';
 
 const KIND_LABELS: Record<VisitKind, string> = { tune_up: 'Tune-up', service_call: 'Service call' };
@@ -36,22 +31,7 @@ interface Column {
 /** Day or week board: a column per technician, the unassigned queue, drag or menu to assign. */
 @Component({
   selector: 'sw-dispatch-board',
-  imports: [
-    CdkDrag,
-    CdkDropList,
-    CdkDropListGroup,
-    FormsModule,
-    NgTemplateOutlet,
-    RouterLink,
-    MatButtonModule,
-    MatButtonToggleModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    MatMenuModule,
-    MatSelectModule,
-    VisitStatusMark,
-  ],
+  imports: [CdkDrag, CdkDropList, CdkDropListGroup, NgTemplateOutlet, RouterLink, MatButtonModule, MatButtonToggleModule, MatIconModule, MatMenuModule, VisitStatusMark],
   templateUrl: './dispatch-board.html',
   styleUrl: './dispatch-board.scss',
   host: { class: 'sw-dense' },
@@ -69,14 +49,14 @@ export class DispatchBoard {
   }
 
   private readonly url = urlFilters();
-  protected readonly from = signal(/^\d{4}-\d{2}-\d{2}$/.test(this.url.read('from') ?? '') ? this.url.read('from')! : DateTime.now().setZone(this.session.timeZone()).toISODate()!);
+  protected readonly from = signal(/^\d{4}-\d{2}-\d{2}$/.test(this.url.read('from') ?? '') ? this.url.read('from')! : localDay(new Date(), this.session.timeZone()));
   protected readonly days = signal<1 | 7>(this.url.read('days') === '7' ? 7 : 1);
   protected readonly technicianId = signal<string>('');
   protected readonly kind = signal<VisitKind | ''>('');
   protected readonly area = signal<string>('');
   private readonly board = rxResource({
     params: () => ({
-      from: this.days() === 7 ? DateTime.fromISO(this.from()).startOf('week').toISODate()! : this.from(),
+      from: this.days() === 7 ? weekStart(this.from()) : this.from(),
       days: this.days(),
       technicianId: this.technicianId() || undefined,
       kind: this.kind() || undefined,
@@ -92,22 +72,21 @@ export class DispatchBoard {
   protected readonly busy = signal(false);
 
   protected readonly title = computed(() => {
-    const start = DateTime.fromISO(this.from());
-    if (this.days() === 1) return dayLabel(start.toISODate()!, this.session.timeZone(), { weekday: true });
-    return `Week of ${dayLabel(start.startOf('week').toISODate()!, this.session.timeZone())}`;
+    if (this.days() === 1) return dayLabel(this.from(), this.session.timeZone(), { weekday: true });
+    return `Week of ${dayLabel(weekStart(this.from()), this.session.timeZone())}`;
   });
 
   protected readonly columns = computed<Column[]>(() => {
     const d = this.data();
     if (!d) return [];
-    const dates = Array.from({ length: d.days }, (_, i) => DateTime.fromISO(d.from, { zone: d.timeZone }).plus({ days: i }));
+    const dates = Array.from({ length: d.days }, (_, i) => addDays(d.from, i));
     return d.technicians.map((t) => ({
       id: t.id,
       tech: t,
-      days: dates.map((day) => {
-        const iso = day.toISODate()!;
-        const start = day.startOf('day').toMillis();
-        const end = day.endOf('day').toMillis();
+      days: dates.map((iso) => {
+        // The day as the company's clock counts it (23 or 25 hours when the clocks change).
+        const start = zonedInstant(iso, '00:00', d.timeZone).getTime();
+        const end = zonedInstant(addDays(iso, 1), '00:00', d.timeZone).getTime() - 1;
         return {
           date: iso,
           label: shortDayLabel(iso, d.timeZone),
@@ -124,20 +103,20 @@ export class DispatchBoard {
   }
 
   protected shift(step: number): void {
-    this.from.set(
-      DateTime.fromISO(this.from())
-        .plus({ days: step * this.days() })
-        .toISODate()!,
-    );
+    this.from.set(addDays(this.from(), step * this.days()));
   }
 
   protected today(): void {
-    this.from.set(DateTime.now().setZone(this.session.timeZone()).toISODate()!);
+    this.from.set(localDay(new Date(), this.session.timeZone()));
   }
 
   protected pickDate(value: string): void {
     if (!/^\d{4}-\d{2}-\d{2}$/.test(value)) return;
     this.from.set(value);
+  }
+
+  protected pickKind(value: string): void {
+    this.kind.set(VISIT_KINDS.find((k) => k === value) ?? '');
   }
 
   protected setView(days: 1 | 7): void {
@@ -168,8 +147,9 @@ export class DispatchBoard {
     const [techId, date] = ev.container.data.split('|');
     let startsAt: string | undefined;
     if (date && v.startsAt.slice(0, 10) !== date) {
-      const s = DateTime.fromISO(v.startsAt, { setZone: true });
-      startsAt = DateTime.fromISO(date, { zone: this.data()!.timeZone }).set({ hour: s.hour, minute: s.minute }).toISO()!;
+      // startsAt is written in the company's zone: its clock time is the one to keep.
+      const clock = /T(\d{2}:\d{2})/.exec(v.startsAt)?.[1] ?? '00:00';
+      startsAt = zonedInstant(date, clock, this.data()!.timeZone).toISOString();
     }
     await this.assign(v, techId!, startsAt);
   }
@@ -219,8 +199,6 @@ export class DispatchBoard {
   }
 
   protected stamp(iso: string): string {
-    return DateTime.fromISO(iso)
-      .setZone(this.data()?.timeZone ?? 'America/Chicago')
-      .toFormat('ccc d LLL, h:mm a');
+    return dateTimeLabel(iso, this.data()?.timeZone ?? this.session.timeZone());
   }
 }

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import type { ReminderKind } from '../../../../shared/seasonal-reminders';
+import type { ReminderKind } from '../../../../shared/reminder-labels';
 import type {
   AudienceFilter,
   CampaignRecipientEntry,

@@ -10,12 +10,12 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
-import { MatTabsModule } from '@angular/material/tabs';
+import { MatTab, MatTabGroup } from '@angular/material/tabs';
 import { DomSanitizer } from '@angular/platform-browser';
 import { ActivatedRoute, Router } from '@angular/router';
 import { Subscription, debounceTime, of, switchMap, takeWhile, timer } from 'rxjs';
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
-import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/seasonal-reminders';
+import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/reminder-labels';
 import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { errorMessage, localCopy } from '../../core/resource-state';
@@ -47,7 +47,8 @@ const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
     MatProgressBarModule,
     MatSelectModule,
     MatTableModule,
-    MatTabsModule,
+    MatTab,
+    MatTabGroup,
   ],
   templateUrl: './reminders.html',
   styleUrl: './reminders.scss',

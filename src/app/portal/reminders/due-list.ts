@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { dueWords } from '../../../../shared/reminders';
+import { dueWords } from '../../../../shared/reminder-labels';
 import type { MyDueItem, MyReminders } from '../../../../shared/schemas/campaigns';
 import { toApiError } from '../../core/api-errors';
 import { MyRemindersApi } from './my-reminders-api';
