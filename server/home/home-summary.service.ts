@@ -5,6 +5,7 @@ import { coverageFor } from '../../shared/coverage';
 import { daysBetween, renewalWindowOpens } from '../../shared/renewals';
 import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/schemas/home';
 import type { SessionUser } from '../../shared/schemas/session';
+import { dateTimeFormat } from '../../shared/date-formats';
 import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
 import { agreements, invoices, plans, planVersions, properties, quotes } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
@@ -109,7 +110,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
         reasonLabel: next.reasonLabel,
         status: next.status as VisitStatus,
         statusLabel: next.statusLabel,
-        dayLabel: new Intl.DateTimeFormat('en-US', { weekday: 'short', day: 'numeric', month: 'short', timeZone: co.timeZone }).format(new Date(next.windowStart)),
+        dayLabel: dateTimeFormat('en-US', { weekday: 'short', day: 'numeric', month: 'short', timeZone: co.timeZone }).format(new Date(next.windowStart)),
         arrivalLabel: visitTimeLabels({ windowStart: next.windowStart, windowEnd: next.windowEnd, startsAt: next.startsAt, endsAt: next.startsAt }, co.timeZone).arrival,
         technicianName: next.technicianName,
       }
