@@ -3,7 +3,6 @@ import { eq, sql } from 'drizzle-orm';
 import { Router, type Request, type Response } from 'express';
 import session from 'express-session';
 import passport from 'passport';
-import type pg from 'pg';
 import type { AppDeps } from '../deps';
 import type { Db } from '../db/client';
 import { users } from '../db/schema';
@@ -86,25 +85,6 @@ export function authenticatorFor(deps: AppDeps): passport.Authenticator {
   return auth;
 }
 
-/**
- * The pool as the session store sees it: its few statements with parameters (read, write, touch,
- * delete a session) go as named statements, so each connection parses and plans them once rather
- * than on every request. The one-time table set-up (several commands, no parameters) goes as it is.
- */
-function preparedStorePool(pool: pg.Pool): pg.Pool {
-  const names = new Map<string, string>();
-  const nameFor = (text: string) => {
-    let name = names.get(text);
-    if (!name) {
-      name = `session_store_${names.size + 1}`;
-      names.set(text, name);
-    }
-    return name;
-  };
-  const query = (text: string, values?: unknown[]) => (values?.length ? pool.query({ name: nameFor(text), text, values }) : pool.query(text, values));
-  return { query } as unknown as pg.Pool;
-}
-
 const regenerate = (req: Request) => new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
 
 /** Signs the user in on a fresh session id and starts the role's timeouts. */
@@ -160,7 +140,7 @@ export function authMiddleware(deps: AppDeps, csrfExemptMounts: string[]): Route
       name: sessionCookieName(config.production),
       secret: config.SESSION_SECRET,
       store: new PgStore({
-        pool: preparedStorePool(database.pool),
+        pool: database.pool,
         tableName: SESSION_TABLE,
         createTableIfMissing: true,
         disableTouch: true,
