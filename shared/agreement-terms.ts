@@ -1,3 +1,5 @@
+import { dateTimeFormat } from './date-formats';
+
 // No date library here: the client's pages import these too.
 
 /**
@@ -48,7 +50,7 @@ export function termLastDay(term: TermRange): string {
  * zone shifts.
  */
 export function formatTermDay(date: string): string {
-  return new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${date}T00:00:00Z`));
+  return dateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${date}T00:00:00Z`));
 }
 
 /** "March 15, 2026 to March 14, 2027": a term's first and last covered day. */

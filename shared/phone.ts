@@ -1,7 +1,10 @@
 import { parsePhoneNumberFromString, type CountryCode } from 'libphonenumber-js';
+import { keptBy } from './kept';
 
 // Phone numbers are stored in E.164 ("+18165550142"); people read them in their country's own
 // format. Formatting follows libphonenumber-js (the JavaScript port of Google's libphonenumber).
+
+const formatted = keptBy<string>(2_000);
 
 /**
  * A number as a person in `country` writes it: national format for a number of that country
@@ -9,9 +12,12 @@ import { parsePhoneNumberFromString, type CountryCode } from 'libphonenumber-js'
  * is not a phone number comes back as it was.
  */
 export function formatPhone(stored: string, country: string): string {
-  const n = parsePhoneNumberFromString(stored, country as CountryCode);
-  if (!n || !n.isPossible()) return stored;
-  return n.country === country ? n.formatNational() : n.formatInternational();
+  // Parsing is the cost; a page of visits names the same office number on every row.
+  return formatted(`${country}|${stored}`, () => {
+    const n = parsePhoneNumberFromString(stored, country as CountryCode);
+    if (!n || !n.isPossible()) return stored;
+    return n.country === country ? n.formatNational() : n.formatInternational();
+  });
 }
 
 /** The `tel:` link for a number (RFC 3966: the global number, no spaces), or null if it is none. */

@@ -1,3 +1,5 @@
+import { dateTimeFormat } from './date-formats';
+
 export const VISIT_KINDS = ['tune_up', 'service_call'] as const;
 export type VisitKind = (typeof VISIT_KINDS)[number];
 
@@ -70,10 +72,12 @@ export function canChangeOnline(visit: { status: VisitStatus; windowStart: Date 
 export function cutoffLabel(at: Date | string, timeZone: string): string {
   const when = typeof at === 'string' ? new Date(at) : at;
   const parts = Object.fromEntries(
-    new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', day: 'numeric', month: 'short' }).formatToParts(when).map((p) => [p.type, p.value]),
+    dateTimeFormat('en-GB', { timeZone, weekday: 'short', day: 'numeric', month: 'short' })
+      .formatToParts(when)
+      .map((p) => [p.type, p.value]),
   );
   // ICU writes a narrow no-break space before AM/PM; plain text and tests read a normal space.
-  const time = new Intl.DateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hour12: true }).format(when).replace(/\s/g, ' ');
+  const time = dateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hour12: true }).format(when).replace(/\s/g, ' ');
   return `${parts['weekday']} ${parts['day']} ${parts['month']}, ${time}`;
 }
 
@@ -126,12 +130,9 @@ export const VISIT_STATE_WORDS: Record<VisitStatus, VisitStateWords> = {
 
 // ---- A visit's times: the arrival window promised to the homeowner, and the work booked within it ----
 
-const clockFormats = new Map<string, Intl.DateTimeFormat>();
-
 /** The hour and minute in `timeZone`, 12-hour: "9", "7:30", with "am" or "pm". */
 function clock(at: Date, timeZone: string): { time: string; meridiem: 'am' | 'pm' } {
-  let f = clockFormats.get(timeZone);
-  if (!f) clockFormats.set(timeZone, (f = new Intl.DateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hourCycle: 'h23' })));
+  const f = dateTimeFormat('en-US', { timeZone, hour: 'numeric', minute: '2-digit', hourCycle: 'h23' });
   const parts = Object.fromEntries(f.formatToParts(at).map((p) => [p.type, p.value]));
   const hour = Number(parts['hour']) % 24;
   const minute = parts['minute'] ?? '00';

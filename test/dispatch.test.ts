@@ -119,6 +119,38 @@ describe('dispatch board', () => {
     expect(week.body.unassigned).toHaveLength(4);
   });
 
+  it('shows the soonest 50 of a long queue and says how many wait in all', async () => {
+    const office = await at('2031-09-01T13:00:00Z');
+    const h = await household();
+    const first = Date.parse('2031-09-02T14:00:00Z');
+    // Inserted latest first, so only the order the board asks for puts them soonest first.
+    const rows = Array.from({ length: 53 }, (_, i) => {
+      const start = new Date(first + (52 - i) * 3_600_000);
+      const end = new Date(start.getTime() + 2 * 3_600_000);
+      return {
+        customerId: h.customerId,
+        propertyId: h.propertyId,
+        kind: 'service_call' as const,
+        reason: 'noise' as const,
+        status: 'requested' as const,
+        windowStart: start,
+        windowEnd: end,
+        startsAt: start,
+        endsAt: end,
+      };
+    });
+    await ctx.database.db.insert(t.visits).values(rows);
+    const board = await office.agent.get('/api/dispatch/board').query({ from: '2031-09-02', days: 1, area: h.area }).expect(200);
+    expect(board.body.unassignedTotal).toBe(53);
+    expect(board.body.unassigned).toHaveLength(50);
+    const starts = board.body.unassigned.map((v: { windowStart: string }) => Date.parse(v.windowStart));
+    expect(starts[0]).toBe(first);
+    expect(starts).toEqual([...starts].sort((a, b) => a - b));
+    expect(board.body.visits).toHaveLength(0);
+    expect(board.body.areas).toContain(h.area);
+    expect(board.body.areas).toEqual([...new Set(board.body.areas)].sort());
+  });
+
   it('tells the homeowner once the assignment settles, and nothing for a reshuffle inside the window', async () => {
     const office = await at('2031-10-06T13:00:00Z'); // Mon 6 Oct 2031
     const h = await household();

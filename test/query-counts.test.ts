@@ -26,17 +26,20 @@ const LARGE = 10_000;
 const EXPECTED: Record<string, number> = {
   session: 1,
   'homeowner-home': 8,
-  'booking-windows': 6,
-  'booking-visit': 19,
-  'customer-search': 3,
+  // The session, the property with its plan and equipment, the company row, the schedule version.
+  'booking-windows': 4,
+  'booking-visit': 16,
+  // The session, then the page with its total in one statement.
+  'customer-search': 2,
   // Two of these read the terms of all the household's agreements at once.
   'customer-page': 13,
-  // The board plus the queue of requests to confirm, which spans all dates: one query of its own.
-  'dispatch-day': 8,
-  'dispatch-week': 8,
+  // The session, the company with its booking settings, the technicians with time off beside the
+  // areas and the queue's size, then the visits on screen with the soonest of the queue.
+  'dispatch-day': 4,
+  'dispatch-week': 4,
   renewals: 4,
-  // The homeowner's first screen beside "My home": company, agreements, visits, invoices, quotes, terms.
-  'home-summary': 7,
+  // The homeowner's first screen beside "My home": company, agreements, visits, invoices with quotes, terms.
+  'home-summary': 6,
   // The session, then one statement each.
   'office-home': 2,
   'report-agreements': 2,

@@ -40,6 +40,10 @@ const TECHS = 20;
 const VISITS = 2000;
 const DAYS = 30;
 const ENGINE_RUNS = Number(process.env.BENCH_RUNS ?? 15);
+// A comma-separated list of route names to run alone (while working on one); all by default.
+const ONLY = process.env.BENCH_ROUTES?.split(',')
+  .map((s) => s.trim())
+  .filter(Boolean);
 // The load generator runs in a worker thread so it does not share the server's event loop.
 const IN_PROCESS = process.env.BENCH_IN_PROCESS === '1';
 // Households that book in the booking run, each signed in through its own e-mailed link (the
@@ -413,7 +417,7 @@ async function main(): Promise<void> {
     let bareBefore = bareFigures.rps;
 
     const results: RouteResult[] = [];
-    for (const spec of routes) {
+    for (const spec of ONLY?.length ? routes.filter((r) => ONLY.includes(r.name)) : routes) {
       const l: Load = { ...spec.load };
       if (spec.candidates) {
         for (const path of spec.candidates) {

@@ -2,6 +2,7 @@ import { eq } from 'drizzle-orm';
 import { coveredThroughLabel, termRangeLabel } from '../../shared/agreement-terms';
 import { createRequire } from 'node:module';
 import PDFDocument from 'pdfkit';
+import { dateTimeFormat } from '../../shared/date-formats';
 import { formatUsd } from '../../shared/money';
 import { INVOICE_STATUS_LABELS, type InvoiceView, type PaymentView } from '../../shared/schemas/billing';
 import type { AppDeps } from '../deps';
@@ -22,7 +23,7 @@ const METHOD_LABEL = { card: 'Card', check: 'Check', cash: 'Cash' } as const;
 
 function dateText(isoTime: string | null, timeZone: string): string {
   if (!isoTime) return '';
-  return new Intl.DateTimeFormat('en-US', { dateStyle: 'medium', timeZone }).format(new Date(isoTime));
+  return dateTimeFormat('en-US', { dateStyle: 'medium', timeZone }).format(new Date(isoTime));
 }
 
 /** The invoice with its receipt (payments so far) as one PDF, Nunito embedded. */

@@ -114,23 +114,26 @@ export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId
       zip: properties.zip,
       area: properties.area,
       archivedAt: properties.archivedAt,
+      // The covering plan (the later-ending agreement if two) and the equipment kinds, in the same statement.
+      planName: sql<string | null>`(select ${plans.name} from ${agreements}
+        join ${planVersions} on ${planVersions.id} = ${agreements.planVersionId} join ${plans} on ${plans.id} = ${planVersions.planId}
+        where ${agreements.propertyId} = ${properties.id} and ${agreements.status} in ('active', 'renewal_due')
+        order by ${agreements.endsOn} desc, ${agreements.id} desc limit 1)`,
+      planHours: sql<number | null>`(select ${planVersions.priorityWindowHours} from ${agreements}
+        join ${planVersions} on ${planVersions.id} = ${agreements.planVersionId}
+        where ${agreements.propertyId} = ${properties.id} and ${agreements.status} in ('active', 'renewal_due')
+        order by ${agreements.endsOn} desc, ${agreements.id} desc limit 1)`,
+      kinds: sql<string[]>`array(select ${equipment.kind} from ${equipment} where ${equipment.propertyId} = ${properties.id} and ${equipment.archivedAt} is null)`,
     })
     .from(properties)
     .innerJoin(customers, eq(customers.id, properties.customerId))
     .where(eq(properties.id, propertyId))
     .limit(1);
   await assertOwnedRow(db, user, p, 'propertyId', { what: 'That property' });
-  const plan = (await memberPlans(db, [p.id])).get(p.id);
-  const kinds = await db
-    .select({ kind: equipment.kind })
-    .from(equipment)
-    .where(and(eq(equipment.propertyId, p.id), isNull(equipment.archivedAt)));
+  const plan = p.planName !== null && p.planHours !== null ? { planName: p.planName, hours: p.planHours } : undefined;
   return {
     ...propertyView(p, plan),
-    requiredSkill: requiredSkillFor(
-      kinds.map((k) => k.kind),
-      reason,
-    ),
+    requiredSkill: requiredSkillFor(p.kinds, reason),
   };
 }
 

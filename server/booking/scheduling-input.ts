@@ -1,14 +1,14 @@
-import { and, eq, gt, inArray, isNotNull, isNull, lt, ne } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNotNull, isNull, lt, ne, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { BookedVisit, SchedulingSettings, Technician, WeeklyHours } from '../../shared/scheduling';
 import { ACTIVE_STATUSES } from '../../shared/schemas/booking';
 import type { VisitKind } from '../../shared/visits';
 import type { Db, Tx } from '../db/client';
-import { bookingSettings, technicianTimeOff, technicians, users, visits } from '../db/schema';
+import { bookingSettings, company, technicianTimeOff, technicians, users, visits } from '../db/schema';
 import type { BusinessHours } from '../db/schema/company';
 import type { WeeklyHours as TechHours } from '../db/schema/technicians';
 import { companyRow } from '../company/company';
-import { oncePerRequest } from '../runtime/request-memo';
+import { loadedForRequest, oncePerRequest, rememberForRequest } from '../runtime/request-memo';
 
 const DAY_KEYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
 
@@ -43,9 +43,26 @@ export interface CompanySettings {
   visitMinutes: Record<VisitKind, number>;
 }
 
+type BookingSettingsRow = typeof bookingSettings.$inferSelect;
+
+// The booking settings, once per request. When the request has not read the company row yet,
+// both come in one statement and the company row is kept for the request as companyRow reads it.
+const bookingSettingsRow = (db: Db | Tx): Promise<BookingSettingsRow | undefined> =>
+  oncePerRequest('booking_settings', async () => {
+    if (loadedForRequest('company')) return (await db.select().from(bookingSettings).limit(1))[0];
+    const [row] = await db
+      .select({ c: company, b: bookingSettings })
+      .from(company)
+      .leftJoin(bookingSettings, sql`true`)
+      .where(eq(company.id, 1))
+      .limit(1);
+    rememberForRequest('company', row?.c);
+    return row?.b ?? undefined;
+  });
+
 export async function loadCompanySettings(db: Db | Tx): Promise<CompanySettings> {
+  const b = await bookingSettingsRow(db);
   const c = await companyRow(db);
-  const [b] = await oncePerRequest('booking_settings', () => db.select().from(bookingSettings).limit(1));
   const visitMinutes = { tune_up: b?.tuneUpMinutes ?? 90, service_call: b?.serviceCallMinutes ?? 120 };
   return {
     name: c.name,

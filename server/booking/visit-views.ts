@@ -7,6 +7,7 @@ import type { Db, Tx } from '../db/client';
 import { customers, properties, technicians, users, visits } from '../db/schema';
 import { formatPhone } from '../../shared/phone';
 import { COMPANY_COUNTRY } from '../company/company';
+import { keptBy } from '../../shared/kept';
 
 // The plan behind a property: an agreement that is active or due for renewal.
 const memberPlan = sql<string | null>`(
@@ -92,11 +93,27 @@ export function addressOf(r: Pick<VisitRow, 'street' | 'unit' | 'city' | 'state'
   return `${r.street}${r.unit ? `, ${r.unit}` : ''}, ${r.city}, ${r.state} ${r.zip}`;
 }
 
+// A board or list of visits repeats the same instants (visits start at the day's slot times), and
+// each local time or label costs several time-zone lookups: each is worked out once per zone and
+// instant. Pure functions of their key, so what is kept never goes stale.
+const KEPT = 20_000;
+const isoKept = keptBy<string>(KEPT);
+const labelKept = keptBy<string>(KEPT);
+const sentenceKept = keptBy<string>(KEPT);
+
+/** The instant as local ISO time in the zone ("2031-06-02T08:00:00.000-05:00"). */
+export function isoIn(at: Date, timeZone: string): string {
+  const ms = at.getTime();
+  return isoKept(`${timeZone}|${ms}`, () => DateTime.fromMillis(ms, { zone: timeZone }).toISO()!);
+}
+
 /** The window as the homeowner reads it, with the zone named on days the clocks change. */
 export function labelFor(start: Date, end: Date, timeZone: string): string {
-  const s = DateTime.fromJSDate(start, { zone: timeZone });
-  const showZone = s.startOf('day').offset !== s.endOf('day').offset;
-  return windowLabel(start.getTime(), end.getTime(), timeZone, showZone);
+  return labelKept(`${timeZone}|${start.getTime()}|${end.getTime()}`, () => {
+    const s = DateTime.fromJSDate(start, { zone: timeZone });
+    const showZone = s.startOf('day').offset !== s.endOf('day').offset;
+    return windowLabel(start.getTime(), end.getTime(), timeZone, showZone);
+  });
 }
 
 export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; phone: string; now: Date }): VisitView {
@@ -112,11 +129,11 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     kind: r.kind,
     reason: r.reason,
     status: r.status,
-    windowStart: DateTime.fromJSDate(r.windowStart, { zone: ctx.timeZone }).toISO()!,
-    windowEnd: DateTime.fromJSDate(r.windowEnd, { zone: ctx.timeZone }).toISO()!,
+    windowStart: isoIn(r.windowStart, ctx.timeZone),
+    windowEnd: isoIn(r.windowEnd, ctx.timeZone),
     windowLabel: labelFor(r.windowStart, r.windowEnd, ctx.timeZone),
-    startsAt: DateTime.fromJSDate(r.startsAt, { zone: ctx.timeZone }).toISO()!,
-    endsAt: DateTime.fromJSDate(r.endsAt, { zone: ctx.timeZone }).toISO()!,
+    startsAt: isoIn(r.startsAt, ctx.timeZone),
+    endsAt: isoIn(r.endsAt, ctx.timeZone),
     technicianId: r.technicianId,
     technicianName: r.technicianName,
     member: r.planName !== null,
@@ -125,9 +142,11 @@ export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: 
     symptoms: r.symptoms,
     notes: r.notes,
     sequence: r.sequence,
-    changeableUntil: DateTime.fromJSDate(until, { zone: ctx.timeZone }).toISO()!,
+    changeableUntil: isoIn(until, ctx.timeZone),
     canChange,
-    changeNotice: changeSentence(canChange, until, formatPhone(ctx.phone, COMPANY_COUNTRY), ctx.timeZone),
+    changeNotice: canChange
+      ? sentenceKept(`${ctx.timeZone}|${until.getTime()}`, () => changeSentence(true, until, '', ctx.timeZone))
+      : changeSentence(false, until, formatPhone(ctx.phone, COMPANY_COUNTRY), ctx.timeZone),
     officePhone: ctx.phone,
     windowMissed: windowMissed(r, ctx.now),
   };

@@ -1,5 +1,5 @@
 import { eq } from 'drizzle-orm';
-import { DateTime } from 'luxon';
+import { dateTimeFormat } from '../../shared/date-formats';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
 import { company } from '../db/schema';
@@ -77,7 +77,16 @@ export async function companyLocale(db: Db | Tx, now = Date.now()): Promise<Comp
 
 /** The calendar date at `at` in a time zone, as an ISO date (agreement terms and ages are local dates). */
 export function localDate(at: Date, timeZone: string): string {
-  return DateTime.fromJSDate(at, { zone: timeZone }).toISODate()!;
+  // One cached Intl formatter rather than a luxon zone lookup: lists of visits ask this per row.
+  let y = '';
+  let m = '';
+  let d = '';
+  for (const p of dateTimeFormat('en-US', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at)) {
+    if (p.type === 'year') y = p.value;
+    else if (p.type === 'month') m = p.value;
+    else if (p.type === 'day') d = p.value;
+  }
+  return `${y.padStart(4, '0')}-${m}-${d}`;
 }
 
 /** Today where the company works, from the app's clock; pass `tx` to read inside a transaction. */

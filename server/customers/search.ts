@@ -35,32 +35,39 @@ export async function listCustomers(deps: Pick<AppDeps, 'database'>, q: Customer
   const city = firstProperty('city');
   const sortCol = { name: sql`lower(${customers.name})`, email: sql`lower(${customers.email})`, createdAt: sql`${customers.createdAt}`, city }[q.sort];
   const dir = q.dir === 'desc' ? desc : asc;
-  const [rows, [count]] = await Promise.all([
-    db
-      .select({
-        id: customers.id,
-        name: customers.name,
-        email: customers.email,
-        phone: customers.phone,
-        street,
-        city,
-        propertyCount: sql<number>`(select count(*)::int from properties p where p.customer_id = "customers"."id" and p.archived_at is null)`,
-        archivedAt: customers.archivedAt,
-        createdAt: customers.createdAt,
-      })
-      .from(customers)
-      .where(where)
-      .orderBy(q.dir === 'desc' ? sql`${sortCol} desc nulls last` : sql`${sortCol} asc nulls last`, dir(customers.id))
-      .limit(q.pageSize)
-      .offset(q.page * q.pageSize),
-    db
-      .select({ n: sql<number>`count(*)::int` })
-      .from(customers)
-      .where(where),
-  ]);
+  // The page and the total in one statement: the window count is taken before the limit.
+  const rows = await db
+    .select({
+      id: customers.id,
+      name: customers.name,
+      email: customers.email,
+      phone: customers.phone,
+      street,
+      city,
+      propertyCount: sql<number>`(select count(*)::int from properties p where p.customer_id = "customers"."id" and p.archived_at is null)`,
+      archivedAt: customers.archivedAt,
+      createdAt: customers.createdAt,
+      total: sql<number>`count(*) over ()`.mapWith(Number),
+    })
+    .from(customers)
+    .where(where)
+    .orderBy(q.dir === 'desc' ? sql`${sortCol} desc nulls last` : sql`${sortCol} asc nulls last`, dir(customers.id))
+    .limit(q.pageSize)
+    .offset(q.page * q.pageSize);
+  // A page past the end has no row to carry the total: count on its own then.
+  const total =
+    rows[0]?.total ??
+    (q.page > 0
+      ? ((
+          await db
+            .select({ n: sql<number>`count(*)::int` })
+            .from(customers)
+            .where(where)
+        )[0]?.n ?? 0)
+      : 0);
   return {
-    items: rows.map(({ archivedAt, createdAt, ...r }) => ({ ...r, archived: archivedAt !== null, createdAt: createdAt.toISOString() })),
-    total: count?.n ?? 0,
+    items: rows.map(({ archivedAt, createdAt, total: _total, ...r }) => ({ ...r, archived: archivedAt !== null, createdAt: createdAt.toISOString() })),
+    total,
     page: q.page,
     pageSize: q.pageSize,
   };

@@ -1,4 +1,4 @@
-import { and, asc, eq, gt, ilike, inArray, isNull, lt, ne, or, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, ilike, inArray, isNull, lt, or, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { z } from 'zod';
 import {
@@ -18,75 +18,159 @@ import { scheduleAssignmentNotice } from '../booking/assignment-notice';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { deleteTimeOff, insertTimeOff } from '../booking/time-off';
-import { toView, visitRows } from '../booking/visit-views';
+import { toView, visitRows, type VisitRow } from '../booking/visit-views';
 import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
 
 const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
 
+// The queue of work to confirm shows the soonest requests; `unassignedTotal` says how many wait in all.
+export const QUEUE_SHOWN = 50;
+
+// Waiting for the office: a request to confirm, or open work that no technician holds.
+const queuedVisit = sql`(${visits.status} = 'requested' or (${visits.technicianId} is null and ${visits.status} in ('scheduled', 'on_the_way', 'on_site', 'no_show')))`;
+
+type BoardVisitRow = {
+  part: 'board' | 'queue';
+  id: string;
+  customer_id: string;
+  customer_name: string;
+  customer_email: string | null;
+  property_id: string;
+  street: string;
+  unit: string | null;
+  city: string;
+  state: string;
+  zip: string;
+  area: string;
+  kind: VisitRow['kind'];
+  reason: VisitRow['reason'];
+  status: VisitRow['status'];
+  window_start: string | Date;
+  window_end: string | Date;
+  starts_at: string | Date;
+  ends_at: string | Date;
+  technician_id: string | null;
+  technician_name: string | null;
+  plan_name: string | null;
+  priority: boolean;
+  symptoms: string[];
+  notes: string;
+  sequence: number;
+};
+
+interface BoardTechnicianJson {
+  id: string;
+  name: string;
+  skills: string[];
+  truck: string;
+  timeOff: { id: string; startsAt: string; endsAt: string; reason: string }[];
+}
+
+/**
+ * The board in a fixed number of statements whatever the calendar holds: the company's settings,
+ * then the technicians (with their time off), the areas and the size of the queue in one, then the
+ * visits on screen together with the soonest of the queue in one more.
+ */
 export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const start = DateTime.fromISO(q.from, { zone: c.timeZone }).startOf('day');
   const end = start.plus({ days: q.days });
-  const techRows = await db
-    .select({ id: technicians.id, name: users.name, skills: technicians.skills, truck: technicians.truck })
-    .from(technicians)
-    .innerJoin(users, eq(users.id, technicians.userId))
-    .where(and(eq(technicians.active, true), q.technicianId ? eq(technicians.id, q.technicianId) : undefined))
-    .orderBy(asc(users.name));
-  const off = techRows.length
-    ? await db
-        .select()
-        .from(technicianTimeOff)
-        .where(
-          and(
-            inArray(
-              technicianTimeOff.technicianId,
-              techRows.map((t) => t.id),
-            ),
-            lt(technicianTimeOff.startsAt, end.toJSDate()),
-            gt(technicianTimeOff.endsAt, start.toJSDate()),
-          ),
-        )
-    : [];
-  const rows = await visitRows(
-    db,
-    and(
-      lt(visits.windowStart, end.toJSDate()),
-      gt(visits.windowEnd, start.toJSDate()),
-      q.kind ? eq(visits.kind, q.kind) : undefined,
-      q.area ? eq(properties.area, q.area) : undefined,
-    ),
-  );
+  const from = start.toJSDate();
+  const to = end.toJSDate();
+  const filters = and(q.kind ? eq(visits.kind, q.kind) : undefined, q.area ? eq(properties.area, q.area) : undefined) ?? sql`true`;
+  const [head] = (
+    await db.execute<{ technicians: BoardTechnicianJson[]; areas: string[] | null; unassigned_total: number }>(sql`
+      select
+        (select coalesce(json_agg(json_build_object(
+            'id', t.id, 'name', u.name, 'skills', t.skills, 'truck', t.truck,
+            'timeOff', (select coalesce(json_agg(json_build_object('id', o.id, 'startsAt', o.starts_at, 'endsAt', o.ends_at, 'reason', o.reason) order by o.starts_at, o.id), '[]')
+                        from technician_time_off o where o.technician_id = t.id and o.starts_at < ${to} and o.ends_at > ${from})
+          ) order by u.name, t.id), '[]')
+         from technicians t join users u on u.id = t.user_id
+         where t.active ${q.technicianId ? sql`and t.id = ${q.technicianId}` : sql``}) as technicians,
+        -- Distinct areas by walking the area index, one probe per area rather than a scan of every property.
+        (with recursive a(area) as (
+           (select area from properties order by area limit 1)
+           union all
+           select (select p.area from properties p where p.area > a.area order by p.area limit 1) from a where a.area is not null)
+         select array_agg(area order by area) from a where area is not null and area <> '') as areas,
+        (select count(*)::int from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId} where ${queuedVisit} and ${filters}) as unassigned_total`)
+  ).rows;
+  const { rows } = await db.execute<BoardVisitRow>(sql`
+    select b.part, v.id, v.customer_id, c.name as customer_name, c.email as customer_email, v.property_id,
+      p.street, p.unit, p.city, p.state, p.zip, p.area, v.kind, v.reason, v.status,
+      v.window_start, v.window_end, v.starts_at, v.ends_at, v.technician_id, u.name as technician_name,
+      (select pl.name from agreements a
+        join plan_versions pv on pv.id = a.plan_version_id
+        join plans pl on pl.id = pv.plan_id
+        where a.property_id = v.property_id and a.status in ('active', 'renewal_due')
+        order by a.ends_on desc limit 1) as plan_name,
+      v.priority, v.symptoms, v.notes, v.sequence
+    from (
+      (select 'board' as part, ${visits.id} as id from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
+        where tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')
+          and not ${queuedVisit} and ${filters} ${q.technicianId ? sql`and ${visits.technicianId} = ${q.technicianId}` : sql``})
+      union all
+      -- The queue ignores the technician filter (unassigned work belongs to no one yet) and spans
+      -- every date: a request for next month waits for the office as much as one for today.
+      (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
+        where ${queuedVisit} and ${filters}
+        order by ${visits.windowStart}, ${visits.id} limit ${QUEUE_SHOWN})
+    ) b
+    join visits v on v.id = b.id
+    join customers c on c.id = v.customer_id
+    join properties p on p.id = v.property_id
+    left join technicians t on t.id = v.technician_id
+    left join users u on u.id = t.user_id
+    order by b.part, v.window_start, v.id`);
   const now = deps.clock();
   const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
-  const views = rows.map((r) => toView(r, ctx));
-  const queued = (v: VisitView) => v.status === 'requested' || (v.technicianId === null && v.status !== 'canceled' && v.status !== 'done');
-  // The queue of work to confirm spans every date, not just the days on screen: a request for next
-  // month waits for the office as much as one for today.
-  const queueRows = await visitRows(
-    db,
-    and(
-      or(eq(visits.status, 'requested'), and(isNull(visits.technicianId), inArray(visits.status, ['scheduled', 'on_the_way', 'on_site', 'no_show']))),
-      q.kind ? eq(visits.kind, q.kind) : undefined,
-      q.area ? eq(properties.area, q.area) : undefined,
-    ),
-  );
-  const areaRows = await db.selectDistinct({ area: properties.area }).from(properties).where(ne(properties.area, '')).orderBy(asc(properties.area));
+  const onBoard: VisitView[] = [];
+  const queue: VisitView[] = [];
+  for (const r of rows) (r.part === 'queue' ? queue : onBoard).push(toView(boardVisitRow(r), ctx));
+  const iso = (t: string) => new Date(t).toISOString();
   return {
     from: start.toISODate()!,
     days: q.days,
     timeZone: c.timeZone,
-    technicians: techRows.map((t) => ({
-      ...t,
-      timeOff: off.filter((o) => o.technicianId === t.id).map((o) => ({ id: o.id, startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), reason: o.reason })),
-    })),
-    // The queue ignores the technician filter: unassigned work belongs to no one yet.
-    unassigned: queueRows.map((r) => toView(r, ctx)),
-    visits: views.filter((v) => !queued(v) && (!q.technicianId || v.technicianId === q.technicianId)),
-    areas: areaRows.map((a) => a.area),
+    technicians: (head?.technicians ?? []).map((t) => ({ ...t, timeOff: t.timeOff.map((o) => ({ ...o, startsAt: iso(o.startsAt), endsAt: iso(o.endsAt) })) })),
+    unassigned: queue,
+    unassignedTotal: head?.unassigned_total ?? queue.length,
+    visits: onBoard,
+    areas: head?.areas ?? [],
+  };
+}
+
+function boardVisitRow(r: BoardVisitRow): VisitRow {
+  return {
+    id: r.id,
+    customerId: r.customer_id,
+    customerName: r.customer_name,
+    customerEmail: r.customer_email,
+    propertyId: r.property_id,
+    street: r.street,
+    unit: r.unit,
+    city: r.city,
+    state: r.state,
+    zip: r.zip,
+    area: r.area,
+    kind: r.kind,
+    reason: r.reason,
+    status: r.status,
+    windowStart: new Date(r.window_start),
+    windowEnd: new Date(r.window_end),
+    startsAt: new Date(r.starts_at),
+    endsAt: new Date(r.ends_at),
+    technicianId: r.technician_id,
+    technicianName: r.technician_name,
+    planName: r.plan_name,
+    priority: r.priority,
+    symptoms: r.symptoms,
+    notes: r.notes,
+    sequence: r.sequence,
   };
 }
 

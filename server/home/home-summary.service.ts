@@ -5,6 +5,7 @@ import { coverageFor } from '../../shared/coverage';
 import { daysBetween, renewalWindowOpens } from '../../shared/renewals';
 import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/schemas/home';
 import type { SessionUser } from '../../shared/schemas/session';
+import { dateTimeFormat } from '../../shared/date-formats';
 import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
 import { agreements, invoices, plans, planVersions, properties, quotes } from '../db/schema';
 import { companyRow, localDate } from '../company/company';
@@ -26,7 +27,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
   const now = deps.clock();
   const co = await companyRow(db);
   const today = localDate(now, co.timeZone);
-  const [rows, visitRows, [owed], [waiting]] = await Promise.all([
+  const [rows, visitRows, [due]] = await Promise.all([
     db
       .select({ a: agreements, planName: plans.name, planActive: plans.active, label: properties.label, v: planVersions })
       .from(agreements)
@@ -36,18 +37,18 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
       .where(and(eq(agreements.customerId, customerId), inArray(agreements.status, [...SHOWN])))
       .orderBy(agreements.endsOn),
     customerVisits(db, customerId, now),
+    // What is owed and the quotes waiting, in one statement.
     db
-      .select({
-        count: sql<number>`count(*)::int`,
-        balance: sql<string>`coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0)::bigint`,
-        firstId: sql<string | null>`(array_agg(${invoices.id} order by ${invoices.issuedAt}))[1]`,
-      })
-      .from(invoices)
-      .where(and(eq(invoices.customerId, customerId), eq(invoices.status, 'open'))),
-    db
-      .select({ count: sql<number>`count(*)::int`, firstId: sql<string | null>`(array_agg(${quotes.id} order by ${quotes.sentAt}))[1]` })
-      .from(quotes)
-      .where(and(eq(quotes.customerId, customerId), eq(quotes.status, 'sent'))),
+      .execute<{ owed_count: number; owed_balance: string; owed_first: string | null; quotes_count: number; quotes_first: string | null }>(
+        sql`
+      select o.count as owed_count, o.balance as owed_balance, o.first_id as owed_first, q.count as quotes_count, q.first_id as quotes_first
+      from (select count(*)::int as count, coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0)::bigint as balance,
+                   (array_agg(${invoices.id} order by ${invoices.issuedAt}))[1] as first_id
+            from ${invoices} where ${invoices.customerId} = ${customerId} and ${invoices.status} = 'open') o,
+           (select count(*)::int as count, (array_agg(${quotes.id} order by ${quotes.sentAt}))[1] as first_id
+            from ${quotes} where ${quotes.customerId} = ${customerId} and ${quotes.status} = 'sent') q`,
+      )
+      .then((r) => r.rows),
   ]);
   const terms = await termsOf(
     db,
@@ -109,7 +110,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
         reasonLabel: next.reasonLabel,
         status: next.status as VisitStatus,
         statusLabel: next.statusLabel,
-        dayLabel: new Intl.DateTimeFormat('en-US', { weekday: 'short', day: 'numeric', month: 'short', timeZone: co.timeZone }).format(new Date(next.windowStart)),
+        dayLabel: dateTimeFormat('en-US', { weekday: 'short', day: 'numeric', month: 'short', timeZone: co.timeZone }).format(new Date(next.windowStart)),
         arrivalLabel: visitTimeLabels({ windowStart: next.windowStart, windowEnd: next.windowEnd, startsAt: next.startsAt, endsAt: next.startsAt }, co.timeZone).arrival,
         technicianName: next.technicianName,
       }
@@ -117,7 +118,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
   return {
     agreements: list,
     nextVisit,
-    invoicesDue: { count: Number(owed?.count ?? 0), balanceCents: Number(owed?.balance ?? 0), firstId: owed?.firstId ?? null },
-    quotesWaiting: { count: Number(waiting?.count ?? 0), firstId: waiting?.firstId ?? null },
+    invoicesDue: { count: Number(due?.owed_count ?? 0), balanceCents: Number(due?.owed_balance ?? 0), firstId: due?.owed_first ?? null },
+    quotesWaiting: { count: Number(due?.quotes_count ?? 0), firstId: due?.quotes_first ?? null },
   };
 }

@@ -25,6 +25,11 @@ export function oncePerRequest<T>(key: string, load: () => Promise<T>): Promise<
   return p;
 }
 
+/** Whether the request has already loaded (or is loading) `key`. */
+export function loadedForRequest(key: string): boolean {
+  return memo.getStore()?.has(key) ?? false;
+}
+
 /** Replaces what the request has memoised under `key` (after the request itself changed it). */
 export function rememberForRequest<T>(key: string, value: T): void {
   memo.getStore()?.set(key, Promise.resolve(value));

@@ -168,7 +168,10 @@ export interface BoardResponse {
   timeZone: string;
   technicians: BoardTechnician[];
   visits: VisitView[];
+  /** The soonest of the requests waiting for the office (at most 50), soonest first. */
   unassigned: VisitView[];
+  /** How many wait in all, shown or not. */
+  unassignedTotal: number;
   areas: string[];
 }
 

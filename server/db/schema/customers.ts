@@ -53,6 +53,8 @@ export const properties = pgTable(
   },
   (t) => [
     index('properties_customer_idx').on(t.customerId),
+    // The board's area filter lists the distinct areas by walking this index.
+    index('properties_area_idx').on(t.area),
     check('properties_state', sql`${t.state} ~ '^[A-Z]{2}$'`),
     check('properties_zip', sql`${t.zip} ~ '^[0-9]{5}(-[0-9]{4})?$'`),
     check('properties_elevation', sql`${t.elevationFt} is null or ${t.elevationFt} between -1000 and 15000`),

@@ -56,6 +56,12 @@ export const visits = pgTable(
     index('visits_property_idx').on(t.propertyId),
     index('visits_customer_idx').on(t.customerId),
     index('visits_starts_idx').on(t.startsAt),
+    // The dispatch board: visits whose arrival window overlaps the days on screen.
+    index('visits_window_idx').using('gist', sql`tstzrange(${t.windowStart}, ${t.windowEnd}, '[)')`),
+    // The queue of work waiting for the office, soonest first.
+    index('visits_queue_idx')
+      .on(t.windowStart)
+      .where(sql`status = 'requested' or (technician_id is null and status in ('scheduled', 'on_the_way', 'on_site', 'no_show'))`),
     // The reminder audience: a household's and a home's last done visit, and tune-ups booked in a season.
     index('visits_customer_done_idx')
       .on(t.customerId, t.startsAt, t.kind)

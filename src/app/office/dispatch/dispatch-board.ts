@@ -71,6 +71,18 @@ export class DispatchBoard {
   private readonly keepUrl = this.url.keep(() => ({ from: this.from(), days: this.days() }));
   protected readonly busy = signal(false);
 
+  /** "12", or "50 of 180" when the server sends only the soonest of the queue. */
+  protected readonly queueCount = computed(() => {
+    const d = this.data();
+    const shown = d?.unassigned.length ?? 0;
+    const total = d?.unassignedTotal ?? shown;
+    return total > shown ? `${shown} of ${total}` : String(shown);
+  });
+  protected readonly queueCapped = computed(() => {
+    const d = this.data();
+    return !!d && d.unassignedTotal > d.unassigned.length;
+  });
+
   protected readonly title = computed(() => {
     if (this.days() === 1) return dayLabel(this.from(), this.session.timeZone(), { weekday: true });
     return `Week of ${dayLabel(weekStart(this.from()), this.session.timeZone())}`;

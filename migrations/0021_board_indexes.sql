@@ -1,0 +1,3 @@
+CREATE INDEX "properties_area_idx" ON "properties" USING btree ("area");--> statement-breakpoint
+CREATE INDEX "visits_window_idx" ON "visits" USING gist (tstzrange("window_start", "window_end", '[)'));--> statement-breakpoint
+CREATE INDEX "visits_queue_idx" ON "visits" USING btree ("window_start") WHERE status = 'requested' or (technician_id is null and status in ('scheduled', 'on_the_way', 'on_site', 'no_show'));
