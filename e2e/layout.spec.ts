@@ -97,10 +97,12 @@ test("the technician's header is one row at 390 px with a labelled menu", async 
   for (const name of ['Today', 'My week']) await expect(page.getByRole('menuitem', { name })).toBeVisible();
 });
 
-test('the office header fits one row at 1280 and 1366 px, with the account name whole', async ({ browser }) => {
+test('the office header fits one row at 1280 and 1366 px, with its links in the bar and the account name whole', async ({ browser }) => {
   for (const width of [1280, 1366]) {
     const page = await staff(browser, DEMO.office, { width, height: 768 });
     await expectOneRow(page);
+    // A laptop keeps the links themselves; the labelled Menu is for narrower screens.
+    for (const name of ['Households', 'Dispatch', 'Reminders']) await expect(page.getByRole('banner').getByRole('link', { name })).toBeVisible();
     await page.getByRole('banner').screenshot({ path: `${SHOTS}/office-header-${width}.png` });
     await page.context().close();
   }
