@@ -25,7 +25,8 @@ import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
 
 const SKILL_LABELS: Record<string, string> = { geothermal: 'geothermal', gas_furnace: 'gas furnace', ductless: 'ductless', refrigerant: 'refrigerant' };
 
-// The queue of work to confirm shows the soonest requests; `unassignedTotal` says how many wait in all.
+// The queue of work to confirm shows the soonest requests and those of the days on screen;
+// `unassignedTotal` says how many wait in all.
 export const QUEUE_SHOWN = 50;
 
 // Waiting for the office: a request to confirm, or open work that no technician holds.
@@ -114,11 +115,18 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
         where tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')
           and not ${queuedVisit} and ${filters} ${q.technicianId ? sql`and ${visits.technicianId} = ${q.technicianId}` : sql``})
       union all
-      -- The queue ignores the technician filter (unassigned work belongs to no one yet) and spans
-      -- every date: a request for next month waits for the office as much as one for today.
-      (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
-        where ${queuedVisit} and ${filters}
-        order by ${visits.windowStart}, ${visits.id} limit ${QUEUE_SHOWN})
+      (
+        -- The queue ignores the technician filter (unassigned work belongs to no one yet) and spans
+        -- every date: a request for next month waits for the office as much as one for today. It
+        -- shows the soonest, and always the waiting work of the days on screen.
+        (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
+          where ${queuedVisit} and ${filters}
+          order by ${visits.windowStart}, ${visits.id} limit ${QUEUE_SHOWN})
+        union
+        (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
+          where tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')
+            and ${queuedVisit} and ${filters})
+      )
     ) b
     join visits v on v.id = b.id
     join customers c on c.id = v.customer_id
