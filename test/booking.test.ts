@@ -199,6 +199,48 @@ describe('booking a visit', () => {
     expect(booked).toHaveLength(1);
   }, 60_000);
 
+  it('never offers a window that a finished visit still holds: what the route offers, the booking takes', async () => {
+    const { db } = ctx.database;
+    await at('2031-07-15T12:00:00Z'); // Tue 15 Jul 2031, 7 am CDT
+    const day = local('2031-07-15T00:00');
+    // As in the race above: only geothermal technicians, and one of them free from 10 to 12 alone.
+    const geo = await db
+      .select({ id: t.technicians.id })
+      .from(t.technicians)
+      .where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
+    for (const [i, g] of geo.entries()) {
+      const spans =
+        i === 0
+          ? [
+              [day, day.set({ hour: 10 })],
+              [day.set({ hour: 12 }), day.plus({ days: 1 })],
+            ]
+          : [[day, day.plus({ days: 1 })]];
+      for (const [a, b] of spans) await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason: 'finished visit test' });
+    }
+    const [first, second] = [await household({ geo: true }), await household({ geo: true })];
+    const onDay = async (propertyId: string) =>
+      ((await office.agent.get('/api/booking/windows').query({ propertyId, reason: 'no_cooling', from: '2031-07-15', days: 1 }).expect(200)).body.windows as { start: string }[]).filter((w) =>
+        w.start.startsWith('2031-07-15'),
+      );
+    const [slot] = await onDay(first.propertyId);
+    expect(slot).toBeDefined();
+    const booked = await office.agent
+      .post('/api/booking/visits')
+      .set(XSRF, office.csrf)
+      .send({ propertyId: first.propertyId, reason: 'no_cooling', windowStart: slot!.start, noEmergency: true })
+      .expect(201);
+    // The technician finishes it; the visit keeps its booked time, and the database's overlap rule still counts it.
+    await db.update(t.visits).set({ status: 'done' }).where(eq(t.visits.id, booked.body.visit.id));
+    expect(await onDay(second.propertyId)).toEqual([]);
+    const again = await office.agent
+      .post('/api/booking/visits')
+      .set(XSRF, office.csrf)
+      .send({ propertyId: second.propertyId, reason: 'no_cooling', windowStart: slot!.start, noEmergency: true })
+      .expect(409);
+    expect(again.body.error.code).toBe('window_full');
+  });
+
   it('confirms by e-mail with an invitation; reschedule raises SEQUENCE, cancel sends METHOD:CANCEL, across the spring clock change', async () => {
     const h = await household({ homeowner: true });
     now = new Date('2031-03-03T15:00:00Z'); // Mon 3 Mar 2031, 9 am CST

@@ -9,10 +9,7 @@ export function visitKindFor(reason: VisitReason): VisitKind {
   return reason === 'tune_up' ? 'tune_up' : 'service_call';
 }
 
-/** Homeowners and the office book at most this far ahead (months). */
-export const BOOKING_HORIZON_MONTHS = 12;
-/** The dispatch board and schedules show at most this far from today, either way (years). */
-export const BOARD_RANGE_YEARS = 2;
+export { BOARD_RANGE_YEARS, BOOKING_HORIZON_MONTHS } from '../horizons';
 
 const uuid = z.uuid({ message: 'must be an id' });
 const localDate = isoDate('must be a date "YYYY-MM-DD"');
@@ -198,5 +195,9 @@ type Status = (typeof VISIT_STATUSES)[number];
 /** Which status may follow which: the one table, in shared/visits.ts. */
 export const STATUS_TRANSITIONS = VISIT_TRANSITIONS;
 
-/** Statuses that still hold the technician's time. */
-export const ACTIVE_STATUSES: readonly Status[] = ['requested', 'scheduled', 'on_the_way', 'on_site'];
+/**
+ * Statuses that hold the technician's booked time: every one but canceled and no-show, exactly as
+ * the database's overlap rule counts them (migration 0002). A finished visit keeps its time, so
+ * the engine never offers a window that the insert would then refuse.
+ */
+export const ACTIVE_STATUSES: readonly Status[] = ['requested', 'scheduled', 'on_the_way', 'on_site', 'done'];
