@@ -1,6 +1,6 @@
 import { expect, test, type Browser } from '@playwright/test';
 import ICAL from 'ical.js';
-import { signInStaff } from './support/sign-in';
+import { SIGN_IN_SUBJECT, signInStaff } from './support/sign-in';
 import { DEMO, MAILBOX_URL, latestMail } from './support/env';
 
 // Sam Oduya's household holds a plan agreement in the demo data, so the portal offers priority windows.
@@ -29,7 +29,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   const asked = Date.now();
   await page.getByLabel('E-mail address').fill(HOMEOWNER);
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const signInMail = await latestMail(HOMEOWNER, { after: asked - 1000 });
+  const signInMail = await latestMail(HOMEOWNER, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
   const link = signInMail.links.find((l) => l.includes('/sign-in/confirm?token='));
   await page.goto(link!);
   await page.getByRole('button', { name: 'Sign me in' }).click();

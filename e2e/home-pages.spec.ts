@@ -1,5 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { DEMO, latestMail } from './support/env';
+import { SIGN_IN_SUBJECT } from './support/sign-in';
 
 // Each role's first screen answers its first question with numbers that match the API. The run
 // saves screenshots under e2e/screenshots/ (git-ignored) for review.
@@ -19,7 +20,7 @@ test('the homeowner home shows the plan, the tune-ups left, the next visit and w
   const asked = Date.now();
   await page.getByLabel('E-mail address').fill(DEMO.homeownerA);
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 });
+  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
   await page.goto(mail.links.find((l) => l.includes('/sign-in/confirm?token='))!);
   await page.getByRole('button', { name: 'Sign me in' }).click();
   await expect(page).toHaveURL(/\/portal$/);
