@@ -3,7 +3,7 @@ import { EQUIPMENT_KINDS } from '../equipment';
 import { HOUSEHOLD_FACTORS } from '../reminders';
 import { REMINDER_SEND_STATUSES, type ReminderSendStatus } from '../reminder-sends';
 import { REMINDER_KINDS } from '../seasonal-reminders';
-import { BOOKING_HORIZON_MONTHS } from './booking';
+import { CAMPAIGN_SCHEDULE_MONTHS } from '../horizons';
 import { isIsoDate, withinDateBounds } from './dates';
 
 export const CAMPAIGN_STATUSES = ['draft', 'scheduled', 'sending', 'paused', 'cancelled', 'done'] as const;
@@ -43,7 +43,7 @@ export const audienceQuerySchema = z.object({
 export const reminderPreviewQuerySchema = audienceQuerySchema;
 
 /** A campaign is scheduled at most this far ahead (months): the booking horizon, so its reminders can be booked. */
-export const CAMPAIGN_SCHEDULE_MONTHS = BOOKING_HORIZON_MONTHS;
+export { CAMPAIGN_SCHEDULE_MONTHS };
 
 const LOCAL_TIME = /^(\d{4}-\d{2}-\d{2})T(\d{2}):(\d{2})$/;
 /** "2026-09-01T08:00": a real calendar day, hours 00–23, minutes 00–59. */

@@ -3,7 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { Component, signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { Session } from '../core/session';
-import { DateTimePipe, DayPipe, addDays, dateTimeLabel, dayLabel, shortDayLabel, timeLabel, weekStart, zonedInstant } from './dates';
+import { DateTimePipe, DayPipe, addDays, dateTimeInputValue, dateTimeLabel, dayLabel, shortDayLabel, timeLabel, weekStart, zonedInstant } from './dates';
 import { PhoneLink } from './phone-link';
 
 describe('dates on screen', () => {
@@ -68,6 +68,19 @@ describe('calendar days and wall-clock instants', () => {
     expect(weekStart('2026-12-06')).toBe('2026-11-30'); // a Sunday
     expect(weekStart('2027-01-01')).toBe('2026-12-28'); // over New Year
     expect(weekStart('2026-03-08')).toBe('2026-03-02'); // the Sunday the clocks change
+  });
+
+  it('writes the bounds of a date-time field in the company zone, months ahead with the day clamped', () => {
+    // 3 Dec 2026 16:05 UTC is 10:05 in Chicago (CST, UTC−6) and 5:05 the next morning in Auckland (NZDT, UTC+13).
+    const at = new Date('2026-12-03T16:05:00Z');
+    expect(dateTimeInputValue(at, 'America/Chicago')).toBe('2026-12-03T10:05');
+    expect(dateTimeInputValue(at, 'Pacific/Auckland')).toBe('2026-12-04T05:05');
+    expect(dateTimeInputValue(at, 'America/Chicago', { months: 12 })).toBe('2027-12-03T10:05');
+    // 31 Jan plus one month is the last day of February, 29 in a leap year.
+    expect(dateTimeInputValue(new Date('2028-01-31T18:00:00Z'), 'America/Chicago', { months: 1 })).toBe('2028-02-29T12:00');
+    expect(dateTimeInputValue(new Date('2026-11-30T18:00:00Z'), 'America/Chicago', { months: 3 })).toBe('2027-02-28T12:00');
+    // Midnight is 00, not 24.
+    expect(dateTimeInputValue(new Date('2026-12-03T06:00:00Z'), 'America/Chicago')).toBe('2026-12-03T00:00');
   });
 
   it('finds the instant a clock in the company zone reads a time, on either side of a daylight-saving change', () => {

@@ -48,6 +48,25 @@ export function localDay(value: string | Date, timeZone: string): string {
   return `${parts['year']}-${parts['month']}-${parts['day']}`;
 }
 
+/**
+ * An instant as a `datetime-local` value ("2027-03-14T09:05") in `timeZone`, `months` later when
+ * asked (the day kept, or the month's last day when it is shorter): the bounds of a date-time field.
+ */
+export function dateTimeInputValue(at: Date, timeZone: string, { months = 0 } = {}): string {
+  const parts = Object.fromEntries(
+    new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
+      .formatToParts(at)
+      .map((p) => [p.type, p.value]),
+  );
+  const total = Number(parts['year']) * 12 + Number(parts['month']) - 1 + months;
+  const year = Math.floor(total / 12);
+  const month = (total % 12) + 1;
+  const lastDay = new Date(Date.UTC(year, month, 0)).getUTCDate();
+  const day = Math.min(Number(parts['day']), lastDay);
+  const two = (n: number) => String(n).padStart(2, '0');
+  return `${String(year).padStart(4, '0')}-${two(month)}-${two(day)}T${parts['hour']}:${parts['minute']}`;
+}
+
 // Impure so that a page drawn before the session answered redraws in the company's zone; each
 // keeps its last answer, so a check costs a comparison.
 @Pipe({ name: 'swDay', pure: false })

@@ -17,11 +17,13 @@ import { Subscription, debounceTime, of, switchMap, takeWhile, timer } from 'rxj
 import { EQUIPMENT_KINDS, EQUIPMENT_KIND_LABELS } from '../../../../shared/equipment';
 import { REMINDER_KINDS, REMINDER_LABELS, type ReminderKind } from '../../../../shared/reminder-labels';
 import type { AudienceFilter, MessagePreview, ReminderCampaignSummary, ReminderPreview } from '../../../../shared/schemas/campaigns';
+import { CAMPAIGN_SCHEDULE_MONTHS } from '../../../../shared/horizons';
 import { toApiError } from '../../core/api-errors';
+import { Session } from '../../core/session';
 import { errorMessage, localCopy } from '../../core/resource-state';
 import { CampaignRecipients } from './campaign-recipients';
 import { RemindersApi } from './reminders-api';
-import { DateTimePipe } from '../../ui/dates';
+import { DateTimePipe, dateTimeInputValue } from '../../ui/dates';
 
 const KIND_TEXT: Record<ReminderKind, { icon: string; text: string }> = {
   cooling_tune_up: { icon: 'snowflake', text: 'Plan members whose spring cooling tune-up is not booked yet.' },
@@ -61,6 +63,7 @@ export class Reminders {
   private readonly router = inject(Router);
   private readonly destroyRef = inject(DestroyRef);
   private readonly sanitizer = inject(DomSanitizer);
+  private readonly session = inject(Session);
   private polling: Subscription | null = null;
 
   protected readonly kinds = REMINDER_KINDS.map((kind) => ({ kind, label: REMINDER_LABELS[kind], ...KIND_TEXT[kind] }));
@@ -98,6 +101,13 @@ export class Reminders {
   private readonly previewError = errorMessage(this.previewRead);
   private readonly sendError = signal<string | null>(null);
   protected readonly sendAtError = signal<string | null>(null);
+  // The field offers what the server takes: from now to CAMPAIGN_SCHEDULE_MONTHS ahead, in the company's zone.
+  protected readonly sendAtBounds = computed(() => {
+    if (!this.confirming()) return { min: '', max: '' };
+    const now = new Date();
+    const zone = this.session.timeZone();
+    return { min: dateTimeInputValue(now, zone), max: dateTimeInputValue(now, zone, { months: CAMPAIGN_SCHEDULE_MONTHS }) };
+  });
   protected readonly error = computed(() => this.sendError() ?? this.previewError());
   protected readonly campaign = signal<ReminderCampaignSummary | null>(null);
   protected readonly history = computed<ReminderCampaignSummary[]>(() => (this.historyRead.hasValue() ? this.historyRead.value().campaigns : []));
