@@ -140,7 +140,7 @@ export class OfficeHome {
   });
 
   protected readonly tiles: AreaTile[] = [
-    { title: 'Customers', text: 'Households, their properties, equipment and history.', icon: 'people', path: '/office/customers' },
+    { title: 'Households', text: 'Each household with its homes, equipment, plan and history.', icon: 'people', path: '/office/customers' },
     { title: 'Dispatch', text: 'The day and week board: assign visits to technicians.', icon: 'dispatch', path: '/office/dispatch' },
     { title: 'Renewals', text: 'Agreements coming due, past due and lapsed.', icon: 'shield', path: '/office/renewals' },
     { title: 'Quotes', text: 'Open quotes with their age and value, and how many are approved.', icon: 'wrench', path: '/office/quotes' },
