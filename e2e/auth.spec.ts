@@ -11,7 +11,7 @@ test('a homeowner asks for a link, opens it from the e-mail, confirms and lands 
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
   await expect(page.getByRole('heading', { name: 'Check your e-mail' })).toBeVisible();
 
-  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
+  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000, subject: SIGN_IN_SUBJECT });
   const link = mail.links.find((l) => l.includes('/sign-in/confirm?token='));
   expect(link, 'the e-mail carries a confirm link').toBeTruthy();
 

@@ -29,7 +29,7 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   const asked = Date.now();
   await page.getByLabel('E-mail address').fill(HOMEOWNER);
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const signInMail = await latestMail(HOMEOWNER, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
+  const signInMail = await latestMail(HOMEOWNER, { after: asked - 1000, subject: SIGN_IN_SUBJECT });
   const link = signInMail.links.find((l) => l.includes('/sign-in/confirm?token='));
   await page.goto(link!);
   await page.getByRole('button', { name: 'Sign me in' }).click();

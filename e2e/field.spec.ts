@@ -90,7 +90,7 @@ test('a technician records a tune-up with an out-of-range reading and completes 
   const asked = Date.now();
   await hp.getByLabel('E-mail address').fill(DEMO.homeownerA);
   await hp.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const signIn = await latestMail(DEMO.homeownerA, { after: asked - 500 , subject: SIGN_IN_SUBJECT });
+  const signIn = await latestMail(DEMO.homeownerA, { after: asked - 500, subject: SIGN_IN_SUBJECT });
   const link = signIn.links.find((l) => l.includes('/sign-in/confirm?token='));
   await hp.goto(link!);
   await hp.getByRole('button', { name: 'Sign me in' }).click();

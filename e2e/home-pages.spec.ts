@@ -20,7 +20,7 @@ test('the homeowner home shows the plan, the tune-ups left, the next visit and w
   const asked = Date.now();
   await page.getByLabel('E-mail address').fill(DEMO.homeownerA);
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
+  const mail = await latestMail(DEMO.homeownerA, { after: asked - 1000, subject: SIGN_IN_SUBJECT });
   await page.goto(mail.links.find((l) => l.includes('/sign-in/confirm?token='))!);
   await page.getByRole('button', { name: 'Sign me in' }).click();
   await expect(page).toHaveURL(/\/portal$/);

@@ -27,7 +27,7 @@ async function homeowner(browser: Browser, email: string, viewport = PHONE): Pro
   const asked = Date.now();
   await page.getByLabel('E-mail address').fill(email);
   await page.getByRole('button', { name: 'Send me a sign-in link' }).click();
-  const mail = await latestMail(email, { after: asked - 1000 , subject: SIGN_IN_SUBJECT });
+  const mail = await latestMail(email, { after: asked - 1000, subject: SIGN_IN_SUBJECT });
   await page.goto(mail.links.find((l) => l.includes('/sign-in/confirm?token='))!);
   await page.getByRole('button', { name: 'Sign me in' }).click();
   await expect(page).toHaveURL(/\/portal/);

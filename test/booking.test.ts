@@ -201,8 +201,8 @@ describe('booking a visit', () => {
 
   it('never offers a window that a finished visit still holds: what the route offers, the booking takes', async () => {
     const { db } = ctx.database;
-    await at('2031-07-15T12:00:00Z'); // Tue 15 Jul 2031, 7 am CDT
-    const day = local('2031-07-15T00:00');
+    await at('2032-09-14T12:00:00Z'); // Tue 14 Sep 2032, 7 am CDT (a day no other test books)
+    const day = local('2032-09-14T00:00');
     // As in the race above: only geothermal technicians, and one of them free from 10 to 12 alone.
     const geo = await db
       .select({ id: t.technicians.id })
@@ -216,13 +216,14 @@ describe('booking a visit', () => {
               [day.set({ hour: 12 }), day.plus({ days: 1 })],
             ]
           : [[day, day.plus({ days: 1 })]];
-      for (const [a, b] of spans) await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason: 'finished visit test' });
+      for (const [a, b] of spans)
+        await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason: 'finished visit test' });
     }
     const [first, second] = [await household({ geo: true }), await household({ geo: true })];
     const onDay = async (propertyId: string) =>
-      ((await office.agent.get('/api/booking/windows').query({ propertyId, reason: 'no_cooling', from: '2031-07-15', days: 1 }).expect(200)).body.windows as { start: string }[]).filter((w) =>
-        w.start.startsWith('2031-07-15'),
-      );
+      (
+        (await office.agent.get('/api/booking/windows').query({ propertyId, reason: 'no_cooling', from: '2032-09-14', days: 1 }).expect(200)).body.windows as { start: string }[]
+      ).filter((w) => w.start.startsWith('2032-09-14'));
     const [slot] = await onDay(first.propertyId);
     expect(slot).toBeDefined();
     const booked = await office.agent
