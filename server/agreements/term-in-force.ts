@@ -23,8 +23,7 @@ type AgreementDates = Pick<typeof agreements.$inferSelect, 'id' | 'startsOn' | '
  * agreement set up before terms were kept) counts as a term too. A pending agreement has none.
  */
 export async function termsOf(db: Db | Tx, rows: readonly AgreementDates[]): Promise<Map<string, AgreementTerm[]>> {
-  const out = new Map<string, AgreementTerm[]>(rows.map((r) => [r.id, []]));
-  if (!rows.length) return out;
+  if (!rows.length) return new Map();
   const found = await db
     .select({ t: agreementTerms, number: invoices.number, paidCents: invoices.paidCents })
     .from(agreementTerms)
@@ -36,21 +35,45 @@ export async function termsOf(db: Db | Tx, rows: readonly AgreementDates[]): Pro
       ),
     )
     .orderBy(asc(agreementTerms.startsOn));
-  for (const { t, number, paidCents } of found) {
-    out.get(t.agreementId)!.push({
+  return assembleTerms(
+    rows,
+    found.map(({ t, number, paidCents }) => ({ ...t, number, paidCents })),
+  );
+}
+
+/** A term row with its invoice's number and what was paid on it, as a statement reads them. */
+export interface TermRow {
+  id: string;
+  agreementId: string;
+  startsOn: string;
+  endsOn: string;
+  planVersionId: string;
+  priceCents: number;
+  invoiceId: string | null;
+  number: number | string | null;
+  paidCents: number | null;
+  source: string;
+}
+
+/** Every term of each agreement from its term rows (oldest first), as termsOf explains. */
+export function assembleTerms(rows: readonly AgreementDates[], found: readonly TermRow[]): Map<string, AgreementTerm[]> {
+  const out = new Map<string, AgreementTerm[]>(rows.map((r) => [r.id, []]));
+  for (const t of found) {
+    out.get(t.agreementId)?.push({
       id: t.id,
       startsOn: t.startsOn,
       endsOn: t.endsOn,
       planVersionId: t.planVersionId,
       priceCents: t.priceCents,
       invoiceId: t.invoiceId,
-      invoiceNumber: number === null ? null : String(number),
-      paidCents,
+      invoiceNumber: t.number === null ? null : String(t.number),
+      paidCents: t.paidCents,
       source: t.source,
     });
   }
   for (const r of rows) {
     const list = out.get(r.id)!;
+    list.sort((a, b) => (a.startsOn < b.startsOn ? -1 : a.startsOn > b.startsOn ? 1 : 0));
     if (r.status === 'pending' || list.some((t) => t.startsOn === r.startsOn)) continue;
     list.push({
       id: null,

@@ -13,7 +13,7 @@ import { oncePerRequest, rememberForRequest } from '../runtime/request-memo';
 export type CompanyRow = typeof company.$inferSelect;
 export type CompanyUpdate = Partial<Omit<CompanyRow, 'id' | 'updatedAt'>>;
 
-const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
+export const notSetUp = () => new AppError(503, 'not_set_up', 'The company settings have not been set up yet.');
 
 // One read of the company row per request, so services can ask for it wherever they need it.
 const readRow = (db: Db | Tx): Promise<CompanyRow | undefined> =>

@@ -36,26 +36,39 @@ export async function createCustomer(deps: Pick<AppDeps, 'database'>, input: Cus
     .catch(duplicateEmail);
 }
 
+/** A visit of the household as a statement reads it (snake_case columns, instants as Date or text). */
+export type CustomerVisitRow = {
+  id: string;
+  property_id: string;
+  kind: string;
+  reason: string;
+  status: string;
+  starts_at: Date | string;
+  window_start: Date | string;
+  window_end: Date | string;
+  completed_at: Date | string | null;
+  findings: string;
+  recommendations: string;
+  technician_name: string | null;
+};
+
+/** The columns of CustomerVisitRow and where they come from, for every statement that lists a household's visits. */
+export const CUSTOMER_VISIT_COLUMNS = sql.raw(
+  'v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name',
+);
+export const CUSTOMER_VISIT_FROM = sql.raw('visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id');
+
 /** A household's visits, newest first, with labels and the technician's name. */
 export async function customerVisits(db: Db, customerId: string, now: Date): Promise<CustomerDetail['visits']> {
-  const visitRows = await db.execute<{
-    id: string;
-    property_id: string;
-    kind: string;
-    reason: string;
-    status: string;
-    starts_at: Date;
-    window_start: Date;
-    window_end: Date;
-    completed_at: Date | null;
-    findings: string;
-    recommendations: string;
-    technician_name: string | null;
-  }>(sql`
-      select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
-      from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
+  const visitRows = await db.execute<CustomerVisitRow>(sql`
+      select ${CUSTOMER_VISIT_COLUMNS}
+      from ${CUSTOMER_VISIT_FROM}
       where v.customer_id = ${customerId} order by v.window_start desc, v.id`);
-  return visitRows.rows.map((v) => ({
+  return visitRows.rows.map((v) => customerVisit(v, now));
+}
+
+export function customerVisit(v: CustomerVisitRow, now: Date): CustomerDetail['visits'][number] {
+  return {
     id: v.id,
     propertyId: v.property_id,
     kind: v.kind,
@@ -70,7 +83,7 @@ export async function customerVisits(db: Db, customerId: string, now: Date): Pro
     findings: v.findings,
     recommendations: v.recommendations,
     technicianName: v.technician_name,
-  }));
+  };
 }
 
 /** Everything about one household, with one timeline across its records (newest first). */

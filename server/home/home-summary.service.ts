@@ -1,4 +1,4 @@
-import { and, eq, inArray, sql } from 'drizzle-orm';
+import { inArray, sql } from 'drizzle-orm';
 import { coveredThroughLabel, lastPaidTerm, termOn } from '../../shared/agreement-terms';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { coverageFor } from '../../shared/coverage';
@@ -7,14 +7,30 @@ import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/sch
 import type { SessionUser } from '../../shared/schemas/session';
 import { dateTimeFormat } from '../../shared/date-formats';
 import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
-import { agreements, invoices, plans, planVersions, properties, quotes } from '../db/schema';
-import { companyRow, localDate } from '../company/company';
-import { termsOf } from '../agreements/term-in-force';
-import { customerVisits } from '../customers/customer-page';
+import { agreements, agreementTerms, company, invoices, plans, planVersions, properties, quotes } from '../db/schema';
+import { localDate, notSetUp } from '../company/company';
+import { assembleTerms, type TermRow } from '../agreements/term-in-force';
+import { CUSTOMER_VISIT_COLUMNS, CUSTOMER_VISIT_FROM, customerVisit, type CustomerVisitRow } from '../customers/customer-page';
 import type { AppDeps } from '../deps';
 import { notFound } from '../http/errors';
 
 const SHOWN = ['active', 'renewal_due', 'past_due', 'lapsed'] as const;
+
+type SummaryAgreement = Pick<typeof agreements.$inferSelect, 'id' | 'propertyId' | 'status' | 'startsOn' | 'endsOn' | 'planVersionId' | 'priceCents'> &
+  Pick<typeof planVersions.$inferSelect, 'coolingVisits' | 'heatingVisits' | 'repairDiscountBps' | 'diagnosticFeeWaived' | 'priorityWindowHours'> & {
+    planName: string;
+    planActive: boolean;
+    label: string;
+    terms: TermRow[];
+  };
+
+type SummaryRow = {
+  company: { timeZone: string; coolingStartMonth: number; heatingStartMonth: number; diagnosticFeeCents: number } | null;
+  agreements: SummaryAgreement[];
+  visits: CustomerVisitRow[];
+  owed: { count: number; balance: number | string; firstId: string | null };
+  waiting: { count: number; firstId: string | null };
+};
 
 /**
  * What the homeowner asks first: the plan and when it ends, the tune-ups left this season, the
@@ -25,37 +41,52 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
   const customerId = user.customerId;
   if (!customerId) throw notFound('Your household');
   const now = deps.clock();
-  const co = await companyRow(db);
+  // The company's settings, the agreements with their plans and terms, the visits, what is owed
+  // and the quotes waiting: one statement, one round trip, whatever the household holds.
+  const {
+    rows: [r],
+  } = await db.execute<SummaryRow>(sql`
+    select
+      (select json_build_object('timeZone', ${company.timeZone}, 'coolingStartMonth', ${company.coolingStartMonth},
+                                'heatingStartMonth', ${company.heatingStartMonth}, 'diagnosticFeeCents', ${company.diagnosticFeeCents})
+         from ${company} where ${company.id} = 1) as company,
+      (select coalesce(json_agg(json_build_object(
+          'id', ${agreements.id}, 'propertyId', ${agreements.propertyId}, 'status', ${agreements.status},
+          'startsOn', ${agreements.startsOn}, 'endsOn', ${agreements.endsOn}, 'planVersionId', ${agreements.planVersionId}, 'priceCents', ${agreements.priceCents},
+          'planName', ${plans.name}, 'planActive', ${plans.active}, 'label', ${properties.label},
+          'coolingVisits', ${planVersions.coolingVisits}, 'heatingVisits', ${planVersions.heatingVisits}, 'repairDiscountBps', ${planVersions.repairDiscountBps},
+          'diagnosticFeeWaived', ${planVersions.diagnosticFeeWaived}, 'priorityWindowHours', ${planVersions.priorityWindowHours},
+          'terms', (select coalesce(json_agg(json_build_object(
+              'id', ${agreementTerms.id}, 'agreementId', ${agreementTerms.agreementId}, 'startsOn', ${agreementTerms.startsOn}, 'endsOn', ${agreementTerms.endsOn},
+              'planVersionId', ${agreementTerms.planVersionId}, 'priceCents', ${agreementTerms.priceCents}, 'invoiceId', ${agreementTerms.invoiceId},
+              'number', ${invoices.number}, 'paidCents', ${invoices.paidCents}, 'source', ${agreementTerms.source}) order by ${agreementTerms.startsOn}), '[]')
+            from ${agreementTerms} left join ${invoices} on ${invoices.id} = ${agreementTerms.invoiceId}
+            where ${agreementTerms.agreementId} = ${agreements.id})
+        ) order by ${agreements.endsOn}), '[]')
+       from ${agreements}
+       join ${planVersions} on ${planVersions.id} = ${agreements.planVersionId}
+       join ${plans} on ${plans.id} = ${planVersions.planId}
+       join ${properties} on ${properties.id} = ${agreements.propertyId}
+       where ${agreements.customerId} = ${customerId} and ${inArray(agreements.status, [...SHOWN])}) as agreements,
+      (select coalesce(json_agg(x order by x.window_start desc, x.id), '[]')
+         from (select ${CUSTOMER_VISIT_COLUMNS} from ${CUSTOMER_VISIT_FROM} where v.customer_id = ${customerId}) x) as visits,
+      (select json_build_object('count', count(*), 'balance', coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0),
+                                'firstId', (array_agg(${invoices.id} order by ${invoices.issuedAt}))[1])
+         from ${invoices} where ${invoices.customerId} = ${customerId} and ${invoices.status} = 'open') as owed,
+      (select json_build_object('count', count(*), 'firstId', (array_agg(${quotes.id} order by ${quotes.sentAt}))[1])
+         from ${quotes} where ${quotes.customerId} = ${customerId} and ${quotes.status} = 'sent') as waiting`);
+  if (!r?.company) throw notSetUp();
+  const co = r.company;
   const today = localDate(now, co.timeZone);
-  const [rows, visitRows, [due]] = await Promise.all([
-    db
-      .select({ a: agreements, planName: plans.name, planActive: plans.active, label: properties.label, v: planVersions })
-      .from(agreements)
-      .innerJoin(planVersions, eq(planVersions.id, agreements.planVersionId))
-      .innerJoin(plans, eq(plans.id, planVersions.planId))
-      .innerJoin(properties, eq(properties.id, agreements.propertyId))
-      .where(and(eq(agreements.customerId, customerId), inArray(agreements.status, [...SHOWN])))
-      .orderBy(agreements.endsOn),
-    customerVisits(db, customerId, now),
-    // What is owed and the quotes waiting, in one statement.
-    db
-      .execute<{ owed_count: number; owed_balance: string; owed_first: string | null; quotes_count: number; quotes_first: string | null }>(
-        sql`
-      select o.count as owed_count, o.balance as owed_balance, o.first_id as owed_first, q.count as quotes_count, q.first_id as quotes_first
-      from (select count(*)::int as count, coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0)::bigint as balance,
-                   (array_agg(${invoices.id} order by ${invoices.issuedAt}))[1] as first_id
-            from ${invoices} where ${invoices.customerId} = ${customerId} and ${invoices.status} = 'open') o,
-           (select count(*)::int as count, (array_agg(${quotes.id} order by ${quotes.sentAt}))[1] as first_id
-            from ${quotes} where ${quotes.customerId} = ${customerId} and ${quotes.status} = 'sent') q`,
-      )
-      .then((r) => r.rows),
-  ]);
-  const terms = await termsOf(
-    db,
-    rows.map((r) => r.a),
+  const rows = r.agreements;
+  const visitRows = r.visits.map((v) => customerVisit(v, now));
+  const terms = assembleTerms(
+    rows,
+    rows.flatMap((a) => a.terms),
   );
   const seasons = { coolingStartMonth: co.coolingStartMonth, heatingStartMonth: co.heatingStartMonth };
-  const list: HomeAgreement[] = rows.map(({ a, planName, planActive, label, v }) => {
+  const list: HomeAgreement[] = rows.map((a) => {
+    const { planName, planActive, label } = a;
     const all = terms.get(a.id) ?? [];
     const term = termOn(all, today) ?? all[all.length - 1] ?? { startsOn: a.startsOn, endsOn: a.endsOn };
     const cov = coverageFor({
@@ -65,11 +96,11 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
         endsOn: term.endsOn,
         plan: {
           name: planName,
-          coolingVisits: v.coolingVisits,
-          heatingVisits: v.heatingVisits,
-          repairDiscountBps: v.repairDiscountBps,
-          diagnosticFeeWaived: v.diagnosticFeeWaived,
-          priorityWindowHours: v.priorityWindowHours,
+          coolingVisits: a.coolingVisits,
+          heatingVisits: a.heatingVisits,
+          repairDiscountBps: a.repairDiscountBps,
+          diagnosticFeeWaived: a.diagnosticFeeWaived,
+          priorityWindowHours: a.priorityWindowHours,
         },
       },
       visit: { id: 'today', kind: 'tune_up', status: 'requested', onDate: today },
@@ -118,7 +149,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
   return {
     agreements: list,
     nextVisit,
-    invoicesDue: { count: Number(due?.owed_count ?? 0), balanceCents: Number(due?.owed_balance ?? 0), firstId: due?.owed_first ?? null },
-    quotesWaiting: { count: Number(due?.quotes_count ?? 0), firstId: due?.quotes_first ?? null },
+    invoicesDue: { count: Number(r.owed.count), balanceCents: Number(r.owed.balance), firstId: r.owed.firstId },
+    quotesWaiting: { count: Number(r.waiting.count), firstId: r.waiting.firstId },
   };
 }
