@@ -100,40 +100,38 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
          select array_agg(area order by area) from a where area is not null and area <> '') as areas,
         (select count(*)::int from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId} where ${queuedVisit} and ${filters}) as unassigned_total`)
   ).rows;
+  // Each branch reads its visits with their addresses where it finds them (no second pass over
+  // visits by id); the outer query adds the household, the technician and the plan.
+  const picked = sql`${visits.id}, ${visits.customerId}, ${visits.propertyId}, ${visits.kind}, ${visits.reason}, ${visits.status},
+    ${visits.windowStart}, ${visits.windowEnd}, ${visits.startsAt}, ${visits.endsAt}, ${visits.technicianId}, ${visits.priority},
+    ${visits.symptoms}, ${visits.notes}, ${visits.sequence},
+    ${properties.street}, ${properties.unit}, ${properties.city}, ${properties.state}, ${properties.zip}, ${properties.area}
+    from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}`;
+  const onScreen = sql`tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')`;
   const { rows } = await db.execute<BoardVisitRow>(sql`
-    select b.part, v.id, v.customer_id, c.name as customer_name, c.email as customer_email, v.property_id,
-      p.street, p.unit, p.city, p.state, p.zip, p.area, v.kind, v.reason, v.status,
-      v.window_start, v.window_end, v.starts_at, v.ends_at, v.technician_id, u.name as technician_name,
+    select b.*, c.name as customer_name, c.email as customer_email, u.name as technician_name,
       (select pl.name from agreements a
         join plan_versions pv on pv.id = a.plan_version_id
         join plans pl on pl.id = pv.plan_id
-        where a.property_id = v.property_id and a.status in ('active', 'renewal_due')
-        order by a.ends_on desc limit 1) as plan_name,
-      v.priority, v.symptoms, v.notes, v.sequence
+        where a.property_id = b.property_id and a.status in ('active', 'renewal_due')
+        order by a.ends_on desc limit 1) as plan_name
     from (
-      (select 'board' as part, ${visits.id} as id from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
-        where tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')
-          and not ${queuedVisit} and ${filters} ${q.technicianId ? sql`and ${visits.technicianId} = ${q.technicianId}` : sql``})
+      (select 'board' as part, ${picked}
+        where ${onScreen} and not ${queuedVisit} and ${filters} ${q.technicianId ? sql`and ${visits.technicianId} = ${q.technicianId}` : sql``})
       union all
       (
         -- The queue ignores the technician filter (unassigned work belongs to no one yet) and spans
         -- every date: a request for next month waits for the office as much as one for today. It
         -- shows the soonest, and always the waiting work of the days on screen.
-        (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
-          where ${queuedVisit} and ${filters}
-          order by ${visits.windowStart}, ${visits.id} limit ${QUEUE_SHOWN})
+        (select 'queue' as part, ${picked} where ${queuedVisit} and ${filters} order by ${visits.windowStart}, ${visits.id} limit ${QUEUE_SHOWN})
         union
-        (select 'queue', ${visits.id} from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}
-          where tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')
-            and ${queuedVisit} and ${filters})
+        (select 'queue', ${picked} where ${onScreen} and ${queuedVisit} and ${filters})
       )
     ) b
-    join visits v on v.id = b.id
-    join customers c on c.id = v.customer_id
-    join properties p on p.id = v.property_id
-    left join technicians t on t.id = v.technician_id
+    join customers c on c.id = b.customer_id
+    left join technicians t on t.id = b.technician_id
     left join users u on u.id = t.user_id
-    order by b.part, v.window_start, v.id`);
+    order by b.part, b.window_start, b.id`);
   const now = deps.clock();
   const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
   const onBoard: VisitView[] = [];
