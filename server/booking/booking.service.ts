@@ -20,11 +20,11 @@ import { recordBooked } from '../visits/visit-status';
 import { linkFilesToVisit } from '../uploads/uploads.service';
 import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
-import { agreements, customers, equipment, plans, planVersions, properties, visits } from '../db/schema';
+import { agreements, customers, equipment, plans, planVersions, properties, scheduleVersion, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { assertOwnedRow } from '../http/ownership';
 import { sendVisitMail } from './booking.mail';
-import { COMPANY_COUNTRY, companyRow } from '../company/company';
+import { COMPANY_COUNTRY } from '../company/company';
 import { cachedWindows, minuteAfter, scheduleSnapshot, within } from './schedule-cache';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
 import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
@@ -58,6 +58,8 @@ export function isOverlap(err: unknown): boolean {
 
 interface PropertyContext extends BookingProperty {
   requiredSkill: string | undefined;
+  /** The schedule's version, read in the same statement before any schedule data. */
+  scheduleVersion: number;
 }
 
 async function memberPlans(db: Db | Tx, propertyIds: string[]) {
@@ -124,6 +126,7 @@ export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId
         where ${agreements.propertyId} = ${properties.id} and ${agreements.status} in ('active', 'renewal_due')
         order by ${agreements.endsOn} desc, ${agreements.id} desc limit 1)`,
       kinds: sql<string[]>`array(select ${equipment.kind} from ${equipment} where ${equipment.propertyId} = ${properties.id} and ${equipment.archivedAt} is null)`,
+      scheduleVersion: sql<number>`coalesce((select ${scheduleVersion.version} from ${scheduleVersion} limit 1), 0)`,
     })
     .from(properties)
     .innerJoin(customers, eq(customers.id, properties.customerId))
@@ -134,6 +137,7 @@ export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId
   return {
     ...propertyView(p, plan),
     requiredSkill: requiredSkillFor(p.kinds, reason),
+    scheduleVersion: Number(p.scheduleVersion),
   };
 }
 
@@ -244,18 +248,19 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
       call = await engineInput(db, deps.clock(), property, q.reason, q.from, q.days, q.visitId);
       windows = availableWindows(call.input);
     } else {
-      // New bookings: from this process's snapshot of the schedule while its version is current.
+      // New bookings: from this process's snapshot of the schedule while its version (read with the
+      // property) is current.
       const now = minuteAfter(deps.clock());
-      const tz = (await companyRow(db)).timeZone;
-      const nowLocal = DateTime.fromJSDate(now, { zone: tz });
-      const asked = q.from ? DateTime.fromISO(q.from, { zone: tz }) : nowLocal;
-      const first = (asked < nowLocal.startOf('day') ? nowLocal : asked).startOf('day').minus({ days: 1 }).toJSDate();
-      const snap = await scheduleSnapshot(db, {
-        from: first,
-        to: DateTime.fromJSDate(first)
-          .plus({ days: q.days + 3 })
-          .toJSDate(),
-      });
+      const snap = await scheduleSnapshot(
+        db,
+        (tz) => {
+          const nowLocal = DateTime.fromJSDate(now, { zone: tz });
+          const asked = q.from ? DateTime.fromISO(q.from, { zone: tz }) : nowLocal;
+          const first = (asked < nowLocal.startOf('day') ? nowLocal : asked).startOf('day').minus({ days: 1 });
+          return { from: first.toJSDate(), to: first.plus({ days: q.days + 3 }).toJSDate() };
+        },
+        property.scheduleVersion,
+      );
       call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async (range) => within(snap.data, range) });
       windows = cachedWindows(snap, call.input);
     }

@@ -32,16 +32,25 @@ export async function currentScheduleVersion(db: Db): Promise<number> {
   return row?.version ?? 0;
 }
 
-/** The company's settings and the schedule over [from, to], from this process's snapshot when current. */
-export async function scheduleSnapshot(db: Db, range: { from: Date; to: Date }): Promise<Snapshot> {
-  const version = await currentScheduleVersion(db);
+/**
+ * The company's settings and the schedule over the range `rangeIn` gives in the company's zone,
+ * from this process's snapshot while `version` is current. The caller reads the version before
+ * anything else (a write committed in between only makes the data newer than its label, and the
+ * next read sees the bumped version and loads again). A company change bumps the version too, so a
+ * current snapshot's settings are current.
+ */
+export async function scheduleSnapshot(db: Db, rangeIn: (timeZone: string) => { from: Date; to: Date }, version: number): Promise<Snapshot> {
   const have = snapshots.get(db);
-  if (have && have.version === version && have.from <= range.from.getTime() && have.to >= range.to.getTime()) return have;
-  // The version is read before the data: a write committed in between only makes the data newer
-  // than its label, and the next read sees the bumped version and loads again.
+  const current = have && have.version === version ? have : undefined;
+  if (current) {
+    const range = rangeIn(current.company.timeZone);
+    if (current.from <= range.from.getTime() && current.to >= range.to.getTime()) return current;
+  }
+  const company = current?.company ?? (await loadCompanySettings(db));
+  const range = rangeIn(company.timeZone);
   const from = range.from;
   const to = new Date(Math.max(range.to.getTime(), from.getTime() + SNAPSHOT_DAYS * 86_400_000));
-  const [company, data] = await Promise.all([loadCompanySettings(db), loadSchedulingData(db, { from, to })]);
+  const data = await loadSchedulingData(db, { from, to });
   const snap: Snapshot = { version, from: from.getTime(), to: to.getTime(), company, data, windows: new Map() };
   snapshots.set(db, snap);
   return snap;
