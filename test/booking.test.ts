@@ -54,6 +54,26 @@ async function household(opts: { geo?: boolean; planCode?: string; homeowner?: b
 
 const local = (iso: string) => DateTime.fromISO(iso, { zone: TZ });
 
+/** Time off for every geothermal technician all `day`, but 10 to 12 for the first: one slot for geothermal work. */
+async function leaveOneGeothermalSlot(day: DateTime, reason: string): Promise<void> {
+  const db: Db = ctx.database.db;
+  const geo = await db
+    .select({ id: t.technicians.id })
+    .from(t.technicians)
+    .where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
+  expect(geo.length).toBeGreaterThan(0);
+  for (const [i, g] of geo.entries()) {
+    const spans =
+      i === 0
+        ? [
+            [day, day.set({ hour: 10 })],
+            [day.set({ hour: 12 }), day.plus({ days: 1 })],
+          ]
+        : [[day, day.plus({ days: 1 })]];
+    for (const [a, b] of spans) await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason });
+  }
+}
+
 /** The calendar attachment of the newest mail to an address, parsed with ical.js and its own VTIMEZONE. */
 async function invitationFor(to: string, subject: string) {
   const found = catcher.store.list({ to }).find((m) => m.subject === subject);
@@ -146,21 +166,7 @@ describe('booking a visit', () => {
     await at('2031-06-09T15:00:00Z'); // Mon 9 Jun 2031, 10 am CDT
     const day = local('2031-06-10T00:00'); // Tue 10 Jun 2031
     // Only technicians with the geothermal skill can take these calls; leave one of them a single 10–12 slot.
-    const geo = await db
-      .select({ id: t.technicians.id })
-      .from(t.technicians)
-      .where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
-    expect(geo.length).toBeGreaterThan(0);
-    for (const [i, g] of geo.entries()) {
-      const spans =
-        i === 0
-          ? [
-              [day, day.set({ hour: 10 })],
-              [day.set({ hour: 12 }), day.plus({ days: 1 })],
-            ]
-          : [[day, day.plus({ days: 1 })]];
-      for (const [a, b] of spans) await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason: 'race test' });
-    }
+    await leaveOneGeothermalSlot(day, 'race test');
     const homes = [];
     for (let i = 0; i < 50; i++) homes.push(await household({ geo: true }));
 
@@ -204,21 +210,7 @@ describe('booking a visit', () => {
     await at('2032-09-14T12:00:00Z'); // Tue 14 Sep 2032, 7 am CDT (a day no other test books)
     const day = local('2032-09-14T00:00');
     // As in the race above: only geothermal technicians, and one of them free from 10 to 12 alone.
-    const geo = await db
-      .select({ id: t.technicians.id })
-      .from(t.technicians)
-      .where(and(eq(t.technicians.active, true), sql`'geothermal' = any(${t.technicians.skills})`));
-    for (const [i, g] of geo.entries()) {
-      const spans =
-        i === 0
-          ? [
-              [day, day.set({ hour: 10 })],
-              [day.set({ hour: 12 }), day.plus({ days: 1 })],
-            ]
-          : [[day, day.plus({ days: 1 })]];
-      for (const [a, b] of spans)
-        await db.insert(t.technicianTimeOff).values({ technicianId: g.id, startsAt: a!.toJSDate(), endsAt: b!.toJSDate(), reason: 'finished visit test' });
-    }
+    await leaveOneGeothermalSlot(day, 'finished visit test');
     const [first, second] = [await household({ geo: true }), await household({ geo: true })];
     const onDay = async (propertyId: string) =>
       (

@@ -32,8 +32,8 @@ const EXPECTED: Record<string, number> = {
   'booking-visit': 16,
   // The session, then the page with its total in one statement.
   'customer-search': 2,
-  // Two of these read the terms of all the household's agreements at once.
-  'customer-page': 13,
+  // The session, then the household with everything it holds and the company's zone in one statement.
+  'customer-page': 2,
   // The session, the company with its booking settings, the technicians with time off beside the
   // areas and the queue's size, then the visits on screen with the soonest of the queue.
   'dispatch-day': 4,

@@ -109,7 +109,11 @@ export async function agreementTermViewsFor(db: Db | Tx, rows: readonly Agreemen
   const named = versionIds.length
     ? await db.select({ id: planVersions.id, name: plans.name }).from(planVersions).innerJoin(plans, eq(plans.id, planVersions.planId)).where(inArray(planVersions.id, versionIds))
     : [];
-  const names = new Map(named.map((r) => [r.id, r.name]));
+  return termViewsFrom(byAgreement, new Map(named.map((r) => [r.id, r.name])), todayIso);
+}
+
+/** Each agreement's terms as the office and the portal show them, given the plans' names by version. */
+export function termViewsFrom(byAgreement: Map<string, AgreementTerm[]>, names: Map<string, string>, todayIso: string): Map<string, AgreementTermView[]> {
   const out = new Map<string, AgreementTermView[]>();
   for (const [id, terms] of byAgreement) {
     const inForce = termOn(terms, todayIso);

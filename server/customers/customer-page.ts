@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, isNull, ne, sql } from 'drizzle-orm';
+import { and, eq, ne, sql } from 'drizzle-orm';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
 import { formatUsd } from '../../shared/money';
@@ -6,12 +6,13 @@ import type { Contact, ContactInput, CustomerCreate, CustomerDetail, CustomerUpd
 import type { SessionUser } from '../../shared/schemas/session';
 import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, windowMissed } from '../../shared/visits';
 import type { Db } from '../db/client';
-import { agreements, contacts, customerNotes, customers, files, invoices, planVersions, plans, properties, users } from '../db/schema';
-import { equipmentForProperties } from '../equipment/equipment.service';
+import { agreements, contacts, customerNotes, customers, equipment, files, invoices, properties } from '../db/schema';
+import { fromJsonRow } from '../db/json-rows';
+import { toEquipment } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
-import { companyToday } from '../company/company';
-import { agreementTermViewsFor } from '../agreements/term-in-force';
+import { localDate, notSetUp } from '../company/company';
+import { assembleTerms, termViewsFrom, type TermRow } from '../agreements/term-in-force';
 import { coveredThroughLabel, lastPaidTerm, termRangeLabel } from '../../shared/agreement-terms';
 import type { AppDeps } from '../deps';
 import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
@@ -86,51 +87,77 @@ export function customerVisit(v: CustomerVisitRow, now: Date): CustomerDetail['v
   };
 }
 
+type JsonRow = Record<string, unknown>;
+type CustomerPageRow = {
+  customer: JsonRow | null;
+  time_zone: string | null;
+  contacts: JsonRow[];
+  properties: JsonRow[];
+  equipment: JsonRow[];
+  agreements: { a: JsonRow; plan: string }[];
+  terms: TermRow[];
+  plan_names: Record<string, string>;
+  visits: CustomerVisitRow[];
+  invoices: JsonRow[];
+  notes: { n: JsonRow; author: string | null }[];
+  files: JsonRow[];
+};
+
 /** Everything about one household, with one timeline across its records (newest first). */
 export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
   const { db } = deps.database;
   const now = deps.clock();
-  const c = await customerRow(db, id);
-  const today = await companyToday(deps);
-  const [contactRows, propertyRows, agreementRows, visitRows, invoiceRows, noteRows, fileRows] = await Promise.all([
-    db.select().from(contacts).where(eq(contacts.customerId, id)).orderBy(desc(contacts.isPrimary), asc(contacts.createdAt)),
-    db
-      .select()
-      .from(properties)
-      .where(and(eq(properties.customerId, id), opts.includeArchived ? undefined : isNull(properties.archivedAt)))
-      .orderBy(asc(properties.createdAt), asc(properties.id)),
-    db
-      .select({ a: agreements, plan: plans.name })
-      .from(agreements)
-      .innerJoin(planVersions, eq(agreements.planVersionId, planVersions.id))
-      .innerJoin(plans, eq(planVersions.planId, plans.id))
-      .where(eq(agreements.customerId, id))
-      .orderBy(desc(agreements.startsOn)),
-    customerVisits(db, id, now),
-    db.select().from(invoices).where(eq(invoices.customerId, id)).orderBy(desc(invoices.createdAt)),
-    db
-      .select({ n: customerNotes, author: users.name })
-      .from(customerNotes)
-      .leftJoin(users, eq(customerNotes.authorUserId, users.id))
-      .where(eq(customerNotes.customerId, id))
-      .orderBy(desc(customerNotes.createdAt)),
-    db
-      .select()
-      .from(files)
-      .where(and(eq(files.customerId, id), isNull(files.archivedAt)))
-      .orderBy(desc(files.createdAt)),
-  ]);
-  const equipmentRows = await equipmentForProperties(
-    db,
-    propertyRows.map((p) => p.id),
-    today,
-    opts.includeArchived,
-  );
+  // The household with everything it holds, and the company's zone for "today": one statement.
+  const archived = (t: string) => (opts.includeArchived ? sql`true` : sql.raw(`${t}.archived_at is null`));
+  const {
+    rows: [r],
+  } = await db.execute<CustomerPageRow>(sql`
+    select
+      (select to_json(c) from customers c where c.id = ${id}) as customer,
+      (select time_zone from company where id = 1) as time_zone,
+      (select coalesce(json_agg(x order by x.is_primary desc, x.created_at), '[]') from contacts x where x.customer_id = ${id}) as contacts,
+      (select coalesce(json_agg(x order by x.created_at, x.id), '[]') from properties x where x.customer_id = ${id} and ${archived('x')}) as properties,
+      (select coalesce(json_agg(e order by e.created_at, e.id), '[]')
+         from equipment e join properties x on x.id = e.property_id
+         where x.customer_id = ${id} and ${archived('x')} and ${archived('e')}) as equipment,
+      (select coalesce(json_agg(json_build_object('a', to_json(a), 'plan', pl.name) order by a.starts_on desc), '[]')
+         from agreements a join plan_versions pv on pv.id = a.plan_version_id join plans pl on pl.id = pv.plan_id
+         where a.customer_id = ${id}) as agreements,
+      (select coalesce(json_agg(json_build_object(
+          'id', t.id, 'agreementId', t.agreement_id, 'startsOn', t.starts_on, 'endsOn', t.ends_on, 'planVersionId', t.plan_version_id,
+          'priceCents', t.price_cents, 'invoiceId', t.invoice_id, 'number', i.number, 'paidCents', i.paid_cents, 'source', t.source) order by t.starts_on), '[]')
+         from agreement_terms t join agreements a on a.id = t.agreement_id left join invoices i on i.id = t.invoice_id
+         where a.customer_id = ${id}) as terms,
+      (select coalesce(json_object_agg(pv.id, pl.name), '{}')
+         from plan_versions pv join plans pl on pl.id = pv.plan_id
+         where pv.id in (select t.plan_version_id from agreement_terms t join agreements a on a.id = t.agreement_id where a.customer_id = ${id}
+                         union select a.plan_version_id from agreements a where a.customer_id = ${id})) as plan_names,
+      (select coalesce(json_agg(x order by x.window_start desc, x.id), '[]')
+         from (select ${CUSTOMER_VISIT_COLUMNS} from ${CUSTOMER_VISIT_FROM} where v.customer_id = ${id}) x) as visits,
+      (select coalesce(json_agg(x order by x.created_at desc), '[]') from invoices x where x.customer_id = ${id}) as invoices,
+      (select coalesce(json_agg(json_build_object('n', to_json(n), 'author', u.name) order by n.created_at desc), '[]')
+         from customer_notes n left join users u on u.id = n.author_user_id where n.customer_id = ${id}) as notes,
+      (select coalesce(json_agg(x order by x.created_at desc), '[]') from files x where x.customer_id = ${id} and x.archived_at is null) as files`);
+  if (!r?.customer) throw notFound('That household');
+  if (r.time_zone === null) throw notSetUp();
+  const c = fromJsonRow(customers, r.customer);
+  const today = localDate(now, r.time_zone);
+  const contactRows = r.contacts.map((x) => fromJsonRow(contacts, x));
+  const propertyRows = r.properties.map((x) => fromJsonRow(properties, x));
+  const agreementRows = r.agreements.map((x) => ({ a: fromJsonRow(agreements, x.a), plan: x.plan }));
+  const visitRows = r.visits.map((v) => customerVisit(v, now));
+  const invoiceRows = r.invoices.map((x) => fromJsonRow(invoices, x));
+  const noteRows = r.notes.map((x) => ({ n: fromJsonRow(customerNotes, x.n), author: x.author }));
+  const fileRows = r.files.map((x) => fromJsonRow(files, x));
+  const equipmentRows = r.equipment.map((x) => toEquipment(fromJsonRow(equipment, x), today));
   const propertyOut = propertyRows.map((p) => ({ ...toProperty(p), equipment: equipmentRows.filter((e) => e.propertyId === p.id) }));
   const visitOut = visitRows;
-  const termViews = await agreementTermViewsFor(
-    db,
-    agreementRows.map(({ a }) => a),
+  const termViews = termViewsFrom(
+    assembleTerms(
+      agreementRows.map(({ a }) => a),
+      r.terms,
+    ),
+    new Map(Object.entries(r.plan_names)),
     today,
   );
   const agreementOut = agreementRows.map(({ a, plan }) => ({

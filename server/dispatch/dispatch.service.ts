@@ -32,22 +32,16 @@ export const QUEUE_SHOWN = 50;
 // Waiting for the office: a request to confirm, or open work that no technician holds.
 const queuedVisit = sql`(${visits.status} = 'requested' or (${visits.technicianId} is null and ${visits.status} in ('scheduled', 'on_the_way', 'on_site', 'no_show')))`;
 
-type BoardVisitRow = {
+// The columns named alike in the statement and in VisitRow, and the snake_case rest.
+type BoardVisitRow = Pick<
+  VisitRow,
+  'id' | 'street' | 'unit' | 'city' | 'state' | 'zip' | 'area' | 'kind' | 'reason' | 'status' | 'priority' | 'symptoms' | 'notes' | 'sequence'
+> & {
   part: 'board' | 'queue';
-  id: string;
   customer_id: string;
   customer_name: string;
   customer_email: string | null;
   property_id: string;
-  street: string;
-  unit: string | null;
-  city: string;
-  state: string;
-  zip: string;
-  area: string;
-  kind: VisitRow['kind'];
-  reason: VisitRow['reason'];
-  status: VisitRow['status'];
   window_start: string | Date;
   window_end: string | Date;
   starts_at: string | Date;
@@ -55,10 +49,6 @@ type BoardVisitRow = {
   technician_id: string | null;
   technician_name: string | null;
   plan_name: string | null;
-  priority: boolean;
-  symptoms: string[];
-  notes: string;
-  sequence: number;
 };
 
 interface BoardTechnicianJson {
