@@ -55,18 +55,16 @@ describe('rows read back from JSON', () => {
           totalCents: 10_825,
           issuedAt: new Date('2031-06-02T15:04:05.678Z'),
         });
-        await tx
-          .insert(t.files)
-          .values({
-            storageKey: `json-rows-${Date.now()}`,
-            customerId: c!.id,
-            category: 'nameplate',
-            contentType: 'image/jpeg',
-            originalName: 'plate.jpg',
-            sizeBytes: 1234,
-            width: 640,
-            height: 480,
-          });
+        await tx.insert(t.files).values({
+          storageKey: `json-rows-${Date.now()}`,
+          customerId: c!.id,
+          category: 'nameplate',
+          contentType: 'image/jpeg',
+          originalName: 'plate.jpg',
+          sizeBytes: 1234,
+          width: 640,
+          height: 480,
+        });
         await tx.insert(t.customerNotes).values({ customerId: c!.id, body: 'Side gate sticks.', audience: 'technician' });
         const id = (table as unknown as { id: Parameters<typeof asc>[0] }).id;
         const direct = await tx.select().from(table).orderBy(asc(id)).limit(25);
