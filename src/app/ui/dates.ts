@@ -42,10 +42,7 @@ export function dateTimeLabel(value: string | Date, timeZone: string): string {
 /** The ISO date of the day an instant falls on in `timeZone` (for grouping, never for display). */
 export function localDay(value: string | Date, timeZone: string): string {
   const at = typeof value === 'string' ? new Date(value) : value;
-  const parts = Object.fromEntries(
-    new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at).map((p) => [p.type, p.value]),
-  );
-  return `${parts['year']}-${parts['month']}-${parts['day']}`;
+  return new Date(wallClock(at.getTime(), timeZone)).toISOString().slice(0, 10);
 }
 
 /**
@@ -53,18 +50,11 @@ export function localDay(value: string | Date, timeZone: string): string {
  * asked (the day kept, or the month's last day when it is shorter): the bounds of a date-time field.
  */
 export function dateTimeInputValue(at: Date, timeZone: string, { months = 0 } = {}): string {
-  const parts = Object.fromEntries(
-    new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
-      .formatToParts(at)
-      .map((p) => [p.type, p.value]),
-  );
-  const total = Number(parts['year']) * 12 + Number(parts['month']) - 1 + months;
-  const year = Math.floor(total / 12);
-  const month = (total % 12) + 1;
-  const lastDay = new Date(Date.UTC(year, month, 0)).getUTCDate();
-  const day = Math.min(Number(parts['day']), lastDay);
-  const two = (n: number) => String(n).padStart(2, '0');
-  return `${String(year).padStart(4, '0')}-${two(month)}-${two(day)}T${parts['hour']}:${parts['minute']}`;
+  const wall = new Date(wallClock(at.getTime(), timeZone));
+  const first = new Date(Date.UTC(wall.getUTCFullYear(), wall.getUTCMonth() + months, 1, wall.getUTCHours(), wall.getUTCMinutes()));
+  const lastDay = new Date(Date.UTC(first.getUTCFullYear(), first.getUTCMonth() + 1, 0)).getUTCDate();
+  first.setUTCDate(Math.min(wall.getUTCDate(), lastDay));
+  return first.toISOString().slice(0, 16);
 }
 
 // Impure so that a page drawn before the session answered redraws in the company's zone; each
@@ -126,16 +116,20 @@ export function weekStart(day: string): string {
 }
 
 const clockFormats = new Map<string, Intl.DateTimeFormat>();
-/** How far the clock in `timeZone` is ahead of UTC at instant `t`, in milliseconds. */
-function offsetAt(t: number, timeZone: string): number {
+/** What the clock in `timeZone` reads at instant `t`, to the second, written as if it were UTC (ms). */
+function wallClock(t: number, timeZone: string): number {
   let f = clockFormats.get(timeZone);
   if (!f) {
     f = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric' });
     clockFormats.set(timeZone, f);
   }
   const p = Object.fromEntries(f.formatToParts(new Date(t)).map((x) => [x.type, Number(x.value)]));
-  const wall = Date.UTC(p['year']!, p['month']! - 1, p['day']!, p['hour']!, p['minute']!, p['second']!);
-  return wall - (t - (((t % 1000) + 1000) % 1000));
+  return Date.UTC(p['year']!, p['month']! - 1, p['day']!, p['hour']!, p['minute']!, p['second']!);
+}
+
+/** How far the clock in `timeZone` is ahead of UTC at instant `t`, in milliseconds. */
+function offsetAt(t: number, timeZone: string): number {
+  return wallClock(t, timeZone) - (t - (((t % 1000) + 1000) % 1000));
 }
 
 /**
