@@ -1,4 +1,4 @@
-import { asc, eq, inArray } from 'drizzle-orm';
+import { asc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { coveredThroughLabel, termLastDay, termOn, termRangeLabel, type TermRange } from '../../shared/agreement-terms';
 import type { AgreementTermView } from '../../shared/schemas/plans';
 import type { Db, Tx } from '../db/client';
@@ -55,6 +55,18 @@ export interface TermRow {
   source: string;
 }
 
+/**
+ * The term rows that `where` picks (on \`t\`, the agreement_terms row), with their invoice's number
+ * and what was paid, as one JSON array of TermRow oldest first: a subquery for statements that
+ * bring an agreement's terms beside other things.
+ */
+export function termRowsJson(where: SQL): SQL {
+  return sql`(select coalesce(json_agg(json_build_object(
+      'id', t.id, 'agreementId', t.agreement_id, 'startsOn', t.starts_on, 'endsOn', t.ends_on, 'planVersionId', t.plan_version_id,
+      'priceCents', t.price_cents, 'invoiceId', t.invoice_id, 'number', i.number, 'paidCents', i.paid_cents, 'source', t.source) order by t.starts_on), '[]')
+    from agreement_terms t left join invoices i on i.id = t.invoice_id where ${where})`;
+}
+
 /** Every term of each agreement from its term rows (oldest first), as termsOf explains. */
 export function assembleTerms(rows: readonly AgreementDates[], found: readonly TermRow[]): Map<string, AgreementTerm[]> {
   const out = new Map<string, AgreementTerm[]>(rows.map((r) => [r.id, []]));
@@ -73,7 +85,6 @@ export function assembleTerms(rows: readonly AgreementDates[], found: readonly T
   }
   for (const r of rows) {
     const list = out.get(r.id)!;
-    list.sort((a, b) => (a.startsOn < b.startsOn ? -1 : a.startsOn > b.startsOn ? 1 : 0));
     if (r.status === 'pending' || list.some((t) => t.startsOn === r.startsOn)) continue;
     list.push({
       id: null,

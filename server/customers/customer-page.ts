@@ -1,4 +1,4 @@
-import { and, eq, ne, sql } from 'drizzle-orm';
+import { and, eq, ne, sql, type SQL } from 'drizzle-orm';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
 import { formatUsd } from '../../shared/money';
@@ -12,7 +12,7 @@ import { toEquipment } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
 import { localDate, notSetUp } from '../company/company';
-import { assembleTerms, termViewsFrom, type TermRow } from '../agreements/term-in-force';
+import { assembleTerms, termRowsJson, termViewsFrom, type TermRow } from '../agreements/term-in-force';
 import { coveredThroughLabel, lastPaidTerm, termRangeLabel } from '../../shared/agreement-terms';
 import type { AppDeps } from '../deps';
 import { customerRow, duplicateEmail, iso, toContact, toFile, toProperty } from './customer-views';
@@ -53,19 +53,18 @@ export type CustomerVisitRow = {
   technician_name: string | null;
 };
 
-/** The columns of CustomerVisitRow and where they come from, for every statement that lists a household's visits. */
-export const CUSTOMER_VISIT_COLUMNS = sql.raw(
-  'v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name',
-);
-export const CUSTOMER_VISIT_FROM = sql.raw('visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id');
+/** A household's visits as one JSON array of CustomerVisitRow, newest window first: a subquery for statements that bring several things. */
+export function customerVisitsJson(customerId: string): SQL {
+  return sql`(select coalesce(json_agg(x order by x.window_start desc, x.id), '[]') from (
+    select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
+    from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
+    where v.customer_id = ${customerId}) x)`;
+}
 
 /** A household's visits, newest first, with labels and the technician's name. */
 export async function customerVisits(db: Db, customerId: string, now: Date): Promise<CustomerDetail['visits']> {
-  const visitRows = await db.execute<CustomerVisitRow>(sql`
-      select ${CUSTOMER_VISIT_COLUMNS}
-      from ${CUSTOMER_VISIT_FROM}
-      where v.customer_id = ${customerId} order by v.window_start desc, v.id`);
-  return visitRows.rows.map((v) => customerVisit(v, now));
+  const { rows } = await db.execute<{ visits: CustomerVisitRow[] }>(sql`select ${customerVisitsJson(customerId)} as visits`);
+  return rows[0]!.visits.map((v) => customerVisit(v, now));
 }
 
 export function customerVisit(v: CustomerVisitRow, now: Date): CustomerDetail['visits'][number] {
@@ -123,17 +122,12 @@ export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id:
       (select coalesce(json_agg(json_build_object('a', to_json(a), 'plan', pl.name) order by a.starts_on desc), '[]')
          from agreements a join plan_versions pv on pv.id = a.plan_version_id join plans pl on pl.id = pv.plan_id
          where a.customer_id = ${id}) as agreements,
-      (select coalesce(json_agg(json_build_object(
-          'id', t.id, 'agreementId', t.agreement_id, 'startsOn', t.starts_on, 'endsOn', t.ends_on, 'planVersionId', t.plan_version_id,
-          'priceCents', t.price_cents, 'invoiceId', t.invoice_id, 'number', i.number, 'paidCents', i.paid_cents, 'source', t.source) order by t.starts_on), '[]')
-         from agreement_terms t join agreements a on a.id = t.agreement_id left join invoices i on i.id = t.invoice_id
-         where a.customer_id = ${id}) as terms,
+      ${termRowsJson(sql`t.agreement_id in (select a.id from agreements a where a.customer_id = ${id})`)} as terms,
       (select coalesce(json_object_agg(pv.id, pl.name), '{}')
          from plan_versions pv join plans pl on pl.id = pv.plan_id
          where pv.id in (select t.plan_version_id from agreement_terms t join agreements a on a.id = t.agreement_id where a.customer_id = ${id}
                          union select a.plan_version_id from agreements a where a.customer_id = ${id})) as plan_names,
-      (select coalesce(json_agg(x order by x.window_start desc, x.id), '[]')
-         from (select ${CUSTOMER_VISIT_COLUMNS} from ${CUSTOMER_VISIT_FROM} where v.customer_id = ${id}) x) as visits,
+      ${customerVisitsJson(id)} as visits,
       (select coalesce(json_agg(x order by x.created_at desc), '[]') from invoices x where x.customer_id = ${id}) as invoices,
       (select coalesce(json_agg(json_build_object('n', to_json(n), 'author', u.name) order by n.created_at desc), '[]')
          from customer_notes n left join users u on u.id = n.author_user_id where n.customer_id = ${id}) as notes,

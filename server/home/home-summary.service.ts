@@ -7,10 +7,10 @@ import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/sch
 import type { SessionUser } from '../../shared/schemas/session';
 import { dateTimeFormat } from '../../shared/date-formats';
 import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
-import { agreements, agreementTerms, company, invoices, plans, planVersions, properties, quotes } from '../db/schema';
+import { agreements, company, invoices, plans, planVersions, properties, quotes } from '../db/schema';
 import { localDate, notSetUp } from '../company/company';
-import { assembleTerms, type TermRow } from '../agreements/term-in-force';
-import { CUSTOMER_VISIT_COLUMNS, CUSTOMER_VISIT_FROM, customerVisit, type CustomerVisitRow } from '../customers/customer-page';
+import { assembleTerms, termRowsJson, type TermRow } from '../agreements/term-in-force';
+import { customerVisit, customerVisitsJson, type CustomerVisitRow } from '../customers/customer-page';
 import type { AppDeps } from '../deps';
 import { notFound } from '../http/errors';
 
@@ -56,20 +56,14 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
           'planName', ${plans.name}, 'planActive', ${plans.active}, 'label', ${properties.label},
           'coolingVisits', ${planVersions.coolingVisits}, 'heatingVisits', ${planVersions.heatingVisits}, 'repairDiscountBps', ${planVersions.repairDiscountBps},
           'diagnosticFeeWaived', ${planVersions.diagnosticFeeWaived}, 'priorityWindowHours', ${planVersions.priorityWindowHours},
-          'terms', (select coalesce(json_agg(json_build_object(
-              'id', ${agreementTerms.id}, 'agreementId', ${agreementTerms.agreementId}, 'startsOn', ${agreementTerms.startsOn}, 'endsOn', ${agreementTerms.endsOn},
-              'planVersionId', ${agreementTerms.planVersionId}, 'priceCents', ${agreementTerms.priceCents}, 'invoiceId', ${agreementTerms.invoiceId},
-              'number', ${invoices.number}, 'paidCents', ${invoices.paidCents}, 'source', ${agreementTerms.source}) order by ${agreementTerms.startsOn}), '[]')
-            from ${agreementTerms} left join ${invoices} on ${invoices.id} = ${agreementTerms.invoiceId}
-            where ${agreementTerms.agreementId} = ${agreements.id})
+          'terms', ${termRowsJson(sql`t.agreement_id = ${agreements.id}`)}
         ) order by ${agreements.endsOn}), '[]')
        from ${agreements}
        join ${planVersions} on ${planVersions.id} = ${agreements.planVersionId}
        join ${plans} on ${plans.id} = ${planVersions.planId}
        join ${properties} on ${properties.id} = ${agreements.propertyId}
        where ${agreements.customerId} = ${customerId} and ${inArray(agreements.status, [...SHOWN])}) as agreements,
-      (select coalesce(json_agg(x order by x.window_start desc, x.id), '[]')
-         from (select ${CUSTOMER_VISIT_COLUMNS} from ${CUSTOMER_VISIT_FROM} where v.customer_id = ${customerId}) x) as visits,
+      ${customerVisitsJson(customerId)} as visits,
       (select json_build_object('count', count(*), 'balance', coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0),
                                 'firstId', (array_agg(${invoices.id} order by ${invoices.issuedAt}))[1])
          from ${invoices} where ${invoices.customerId} = ${customerId} and ${invoices.status} = 'open') as owed,
