@@ -1,13 +1,12 @@
 import { DateTime } from 'luxon';
 import { availableWindows, type ArrivalWindow, type AvailabilityInput } from '../../shared/scheduling';
 import type { Db } from '../db/client';
-import { scheduleVersion } from '../db/schema';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
 
 /**
  * What the windows route derives from the schedule, kept per process while the schedule's version
  * stays the same. Triggers bump the version in the same transaction as every write that changes
- * who is free when, so checking it (one read of a one-row table) is enough for several processes to
+ * who is free when, so checking it (read with the property, in the same statement) is enough for several processes to
  * stay correct. Booking itself never reads from here: it re-reads inside its day lock.
  */
 interface Snapshot {
@@ -26,11 +25,6 @@ const SNAPSHOT_DAYS = 45;
 const MAX_ANSWERS = 500;
 
 const snapshots = new WeakMap<Db, Snapshot>();
-
-export async function currentScheduleVersion(db: Db): Promise<number> {
-  const [row] = await db.select({ version: scheduleVersion.version }).from(scheduleVersion).limit(1);
-  return row?.version ?? 0;
-}
 
 /**
  * The company's settings and the schedule over the range `rangeIn` gives in the company's zone,
