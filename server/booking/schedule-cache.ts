@@ -6,8 +6,8 @@ import { loadCompanySettings, loadSchedulingData, type CompanySettings, type Sch
 /**
  * What the windows route derives from the schedule, kept per process while the schedule's version
  * stays the same. Triggers bump the version in the same transaction as every write that changes
- * who is free when, so checking it (read with the property, in the same statement) is enough for several processes to
- * stay correct. Booking itself never reads from here: it re-reads inside its day lock.
+ * who is free when, so checking it (read in the same statement as the property) is enough for
+ * several processes to stay correct. Booking itself never reads from here: it re-reads inside its day lock.
  */
 interface Snapshot {
   version: number;
