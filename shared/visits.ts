@@ -128,6 +128,11 @@ export const VISIT_STATE_WORDS: Record<VisitStatus, VisitStateWords> = {
   },
 };
 
+/** The technician a homeowner is told of: named only in a state that names one (never on a request). */
+export function technicianToTell(status: VisitStatus, technicianName: string | null): string | null {
+  return VISIT_STATE_WORDS[status].namesTechnician ? technicianName : null;
+}
+
 // ---- A visit's times: the arrival window promised to the homeowner, and the work booked within it ----
 
 /** The hour and minute in `timeZone`, 12-hour: "9", "7:30", with "am" or "pm". */

@@ -444,6 +444,34 @@ describe('booking a visit', () => {
     expect(onBoard.windowMissed).toBe(true);
   });
 
+  it('names no technician to the homeowner while the visit is only requested, on the home card and in My home', async () => {
+    const h = await household({ homeowner: true });
+    await at('2032-10-04T13:00:00Z'); // Mon 4 Oct 2032, 8 am CDT
+    const offer = await office.agent.get('/api/booking/windows').query({ propertyId: h.propertyId, reason: 'noise', from: '2032-10-05', days: 1 }).expect(200);
+    const booked = await office.agent
+      .post('/api/booking/visits')
+      .set(XSRF, office.csrf)
+      .send({ propertyId: h.propertyId, reason: 'noise', windowStart: offer.body.windows[0].start, noEmergency: true })
+      .expect(201);
+    const id = booked.body.visit.id as string;
+    // The booking already holds a technician's time; the request names none until the office confirms.
+    const [held] = await ctx.database.db.select({ technicianId: t.visits.technicianId }).from(t.visits).where(eq(t.visits.id, id));
+    expect(held!.technicianId).not.toBeNull();
+    const me = await signInHomeowner(ctx, h.email);
+    const told = async () => ({
+      card: (await me.agent.get('/api/my-home/summary').expect(200)).body.nextVisit,
+      history: (await me.agent.get('/api/my-home').expect(200)).body.upcoming.find((v: { id: string }) => v.id === id),
+    });
+    const before = await told();
+    expect(before.card).toMatchObject({ id, status: 'requested', technicianName: null });
+    expect(before.history.technicianName).toBeNull();
+    await office.agent.post(`/api/dispatch/visits/${id}/assign`).set(XSRF, office.csrf).send({ technicianId: held!.technicianId }).expect(200);
+    const after = await told();
+    expect(after.card.status).toBe('scheduled');
+    expect(after.card.technicianName).toEqual(expect.any(String));
+    expect(after.history.technicianName).toBe(after.card.technicianName);
+  });
+
   it('sends the day-before reminder once', async () => {
     const h = await household();
     await at('2031-04-14T13:00:00Z');

@@ -1,5 +1,5 @@
 import type { AppDeps } from '../deps';
-import { canChangeOnline, changeCutoff, changeSentence, VISIT_REASON_LABELS, VISIT_STATE_WORDS } from '../../shared/visits';
+import { canChangeOnline, changeCutoff, changeSentence, VISIT_REASON_LABELS, technicianToTell, VISIT_STATE_WORDS } from '../../shared/visits';
 import { visitInvitation, visitUid } from '../integrations/calendar';
 import type { MailAttachment } from '../integrations/mail';
 import { renderEmail } from '../integrations/mail-layout';
@@ -38,7 +38,8 @@ export function composeVisitMail(kind: VisitMailKind, v: VisitRow, c: CompanySet
   const link = `${publicUrl.replace(/\/$/, '')}/portal/booking/visits/${v.id}`;
   const words = VISIT_STATE_WORDS[v.status];
   // A technician is named only once the office has assigned one.
-  const tech = v.technicianName && words.namesTechnician ? `Your technician: ${v.technicianName}.` : '';
+  const name = technicianToTell(v.status, v.technicianName);
+  const tech = name ? `Your technician: ${name}.` : '';
   const change = howToChange(v, c, link, now);
   const paragraphs: Record<VisitMailKind, string[]> = {
     confirmation: [`We have your request: ${what}.`, `Arrival window: ${window}.`, words.meaning, EXPECT, change],

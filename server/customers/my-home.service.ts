@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, isNull } from 'drizzle-orm';
 import { homeAccessSchema, type HomeContact, type MyHome, type Note } from '../../shared/schemas/customers';
 import type { SessionUser } from '../../shared/schemas/session';
-import { groupServiceHistory } from '../../shared/visits';
+import { groupServiceHistory, technicianToTell, type VisitStatus } from '../../shared/visits';
 import type { Db } from '../db/client';
 import { customerNotes, customers, files, properties, users } from '../db/schema';
 import { equipmentForProperties } from '../equipment/equipment.service';
@@ -65,7 +65,7 @@ export async function myHome(deps: Pick<AppDeps, 'database' | 'clock'>, user: Se
         windowEnd: v.windowEnd,
         findings: v.findings,
         recommendations: v.recommendations,
-        technicianName: v.technicianName,
+        technicianName: technicianToTell(v.status as VisitStatus, v.technicianName),
       })),
       deps.clock(),
     ),

@@ -6,7 +6,7 @@ import { daysBetween, renewalWindowOpens } from '../../shared/renewals';
 import type { HomeAgreement, HomeNextVisit, HomeSummary } from '../../shared/schemas/home';
 import type { SessionUser } from '../../shared/schemas/session';
 import { dateTimeFormat } from '../../shared/date-formats';
-import { groupServiceHistory, visitTimeLabels, type VisitStatus } from '../../shared/visits';
+import { groupServiceHistory, technicianToTell, visitTimeLabels, type VisitStatus } from '../../shared/visits';
 import { agreements, company, invoices, plans, planVersions, properties, quotes } from '../db/schema';
 import { localDate, notSetUp } from '../company/company';
 import { assembleTerms, termRowsJson, type TermRow } from '../agreements/term-in-force';
@@ -137,7 +137,7 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
         statusLabel: next.statusLabel,
         dayLabel: dateTimeFormat('en-US', { weekday: 'short', day: 'numeric', month: 'short', timeZone: co.timeZone }).format(new Date(next.windowStart)),
         arrivalLabel: visitTimeLabels({ windowStart: next.windowStart, windowEnd: next.windowEnd, startsAt: next.startsAt, endsAt: next.startsAt }, co.timeZone).arrival,
-        technicianName: next.technicianName,
+        technicianName: technicianToTell(next.status as VisitStatus, next.technicianName),
       }
     : null;
   return {
