@@ -116,6 +116,18 @@ export function labelFor(start: Date, end: Date, timeZone: string): string {
   });
 }
 
+/**
+ * The first instant after `now` at which `toView`'s answer for this row changes with the clock
+ * alone, or Infinity: the change cut-off (online changes close) and the end of the window (a window
+ * that passed unstarted is flagged). Kept beside `toView` so that a view kept until then is exact.
+ */
+export function viewChangesAt(r: Pick<VisitRow, 'status' | 'windowStart' | 'windowEnd'>, ctx: { cancelCutoffHours: number; now: Date }): number {
+  if (r.status !== 'requested' && r.status !== 'scheduled') return Infinity;
+  const now = ctx.now.getTime();
+  const later = [changeCutoff(r, ctx).getTime(), r.windowEnd.getTime()].filter((t) => t > now);
+  return later.length ? Math.min(...later) : Infinity;
+}
+
 export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; phone: string; now: Date }): VisitView {
   const until = changeCutoff(r, ctx);
   const canChange = canChangeOnline(r, ctx, ctx.now);

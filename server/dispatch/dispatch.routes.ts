@@ -5,7 +5,7 @@ import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
-import { addTimeOff, assignVisit, board, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
+import { addTimeOff, assignVisit, boardJson, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
 
 export const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
 export const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 characters').max(80) });
@@ -19,7 +19,7 @@ export function dispatchRoutes(deps: AppDeps): Router {
     res.setHeader('Cache-Control', 'no-store');
     const q = parse(boardQuerySchema, req.query);
     assertDatesWithin(deps.clock(), OFFICE_RANGE, { from: q.from });
-    res.json(await board(deps, q));
+    res.type('json').send(await boardJson(deps, q));
   });
 
   router.get('/households', office, async (req, res) => {

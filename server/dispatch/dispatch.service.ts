@@ -18,8 +18,9 @@ import { scheduleAssignmentNotice } from '../booking/assignment-notice';
 import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { deleteTimeOff, insertTimeOff } from '../booking/time-off';
-import { toView, visitRows, type VisitRow } from '../booking/visit-views';
-import { customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
+import { toView, viewChangesAt, visitRows, type VisitRow } from '../booking/visit-views';
+import type { Db } from '../db/client';
+import { boardVersion, customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
 
@@ -59,19 +60,61 @@ interface BoardTechnicianJson {
   timeOff: { id: string; startsAt: string; endsAt: string; reason: string }[];
 }
 
+/** One board as the route sends it, kept while the board's version holds and no visit on it changes with the clock. */
+interface KeptBoard {
+  version: number;
+  builtAt: number;
+  validUntil: number;
+  body: string;
+}
+
+// Boards kept per process and database: a day or a week for each filter the office uses.
+const MAX_BOARDS = 64;
+const keptBoards = new WeakMap<Db, Map<string, KeptBoard>>();
+
+/**
+ * The board as JSON. Kept per process: triggers bump `board_version` at the commit of every write
+ * the board shows, so reading that version (one indexed row) says whether a kept board is still
+ * the board; the views that change with the clock alone (online changes closing, a window passing
+ * unstarted) say until when (`viewChangesAt`). The version is read before anything else, so a write
+ * committed while a board is built only makes the board newer than its label.
+ */
+export async function boardJson(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<string> {
+  const { db } = deps.database;
+  const [row] = await db.select({ version: boardVersion.version }).from(boardVersion).limit(1);
+  const version = Number(row?.version ?? 0);
+  const key = JSON.stringify([q.from, q.days, q.kind ?? null, q.area ?? null, q.technicianId ?? null]);
+  let boards = keptBoards.get(db);
+  if (!boards) keptBoards.set(db, (boards = new Map()));
+  const now = deps.clock().getTime();
+  const kept = boards.get(key);
+  if (kept && kept.version === version && kept.builtAt <= now && now < kept.validUntil) return kept.body;
+  const built = await board(deps, q);
+  const body = JSON.stringify(built.board);
+  if (!kept || kept.version <= version) {
+    boards.delete(key);
+    if (boards.size >= MAX_BOARDS) boards.delete(boards.keys().next().value!);
+    boards.set(key, { version, builtAt: built.now.getTime(), validUntil: built.validUntil, body });
+  }
+  return body;
+}
+
 /**
  * The board in a fixed number of statements whatever the calendar holds: the company's settings,
  * then the technicians (with their time off), the areas and the size of the queue in one, then the
- * visits on screen together with the soonest of the queue in one more.
+ * visits on screen together with the soonest of the queue in one more. Each visit's address,
+ * household, technician and plan are looked up by key, row by row, so the work grows with the
+ * visits shown and not with the households on file.
  */
-export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<BoardResponse> {
+async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<{ board: BoardResponse; now: Date; validUntil: number }> {
   const { db } = deps.database;
   const c = await loadCompanySettings(db);
   const start = DateTime.fromISO(q.from, { zone: c.timeZone }).startOf('day');
   const end = start.plus({ days: q.days });
   const from = start.toJSDate();
   const to = end.toJSDate();
-  const filters = and(q.kind ? eq(visits.kind, q.kind) : undefined, q.area ? eq(properties.area, q.area) : undefined) ?? sql`true`;
+  const filters =
+    and(q.kind ? eq(visits.kind, q.kind) : undefined, q.area ? sql`${visits.propertyId} in (select p.id from properties p where p.area = ${q.area})` : undefined) ?? sql`true`;
   const [head] = (
     await db.execute<{ technicians: BoardTechnicianJson[]; areas: string[] | null; unassigned_total: number }>(sql`
       select
@@ -88,18 +131,17 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
            union all
            select (select p.area from properties p where p.area > a.area order by p.area limit 1) from a where a.area is not null)
          select array_agg(area order by area) from a where area is not null and area <> '') as areas,
-        (select count(*)::int from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId} where ${queuedVisit} and ${filters}) as unassigned_total`)
+        (select count(*)::int from ${visits} where ${queuedVisit} and ${filters}) as unassigned_total`)
   ).rows;
-  // Each branch reads its visits with their addresses where it finds them (no second pass over
-  // visits by id); the outer query adds the household, the technician and the plan.
   const picked = sql`${visits.id}, ${visits.customerId}, ${visits.propertyId}, ${visits.kind}, ${visits.reason}, ${visits.status},
     ${visits.windowStart}, ${visits.windowEnd}, ${visits.startsAt}, ${visits.endsAt}, ${visits.technicianId}, ${visits.priority},
-    ${visits.symptoms}, ${visits.notes}, ${visits.sequence},
-    ${properties.street}, ${properties.unit}, ${properties.city}, ${properties.state}, ${properties.zip}, ${properties.area}
-    from ${visits} join ${properties} on ${properties.id} = ${visits.propertyId}`;
+    ${visits.symptoms}, ${visits.notes}, ${visits.sequence}
+    from ${visits}`;
   const onScreen = sql`tstzrange(${visits.windowStart}, ${visits.windowEnd}, '[)') && tstzrange(${from}, ${to}, '[)')`;
+  // "offset 0" keeps each lookup a probe by key per visit: the planner may not fold it into a hash
+  // join over every home or household.
   const { rows } = await db.execute<BoardVisitRow>(sql`
-    select b.*, c.name as customer_name, c.email as customer_email, u.name as technician_name,
+    select b.*, p.street, p.unit, p.city, p.state, p.zip, p.area, c.name as customer_name, c.email as customer_email, tu.name as technician_name,
       (select pl.name from agreements a
         join plan_versions pv on pv.id = a.plan_version_id
         join plans pl on pl.id = pv.plan_id
@@ -118,25 +160,34 @@ export async function board(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.outp
         (select 'queue', ${picked} where ${onScreen} and ${queuedVisit} and ${filters})
       )
     ) b
-    join customers c on c.id = b.customer_id
-    left join technicians t on t.id = b.technician_id
-    left join users u on u.id = t.user_id
+    cross join lateral (select street, unit, city, state, zip, area from properties where id = b.property_id offset 0) p
+    cross join lateral (select name, email from customers where id = b.customer_id offset 0) c
+    left join lateral (select (select u.name from users u where u.id = t.user_id) as name from technicians t where t.id = b.technician_id offset 0) tu on true
     order by b.part, b.window_start, b.id`);
   const now = deps.clock();
   const ctx = { timeZone: c.timeZone, cancelCutoffHours: c.cancelCutoffHours, phone: c.phone, now };
   const onBoard: VisitView[] = [];
   const queue: VisitView[] = [];
-  for (const r of rows) (r.part === 'queue' ? queue : onBoard).push(toView(boardVisitRow(r), ctx));
+  let validUntil = Infinity;
+  for (const r of rows) {
+    const row = boardVisitRow(r);
+    (r.part === 'queue' ? queue : onBoard).push(toView(row, ctx));
+    validUntil = Math.min(validUntil, viewChangesAt(row, ctx));
+  }
   const iso = (t: string) => new Date(t).toISOString();
   return {
-    from: start.toISODate()!,
-    days: q.days,
-    timeZone: c.timeZone,
-    technicians: (head?.technicians ?? []).map((t) => ({ ...t, timeOff: t.timeOff.map((o) => ({ ...o, startsAt: iso(o.startsAt), endsAt: iso(o.endsAt) })) })),
-    unassigned: queue,
-    unassignedTotal: head?.unassigned_total ?? queue.length,
-    visits: onBoard,
-    areas: head?.areas ?? [],
+    now,
+    validUntil,
+    board: {
+      from: start.toISODate()!,
+      days: q.days,
+      timeZone: c.timeZone,
+      technicians: (head?.technicians ?? []).map((t) => ({ ...t, timeOff: t.timeOff.map((o) => ({ ...o, startsAt: iso(o.startsAt), endsAt: iso(o.endsAt) })) })),
+      unassigned: queue,
+      unassignedTotal: head?.unassigned_total ?? queue.length,
+      visits: onBoard,
+      areas: head?.areas ?? [],
+    },
   };
 }
 

@@ -93,3 +93,15 @@ export const scheduleVersion = pgTable(
   },
   (t) => [check('schedule_version_single_row', sql`${t.id} = 1`)],
 );
+
+// The dispatch board's version: triggers bump it once per transaction, at commit, for every write
+// the board shows (visits, households and their homes, agreements and plan names, technicians, their
+// time off and names, the company), so a process may keep a board while the version stays the same.
+export const boardVersion = pgTable(
+  'board_version',
+  {
+    id: smallint().primaryKey().default(1),
+    version: bigint({ mode: 'number' }).notNull().default(0),
+  },
+  (t) => [check('board_version_single_row', sql`${t.id} = 1`)],
+);
