@@ -2,8 +2,9 @@
 // (angular.json) count raw bytes; what the browser waits for is the gzip-compressed file, so this
 // gzips what the build emitted and fails the build past the limits.
 //   goal: initial load ≤ 60 kB gzip, each lazy area (portal, office, field, admin) ≤ 120 kB gzip.
-//   The build fails past the ceilings below, the sizes last measured rounded up to the next 10 kB,
-//   so that the bundle does not grow unnoticed; BUNDLE_BUDGET=goal fails it past the goal itself.
+//   Each lazy area's ceiling is the goal itself; the initial load and the signed-out pages fail past
+//   the sizes last measured rounded up to the next 10 kB, so that they do not grow unnoticed, and
+//   BUNDLE_BUDGET=goal fails the initial load past its goal too.
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
@@ -12,10 +13,10 @@ const ROOT = new URL('..', import.meta.url).pathname.replace(/\/$/, '');
 const DIST = join(ROOT, 'dist', 'seasonwell');
 const BROWSER = join(DIST, 'browser');
 export const GOAL = { initial: 60 * 1024, area: 120 * 1024 };
-// Measured 105.2 initial, 55.3 sign-in, 120.2 portal, 170.5 office, 186.6 field, 126.3 admin (was 156.7
-// initial and 269.7 / 277.5 / 282.8 / 208.2 for the areas, counted then without the pages chunk).
-// Lower these as the bundle shrinks; raising one means the bundle grew, so measure what grew first.
-export const CEILING = { initial: 110 * 1024, signIn: 60 * 1024, portal: 130 * 1024, office: 180 * 1024, field: 190 * 1024, admin: 130 * 1024 };
+// Measured 104.6 initial, 56.4 sign-in, 111.8 portal, 119.4 office, 115.4 field, 116.3 admin (were
+// 120.3 / 174.6 / 189.0 / 126.5 for the areas before the visit page deferred its parts and forms
+// loaded their zod schemas on first use). DEVELOPERS.md says how to keep an area under its ceiling.
+export const CEILING = { initial: 110 * 1024, signIn: 60 * 1024, portal: GOAL.area, office: GOAL.area, field: GOAL.area, admin: GOAL.area };
 /** Every page but the start page loads through this chunk (the icon registry, the guards, the 404 page). */
 export const PAGES = 'src/app/pages.routes.ts';
 export const AREAS = {
