@@ -201,6 +201,19 @@ describe('the kept dispatch board', () => {
     expect(await version(), 'nothing on the board was written').toBe(kept);
   });
 
+  it('is compressed once for the browsers that take gzip, and plain for a client that asks for none', async () => {
+    const s = await scene({ hour: 15 });
+    const ask = (encoding: string) => officeA.agent.get('/api/dispatch/board').query({ from: DAY, days: 1, area: s.area }).set('Accept-Encoding', encoding).expect(200);
+    const zipped = await ask('gzip, deflate, br');
+    const plain = await ask('identity');
+    expect(zipped.headers['content-encoding']).toBe('gzip');
+    expect(zipped.headers['vary']).toMatch(/Accept-Encoding/i);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.headers['content-type']).toMatch(/^application\/json/);
+    expect(zipped.body).toEqual(plain.body);
+    expect(onBoard(plain.body as Board, s.visitId)).toBeDefined();
+  });
+
   it('is bumped once per transaction that changes the board, at its commit, and not by writes it does not show', async () => {
     const s = await scene({ hour: 21 });
     const db = a.database.db;

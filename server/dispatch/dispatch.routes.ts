@@ -5,7 +5,7 @@ import type { AppDeps } from '../deps';
 import { currentUser, requireRole } from '../auth/access';
 import { parse } from '../http/errors';
 import { assertDatesWithin, OFFICE_RANGE } from '../http/ranges';
-import { addTimeOff, assignVisit, boardJson, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
+import { addTimeOff, assignVisit, keptBoard, changeStatus, findHouseholds, removeTimeOff, visitHistory } from './dispatch.service';
 
 export const idParam = z.object({ id: z.uuid({ message: 'must be an id' }) });
 export const householdQuery = z.object({ q: z.string().trim().min(2, 'type at least 2 characters').max(80) });
@@ -19,7 +19,11 @@ export function dispatchRoutes(deps: AppDeps): Router {
     res.setHeader('Cache-Control', 'no-store');
     const q = parse(boardQuerySchema, req.query);
     assertDatesWithin(deps.clock(), OFFICE_RANGE, { from: q.from });
-    res.type('json').send(await boardJson(deps, q));
+    const answer = await keptBoard(deps, q);
+    // A kept board is compressed once, not for every office screen that asks for it.
+    res.type('json').vary('Accept-Encoding');
+    if (req.acceptsEncodings('gzip', 'identity') === 'gzip') res.setHeader('Content-Encoding', 'gzip').send(answer.gzipped());
+    else res.send(answer.body);
   });
 
   router.get('/households', office, async (req, res) => {

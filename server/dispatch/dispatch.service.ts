@@ -1,5 +1,6 @@
 import { and, asc, eq, gt, ilike, inArray, isNull, lt, or, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
+import { gzipSync } from 'node:zlib';
 import type { z } from 'zod';
 import {
   type assignSchema,
@@ -60,26 +61,36 @@ interface BoardTechnicianJson {
   timeOff: { id: string; startsAt: string; endsAt: string; reason: string }[];
 }
 
-/** One board as the route sends it, kept while the board's version holds and no visit on it changes with the clock. */
+/** One board as the route sends it: the JSON, and the same gzip-compressed once, on first asking. */
+export interface BoardAnswer {
+  body: string;
+  gzipped(): Buffer;
+}
+
 interface KeptBoard {
   version: number;
   builtAt: number;
   validUntil: number;
-  body: string;
+  answer: BoardAnswer;
 }
 
 // Boards kept per process and database: a day or a week for each filter the office uses.
 const MAX_BOARDS = 64;
 const keptBoards = new WeakMap<Db, Map<string, KeptBoard>>();
 
+function boardAnswer(body: string): BoardAnswer {
+  let zipped: Buffer | undefined;
+  return { body, gzipped: () => (zipped ??= gzipSync(body)) };
+}
+
 /**
- * The board as JSON. Kept per process: triggers bump `board_version` at the commit of every write
- * the board shows, so reading that version (one indexed row) says whether a kept board is still
- * the board; the views that change with the clock alone (online changes closing, a window passing
+ * The board, kept per process: triggers bump `board_version` at the commit of every write the
+ * board shows, so reading that version (one indexed row) says whether a kept board is still the
+ * board; the views that change with the clock alone (online changes closing, a window passing
  * unstarted) say until when (`viewChangesAt`). The version is read before anything else, so a write
  * committed while a board is built only makes the board newer than its label.
  */
-export async function boardJson(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<string> {
+export async function keptBoard(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.output<typeof boardQuerySchema>): Promise<BoardAnswer> {
   const { db } = deps.database;
   const [row] = await db.select({ version: boardVersion.version }).from(boardVersion).limit(1);
   const version = Number(row?.version ?? 0);
@@ -88,15 +99,15 @@ export async function boardJson(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.
   if (!boards) keptBoards.set(db, (boards = new Map()));
   const now = deps.clock().getTime();
   const kept = boards.get(key);
-  if (kept && kept.version === version && kept.builtAt <= now && now < kept.validUntil) return kept.body;
+  if (kept && kept.version === version && kept.builtAt <= now && now < kept.validUntil) return kept.answer;
   const built = await board(deps, q);
-  const body = JSON.stringify(built.board);
+  const answer = boardAnswer(JSON.stringify(built.board));
   if (!kept || kept.version <= version) {
     boards.delete(key);
     if (boards.size >= MAX_BOARDS) boards.delete(boards.keys().next().value!);
-    boards.set(key, { version, builtAt: built.now.getTime(), validUntil: built.validUntil, body });
+    boards.set(key, { version, builtAt: built.now.getTime(), validUntil: built.validUntil, answer });
   }
-  return body;
+  return answer;
 }
 
 /**
