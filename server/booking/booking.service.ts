@@ -25,7 +25,8 @@ import { AppError, notFound } from '../http/errors';
 import { assertOwnedRow } from '../http/ownership';
 import { sendVisitMail } from './booking.mail';
 import { COMPANY_COUNTRY } from '../company/company';
-import { cachedWindows, minuteAfter, scheduleSnapshot, within } from './schedule-cache';
+import { keptBy } from '../../shared/kept';
+import { cachedWindows, minuteAfter, scheduleSnapshot } from './schedule-cache';
 import { loadCompanySettings, loadSchedulingData, type CompanySettings, type SchedulingData } from './scheduling-input';
 import { noticeSignature, toView, visitRows, type VisitRow } from './visit-views';
 import { formatPhone } from '../../shared/phone';
@@ -102,8 +103,12 @@ function propertyView(
   };
 }
 
-export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
-  const [p] = await db
+// Built once per database and sent as a prepared statement: offers are asked for all the time,
+// and building this select anew cost more than running it.
+const propertyQueries = new WeakMap<Db, ReturnType<typeof propertyQuery>>();
+
+function propertyQuery(db: Db) {
+  return db
     .select({
       id: properties.id,
       customerId: properties.customerId,
@@ -130,8 +135,15 @@ export async function propertyContext(db: Db | Tx, user: SessionUser, propertyId
     })
     .from(properties)
     .innerJoin(customers, eq(customers.id, properties.customerId))
-    .where(eq(properties.id, propertyId))
-    .limit(1);
+    .where(eq(properties.id, sql.placeholder('propertyId')))
+    .limit(1)
+    .prepare('property_context');
+}
+
+export async function propertyContext(db: Db, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
+  let query = propertyQueries.get(db);
+  if (!query) propertyQueries.set(db, (query = propertyQuery(db)));
+  const [p] = await query.execute({ propertyId });
   await assertOwnedRow(db, user, p, 'propertyId', { what: 'That property' });
   const plan = p.planName !== null && p.planHours !== null ? { planName: p.planName, hours: p.planHours } : undefined;
   return {
@@ -182,6 +194,8 @@ export interface EngineCall {
   company: CompanySettings;
   reason: VisitReason;
   urgent: boolean;
+  /** The schedule's range the input covers. */
+  range: { from: Date; to: Date };
 }
 
 /** Reads everything the engine needs for this caller over local dates [from, from + days]. */
@@ -198,26 +212,15 @@ export async function engineInput(
   sources?: { company: CompanySettings; schedule(range: { from: Date; to: Date }): Promise<SchedulingData> },
 ): Promise<EngineCall> {
   const company = sources?.company ?? (await loadCompanySettings(db));
-  const tz = company.timeZone;
-  const nowLocal = DateTime.fromJSDate(now, { zone: tz });
-  const start = from ? DateTime.fromISO(from, { zone: tz }) : nowLocal;
-  const first = start < nowLocal.startOf('day') ? nowLocal : start;
-  const last = first.plus({ days });
-  // Widened by a day each side (visits straddling midnight), plus any look-ahead the next free windows need.
-  const range = {
-    from: first.startOf('day').minus({ days: 1 }).toJSDate(),
-    to: last
-      .endOf('day')
-      .plus({ days: 1 + lookAheadDays })
-      .toJSDate(),
-  };
-  const data = sources ? await sources.schedule(range) : await loadSchedulingData(db, range, { excludeVisitId });
+  const span = engineSpan(company.timeZone, now, from, days, lookAheadDays);
+  const data = sources ? await sources.schedule(span.range) : await loadSchedulingData(db, span.range, { excludeVisitId });
   const urgent = URGENT_REASONS.includes(reason);
   return {
     company,
     property,
     reason,
     urgent,
+    range: span.range,
     input: {
       settings: company.settings,
       technicians: data.technicians,
@@ -227,13 +230,47 @@ export async function engineInput(
         ...(property.requiredSkill ? { requiredSkill: property.requiredSkill } : {}),
         member: property.member,
         urgent,
-        from: first.toISODate()!,
-        to: last.toISODate()!,
-        now: DateTime.fromJSDate(now, { zone: 'UTC' }).toISO()!,
+        from: span.from,
+        to: span.to,
+        now: span.now,
         ...(property.priorityWindowHours ? { priorityPromiseHours: property.priorityWindowHours } : {}),
       },
     },
   };
+}
+
+interface EngineSpan {
+  /** The first and last local days offered, and now in UTC, as the engine reads them. */
+  from: string;
+  to: string;
+  now: string;
+  /** The schedule to read: widened by a day each side (visits straddling midnight), plus any look-ahead. */
+  range: { from: Date; to: Date };
+}
+
+// A pure function of its arguments, asked again for every offer within the same minute.
+const spanKept = keptBy<EngineSpan>(5_000);
+
+/** The days an offer covers in the company's zone: from the day asked (never before today) for `days` days. */
+export function engineSpan(timeZone: string, now: Date, from: string | undefined, days: number, lookAheadDays = 0): EngineSpan {
+  return spanKept(`${timeZone}|${now.getTime()}|${from ?? ''}|${days}|${lookAheadDays}`, () => {
+    const nowLocal = DateTime.fromJSDate(now, { zone: timeZone });
+    const start = from ? DateTime.fromISO(from, { zone: timeZone }) : nowLocal;
+    const first = start < nowLocal.startOf('day') ? nowLocal : start;
+    const last = first.plus({ days });
+    return {
+      from: first.toISODate()!,
+      to: last.toISODate()!,
+      now: DateTime.fromJSDate(now, { zone: 'UTC' }).toISO()!,
+      range: {
+        from: first.startOf('day').minus({ days: 1 }).toJSDate(),
+        to: last
+          .endOf('day')
+          .plus({ days: 1 + lookAheadDays })
+          .toJSDate(),
+      },
+    };
+  });
 }
 
 export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser, q: z.output<typeof windowsQuerySchema>): Promise<WindowsResponse> {
@@ -250,19 +287,11 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
     } else {
       // New bookings: from this process's snapshot of the schedule while its version (read with the
       // property) is current.
+      // The schedule is narrowed to the days asked only when the engine has to answer anew.
       const now = minuteAfter(deps.clock());
-      const snap = await scheduleSnapshot(
-        db,
-        (tz) => {
-          const nowLocal = DateTime.fromJSDate(now, { zone: tz });
-          const asked = q.from ? DateTime.fromISO(q.from, { zone: tz }) : nowLocal;
-          const first = (asked < nowLocal.startOf('day') ? nowLocal : asked).startOf('day').minus({ days: 1 });
-          return { from: first.toJSDate(), to: first.plus({ days: q.days + 3 }).toJSDate() };
-        },
-        property.scheduleVersion,
-      );
-      call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async (range) => within(snap.data, range) });
-      windows = cachedWindows(snap, call.input);
+      const snap = await scheduleSnapshot(db, (tz) => engineSpan(tz, now, q.from, q.days).range, property.scheduleVersion);
+      call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async () => snap.data });
+      windows = cachedWindows(snap, call.input, call.range);
     }
   } catch (err) {
     engineError(err);

@@ -62,12 +62,16 @@ export function within(data: SchedulingData, range: { from: Date; to: Date }): S
   };
 }
 
-/** The engine's windows for one input, answered once per snapshot and input. */
-export function cachedWindows(snap: Snapshot, input: AvailabilityInput): ArrivalWindow[] {
+/**
+ * The engine's windows for one input over the snapshot's whole schedule, answered once per snapshot
+ * and input; the schedule is narrowed to `range` (the days the request covers) only to answer anew.
+ */
+export function cachedWindows(snap: Snapshot, input: AvailabilityInput, range: { from: Date; to: Date }): ArrivalWindow[] {
   const key = JSON.stringify([input.request, input.technicians.length]);
   const hit = snap.windows.get(key);
   if (hit) return hit;
-  const windows = availableWindows(input);
+  const narrowed = within(snap.data, range);
+  const windows = availableWindows({ ...input, technicians: narrowed.technicians, booked: narrowed.booked });
   if (snap.windows.size >= MAX_ANSWERS) snap.windows.clear();
   snap.windows.set(key, windows);
   return windows;
