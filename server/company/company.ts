@@ -1,5 +1,6 @@
 import { eq } from 'drizzle-orm';
 import { dateTimeFormat } from '../../shared/date-formats';
+import { keptBy } from '../../shared/kept';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
 import { company } from '../db/schema';
@@ -77,6 +78,16 @@ export async function companyLocale(db: Db | Tx, now = Date.now()): Promise<Comp
 
 /** The calendar date at `at` in a time zone, as an ISO date (agreement terms and ages are local dates). */
 export function localDate(at: Date, timeZone: string): string {
+  // Every zone's offset has been whole minutes since 1972, so from then the date is the same for
+  // every instant of a minute.
+  if (at.getTime() < WHOLE_MINUTE_OFFSETS) return formatLocalDate(at, timeZone);
+  return localDateKept(`${timeZone}|${Math.floor(at.getTime() / 60_000)}`, () => formatLocalDate(at, timeZone));
+}
+
+const localDateKept = keptBy<string>(10_000);
+const WHOLE_MINUTE_OFFSETS = Date.UTC(1973, 0, 1);
+
+function formatLocalDate(at: Date, timeZone: string): string {
   // One cached Intl formatter rather than a luxon zone lookup: lists of visits ask this per row.
   let y = '';
   let m = '';

@@ -1,4 +1,4 @@
-import { and, eq, ne, sql, type SQL } from 'drizzle-orm';
+import { and, eq, ne, sql, type Placeholder, type SQL } from 'drizzle-orm';
 import { AGREEMENT_STATUS_LABELS } from '../../shared/agreements';
 import { EQUIPMENT_KIND_LABELS } from '../../shared/equipment';
 import { formatUsd } from '../../shared/money';
@@ -8,6 +8,7 @@ import { VISIT_REASON_LABELS, VISIT_STATUS_LABELS, windowMissed } from '../../sh
 import type { Db } from '../db/client';
 import { agreements, contacts, customerNotes, customers, equipment, files, invoices, properties } from '../db/schema';
 import { fromJsonRow } from '../db/json-rows';
+import { preparedSql } from '../db/prepared-sql';
 import { toEquipment } from '../equipment/equipment.service';
 import { AppError, conflict, notFound } from '../http/errors';
 import { ownedProperty } from '../http/ownership';
@@ -54,7 +55,7 @@ export type CustomerVisitRow = {
 };
 
 /** A household's visits as one JSON array of CustomerVisitRow, newest window first: a subquery for statements that bring several things. */
-export function customerVisitsJson(customerId: string): SQL {
+export function customerVisitsJson(customerId: string | Placeholder): SQL {
   return sql`(select coalesce(json_agg(x order by x.window_start desc, x.id), '[]') from (
     select v.id, v.property_id, v.kind, v.reason, v.status, v.starts_at, v.window_start, v.window_end, v.completed_at, v.findings, v.recommendations, u.name as technician_name
     from visits v left join technicians t on t.id = v.technician_id left join users u on u.id = t.user_id
@@ -102,36 +103,43 @@ type CustomerPageRow = {
   files: JsonRow[];
 };
 
+// The household with everything it holds, and the company's zone for "today": one statement,
+// with or without what was archived.
+function customerPageSql(p: { id: Placeholder<'id'> }, includeArchived: boolean): SQL {
+  const archived = (t: string) => (includeArchived ? sql`true` : sql.raw(`${t}.archived_at is null`));
+  return sql`
+    select
+      (select to_json(c) from customers c where c.id = ${p.id}) as customer,
+      (select time_zone from company where id = 1) as time_zone,
+      (select coalesce(json_agg(x order by x.is_primary desc, x.created_at), '[]') from contacts x where x.customer_id = ${p.id}) as contacts,
+      (select coalesce(json_agg(x order by x.created_at, x.id), '[]') from properties x where x.customer_id = ${p.id} and ${archived('x')}) as properties,
+      (select coalesce(json_agg(e order by e.created_at, e.id), '[]')
+         from equipment e join properties x on x.id = e.property_id
+         where x.customer_id = ${p.id} and ${archived('x')} and ${archived('e')}) as equipment,
+      (select coalesce(json_agg(json_build_object('a', to_json(a), 'plan', pl.name) order by a.starts_on desc), '[]')
+         from agreements a join plan_versions pv on pv.id = a.plan_version_id join plans pl on pl.id = pv.plan_id
+         where a.customer_id = ${p.id}) as agreements,
+      ${termRowsJson(sql`t.agreement_id in (select a.id from agreements a where a.customer_id = ${p.id})`)} as terms,
+      (select coalesce(json_object_agg(pv.id, pl.name), '{}')
+         from plan_versions pv join plans pl on pl.id = pv.plan_id
+         where pv.id in (select t.plan_version_id from agreement_terms t join agreements a on a.id = t.agreement_id where a.customer_id = ${p.id}
+                         union select a.plan_version_id from agreements a where a.customer_id = ${p.id})) as plan_names,
+      ${customerVisitsJson(p.id)} as visits,
+      (select coalesce(json_agg(x order by x.created_at desc), '[]') from invoices x where x.customer_id = ${p.id}) as invoices,
+      (select coalesce(json_agg(json_build_object('n', to_json(n), 'author', u.name) order by n.created_at desc), '[]')
+         from customer_notes n left join users u on u.id = n.author_user_id where n.customer_id = ${p.id}) as notes,
+      (select coalesce(json_agg(x order by x.created_at desc), '[]') from files x where x.customer_id = ${p.id} and x.archived_at is null) as files`;
+}
+const customerPageStatement = preparedSql<CustomerPageRow, 'id'>('customer_page', ['id'], (p) => customerPageSql(p, false));
+const customerPageWithArchived = preparedSql<CustomerPageRow, 'id'>('customer_page_archived', ['id'], (p) => customerPageSql(p, true));
+
 /** Everything about one household, with one timeline across its records (newest first). */
 export async function getCustomer(deps: Pick<AppDeps, 'database' | 'clock'>, id: string, opts: { includeArchived?: boolean } = {}): Promise<CustomerDetail> {
   const { db } = deps.database;
   const now = deps.clock();
-  // The household with everything it holds, and the company's zone for "today": one statement.
-  const archived = (t: string) => (opts.includeArchived ? sql`true` : sql.raw(`${t}.archived_at is null`));
   const {
     rows: [r],
-  } = await db.execute<CustomerPageRow>(sql`
-    select
-      (select to_json(c) from customers c where c.id = ${id}) as customer,
-      (select time_zone from company where id = 1) as time_zone,
-      (select coalesce(json_agg(x order by x.is_primary desc, x.created_at), '[]') from contacts x where x.customer_id = ${id}) as contacts,
-      (select coalesce(json_agg(x order by x.created_at, x.id), '[]') from properties x where x.customer_id = ${id} and ${archived('x')}) as properties,
-      (select coalesce(json_agg(e order by e.created_at, e.id), '[]')
-         from equipment e join properties x on x.id = e.property_id
-         where x.customer_id = ${id} and ${archived('x')} and ${archived('e')}) as equipment,
-      (select coalesce(json_agg(json_build_object('a', to_json(a), 'plan', pl.name) order by a.starts_on desc), '[]')
-         from agreements a join plan_versions pv on pv.id = a.plan_version_id join plans pl on pl.id = pv.plan_id
-         where a.customer_id = ${id}) as agreements,
-      ${termRowsJson(sql`t.agreement_id in (select a.id from agreements a where a.customer_id = ${id})`)} as terms,
-      (select coalesce(json_object_agg(pv.id, pl.name), '{}')
-         from plan_versions pv join plans pl on pl.id = pv.plan_id
-         where pv.id in (select t.plan_version_id from agreement_terms t join agreements a on a.id = t.agreement_id where a.customer_id = ${id}
-                         union select a.plan_version_id from agreements a where a.customer_id = ${id})) as plan_names,
-      ${customerVisitsJson(id)} as visits,
-      (select coalesce(json_agg(x order by x.created_at desc), '[]') from invoices x where x.customer_id = ${id}) as invoices,
-      (select coalesce(json_agg(json_build_object('n', to_json(n), 'author', u.name) order by n.created_at desc), '[]')
-         from customer_notes n left join users u on u.id = n.author_user_id where n.customer_id = ${id}) as notes,
-      (select coalesce(json_agg(x order by x.created_at desc), '[]') from files x where x.customer_id = ${id} and x.archived_at is null) as files`);
+  } = await (opts.includeArchived ? customerPageWithArchived : customerPageStatement)(db, { id });
   if (!r?.customer) throw notFound('That household');
   if (r.time_zone === null) throw notSetUp();
   const c = fromJsonRow(customers, r.customer);

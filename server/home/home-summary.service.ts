@@ -13,6 +13,7 @@ import { assembleTerms, termRowsJson, type TermRow } from '../agreements/term-in
 import { customerVisit, customerVisitsJson, type CustomerVisitRow } from '../customers/customer-page';
 import type { AppDeps } from '../deps';
 import { notFound } from '../http/errors';
+import { preparedSql } from '../db/prepared-sql';
 
 const SHOWN = ['active', 'renewal_due', 'past_due', 'lapsed'] as const;
 
@@ -32,20 +33,12 @@ type SummaryRow = {
   waiting: { count: number; firstId: string | null };
 };
 
-/**
- * What the homeowner asks first: the plan and when it ends, the tune-ups left this season, the
- * next visit, what is owed and the quotes waiting for an answer. A fixed number of statements, whatever the household holds.
- */
-export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<HomeSummary> {
-  const { db } = deps.database;
-  const customerId = user.customerId;
-  if (!customerId) throw notFound('Your household');
-  const now = deps.clock();
-  // The company's settings, the agreements with their plans and terms, the visits, what is owed
-  // and the quotes waiting: one statement, one round trip, whatever the household holds.
-  const {
-    rows: [r],
-  } = await db.execute<SummaryRow>(sql`
+// The company's settings, the agreements with their plans and terms, the visits, what is owed and
+// the quotes waiting: one statement, one round trip, whatever the household holds.
+const summaryStatement = preparedSql<SummaryRow, 'customerId'>(
+  'home_summary',
+  ['customerId'],
+  (p) => sql`
     select
       (select json_build_object('timeZone', ${company.timeZone}, 'coolingStartMonth', ${company.coolingStartMonth},
                                 'heatingStartMonth', ${company.heatingStartMonth}, 'diagnosticFeeCents', ${company.diagnosticFeeCents})
@@ -62,13 +55,27 @@ export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, use
        join ${planVersions} on ${planVersions.id} = ${agreements.planVersionId}
        join ${plans} on ${plans.id} = ${planVersions.planId}
        join ${properties} on ${properties.id} = ${agreements.propertyId}
-       where ${agreements.customerId} = ${customerId} and ${inArray(agreements.status, [...SHOWN])}) as agreements,
-      ${customerVisitsJson(customerId)} as visits,
+       where ${agreements.customerId} = ${p.customerId} and ${inArray(agreements.status, [...SHOWN])}) as agreements,
+      ${customerVisitsJson(p.customerId)} as visits,
       (select json_build_object('count', count(*), 'balance', coalesce(sum(greatest(${invoices.totalCents} - ${invoices.paidCents}, 0)), 0),
                                 'firstId', (array_agg(${invoices.id} order by ${invoices.issuedAt}))[1])
-         from ${invoices} where ${invoices.customerId} = ${customerId} and ${invoices.status} = 'open') as owed,
+         from ${invoices} where ${invoices.customerId} = ${p.customerId} and ${invoices.status} = 'open') as owed,
       (select json_build_object('count', count(*), 'firstId', (array_agg(${quotes.id} order by ${quotes.sentAt}))[1])
-         from ${quotes} where ${quotes.customerId} = ${customerId} and ${quotes.status} = 'sent') as waiting`);
+         from ${quotes} where ${quotes.customerId} = ${p.customerId} and ${quotes.status} = 'sent') as waiting`,
+);
+
+/**
+ * What the homeowner asks first: the plan and when it ends, the tune-ups left this season, the
+ * next visit, what is owed and the quotes waiting for an answer. A fixed number of statements, whatever the household holds.
+ */
+export async function homeSummary(deps: Pick<AppDeps, 'database' | 'clock'>, user: SessionUser): Promise<HomeSummary> {
+  const { db } = deps.database;
+  const customerId = user.customerId;
+  if (!customerId) throw notFound('Your household');
+  const now = deps.clock();
+  const {
+    rows: [r],
+  } = await summaryStatement(db, { customerId });
   if (!r?.company) throw notSetUp();
   const co = r.company;
   const today = localDate(now, co.timeZone);
