@@ -31,6 +31,27 @@ describe('session and staff sign-in', () => {
     expect(res.body.user).toMatchObject({ email: OWNER, role: 'owner', customerId: null });
   });
 
+  it('sends the session cookie again after a minute of use, so its expiry follows the idle clock, and not with every answer', async () => {
+    let now = Date.parse('2031-03-03T15:00:00Z');
+    const timed = testApp({ clock: () => new Date(now) });
+    try {
+      const { agent } = await signInStaff(timed, OWNER);
+      const sid = (res: { headers: Record<string, unknown> }) => ((res.headers['set-cookie'] as string[] | undefined) ?? []).find((c) => c.startsWith('sw.sid='));
+      now += 10_000;
+      const soon = await agent.get('/api/session').expect(200);
+      expect(soon.body.user).toMatchObject({ email: OWNER });
+      expect(sid(soon), 'nothing to save within the minute').toBeUndefined();
+      now += 60_000;
+      const later = await agent.get('/api/session').expect(200);
+      expect(sid(later)).toMatch(/Expires=/);
+      // The staff idle limit (30 minutes) counts from that request, not from signing in.
+      now += 29 * 60_000;
+      expect((await agent.get('/api/session').expect(200)).body.user).toMatchObject({ email: OWNER });
+    } finally {
+      await timed.close();
+    }
+  });
+
   it('rejects a wrong password with 401 and a field error', async () => {
     const { agent, csrf } = await anonymous(ctx);
     const res = await agent.post('/api/auth/staff/sign-in').set('X-XSRF-TOKEN', csrf).send({ email: TECH, password: 'not-the-right-one-2026' });

@@ -148,7 +148,9 @@ export function authMiddleware(deps: AppDeps, csrfExemptMounts: string[]): Route
       }),
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      // The cookie is sent again when the session is saved (lastSeenAt moves once a minute), not on
+      // every answer: its expiry trails the server's own idle clock by at most a minute.
+      rolling: false,
       proxy: true,
       cookie: { httpOnly: true, sameSite: 'lax', secure: config.production, path: '/', maxAge: ANONYMOUS_IDLE_MS },
     }),
