@@ -39,7 +39,7 @@ const HOUSEHOLDS = Number(process.env.BENCH_HOUSEHOLDS ?? 2000);
 const TECHS = 20;
 const VISITS = 2000;
 const DAYS = 30;
-const ENGINE_RUNS = Number(process.env.BENCH_RUNS ?? 15);
+const ENGINE_RUNS = Number(process.env.BENCH_RUNS ?? 31);
 // A comma-separated list of route names to run alone (while working on one); all by default.
 const ONLY = process.env.BENCH_ROUTES?.split(',')
   .map((s) => s.trim())

@@ -75,7 +75,7 @@ interface KeptBoard {
 }
 
 // Boards kept per process and database: a day or a week for each filter the office uses.
-const MAX_BOARDS = 64;
+const MAX_BOARDS = 32;
 const keptBoards = new WeakMap<Db, Map<string, KeptBoard>>();
 
 function boardAnswer(body: string): BoardAnswer {
