@@ -1,14 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import { eq, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
-import pg from 'pg';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createDatabase } from '../server/db/client';
-import { runMigrations } from '../server/db/migrate';
 import * as t from '../server/db/schema';
 import { seedDemo } from '../server/db/seed/seed';
 import { testApp, type TestContext } from './support/app';
 import { signInStaff, type Signed } from './support/auth';
+import { scratchDatabase, type ScratchDatabase } from './support/scratch-db';
 
 // The dispatch board is kept per process while the board's version holds (triggers bump it at the
 // commit of every write the board shows) and until a visit on it changes with the clock alone.
@@ -91,17 +90,11 @@ async function scene(opts: { queued?: boolean; hour?: number } = {}) {
 
 const onBoard = (board: Board, id: string) => [...board.visits, ...board.unassigned].find((v) => v.id === id);
 
-let admin: pg.Client;
-let dbName: string;
+let scratch: ScratchDatabase | undefined;
 
 beforeAll(async () => {
-  admin = new pg.Client({ connectionString: inject('databaseUrl') });
-  await admin.connect();
-  dbName = `sw_board_${process.pid}_${Date.now().toString(36)}`;
-  await admin.query(`create database ${dbName}`);
-  const url = new URL(inject('databaseUrl'));
-  url.pathname = `/${dbName}`;
-  await runMigrations(url.toString());
+  scratch = await scratchDatabase('board');
+  const url = new URL(scratch.url);
   const seeding = createDatabase(url.toString(), 2);
   await seedDemo(seeding.db, DateTime.fromISO('2032-01-05T09:00', { zone: 'America/Chicago' }));
   await seeding.close();
@@ -116,8 +109,7 @@ beforeAll(async () => {
 afterAll(async () => {
   await a?.close();
   await b?.close();
-  if (dbName) await admin.query(`drop database if exists ${dbName} with (force)`);
-  await admin?.end();
+  await scratch?.drop();
 }, 60_000);
 
 describe('the kept dispatch board', () => {

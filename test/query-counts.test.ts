@@ -1,11 +1,10 @@
 import { DateTime } from 'luxon';
-import pg from 'pg';
+import type pg from 'pg';
 import { pino } from 'pino';
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../server/app';
 import { loadConfig } from '../server/config';
 import { createDatabase, type Database } from '../server/db/client';
-import { runMigrations } from '../server/db/migrate';
 import { seedDemo } from '../server/db/seed/seed';
 import { DEMO_HOMEOWNERS, STAFF } from '../server/db/seed/scenario';
 import { REPORTS } from '../shared/schemas/reports';
@@ -14,6 +13,7 @@ import { registerJobs } from '../server/jobs/register';
 import { furnishHouseholds, generateCalendar, generateHouseholds } from '../scripts/bench/lib/data';
 import { CSRF_HEADER_NAME, signInHomeowner, signInStaff, type Signed } from './support/auth';
 import { localFakes } from './support/fakes';
+import { scratchDatabase, type ScratchDatabase } from './support/scratch-db';
 
 // Each key route issues a fixed number of SQL statements, whatever the data size: measured at the
 // demo's households, then again after growing the same database to 10,000 households with a
@@ -55,8 +55,7 @@ const EXPECTED: Record<string, number> = {
   'parts-to-load': 2,
 };
 
-let admin: pg.Client;
-let dbName: string;
+let scratch: ScratchDatabase | undefined;
 let database: Database;
 let deps: AppDeps;
 let ctx: { app: ReturnType<typeof createApp>; deps: AppDeps };
@@ -136,13 +135,8 @@ async function furnish(pool: pg.Pool): Promise<void> {
 }
 
 beforeAll(async () => {
-  admin = new pg.Client({ connectionString: inject('databaseUrl') });
-  await admin.connect();
-  dbName = `sw_counts_${process.pid}_${Date.now().toString(36)}`;
-  await admin.query(`create database ${dbName}`);
-  const url = new URL(inject('databaseUrl'));
-  url.pathname = `/${dbName}`;
-  await runMigrations(url.toString());
+  scratch = await scratchDatabase('counts');
+  const url = new URL(scratch.url);
   database = createDatabase(url.toString(), 5);
   database.pool.on('connect', (client) => {
     const query = client.query.bind(client) as (...args: unknown[]) => unknown;
@@ -172,8 +166,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await database?.close();
-  if (dbName) await admin.query(`drop database if exists ${dbName} with (force)`);
-  await admin?.end();
+  await scratch?.drop();
 });
 
 describe('statements per request', () => {

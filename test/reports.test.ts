@@ -1,18 +1,17 @@
 import { DateTime } from 'luxon';
 import Papa from 'papaparse';
-import pg from 'pg';
 import { pino } from 'pino';
-import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../server/app';
 import { hashPassword } from '../server/auth/passwords';
 import { loadConfig } from '../server/config';
 import { createDatabase, type Database } from '../server/db/client';
-import { runMigrations } from '../server/db/migrate';
 import { DEMO_STAFF_PASSWORD } from '../server/db/seed/scenario';
 import type { AppDeps } from '../server/deps';
 import { registerJobs } from '../server/jobs/register';
 import { signInStaff, type Signed } from './support/auth';
 import { localFakes } from './support/fakes';
+import { scratchDatabase, type ScratchDatabase } from './support/scratch-db';
 
 // Each report against numbers worked out by hand from a small data set written below, on this
 // file's own database (reports read the whole company, so other tests' rows would leak in).
@@ -21,8 +20,7 @@ const TZ = 'America/Chicago';
 const NOW = DateTime.fromISO('2031-06-10T12:00', { zone: TZ });
 const at = (local: string) => DateTime.fromISO(local, { zone: TZ }).toUTC().toISO()!;
 
-let admin: pg.Client;
-let dbName: string;
+let scratch: ScratchDatabase | undefined;
 let database: Database;
 let office: Signed;
 let ids: Record<string, string> = {};
@@ -224,13 +222,8 @@ async function fixture(): Promise<void> {
 }
 
 beforeAll(async () => {
-  admin = new pg.Client({ connectionString: inject('databaseUrl') });
-  await admin.connect();
-  dbName = `sw_reports_${process.pid}_${Date.now().toString(36)}`;
-  await admin.query(`create database ${dbName}`);
-  const url = new URL(inject('databaseUrl'));
-  url.pathname = `/${dbName}`;
-  await runMigrations(url.toString());
+  scratch = await scratchDatabase('reports');
+  const url = new URL(scratch.url);
   database = createDatabase(url.toString(), 3);
   await fixture();
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: url.toString(), LOG_LEVEL: 'silent' });
@@ -241,8 +234,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await database?.close();
-  if (dbName) await admin.query(`drop database if exists ${dbName} with (force)`);
-  await admin?.end();
+  await scratch?.drop();
 });
 
 const get = (path: string) => office.agent.get(path);
