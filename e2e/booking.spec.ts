@@ -100,6 +100,12 @@ test('a plan member books a no-cooling visit, the office assigns it, and the hom
   await office.getByRole('menuitem', { name: `Assign to ${held}` }).click();
   await expect(office.getByText(`Assigned to ${held}.`)).toBeVisible();
   await expect(office.getByRole('region', { name: held }).getByRole('article', { name: 'No cooling for Oduya household' })).toBeVisible();
+  // The next look at the board (a reload, another office screen) reads the board the server keeps:
+  // the visit is still assigned, and no longer waits in the queue.
+  await office.reload();
+  await office.getByLabel('Date').fill(visitDate);
+  await expect(office.getByRole('region', { name: held }).getByRole('article', { name: 'No cooling for Oduya household' })).toBeVisible();
+  await expect(queue.getByRole('article', { name: 'No cooling for Oduya household' })).toHaveCount(0);
 
   const update = await latestMail(HOMEOWNER, { after: assigned - 1000, subject: /scheduled/ });
   expect(update.subject).toBe('Your visit is scheduled');
