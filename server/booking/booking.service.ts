@@ -22,6 +22,7 @@ import { assertCustomerAccess, isStaffOffice } from '../auth/access';
 import type { Db, Tx } from '../db/client';
 import { agreements, customers, equipment, plans, planVersions, properties, scheduleVersion, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
+import { oncePerDatabase } from '../db/prepared-sql';
 import { assertOwnedRow } from '../http/ownership';
 import { sendVisitMail } from './booking.mail';
 import { COMPANY_COUNTRY } from '../company/company';
@@ -105,10 +106,8 @@ function propertyView(
 
 // Built once per database and sent as a prepared statement: offers are asked for all the time,
 // and building this select anew cost more than running it.
-const propertyQueries = new WeakMap<Db, ReturnType<typeof propertyQuery>>();
-
-function propertyQuery(db: Db) {
-  return db
+const propertyQuery = oncePerDatabase((db) =>
+  db
     .select({
       id: properties.id,
       customerId: properties.customerId,
@@ -137,13 +136,11 @@ function propertyQuery(db: Db) {
     .innerJoin(customers, eq(customers.id, properties.customerId))
     .where(eq(properties.id, sql.placeholder('propertyId')))
     .limit(1)
-    .prepare('property_context');
-}
+    .prepare('property_context'),
+);
 
 export async function propertyContext(db: Db, user: SessionUser, propertyId: string, reason: VisitReason): Promise<PropertyContext> {
-  let query = propertyQueries.get(db);
-  if (!query) propertyQueries.set(db, (query = propertyQuery(db)));
-  const [p] = await query.execute({ propertyId });
+  const [p] = await propertyQuery(db).execute({ propertyId });
   await assertOwnedRow(db, user, p, 'propertyId', { what: 'That property' });
   const plan = p.planName !== null && p.planHours !== null ? { planName: p.planName, hours: p.planHours } : undefined;
   return {
@@ -286,8 +283,7 @@ export async function windowsFor(deps: Pick<AppDeps, 'database' | 'clock'>, user
       windows = availableWindows(call.input);
     } else {
       // New bookings: from this process's snapshot of the schedule while its version (read with the
-      // property) is current.
-      // The schedule is narrowed to the days asked only when the engine has to answer anew.
+      // property) is current, narrowed to the days asked only when the engine has to answer anew.
       const now = minuteAfter(deps.clock());
       const snap = await scheduleSnapshot(db, (tz) => engineSpan(tz, now, q.from, q.days).range, property.scheduleVersion);
       call = await engineInput(db, now, property, q.reason, q.from, q.days, undefined, 0, { company: snap.company, schedule: async () => snap.data });

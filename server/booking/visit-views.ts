@@ -122,10 +122,11 @@ export function labelFor(start: Date, end: Date, timeZone: string): string {
  * that passed unstarted is flagged). Kept beside `toView` so that a view kept until then is exact.
  */
 export function viewChangesAt(r: Pick<VisitRow, 'status' | 'windowStart' | 'windowEnd'>, ctx: { cancelCutoffHours: number; now: Date }): number {
-  if (r.status !== 'requested' && r.status !== 'scheduled') return Infinity;
-  const now = ctx.now.getTime();
-  const later = [changeCutoff(r, ctx).getTime(), r.windowEnd.getTime()].filter((t) => t > now);
-  return later.length ? Math.min(...later) : Infinity;
+  // Asked of the same rules toView uses, at the only instants either can turn.
+  const flags = (at: Date) => `${canChangeOnline(r, ctx, at)}|${windowMissed(r, at)}`;
+  const now = flags(ctx.now);
+  const turns = [changeCutoff(r, ctx).getTime(), r.windowEnd.getTime()].filter((t) => t > ctx.now.getTime() && flags(new Date(t)) !== now);
+  return turns.length ? Math.min(...turns) : Infinity;
 }
 
 export function toView(r: VisitRow, ctx: { timeZone: string; cancelCutoffHours: number; phone: string; now: Date }): VisitView {

@@ -8,6 +8,16 @@ const dialect = new PgDialect({ casing: 'snake_case' });
 type Placeholders<K extends string> = { [P in K]: Placeholder<P> };
 type Prepared = { execute(values: Record<string, unknown>): Promise<unknown> };
 
+/** `make(db)` once per database (a prepared query, say), kept for as long as the database object lives. */
+export function oncePerDatabase<T>(make: (db: Db) => T): (db: Db) => T {
+  const kept = new WeakMap<Db, T>();
+  return (db) => {
+    let value = kept.get(db);
+    if (value === undefined) kept.set(db, (value = make(db)));
+    return value;
+  };
+}
+
 /**
  * A raw statement for a hot route, built once per database with named placeholders and then only
  * run with values. Building a large `sql` template walks every column and subquery it names, and
@@ -19,14 +29,9 @@ export function preparedSql<Row extends Record<string, unknown>, K extends strin
   keys: readonly K[],
   build: (p: Placeholders<K>) => SQL,
 ): (db: Db, values: Record<K, unknown>) => Promise<{ rows: Row[] }> {
-  const kept = new WeakMap<Db, Prepared>();
-  return async (db, values) => {
-    let prepared = kept.get(db);
-    if (!prepared) {
-      const p = Object.fromEntries(keys.map((k) => [k, sql.placeholder(k)])) as Placeholders<K>;
-      prepared = db._.session.prepareQuery(dialect.sqlToQuery(build(p)), undefined, name, false) as Prepared;
-      kept.set(db, prepared);
-    }
-    return (await prepared.execute(values)) as { rows: Row[] };
-  };
+  const prepared = oncePerDatabase((db): Prepared => {
+    const p = Object.fromEntries(keys.map((k) => [k, sql.placeholder(k)])) as Placeholders<K>;
+    return db._.session.prepareQuery(dialect.sqlToQuery(build(p)), undefined, name, false) as Prepared;
+  });
+  return async (db, values) => (await prepared(db).execute(values)) as { rows: Row[] };
 }

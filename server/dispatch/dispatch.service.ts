@@ -20,7 +20,7 @@ import { loadVisitRow, requiredSkillFor } from '../booking/booking.service';
 import { loadCompanySettings, technicianHoursToWeekly } from '../booking/scheduling-input';
 import { deleteTimeOff, insertTimeOff } from '../booking/time-off';
 import { toView, viewChangesAt, visitRows, type VisitRow } from '../booking/visit-views';
-import type { Db } from '../db/client';
+import { oncePerDatabase } from '../db/prepared-sql';
 import { boardVersion, customers, equipment, properties, technicianTimeOff, technicians, users, visitEvents, visits } from '../db/schema';
 import { AppError, notFound } from '../http/errors';
 import { changeVisitStatus, refusedTransition } from '../visits/visit-status';
@@ -76,7 +76,7 @@ interface KeptBoard {
 
 // Boards kept per process and database: a day or a week for each filter the office uses.
 const MAX_BOARDS = 32;
-const keptBoards = new WeakMap<Db, Map<string, KeptBoard>>();
+const keptBoards = oncePerDatabase(() => new Map<string, KeptBoard>());
 
 function boardAnswer(body: string): BoardAnswer {
   let zipped: Buffer | undefined;
@@ -95,8 +95,7 @@ export async function keptBoard(deps: Pick<AppDeps, 'database' | 'clock'>, q: z.
   const [row] = await db.select({ version: boardVersion.version }).from(boardVersion).limit(1);
   const version = Number(row?.version ?? 0);
   const key = JSON.stringify([q.from, q.days, q.kind ?? null, q.area ?? null, q.technicianId ?? null]);
-  let boards = keptBoards.get(db);
-  if (!boards) keptBoards.set(db, (boards = new Map()));
+  const boards = keptBoards(db);
   const now = deps.clock().getTime();
   const kept = boards.get(key);
   if (kept && kept.version === version && kept.builtAt <= now && now < kept.validUntil) return kept.answer;
